@@ -1,0 +1,64 @@
+namespace GateTasks.Engine.Diagnostics;
+
+/// <summary>
+/// Stable error codes. GATE0xxx set-up and usage, GATE1xxx contract, GATE2xxx sample and reference input,
+/// GATE3xxx drift (a check that did not pass). Documented in docs/error-codes.md; never renumber.
+/// </summary>
+public static class ErrorCodes
+{
+    /// <summary>Command-line usage error.</summary>
+    public const string Usage = "GATE0001";
+    /// <summary>An output (report, reference) could not be written.</summary>
+    public const string OutputNotWritable = "GATE0002";
+
+    /// <summary>The contract file does not exist or cannot be read.</summary>
+    public const string ContractNotFound = "GATE1001";
+    /// <summary>The contract is not well-formed YAML.</summary>
+    public const string ContractSyntax = "GATE1002";
+    /// <summary>A key the schema does not know.</summary>
+    public const string ContractUnknownKey = "GATE1003";
+    /// <summary>A value of the wrong type or out of range.</summary>
+    public const string ContractBadValue = "GATE1004";
+    /// <summary>A required key is absent.</summary>
+    public const string ContractMissingKey = "GATE1005";
+    /// <summary>Two features share a name.</summary>
+    public const string ContractDuplicateFeature = "GATE1006";
+    /// <summary>A feature names a column the sample or reference does not have.</summary>
+    public const string ContractUnknownColumn = "GATE1007";
+    /// <summary>The contract's schema version is not supported.</summary>
+    public const string ContractVersion = "GATE1008";
+
+    /// <summary>No sample file matches, or a sample file does not exist.</summary>
+    public const string SampleNotFound = "GATE2001";
+    /// <summary>A sample file is corrupt or not in a supported format.</summary>
+    public const string SampleUnreadable = "GATE2002";
+    /// <summary>A column has a type that cannot be read as numbers.</summary>
+    public const string SampleColumnType = "GATE2003";
+    /// <summary>A column requested from a sample is not present in one of its files.</summary>
+    public const string SampleColumnMissing = "GATE2004";
+    /// <summary>The sample has no events.</summary>
+    public const string SampleEmpty = "GATE2005";
+    /// <summary>A CSV cell is not a number.</summary>
+    public const string SampleCsvValue = "GATE2006";
+    /// <summary>The weight column holds a non-finite value.</summary>
+    public const string SampleBadWeight = "GATE2007";
+    /// <summary>The reference file does not exist.</summary>
+    public const string ReferenceNotFound = "GATE2101";
+    /// <summary>The reference file is corrupt or of an unsupported format version.</summary>
+    public const string ReferenceUnreadable = "GATE2102";
+    /// <summary>The reference lacks a feature the contract checks, or was built with other binning.</summary>
+    public const string ReferenceMismatch = "GATE2103";
+
+    /// <summary>Kolmogorov–Smirnov distance above tolerance.</summary>
+    public const string DriftKolmogorovSmirnov = "GATE3001";
+    /// <summary>Normalised Wasserstein-1 distance above tolerance.</summary>
+    public const string DriftWasserstein = "GATE3002";
+    /// <summary>χ² homogeneity p-value below its floor.</summary>
+    public const string DriftChiSquare = "GATE3003";
+    /// <summary>Bin ratio outside tolerance in the core region.</summary>
+    public const string DriftRatioCore = "GATE3004";
+    /// <summary>Bin ratio outside tolerance in the tail regions.</summary>
+    public const string DriftRatioTails = "GATE3005";
+    /// <summary>Jensen–Shannon divergence above tolerance.</summary>
+    public const string DriftJensenShannon = "GATE3006";
+}

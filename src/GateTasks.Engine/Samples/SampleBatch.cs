@@ -1,0 +1,23 @@
+namespace GateTasks.Engine.Samples;
+
+/// <summary>A block of rows of the requested columns, converted to doubles.</summary>
+internal sealed class SampleBatch
+{
+    private readonly double[][] _columns;
+
+    /// <summary>Creates a batch over column buffers; each buffer holds at least <paramref name="rowCount"/> values.</summary>
+    public SampleBatch(double[][] columns, int rowCount)
+    {
+        _columns = columns;
+        RowCount = rowCount;
+    }
+
+    /// <summary>Rows in this batch.</summary>
+    public int RowCount { get; }
+
+    /// <summary>Number of columns (in the order they were requested).</summary>
+    public int ColumnCount => _columns.Length;
+
+    /// <summary>The values of the <paramref name="index"/>-th requested column.</summary>
+    public ReadOnlySpan<double> Column(int index) => _columns[index].AsSpan(0, RowCount);
+}
