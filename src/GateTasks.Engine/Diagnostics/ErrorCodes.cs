@@ -61,4 +61,6 @@ public static class ErrorCodes
     public const string DriftRatioTails = "GATE3005";
     /// <summary>Jensen–Shannon divergence above tolerance.</summary>
     public const string DriftJensenShannon = "GATE3006";
+    /// <summary>Bin ratio outside tolerance over all bins (a tolerance not split into core and tails).</summary>
+    public const string DriftRatioAll = "GATE3007";
 }

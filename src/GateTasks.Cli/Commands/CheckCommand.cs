@@ -1,0 +1,58 @@
+using System.CommandLine;
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Reports;
+
+namespace GateTasks.Cli.Commands;
+
+/// <summary><c>gatetasks check</c>: judges a surrogate sample against the contract's reference.</summary>
+internal static class CheckCommand
+{
+    public static Command Create(TextWriter stdout, TextWriter stderr)
+    {
+        var contract = new Option<string>("--contract", "-c")
+        {
+            Description = "Precision contract (YAML).",
+            DefaultValueFactory = _ => PrecisionContract.DefaultFileName,
+        };
+        var sample = new Option<string?>("--sample", "-s")
+        {
+            Description = "Surrogate sample to check instead of the contract's: a Parquet or CSV file, a folder, or a glob.",
+        };
+        var junit = new Option<string?>("--junit")
+        {
+            Description = "Also write a JUnit XML report to this path.",
+        };
+        var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed; 2: input error.")
+        {
+            contract, sample, junit,
+        };
+        command.SetAction(parse => CliApp.Guard(stderr, () =>
+        {
+            var loaded = ContractLoader.Load(parse.GetValue(contract)!);
+            var report = ContractCheck.Run(loaded, parse.GetValue(sample));
+            return Print(report, parse.GetValue(junit), stdout, stderr);
+        }));
+        return command;
+    }
+
+    /// <summary>Prints the table, one diagnostic line per failed check, the summary; writes the JUnit report.</summary>
+    public static int Print(CheckReport report, string? junitPath, TextWriter stdout, TextWriter stderr)
+    {
+        stdout.WriteLine($"contract  {report.Contract.FilePath}");
+        stdout.WriteLine($"reference {report.ReferencePath} (sha256 {report.ReferenceSha256[..12]}…)");
+        stdout.WriteLine($"sample    {string.Join(", ", report.SampleFiles)}");
+        stdout.WriteLine();
+        stdout.Write(ResultTable.Format(report));
+        stdout.WriteLine();
+        foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Fail))
+            stderr.WriteLine($"{o.Check.Location}: error {CheckEvaluator.DriftCode(o.Check)}: feature '{o.Feature.Name}' {o.Check.Label}: {o.Summary}");
+        if (junitPath is not null)
+        {
+            JUnitReport.Write(junitPath, [report]);
+            stdout.WriteLine($"JUnit report: {Path.GetFullPath(junitPath)}");
+        }
+        stdout.WriteLine(ResultTable.Summary(report));
+        return report.Passed ? ExitCodes.Success : ExitCodes.ChecksFailed;
+    }
+}

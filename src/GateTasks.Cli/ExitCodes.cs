@@ -1,0 +1,17 @@
+namespace GateTasks.Cli;
+
+/// <summary>Process exit codes; documented in docs/cli.md.</summary>
+internal static class ExitCodes
+{
+    /// <summary>Every check passed (or the command succeeded).</summary>
+    public const int Success = 0;
+
+    /// <summary>At least one check failed: the surrogate drifted outside its tolerances.</summary>
+    public const int ChecksFailed = 1;
+
+    /// <summary>Usage or input error: bad arguments, contract, sample or reference. Nothing was judged.</summary>
+    public const int InputError = 2;
+
+    /// <summary>An internal error (a bug in GateTasks); nothing was judged.</summary>
+    public const int InternalError = 3;
+}

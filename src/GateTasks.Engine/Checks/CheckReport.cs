@@ -1,0 +1,28 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.References;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>Everything one run of a contract produced: what was compared and each check's outcome.</summary>
+internal sealed record CheckReport(
+    PrecisionContract Contract,
+    string ReferencePath,
+    string ReferenceSha256,
+    ReferenceHistograms Reference,
+    IReadOnlyList<string> SampleFiles,
+    long Events,
+    double SumW,
+    double SumW2,
+    IReadOnlyList<CheckOutcome> Outcomes,
+    DateTimeOffset StartedUtc,
+    TimeSpan Elapsed)
+{
+    /// <summary>Kish (1965) effective number of surrogate events.</summary>
+    public double EffectiveEvents => SumW2 > 0 ? SumW * SumW / SumW2 : 0;
+
+    /// <summary>Number of failed checks.</summary>
+    public int Failures => Outcomes.Count(o => o.Verdict == Verdict.Fail);
+
+    /// <summary>True when every check passed.</summary>
+    public bool Passed => Failures == 0;
+}

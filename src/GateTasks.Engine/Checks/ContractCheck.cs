@@ -1,0 +1,138 @@
+using System.Diagnostics;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Histograms;
+using GateTasks.Engine.IO;
+using GateTasks.Engine.References;
+using GateTasks.Engine.Samples;
+using GateTasks.Engine.Statistics;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>
+/// Checks a surrogate sample against a contract's reference: validates that contract, reference and sample
+/// fit together, streams the sample once (batch by batch) into histograms with the reference's binning,
+/// and evaluates every check.
+/// </summary>
+internal static class ContractCheck
+{
+    /// <summary>Runs the contract. <paramref name="samplePath"/> overrides the contract's sample (relative to the working directory).</summary>
+    public static CheckReport Run(PrecisionContract contract, string? samplePath = null)
+    {
+        var started = DateTimeOffset.UtcNow;
+        var clock = Stopwatch.StartNew();
+        var referencePath = contract.ReferenceFullPath;
+        var reference = ReferenceFile.Read(referencePath, contract.ReferenceLocation);
+        var referenceSha = FileDigest.Sha256(referencePath);
+
+        var references = contract.Features.Select(f => MatchReference(reference, f, referencePath)).ToList();
+        var cores = contract.Features.Select((f, i) => RegionBins.Core(references[i], f)).ToList();
+
+        var files = samplePath is null
+            ? ResolveContractSample(contract)
+            : SampleFiles.Resolve(samplePath, Directory.GetCurrentDirectory());
+        using var sample = Sample.Open(files);
+        ValidateColumns(contract, sample);
+
+        var columns = contract.Features.Select(f => f.Column).Distinct(StringComparer.Ordinal).ToList();
+        var columnOf = contract.Features.Select(f => columns.IndexOf(f.Column)).ToArray();
+        var weightColumn = contract.Sample.Weight;
+        var weightIndex = -1;
+        if (weightColumn is not null)
+        {
+            weightIndex = columns.IndexOf(weightColumn);
+            if (weightIndex < 0) { columns.Add(weightColumn); weightIndex = columns.Count - 1; }
+        }
+
+        var n = contract.Features.Count;
+        var histograms = references.Select(r => new Histogram(r.Histogram.Axis)).ToArray();
+        var moments = new WeightedMoments[n];
+        for (var i = 0; i < n; i++) moments[i] = new WeightedMoments();
+        var min = Enumerable.Repeat(double.PositiveInfinity, n).ToArray();
+        var max = Enumerable.Repeat(double.NegativeInfinity, n).ToArray();
+        long events = 0;
+        double sumW = 0, sumW2 = 0;
+        foreach (var batch in sample.ReadBatches(columns))
+        {
+            var weights = weightIndex >= 0 ? batch.Column(weightIndex) : ReadOnlySpan<double>.Empty;
+            EventWeights.Validate(weights, weightColumn, sample, events);
+            for (var r = 0; r < batch.RowCount; r++)
+            {
+                var w = weights.IsEmpty ? 1.0 : weights[r];
+                sumW += w;
+                sumW2 += w * w;
+            }
+            events += batch.RowCount;
+            for (var i = 0; i < n; i++)
+            {
+                var values = batch.Column(columnOf[i]);
+                histograms[i].Fill(values, weights);
+                for (var r = 0; r < values.Length; r++)
+                {
+                    var x = values[r];
+                    if (double.IsNaN(x)) continue;
+                    moments[i].Add(x, weights.IsEmpty ? 1.0 : weights[r]);
+                    if (x < min[i]) min[i] = x;
+                    if (x > max[i]) max[i] = x;
+                }
+            }
+        }
+        if (events == 0)
+            throw new GateInputException(ErrorCodes.SampleEmpty,
+                $"The surrogate sample has no events ({string.Join(", ", files.Select(Path.GetFileName))}).", contract.Sample.PathLocation);
+
+        var outcomes = new List<CheckOutcome>();
+        for (var i = 0; i < n; i++)
+        {
+            var m = moments[i];
+            var summary = new FeatureSummary(m.Count, m.SumW, m.SumW2, m.Mean, m.StandardDeviation, min[i], max[i], histograms[i].NanEntries);
+            var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], summary, cores[i]);
+            foreach (var check in contract.Features[i].Checks) outcomes.Add(CheckEvaluator.Evaluate(comparison, check));
+        }
+
+        return new CheckReport(contract, referencePath, referenceSha, reference, files, events, sumW, sumW2, outcomes, started, clock.Elapsed);
+    }
+
+    private static IReadOnlyList<string> ResolveContractSample(PrecisionContract contract)
+    {
+        try
+        {
+            return SampleFiles.Resolve(contract.Sample.Path, contract.Directory);
+        }
+        catch (GateInputException e) when (e.Code == ErrorCodes.SampleNotFound)
+        {
+            // Point at the line of the contract that names the sample, where the fix goes.
+            throw new GateInputException(e.Code, e.Message, contract.Sample.PathLocation, e);
+        }
+    }
+
+    private static ReferenceFeature MatchReference(ReferenceHistograms reference, FeatureSpec feature, string referencePath)
+    {
+        var r = reference.Find(feature.Name)
+            ?? throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                $"The reference {Path.GetFileName(referencePath)} has no feature '{feature.Name}'{NearestName.Hint(feature.Name, reference.Features.Select(f => f.Name))}; " +
+                "rebuild it with 'gatetasks reference build'.", feature.Location);
+        if (r.Column != feature.Column || r.Kind != feature.Kind || r.BinningRequest != feature.Binning.Canonical)
+            throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                $"The reference for feature '{feature.Name}' was built with other settings (column '{r.Column}', {r.Kind.ToString().ToLowerInvariant()}, binning {r.BinningRequest}); " +
+                $"the contract asks for column '{feature.Column}', {feature.Kind.ToString().ToLowerInvariant()}, binning {feature.Binning.Canonical}. " +
+                "Rebuild it with 'gatetasks reference build'.", feature.Binning.Location);
+        return r;
+    }
+
+    private static void ValidateColumns(PrecisionContract contract, Sample sample)
+    {
+        var available = sample.Columns.Select(c => c.Name).ToList();
+        foreach (var f in contract.Features)
+        {
+            if (!available.Contains(f.Column))
+                throw new GateInputException(ErrorCodes.ContractUnknownColumn,
+                    $"Feature '{f.Name}' reads column '{f.Column}', which the sample {Path.GetFileName(sample.Files[0])} does not have{NearestName.Hint(f.Column, available)}.",
+                    f.ColumnLocation);
+        }
+        if (contract.Sample.Weight is { } w && !available.Contains(w))
+            throw new GateInputException(ErrorCodes.ContractUnknownColumn,
+                $"The weight column '{w}' is not in the sample {Path.GetFileName(sample.Files[0])}{NearestName.Hint(w, available)}.",
+                contract.Sample.WeightLocation);
+    }
+}

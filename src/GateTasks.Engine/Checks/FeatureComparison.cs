@@ -1,0 +1,22 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Histograms;
+using GateTasks.Engine.References;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>Everything the checks of one feature compare: the reference, the surrogate's histogram with the same binning, and the core mask.</summary>
+internal sealed record FeatureComparison(
+    FeatureSpec Spec,
+    ReferenceFeature Reference,
+    Histogram Surrogate,
+    FeatureSummary SurrogateSummary,
+    IReadOnlyList<bool> CoreBins)
+{
+    /// <summary>True when every cell's Σw² equals its Σw, i.e. all weights are one and the counts are plain counts.</summary>
+    public static bool IsUnweighted(Histogram h)
+    {
+        for (var c = 0; c < h.Storage.CellCount; c++)
+            if (Math.Abs(h.Storage.SumW2[c] - h.Storage.SumW[c]) > 1e-9 * Math.Max(1, h.Storage.SumW[c])) return false;
+        return true;
+    }
+}

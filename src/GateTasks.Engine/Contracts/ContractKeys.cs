@@ -1,0 +1,70 @@
+namespace GateTasks.Engine.Contracts;
+
+/// <summary>
+/// The contract's vocabulary, one list per mapping. The loader accepts exactly these keys; the JSON Schema in
+/// docs/precision-contract.schema.json is tested to list the same ones.
+/// </summary>
+internal static class ContractKeys
+{
+    public const string Version = "contract-version";
+    public const string Title = "title";
+    public const string Sample = "sample";
+    public const string Reference = "reference";
+    public const string Defaults = "defaults";
+    public const string Features = "features";
+
+    public const string Path = "path";
+    public const string Weight = "weight";
+
+    public const string Name = "name";
+    public const string Column = "column";
+    public const string Kind = "kind";
+    public const string Binning = "binning";
+    public const string Core = "core";
+    public const string Checks = "checks";
+
+    public const string Bins = "bins";
+    public const string Spacing = "spacing";
+    public const string Range = "range";
+    public const string Edges = "edges";
+
+    public const string Tails = "tails";
+
+    /// <summary>Written instead of a tolerance to switch a default check off for one feature.</summary>
+    public const string Off = "off";
+
+    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Defaults, Features];
+    public static readonly string[] SampleKeys = [Path, Weight];
+    public static readonly string[] DefaultsKeys = [Binning, Core, Checks];
+    public static readonly string[] FeatureKeys = [Name, Column, Kind, Binning, Core, Checks];
+    public static readonly string[] BinningKeys = [Bins, Spacing, Range, Edges];
+    public static readonly string[] RegionKeys = [Core, Tails];
+    public static readonly string[] Kinds = ["continuous", "discrete"];
+    public static readonly string[] Spacings = ["quantile", "uniform"];
+
+    private static readonly (string Key, CheckKind Kind)[] CheckTable =
+    [
+        ("ks-max", CheckKind.KolmogorovSmirnov),
+        ("wasserstein-max", CheckKind.Wasserstein),
+        ("chi2-pvalue-min", CheckKind.ChiSquare),
+        ("ratio-max", CheckKind.BinRatio),
+        ("jsd-max", CheckKind.JensenShannon),
+    ];
+
+    /// <summary>Every check key, in the order checks are reported.</summary>
+    public static IEnumerable<string> CheckKeys => CheckTable.Select(c => c.Key);
+
+    /// <summary>The check a key names, or null.</summary>
+    public static CheckKind? CheckFromKey(string key)
+    {
+        foreach (var (k, kind) in CheckTable)
+            if (k == key) return kind;
+        return null;
+    }
+
+    /// <summary>The key that names a check.</summary>
+    public static string CheckKey(CheckKind kind) => CheckTable.First(c => c.Kind == kind).Key;
+
+    /// <summary>Checks whose tolerance can be split into core and tails.</summary>
+    public static bool HasRegions(CheckKind kind) => kind == CheckKind.BinRatio;
+}

@@ -1,0 +1,306 @@
+using GateTasks.Engine.Diagnostics;
+using YamlDotNet.Core;
+using YamlDotNet.RepresentationModel;
+
+namespace GateTasks.Engine.Contracts;
+
+/// <summary>
+/// Reads a precision contract (YAML, schema version 1) into a <see cref="PrecisionContract"/>, applying the
+/// defaults block to every feature. Every problem is a <see cref="GateInputException"/> at the offending
+/// line and column; nothing is silently ignored.
+/// </summary>
+internal static class ContractLoader
+{
+    public const int SupportedVersion = 1;
+    private const int DefaultBins = 40;
+    private const double DefaultCoreFraction = 0.90;
+    private const int MaxBins = 100_000;
+
+    /// <summary>Loads and validates the contract at <paramref name="path"/>.</summary>
+    public static PrecisionContract Load(string path)
+    {
+        string text;
+        try
+        {
+            text = File.ReadAllText(path);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            throw new GateInputException(ErrorCodes.ContractNotFound,
+                e is FileNotFoundException or DirectoryNotFoundException
+                    ? $"Contract file not found: {Path.GetFullPath(path)}"
+                    : $"Contract file cannot be read: {e.Message}",
+                new SourceLocation(path));
+        }
+        return Parse(text, path);
+    }
+
+    /// <summary>Parses contract text; <paramref name="path"/> names the file in messages and anchors relative paths.</summary>
+    public static PrecisionContract Parse(string text, string path)
+    {
+        var r = new YamlNodeReader(path);
+        var stream = new YamlStream();
+        try
+        {
+            stream.Load(new StringReader(text));
+        }
+        catch (YamlException e)
+        {
+            throw new GateInputException(ErrorCodes.ContractSyntax, $"Not valid YAML: {InnerMessage(e)}",
+                new SourceLocation(path, (int)e.Start.Line, (int)e.Start.Column));
+        }
+        if (stream.Documents.Count != 1)
+            throw new GateInputException(ErrorCodes.ContractSyntax,
+                stream.Documents.Count == 0 ? "The contract is empty." : "The contract must be a single YAML document.",
+                new SourceLocation(path, 1, 1));
+
+        var root = r.Mapping(stream.Documents[0].RootNode, "The contract");
+        var top = r.Entries(root, "the contract", ContractKeys.TopLevel).ToDictionary(e => e.Key, e => e.Value);
+
+        var versionNode = r.Require(root, ContractKeys.Version, "The contract");
+        var version = r.Integer(versionNode, ContractKeys.Version);
+        if (version != SupportedVersion)
+            throw r.Error(ErrorCodes.ContractVersion, versionNode,
+                $"Contract version {version} is not supported; this GateTasks reads version {SupportedVersion}.");
+
+        var title = top.TryGetValue(ContractKeys.Title, out var t) ? r.String(t, ContractKeys.Title) : null;
+        var sample = ReadSample(r, r.Require(root, ContractKeys.Sample, "The contract"));
+        var referenceNode = r.Require(root, ContractKeys.Reference, "The contract");
+        var reference = r.String(referenceNode, ContractKeys.Reference);
+
+        var defaults = top.TryGetValue(ContractKeys.Defaults, out var d)
+            ? ReadDefaults(r, d)
+            : new FeatureSettings(null, null, new CheckTable());
+
+        var featuresNode = r.Sequence(r.Require(root, ContractKeys.Features, "The contract"), ContractKeys.Features);
+        if (featuresNode.Children.Count == 0)
+            throw r.Error(ErrorCodes.ContractBadValue, featuresNode, "The contract lists no features; a gate with nothing to check would always pass.");
+
+        var features = new List<FeatureSpec>();
+        var seen = new Dictionary<string, SourceLocation>(StringComparer.Ordinal);
+        foreach (var item in featuresNode.Children)
+        {
+            var feature = ReadFeature(r, item, defaults);
+            if (seen.TryGetValue(feature.Name, out var first))
+                throw new GateInputException(ErrorCodes.ContractDuplicateFeature,
+                    $"Feature '{feature.Name}' is listed twice; the first is at line {first.Line}.", feature.Location);
+            seen.Add(feature.Name, feature.Location);
+            features.Add(feature);
+        }
+
+        return new PrecisionContract(path, version, title, sample, reference, r.At(referenceNode), features);
+    }
+
+    private static string InnerMessage(YamlException e) => e.InnerException is YamlException inner ? inner.Message : e.Message;
+
+    private static SampleSpec ReadSample(YamlNodeReader r, YamlNode node)
+    {
+        if (node is YamlScalarNode)
+            return new SampleSpec(r.String(node, ContractKeys.Sample), r.At(node), null, null);
+        var mapping = r.Mapping(node, ContractKeys.Sample);
+        var entries = r.Entries(mapping, ContractKeys.Sample, ContractKeys.SampleKeys);
+        var pathNode = r.Require(mapping, ContractKeys.Path, ContractKeys.Sample);
+        var weightNode = entries.FirstOrDefault(e => e.Key == ContractKeys.Weight).Value;
+        return new SampleSpec(
+            r.String(pathNode, "sample.path"), r.At(pathNode),
+            weightNode is null ? null : r.String(weightNode, "sample.weight"),
+            weightNode is null ? null : r.At(weightNode));
+    }
+
+    private static FeatureSettings ReadDefaults(YamlNodeReader r, YamlNode node)
+    {
+        var mapping = r.Mapping(node, ContractKeys.Defaults);
+        BinningSpec? binning = null;
+        CoreSpec? core = null;
+        var checks = new CheckTable();
+        foreach (var (key, _, value) in r.Entries(mapping, ContractKeys.Defaults, ContractKeys.DefaultsKeys))
+        {
+            switch (key)
+            {
+                case ContractKeys.Binning: binning = ReadBinning(r, value, "defaults.binning"); break;
+                case ContractKeys.Core: core = ReadCore(r, value, "defaults.core"); break;
+                case ContractKeys.Checks: ReadChecks(r, value, "defaults.checks", checks); break;
+            }
+        }
+        return new FeatureSettings(binning, core, checks);
+    }
+
+    private static FeatureSpec ReadFeature(YamlNodeReader r, YamlNode node, FeatureSettings defaults)
+    {
+        var mapping = r.Mapping(node, "A feature");
+        var entries = r.Entries(mapping, "a feature", ContractKeys.FeatureKeys).ToDictionary(e => e.Key, e => e.Value);
+        var nameNode = r.Require(mapping, ContractKeys.Name, "A feature");
+        var name = r.String(nameNode, "The feature name");
+        var what = $"feature '{name}'";
+
+        var columnNode = entries.GetValueOrDefault(ContractKeys.Column) ?? nameNode;
+        var column = r.String(columnNode, $"The column of {what}");
+
+        var kind = entries.TryGetValue(ContractKeys.Kind, out var k)
+            ? r.OneOf(k, $"The kind of {what}", ContractKeys.Kinds) == "discrete" ? FeatureKind.Discrete : FeatureKind.Continuous
+            : FeatureKind.Continuous;
+
+        BinningSpec binning;
+        if (kind == FeatureKind.Discrete)
+        {
+            if (entries.TryGetValue(ContractKeys.Binning, out var b))
+                throw r.Error(ErrorCodes.ContractBadValue, b, $"{what} is discrete: it gets one bin per value, so it takes no binning.");
+            binning = new BinningSpec(BinningMode.Categories, 0, 0, 0, [], r.At(nameNode));
+        }
+        else
+        {
+            binning = entries.TryGetValue(ContractKeys.Binning, out var b)
+                ? ReadBinning(r, b, $"The binning of {what}")
+                : defaults.Binning ?? new BinningSpec(BinningMode.Quantile, DefaultBins, 0, 0, [], r.At(nameNode));
+        }
+
+        var core = entries.TryGetValue(ContractKeys.Core, out var c)
+            ? ReadCore(r, c, $"The core of {what}")
+            : defaults.Core ?? Central(DefaultCoreFraction, r.At(nameNode));
+
+        var checks = defaults.Checks.Copy();
+        if (entries.TryGetValue(ContractKeys.Checks, out var ch)) ReadChecks(r, ch, $"the checks of {what}", checks);
+        var list = checks.ToList();
+        if (list.Count == 0)
+            throw r.Error(ErrorCodes.ContractBadValue, nameNode,
+                $"{char.ToUpperInvariant(what[0])}{what[1..]} has no checks (none of its own, none in defaults); it would always pass.");
+
+        return new FeatureSpec(name, column, kind, binning, core, list, r.At(nameNode), r.At(columnNode));
+    }
+
+    private static BinningSpec ReadBinning(YamlNodeReader r, YamlNode node, string what)
+    {
+        var mapping = r.Mapping(node, what);
+        var e = r.Entries(mapping, "binning", ContractKeys.BinningKeys).ToDictionary(x => x.Key, x => x.Value);
+        var at = r.At(node);
+        if (e.TryGetValue(ContractKeys.Edges, out var edgesNode))
+        {
+            foreach (var other in new[] { ContractKeys.Bins, ContractKeys.Spacing, ContractKeys.Range })
+                if (e.ContainsKey(other))
+                    throw r.Error(ErrorCodes.ContractBadValue, e[other], $"'{other}' cannot be combined with explicit 'edges'.");
+            var seq = r.Sequence(edgesNode, "edges");
+            var edges = seq.Children.Select(n => r.Number(n, "An edge")).ToList();
+            if (edges.Count < 2) throw r.Error(ErrorCodes.ContractBadValue, edgesNode, "edges needs at least two values.");
+            for (var i = 1; i < edges.Count; i++)
+                if (!(edges[i] > edges[i - 1]))
+                    throw r.Error(ErrorCodes.ContractBadValue, seq.Children[i], $"edges must increase strictly; {edges[i]} follows {edges[i - 1]}.");
+            return new BinningSpec(BinningMode.Edges, edges.Count - 1, edges[0], edges[^1], edges, at);
+        }
+
+        var bins = DefaultBins;
+        if (e.TryGetValue(ContractKeys.Bins, out var binsNode))
+        {
+            bins = r.Integer(binsNode, "bins");
+            if (bins < 1 || bins > MaxBins) throw r.Error(ErrorCodes.ContractBadValue, binsNode, $"bins must be between 1 and {MaxBins}, got {bins}.");
+        }
+        var spacing = e.TryGetValue(ContractKeys.Spacing, out var sp)
+            ? r.OneOf(sp, "spacing", ContractKeys.Spacings)
+            : e.ContainsKey(ContractKeys.Range) ? "uniform" : "quantile";
+        if (spacing == "quantile")
+        {
+            if (e.TryGetValue(ContractKeys.Range, out var rn))
+                throw r.Error(ErrorCodes.ContractBadValue, rn, "Quantile spacing takes its range from the reference; drop 'range' or use spacing: uniform.");
+            return new BinningSpec(BinningMode.Quantile, bins, 0, 0, [], at);
+        }
+        if (!e.TryGetValue(ContractKeys.Range, out var rangeNode))
+            throw r.Error(ErrorCodes.ContractMissingKey, node, "Uniform spacing needs 'range: [lower, upper]'.");
+        var (lo, hi) = Pair(r, rangeNode, "range");
+        return new BinningSpec(BinningMode.Uniform, bins, lo, hi, [], at);
+    }
+
+    private static (double Lower, double Upper) Pair(YamlNodeReader r, YamlNode node, string what)
+    {
+        var seq = r.Sequence(node, what);
+        if (seq.Children.Count != 2) throw r.Error(ErrorCodes.ContractBadValue, node, $"{what} must be two numbers, [lower, upper].");
+        var lo = r.Number(seq.Children[0], $"The lower end of {what}");
+        var hi = r.Number(seq.Children[1], $"The upper end of {what}");
+        if (!(hi > lo)) throw r.Error(ErrorCodes.ContractBadValue, node, $"{what} must have upper > lower, got [{lo}, {hi}].");
+        return (lo, hi);
+    }
+
+    private static CoreSpec Central(double fraction, SourceLocation at) => new((1 - fraction) / 2, (1 + fraction) / 2, at);
+
+    private static CoreSpec ReadCore(YamlNodeReader r, YamlNode node, string what)
+    {
+        if (node is YamlSequenceNode)
+        {
+            var (lo, hi) = Pair(r, node, what);
+            if (lo < 0 || hi > 1) throw r.Error(ErrorCodes.ContractBadValue, node, $"{what} as quantiles must lie within [0, 1].");
+            return new CoreSpec(lo, hi, r.At(node));
+        }
+        var f = r.Number(node, what);
+        if (!(f > 0 && f < 1))
+            throw r.Error(ErrorCodes.ContractBadValue, node, $"{what} is the central fraction of the reference and must be in (0, 1), got {f}.");
+        return Central(f, r.At(node));
+    }
+
+    private static void ReadChecks(YamlNodeReader r, YamlNode node, string what, CheckTable checks)
+    {
+        var mapping = r.Mapping(node, what);
+        foreach (var (key, _, value) in r.Entries(mapping, what, ContractKeys.CheckKeys.ToArray()))
+        {
+            var kind = ContractKeys.CheckFromKey(key)!.Value;
+            if (YamlNodeReader.IsScalar(value, ContractKeys.Off))
+            {
+                checks.RemoveAll(kind);
+                continue;
+            }
+            if (value is YamlMappingNode regions)
+            {
+                if (!ContractKeys.HasRegions(kind))
+                    throw r.Error(ErrorCodes.ContractBadValue, value, $"{key} takes one tolerance, not a mapping of regions.");
+                checks.Remove(kind, Region.All);
+                foreach (var (region, _, v) in r.Entries(regions, key, ContractKeys.RegionKeys))
+                {
+                    var reg = region == ContractKeys.Core ? Region.Core : Region.Tails;
+                    if (YamlNodeReader.IsScalar(v, ContractKeys.Off)) checks.Remove(kind, reg);
+                    else checks.Set(new CheckSpec(kind, reg, Tolerance(r, v, kind, $"{key}.{region}"), r.At(v)));
+                }
+                continue;
+            }
+            checks.RemoveAll(kind);
+            checks.Set(new CheckSpec(kind, Region.All, Tolerance(r, value, kind, key), r.At(value)));
+        }
+    }
+
+    private static double Tolerance(YamlNodeReader r, YamlNode node, CheckKind kind, string what)
+    {
+        var v = r.Number(node, what);
+        var (ok, rule) = kind switch
+        {
+            CheckKind.KolmogorovSmirnov => (v > 0 && v <= 1, "in (0, 1]"),
+            CheckKind.ChiSquare => (v > 0 && v < 1, "a p-value in (0, 1)"),
+            CheckKind.JensenShannon => (v > 0 && v <= Math.Log(2), "in (0, ln 2]"),
+            _ => (v > 0, "positive"),
+        };
+        if (!ok) throw r.Error(ErrorCodes.ContractBadValue, node, $"{what} must be {rule}, got {v}.");
+        return v;
+    }
+
+    private sealed record FeatureSettings(BinningSpec? Binning, CoreSpec? Core, CheckTable Checks);
+
+    /// <summary>Checks keyed by (kind, region), kept in report order; features copy the defaults and override entries.</summary>
+    private sealed class CheckTable
+    {
+        private readonly Dictionary<(CheckKind, Region), CheckSpec> _items = [];
+
+        public CheckTable Copy()
+        {
+            var c = new CheckTable();
+            foreach (var (k, v) in _items) c._items[k] = v;
+            return c;
+        }
+
+        public void Set(CheckSpec spec) => _items[(spec.Kind, spec.Region)] = spec;
+
+        public void Remove(CheckKind kind, Region region) => _items.Remove((kind, region));
+
+        public void RemoveAll(CheckKind kind)
+        {
+            foreach (var region in Enum.GetValues<Region>()) _items.Remove((kind, region));
+        }
+
+        public List<CheckSpec> ToList() =>
+            _items.Values.OrderBy(c => c.Kind).ThenBy(c => c.Region).ToList();
+    }
+}

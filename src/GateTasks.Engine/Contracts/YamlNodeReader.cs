@@ -1,0 +1,86 @@
+using System.Globalization;
+using GateTasks.Engine.Diagnostics;
+using YamlDotNet.RepresentationModel;
+
+namespace GateTasks.Engine.Contracts;
+
+/// <summary>
+/// Reads typed values out of YAML nodes and turns every mismatch into a <see cref="GateInputException"/>
+/// that names the file, line and column, so contract errors are as precise as compiler errors.
+/// </summary>
+internal sealed class YamlNodeReader(string file)
+{
+    public string File { get; } = file;
+
+    public SourceLocation At(YamlNode node) => new(File, (int)node.Start.Line, (int)node.Start.Column);
+
+    public GateInputException Error(string code, YamlNode node, string message) => new(code, message, At(node));
+
+    public YamlMappingNode Mapping(YamlNode node, string what) =>
+        node as YamlMappingNode ?? throw Error(ErrorCodes.ContractBadValue, node, $"{what} must be a mapping of keys to values.");
+
+    public YamlSequenceNode Sequence(YamlNode node, string what) =>
+        node as YamlSequenceNode ?? throw Error(ErrorCodes.ContractBadValue, node, $"{what} must be a list.");
+
+    public YamlScalarNode Scalar(YamlNode node, string what) =>
+        node as YamlScalarNode ?? throw Error(ErrorCodes.ContractBadValue, node, $"{what} must be a single value, not a list or mapping.");
+
+    /// <summary>Key/value pairs of a mapping after rejecting keys outside <paramref name="allowed"/>, with a hint for the nearest one.</summary>
+    public IReadOnlyList<(string Key, YamlNode KeyNode, YamlNode Value)> Entries(YamlMappingNode mapping, string what, IReadOnlyCollection<string> allowed)
+    {
+        var entries = new List<(string, YamlNode, YamlNode)>();
+        foreach (var (keyNode, value) in mapping.Children)
+        {
+            var key = Scalar(keyNode, $"A key in {what}").Value ?? "";
+            if (!allowed.Contains(key))
+                throw Error(ErrorCodes.ContractUnknownKey, keyNode,
+                    $"Unknown key '{key}' in {what}{NearestName.Hint(key, allowed)}. Allowed: {string.Join(", ", allowed)}.");
+            entries.Add((key, keyNode, value));
+        }
+        return entries;
+    }
+
+    public static YamlNode? Find(YamlMappingNode mapping, string key)
+    {
+        foreach (var (k, v) in mapping.Children)
+            if (k is YamlScalarNode s && s.Value == key) return v;
+        return null;
+    }
+
+    public YamlNode Require(YamlMappingNode mapping, string key, string what) =>
+        Find(mapping, key) ?? throw Error(ErrorCodes.ContractMissingKey, mapping, $"{what} needs the key '{key}'.");
+
+    public string String(YamlNode node, string what)
+    {
+        var s = Scalar(node, what);
+        if (string.IsNullOrWhiteSpace(s.Value)) throw Error(ErrorCodes.ContractBadValue, node, $"{what} must not be empty.");
+        return s.Value;
+    }
+
+    public double Number(YamlNode node, string what)
+    {
+        var s = Scalar(node, what);
+        if (!double.TryParse(s.Value, NumberStyles.Float, CultureInfo.InvariantCulture, out var v) || !double.IsFinite(v))
+            throw Error(ErrorCodes.ContractBadValue, node, $"{what} must be a finite number, got '{s.Value}'.");
+        return v;
+    }
+
+    public int Integer(YamlNode node, string what)
+    {
+        var s = Scalar(node, what);
+        if (!int.TryParse(s.Value, NumberStyles.Integer, CultureInfo.InvariantCulture, out var v))
+            throw Error(ErrorCodes.ContractBadValue, node, $"{what} must be a whole number, got '{s.Value}'.");
+        return v;
+    }
+
+    public string OneOf(YamlNode node, string what, IReadOnlyCollection<string> choices)
+    {
+        var v = String(node, what);
+        if (!choices.Contains(v))
+            throw Error(ErrorCodes.ContractBadValue, node,
+                $"{what} must be one of {string.Join(", ", choices)}, got '{v}'{NearestName.Hint(v, choices)}.");
+        return v;
+    }
+
+    public static bool IsScalar(YamlNode node, string value) => node is YamlScalarNode s && s.Value == value;
+}

@@ -1,0 +1,48 @@
+namespace GateTasks.Engine.Histograms;
+
+/// <summary>
+/// Maps a value to a bin. Bins are half-open, [lower, upper); values below the first edge go to the
+/// underflow, values at or above the last edge to the overflow. The axis never grows.
+/// NaN is not the axis's business: the histogram counts it on its own.
+/// </summary>
+internal abstract class Axis
+{
+    /// <summary>Index returned for a value below the first edge.</summary>
+    public const int Underflow = -1;
+
+    /// <summary>Number of regular bins (flows excluded).</summary>
+    public abstract int Count { get; }
+
+    /// <summary>The <see cref="Count"/> + 1 bin edges, increasing.</summary>
+    public abstract ReadOnlySpan<double> Edges { get; }
+
+    /// <summary>Overflow index, equal to <see cref="Count"/>.</summary>
+    public int Overflow => Count;
+
+    /// <summary>Regular bin index in [0, Count), or <see cref="Underflow"/>, or <see cref="Overflow"/>. Not for NaN.</summary>
+    public abstract int Index(double value);
+
+    /// <summary>Lower edge of regular bin <paramref name="bin"/>.</summary>
+    public double Lower(int bin) => Edges[bin];
+
+    /// <summary>Upper edge of regular bin <paramref name="bin"/>.</summary>
+    public double Upper(int bin) => Edges[bin + 1];
+
+    /// <summary>Centre of regular bin <paramref name="bin"/>.</summary>
+    public double Centre(int bin) => 0.5 * (Edges[bin] + Edges[bin + 1]);
+
+    /// <summary>True when both axes have exactly the same edges.</summary>
+    public bool SameBinning(Axis other) => Edges.SequenceEqual(other.Edges);
+
+    /// <summary>Builds the cheapest axis for the edges: regular when they are equally spaced to the last bit.</summary>
+    public static Axis FromEdges(IReadOnlyList<double> edges)
+    {
+        var variable = new VariableAxis(edges);
+        if (edges.Count >= 2)
+        {
+            var regular = new RegularAxis(edges.Count - 1, edges[0], edges[^1]);
+            if (regular.SameBinning(variable)) return regular;
+        }
+        return variable;
+    }
+}

@@ -1,0 +1,19 @@
+namespace GateTasks.Engine.References;
+
+/// <summary>
+/// Unbinned statistics of one feature in a sample, NaN values excluded: the numbers the checks need beyond
+/// the histogram (the reference's standard deviation normalises Wasserstein-1, its quantiles place the core).
+/// </summary>
+internal sealed record FeatureSummary(
+    long Count,
+    double SumW,
+    double SumW2,
+    double Mean,
+    double StandardDeviation,
+    double Min,
+    double Max,
+    long NanCount)
+{
+    /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>
+    public double EffectiveCount => SumW2 > 0 ? SumW * SumW / SumW2 : 0;
+}

@@ -1,0 +1,96 @@
+using GateTasks.Engine.Histograms;
+
+namespace GateTasks.Engine.References;
+
+/// <summary>
+/// Quantiles of a streamed sample from a fine regular histogram over [min, max] (2^16 cells), so memory does
+/// not grow with the number of events. A quantile is interpolated linearly inside its cell; its error is
+/// at most one cell width, (max − min)/65 536. Equal-probability edges are snapped to cell edges, which lets
+/// the final histogram be summed exactly from the fine one.
+/// </summary>
+internal sealed class QuantileGrid
+{
+    public const int Cells = 1 << 16;
+
+    public QuantileGrid(double min, double max)
+    {
+        var (lo, hi) = Span(min, max);
+        Fine = new Histogram(new RegularAxis(Cells, lo, hi));
+    }
+
+    /// <summary>The fine histogram; fill it with every non-NaN value.</summary>
+    public Histogram Fine { get; }
+
+    /// <summary>Axis limits that hold every value in [min, max] inside the regular cells.</summary>
+    public static (double Lower, double Upper) Span(double min, double max)
+    {
+        if (!(max > min)) return (min - 0.5, min + 0.5); // a constant feature still gets a usable axis
+        var width = max - min;
+        var upper = max + width * 1e-9;
+        if (!(upper > max)) upper = Math.BitIncrement(max);
+        return (min, upper);
+    }
+
+    /// <summary>The value below which a fraction <paramref name="p"/> of the weight lies.</summary>
+    public double Quantile(double p)
+    {
+        var w = Fine.Storage.SumW;
+        var total = 0.0;
+        foreach (var x in w) total += x;
+        var target = p * total;
+        var edges = Fine.Axis.Edges;
+        var cumulative = 0.0;
+        for (var c = 1; c <= Cells; c++)
+        {
+            var next = cumulative + w[c];
+            if (next >= target && w[c] > 0)
+            {
+                var fraction = Math.Clamp((target - cumulative) / w[c], 0, 1);
+                return edges[c - 1] + fraction * (edges[c] - edges[c - 1]);
+            }
+            cumulative = next;
+        }
+        return edges[^1];
+    }
+
+    /// <summary>
+    /// Edges of at most <paramref name="bins"/> bins of about equal weight, on cell edges. Where one value holds
+    /// more than a bin's share (a spike), neighbouring edges coincide and are merged, so fewer bins result.
+    /// </summary>
+    public double[] EqualProbabilityEdges(int bins)
+    {
+        var w = Fine.Storage.SumW;
+        var total = 0.0;
+        foreach (var x in w) total += x;
+        var edges = Fine.Axis.Edges;
+        var result = new List<double> { edges[0] };
+        var cumulative = 0.0;
+        var k = 1;
+        for (var c = 1; c <= Cells && k < bins; c++)
+        {
+            cumulative += w[c];
+            if (cumulative >= total * k / bins)
+            {
+                if (edges[c] > result[^1] && c < Cells) result.Add(edges[c]);
+                while (k < bins && cumulative >= total * k / bins) k++;
+            }
+        }
+        if (edges[^1] > result[^1]) result.Add(edges[^1]);
+        return result.ToArray();
+    }
+
+    /// <summary>Sums the fine cells into a coarser histogram whose edges are all fine-cell edges.</summary>
+    public Histogram Rebin(Axis coarse, long entries)
+    {
+        var sumW = new double[coarse.Count + 2];
+        var sumW2 = new double[coarse.Count + 2];
+        var fineEdges = Fine.Axis.Edges;
+        for (var c = 0; c < Fine.Storage.CellCount; c++)
+        {
+            var target = c == 0 ? 0 : c == Fine.Storage.CellCount - 1 ? coarse.Count + 1 : Histogram.Cell(coarse.Index(fineEdges[c - 1]));
+            sumW[target] += Fine.Storage.SumW[c];
+            sumW2[target] += Fine.Storage.SumW2[c];
+        }
+        return Histogram.FromCells(coarse, sumW, sumW2, entries, Fine.NanEntries, Fine.NanSumW, Fine.NanSumW2);
+    }
+}

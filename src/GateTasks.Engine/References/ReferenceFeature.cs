@@ -1,0 +1,29 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Histograms;
+
+namespace GateTasks.Engine.References;
+
+/// <summary>
+/// One feature of a reference: the histogram the surrogate is compared with, the binning request it was built
+/// from, the quantiles the core region needs, and unbinned summary statistics.
+/// </summary>
+internal sealed record ReferenceFeature(
+    string Name,
+    string Column,
+    FeatureKind Kind,
+    string BinningRequest,
+    Histogram Histogram,
+    FeatureSummary Summary,
+    IReadOnlyList<QuantilePoint> Quantiles)
+{
+    /// <summary>The value at probability <paramref name="p"/>, if the reference stored it.</summary>
+    public double? Quantile(double p)
+    {
+        foreach (var q in Quantiles)
+            if (Math.Abs(q.Probability - p) < 1e-12) return q.Value;
+        return null;
+    }
+}
+
+/// <summary>A stored quantile: P(X &lt; value) ≈ probability.</summary>
+internal readonly record struct QuantilePoint(double Probability, double Value);

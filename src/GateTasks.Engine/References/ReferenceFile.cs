@@ -1,0 +1,238 @@
+using System.Globalization;
+using System.Text.Json;
+using System.Text.Json.Nodes;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Histograms;
+using GateTasks.Engine.IO;
+using Parquet;
+using Parquet.Schema;
+
+namespace GateTasks.Engine.References;
+
+/// <summary>
+/// The reference file format, version 1 (docs/reference-format.md): a Parquet file whose rows are histogram
+/// cells (feature, cell, lower, upper, sum_w, sum_w2) and whose key/value metadata entry
+/// <c>gatetasks.reference</c> holds a JSON header with provenance and per-feature statistics.
+/// </summary>
+internal static class ReferenceFile
+{
+    public const int FormatVersion = 1;
+    public const string MetadataKey = "gatetasks.reference";
+    public const string FormatKey = "gatetasks.reference.format";
+
+    private static readonly DataField<string> FeatureField = new("feature", false);
+    private static readonly DataField<int> CellField = new("cell");
+    private static readonly DataField<double> LowerField = new("lower");
+    private static readonly DataField<double> UpperField = new("upper");
+    private static readonly DataField<double> SumWField = new("sum_w");
+    private static readonly DataField<double> SumW2Field = new("sum_w2");
+
+    /// <summary>Writes <paramref name="reference"/> to <paramref name="path"/> atomically.</summary>
+    public static void Write(string path, ReferenceHistograms reference)
+    {
+        var features = new List<string>();
+        var cells = new List<int>();
+        var lower = new List<double>();
+        var upper = new List<double>();
+        var sumW = new List<double>();
+        var sumW2 = new List<double>();
+        foreach (var f in reference.Features)
+        {
+            var h = f.Histogram;
+            var edges = h.Axis.Edges;
+            for (var c = 0; c < h.Storage.CellCount; c++)
+            {
+                features.Add(f.Name);
+                cells.Add(c);
+                lower.Add(c == 0 ? double.NegativeInfinity : edges[c - 1]);
+                upper.Add(c == h.Storage.CellCount - 1 ? double.PositiveInfinity : edges[c]);
+                sumW.Add(h.Storage.SumW[c]);
+                sumW2.Add(h.Storage.SumW2[c]);
+            }
+        }
+
+        var header = Header(reference).ToJsonString(new JsonSerializerOptions { WriteIndented = false });
+        AtomicFile.Write(path, stream => WriteParquetAsync(stream, header, features, cells, lower, upper, sumW, sumW2).GetAwaiter().GetResult());
+    }
+
+    private static async Task WriteParquetAsync(Stream stream, string header, List<string> features, List<int> cells,
+        List<double> lower, List<double> upper, List<double> sumW, List<double> sumW2)
+    {
+        {
+            var schema = new ParquetSchema(FeatureField, CellField, LowerField, UpperField, SumWField, SumW2Field);
+            var options = new ParquetOptions { CompressionMethod = CompressionMethod.Snappy };
+            await using var writer = await ParquetWriter.CreateAsync(schema, stream, options);
+            writer.CustomMetadata = new Dictionary<string, string>
+            {
+                [FormatKey] = FormatVersion.ToString(CultureInfo.InvariantCulture),
+                [MetadataKey] = header,
+            };
+            using (var rg = writer.CreateRowGroup())
+            {
+                await rg.WriteAsync(FeatureField, features);
+                await rg.WriteAsync<int>(CellField, cells.ToArray());
+                await rg.WriteAsync<double>(LowerField, lower.ToArray());
+                await rg.WriteAsync<double>(UpperField, upper.ToArray());
+                await rg.WriteAsync<double>(SumWField, sumW.ToArray());
+                await rg.WriteAsync<double>(SumW2Field, sumW2.ToArray());
+            }
+        }
+    }
+
+    /// <summary>Reads a reference file; any problem is a GATE21xx error naming the file.</summary>
+    public static ReferenceHistograms Read(string path, SourceLocation? citedAt = null)
+    {
+        if (!File.Exists(path))
+            throw new GateInputException(ErrorCodes.ReferenceNotFound,
+                $"Reference file not found: {Path.GetFullPath(path)}. Build it with 'gatetasks reference build'.",
+                citedAt ?? new SourceLocation(path));
+        try
+        {
+            return ReadParquetAsync(path).GetAwaiter().GetResult();
+        }
+        catch (GateInputException)
+        {
+            throw;
+        }
+        catch (Exception e) when (e is not OutOfMemoryException)
+        {
+            throw Unreadable(path, e.Message);
+        }
+    }
+
+    private static async Task<ReferenceHistograms> ReadParquetAsync(string path)
+    {
+        {
+            await using var stream = File.OpenRead(path);
+            await using var reader = await ParquetReader.CreateAsync(stream);
+            if (!reader.CustomMetadata.TryGetValue(FormatKey, out var fmt) || !reader.CustomMetadata.TryGetValue(MetadataKey, out var json))
+                throw Unreadable(path, "it is a Parquet file but not a GateTasks reference (no header metadata)");
+            if (fmt != FormatVersion.ToString(CultureInfo.InvariantCulture))
+                throw Unreadable(path, $"reference format version {fmt} is not supported; this GateTasks reads version {FormatVersion}");
+
+            var rows = new Dictionary<string, List<(int Cell, double Lower, double Upper, double W, double W2)>>();
+            for (var g = 0; g < reader.RowGroupCount; g++)
+            {
+                using var rg = reader.OpenRowGroupReader(g);
+                var n = checked((int)rg.RowCount);
+                var names = new string?[n];
+                var cell = new int[n];
+                var lo = new double[n];
+                var hi = new double[n];
+                var w = new double[n];
+                var w2 = new double[n];
+                await rg.ReadAsync(Field(reader, FeatureField), names.AsMemory());
+                await rg.ReadAsync<int>(Field(reader, CellField), cell.AsMemory());
+                await rg.ReadAsync<double>(Field(reader, LowerField), lo.AsMemory());
+                await rg.ReadAsync<double>(Field(reader, UpperField), hi.AsMemory());
+                await rg.ReadAsync<double>(Field(reader, SumWField), w.AsMemory());
+                await rg.ReadAsync<double>(Field(reader, SumW2Field), w2.AsMemory());
+                for (var i = 0; i < n; i++)
+                {
+                    var name = names[i] ?? throw new InvalidDataException("a feature name is null");
+                    if (!rows.TryGetValue(name, out var list)) rows[name] = list = [];
+                    list.Add((cell[i], lo[i], hi[i], w[i], w2[i]));
+                }
+            }
+            return FromHeader(path, JsonNode.Parse(json)!.AsObject(), rows);
+        }
+    }
+
+    private static DataField Field(ParquetReader reader, DataField wanted) =>
+        reader.Schema.DataFields.FirstOrDefault(f => f.Name == wanted.Name)
+        ?? throw new InvalidDataException($"column '{wanted.Name}' is missing");
+
+    private static GateInputException Unreadable(string path, string why) =>
+        new(ErrorCodes.ReferenceUnreadable, $"Reference file {path} cannot be read: {why}.", new SourceLocation(path));
+
+    private static JsonObject Header(ReferenceHistograms r)
+    {
+        var features = new JsonArray();
+        foreach (var f in r.Features)
+        {
+            var s = f.Summary;
+            var h = f.Histogram;
+            var q = new JsonArray();
+            foreach (var p in f.Quantiles) q.Add(new JsonArray(p.Probability, p.Value));
+            features.Add(new JsonObject
+            {
+                ["name"] = f.Name,
+                ["column"] = f.Column,
+                ["kind"] = f.Kind == FeatureKind.Discrete ? "discrete" : "continuous",
+                ["binning"] = f.BinningRequest,
+                ["bins"] = h.Axis.Count,
+                ["entries"] = h.Entries,
+                ["nan_entries"] = h.NanEntries,
+                ["nan_sum_w"] = h.NanSumW,
+                ["nan_sum_w2"] = h.NanSumW2,
+                ["count"] = s.Count,
+                ["sum_w"] = s.SumW,
+                ["sum_w2"] = s.SumW2,
+                ["mean"] = s.Mean,
+                ["std"] = s.StandardDeviation,
+                ["min"] = s.Min,
+                ["max"] = s.Max,
+                ["quantiles"] = q,
+            });
+        }
+        var inputs = new JsonArray();
+        foreach (var i in r.Inputs)
+            inputs.Add(new JsonObject { ["path"] = i.Path, ["bytes"] = i.Bytes, ["sha256"] = i.Sha256 });
+        return new JsonObject
+        {
+            ["format"] = r.FormatVersion,
+            ["created_utc"] = r.CreatedUtc.UtcDateTime.ToString("yyyy-MM-ddTHH:mm:ssZ", CultureInfo.InvariantCulture),
+            ["tool_version"] = r.ToolVersion,
+            ["weight_column"] = r.WeightColumn,
+            ["events"] = r.Events,
+            ["sum_w"] = r.SumW,
+            ["sum_w2"] = r.SumW2,
+            ["inputs"] = inputs,
+            ["features"] = features,
+        };
+    }
+
+    private static ReferenceHistograms FromHeader(string path, JsonObject h,
+        Dictionary<string, List<(int Cell, double Lower, double Upper, double W, double W2)>> rows)
+    {
+        var features = new List<ReferenceFeature>();
+        foreach (var node in h["features"]!.AsArray())
+        {
+            var f = node!.AsObject();
+            var name = (string)f["name"]!;
+            if (!rows.TryGetValue(name, out var cells))
+                throw Unreadable(path, $"feature '{name}' has no histogram cells");
+            cells.Sort((a, b) => a.Cell.CompareTo(b.Cell));
+            var bins = (int)f["bins"]!;
+            if (cells.Count != bins + 2 || cells.Select((c, i) => c.Cell != i).Any(x => x))
+                throw Unreadable(path, $"feature '{name}' has {cells.Count} cells, expected {bins + 2}");
+            var edges = new double[bins + 1];
+            for (var i = 0; i < bins; i++) edges[i] = cells[i + 1].Lower;
+            edges[bins] = cells[bins].Upper;
+            var axis = Axis.FromEdges(edges);
+            var histogram = Histogram.FromCells(axis,
+                cells.Select(c => c.W).ToArray(), cells.Select(c => c.W2).ToArray(),
+                (long)f["entries"]!, (long)f["nan_entries"]!, (double)f["nan_sum_w"]!, (double)f["nan_sum_w2"]!);
+            var summary = new FeatureSummary((long)f["count"]!, (double)f["sum_w"]!, (double)f["sum_w2"]!,
+                (double)f["mean"]!, (double)f["std"]!, (double)f["min"]!, (double)f["max"]!, (long)f["nan_entries"]!);
+            var quantiles = f["quantiles"]!.AsArray()
+                .Select(p => new QuantilePoint((double)p![0]!, (double)p[1]!)).ToList();
+            features.Add(new ReferenceFeature(name, (string)f["column"]!,
+                (string)f["kind"]! == "discrete" ? FeatureKind.Discrete : FeatureKind.Continuous,
+                (string)f["binning"]!, histogram, summary, quantiles));
+        }
+        var inputs = h["inputs"]!.AsArray()
+            .Select(i => new ReferenceInput((string)i!["path"]!, (long)i["bytes"]!, (string)i["sha256"]!)).ToList();
+        return new ReferenceHistograms(
+            (int)h["format"]!,
+            DateTimeOffset.Parse((string)h["created_utc"]!, CultureInfo.InvariantCulture),
+            (string)h["tool_version"]!,
+            inputs,
+            (string?)h["weight_column"],
+            (long)h["events"]!,
+            (double)h["sum_w"]!,
+            (double)h["sum_w2"]!,
+            features);
+    }
+}

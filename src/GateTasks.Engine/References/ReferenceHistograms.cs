@@ -1,0 +1,23 @@
+namespace GateTasks.Engine.References;
+
+/// <summary>
+/// A reference built from a trusted full-simulation sample: per-feature histograms and statistics, plus
+/// where it came from. Written and read by <see cref="ReferenceFile"/>.
+/// </summary>
+internal sealed record ReferenceHistograms(
+    int FormatVersion,
+    DateTimeOffset CreatedUtc,
+    string ToolVersion,
+    IReadOnlyList<ReferenceInput> Inputs,
+    string? WeightColumn,
+    long Events,
+    double SumW,
+    double SumW2,
+    IReadOnlyList<ReferenceFeature> Features)
+{
+    /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>
+    public double EffectiveEvents => SumW2 > 0 ? SumW * SumW / SumW2 : 0;
+
+    /// <summary>The feature of that name, or null.</summary>
+    public ReferenceFeature? Find(string name) => Features.FirstOrDefault(f => f.Name == name);
+}

@@ -1,0 +1,155 @@
+using System.Globalization;
+using System.Text;
+using System.Xml;
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
+
+namespace GateTasks.Engine.Reports;
+
+/// <summary>
+/// Writes a check run as JUnit-style XML, the common subset CI systems read: one flat testsuite per contract,
+/// one testcase per feature × check × region, a failure element stating measured against tolerance, and
+/// properties carrying the numbers. Written atomically.
+/// </summary>
+internal static class JUnitReport
+{
+    public static void Write(string path, IReadOnlyList<CheckReport> reports) =>
+        AtomicFile.WriteText(path, Render(reports));
+
+    public static string Render(IReadOnlyList<CheckReport> reports)
+    {
+        var settings = new XmlWriterSettings { Indent = true, Encoding = new UTF8Encoding(false), CheckCharacters = true };
+        var sb = new StringBuilder();
+        using (var w = XmlWriter.Create(new StringWriterUtf8(sb), settings))
+        {
+            w.WriteStartDocument();
+            w.WriteStartElement("testsuites");
+            w.WriteAttributeString("name", "gatetasks");
+            w.WriteAttributeString("tests", Count(reports.Sum(r => r.Outcomes.Count)));
+            w.WriteAttributeString("failures", Count(reports.Sum(r => r.Failures)));
+            w.WriteAttributeString("errors", "0");
+            w.WriteAttributeString("skipped", "0");
+            w.WriteAttributeString("time", Seconds(reports.Sum(r => r.Elapsed.TotalSeconds)));
+            if (reports.Count > 0) w.WriteAttributeString("timestamp", Timestamp(reports[0].StartedUtc));
+            foreach (var report in reports) WriteSuite(w, report);
+            w.WriteEndElement();
+            w.WriteEndDocument();
+        }
+        return sb.ToString();
+    }
+
+    private static void WriteSuite(XmlWriter w, CheckReport r)
+    {
+        var suite = Clean(r.Contract.DisplayName);
+        var contractPath = r.Contract.FilePath;
+        w.WriteStartElement("testsuite");
+        w.WriteAttributeString("name", suite);
+        w.WriteAttributeString("tests", Count(r.Outcomes.Count));
+        w.WriteAttributeString("failures", Count(r.Failures));
+        w.WriteAttributeString("errors", "0");
+        w.WriteAttributeString("skipped", "0");
+        w.WriteAttributeString("time", Seconds(r.Elapsed.TotalSeconds));
+        w.WriteAttributeString("timestamp", Timestamp(r.StartedUtc));
+        w.WriteAttributeString("file", Clean(contractPath));
+
+        w.WriteStartElement("properties");
+        Property(w, "gatetasks.contract", contractPath);
+        Property(w, "gatetasks.reference", r.ReferencePath);
+        Property(w, "gatetasks.reference.sha256", r.ReferenceSha256);
+        Property(w, "gatetasks.reference.events", InvariantNumber.Count(r.Reference.Events));
+        Property(w, "gatetasks.sample.files", string.Join(";", r.SampleFiles));
+        Property(w, "gatetasks.sample.events", InvariantNumber.Count(r.Events));
+        Property(w, "gatetasks.sample.sum_w", InvariantNumber.Exact(r.SumW));
+        Property(w, "gatetasks.sample.effective_events", InvariantNumber.Exact(r.EffectiveEvents));
+        w.WriteEndElement();
+
+        var caseTime = r.Outcomes.Count > 0 ? r.Elapsed.TotalSeconds / r.Outcomes.Count : 0;
+        foreach (var o in r.Outcomes)
+        {
+            var where = o.Check.Location;
+            w.WriteStartElement("testcase");
+            w.WriteAttributeString("classname", Clean($"{suite}.{o.Feature.Name}"));
+            w.WriteAttributeString("name", Clean(o.Check.Label));
+            w.WriteAttributeString("time", Seconds(caseTime));
+            w.WriteAttributeString("file", Clean(where.File));
+            if (where.Line > 0) w.WriteAttributeString("line", Count(where.Line));
+
+            w.WriteStartElement("properties");
+            Property(w, "feature", o.Feature.Name);
+            Property(w, "check", o.Check.Key);
+            Property(w, "region", o.Check.RegionName);
+            Property(w, "measured", InvariantNumber.Exact(o.Value));
+            Property(w, o.Check.LimitIsMaximum ? "tolerance_max" : "tolerance_min", InvariantNumber.Exact(o.Check.Limit));
+            Property(w, "margin", InvariantNumber.Exact(o.Margin));
+            Property(w, "verdict", o.Verdict == Verdict.Pass ? "pass" : "fail");
+            foreach (var (k, v) in o.Details) Property(w, k, v);
+            w.WriteEndElement();
+
+            if (o.Verdict == Verdict.Fail)
+            {
+                var code = CheckEvaluator.DriftCode(o.Check);
+                w.WriteStartElement("failure");
+                w.WriteAttributeString("message", Clean($"{o.Feature.Name} {o.Check.Label}: {o.Summary}"));
+                w.WriteAttributeString("type", code);
+                w.WriteString(Clean(
+                    $"{where}: error {code}: feature '{o.Feature.Name}', {o.Check.Label}: {o.Summary}\n" +
+                    $"measured {InvariantNumber.Exact(o.Value)}, tolerance {(o.Check.LimitIsMaximum ? "max" : "min")} {InvariantNumber.Exact(o.Check.Limit)}, margin {InvariantNumber.Exact(o.Margin)}\n" +
+                    $"tolerance stated at {where}"));
+                w.WriteEndElement();
+            }
+            w.WriteEndElement();
+        }
+
+        w.WriteStartElement("system-out");
+        w.WriteString(Clean(ResultTable.Format(r) + ResultTable.Summary(r) + "\n"));
+        w.WriteEndElement();
+        w.WriteEndElement();
+    }
+
+    private static void Property(XmlWriter w, string name, string value)
+    {
+        w.WriteStartElement("property");
+        w.WriteAttributeString("name", Clean(name));
+        w.WriteAttributeString("value", Clean(value));
+        w.WriteEndElement();
+    }
+
+    /// <summary>
+    /// Drops characters XML 1.0 cannot carry (NUL and C0 controls other than tab, LF, CR, even escaped) and ANSI
+    /// escape sequences, which would make the whole file unreadable to consumers.
+    /// </summary>
+    internal static string Clean(string text)
+    {
+        var sb = new StringBuilder(text.Length);
+        for (var i = 0; i < text.Length; i++)
+        {
+            var ch = text[i];
+            if (ch == '\u001b' && i + 1 < text.Length && text[i + 1] == '[')
+            {
+                i += 2;
+                while (i < text.Length && !(text[i] >= '@' && text[i] <= '~')) i++;
+                continue;
+            }
+            if (char.IsHighSurrogate(ch) && i + 1 < text.Length && char.IsLowSurrogate(text[i + 1]))
+            {
+                sb.Append(ch).Append(text[++i]);
+                continue;
+            }
+            if (XmlConvert.IsXmlChar(ch)) sb.Append(ch);
+        }
+        return sb.ToString();
+    }
+
+    private static string Count(long n) => n.ToString(CultureInfo.InvariantCulture);
+
+    private static string Seconds(double s) => s.ToString("0.000", CultureInfo.InvariantCulture);
+
+    private static string Timestamp(DateTimeOffset t) => t.UtcDateTime.ToString("yyyy-MM-ddTHH:mm:ssZ", CultureInfo.InvariantCulture);
+
+    /// <summary>A StringWriter that declares UTF-8, so the XML declaration says what the file will be.</summary>
+    private sealed class StringWriterUtf8(StringBuilder sb) : StringWriter(sb, CultureInfo.InvariantCulture)
+    {
+        public override Encoding Encoding => new UTF8Encoding(false);
+    }
+}

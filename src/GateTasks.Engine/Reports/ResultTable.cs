@@ -1,0 +1,45 @@
+using System.Text;
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Diagnostics;
+
+namespace GateTasks.Engine.Reports;
+
+/// <summary>The plain-text table of a check run: one row per feature × check × region. No colour codes, so it reads the same in logs and reports.</summary>
+internal static class ResultTable
+{
+    private static readonly string[] Header = ["feature", "check", "region", "measured", "tolerance", "margin", "verdict"];
+
+    public static string Format(CheckReport report)
+    {
+        var rows = new List<string[]> { Header };
+        foreach (var o in report.Outcomes)
+        {
+            rows.Add([
+                o.Feature.Name,
+                o.Check.Key,
+                o.Check.RegionName,
+                InvariantNumber.Short(o.Value),
+                (o.Check.LimitIsMaximum ? "≤ " : "≥ ") + InvariantNumber.Short(o.Check.Limit),
+                double.IsNaN(o.Margin) ? "n/a" : $"{(o.RelativeMargin >= 0 ? "+" : "")}{o.RelativeMargin * 100:0.#}%".Replace(',', '.'),
+                o.Verdict == Verdict.Pass ? "pass" : "FAIL",
+            ]);
+        }
+        var widths = Enumerable.Range(0, Header.Length).Select(c => rows.Max(r => r[c].Length)).ToArray();
+        var sb = new StringBuilder();
+        for (var i = 0; i < rows.Count; i++)
+        {
+            sb.AppendLine(string.Join("  ", rows[i].Select((cell, c) => c is 3 or 4 or 5 ? cell.PadLeft(widths[c]) : cell.PadRight(widths[c]))).TrimEnd());
+            if (i == 0) sb.AppendLine(string.Join("  ", widths.Select(w => new string('-', w))));
+        }
+        return sb.ToString();
+    }
+
+    /// <summary>One line saying what was checked and how it went.</summary>
+    public static string Summary(CheckReport report)
+    {
+        var verdict = report.Passed ? "PASSED" : "FAILED";
+        return $"{verdict}: {report.Outcomes.Count - report.Failures} of {report.Outcomes.Count} checks within tolerance " +
+               $"({report.Contract.Features.Count} features, {InvariantNumber.Count(report.Events)} surrogate events, " +
+               $"effective {InvariantNumber.Short(report.EffectiveEvents)}; reference {InvariantNumber.Count(report.Reference.Events)} events).";
+    }
+}
