@@ -1,0 +1,56 @@
+namespace GateTasks.Engine.Demo;
+
+/// <summary>The commented precision contract the demo writes next to its samples.</summary>
+internal static class DemoContract
+{
+    public const string FileName = "precision-contract.yaml";
+    public const string ReferenceFileName = "reference/fullsim-reference.parquet";
+
+    public const string Text = """
+        # Precision contract for the GateTasks demo: a surrogate of the toy full simulation of
+        # Φ(95) → γγ over the diphoton continuum. Every tolerance below is what this demo analysis
+        # requires of the surrogate; tighten or loosen them only with a reason.
+        contract-version: 1
+        title: demo-diphoton
+
+        # The surrogate sample to judge (a file, a folder or a glob; relative to this file).
+        # CI can point elsewhere with 'gatetasks check --sample PATH'.
+        sample:
+          path: surrogate-faithful.parquet
+          weight: weight
+
+        # Reference histograms built from the trusted full simulation with
+        #   gatetasks reference build --from fullsim.parquet
+        reference: reference/fullsim-reference.parquet
+
+        defaults:
+          binning: { bins: 20, spacing: quantile }   # equal-probability bins from the reference
+          core: 0.90                                 # core = central 90% of the reference
+          checks:
+            ks-max: 0.01            # largest gap between the cumulative distributions
+            wasserstein-max: 0.02   # W1 distance in units of the reference's standard deviation
+            chi2-pvalue-min: 0.0001 # χ² homogeneity p-value floor
+            ratio-max:              # largest |surrogate/reference − 1| of normalised bin contents
+              core: 0.03
+              tails: 0.10
+
+        features:
+          - name: m_gg              # the diphoton mass the analysis fits: finer bins, tighter core
+            binning: { bins: 50, range: [60, 200] }
+            checks:
+              ratio-max: { core: 0.05, tails: 0.12 }
+          - name: pt_gg
+          - name: e_lead
+          - name: e_sublead
+          - name: eta_lead
+          - name: eta_sublead
+          - name: cos_theta_star
+          - name: n_jets            # jet multiplicity: one bin per value
+            kind: discrete
+          - name: converted         # leading photon converted (0/1): a discrete fraction
+            kind: discrete
+            checks:
+              ks-max: off           # a two-valued flag: the ratio and χ² say it all
+              wasserstein-max: off
+        """;
+}

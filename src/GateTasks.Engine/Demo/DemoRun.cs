@@ -1,0 +1,58 @@
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.IO;
+using GateTasks.Engine.References;
+using GateTasks.Engine.Reports;
+
+namespace GateTasks.Engine.Demo;
+
+/// <summary>
+/// The built-in demo: writes a toy full simulation, a faithful and a drifted surrogate sample, a commented contract,
+/// builds the reference and checks both samples. All seeds are fixed, so every run gives the same numbers.
+/// </summary>
+internal sealed class DemoRun(string folder)
+{
+    public const int ReferenceEvents = 1_500_000;
+    public const int SurrogateEvents = 500_000;
+    public const int ReferenceSeed = 1001;
+    public const int FaithfulSeed = 2002;
+    public const int DriftedSeed = 3003;
+
+    public string Folder { get; } = Path.GetFullPath(folder);
+    public string ContractPath => Path.Combine(Folder, DemoContract.FileName);
+    public string FullSimulationPath => Path.Combine(Folder, "fullsim.parquet");
+    public string FaithfulPath => Path.Combine(Folder, "surrogate-faithful.parquet");
+    public string DriftedPath => Path.Combine(Folder, "surrogate-drifted.parquet");
+    public string ReportFolder => Path.Combine(Folder, "reports");
+
+    /// <summary>Generates the three samples and the contract.</summary>
+    public void WriteInputs()
+    {
+        Directory.CreateDirectory(Folder);
+        // The three samples are independent; two cores write them side by side.
+        Parallel.Invoke(
+            () => DemoSampleWriter.Write(FullSimulationPath, DemoScenarioParameters.FullSimulation, ReferenceEvents, ReferenceSeed, DemoSampleWriter.DefaultRowGroupSize),
+            () => DemoSampleWriter.Write(FaithfulPath, DemoScenarioParameters.FullSimulation, SurrogateEvents, FaithfulSeed, DemoSampleWriter.DefaultRowGroupSize),
+            () => DemoSampleWriter.Write(DriftedPath, DemoScenarioParameters.Drifted, SurrogateEvents, DriftedSeed, DemoSampleWriter.DefaultRowGroupSize));
+        AtomicFile.WriteText(ContractPath, DemoContract.Text);
+    }
+
+    /// <summary>Builds the reference from the full simulation under the contract.</summary>
+    public ReferenceHistograms BuildReference()
+    {
+        var contract = ContractLoader.Load(ContractPath);
+        var reference = ReferenceBuilder.Build(contract, [FullSimulationPath], contract.Sample.Weight, ToolVersion.Current);
+        ReferenceFile.Write(contract.ReferenceFullPath, reference);
+        return reference;
+    }
+
+    /// <summary>Checks one surrogate sample and writes its JUnit report.</summary>
+    public (CheckReport Report, string JUnitPath) Check(string samplePath, string reportName)
+    {
+        var contract = ContractLoader.Load(ContractPath);
+        var report = ContractCheck.Run(contract, samplePath);
+        var junit = Path.Combine(ReportFolder, reportName + ".junit.xml");
+        JUnitReport.Write(junit, [report]);
+        return (report, junit);
+    }
+}

@@ -1,0 +1,37 @@
+namespace GateTasks.Cli.Tests;
+
+public class CommandLineTests
+{
+    [Fact]
+    public void Unknown_option_is_a_usage_error_with_exit_code_two()
+    {
+        var (code, _, stderr) = Cli.Run("check", "--no-such-option");
+        Assert.Equal(2, code);
+        Assert.Contains("GATE0001", stderr);
+    }
+
+    [Fact]
+    public void Missing_contract_file_exits_two_naming_the_file()
+    {
+        var (code, _, stderr) = Cli.Run("check", "--contract", "/nonexistent/precision-contract.yaml");
+        Assert.Equal(2, code);
+        Assert.Contains("error GATE1001", stderr);
+        Assert.Contains("/nonexistent/precision-contract.yaml", stderr);
+    }
+
+    [Fact]
+    public void Help_lists_the_commands()
+    {
+        var (code, stdout, _) = Cli.Run("--help");
+        Assert.Equal(0, code);
+        foreach (var c in new[] { "check", "reference", "demo", "schema" }) Assert.Contains(c, stdout);
+    }
+
+    [Fact]
+    public void Schema_command_prints_the_json_schema()
+    {
+        var (code, stdout, _) = Cli.Run("schema");
+        Assert.Equal(0, code);
+        Assert.Contains("\"contract-version\"", stdout);
+    }
+}

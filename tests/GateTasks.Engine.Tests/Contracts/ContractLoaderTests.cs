@@ -1,0 +1,153 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Demo;
+using GateTasks.Engine.Diagnostics;
+
+namespace GateTasks.Engine.Tests.Contracts;
+
+public class ContractLoaderTests
+{
+    private const string Minimal = """
+        contract-version: 1
+        sample: s.parquet
+        reference: r.parquet
+        defaults:
+          checks:
+            ks-max: 0.01
+            ratio-max: { core: 0.02, tails: 0.1 }
+        features:
+          - name: x
+          - name: y
+            column: y_col
+            checks:
+              ks-max: off
+              ratio-max: { tails: 0.2 }
+          - name: n
+            kind: discrete
+            checks:
+              ratio-max: 0.05
+        """;
+
+    private static GateInputException Fails(string text) =>
+        Assert.Throws<GateInputException>(() => ContractLoader.Parse(text, "c.yaml"));
+
+    [Fact]
+    public void Demo_contract_loads_with_defaults_applied()
+    {
+        var c = ContractLoader.Parse(DemoContract.Text, "demo.yaml");
+        Assert.Equal("demo-diphoton", c.Title);
+        Assert.Equal("weight", c.Sample.Weight);
+        Assert.Equal(9, c.Features.Count);
+        var mgg = c.Features[0];
+        Assert.Equal(BinningMode.Uniform, mgg.Binning.Mode);
+        Assert.Equal(50, mgg.Binning.Bins);
+        Assert.Equal(0.05, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Core).Limit);
+        Assert.Equal(0.12, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Tails).Limit);
+        var pt = c.Features[1];
+        Assert.Equal(BinningMode.Quantile, pt.Binning.Mode);
+        Assert.Equal(20, pt.Binning.Bins);
+        Assert.Equal(0.05, pt.Core.LowerQuantile, 12);
+        Assert.Equal(0.95, pt.Core.UpperQuantile, 12);
+        var converted = c.Features[8];
+        Assert.Equal(FeatureKind.Discrete, converted.Kind);
+        Assert.DoesNotContain(converted.Checks, k => k.Kind is CheckKind.KolmogorovSmirnov or CheckKind.Wasserstein);
+    }
+
+    [Fact]
+    public void Feature_overrides_merge_with_defaults_per_region_and_off_removes_a_check()
+    {
+        var c = ContractLoader.Parse(Minimal, "c.yaml");
+        var x = c.Features[0];
+        Assert.Equal(3, x.Checks.Count);
+        var y = c.Features[1];
+        Assert.Equal("y_col", y.Column);
+        Assert.DoesNotContain(y.Checks, k => k.Kind == CheckKind.KolmogorovSmirnov);
+        Assert.Equal(0.02, y.Checks.Single(k => k.Region == Region.Core).Limit);
+        var tails = y.Checks.Single(k => k.Region == Region.Tails);
+        Assert.Equal(0.2, tails.Limit);
+        Assert.Equal(new SourceLocation("c.yaml", 15, 29), tails.Location);
+        var n = c.Features[2];
+        Assert.Equal(CheckKind.BinRatio, n.Checks.Single(k => k.Region == Region.All).Kind);
+        Assert.DoesNotContain(n.Checks, k => k.Region is Region.Core or Region.Tails);
+    }
+
+    [Fact]
+    public void Misspelt_top_level_key_names_line_column_and_suggestion()
+    {
+        var e = Fails(Minimal.Replace("features:", "feautres:"));
+        Assert.Equal(ErrorCodes.ContractUnknownKey, e.Code);
+        Assert.Equal(new SourceLocation("c.yaml", 8, 1), e.Location);
+        Assert.Contains("did you mean 'features'", e.Message);
+    }
+
+    [Fact]
+    public void Misspelt_check_key_suggests_the_check()
+    {
+        var e = Fails(Minimal.Replace("ks-max: 0.01", "ks-mx: 0.01"));
+        Assert.Equal(ErrorCodes.ContractUnknownKey, e.Code);
+        Assert.Equal(6, e.Location!.Line);
+        Assert.Equal(5, e.Location.Column);
+        Assert.Contains("'ks-max'", e.Message);
+    }
+
+    [Fact]
+    public void Wrong_types_and_ranges_are_located()
+    {
+        var bins = Fails(Minimal.Replace("  - name: x", "  - name: x\n    binning: { bins: many }"));
+        Assert.Equal(ErrorCodes.ContractBadValue, bins.Code);
+        Assert.Equal(10, bins.Location!.Line);
+        Assert.Contains("whole number", bins.Message);
+
+        var tol = Fails(Minimal.Replace("ks-max: 0.01", "ks-max: 1.5"));
+        Assert.Equal(ErrorCodes.ContractBadValue, tol.Code);
+        Assert.Equal(new SourceLocation("c.yaml", 6, 13), tol.Location);
+
+        var kind = Fails(Minimal.Replace("kind: discrete", "kind: discreet"));
+        Assert.Contains("did you mean 'discrete'", kind.Message);
+
+        var features = Fails(Minimal.Replace("  - name: x\n", "  - 42\n"));
+        Assert.Equal(ErrorCodes.ContractBadValue, features.Code);
+    }
+
+    [Fact]
+    public void Structural_errors_have_their_own_codes()
+    {
+        Assert.Equal(ErrorCodes.ContractDuplicateFeature, Fails(Minimal.Replace("name: y", "name: x")).Code);
+        Assert.Equal(ErrorCodes.ContractVersion, Fails(Minimal.Replace("contract-version: 1", "contract-version: 2")).Code);
+        Assert.Equal(ErrorCodes.ContractMissingKey, Fails(Minimal.Replace("reference: r.parquet\n", "")).Code);
+        var syntax = Fails("contract-version: 1\nsample: [unclosed\n");
+        Assert.Equal(ErrorCodes.ContractSyntax, syntax.Code);
+        Assert.True(syntax.Location!.Line >= 2);
+        Assert.Equal(ErrorCodes.ContractBadValue,
+            Fails(Minimal.Replace("    kind: discrete\n", "    kind: discrete\n    binning: { bins: 3 }\n")).Code);
+    }
+
+    [Fact]
+    public void A_feature_without_any_check_is_refused_rather_than_passing_silently()
+    {
+        var e = Fails("contract-version: 1\nsample: s\nreference: r\nfeatures:\n  - name: x\n");
+        Assert.Equal(ErrorCodes.ContractBadValue, e.Code);
+        Assert.Contains("no checks", e.Message);
+    }
+
+    [Fact]
+    public void Binning_forms_are_validated()
+    {
+        var edges = ContractLoader.Parse(Minimal.Replace("  - name: x", "  - name: x\n    binning: { edges: [0, 1, 3] }"), "c.yaml");
+        Assert.Equal(BinningMode.Edges, edges.Features[0].Binning.Mode);
+        Assert.Equal("edges:0,1,3", edges.Features[0].Binning.Canonical);
+        Assert.Equal(ErrorCodes.ContractBadValue,
+            Fails(Minimal.Replace("  - name: x", "  - name: x\n    binning: { edges: [0, 2, 1] }")).Code);
+        Assert.Equal(ErrorCodes.ContractMissingKey,
+            Fails(Minimal.Replace("  - name: x", "  - name: x\n    binning: { bins: 5, spacing: uniform }")).Code);
+        Assert.Equal(ErrorCodes.ContractBadValue,
+            Fails(Minimal.Replace("  - name: x", "  - name: x\n    binning: { bins: 5, spacing: quantile, range: [0, 1] }")).Code);
+    }
+
+    [Fact]
+    public void Missing_file_is_reported_with_its_path()
+    {
+        var e = Assert.Throws<GateInputException>(() => ContractLoader.Load(Path.Combine(Path.GetTempPath(), "no-such-dir", "none.yaml")));
+        Assert.Equal(ErrorCodes.ContractNotFound, e.Code);
+        Assert.Contains("none.yaml", e.Message);
+    }
+}

@@ -1,0 +1,52 @@
+using System.Text.Json.Nodes;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Demo;
+using Json.Schema;
+
+namespace GateTasks.Engine.Tests.Contracts;
+
+/// <summary>
+/// The shipped JSON Schema must agree with the loader. It is checked with JsonSchema.Net 7.4.0, an independent
+/// implementation of JSON Schema draft 2020-12 (json-schema.org).
+/// </summary>
+public class ContractSchemaTests
+{
+    private static readonly JsonSchema Schema = JsonSchema.FromText(ContractSchema.Text);
+
+    private static bool Valid(string yaml) =>
+        Schema.Evaluate(YamlToJson.Convert(yaml), new EvaluationOptions { OutputFormat = OutputFormat.List }).IsValid;
+
+    [Fact]
+    public void Demo_contract_is_valid_against_the_schema()
+    {
+        Assert.True(Valid(DemoContract.Text));
+    }
+
+    [Theory]
+    [InlineData("features:", "feautres:")]
+    [InlineData("ks-max: 0.01", "ks-mx: 0.01")]
+    [InlineData("contract-version: 1", "contract-version: 2")]
+    [InlineData("bins: 20, spacing: quantile", "bins: 20, spacing: quantiles")]
+    [InlineData("core: 0.90  ", "core: 1.5  ")]
+    public void Schema_rejects_what_the_loader_rejects(string from, string to)
+    {
+        var broken = DemoContract.Text.Replace(from, to);
+        Assert.NotEqual(DemoContract.Text, broken);
+        Assert.False(Valid(broken));
+        Assert.ThrowsAny<Exception>(() => ContractLoader.Parse(broken, "c.yaml"));
+    }
+
+    [Fact]
+    public void Schema_lists_exactly_the_loaders_keys()
+    {
+        var root = JsonNode.Parse(ContractSchema.Text)!;
+        string[] Keys(JsonNode? o) => o!["properties"]!.AsObject().Select(p => p.Key).Order().ToArray();
+        var defs = root["$defs"]!;
+        Assert.Equal(ContractKeys.TopLevel.Order(), Keys(root));
+        Assert.Equal(ContractKeys.DefaultsKeys.Order(), Keys(root["properties"]!["defaults"]));
+        Assert.Equal(ContractKeys.FeatureKeys.Order(), Keys(defs["feature"]));
+        Assert.Equal(ContractKeys.BinningKeys.Order(), Keys(defs["binning"]));
+        Assert.Equal(ContractKeys.CheckKeys.Order(), Keys(defs["checks"]));
+        Assert.Equal(ContractKeys.SampleKeys.Order(), Keys(root["properties"]!["sample"]!["oneOf"]![1]));
+    }
+}
