@@ -191,6 +191,19 @@ public class KolmogorovSmirnovTests
     }
 
     [Fact]
+    public void MillionPointShiftedGrid()
+    {
+        // Exact by construction: x = i/N, y = x + 1/100 (N = 10⁶), so sup|F − G| = 1/100; the p-value is the
+        // Kolmogorov limit at λ = √(N/2)·D, far in the tail.
+        const int n = 1_000_000;
+        double[] x = Enumerable.Range(0, n).Select(i => (double)i / n).ToArray();
+        double[] y = Enumerable.Range(10_000, n).Select(i => (double)i / n).ToArray();
+        TestResult r = KolmogorovSmirnov.TwoSample(x, y);
+        Near(0.01, r.Statistic, 1e-12);
+        Near(KolmogorovSmirnov.LimitSurvival(Math.Sqrt(n / 2.0) * 0.01), r.PValue, 1e-12, 1e-300);
+    }
+
+    [Fact]
     public void EmptySampleIsRejected()
     {
         var e = Assert.Throws<GateInputException>(() => KolmogorovSmirnov.TwoSample(Array.Empty<double>(), new[] { 1.0 }));
