@@ -1,0 +1,168 @@
+using MathNet.Numerics;
+
+namespace GateTasks.Engine.Statistics;
+
+/// <summary>
+/// k-sample Anderson–Darling test (Scholz &amp; Stephens 1987, JASA 82:918), statistics from their eqs. 6–7
+/// and the tie-adjusted version, variance σ_N² from their eq. 4, p-values by their interpolation of Table 1.
+/// </summary>
+internal static class AndersonDarling
+{
+    /// <summary>Computes both statistics, σ_N, standardised T and asymptotic p-values.</summary>
+    internal static AndersonDarlingResult KSample(IReadOnlyList<double[]> samples)
+    {
+        ArgumentNullException.ThrowIfNull(samples);
+        int k = samples.Count;
+        if (k < 2)
+            throw new ArgumentException("The k-sample Anderson–Darling test needs at least two samples.", nameof(samples));
+        var sizes = new int[k];
+        int bigN = 0;
+        for (int i = 0; i < k; i++)
+        {
+            double[] s = samples[i] ?? throw new ArgumentException($"Sample {i} is null.", nameof(samples));
+            SampleChecks.RequireNonEmpty(s, $"samples[{i}]");
+            SampleChecks.RequireFinite(s, $"samples[{i}]");
+            sizes[i] = s.Length;
+            bigN += s.Length;
+        }
+        if (bigN < 4)
+            throw new ArgumentException("The variance σ_N² needs at least four observations in total.", nameof(samples));
+
+        var pooled = new double[bigN];
+        var owner = new int[bigN];
+        for (int i = 0, at = 0; i < k; i++)
+        {
+            samples[i].CopyTo(pooled, at);
+            owner.AsSpan(at, sizes[i]).Fill(i);
+            at += sizes[i];
+        }
+        Array.Sort(pooled, owner);
+        if (pooled[0] == pooled[^1])
+            throw new ArgumentException("All observations are equal; the Anderson–Darling statistic is undefined.", nameof(samples));
+
+        (double a2kN, double a2akN) = BothStatistics(pooled, owner, sizes);
+        double sigma = Math.Sqrt(Variance(sizes, bigN));
+        int m = k - 1;
+        double tkN = (a2kN - m) / sigma, takN = (a2akN - m) / sigma;
+        (double pkN, bool exkN) = PValue(tkN, m);
+        (double pakN, bool exakN) = PValue(takN, m);
+        return new AndersonDarlingResult(a2kN, a2akN, sigma, tkN, takN, pkN, pakN, exkN, exakN);
+    }
+
+    /// <summary>
+    /// Asymptotic P(T_m ≥ t) by Scholz &amp; Stephens' (1987) interpolation of their Table 1: for each upper
+    /// level α ∈ {0.25, 0.10, 0.05, 0.025, 0.01} the tabulated quantiles t_m(α) are fitted by least squares
+    /// as a quadratic in 1/√m and evaluated at m; then log(α/(1−α)) is fitted as a quadratic in those
+    /// quantiles and evaluated at t. Outside the quantile range the fitted quadratic is continued linearly
+    /// from its end point (value and slope), and the result is flagged as extrapolated.
+    /// </summary>
+    internal static (double PValue, bool Extrapolated) PValue(double t, int m)
+    {
+        if (m < 1)
+            throw new ArgumentOutOfRangeException(nameof(m), "m = k − 1 must be at least 1.");
+        if (double.IsNaN(t))
+            throw new ArgumentException("T is NaN.", nameof(t));
+        double x = 1.0 / Math.Sqrt(m);
+        var quantiles = new double[Levels.Length];
+        for (int a = 0; a < Levels.Length; a++)
+        {
+            double[] c = Fit.Polynomial(InverseRootM, Table1[a], 2);
+            quantiles[a] = c[0] + c[1] * x + c[2] * x * x;
+        }
+        var logOdds = new double[Levels.Length];
+        for (int a = 0; a < Levels.Length; a++)
+            logOdds[a] = Math.Log(Levels[a] / (1 - Levels[a]));
+        double[] f = Fit.Polynomial(quantiles, logOdds, 2);
+        double lo = quantiles.Min(), hi = quantiles.Max();
+        double FitAt(double v) => f[0] + f[1] * v + f[2] * v * v;
+        double SlopeAt(double v) => f[1] + 2 * f[2] * v;
+        double lp;
+        bool extrapolated = false;
+        if (t > hi) { lp = FitAt(hi) + (t - hi) * SlopeAt(hi); extrapolated = true; }
+        else if (t < lo) { lp = FitAt(lo) + (t - lo) * SlopeAt(lo); extrapolated = true; }
+        else lp = FitAt(t);
+        return (1.0 / (1.0 + Math.Exp(-lp)), extrapolated);
+    }
+
+    // Scholz & Stephens 1987, Table 1: upper quantiles of T_m for m = 1, 2, 3, 4, 6, 8, 10, ∞.
+    private static readonly double[] Levels = { 0.25, 0.10, 0.05, 0.025, 0.01 };
+    private static readonly double[] InverseRootM =
+        { 1.0, 1 / Math.Sqrt(2), 1 / Math.Sqrt(3), 0.5, 1 / Math.Sqrt(6), 1 / Math.Sqrt(8), 1 / Math.Sqrt(10), 0.0 };
+    private static readonly double[][] Table1 =
+    {
+        new[] { 0.326, 0.449, 0.498, 0.525, 0.557, 0.576, 0.590, 0.674 },
+        new[] { 1.225, 1.309, 1.324, 1.329, 1.332, 1.330, 1.329, 1.282 },
+        new[] { 1.960, 1.945, 1.915, 1.894, 1.859, 1.839, 1.823, 1.645 },
+        new[] { 2.719, 2.576, 2.493, 2.438, 2.365, 2.318, 2.284, 1.960 },
+        new[] { 3.752, 3.414, 3.246, 3.139, 3.005, 2.920, 2.862, 2.326 },
+    };
+
+    /// <summary>
+    /// One pass over the distinct pooled values Z*_j (tie counts l_j, cumulative B_j) with per-sample
+    /// counts f_ij and cumulative M_ij:
+    /// A²kN = (1/N) Σ_i (1/n_i) Σ_{j&lt;L} l_j (N M_ij − n_i B_j)² / (B_j (N − B_j));
+    /// A²akN = ((N−1)/N²) Σ_i (1/n_i) Σ_j l_j (N M_aij − n_i B_aj)² / (B_aj (N − B_aj) − N l_j/4),
+    /// with M_aij = M_ij − f_ij/2 and B_aj = B_j − l_j/2.
+    /// </summary>
+    private static (double A2kN, double A2akN) BothStatistics(double[] pooled, int[] owner, int[] sizes)
+    {
+        int k = sizes.Length, bigN = pooled.Length;
+        double n = bigN;
+        var cumulative = new long[k];
+        var inGroup = new long[k];
+        double sumK = 0, sumAk = 0;
+        long b = 0;
+        int start = 0;
+        while (start < bigN)
+        {
+            int end = start;
+            while (end + 1 < bigN && pooled[end + 1] == pooled[start]) end++;
+            Array.Clear(inGroup);
+            for (int p = start; p <= end; p++) inGroup[owner[p]]++;
+            long l = end - start + 1;
+            b += l;
+            double ba = b - l / 2.0;
+            double denomA = ba * (n - ba) - n * l / 4.0;
+            bool last = end == bigN - 1;
+            for (int i = 0; i < k; i++)
+            {
+                cumulative[i] += inGroup[i];
+                double ni = sizes[i];
+                if (!last)
+                {
+                    double r = n * cumulative[i] - ni * b;
+                    sumK += l * r * r / (b * (n - b)) / ni;
+                }
+                if (denomA > 0)
+                {
+                    double ma = cumulative[i] - inGroup[i] / 2.0;
+                    double r = n * ma - ni * ba;
+                    sumAk += l * r * r / denomA / ni;
+                }
+            }
+            start = end + 1;
+        }
+        return (sumK / n, sumAk * (n - 1) / (n * n));
+    }
+
+    /// <summary>σ_N² of A²kN under the null (Scholz &amp; Stephens 1987, eq. 4).</summary>
+    private static double Variance(int[] sizes, int bigN)
+    {
+        double n = bigN, k = sizes.Length;
+        double h = 0, bigH = 0, g = 0;
+        foreach (int s in sizes) bigH += 1.0 / s;
+        for (int i = 1; i < bigN; i++) h += 1.0 / i;
+        // g = Σ_{i=1}^{N−2} Σ_{j=i+1}^{N−1} 1/((N−i) j) = Σ_{j=2}^{N−1} (1/j) Σ_{i=1}^{j−1} 1/(N−i), in O(N).
+        double inner = 0;
+        for (int j = 2; j < bigN; j++)
+        {
+            inner += 1.0 / (n - (j - 1));
+            g += inner / j;
+        }
+        double a = (4 * g - 6) * (k - 1) + (10 - 6 * g) * bigH;
+        double bb = (2 * g - 4) * k * k + 8 * h * k + (2 * g - 14 * h - 4) * bigH - 8 * h + 4 * g - 6;
+        double c = (6 * h + 2 * g - 2) * k * k + (4 * h - 4 * g + 6) * k + (2 * h - 6) * bigH + 4 * h;
+        double d = (2 * h + 6) * k * k - 4 * h * k;
+        return (a * n * n * n + bb * n * n + c * n + d) / ((n - 1) * (n - 2) * (n - 3));
+    }
+}
