@@ -25,7 +25,7 @@ internal static class ChiSquareCheck
         };
         var p = result.PValue;
         return CheckOutcome.Decide(c.Spec, spec, p,
-            $"χ² p-value {InvariantNumber.Short(p)} {(p >= spec.Limit ? "≥" : "<")} {InvariantNumber.Short(spec.Limit)} (χ² {InvariantNumber.Short(result.Statistic)}, ndf {result.DegreesOfFreedom})",
-            [new("chi2", InvariantNumber.Exact(result.Statistic)), new("ndf", result.DegreesOfFreedom.ToString(System.Globalization.CultureInfo.InvariantCulture)), new("form", form)]);
+            $"χ² p-value {InvariantNumber.Short(p)} {(p >= spec.Limit ? "≥" : "<")} {InvariantNumber.Short(spec.Limit)} (χ² {InvariantNumber.Short(result.ChiSquare)}, ndf {result.DegreesOfFreedom})",
+            [new("chi2", InvariantNumber.Exact(result.ChiSquare)), new("ndf", result.DegreesOfFreedom.ToString(System.Globalization.CultureInfo.InvariantCulture)), new("form", form)]);
     }
 }

@@ -85,7 +85,7 @@ internal static class ContractCheck
         for (var i = 0; i < n; i++)
         {
             var m = moments[i];
-            var summary = new FeatureSummary(m.Count, m.SumW, m.SumW2, m.Mean, m.StandardDeviation, min[i], max[i], histograms[i].NanEntries);
+            var summary = new FeatureSummary(m.Count, m.SumOfWeights, m.SumOfSquaredWeights, m.Mean, m.StandardDeviation, min[i], max[i], histograms[i].NanEntries);
             var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], summary, cores[i]);
             foreach (var check in contract.Features[i].Checks) outcomes.Add(CheckEvaluator.Evaluate(comparison, check));
         }

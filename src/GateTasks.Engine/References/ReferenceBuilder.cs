@@ -121,7 +121,7 @@ internal static class ReferenceBuilder
                 ? new List<QuantilePoint>()
                 : probabilities.Select(p => new QuantilePoint(p, grid.Quantile(p))).ToList();
             var m = moments[i];
-            var summary = new FeatureSummary(m.Count, m.SumW, m.SumW2, m.Mean, m.StandardDeviation, min[i], max[i], nan[i]);
+            var summary = new FeatureSummary(m.Count, m.SumOfWeights, m.SumOfSquaredWeights, m.Mean, m.StandardDeviation, min[i], max[i], nan[i]);
             result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.Binning.Canonical, histogram, summary, quantiles));
         }
 
