@@ -1,0 +1,95 @@
+using System.Runtime.CompilerServices;
+using Parquet;
+using Parquet.Schema;
+
+namespace GateTasks.Engine.Samples;
+
+/// <summary>
+/// Reads one flat numeric Parquet column, row group by row group, into a <see cref="double"/> buffer.
+/// The stored-type buffers are kept and reused for the next row group, so a file costs
+/// one row group of memory per column however many row groups it has.
+/// </summary>
+internal abstract class ParquetColumnDecoder
+{
+    /// <summary>The decoder for <paramref name="field"/>, stored as <paramref name="type"/>.</summary>
+    public static ParquetColumnDecoder Create(DataField field, SampleValueType type) => type switch
+    {
+        SampleValueType.Float32 => new Typed<float>(field),
+        SampleValueType.Float64 => new Typed<double>(field),
+        SampleValueType.Int8 => new Typed<sbyte>(field),
+        SampleValueType.Int16 => new Typed<short>(field),
+        SampleValueType.Int32 => new Typed<int>(field),
+        SampleValueType.Int64 => new Typed<long>(field),
+        SampleValueType.UInt8 => new Typed<byte>(field),
+        SampleValueType.UInt16 => new Typed<ushort>(field),
+        SampleValueType.UInt32 => new Typed<uint>(field),
+        SampleValueType.UInt64 => new Typed<ulong>(field),
+        SampleValueType.Boolean => new Typed<bool>(field),
+        _ => throw new ArgumentOutOfRangeException(nameof(type), type, "not a numeric column type"),
+    };
+
+    /// <summary>
+    /// Reads the column's chunk in <paramref name="rowGroup"/> (<paramref name="rows"/> rows) into
+    /// <paramref name="destination"/>; a null becomes NaN. Throws <see cref="InvalidDataException"/> when the
+    /// chunk does not hold one value or null per row.
+    /// </summary>
+    public abstract void Decode(ParquetRowGroupReader rowGroup, int rows, double[] destination);
+
+    private sealed class Typed<T>(DataField field) : ParquetColumnDecoder where T : struct
+    {
+        private T[] _values = [];
+        private int[] _definitionLevels = [];
+
+        public override void Decode(ParquetRowGroupReader rowGroup, int rows, double[] destination)
+        {
+            var metadata = rowGroup.GetMetadata(field)?.MetaData
+                ?? throw new InvalidDataException($"column '{field.Name}' has no data in a row group");
+            // A flat column stores one entry (value or null) per row; anything else is a damaged or nested file.
+            if (metadata.NumValues != rows)
+                throw new InvalidDataException(
+                    $"column '{field.Name}' holds {metadata.NumValues} values in a row group of {rows} rows");
+
+            if (_values.Length < rows) _values = new T[rows];
+            var nullable = field.MaxDefinitionLevel > 0;
+            if (nullable && _definitionLevels.Length < rows) _definitionLevels = new int[rows];
+
+            // The raw read fills the values densely (nulls skipped) plus one definition level per row, into our
+            // buffers; the library's nullable overload would allocate two temporary buffers per row group.
+            rowGroup.ReadRawAsync<T>(
+                    field,
+                    _values.AsMemory(0, rows),
+                    nullable ? _definitionLevels.AsMemory(0, rows) : null,
+                    null)
+                .AsTask().GetAwaiter().GetResult();
+
+            if (!nullable)
+            {
+                for (var i = 0; i < rows; i++) destination[i] = ToDouble(_values[i]);
+                return;
+            }
+
+            var maxLevel = field.MaxDefinitionLevel;
+            var next = 0;
+            for (var i = 0; i < rows; i++)
+                destination[i] = _definitionLevels[i] < maxLevel ? double.NaN : ToDouble(_values[next++]);
+        }
+
+        // typeof(T) tests on a value type are constants to the JIT, so each instantiation keeps only its own branch.
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        private static double ToDouble(T value)
+        {
+            if (typeof(T) == typeof(float)) return Unsafe.As<T, float>(ref value);
+            if (typeof(T) == typeof(double)) return Unsafe.As<T, double>(ref value);
+            if (typeof(T) == typeof(sbyte)) return Unsafe.As<T, sbyte>(ref value);
+            if (typeof(T) == typeof(short)) return Unsafe.As<T, short>(ref value);
+            if (typeof(T) == typeof(int)) return Unsafe.As<T, int>(ref value);
+            if (typeof(T) == typeof(long)) return Unsafe.As<T, long>(ref value);
+            if (typeof(T) == typeof(byte)) return Unsafe.As<T, byte>(ref value);
+            if (typeof(T) == typeof(ushort)) return Unsafe.As<T, ushort>(ref value);
+            if (typeof(T) == typeof(uint)) return Unsafe.As<T, uint>(ref value);
+            if (typeof(T) == typeof(ulong)) return Unsafe.As<T, ulong>(ref value);
+            if (typeof(T) == typeof(bool)) return Unsafe.As<T, bool>(ref value) ? 1.0 : 0.0;
+            throw new NotSupportedException(typeof(T).Name);
+        }
+    }
+}

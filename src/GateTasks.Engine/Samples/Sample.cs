@@ -1,0 +1,96 @@
+using GateTasks.Engine.Diagnostics;
+
+namespace GateTasks.Engine.Samples;
+
+/// <summary>
+/// A sample made of one or more files, read as one stream of batches in file order. Opening reads only each file's
+/// schema; files are opened one at a time while reading, so neither memory nor open handles grow with the sample.
+/// </summary>
+internal sealed class Sample
+{
+    private readonly IReadOnlyList<SampleColumn>[] _fileColumns;
+
+    private Sample(IReadOnlyList<string> files, IReadOnlyList<SampleColumn>[] fileColumns)
+    {
+        Files = files;
+        _fileColumns = fileColumns;
+        Columns = CommonColumns(fileColumns);
+    }
+
+    /// <summary>The files, in reading order.</summary>
+    public IReadOnlyList<string> Files { get; }
+
+    /// <summary>The columns every file has, in the first file's order, with the first file's type.</summary>
+    public IReadOnlyList<SampleColumn> Columns { get; }
+
+    /// <summary>Rows read by the last (or current) <see cref="ReadBatches"/> enumeration.</summary>
+    public long RowsRead { get; private set; }
+
+    /// <summary>Batches read by the last (or current) <see cref="ReadBatches"/> enumeration.</summary>
+    public int BatchesRead { get; private set; }
+
+    /// <summary>
+    /// Opens every file's schema (GATE2001 missing, GATE2002 unreadable, GATE0001 a file listed twice, which would
+    /// count its events twice).
+    /// </summary>
+    public static Sample Open(IReadOnlyList<string> files)
+    {
+        if (files.Count == 0)
+            throw new GateInputException(ErrorCodes.SampleNotFound, "the sample has no files");
+
+        var seen = new HashSet<string>(StringComparer.Ordinal);
+        var columns = new IReadOnlyList<SampleColumn>[files.Count];
+        for (var i = 0; i < files.Count; i++)
+        {
+            if (!seen.Add(Path.GetFullPath(files[i])))
+                throw new GateInputException(ErrorCodes.Usage,
+                    $"sample file '{files[i]}' is listed twice; its events would be counted twice",
+                    new SourceLocation(files[i]));
+            using var reader = SampleReaderFactory.Open(files[i]);
+            columns[i] = reader.Columns;
+        }
+        return new Sample(files.ToArray(), columns);
+    }
+
+    /// <summary>
+    /// Reads <paramref name="columns"/> from every file in order. Every file must have every column as a numeric
+    /// column; this is checked for all files before any data is read, so a mismatch in the last file fails at once.
+    /// Batches and their buffers are only valid until the next one is requested.
+    /// </summary>
+    public IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns)
+    {
+        for (var i = 0; i < Files.Count; i++)
+            SampleColumnLookup.IndicesOf(Files[i], _fileColumns[i], columns, PresenceNote(columns, i));
+        return Batches(columns);
+    }
+
+    private IEnumerable<SampleBatch> Batches(IReadOnlyList<string> columns)
+    {
+        RowsRead = 0;
+        BatchesRead = 0;
+        foreach (var file in Files)
+        {
+            using var reader = SampleReaderFactory.Open(file);
+            foreach (var batch in reader.ReadBatches(columns))
+            {
+                RowsRead += batch.RowCount;
+                BatchesRead++;
+                yield return batch;
+            }
+        }
+    }
+
+    // For a column missing from one file: say how many of the others have it, since that usually means a stray file.
+    private string PresenceNote(IReadOnlyList<string> columns, int file)
+    {
+        var missing = columns.FirstOrDefault(c => _fileColumns[file].All(s => s.Name != c));
+        if (missing is null || Files.Count == 1) return "";
+        var having = _fileColumns.Count(fc => fc.Any(s => s.Name == missing));
+        return having == 0 ? "" : $"; {having} of the sample's {Files.Count} files have it";
+    }
+
+    private static SampleColumn[] CommonColumns(IReadOnlyList<SampleColumn>[] fileColumns) =>
+        fileColumns[0]
+            .Where(c => fileColumns.All(f => f.Any(o => o.Name == c.Name)))
+            .ToArray();
+}

@@ -1,0 +1,75 @@
+using GateTasks.Engine.Diagnostics;
+using Microsoft.Extensions.FileSystemGlobbing;
+
+namespace GateTasks.Engine.Samples;
+
+/// <summary>Turns a sample argument (a file, a folder or a glob) into the list of files to read.</summary>
+internal static class SampleFiles
+{
+    private static readonly StringComparison PathComparison =
+        OperatingSystem.IsWindows() ? StringComparison.OrdinalIgnoreCase : StringComparison.Ordinal;
+
+    /// <summary>
+    /// The absolute paths <paramref name="pattern"/> names, sorted ordinally so every run reads files in the
+    /// same order: a file; a folder's <c>.parquet</c>, <c>.pq</c> and <c>.csv</c> files (not its subfolders); or a
+    /// glob with <c>*</c>, <c>**</c> and <c>?</c>, which takes whatever files it matches. A relative pattern is
+    /// relative to <paramref name="baseDirectory"/>. GATE2001 when nothing matches.
+    /// </summary>
+    public static IReadOnlyList<string> Resolve(string pattern, string baseDirectory)
+    {
+        if (string.IsNullOrWhiteSpace(pattern))
+            throw new GateInputException(ErrorCodes.SampleNotFound, "no sample file given (the sample pattern is empty)");
+
+        var baseFull = System.IO.Path.GetFullPath(baseDirectory);
+        var combined = System.IO.Path.IsPathRooted(pattern) ? pattern : System.IO.Path.Combine(baseFull, pattern);
+        var wildcard = combined.IndexOfAny(['*', '?']);
+        return wildcard < 0 ? ResolvePath(pattern, baseFull, combined) : ResolveGlob(pattern, baseFull, combined, wildcard);
+    }
+
+    private static string[] ResolvePath(string pattern, string baseFull, string combined)
+    {
+        var full = System.IO.Path.GetFullPath(combined);
+        if (File.Exists(full)) return [full];
+        if (!Directory.Exists(full))
+            throw new GateInputException(ErrorCodes.SampleNotFound,
+                $"sample '{pattern}' does not exist (looked for '{full}', relative to '{baseFull}')");
+
+        var files = Directory.EnumerateFiles(full)
+            .Where(f => SampleReaderFactory.IsParquetExtension(System.IO.Path.GetExtension(f))
+                        || SampleReaderFactory.IsCsvExtension(System.IO.Path.GetExtension(f)))
+            .Select(System.IO.Path.GetFullPath)
+            .Order(StringComparer.Ordinal)
+            .ToArray();
+        if (files.Length == 0)
+            throw new GateInputException(ErrorCodes.SampleNotFound,
+                $"sample folder '{full}' holds no .parquet, .pq or .csv files");
+        return files;
+    }
+
+    private static string[] ResolveGlob(string pattern, string baseFull, string combined, int wildcard)
+    {
+        // The part before the first wildcard's folder is a plain path: the root the glob is matched under.
+        var separator = combined.LastIndexOfAny(Separators, wildcard);
+        var root = System.IO.Path.GetFullPath(separator < 0 ? baseFull : combined[..(separator + 1)]);
+        var relative = combined[(separator + 1)..];
+        if (OperatingSystem.IsWindows()) relative = relative.Replace('\\', '/');
+
+        string[] files = [];
+        if (Directory.Exists(root))
+        {
+            var matcher = new Matcher(PathComparison);
+            matcher.AddInclude(relative);
+            files = matcher.GetResultsInFullPath(root)
+                .Select(System.IO.Path.GetFullPath)
+                .Distinct(StringComparer.Ordinal)
+                .Order(StringComparer.Ordinal)
+                .ToArray();
+        }
+        if (files.Length == 0)
+            throw new GateInputException(ErrorCodes.SampleNotFound,
+                $"no sample file matches '{pattern}' (relative to '{baseFull}')");
+        return files;
+    }
+
+    private static readonly char[] Separators = OperatingSystem.IsWindows() ? ['/', '\\'] : ['/'];
+}
