@@ -31,7 +31,7 @@ internal static class ContractCheck
         var files = samplePath is null
             ? ResolveContractSample(contract)
             : SampleFiles.Resolve(samplePath, Directory.GetCurrentDirectory());
-        using var sample = Sample.Open(files);
+        var sample = Sample.Open(files);
         ValidateColumns(contract, sample);
 
         var columns = contract.Features.Select(f => f.Column).Distinct(StringComparer.Ordinal).ToList();

@@ -25,7 +25,7 @@ internal static class ReferenceBuilder
     public static ReferenceHistograms Build(PrecisionContract contract, IReadOnlyList<string> files, string? weightColumn, string toolVersion)
     {
         var features = contract.Features;
-        using var sample = Sample.Open(files);
+        var sample = Sample.Open(files);
         var columns = features.Select(f => f.Column).Distinct(StringComparer.Ordinal).ToList();
         var columnOf = features.Select(f => columns.IndexOf(f.Column)).ToArray();
         var weightIndex = -1;

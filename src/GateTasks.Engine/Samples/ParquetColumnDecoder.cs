@@ -58,7 +58,8 @@ internal abstract class ParquetColumnDecoder
             rowGroup.ReadRawAsync<T>(
                     field,
                     _values.AsMemory(0, rows),
-                    nullable ? _definitionLevels.AsMemory(0, rows) : null,
+                    // The cast matters: a bare null would convert to an empty Memory<int>, i.e. "levels present, none".
+                    nullable ? _definitionLevels.AsMemory(0, rows) : (Memory<int>?)null,
                     null)
                 .AsTask().GetAwaiter().GetResult();
 

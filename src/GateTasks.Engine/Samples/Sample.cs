@@ -26,6 +26,9 @@ internal sealed class Sample
     /// <summary>Rows read by the last (or current) <see cref="ReadBatches"/> enumeration.</summary>
     public long RowsRead { get; private set; }
 
+    /// <summary>The file the current batch comes from, while <see cref="ReadBatches"/> is being enumerated.</summary>
+    public string? CurrentFile { get; private set; }
+
     /// <summary>Batches read by the last (or current) <see cref="ReadBatches"/> enumeration.</summary>
     public int BatchesRead { get; private set; }
 
@@ -70,6 +73,7 @@ internal sealed class Sample
         BatchesRead = 0;
         foreach (var file in Files)
         {
+            CurrentFile = file;
             using var reader = SampleReaderFactory.Open(file);
             foreach (var batch in reader.ReadBatches(columns))
             {
