@@ -21,18 +21,18 @@ internal static class ContractCheck
     {
         var started = DateTimeOffset.UtcNow;
         var clock = Stopwatch.StartNew();
-        var referencePath = contract.ReferenceFullPath;
-        var reference = ReferenceFile.Read(referencePath, contract.ReferenceLocation);
-        var referenceSha = FileDigest.Sha256(referencePath);
-
-        var references = contract.Features.Select(f => MatchReference(reference, f, referencePath)).ToList();
-        var cores = contract.Features.Select((f, i) => RegionBins.Core(references[i], f)).ToList();
-
+        // The sample's columns are checked first: a misspelt column is best answered with the sample's own names.
         var files = samplePath is null
             ? ResolveContractSample(contract)
             : SampleFiles.Resolve(samplePath, Directory.GetCurrentDirectory());
         var sample = Sample.Open(files);
         ValidateColumns(contract, sample);
+
+        var referencePath = contract.ReferenceFullPath;
+        var reference = ReferenceFile.Read(referencePath, contract.ReferenceLocation);
+        var referenceSha = FileDigest.Sha256(referencePath);
+        var references = contract.Features.Select(f => MatchReference(reference, f, referencePath)).ToList();
+        var cores = contract.Features.Select((f, i) => RegionBins.Core(references[i], f)).ToList();
 
         var columns = contract.Features.Select(f => f.Column).Distinct(StringComparer.Ordinal).ToList();
         var columnOf = contract.Features.Select(f => columns.IndexOf(f.Column)).ToArray();
@@ -113,10 +113,15 @@ internal static class ContractCheck
                 $"The reference {Path.GetFileName(referencePath)} has no feature '{feature.Name}'{NearestName.Hint(feature.Name, reference.Features.Select(f => f.Name))}; " +
                 "rebuild it with 'gatetasks reference build'.", feature.Location);
         if (r.Column != feature.Column || r.Kind != feature.Kind || r.BinningRequest != feature.Binning.Canonical)
+        {
+            var where = r.Column != feature.Column ? feature.ColumnLocation
+                : r.Kind != feature.Kind ? feature.Location
+                : feature.Binning.Location;
             throw new GateInputException(ErrorCodes.ReferenceMismatch,
                 $"The reference for feature '{feature.Name}' was built with other settings (column '{r.Column}', {r.Kind.ToString().ToLowerInvariant()}, binning {r.BinningRequest}); " +
                 $"the contract asks for column '{feature.Column}', {feature.Kind.ToString().ToLowerInvariant()}, binning {feature.Binning.Canonical}. " +
-                "Rebuild it with 'gatetasks reference build'.", feature.Binning.Location);
+                "Rebuild it with 'gatetasks reference build'.", where);
+        }
         return r;
     }
 

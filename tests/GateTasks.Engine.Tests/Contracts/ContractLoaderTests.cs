@@ -38,10 +38,10 @@ public class ContractLoaderTests
         Assert.Equal("weight", c.Sample.Weight);
         Assert.Equal(9, c.Features.Count);
         var mgg = c.Features[0];
-        Assert.Equal(BinningMode.Uniform, mgg.Binning.Mode);
-        Assert.Equal(50, mgg.Binning.Bins);
-        Assert.Equal(0.05, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Core).Limit);
-        Assert.Equal(0.12, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Tails).Limit);
+        Assert.Equal(BinningMode.Quantile, mgg.Binning.Mode);
+        Assert.Equal(30, mgg.Binning.Bins);
+        Assert.Equal(0.03, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Core).Limit);
+        Assert.Equal(0.08, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Tails).Limit);
         var pt = c.Features[1];
         Assert.Equal(BinningMode.Quantile, pt.Binning.Mode);
         Assert.Equal(20, pt.Binning.Bins);
@@ -64,9 +64,9 @@ public class ContractLoaderTests
         Assert.Equal(0.02, y.Checks.Single(k => k.Region == Region.Core).Limit);
         var tails = y.Checks.Single(k => k.Region == Region.Tails);
         Assert.Equal(0.2, tails.Limit);
-        Assert.Equal(new SourceLocation("c.yaml", 15, 29), tails.Location);
+        Assert.Equal(new SourceLocation("c.yaml", 14, 27), tails.Location); // line 14: "      ratio-max: { tails: 0.2 }"
         var n = c.Features[2];
-        Assert.Equal(CheckKind.BinRatio, n.Checks.Single(k => k.Region == Region.All).Kind);
+        Assert.Equal(Region.All, n.Checks.Single(k => k.Kind == CheckKind.BinRatio).Region);
         Assert.DoesNotContain(n.Checks, k => k.Region is Region.Core or Region.Tails);
     }
 
