@@ -1,3 +1,4 @@
+using System.Globalization;
 using System.Text;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Diagnostics;
@@ -20,7 +21,7 @@ internal static class ResultTable
                 o.Check.RegionName,
                 InvariantNumber.Short(o.Value),
                 (o.Check.LimitIsMaximum ? "≤ " : "≥ ") + InvariantNumber.Short(o.Check.Limit),
-                double.IsNaN(o.Margin) ? "n/a" : $"{(o.RelativeMargin >= 0 ? "+" : "")}{o.RelativeMargin * 100:0.#}%".Replace(',', '.'),
+                double.IsNaN(o.Margin) ? "n/a" : (o.RelativeMargin >= 0 ? "+" : "") + (o.RelativeMargin * 100).ToString("0.#", CultureInfo.InvariantCulture) + "%",
                 o.Verdict == Verdict.Pass ? "pass" : "FAIL",
             ]);
         }

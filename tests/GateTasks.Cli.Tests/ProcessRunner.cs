@@ -1,0 +1,35 @@
+using System.Diagnostics;
+
+namespace GateTasks.Cli.Tests;
+
+/// <summary>Runs a child process with a clean, test-controlled environment and collects its output.</summary>
+public static class ProcessRunner
+{
+    public static (int ExitCode, string Stdout, string Stderr) Run(string file, IEnumerable<string> args, string workingDirectory,
+        IReadOnlyDictionary<string, string>? environment = null, int timeoutSeconds = 300)
+    {
+        var psi = new ProcessStartInfo(file)
+        {
+            WorkingDirectory = workingDirectory,
+            RedirectStandardOutput = true,
+            RedirectStandardError = true,
+        };
+        foreach (var a in args) psi.ArgumentList.Add(a);
+        // CI markers change build behaviour; tests of the tool must not inherit them.
+        foreach (var v in new[] { "CI", "GITHUB_ACTIONS", "TF_BUILD" }) psi.Environment.Remove(v);
+        psi.Environment["MSBUILDDISABLENODEREUSE"] = "1";
+        psi.Environment["DOTNET_CLI_TELEMETRY_OPTOUT"] = "1";
+        psi.Environment["DOTNET_NOLOGO"] = "1";
+        if (environment is not null)
+            foreach (var (k, v) in environment) psi.Environment[k] = v;
+        using var p = Process.Start(psi)!;
+        var stdout = p.StandardOutput.ReadToEndAsync();
+        var stderr = p.StandardError.ReadToEndAsync();
+        if (!p.WaitForExit(timeoutSeconds * 1000))
+        {
+            p.Kill(entireProcessTree: true);
+            throw new TimeoutException($"{file} {string.Join(' ', args)} did not finish in {timeoutSeconds} s");
+        }
+        return (p.ExitCode, stdout.Result, stderr.Result);
+    }
+}

@@ -1,0 +1,105 @@
+using System.Globalization;
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.References;
+using MathNet.Numerics.Distributions;
+using MathNet.Numerics.Random;
+
+namespace GateTasks.Engine.Tests.Checks;
+
+/// <summary>The whole check on small CSV samples: a faithful sample passes, a shifted one fails, bad set-ups are located.</summary>
+public sealed class ContractCheckTests : IDisposable
+{
+    private readonly string _dir = Directory.CreateTempSubdirectory("gatetasks-check-").FullName;
+
+    public void Dispose() => Directory.Delete(_dir, recursive: true);
+
+    private const string ContractText = """
+        contract-version: 1
+        title: csv-case
+        sample: surrogate.csv
+        reference: ref.parquet
+        defaults:
+          binning: { bins: 10 }
+          checks:
+            ks-max: 0.03
+            wasserstein-max: 0.05
+            ratio-max: { core: 0.15, tails: 0.3 }
+        features:
+          - name: x
+        """;
+
+    private string WriteCsv(string name, int rows, int seed, double shift)
+    {
+        // A Gaussian sample from MathNet's seeded generator; the same seed gives the same rows everywhere.
+        var normal = new Normal(0, 1, new Xoshiro256StarStar(seed));
+        var path = Path.Combine(_dir, name);
+        File.WriteAllLines(path, new[] { "x" }.Concat(Enumerable.Range(0, rows)
+            .Select(_ => (normal.Sample() + shift).ToString("R", CultureInfo.InvariantCulture))));
+        return path;
+    }
+
+    private PrecisionContract Setup(string contractText = ContractText)
+    {
+        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contractPath, contractText);
+        var contract = ContractLoader.Load(contractPath);
+        var fullsim = WriteCsv("fullsim.csv", 40_000, 1, 0);
+        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [fullsim], null, "test"));
+        return contract;
+    }
+
+    [Fact]
+    public void Faithful_csv_sample_passes_and_a_shifted_one_fails_in_the_core()
+    {
+        var contract = Setup();
+        WriteCsv("surrogate.csv", 20_000, 2, 0);
+        var pass = ContractCheck.Run(contract);
+        Assert.True(pass.Passed, string.Join("\n", pass.Outcomes.Select(o => o.Summary)));
+        Assert.Equal(20_000, pass.Events);
+        Assert.Equal(4, pass.Outcomes.Count);
+
+        // A shift of 0.2σ moves about 8% of the probability across the median: far outside 3% KS distance.
+        var shifted = WriteCsv("shifted.csv", 20_000, 3, 0.2);
+        var fail = ContractCheck.Run(contract, shifted);
+        Assert.False(fail.Passed);
+        var ks = fail.Outcomes.Single(o => o.Check.Kind == CheckKind.KolmogorovSmirnov);
+        Assert.Equal(Verdict.Fail, ks.Verdict);
+        Assert.InRange(ks.Value, 0.05, 0.11); // Φ(0.1) − Φ(−0.1) ≈ 0.0797 (standard normal table), binned and noisy
+        Assert.Equal(new SourceLocation(contract.FilePath, 8, 13), ks.Check.Location);
+    }
+
+    [Fact]
+    public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
+    {
+        var contract = Setup();
+        var e = Assert.Throws<GateInputException>(() => ContractCheck.Run(contract));
+        Assert.Equal(ErrorCodes.SampleNotFound, e.Code);
+        Assert.Equal(new SourceLocation(contract.FilePath, 3, 9), e.Location);
+    }
+
+    [Fact]
+    public void A_reference_built_with_other_binning_is_refused()
+    {
+        Setup();
+        WriteCsv("surrogate.csv", 1000, 2, 0);
+        var path = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(path, ContractText.Replace("bins: 10", "bins: 12"));
+        var e = Assert.Throws<GateInputException>(() => ContractCheck.Run(ContractLoader.Load(path)));
+        Assert.Equal(ErrorCodes.ReferenceMismatch, e.Code);
+        Assert.Equal(6, e.Location!.Line);
+        Assert.Contains("quantile:10", e.Message);
+    }
+
+    [Fact]
+    public void A_missing_reference_is_reported_at_the_contract_line_that_names_it()
+    {
+        var contract = Setup();
+        WriteCsv("surrogate.csv", 1000, 2, 0);
+        File.Delete(contract.ReferenceFullPath);
+        var e = Assert.Throws<GateInputException>(() => ContractCheck.Run(contract));
+        Assert.Equal(ErrorCodes.ReferenceNotFound, e.Code);
+        Assert.Equal(new SourceLocation(contract.FilePath, 4, 12), e.Location);
+    }
+}
