@@ -21,7 +21,7 @@ internal static class ResultTable
                 o.Check.RegionName,
                 InvariantNumber.Short(o.Value),
                 (o.Check.LimitIsMaximum ? "≤ " : "≥ ") + InvariantNumber.Short(o.Check.Limit),
-                double.IsNaN(o.Margin) ? "n/a" : (o.RelativeMargin >= 0 ? "+" : "") + (o.RelativeMargin * 100).ToString("0.#", CultureInfo.InvariantCulture) + "%",
+                Margin(o),
                 o.Verdict == Verdict.Pass ? "pass" : "FAIL",
             ]);
         }
@@ -35,12 +35,23 @@ internal static class ResultTable
         return sb.ToString();
     }
 
+    /// <summary>
+    /// Headroom as people read it: for an upper bound, the share of the tolerance left (negative: exceeded);
+    /// for a p-value floor, how many times the floor the p-value is (a percentage of a floor means little).
+    /// </summary>
+    private static string Margin(CheckOutcome o)
+    {
+        if (double.IsNaN(o.Margin)) return "n/a";
+        if (!o.Check.LimitIsMaximum) return "×" + InvariantNumber.Short(o.Value / o.Check.Limit);
+        return (o.RelativeMargin >= 0 ? "+" : "") + (o.RelativeMargin * 100).ToString("0.#", CultureInfo.InvariantCulture) + "%";
+    }
+
     /// <summary>One line saying what was checked and how it went.</summary>
     public static string Summary(CheckReport report)
     {
         var verdict = report.Passed ? "PASSED" : "FAILED";
         return $"{verdict}: {report.Outcomes.Count - report.Failures} of {report.Outcomes.Count} checks within tolerance " +
                $"({report.Contract.Features.Count} features, {InvariantNumber.Count(report.Events)} surrogate events, " +
-               $"effective {InvariantNumber.Short(report.EffectiveEvents)}; reference {InvariantNumber.Count(report.Reference.Events)} events).";
+               $"effective {report.EffectiveEvents.ToString("0", CultureInfo.InvariantCulture)}; reference {InvariantNumber.Count(report.Reference.Events)} events).";
     }
 }
