@@ -5,7 +5,6 @@ using GateTasks.Engine.Histograms;
 using GateTasks.Engine.IO;
 using GateTasks.Engine.References;
 using GateTasks.Engine.Samples;
-using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
@@ -34,63 +33,25 @@ internal static class ContractCheck
         var references = contract.Features.Select(f => MatchReference(reference, f, referencePath)).ToList();
         var cores = contract.Features.Select((f, i) => RegionBins.Core(references[i], f)).ToList();
 
-        var columns = contract.Features.Select(f => f.Column).Distinct(StringComparer.Ordinal).ToList();
-        var columnOf = contract.Features.Select(f => columns.IndexOf(f.Column)).ToArray();
-        var weightColumn = contract.Sample.Weight;
-        var weightIndex = -1;
-        if (weightColumn is not null)
-        {
-            weightIndex = columns.IndexOf(weightColumn);
-            if (weightIndex < 0) { columns.Add(weightColumn); weightIndex = columns.Count - 1; }
-        }
-
-        var n = contract.Features.Count;
         var histograms = references.Select(r => new Histogram(r.Histogram.Axis)).ToArray();
-        var moments = new WeightedMoments[n];
-        for (var i = 0; i < n; i++) moments[i] = new WeightedMoments();
-        var min = Enumerable.Repeat(double.PositiveInfinity, n).ToArray();
-        var max = Enumerable.Repeat(double.NegativeInfinity, n).ToArray();
-        long events = 0;
-        double sumW = 0, sumW2 = 0;
-        foreach (var batch in sample.ReadBatches(columns))
+        var stats = contract.Features.Select(_ => new FeatureStatistics()).ToArray();
+        var totals = SampleStream.Run(sample, contract.Features.Select(f => f.Column).ToList(), contract.Sample.Weight, (i, values, weights) =>
         {
-            var weights = weightIndex >= 0 ? batch.Column(weightIndex) : ReadOnlySpan<double>.Empty;
-            EventWeights.Validate(weights, weightColumn, sample, events);
-            for (var r = 0; r < batch.RowCount; r++)
-            {
-                var w = weights.IsEmpty ? 1.0 : weights[r];
-                sumW += w;
-                sumW2 += w * w;
-            }
-            events += batch.RowCount;
-            for (var i = 0; i < n; i++)
-            {
-                var values = batch.Column(columnOf[i]);
-                histograms[i].Fill(values, weights);
-                for (var r = 0; r < values.Length; r++)
-                {
-                    var x = values[r];
-                    if (double.IsNaN(x)) continue;
-                    moments[i].Add(x, weights.IsEmpty ? 1.0 : weights[r]);
-                    if (x < min[i]) min[i] = x;
-                    if (x > max[i]) max[i] = x;
-                }
-            }
-        }
-        if (events == 0)
+            histograms[i].Fill(values, weights);
+            stats[i].Add(values, weights);
+        });
+        if (totals.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
                 $"The surrogate sample has no events ({string.Join(", ", files.Select(Path.GetFileName))}).", contract.Sample.PathLocation);
 
         var outcomes = new List<CheckOutcome>();
-        for (var i = 0; i < n; i++)
+        for (var i = 0; i < contract.Features.Count; i++)
         {
-            var m = moments[i];
-            var summary = new FeatureSummary(m.Count, m.SumOfWeights, m.SumOfSquaredWeights, m.Mean, m.StandardDeviation, min[i], max[i], histograms[i].NanEntries);
-            var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], summary, cores[i]);
+            var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i]);
             foreach (var check in contract.Features[i].Checks) outcomes.Add(CheckEvaluator.Evaluate(comparison, check));
         }
 
-        return new CheckReport(contract, referencePath, referenceSha, reference, files, events, sumW, sumW2, outcomes, started, clock.Elapsed);
+        return new CheckReport(contract, referencePath, referenceSha, reference, files, totals.Events, totals.SumW, totals.SumW2, outcomes, started, clock.Elapsed);
     }
 
     private static IReadOnlyList<string> ResolveContractSample(PrecisionContract contract)

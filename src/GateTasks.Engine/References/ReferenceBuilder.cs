@@ -3,7 +3,6 @@ using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Histograms;
 using GateTasks.Engine.IO;
 using GateTasks.Engine.Samples;
-using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.References;
 
@@ -26,54 +25,20 @@ internal static class ReferenceBuilder
     {
         var features = contract.Features;
         var sample = Sample.Open(files);
-        var columns = features.Select(f => f.Column).Distinct(StringComparer.Ordinal).ToList();
-        var columnOf = features.Select(f => columns.IndexOf(f.Column)).ToArray();
-        var weightIndex = -1;
-        if (weightColumn is not null)
-        {
-            weightIndex = columns.IndexOf(weightColumn);
-            if (weightIndex < 0) { columns.Add(weightColumn); weightIndex = columns.Count - 1; }
-        }
+        var columns = features.Select(f => f.Column).ToList();
+        var n = features.Count;
 
         // Pass 1: ranges and moments.
-        var n = features.Count;
-        var moments = new WeightedMoments[n];
-        for (var i = 0; i < n; i++) moments[i] = new WeightedMoments();
-        var min = Enumerable.Repeat(double.PositiveInfinity, n).ToArray();
-        var max = Enumerable.Repeat(double.NegativeInfinity, n).ToArray();
-        var nan = new long[n];
-        long events = 0;
-        double sumW = 0, sumW2 = 0;
-        foreach (var batch in sample.ReadBatches(columns))
-        {
-            var weights = weightIndex >= 0 ? batch.Column(weightIndex) : ReadOnlySpan<double>.Empty;
-            EventWeights.Validate(weights, weightColumn, sample, events);
-            for (var r = 0; r < batch.RowCount; r++)
-            {
-                var w = weights.IsEmpty ? 1.0 : weights[r];
-                sumW += w;
-                sumW2 += w * w;
-            }
-            events += batch.RowCount;
-            for (var i = 0; i < n; i++)
-            {
-                var values = batch.Column(columnOf[i]);
-                for (var r = 0; r < values.Length; r++)
-                {
-                    var x = values[r];
-                    if (double.IsNaN(x)) { nan[i]++; continue; }
-                    moments[i].Add(x, weights.IsEmpty ? 1.0 : weights[r]);
-                    if (x < min[i]) min[i] = x;
-                    if (x > max[i]) max[i] = x;
-                }
-            }
-        }
-        if (events == 0)
+        var stats = features.Select(_ => new FeatureStatistics()).ToArray();
+        var totals = SampleStream.Run(sample, columns, weightColumn, (i, values, weights) => stats[i].Add(values, weights));
+        if (totals.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty, $"The reference sample has no events ({string.Join(", ", files)}).",
                 new SourceLocation(files[0]));
+        var min = stats.Select(s => s.Min).ToArray();
+        var max = stats.Select(s => s.Max).ToArray();
         for (var i = 0; i < n; i++)
         {
-            if (moments[i].Count == 0)
+            if (stats[i].Count == 0)
                 throw new GateInputException(ErrorCodes.SampleEmpty,
                     $"Feature '{features[i].Name}' (column '{features[i].Column}') has no finite value in the reference sample.", features[i].ColumnLocation);
             if (double.IsInfinity(min[i]) || double.IsInfinity(max[i]))
@@ -97,16 +62,11 @@ internal static class ReferenceBuilder
                 _ => null,
             };
         }
-        foreach (var batch in sample.ReadBatches(columns))
+        SampleStream.Run(sample, columns, weightColumn, (i, values, weights) =>
         {
-            var weights = weightIndex >= 0 ? batch.Column(weightIndex) : ReadOnlySpan<double>.Empty;
-            for (var i = 0; i < n; i++)
-            {
-                var values = batch.Column(columnOf[i]);
-                grids[i]?.Fine.Fill(values, weights);
-                direct[i]?.Fill(values, weights);
-            }
-        }
+            grids[i]?.Fine.Fill(values, weights);
+            direct[i]?.Fill(values, weights);
+        });
 
         var result = new List<ReferenceFeature>();
         for (var i = 0; i < n; i++)
@@ -114,20 +74,18 @@ internal static class ReferenceBuilder
             var f = features[i];
             var grid = grids[i];
             var histogram = direct[i]
-                ?? grid!.Rebin(new VariableAxis(grid.EqualProbabilityEdges(f.Binning.Bins)), events);
+                ?? grid!.Rebin(new VariableAxis(grid.EqualProbabilityEdges(f.Binning.Bins)), totals.Events);
             var probabilities = StandardProbabilities.Concat([f.Core.LowerQuantile, f.Core.UpperQuantile])
                 .Distinct().Order().ToList();
             var quantiles = grid is null
                 ? new List<QuantilePoint>()
                 : probabilities.Select(p => new QuantilePoint(p, grid.Quantile(p))).ToList();
-            var m = moments[i];
-            var summary = new FeatureSummary(m.Count, m.SumOfWeights, m.SumOfSquaredWeights, m.Mean, m.StandardDeviation, min[i], max[i], nan[i]);
-            result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.Binning.Canonical, histogram, summary, quantiles));
+            result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.Binning.Canonical, histogram, stats[i].Summary(), quantiles));
         }
 
         var inputs = files.Select(p => new ReferenceInput(Path.GetFileName(p), new FileInfo(p).Length, FileDigest.Sha256(p))).ToList();
         return new ReferenceHistograms(ReferenceFile.FormatVersion, DateTimeOffset.UtcNow, toolVersion, inputs,
-            weightColumn, events, sumW, sumW2, result);
+            weightColumn, totals.Events, totals.SumW, totals.SumW2, result);
     }
 
     private static Axis CategoryAxis(FeatureSpec f, double min, double max)
