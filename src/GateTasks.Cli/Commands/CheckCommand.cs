@@ -1,6 +1,7 @@
 using System.CommandLine;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
+using GateTasks.Engine.IO;
 using GateTasks.Engine.Reports;
 
 namespace GateTasks.Cli.Commands;
@@ -23,14 +24,20 @@ internal static class CheckCommand
         {
             Description = "Also write a JUnit XML report to this path.",
         };
+        var text = new Option<string?>("--text")
+        {
+            Description = "Also write the result table and summary as plain text to this path.",
+        };
         var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed; 2: input error.")
         {
-            contract, sample, junit,
+            contract, sample, junit, text,
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             var report = ContractCheck.Run(loaded, parse.GetValue(sample));
+            if (parse.GetValue(text) is { } textPath)
+                AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
             return Print(report, parse.GetValue(junit), stdout, stderr);
         }));
         return command;

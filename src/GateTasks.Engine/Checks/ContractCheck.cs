@@ -21,9 +21,7 @@ internal static class ContractCheck
         var started = DateTimeOffset.UtcNow;
         var clock = Stopwatch.StartNew();
         // The sample's columns are checked first: a misspelt column is best answered with the sample's own names.
-        var files = samplePath is null
-            ? ResolveContractSample(contract)
-            : SampleFiles.Resolve(samplePath, Directory.GetCurrentDirectory());
+        var files = ContractInputs.SampleFiles(contract, samplePath);
         var sample = Sample.Open(files);
         ValidateColumns(contract, sample);
 
@@ -52,19 +50,6 @@ internal static class ContractCheck
         }
 
         return new CheckReport(contract, referencePath, referenceSha, reference, files, totals.Events, totals.SumW, totals.SumW2, outcomes, started, clock.Elapsed);
-    }
-
-    private static IReadOnlyList<string> ResolveContractSample(PrecisionContract contract)
-    {
-        try
-        {
-            return SampleFiles.Resolve(contract.Sample.Path, contract.Directory);
-        }
-        catch (GateInputException e) when (e.Code == ErrorCodes.SampleNotFound)
-        {
-            // Point at the line of the contract that names the sample, where the fix goes.
-            throw new GateInputException(e.Code, e.Message, contract.Sample.PathLocation, e);
-        }
     }
 
     private static ReferenceFeature MatchReference(ReferenceHistograms reference, FeatureSpec feature, string referencePath)

@@ -1,0 +1,30 @@
+using System.CommandLine;
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
+
+namespace GateTasks.Cli.Commands;
+
+/// <summary>
+/// <c>gatetasks inputs</c>: lists, one absolute path per line, the files a check would read. The build step uses
+/// it to know when a check is up to date.
+/// </summary>
+internal static class InputsCommand
+{
+    public static Command Create(TextWriter stdout, TextWriter stderr)
+    {
+        var contract = new Option<string>("--contract", "-c")
+        {
+            Description = "Precision contract (YAML).",
+            DefaultValueFactory = _ => PrecisionContract.DefaultFileName,
+        };
+        var sample = new Option<string?>("--sample", "-s") { Description = "Sample to use instead of the contract's." };
+        var command = new Command("inputs", "List the files a check reads (contract, reference, sample files), one per line.") { contract, sample };
+        command.SetAction(parse => CliApp.Guard(stderr, () =>
+        {
+            foreach (var path in ContractInputs.All(ContractLoader.Load(parse.GetValue(contract)!), parse.GetValue(sample)))
+                stdout.WriteLine(path);
+            return ExitCodes.Success;
+        }));
+        return command;
+    }
+}

@@ -1,0 +1,31 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Samples;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>The files a check of a contract reads: the contract, its reference and the sample's files.</summary>
+internal static class ContractInputs
+{
+    /// <summary>
+    /// The sample's files: <paramref name="samplePath"/> (relative to the working directory) when given, else the
+    /// contract's sample (relative to the contract). A contract sample that matches nothing is reported at the
+    /// contract line naming it, where the fix goes.
+    /// </summary>
+    public static IReadOnlyList<string> SampleFiles(PrecisionContract contract, string? samplePath)
+    {
+        if (samplePath is not null) return Samples.SampleFiles.Resolve(samplePath, Directory.GetCurrentDirectory());
+        try
+        {
+            return Samples.SampleFiles.Resolve(contract.Sample.Path, contract.Directory);
+        }
+        catch (GateInputException e) when (e.Code == ErrorCodes.SampleNotFound)
+        {
+            throw new GateInputException(e.Code, e.Message, contract.Sample.PathLocation, e);
+        }
+    }
+
+    /// <summary>Every input as an absolute path: contract, reference, sample files (the reference need not exist yet).</summary>
+    public static IReadOnlyList<string> All(PrecisionContract contract, string? samplePath) =>
+        [Path.GetFullPath(contract.FilePath), contract.ReferenceFullPath, .. SampleFiles(contract, samplePath)];
+}
