@@ -36,6 +36,9 @@ public sealed class GateRun : Task, ICancelableTask
     /// <summary>A sample to check instead of each contract's own (optional).</summary>
     public string? Sample { get; set; }
 
+    /// <summary>Folder the engine runs in, so a relative <see cref="Sample"/> is relative to the project.</summary>
+    public string? WorkingDirectory { get; set; }
+
     /// <summary>Folder for the reports (check only).</summary>
     public string? ReportDirectory { get; set; }
 
@@ -96,7 +99,8 @@ public sealed class GateRun : Task, ICancelableTask
         AddSample(args);
         var exit = RunEngine(args, line =>
         {
-            if (Path.IsPathRooted(line)) inputs.Add(new TaskItem(line));
+            // An error line can start with a rooted path too; only uncoded lines are inputs.
+            if (EngineLine.TryParse(line) is null && Path.IsPathRooted(line)) inputs.Add(new TaskItem(line));
             else LogLine(line, MessageImportance.Low);
         });
         return Finish(exit, contract);
@@ -182,6 +186,7 @@ public sealed class GateRun : Task, ICancelableTask
             RedirectStandardOutput = true,
             RedirectStandardError = true,
             CreateNoWindow = true,
+            WorkingDirectory = string.IsNullOrEmpty(WorkingDirectory) ? Directory.GetCurrentDirectory() : WorkingDirectory,
         };
         var lines = new List<(int Order, string Text)>();
         var order = 0;

@@ -1,6 +1,6 @@
 using System.Diagnostics;
 
-namespace GateTasks.Cli.Tests;
+namespace GateTasks.Tests.Shared;
 
 /// <summary>Runs a child process with a clean, test-controlled environment and collects its output.</summary>
 public static class ProcessRunner

@@ -1,4 +1,4 @@
-namespace GateTasks.Cli.Tests;
+namespace GateTasks.Tests.Shared;
 
 /// <summary>Finds the repository's top folder (the one holding GateTasks.sln) from the test's output folder.</summary>
 public static class RepositoryRoot

@@ -1,3 +1,5 @@
+using GateTasks.Tests.Shared;
+
 namespace GateTasks.Cli.Tests;
 
 /// <summary>

@@ -1,0 +1,126 @@
+using System.Text.RegularExpressions;
+using System.Xml.Linq;
+
+namespace GateTasks.Package.Tests;
+
+/// <summary>The gate as a build step, consumed exactly as a user does: template, package reference, dotnet build.</summary>
+[Collection(PackageCollection.Name)]
+public class BuildStepTests(PackageFeed feed)
+{
+    [Fact]
+    public void Template_lays_out_the_gate_with_contract_readme_and_two_ci_definitions()
+    {
+        var p = GateProject.Create(feed, "LayoutGate");
+        Assert.True(File.Exists(p.ProjectFile));
+        var project = File.ReadAllText(p.ProjectFile);
+        Assert.Contains($"""Include="GateTasks" Version="{PackageFeed.Version}" """.TrimEnd(), project);
+        Assert.Contains("Microsoft.Build.NoTargets", project);
+        Assert.True(File.Exists(Path.Combine(p.Directory, "README.md")));
+        Assert.Contains("dotnet build LayoutGate.csproj", File.ReadAllText(Path.Combine(p.Directory, ".github", "workflows", "precision-gate.yml")));
+        Assert.Contains("junit: gate-reports/*.junit.xml", File.ReadAllText(Path.Combine(p.Directory, ".gitlab-ci.yml")));
+    }
+
+    [Fact]
+    public void Faithful_sample_builds_writes_reports_and_an_unchanged_rebuild_skips_the_check()
+    {
+        var p = GateProject.Create(feed, "FaithfulGate");
+        var (code, output) = p.Build();
+        Assert.True(code == 0, output);
+        Assert.Contains("PASSED: 42 of 42 checks", output);
+        Assert.True(File.Exists(p.JUnitReport), output);
+        Assert.True(File.Exists(Path.Combine(p.ReportDirectory, "precision-contract.txt")));
+
+        var (again, second) = p.Build();
+        Assert.True(again == 0, second);
+        Assert.Contains("Skipping target \"_GateRun\" because all output files are up-to-date", second);
+        Assert.DoesNotContain("PASSED:", second);
+
+        // A changed sample reruns the check.
+        File.SetLastWriteTimeUtc(Path.Combine(p.Directory, "surrogate-faithful.parquet"), DateTime.UtcNow.AddSeconds(5));
+        var (third, rerun) = p.Build();
+        Assert.True(third == 0, rerun);
+        Assert.Contains("PASSED: 42 of 42 checks", rerun);
+
+        // So does a changed setting.
+        var (fourth, settings) = p.Build("-p:GateReportDir=other-reports/");
+        Assert.True(fourth == 0, settings);
+        Assert.True(File.Exists(Path.Combine(p.Directory, "other-reports", "precision-contract.junit.xml")));
+    }
+
+    [Fact]
+    public void Drifted_sample_fails_the_build_at_the_contract_lines_with_a_junit_report()
+    {
+        var p = GateProject.Create(feed, "DriftedGate");
+        var (code, output) = p.Build("-p:GateSample=surrogate-drifted.parquet");
+        Assert.NotEqual(0, code);
+        Assert.Matches(new Regex(@"precision-contract\.yaml\(25,13\): error GATE3004: feature 'm_gg' ratio-max\[core\]"), output);
+        Assert.Matches(new Regex(@"precision-contract\.yaml\(\d+,\d+\): error GATE3005: feature 'm_gg' ratio-max\[tails\]"), output);
+        Assert.Contains("FAILED: 28 of 42 checks", output);
+        Assert.DoesNotContain("   at ", output); // no stack trace
+        var junit = XDocument.Load(p.JUnitReport);
+        Assert.Equal("14", junit.Root!.Attribute("failures")!.Value);
+
+        // A failing check leaves no stamp: the next build checks again rather than passing silently.
+        var (again, second) = p.Build("-p:GateSample=surrogate-drifted.parquet");
+        Assert.NotEqual(0, again);
+        Assert.Contains("error GATE3004", second);
+    }
+
+    [Fact]
+    public void Failures_as_warnings_keep_the_build_green_and_say_what_failed()
+    {
+        var p = GateProject.Create(feed, "WarnGate");
+        var (code, output) = p.Build("-p:GateSample=surrogate-drifted.parquet", "-p:GateFailuresAsWarnings=true");
+        Assert.True(code == 0, output);
+        Assert.Matches(new Regex(@"precision-contract\.yaml\(25,13\): warning GATE3004"), output);
+        Assert.DoesNotContain("error GATE3", output);
+    }
+
+    [Fact]
+    public void The_gate_can_be_switched_off_and_limited_to_CI_and_run_alone()
+    {
+        var p = GateProject.Create(feed, "SwitchGate");
+        var (off, offOutput) = p.Build("-p:GateEnabled=false", "-p:GateSample=surrogate-drifted.parquet");
+        Assert.True(off == 0, offOutput);
+        Assert.DoesNotContain("GATE3", offOutput);
+        Assert.False(File.Exists(p.JUnitReport));
+
+        var (local, localOutput) = p.Build("-p:GateOnlyInCI=true", "-p:GateSample=surrogate-drifted.parquet");
+        Assert.True(local == 0, localOutput);
+        Assert.False(File.Exists(p.JUnitReport));
+
+        var (ci, ciOutput) = p.Build("-p:GateOnlyInCI=true", "-p:ContinuousIntegrationBuild=true", "-p:GateSample=surrogate-drifted.parquet");
+        Assert.NotEqual(0, ci);
+        Assert.Contains("error GATE3004", ciOutput);
+
+        var (alone, aloneOutput) = p.Build("-t:GateCheck");
+        Assert.True(alone == 0, aloneOutput);
+        Assert.Contains("PASSED: 42 of 42 checks", aloneOutput);
+    }
+
+    [Fact]
+    public void A_contract_error_is_an_msbuild_error_at_its_line_even_in_warning_mode()
+    {
+        var p = GateProject.Create(feed, "BrokenGate");
+        var contract = Path.Combine(p.Directory, "precision-contract.yaml");
+        File.WriteAllText(contract, File.ReadAllText(contract).Replace("ks-max: 0.01", "ks-mx: 0.01"));
+        var (code, output) = p.Build("-p:GateFailuresAsWarnings=true");
+        Assert.NotEqual(0, code);
+        Assert.True(Regex.IsMatch(output, @"precision-contract\.yaml\(21,5\): error GATE1003: Unknown key 'ks-mx'.*did you mean 'ks-max'"), output);
+    }
+
+    [Fact]
+    public void Another_package_loading_a_different_YamlDotNet_in_the_build_does_not_clash()
+    {
+        // Fixture.YamlTask loads YamlDotNet 13.7.1 into the MSBuild process before GateCheck; the engine uses 18.1.0
+        // in its own process.
+        var p = GateProject.Create(feed, "ClashGate", extraPackage: "Fixture.YamlTask");
+        var (code, output) = p.Build();
+        Assert.True(code == 0, output);
+        Assert.True(output.Contains("fixture-yaml-task: read precision-contract.yaml with YamlDotNet 13."), output); // assembly version 13.0.0.0 of package 13.7.1
+        Assert.Contains("PASSED: 42 of 42 checks", output);
+        var (drift, driftOutput) = p.Build("-p:GateSample=surrogate-drifted.parquet");
+        Assert.NotEqual(0, drift);
+        Assert.Contains("error GATE3004", driftOutput);
+    }
+}

@@ -1,0 +1,102 @@
+using GateTasks.Engine.Demo;
+using GateTasks.Tests.Shared;
+
+namespace GateTasks.Package.Tests;
+
+/// <summary>
+/// Once per test run: packs GateTasks, GateTasks.Templates and a fixture package from a copy of the sources into a
+/// temporary feed, installs the template into an isolated template hive, and writes the demo data. Restores go to a
+/// package folder inside the temporary tree, so no stale package from an earlier run can hide a change.
+/// </summary>
+public sealed class PackageFeed : IDisposable
+{
+    public const string Version = "0.0.1-e2e";
+
+    public PackageFeed()
+    {
+        Root = Directory.CreateTempSubdirectory("gatetasks-e2e-").FullName;
+        Feed = Path.Combine(Root, "feed");
+        Hive = Path.Combine(Root, "hive");
+        Packages = Path.Combine(Root, "packages");
+        Demo = Path.Combine(Root, "demo");
+
+        var sources = Path.Combine(Root, "sources");
+        CopySources(sources);
+        Pack(Path.Combine(sources, "src", "GateTasks.MSBuild"), sources);
+        Pack(Path.Combine(sources, "templates", "GateTasks.Templates"), sources);
+        Pack(Path.Combine(sources, "tests", "fixtures", "yaml-task"), sources);
+
+        Dotnet(Root, "new", "install", Path.Combine(Feed, $"GateTasks.Templates.{Version}.nupkg"), "--debug:custom-hive", Hive);
+
+        var demo = new DemoRun(Demo);
+        demo.WriteInputs();
+        demo.BuildReference();
+    }
+
+    public string Root { get; }
+    public string Feed { get; }
+    public string Hive { get; }
+    public string Packages { get; }
+    public string Demo { get; }
+
+    public IReadOnlyDictionary<string, string> Environment => new Dictionary<string, string>
+    {
+        ["NUGET_PACKAGES"] = Packages,
+        ["DOTNET_CLI_HOME"] = Path.Combine(Root, "cli-home"),
+    };
+
+    /// <summary>Runs dotnet with the test environment; fails the test with the output when it exits non-zero.</summary>
+    public (int ExitCode, string Output) Dotnet(string workingDirectory, params string[] args) => DotnetAllowingFailure(workingDirectory, args) switch
+    {
+        (0, var output) => (0, output),
+        var (code, output) => throw new InvalidOperationException($"dotnet {string.Join(' ', args)} exited {code}:\n{output}"),
+    };
+
+    public (int ExitCode, string Output) DotnetAllowingFailure(string workingDirectory, params string[] args)
+    {
+        var (code, stdout, stderr) = ProcessRunner.Run("dotnet", args, workingDirectory, Environment, timeoutSeconds: 400);
+        return (code, stdout + stderr);
+    }
+
+    public void Dispose()
+    {
+        try { Directory.Delete(Root, recursive: true); } catch (IOException) { } catch (UnauthorizedAccessException) { }
+    }
+
+    private void Pack(string project, string sources) =>
+        Dotnet(sources, "pack", project, "-c", "Release", "-o", Feed, $"-p:Version={Version}", "-nodeReuse:false", "--disable-build-servers");
+
+    /// <summary>A copy, so packing does not touch the build outputs this test run uses.</summary>
+    private static void CopySources(string to)
+    {
+        var root = RepositoryRoot.Path;
+        foreach (var f in new[] { "Directory.Build.props", "Directory.Packages.props", "global.json", "nuget.config", "README.md" })
+            CopyFile(Path.Combine(root, f), Path.Combine(to, f));
+        CopyFile(Path.Combine(root, "docs", "precision-contract.schema.json"), Path.Combine(to, "docs", "precision-contract.schema.json"));
+        foreach (var folder in new[] { "src", "templates", Path.Combine("tests", "fixtures", "yaml-task") })
+            CopyTree(Path.Combine(root, folder), Path.Combine(to, folder));
+    }
+
+    private static void CopyTree(string from, string to)
+    {
+        foreach (var file in Directory.EnumerateFiles(from, "*", SearchOption.AllDirectories))
+        {
+            var relative = Path.GetRelativePath(from, file);
+            var parts = relative.Split(Path.DirectorySeparatorChar);
+            if (parts.Any(p => p is "bin" or "obj")) continue;
+            CopyFile(file, Path.Combine(to, relative));
+        }
+    }
+
+    private static void CopyFile(string from, string to)
+    {
+        Directory.CreateDirectory(Path.GetDirectoryName(to)!);
+        File.Copy(from, to, overwrite: true);
+    }
+}
+
+[CollectionDefinition(Name)]
+public sealed class PackageCollection : ICollectionFixture<PackageFeed>
+{
+    public const string Name = "packed GateTasks";
+}
