@@ -24,10 +24,19 @@ public class BuildStepTests(PackageFeed feed)
     public void Faithful_sample_builds_writes_reports_and_an_unchanged_rebuild_skips_the_check()
     {
         var p = GateProject.Create(feed, "FaithfulGate");
+        // A later target of the user's sees the reports as items, as a publishing step would.
+        File.WriteAllText(p.ProjectFile, File.ReadAllText(p.ProjectFile).Replace("</Project>", """
+              <Target Name="ShowGateReports" AfterTargets="GateCheck">
+                <Message Importance="high" Text="gate-report %(GateReport.Kind): %(GateReport.Identity)" />
+              </Target>
+            </Project>
+            """));
         var (code, output) = p.Build();
         Assert.True(code == 0, output);
         Assert.Contains("PASSED: 42 of 42 checks", output);
         Assert.True(File.Exists(p.JUnitReport), output);
+        Assert.Contains($"gate-report junit: {p.JUnitReport}", output);
+        Assert.Contains("gate-report text: ", output);
         Assert.True(File.Exists(Path.Combine(p.ReportDirectory, "precision-contract.txt")));
 
         var (again, second) = p.Build();
