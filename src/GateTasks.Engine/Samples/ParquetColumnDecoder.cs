@@ -49,6 +49,12 @@ internal abstract class ParquetColumnDecoder
                 throw new InvalidDataException(
                     $"column '{field.Name}' holds {metadata.NumValues} values in a row group of {rows} rows");
 
+            if (typeof(T) == typeof(bool) && HasRleBooleanValues(metadata))
+                throw new NotSupportedException(
+                    $"boolean column '{field.Name}' is stored with RLE-encoded values (as Parquet data page v2 writes "
+                    + "booleans), which the Parquet library used here decodes wrongly; rewrite the file with data "
+                    + "page v1 or store the column as an integer");
+
             if (_values.Length < rows) _values = new T[rows];
             var nullable = field.MaxDefinitionLevel > 0;
             if (nullable && _definitionLevels.Length < rows) _definitionLevels = new int[rows];
@@ -58,8 +64,7 @@ internal abstract class ParquetColumnDecoder
             rowGroup.ReadRawAsync<T>(
                     field,
                     _values.AsMemory(0, rows),
-                    // The cast matters: a bare null would convert to an empty Memory<int>, i.e. "levels present, none".
-                    nullable ? _definitionLevels.AsMemory(0, rows) : (Memory<int>?)null,
+                    nullable ? _definitionLevels.AsMemory(0, rows) : (Memory<int>?)null, // a bare null would become an empty Memory
                     null)
                 .AsTask().GetAwaiter().GetResult();
 
@@ -74,6 +79,15 @@ internal abstract class ParquetColumnDecoder
             for (var i = 0; i < rows; i++)
                 destination[i] = _definitionLevels[i] < maxLevel ? double.NaN : ToDouble(_values[next++]);
         }
+
+        // Parquet.Net 6.1 returns wrong values (or divides by zero) for RLE-encoded booleans, found by comparing
+        // with files written by Apache Arrow's writer; refusing is better than a silently wrong histogram.
+        // Booleans are PLAIN or RLE; levels are always RLE, so without page statistics "no PLAIN" means RLE values.
+        private static bool HasRleBooleanValues(Parquet.Meta.ColumnMetaData metadata) =>
+            metadata.EncodingStats is { Count: > 0 } pages
+                ? pages.Any(p => p.PageType is Parquet.Meta.PageType.DATA_PAGE or Parquet.Meta.PageType.DATA_PAGE_V2
+                                 && p.Encoding == Parquet.Meta.Encoding.RLE)
+                : !metadata.Encodings.Contains(Parquet.Meta.Encoding.PLAIN);
 
         // typeof(T) tests on a value type are constants to the JIT, so each instantiation keeps only its own branch.
         [MethodImpl(MethodImplOptions.AggressiveInlining)]

@@ -37,6 +37,11 @@ internal sealed class ParquetSampleReader : ISampleReader
         ParquetReader? reader = null;
         try
         {
+            if (ParquetFooterCheck.Problem(stream) is { } problem)
+            {
+                stream.Dispose();
+                throw SampleInputErrors.Unreadable(path, problem);
+            }
             reader = ParquetReader.CreateAsync(stream, leaveStreamOpen: false).GetAwaiter().GetResult();
             var (columns, fields) = DescribeSchema(reader.Schema);
             return new ParquetSampleReader(path, reader, columns, fields);
@@ -84,6 +89,12 @@ internal sealed class ParquetSampleReader : ISampleReader
             var rowGroup = _reader.OpenRowGroupReader(group);
             for (var c = 0; c < decoders.Length; c++)
                 decoders[c].Decode(rowGroup, rows, buffers[c]);
+        }
+        catch (NotSupportedException ex)
+        {
+            // A valid file using something this reader cannot decode: say what, not "damaged".
+            throw SampleInputErrors.Unreadable(
+                Path, $"row group {group + 1} of {_reader.RowGroupCount}: {SampleInputErrors.Describe(ex)}", ex);
         }
         catch (Exception ex) when (SampleInputErrors.IsReadFailure(ex))
         {

@@ -1,5 +1,8 @@
 using GateTasks.Engine.Diagnostics;
+using System.Text;
+using System.Text.RegularExpressions;
 using Microsoft.Extensions.FileSystemGlobbing;
+using Microsoft.Extensions.FileSystemGlobbing.Abstractions;
 
 namespace GateTasks.Engine.Samples;
 
@@ -57,10 +60,14 @@ internal static class SampleFiles
         string[] files = [];
         if (Directory.Exists(root))
         {
+            // The globbing library knows '*' and '**' but not '?': match with '*' in its place, then keep the
+            // paths the exact pattern accepts.
             var matcher = new Matcher(PathComparison);
-            matcher.AddInclude(relative);
-            files = matcher.GetResultsInFullPath(root)
-                .Select(System.IO.Path.GetFullPath)
+            matcher.AddInclude(relative.Replace('?', '*'));
+            var exact = GlobRegex(relative);
+            files = matcher.Execute(new DirectoryInfoWrapper(new DirectoryInfo(root))).Files
+                .Where(match => exact.IsMatch(match.Path))
+                .Select(match => System.IO.Path.GetFullPath(System.IO.Path.Combine(root, match.Path)))
                 .Distinct(StringComparer.Ordinal)
                 .Order(StringComparer.Ordinal)
                 .ToArray();
@@ -69,6 +76,26 @@ internal static class SampleFiles
             throw new GateInputException(ErrorCodes.SampleNotFound,
                 $"no sample file matches '{pattern}' (relative to '{baseFull}')");
         return files;
+    }
+
+    /// <summary>'**/' any folders (or none), '**' anything, '*' anything within a name, '?' one character of a name.</summary>
+    private static Regex GlobRegex(string glob)
+    {
+        var pattern = new StringBuilder("^");
+        for (var i = 0; i < glob.Length; i++)
+        {
+            if (glob[i] == '*' && i + 1 < glob.Length && glob[i + 1] == '*')
+            {
+                var slash = i + 2 < glob.Length && glob[i + 2] == '/';
+                pattern.Append(slash ? "(?:.*/)?" : ".*");
+                i += slash ? 2 : 1;
+            }
+            else if (glob[i] == '*') pattern.Append("[^/]*");
+            else if (glob[i] == '?') pattern.Append("[^/]");
+            else pattern.Append(Regex.Escape(glob[i].ToString()));
+        }
+        var options = RegexOptions.CultureInvariant | (OperatingSystem.IsWindows() ? RegexOptions.IgnoreCase : 0);
+        return new Regex(pattern.Append('$').ToString(), options);
     }
 
     private static readonly char[] Separators = OperatingSystem.IsWindows() ? ['/', '\\'] : ['/'];

@@ -8,10 +8,11 @@ internal static class SampleInputErrors
     /// <summary>
     /// Whether <paramref name="exception"/> is a failure of the file or of the library decoding it, to be reported
     /// as unreadable input. A corrupt file can make a decoder throw almost anything (index, overflow, format,
-    /// end-of-stream), so only our own diagnostics and out-of-memory pass through unwrapped.
+    /// end-of-stream, or out-of-memory when a damaged size field asks for gigabytes), so only our own diagnostics
+    /// and cancellation pass through unwrapped.
     /// </summary>
     public static bool IsReadFailure(Exception exception) =>
-        exception is not GateInputException and not OutOfMemoryException and not OperationCanceledException;
+        exception is not GateInputException and not OperationCanceledException;
 
     /// <summary>GATE2002 for <paramref name="path"/>, saying what went wrong in one line.</summary>
     public static GateInputException Unreadable(string path, string what, Exception? inner = null, int line = 0) =>
