@@ -119,6 +119,20 @@ public class BuildStepTests(PackageFeed feed)
     }
 
     [Fact]
+    public void A_multi_targeted_project_checks_once()
+    {
+        var p = GateProject.Create(feed, "MultiGate");
+        File.WriteAllText(p.ProjectFile, File.ReadAllText(p.ProjectFile)
+            .Replace("<TargetFramework>net8.0</TargetFramework>", "<TargetFrameworks>net8.0;net9.0</TargetFrameworks>"));
+        var (code, output) = p.Build();
+        Assert.True(code == 0, output);
+        Assert.Single(Regex.Matches(output, "PASSED: 42 of 42 checks"));
+        var (drift, driftOutput) = p.Build("-p:GateSample=surrogate-drifted.parquet");
+        Assert.NotEqual(0, drift);
+        Assert.Contains("error GATE3004", driftOutput);
+    }
+
+    [Fact]
     public void Another_package_loading_a_different_YamlDotNet_in_the_build_does_not_clash()
     {
         // Fixture.YamlTask loads YamlDotNet 13.7.1 into the MSBuild process before GateCheck; the engine uses 18.1.0
