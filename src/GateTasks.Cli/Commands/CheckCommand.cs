@@ -11,15 +11,8 @@ internal static class CheckCommand
 {
     public static Command Create(TextWriter stdout, TextWriter stderr)
     {
-        var contract = new Option<string>("--contract", "-c")
-        {
-            Description = "Precision contract (YAML).",
-            DefaultValueFactory = _ => PrecisionContract.DefaultFileName,
-        };
-        var sample = new Option<string?>("--sample", "-s")
-        {
-            Description = "Surrogate sample to check instead of the contract's: a Parquet or CSV file, a folder, or a glob.",
-        };
+        var contract = SharedOptions.Contract();
+        var sample = SharedOptions.Sample();
         var junit = new Option<string?>("--junit")
         {
             Description = "Also write a JUnit XML report to this path.",

@@ -12,12 +12,8 @@ internal static class InputsCommand
 {
     public static Command Create(TextWriter stdout, TextWriter stderr)
     {
-        var contract = new Option<string>("--contract", "-c")
-        {
-            Description = "Precision contract (YAML).",
-            DefaultValueFactory = _ => PrecisionContract.DefaultFileName,
-        };
-        var sample = new Option<string?>("--sample", "-s") { Description = "Sample to use instead of the contract's." };
+        var contract = SharedOptions.Contract();
+        var sample = SharedOptions.Sample();
         var command = new Command("inputs", "List the files a check reads (contract, reference, sample files), one per line.") { contract, sample };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {

@@ -20,11 +20,7 @@ internal static class ReferenceCommand
 
     private static Command Build(TextWriter stdout, TextWriter stderr)
     {
-        var contract = new Option<string>("--contract", "-c")
-        {
-            Description = "Precision contract whose features and binning the reference is built for.",
-            DefaultValueFactory = _ => PrecisionContract.DefaultFileName,
-        };
+        var contract = SharedOptions.Contract("Precision contract whose features and binning the reference is built for.");
         var from = new Option<string>("--from")
         {
             Description = "Trusted full-simulation sample: a Parquet or CSV file, a folder, or a glob.",
