@@ -3,28 +3,26 @@ using GateTasks.Engine.Contracts;
 namespace GateTasks.Engine.Checks;
 
 /// <summary>
-/// The measured value of one check of one feature against its tolerance. <see cref="Details"/> holds named
-/// numbers for reports (bins compared, worst bin, counts) in a fixed order.
+/// One check's verdict: its <see cref="Measurement"/>, its p-value after the contract-wide correction, and the
+/// level that p-value was compared with.
 /// </summary>
 internal sealed record CheckOutcome(
     FeatureSpec Feature,
     CheckSpec Check,
-    double Value,
+    Measurement Measured,
     Verdict Verdict,
-    string Summary,
-    IReadOnlyList<KeyValuePair<string, string>> Details)
+    double AdjustedPValue,
+    double Level)
 {
-    /// <summary>How far inside the tolerance the value lies (negative: outside), in the value's units.</summary>
-    public double Margin => Check.LimitIsMaximum ? Check.Limit - Value : Value - Check.Limit;
+    /// <summary>The estimate (effect checks) or statistic (tests).</summary>
+    public double Value => Measured.Estimate;
 
-    /// <summary>Margin as a fraction of the tolerance.</summary>
-    public double RelativeMargin => Margin / Check.Limit;
+    /// <summary>One-line reason, for messages.</summary>
+    public string Summary => Measured.Summary;
 
-    /// <summary>Builds an outcome, deciding the verdict from value and limit (NaN never passes).</summary>
-    public static CheckOutcome Decide(FeatureSpec feature, CheckSpec check, double value, string summary,
-        IReadOnlyList<KeyValuePair<string, string>> details)
-    {
-        var pass = check.LimitIsMaximum ? value <= check.Limit : value >= check.Limit;
-        return new CheckOutcome(feature, check, value, pass ? Verdict.Pass : Verdict.Fail, summary, details);
-    }
+    /// <summary>Named numbers for reports.</summary>
+    public IReadOnlyList<KeyValuePair<string, string>> Details => Measured.Details;
+
+    /// <summary>Headroom of the upper bound below the tolerance, as a fraction of it (negative: not shown within); NaN for tests.</summary>
+    public double RelativeMargin => Check.IsTest ? double.NaN : (Check.Limit - Measured.Upper) / Check.Limit;
 }

@@ -1,16 +1,22 @@
+using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
-/// <summary>Jensen–Shannon divergence (Lin 1991, natural logarithm) of the normalised cell contents, flows included.</summary>
+/// <summary>Jensen–Shannon divergence (Lin 1991, natural logarithm) of the normalised cell contents, flows included; uncertainty by <see cref="HistogramBootstrap"/>.</summary>
 internal static class JensenShannonCheck
 {
-    public static CheckOutcome Evaluate(FeatureComparison c, Contracts.CheckSpec spec)
+    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
     {
-        var jsd = JensenShannon.Divergence(c.Reference.Histogram.Storage.SumW, c.Surrogate.Storage.SumW);
-        return CheckOutcome.Decide(c.Spec, spec, jsd,
-            $"JS divergence {InvariantNumber.Short(jsd)} {(jsd <= spec.Limit ? "≤" : ">")} {InvariantNumber.Short(spec.Limit)} nats",
-            [new("divergence_nats", InvariantNumber.Exact(jsd))]);
+        var reference = Cells.Of(c.Reference.Histogram);
+        var surrogate = Cells.Of(c.Surrogate);
+        if (reference.SumW.Any(w => w < 0) || surrogate.SumW.Any(w => w < 0))
+            return Measurement.Impossible("a cell has a negative sum of weights, where a divergence of probabilities is undefined; use ratio-max or ks-max", []);
+        static double Distance(double[] a, double[] b) => JensenShannon.Divergence(a, b);
+        var value = Distance(reference.SumW, surrogate.SumW);
+        var se = HistogramBootstrap.StandardErrors(reference, surrogate, Distance, HistogramBootstrap.Seed(c.Spec.Name, spec.Key));
+        return EffectBounds.FromStandardError(value, se, spec, decision, c.Surrogate.Entries,
+            $"JS divergence {InvariantNumber.Short(value)} nats", [new("divergence_nats", InvariantNumber.Exact(value))]);
     }
 }

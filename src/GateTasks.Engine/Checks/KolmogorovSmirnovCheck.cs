@@ -1,23 +1,43 @@
+using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
 /// <summary>
-/// Largest distance between the normalised cumulative distributions of the two histograms, at the bin
-/// edges (Kolmogorov 1933, Smirnov 1939). Binning makes it a lower bound of the unbinned distance.
+/// Kolmogorov–Smirnov distance of the binned distributions (Kolmogorov 1933, Smirnov 1939) as an effect size, with
+/// a confidence band from the Dvoretzky–Kiefer–Wolfowitz inequality with Massart's (1990) constant: each empirical
+/// CDF is within ε(α) = √(ln(2/α)/2n) of its truth with probability 1 − α, so the true distance is within
+/// ε₁ + ε₂ of the observed one (α split evenly; Kish effective counts for weighted samples, an approximation).
 /// </summary>
 internal static class KolmogorovSmirnovCheck
 {
-    public static CheckOutcome Evaluate(FeatureComparison c, Contracts.CheckSpec spec)
+    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
     {
         var reference = c.Reference.Histogram;
         var d = KolmogorovSmirnov.BinnedDistance(reference.Storage.SumW, c.Surrogate.Storage.SumW);
-        var p = KolmogorovSmirnov.BinnedPValue(d, Kish(reference.TotalSumW, reference.TotalSumW2), Kish(c.Surrogate.TotalSumW, c.Surrogate.TotalSumW2));
-        return CheckOutcome.Decide(c.Spec, spec, d,
-            $"KS distance {InvariantNumber.Short(d)} {(d <= spec.Limit ? "≤" : ">")} {InvariantNumber.Short(spec.Limit)}",
-            [new("distance", InvariantNumber.Exact(d)), new("p_value_asymptotic", InvariantNumber.Exact(p))]);
+        var n1 = Kish(reference.TotalSumW, reference.TotalSumW2);
+        var n2 = Kish(c.Surrogate.TotalSumW, c.Surrogate.TotalSumW2);
+        var alpha = 1 - decision.Confidence;
+        var half = DkwBound.TwoSampleHalfWidth(n1, n2, alpha);
+        // ε(α) = K·√ln(4/α) with K = (1/√n₁ + 1/√n₂)/√2, so "distance above tolerance" has p = 4·exp(−((D − tol)/K)²).
+        var k = (1 / Math.Sqrt(n1) + 1 / Math.Sqrt(n2)) / Math.Sqrt(2);
+        var p = d > spec.Limit ? Math.Min(1, 4 * Math.Exp(-Math.Pow((d - spec.Limit) / k, 2))) : 1.0;
+        var upper = d + half;
+        var needed = double.NaN;
+        if (upper >= spec.Limit && p > decision.FalseAlarm)
+        {
+            // Events for the band to decide: √(ln(4/α)/2)·(1/√n₁ + 1/√n₂′) < |tol − D|.
+            var room = Math.Abs(spec.Limit - d) / Math.Sqrt(Math.Log(4 / alpha) / 2) - 1 / Math.Sqrt(n1);
+            needed = room > 0 ? Math.Ceiling(1 / (room * room) * (c.Surrogate.Entries / Math.Max(n2, 1))) : double.PositiveInfinity;
+        }
+        return new Measurement(d, Math.Max(0, d - half), upper, p, needed,
+            $"KS distance {InvariantNumber.Short(d)}, {Percent(decision)} band [{InvariantNumber.Short(Math.Max(0, d - half))}, {InvariantNumber.Short(upper)}], tolerance {InvariantNumber.Short(spec.Limit)}",
+            [new("distance", InvariantNumber.Exact(d)), new("band_half_width", InvariantNumber.Exact(half)),
+             new("reference_effective_events", InvariantNumber.Exact(n1)), new("sample_effective_events", InvariantNumber.Exact(n2))]);
     }
 
     internal static double Kish(double sumW, double sumW2) => sumW2 > 0 ? sumW * sumW / sumW2 : 0;
+
+    internal static string Percent(DecisionSettings d) => (d.Confidence * 100).ToString("0.#", System.Globalization.CultureInfo.InvariantCulture) + "%";
 }

@@ -1,6 +1,10 @@
 namespace GateTasks.Engine.Contracts;
 
-/// <summary>The comparisons a contract can ask for. Each has a key in the contract and a drift error code.</summary>
+/// <summary>
+/// The comparisons a contract can ask for. Each has a key in the contract and a drift error code. Most bound an
+/// effect size by a tolerance; the goodness-of-fit tests (<see cref="ChiSquareTest"/>, <see cref="KolmogorovSmirnovTest"/>)
+/// have no tolerance and fail only when their p-value is significant at the contract's family-wise level.
+/// </summary>
 internal enum CheckKind
 {
     /// <summary>Largest distance between the binned cumulative distributions (Kolmogorov–Smirnov statistic).</summary>
@@ -9,8 +13,11 @@ internal enum CheckKind
     /// <summary>Wasserstein-1 distance divided by the reference's standard deviation.</summary>
     Wasserstein,
 
-    /// <summary>Floor on the χ² homogeneity p-value of the two histograms.</summary>
-    ChiSquare,
+    /// <summary>χ² homogeneity test of the two histograms (a goodness-of-fit test in the contract's family).</summary>
+    ChiSquareTest,
+
+    /// <summary>Kolmogorov–Smirnov two-sample test on the binned distributions (a goodness-of-fit test in the family).</summary>
+    KolmogorovSmirnovTest,
 
     /// <summary>Largest |surrogate/reference − 1| of the normalised bin contents in one region.</summary>
     BinRatio,

@@ -3,14 +3,14 @@ using GateTasks.Engine.Diagnostics;
 namespace GateTasks.Engine.Contracts;
 
 /// <summary>
-/// One required check with its tolerance. <see cref="Limit"/> is an upper bound on the measured value,
-/// except for <see cref="CheckKind.ChiSquare"/> where it is a floor on the p-value.
+/// One required check with its tolerance. <see cref="Limit"/> is the tolerance, an upper bound on the effect size;
+/// NaN for goodness-of-fit tests, which have none.
 /// <see cref="Location"/> points at the tolerance in the contract (a feature's own or a default).
 /// </summary>
 internal sealed record CheckSpec(CheckKind Kind, Region Region, double Limit, SourceLocation Location)
 {
-    /// <summary>True when the check passes with a measured value at or below the limit.</summary>
-    public bool LimitIsMaximum => Kind != CheckKind.ChiSquare;
+    /// <summary>True for goodness-of-fit tests: no tolerance, only a p-value in the contract's family.</summary>
+    public bool IsTest => Kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest;
 
     /// <summary>The contract key that states this check.</summary>
     public string Key => ContractKeys.CheckKey(Kind);

@@ -33,7 +33,19 @@ internal static class ContractKeys
     /// <summary>Written instead of a tolerance to switch a default check off for one feature.</summary>
     public const string Off = "off";
 
-    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Defaults, Features];
+    /// <summary>Switches a goodness-of-fit test on.</summary>
+    public const string On = "on";
+
+    public const string Decision = "decision";
+    public const string Confidence = "confidence";
+    public const string FalseAlarm = "false-alarm";
+    public const string Correction = "correction";
+    public const string Inconclusive = "inconclusive";
+
+    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Decision, Defaults, Features];
+    public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];
+    public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
+    public static readonly string[] InconclusivePolicies = ["fail", "warn"];
     public static readonly string[] SampleKeys = [Path, Weight];
     public static readonly string[] DefaultsKeys = [Binning, Core, Checks];
     public static readonly string[] FeatureKeys = [Name, Column, Kind, Binning, Core, Checks];
@@ -46,7 +58,8 @@ internal static class ContractKeys
     [
         ("ks-max", CheckKind.KolmogorovSmirnov),
         ("wasserstein-max", CheckKind.Wasserstein),
-        ("chi2-pvalue-min", CheckKind.ChiSquare),
+        ("chi2-test", CheckKind.ChiSquareTest),
+        ("ks-test", CheckKind.KolmogorovSmirnovTest),
         ("ratio-max", CheckKind.BinRatio),
         ("jsd-max", CheckKind.JensenShannon),
     ];

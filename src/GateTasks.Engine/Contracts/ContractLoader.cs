@@ -68,6 +68,7 @@ internal static class ContractLoader
         var referenceNode = r.Require(root, ContractKeys.Reference, "The contract");
         var reference = r.String(referenceNode, ContractKeys.Reference);
 
+        var decision = top.TryGetValue(ContractKeys.Decision, out var dn) ? ReadDecision(r, dn) : DecisionSettings.Default;
         var defaults = top.TryGetValue(ContractKeys.Defaults, out var d)
             ? ReadDefaults(r, d)
             : new FeatureSettings(null, null, new CheckTable());
@@ -88,7 +89,7 @@ internal static class ContractLoader
             features.Add(feature);
         }
 
-        return new PrecisionContract(path, version, title, sample, reference, r.At(referenceNode), features);
+        return new PrecisionContract(path, version, title, sample, reference, r.At(referenceNode), decision, features);
     }
 
     private static string InnerMessage(YamlException e) => e.InnerException is YamlException inner ? inner.Message : e.Message;
@@ -105,6 +106,43 @@ internal static class ContractLoader
             r.String(pathNode, "sample.path"), r.At(pathNode),
             weightNode is null ? null : r.String(weightNode, "sample.weight"),
             weightNode is null ? null : r.At(weightNode));
+    }
+
+    private static DecisionSettings ReadDecision(YamlNodeReader r, YamlNode node)
+    {
+        var mapping = r.Mapping(node, ContractKeys.Decision);
+        var d = DecisionSettings.Default with { Location = r.At(node) };
+        foreach (var (key, _, value) in r.Entries(mapping, ContractKeys.Decision, ContractKeys.DecisionKeys))
+        {
+            switch (key)
+            {
+                case ContractKeys.Confidence:
+                    var c = r.Number(value, "decision.confidence");
+                    if (!(c >= 0.5 && c < 1)) throw r.Error(ErrorCodes.ContractBadValue, value, $"decision.confidence must be in [0.5, 1), got {c}.");
+                    d = d with { Confidence = c };
+                    break;
+                case ContractKeys.FalseAlarm:
+                    var a = r.Number(value, "decision.false-alarm");
+                    if (!(a > 0 && a < 0.5)) throw r.Error(ErrorCodes.ContractBadValue, value, $"decision.false-alarm must be in (0, 0.5), got {a}.");
+                    d = d with { FalseAlarm = a };
+                    break;
+                case ContractKeys.Correction:
+                    d = d with
+                    {
+                        Correction = r.OneOf(value, "decision.correction", ContractKeys.Corrections) switch
+                        {
+                            "benjamini-hochberg" => Statistics.MultipleTestingMethod.BenjaminiHochberg,
+                            "bonferroni" => Statistics.MultipleTestingMethod.Bonferroni,
+                            _ => Statistics.MultipleTestingMethod.Holm,
+                        },
+                    };
+                    break;
+                case ContractKeys.Inconclusive:
+                    d = d with { InconclusiveFails = r.OneOf(value, "decision.inconclusive", ContractKeys.InconclusivePolicies) == "fail" };
+                    break;
+            }
+        }
+        return d;
     }
 
     private static FeatureSettings ReadDefaults(YamlNodeReader r, YamlNode node)
@@ -259,6 +297,13 @@ internal static class ContractLoader
                 continue;
             }
             checks.RemoveAll(kind);
+            if (kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest)
+            {
+                if (!YamlNodeReader.IsScalar(value, ContractKeys.On))
+                    throw r.Error(ErrorCodes.ContractBadValue, value, $"{key} is a goodness-of-fit test without a tolerance: write 'on' or 'off'.");
+                checks.Set(new CheckSpec(kind, Region.All, double.NaN, r.At(value)));
+                continue;
+            }
             checks.Set(new CheckSpec(kind, Region.All, Tolerance(r, value, kind, key), r.At(value)));
         }
     }
@@ -269,7 +314,6 @@ internal static class ContractLoader
         var (ok, rule) = kind switch
         {
             CheckKind.KolmogorovSmirnov => (v > 0 && v <= 1, "in (0, 1]"),
-            CheckKind.ChiSquare => (v > 0 && v < 1, "a p-value in (0, 1)"),
             CheckKind.JensenShannon => (v > 0 && v <= Math.Log(2), "in (0, ln 2]"),
             _ => (v > 0, "positive"),
         };

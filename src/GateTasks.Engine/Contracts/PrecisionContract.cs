@@ -10,6 +10,7 @@ internal sealed record PrecisionContract(
     SampleSpec Sample,
     string ReferencePath,
     SourceLocation ReferenceLocation,
+    DecisionSettings Decision,
     IReadOnlyList<FeatureSpec> Features)
 {
     /// <summary>Default contract file name.</summary>

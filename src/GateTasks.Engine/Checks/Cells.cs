@@ -1,0 +1,9 @@
+using GateTasks.Engine.Histograms;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>Copies of a histogram's cells (flows included), for computations that perturb them.</summary>
+internal static class Cells
+{
+    public static CellContents Of(Histogram h) => new(h.Storage.SumW.ToArray(), h.Storage.SumW2.ToArray());
+}

@@ -1,0 +1,32 @@
+namespace GateTasks.Engine.Checks;
+
+/// <summary>
+/// What one check measured, before the contract-wide decision. For an effect check: the estimate, its confidence
+/// bounds at the contract's confidence, and the p-value of "the effect is within tolerance". For a
+/// goodness-of-fit test: its statistic (as <see cref="Estimate"/>) and p-value of "the same distribution"; bounds NaN.
+/// </summary>
+internal sealed record Measurement(
+    double Estimate,
+    double Lower,
+    double Upper,
+    double PValue,
+    double EventsNeeded,
+    string Summary,
+    IReadOnlyList<KeyValuePair<string, string>> Details)
+{
+    /// <summary>A measurement that cannot be made (e.g. an empty region): it fails with its reason.</summary>
+    public static Measurement Impossible(string why, IReadOnlyList<KeyValuePair<string, string>> details) =>
+        new(double.NaN, double.NaN, double.NaN, 0, double.NaN, why, details);
+
+    /// <summary>
+    /// Surrogate events needed for an interval of half-width z·σ to fit in <paramref name="gap"/>, when
+    /// σ² = σ_ref² + σ_sur²·(n/n′) with the surrogate's part shrinking as 1/n′; +∞ when the reference's part alone
+    /// is too wide (more reference events are needed), NaN when nothing needs deciding.
+    /// </summary>
+    public static double EventsFor(double gap, double z, double sigmaReference, double sigmaSurrogate, double events)
+    {
+        if (!(gap > 0) || !(sigmaSurrogate > 0)) return double.PositiveInfinity;
+        var room = (gap / z) * (gap / z) - sigmaReference * sigmaReference;
+        return room > 0 ? Math.Ceiling(events * sigmaSurrogate * sigmaSurrogate / room) : double.PositiveInfinity;
+    }
+}

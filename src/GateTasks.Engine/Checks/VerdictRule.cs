@@ -1,0 +1,32 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Statistics;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>
+/// Turns the measurements of a whole contract into verdicts. Fail: the check's p-value, adjusted over every check
+/// of the contract (Holm 1979 by default), is at most the family-wise false-alarm level — so a faithful surrogate
+/// fails a build with at most that probability however many checks the contract has. Pass: the effect's upper
+/// confidence bound is below the tolerance (an equivalence test, Schuirmann 1987; tests: not significant).
+/// Otherwise inconclusive.
+/// </summary>
+internal static class VerdictRule
+{
+    public static List<CheckOutcome> Decide(IReadOnlyList<(FeatureSpec Feature, CheckSpec Check, Measurement Measured)> items, DecisionSettings decision)
+    {
+        var p = items.Select(i => double.IsNaN(i.Measured.PValue) ? 1.0 : Math.Clamp(i.Measured.PValue, 0, 1)).ToArray();
+        var adjusted = p.Length == 0 ? [] : MultipleTesting.Adjust(p, decision.Correction);
+        var levels = p.Length == 0 ? [] : MultipleTesting.PerTestLevels(p, decision.FalseAlarm, decision.Correction);
+        var outcomes = new List<CheckOutcome>(items.Count);
+        for (var i = 0; i < items.Count; i++)
+        {
+            var (feature, check, m) = items[i];
+            Verdict verdict;
+            if (adjusted[i] <= decision.FalseAlarm || (!check.IsTest && double.IsNaN(m.Estimate))) verdict = Verdict.Fail;
+            else if (check.IsTest || m.Upper < check.Limit) verdict = Verdict.Pass;
+            else verdict = Verdict.Inconclusive;
+            outcomes.Add(new CheckOutcome(feature, check, m, verdict, adjusted[i], levels[i]));
+        }
+        return outcomes;
+    }
+}
