@@ -47,6 +47,10 @@ internal static class CheckCommand
         stdout.WriteLine();
         foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Fail))
             stderr.WriteLine($"{o.Check.Location}: error {CheckEvaluator.DriftCode(o.Check)}: feature '{o.Feature.Name}' {o.Check.Label}: {o.Summary}");
+        var severity = report.Contract.Decision.InconclusiveFails ? "error" : "warning";
+        foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive))
+            stderr.WriteLine($"{o.Check.Location}: {severity} {CheckEvaluator.InconclusiveCode}: feature '{o.Feature.Name}' {o.Check.Label} is inconclusive: {o.Summary}; " +
+                             $"{ResultTable.EventsText(o.Measured.EventsNeeded)} surrogate events needed to decide");
         if (junitPath is not null)
         {
             JUnitReport.Write(junitPath, [report]);

@@ -1,27 +1,38 @@
+using System.Globalization;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
+using MathNet.Numerics.Distributions;
 
 namespace GateTasks.Engine.Checks;
 
 /// <summary>
-/// Bin-by-bin ratio of the normalised contents, surrogate over reference, in one region; the measured value
-/// is the largest |ratio − 1|. Bins empty in the reference cannot form a ratio and are counted apart
-/// (the χ² and KS checks see them).
+/// Bin-by-bin ratio of the normalised contents, surrogate over reference, in one region; the effect is the largest
+/// |ratio − 1|. Each ratio's standard error comes from Σw² of both histograms (delta method). Pass: every bin's
+/// upper bound |r − 1| + z·σ lies below the tolerance — an intersection–union test, valid at the stated confidence
+/// without a multiplicity correction (Berger 1982). Fail: the smallest per-bin p-value of "|r − 1| ≤ tolerance",
+/// Bonferroni-corrected over the region's bins, enters the contract's family. Bins empty in the reference cannot
+/// form a ratio and are counted apart (the χ² and KS checks see them).
 /// </summary>
 internal static class BinRatioCheck
 {
-    public static CheckOutcome Evaluate(FeatureComparison c, CheckSpec spec)
+    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
     {
         var reference = c.Reference.Histogram;
         var surrogate = c.Surrogate;
         var axis = reference.Axis;
         var refTotal = reference.TotalSumW;
         var surTotal = surrogate.TotalSumW;
+        var surEffective = KolmogorovSmirnovCheck.Kish(surTotal, surrogate.TotalSumW2);
+        var z = Normal.InvCDF(0, 1, decision.Confidence);
 
         var worst = double.NaN;
         var worstBin = -1;
         var worstRatio = double.NaN;
         var worstSigma = double.NaN;
+        var upper = double.NegativeInfinity;
+        var lower = 0.0;
+        var smallestP = 1.0;
+        var needed = 0.0;
         var compared = 0;
         var unreferenced = 0;
         var unreferencedWeight = 0.0;
@@ -38,38 +49,50 @@ internal static class BinRatioCheck
                 continue;
             }
             compared++;
-            var ratio = surTotal > 0 ? sw / surTotal / (rw / refTotal) : 0;
+            var fraction = rw / refTotal;
+            var ratio = surTotal > 0 ? sw / surTotal / fraction : 0;
+            // Relative variances of the two normalised contents; an empty surrogate bin takes the variance expected from the reference.
+            var relRef = reference.Storage.SumW2[cell] / (rw * rw);
+            var relSur = sw > 0 ? surrogate.Storage.SumW2[cell] / (sw * sw) : 1 / Math.Max(fraction * surEffective, 1e-300);
+            var sigmaRef = Math.Max(ratio, 1e-12) * Math.Sqrt(relRef);
+            var sigmaSur = Math.Max(ratio, 1e-12) * Math.Sqrt(relSur);
+            var sigma = Math.Sqrt(sigmaRef * sigmaRef + sigmaSur * sigmaSur);
             var deviation = Math.Abs(ratio - 1);
+
+            upper = Math.Max(upper, deviation + z * sigma);
+            lower = Math.Max(lower, deviation - z * sigma);
+            smallestP = Math.Min(smallestP, 1 - Normal.CDF(0, 1, (deviation - spec.Limit) / sigma));
+            if (deviation + z * sigma >= spec.Limit)
+                needed = Math.Max(needed, Measurement.EventsFor(Math.Abs(spec.Limit - deviation), z, sigmaRef, sigmaSur, surrogate.Entries));
             if (!(deviation <= worst))
             {
                 worst = deviation;
                 worstBin = b;
                 worstRatio = ratio;
-                // Relative variance of each normalised content, Σw²/(Σw)², added in quadrature.
-                var rel = reference.Storage.SumW2[cell] / (rw * rw) + (sw > 0 ? surrogate.Storage.SumW2[cell] / (sw * sw) : 0);
-                worstSigma = ratio * Math.Sqrt(rel);
+                worstSigma = sigma;
             }
         }
 
         var details = new List<KeyValuePair<string, string>>
         {
-            new("bins_compared", compared.ToString(System.Globalization.CultureInfo.InvariantCulture)),
-            new("bins_empty_in_reference", unreferenced.ToString(System.Globalization.CultureInfo.InvariantCulture)),
+            new("bins_compared", compared.ToString(CultureInfo.InvariantCulture)),
+            new("bins_empty_in_reference", unreferenced.ToString(CultureInfo.InvariantCulture)),
             new("surrogate_weight_in_empty_bins", InvariantNumber.Exact(unreferencedWeight)),
         };
         if (compared == 0)
-        {
-            return new CheckOutcome(c.Spec, spec, double.NaN, Verdict.Fail,
-                $"the {spec.RegionName} region holds no bin with reference content; adjust the binning or the core, or switch this check off",
-                details);
-        }
+            return Measurement.Impossible(
+                $"the {spec.RegionName} region holds no bin with reference content; adjust the binning or the core, or switch this check off", details);
+
         var range = $"[{InvariantNumber.Short(axis.Lower(worstBin))}, {InvariantNumber.Short(axis.Upper(worstBin))})";
         details.Add(new("worst_bin_lower", InvariantNumber.Exact(axis.Lower(worstBin))));
         details.Add(new("worst_bin_upper", InvariantNumber.Exact(axis.Upper(worstBin))));
         details.Add(new("worst_ratio", InvariantNumber.Exact(worstRatio)));
         details.Add(new("worst_ratio_stat_error", InvariantNumber.Exact(worstSigma)));
-        return CheckOutcome.Decide(c.Spec, spec, worst,
-            $"max |ratio−1| {InvariantNumber.Short(worst)} {(worst <= spec.Limit ? "≤" : ">")} {InvariantNumber.Short(spec.Limit)} in {spec.RegionName}, worst bin {range}: ratio {InvariantNumber.Short(worstRatio)} ± {InvariantNumber.Short(worstSigma)} (stat.)",
+        var p = Math.Min(1, compared * smallestP); // Bonferroni over the region's bins
+        var decided = upper < spec.Limit || p <= decision.FalseAlarm;
+        return new Measurement(worst, lower, upper, p, decided ? double.NaN : needed,
+            $"max |ratio−1| {InvariantNumber.Short(worst)} in {spec.RegionName} (worst bin {range}: ratio {InvariantNumber.Short(worstRatio)} ± {InvariantNumber.Short(worstSigma)}), " +
+            $"upper bound {InvariantNumber.Short(upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
             details);
     }
 }

@@ -23,6 +23,9 @@ internal sealed record CheckReport(
     /// <summary>Number of failed checks.</summary>
     public int Failures => Outcomes.Count(o => o.Verdict == Verdict.Fail);
 
-    /// <summary>True when every check passed.</summary>
-    public bool Passed => Failures == 0;
+    /// <summary>Number of checks the sample could not decide.</summary>
+    public int Inconclusive => Outcomes.Count(o => o.Verdict == Verdict.Inconclusive);
+
+    /// <summary>True when no check failed and, where the contract says inconclusive fails, none is inconclusive.</summary>
+    public bool Passed => Failures == 0 && (Inconclusive == 0 || !Contract.Decision.InconclusiveFails);
 }

@@ -42,12 +42,14 @@ internal static class ContractCheck
             throw new GateInputException(ErrorCodes.SampleEmpty,
                 $"The surrogate sample has no events ({string.Join(", ", files.Select(Path.GetFileName))}).", contract.Sample.PathLocation);
 
-        var outcomes = new List<CheckOutcome>();
+        var measured = new List<(FeatureSpec, CheckSpec, Measurement)>();
         for (var i = 0; i < contract.Features.Count; i++)
         {
             var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i]);
-            foreach (var check in contract.Features[i].Checks) outcomes.Add(CheckEvaluator.Evaluate(comparison, check));
+            foreach (var check in contract.Features[i].Checks)
+                measured.Add((contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision)));
         }
+        var outcomes = VerdictRule.Decide(measured, contract.Decision);
 
         return new CheckReport(contract, referencePath, referenceSha, reference, files, totals.Events, totals.SumW, totals.SumW2, outcomes, started, clock.Elapsed);
     }

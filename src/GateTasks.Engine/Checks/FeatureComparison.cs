@@ -13,10 +13,10 @@ internal sealed record FeatureComparison(
     IReadOnlyList<bool> CoreBins)
 {
     /// <summary>True when every cell's Σw² equals its Σw, i.e. all weights are one and the counts are plain counts.</summary>
-    public static bool IsUnweighted(Histogram h)
+    public static bool IsUnweighted(CellContents cells)
     {
-        for (var c = 0; c < h.Storage.CellCount; c++)
-            if (Math.Abs(h.Storage.SumW2[c] - h.Storage.SumW[c]) > 1e-9 * Math.Max(1, h.Storage.SumW[c])) return false;
+        for (var c = 0; c < cells.SumW.Length; c++)
+            if (Math.Abs(cells.SumW2[c] - cells.SumW[c]) > 1e-9 * Math.Max(1, Math.Abs(cells.SumW[c]))) return false;
         return true;
     }
 }

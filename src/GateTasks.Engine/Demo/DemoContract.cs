@@ -23,13 +23,23 @@ internal static class DemoContract
         #   gatetasks reference build --from fullsim.parquet
         reference: reference/fullsim-reference.parquet
 
+        # How verdicts are reached: a check passes when the upper end of its 95% confidence interval is
+        # below the tolerance, and fails when its p-value, Holm-corrected over all checks, is at most 1%
+        # (so a faithful surrogate fails a build at most 1% of the time). Otherwise it is inconclusive,
+        # and says how many surrogate events would decide it.
+        decision:
+          confidence: 0.95
+          false-alarm: 0.01
+          correction: holm
+          inconclusive: fail
+
         defaults:
           binning: { bins: 20, spacing: quantile }   # equal-probability bins from the reference
           core: 0.90                                 # core = central 90% of the reference
           checks:
             ks-max: 0.01            # largest gap between the cumulative distributions
             wasserstein-max: 0.02   # W1 distance in units of the reference's standard deviation
-            chi2-pvalue-min: 0.0001 # χ² homogeneity p-value floor
+            chi2-test: on           # χ² homogeneity test, in the same 1% family
             ratio-max:              # largest |surrogate/reference − 1| of normalised bin contents
               core: 0.03
               tails: 0.10

@@ -12,8 +12,8 @@ namespace GateTasks.Engine.Demo;
 /// </summary>
 internal sealed class DemoRun(string folder)
 {
-    public const int ReferenceEvents = 1_500_000;
-    public const int SurrogateEvents = 500_000;
+    public const int ReferenceEvents = 3_000_000;
+    public const int SurrogateEvents = 1_000_000;
     public const int ReferenceSeed = 1001;
     public const int FaithfulSeed = 2002;
     public const int DriftedSeed = 3003;

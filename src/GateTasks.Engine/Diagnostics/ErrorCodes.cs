@@ -53,7 +53,7 @@ public static class ErrorCodes
     public const string DriftKolmogorovSmirnov = "GATE3001";
     /// <summary>Normalised Wasserstein-1 distance above tolerance.</summary>
     public const string DriftWasserstein = "GATE3002";
-    /// <summary>χ² homogeneity p-value below its floor.</summary>
+    /// <summary>χ² homogeneity test significant at the contract's family-wise level.</summary>
     public const string DriftChiSquare = "GATE3003";
     /// <summary>Bin ratio outside tolerance in the core region.</summary>
     public const string DriftRatioCore = "GATE3004";
@@ -63,4 +63,8 @@ public static class ErrorCodes
     public const string DriftJensenShannon = "GATE3006";
     /// <summary>Bin ratio outside tolerance over all bins (a tolerance not split into core and tails).</summary>
     public const string DriftRatioAll = "GATE3007";
+    /// <summary>Kolmogorov–Smirnov test significant at the contract's family-wise level.</summary>
+    public const string DriftKolmogorovSmirnovTest = "GATE3008";
+    /// <summary>A check the sample is too small to decide (an error or a warning, by the contract's policy).</summary>
+    public const string Inconclusive = "GATE3100";
 }

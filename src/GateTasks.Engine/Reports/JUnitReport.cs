@@ -27,9 +27,9 @@ internal static class JUnitReport
             w.WriteStartElement("testsuites");
             w.WriteAttributeString("name", "gatetasks");
             w.WriteAttributeString("tests", Count(reports.Sum(r => r.Outcomes.Count)));
-            w.WriteAttributeString("failures", Count(reports.Sum(r => r.Failures)));
+            w.WriteAttributeString("failures", Count(reports.Sum(Failed)));
             w.WriteAttributeString("errors", "0");
-            w.WriteAttributeString("skipped", "0");
+            w.WriteAttributeString("skipped", Count(reports.Sum(Skipped)));
             w.WriteAttributeString("time", Seconds(reports.Sum(r => r.Elapsed.TotalSeconds)));
             if (reports.Count > 0) w.WriteAttributeString("timestamp", Timestamp(reports[0].StartedUtc));
             foreach (var report in reports) WriteSuite(w, report);
@@ -46,9 +46,9 @@ internal static class JUnitReport
         w.WriteStartElement("testsuite");
         w.WriteAttributeString("name", suite);
         w.WriteAttributeString("tests", Count(r.Outcomes.Count));
-        w.WriteAttributeString("failures", Count(r.Failures));
+        w.WriteAttributeString("failures", Count(Failed(r)));
         w.WriteAttributeString("errors", "0");
-        w.WriteAttributeString("skipped", "0");
+        w.WriteAttributeString("skipped", Count(Skipped(r)));
         w.WriteAttributeString("time", Seconds(r.Elapsed.TotalSeconds));
         w.WriteAttributeString("timestamp", Timestamp(r.StartedUtc));
         w.WriteAttributeString("file", Clean(contractPath));
@@ -62,6 +62,10 @@ internal static class JUnitReport
         Property(w, "gatetasks.sample.events", InvariantNumber.Count(r.Events));
         Property(w, "gatetasks.sample.sum_w", InvariantNumber.Exact(r.SumW));
         Property(w, "gatetasks.sample.effective_events", InvariantNumber.Exact(r.EffectiveEvents));
+        Property(w, "gatetasks.decision.confidence", InvariantNumber.Exact(r.Contract.Decision.Confidence));
+        Property(w, "gatetasks.decision.false_alarm", InvariantNumber.Exact(r.Contract.Decision.FalseAlarm));
+        Property(w, "gatetasks.decision.correction", r.Contract.Decision.CorrectionName);
+        Property(w, "gatetasks.decision.inconclusive", r.Contract.Decision.InconclusiveFails ? "fail" : "warn");
         w.WriteEndElement();
 
         var caseTime = r.Outcomes.Count > 0 ? r.Elapsed.TotalSeconds / r.Outcomes.Count : 0;
@@ -75,27 +79,44 @@ internal static class JUnitReport
             w.WriteAttributeString("file", Clean(where.File));
             if (where.Line > 0) w.WriteAttributeString("line", Count(where.Line));
 
+            var m = o.Measured;
             w.WriteStartElement("properties");
             Property(w, "feature", o.Feature.Name);
             Property(w, "check", o.Check.Key);
             Property(w, "region", o.Check.RegionName);
-            Property(w, "measured", InvariantNumber.Exact(o.Value));
-            Property(w, o.Check.LimitIsMaximum ? "tolerance_max" : "tolerance_min", InvariantNumber.Exact(o.Check.Limit));
-            Property(w, "margin", InvariantNumber.Exact(o.Margin));
-            Property(w, "verdict", o.Verdict == Verdict.Pass ? "pass" : "fail");
+            Property(w, "estimate", InvariantNumber.Exact(m.Estimate));
+            if (!o.Check.IsTest)
+            {
+                Property(w, "lower_bound", InvariantNumber.Exact(m.Lower));
+                Property(w, "upper_bound", InvariantNumber.Exact(m.Upper));
+                Property(w, "tolerance", InvariantNumber.Exact(o.Check.Limit));
+            }
+            Property(w, "p_value", InvariantNumber.Exact(m.PValue));
+            Property(w, "adjusted_p_value", InvariantNumber.Exact(o.AdjustedPValue));
+            Property(w, "level", InvariantNumber.Exact(o.Level));
+            Property(w, "verdict", ResultTable.VerdictText(o.Verdict).ToLowerInvariant());
+            if (o.Verdict == Verdict.Inconclusive) Property(w, "events_needed", InvariantNumber.Exact(m.EventsNeeded));
             foreach (var (k, v) in o.Details) Property(w, k, v);
             w.WriteEndElement();
 
-            if (o.Verdict == Verdict.Fail)
+            var counted = o.Verdict == Verdict.Fail || (o.Verdict == Verdict.Inconclusive && r.Contract.Decision.InconclusiveFails);
+            if (counted)
             {
-                var code = CheckEvaluator.DriftCode(o.Check);
+                var code = o.Verdict == Verdict.Fail ? CheckEvaluator.DriftCode(o.Check) : CheckEvaluator.InconclusiveCode;
+                var what = o.Verdict == Verdict.Fail ? o.Summary : $"inconclusive: {o.Summary}; {ResultTable.EventsText(m.EventsNeeded)} surrogate events needed to decide";
                 w.WriteStartElement("failure");
-                w.WriteAttributeString("message", Clean($"{o.Feature.Name} {o.Check.Label}: {o.Summary}"));
+                w.WriteAttributeString("message", Clean($"{o.Feature.Name} {o.Check.Label}: {what}"));
                 w.WriteAttributeString("type", code);
                 w.WriteString(Clean(
-                    $"{where}: error {code}: feature '{o.Feature.Name}', {o.Check.Label}: {o.Summary}\n" +
-                    $"measured {InvariantNumber.Exact(o.Value)}, tolerance {(o.Check.LimitIsMaximum ? "max" : "min")} {InvariantNumber.Exact(o.Check.Limit)}, margin {InvariantNumber.Exact(o.Margin)}\n" +
+                    $"{where}: error {code}: feature '{o.Feature.Name}', {o.Check.Label}: {what}\n" +
+                    $"adjusted p-value {InvariantNumber.Exact(o.AdjustedPValue)} against the family-wise level {InvariantNumber.Exact(r.Contract.Decision.FalseAlarm)} ({r.Contract.Decision.CorrectionName})\n" +
                     $"tolerance stated at {where}"));
+                w.WriteEndElement();
+            }
+            else if (o.Verdict == Verdict.Inconclusive)
+            {
+                w.WriteStartElement("skipped");
+                w.WriteAttributeString("message", Clean($"{o.Feature.Name} {o.Check.Label}: inconclusive, {ResultTable.EventsText(m.EventsNeeded)} surrogate events needed"));
                 w.WriteEndElement();
             }
             w.WriteEndElement();
@@ -106,6 +127,11 @@ internal static class JUnitReport
         w.WriteEndElement();
         w.WriteEndElement();
     }
+
+    private static int Failed(CheckReport r) =>
+        r.Failures + (r.Contract.Decision.InconclusiveFails ? r.Inconclusive : 0);
+
+    private static int Skipped(CheckReport r) => r.Contract.Decision.InconclusiveFails ? 0 : r.Inconclusive;
 
     private static void Property(XmlWriter w, string name, string value)
     {

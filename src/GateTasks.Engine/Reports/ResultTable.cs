@@ -5,52 +5,69 @@ using GateTasks.Engine.Diagnostics;
 
 namespace GateTasks.Engine.Reports;
 
-/// <summary>The plain-text table of a check run: one row per feature × check × region. No colour codes, so it reads the same in logs and reports.</summary>
+/// <summary>
+/// The plain-text table of a check run: one row per feature × check × region with the estimate, its confidence
+/// interval, the tolerance, the verdict and, for inconclusive checks, the surrogate events needed to decide.
+/// No colour codes, so it reads the same in logs and reports.
+/// </summary>
 internal static class ResultTable
 {
-    private static readonly string[] Header = ["feature", "check", "region", "measured", "tolerance", "margin", "verdict"];
-
     public static string Format(CheckReport report)
     {
-        var rows = new List<string[]> { Header };
+        var confidence = (report.Contract.Decision.Confidence * 100).ToString("0.#", CultureInfo.InvariantCulture) + "% interval";
+        string[] header = ["feature", "check", "region", "estimate", confidence, "tolerance", "adj. p", "verdict", "events needed"];
+        var rows = new List<string[]> { header };
         foreach (var o in report.Outcomes)
         {
+            var m = o.Measured;
             rows.Add([
                 o.Feature.Name,
                 o.Check.Key,
                 o.Check.RegionName,
-                InvariantNumber.Short(o.Value),
-                (o.Check.LimitIsMaximum ? "≤ " : "≥ ") + InvariantNumber.Short(o.Check.Limit),
-                Margin(o),
-                o.Verdict == Verdict.Pass ? "pass" : "FAIL",
+                InvariantNumber.Short(m.Estimate),
+                o.Check.IsTest || double.IsNaN(m.Upper) ? "—" : $"[{InvariantNumber.Short(m.Lower)}, {InvariantNumber.Short(m.Upper)}]",
+                o.Check.IsTest ? "—" : "≤ " + InvariantNumber.Short(o.Check.Limit),
+                InvariantNumber.Short(o.AdjustedPValue),
+                VerdictText(o.Verdict),
+                o.Verdict == Verdict.Inconclusive ? EventsText(m.EventsNeeded) : "",
             ]);
         }
-        var widths = Enumerable.Range(0, Header.Length).Select(c => rows.Max(r => r[c].Length)).ToArray();
+        var widths = Enumerable.Range(0, header.Length).Select(c => rows.Max(r => r[c].Length)).ToArray();
         var sb = new StringBuilder();
         for (var i = 0; i < rows.Count; i++)
         {
-            sb.AppendLine(string.Join("  ", rows[i].Select((cell, c) => c is 3 or 4 or 5 ? cell.PadLeft(widths[c]) : cell.PadRight(widths[c]))).TrimEnd());
+            sb.AppendLine(string.Join("  ", rows[i].Select((cell, c) => c is 3 or 5 or 6 ? cell.PadLeft(widths[c]) : cell.PadRight(widths[c]))).TrimEnd());
             if (i == 0) sb.AppendLine(string.Join("  ", widths.Select(w => new string('-', w))));
         }
+        var d = report.Contract.Decision;
+        sb.AppendLine($"Fail when the {d.CorrectionName}-adjusted p-value ≤ {InvariantNumber.Short(d.FalseAlarm)} (family of {report.Outcomes.Count} checks); " +
+                      $"pass when the upper bound of the {confidence} is below the tolerance; inconclusive {(d.InconclusiveFails ? "fails" : "warns")}.");
         return sb.ToString();
     }
 
-    /// <summary>
-    /// Headroom as people read it: for an upper bound, the share of the tolerance left (negative: exceeded);
-    /// for a p-value floor, how many times the floor the p-value is (a percentage of a floor means little).
-    /// </summary>
-    private static string Margin(CheckOutcome o)
+    public static string VerdictText(Verdict v) => v switch
     {
-        if (double.IsNaN(o.Margin)) return "n/a";
-        if (!o.Check.LimitIsMaximum) return "×" + InvariantNumber.Short(o.Value / o.Check.Limit);
-        return (o.RelativeMargin >= 0 ? "+" : "") + (o.RelativeMargin * 100).ToString("0.#", CultureInfo.InvariantCulture) + "%";
+        Verdict.Pass => "pass",
+        Verdict.Fail => "FAIL",
+        _ => "inconclusive",
+    };
+
+    /// <summary>"1.2e+06", or "more reference events" when the reference's own statistics limit the decision.</summary>
+    public static string EventsText(double events)
+    {
+        if (double.IsPositiveInfinity(events)) return "more reference events";
+        if (double.IsNaN(events)) return "";
+        // Three significant digits: the estimate assumes the observed deviations persist, no more precision is meant.
+        var magnitude = Math.Pow(10, Math.Max(0, Math.Floor(Math.Log10(Math.Max(events, 1))) - 2));
+        return "≈" + (Math.Ceiling(events / magnitude) * magnitude).ToString("0", CultureInfo.InvariantCulture);
     }
 
     /// <summary>One line saying what was checked and how it went.</summary>
     public static string Summary(CheckReport report)
     {
         var verdict = report.Passed ? "PASSED" : "FAILED";
-        return $"{verdict}: {report.Outcomes.Count - report.Failures} of {report.Outcomes.Count} checks within tolerance " +
+        var passed = report.Outcomes.Count(o => o.Verdict == Verdict.Pass);
+        return $"{verdict}: {passed} of {report.Outcomes.Count} checks within tolerance, {report.Failures} failed, {report.Inconclusive} inconclusive " +
                $"({report.Contract.Features.Count} features, {InvariantNumber.Count(report.Events)} surrogate events, " +
                $"effective {report.EffectiveEvents.ToString("0", CultureInfo.InvariantCulture)}; reference {InvariantNumber.Count(report.Reference.Events)} events).";
     }

@@ -26,38 +26,58 @@ public class BinRatioCheckTests
         return new FeatureComparison(spec, rf, Make(surrogate), summary, core);
     }
 
+    private static readonly DecisionSettings Decision = DecisionSettings.Default;
+
     [Fact]
     public void Worked_example_by_hand()
     {
-        // Reference [100, 200, 100] (total 400), surrogate [55, 100, 45] (total 200). Normalised ratios, by hand:
-        // (55/200)/(100/400) = 1.1, (100/200)/(200/400) = 1.0, (45/200)/(100/400) = 0.9.
+        // Reference [100, 200, 100] (total 400), surrogate [55, 100, 45] (total 200), unit weights. Normalised ratios,
+        // by hand: (55/200)/(100/400) = 1.1, (100/200)/(200/400) = 1.0, (45/200)/(100/400) = 0.9.
         var c = Comparison([100, 200, 100], [55, 100, 45], [false, true, false]);
-        var all = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.All, 0.05, At));
-        Assert.Equal(0.1, all.Value, 12);
-        Assert.Equal(Verdict.Fail, all.Verdict);
-        var core = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.Core, 0.05, At));
-        Assert.Equal(0.0, core.Value, 12);
-        Assert.Equal(Verdict.Pass, core.Verdict);
-        var tails = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.Tails, 0.11, At));
-        Assert.Equal(0.1, tails.Value, 12);
-        Assert.Equal(Verdict.Pass, tails.Verdict);
-        Assert.Equal(0.01, tails.Margin, 12);
+        var all = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.All, 0.05, At), Decision);
+        Assert.Equal(0.1, all.Estimate, 12);
+        // Delta method, hand-computed: σ(1.1) = 1.1·√(1/100 + 1/55) = 0.18466185; upper = 0.1 + z₀.₉₅·σ with
+        // z₀.₉₅ = 1.6448536 (standard normal table) = 0.40374172, the largest of the three bins.
+        Assert.Equal(0.40374172, all.Upper, 7);
+        Assert.Equal(0, all.Lower, 12);
+        var core = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.Core, 0.05, At), Decision);
+        Assert.Equal(0.0, core.Estimate, 12);
+        Assert.Equal(0.20145260, core.Upper, 7); // 0 + 1.6448536·√(1/200 + 1/100), hand-computed
+        var tails = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.Tails, 0.11, At), Decision);
+        Assert.Equal(0.1, tails.Estimate, 12);
+        // Too few events to decide against 11%: neither shown within nor outside, and more events would tell.
+        Assert.True(tails.Upper > 0.11);
+        Assert.True(tails.PValue > 0.5);
+        Assert.True(tails.EventsNeeded > 200);
+    }
+
+    [Fact]
+    public void Large_counts_decide_both_ways()
+    {
+        // The same shapes with 10⁴ times the counts: σ shrinks by 100, so 10% deviations are decided.
+        var c = Comparison([1e6, 2e6, 1e6], [0.55e6, 1e6, 0.45e6], [false, true, false]);
+        var fails = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.Tails, 0.05, At), Decision);
+        Assert.True(fails.PValue < 1e-12);
+        var passes = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.Tails, 0.15, At), Decision);
+        Assert.True(passes.Upper < 0.15);
     }
 
     [Fact]
     public void An_empty_region_fails_loudly_instead_of_passing()
     {
         var c = Comparison([100, 200, 100], [50, 100, 50], [true, true, true]);
-        var tails = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.Tails, 0.1, At));
-        Assert.Equal(Verdict.Fail, tails.Verdict);
+        var spec = new CheckSpec(CheckKind.BinRatio, Region.Tails, 0.1, At);
+        var tails = BinRatioCheck.Evaluate(c, spec, Decision);
         Assert.Contains("no bin", tails.Summary);
+        var verdicts = VerdictRule.Decide([(c.Spec, spec, tails)], Decision);
+        Assert.Equal(Verdict.Fail, verdicts[0].Verdict);
     }
 
     [Fact]
     public void Bins_empty_in_the_reference_are_counted_apart()
     {
         var c = Comparison([100, 0, 100], [50, 7, 50], [true, true, true]);
-        var o = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.All, 0.1, At));
+        var o = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.All, 0.1, At), Decision);
         Assert.Contains(o.Details, d => d.Key == "bins_empty_in_reference" && d.Value == "1");
         Assert.Equal(2, int.Parse(o.Details.Single(d => d.Key == "bins_compared").Value));
     }

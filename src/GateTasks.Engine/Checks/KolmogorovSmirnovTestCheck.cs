@@ -1,0 +1,23 @@
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Statistics;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>
+/// Two-sample Kolmogorov–Smirnov test of the binned distributions with the Kolmogorov limiting distribution at
+/// Kish effective counts (binning makes it conservative). A goodness-of-fit test: its p-value joins the family.
+/// </summary>
+internal static class KolmogorovSmirnovTestCheck
+{
+    public static Measurement Evaluate(FeatureComparison c)
+    {
+        var reference = c.Reference.Histogram;
+        var d = KolmogorovSmirnov.BinnedDistance(reference.Storage.SumW, c.Surrogate.Storage.SumW);
+        var p = KolmogorovSmirnov.BinnedPValue(d,
+            KolmogorovSmirnovCheck.Kish(reference.TotalSumW, reference.TotalSumW2),
+            KolmogorovSmirnovCheck.Kish(c.Surrogate.TotalSumW, c.Surrogate.TotalSumW2));
+        return new Measurement(d, double.NaN, double.NaN, p, double.NaN,
+            $"KS distance {InvariantNumber.Short(d)}, p-value {InvariantNumber.Short(p)}",
+            [new("distance", InvariantNumber.Exact(d))]);
+    }
+}
