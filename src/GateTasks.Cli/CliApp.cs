@@ -17,6 +17,7 @@ internal static class CliApp
         root.Subcommands.Add(ReferenceCommand.Create(stdout, stderr));
         root.Subcommands.Add(DemoCommand.Create(stdout, stderr));
         root.Subcommands.Add(InputsCommand.Create(stdout, stderr));
+        root.Subcommands.Add(CalibrateCommand.Create(stdout, stderr));
         root.Subcommands.Add(SchemaCommand.Create(stdout));
 
         var parse = root.Parse(args);
