@@ -71,6 +71,40 @@ public sealed class ContractCheckTests : IDisposable
     }
 
     [Fact]
+    public void A_small_faithful_sample_is_inconclusive_and_says_how_many_events_would_decide()
+    {
+        var contract = Setup();
+        var small = WriteCsv("small.csv", 2000, 4, 0);
+        var report = ContractCheck.Run(contract, small);
+        Assert.Equal(0, report.Failures);
+        Assert.False(report.Passed); // inconclusive fails by default
+        var undecided = report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive).ToList();
+        Assert.NotEmpty(undecided);
+        foreach (var o in undecided)
+        {
+            // More events than it has, and a finite number: the reference (40 000 events) is precise enough.
+            Assert.True(o.Measured.EventsNeeded > 2000 && double.IsFinite(o.Measured.EventsNeeded), $"{o.Check.Label}: {o.Measured.EventsNeeded}");
+        }
+        // Drawing the number of events it asked for decides the KS check (within a factor for noise).
+        var ks = undecided.FirstOrDefault(o => o.Check.Kind == CheckKind.KolmogorovSmirnov);
+        if (ks is not null)
+        {
+            var bigger = WriteCsv("bigger.csv", (int)Math.Min(2 * ks.Measured.EventsNeeded, 400_000), 5, 0);
+            var again = ContractCheck.Run(contract, bigger);
+            Assert.Equal(Verdict.Pass, again.Outcomes.Single(o => o.Check.Kind == CheckKind.KolmogorovSmirnov).Verdict);
+        }
+    }
+
+    [Fact]
+    public void Inconclusive_can_be_set_to_warn()
+    {
+        var contract = Setup(ContractText.Replace("defaults:", "decision: { inconclusive: warn }\ndefaults:"));
+        var report = ContractCheck.Run(contract, WriteCsv("small.csv", 2000, 4, 0));
+        Assert.True(report.Inconclusive > 0);
+        Assert.True(report.Passed);
+    }
+
+    [Fact]
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
         var contract = Setup();
