@@ -43,9 +43,13 @@ internal static class CalibrationStudy
             {
                 var (spec, refFeature, core) = features[i];
                 var axis = refFeature.Histogram.Axis;
-                var refReplica = refFeature with { Histogram = ReplicaSampler.Draw(axis, truth[i], referenceEvents, rng) };
+                var refHistogram = ReplicaSampler.Draw(axis, truth[i], referenceEvents, rng);
                 var sample = ReplicaSampler.Draw(axis, drifted[i], events, rng);
-                var comparison = new FeatureComparison(spec, refReplica, sample, refFeature.Summary, core);
+                // Moments of both replicas come from their bins alike, so binning cannot bias their comparison.
+                var refSummary = BinnedSummary.Of(refHistogram);
+                var refReplica = refFeature with { Histogram = refHistogram, Summary = refSummary };
+                var sampleSummary = BinnedSummary.Of(sample);
+                var comparison = new FeatureComparison(spec, refReplica, sample, sampleSummary, core);
                 foreach (var check in spec.Checks) measured.Add((spec, check, CheckEvaluator.Measure(comparison, check, contract.Decision)));
             }
             var outcomes = VerdictRule.Decide(measured, contract.Decision);

@@ -13,6 +13,8 @@ internal static class CheckEvaluator
         CheckKind.KolmogorovSmirnovTest => KolmogorovSmirnovTestCheck.Evaluate(comparison),
         CheckKind.BinRatio => BinRatioCheck.Evaluate(comparison, spec, decision),
         CheckKind.JensenShannon => JensenShannonCheck.Evaluate(comparison, spec, decision),
+        CheckKind.MeanShift => MomentShiftCheck.Mean(comparison, spec, decision),
+        CheckKind.WidthRatio => MomentShiftCheck.Width(comparison, spec, decision),
         _ => throw new ArgumentOutOfRangeException(nameof(spec), spec.Kind, "Unknown check."),
     };
 
@@ -29,6 +31,8 @@ internal static class CheckEvaluator
         CheckKind.BinRatio when spec.Region == Region.Tails => Diagnostics.ErrorCodes.DriftRatioTails,
         CheckKind.BinRatio when spec.Region == Region.Core => Diagnostics.ErrorCodes.DriftRatioCore,
         CheckKind.BinRatio => Diagnostics.ErrorCodes.DriftRatioAll,
+        CheckKind.MeanShift => Diagnostics.ErrorCodes.DriftMeanShift,
+        CheckKind.WidthRatio => Diagnostics.ErrorCodes.DriftWidthRatio,
         _ => Diagnostics.ErrorCodes.DriftJensenShannon,
     };
 }

@@ -24,4 +24,10 @@ internal enum CheckKind
 
     /// <summary>Jensen–Shannon divergence of the normalised bin contents.</summary>
     JensenShannon,
+
+    /// <summary>|mean difference| in units of the reference's standard deviation.</summary>
+    MeanShift,
+
+    /// <summary>|σ_surrogate/σ_reference − 1|: a width (resolution) change.</summary>
+    WidthRatio,
 }

@@ -62,6 +62,8 @@ internal static class ContractKeys
         ("ks-test", CheckKind.KolmogorovSmirnovTest),
         ("ratio-max", CheckKind.BinRatio),
         ("jsd-max", CheckKind.JensenShannon),
+        ("mean-shift-max", CheckKind.MeanShift),
+        ("width-ratio-max", CheckKind.WidthRatio),
     ];
 
     /// <summary>Every check key, in the order checks are reported.</summary>

@@ -49,6 +49,8 @@ internal static class DemoContract
             binning: { bins: 30 }
             checks:
               ratio-max: { tails: 0.08 }
+              mean-shift-max: 0.01  # the peak position and width the fit relies on
+              width-ratio-max: 0.01
           - name: pt_gg
           - name: e_lead
           - name: e_sublead

@@ -65,6 +65,10 @@ public static class ErrorCodes
     public const string DriftRatioAll = "GATE3007";
     /// <summary>Kolmogorov–Smirnov test significant at the contract's family-wise level.</summary>
     public const string DriftKolmogorovSmirnovTest = "GATE3008";
+    /// <summary>Mean shift shown above tolerance.</summary>
+    public const string DriftMeanShift = "GATE3009";
+    /// <summary>Width ratio shown outside tolerance.</summary>
+    public const string DriftWidthRatio = "GATE3010";
     /// <summary>A check the sample is too small to decide (an error or a warning, by the contract's policy).</summary>
     public const string Inconclusive = "GATE3100";
 }
