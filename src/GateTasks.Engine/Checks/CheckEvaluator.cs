@@ -5,7 +5,24 @@ namespace GateTasks.Engine.Checks;
 /// <summary>Measures the check a <see cref="CheckSpec"/> names on one feature comparison.</summary>
 internal static class CheckEvaluator
 {
-    public static Measurement Measure(FeatureComparison comparison, CheckSpec spec, DecisionSettings decision) => spec.Kind switch
+    /// <summary>
+    /// Measures, turning a kernel's refusal (negative cell contents from negative event weights, a cell with content
+    /// but no variance) into a failed measurement that says why, rather than a crash.
+    /// </summary>
+    public static Measurement Measure(FeatureComparison comparison, CheckSpec spec, DecisionSettings decision)
+    {
+        try
+        {
+            return MeasureUnguarded(comparison, spec, decision);
+        }
+        catch (ArgumentException e)
+        {
+            return Measurement.Impossible($"{spec.Key} cannot be computed on these histograms: {e.Message} " +
+                                          "(negative event weights leave cells a probability-based check cannot use; ratio-max, ks-max and mean-shift-max accept them)", []);
+        }
+    }
+
+    private static Measurement MeasureUnguarded(FeatureComparison comparison, CheckSpec spec, DecisionSettings decision) => spec.Kind switch
     {
         CheckKind.KolmogorovSmirnov => KolmogorovSmirnovCheck.Evaluate(comparison, spec, decision),
         CheckKind.Wasserstein => WassersteinCheck.Evaluate(comparison, spec, decision),

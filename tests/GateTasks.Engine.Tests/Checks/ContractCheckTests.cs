@@ -105,6 +105,21 @@ public sealed class ContractCheckTests : IDisposable
     }
 
     [Fact]
+    public void Negative_weights_enter_the_uncertainties_and_never_crash_a_check()
+    {
+        var contract = Setup(ContractText.Replace("sample: surrogate.csv", "sample: { path: surrogate.csv, weight: w }")
+            .Replace("ks-max: 0.03", "ks-max: 0.03\n    jsd-max: 0.01"));
+        // Every tenth event carries weight −0.2, as next-to-leading-order generators produce.
+        var normal = new Normal(0, 1, new Xoshiro256StarStar(8));
+        File.WriteAllLines(Path.Combine(_dir, "surrogate.csv"), new[] { "x,w" }.Concat(Enumerable.Range(0, 20_000)
+            .Select(i => string.Create(CultureInfo.InvariantCulture, $"{normal.Sample():R},{(i % 10 == 0 ? -0.2 : 1.0)}"))));
+        var report = ContractCheck.Run(contract);
+        // Kish (1965): n_eff = (Σw)²/Σw² = (18000 − 400)²/(18000 + 80) = 17132.7 (hand-computed).
+        Assert.Equal(17132.7, report.EffectiveEvents, 1);
+        Assert.All(report.Outcomes.Where(o => o.Check.Kind != CheckKind.JensenShannon), o => Assert.True(double.IsFinite(o.Value), o.Summary));
+    }
+
+    [Fact]
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
         var contract = Setup();
