@@ -19,6 +19,9 @@ internal enum CheckKind
     /// <summary>Kolmogorov–Smirnov two-sample test on the binned distributions (a goodness-of-fit test in the family).</summary>
     KolmogorovSmirnovTest,
 
+    /// <summary>Anderson–Darling two-sample test on the binned distributions (a goodness-of-fit test in the family).</summary>
+    AndersonDarlingTest,
+
     /// <summary>Largest |surrogate/reference − 1| of the normalised bin contents in one region.</summary>
     BinRatio,
 

@@ -60,6 +60,7 @@ internal static class ContractKeys
         ("wasserstein-max", CheckKind.Wasserstein),
         ("chi2-test", CheckKind.ChiSquareTest),
         ("ks-test", CheckKind.KolmogorovSmirnovTest),
+        ("ad-test", CheckKind.AndersonDarlingTest),
         ("ratio-max", CheckKind.BinRatio),
         ("jsd-max", CheckKind.JensenShannon),
         ("mean-shift-max", CheckKind.MeanShift),

@@ -65,6 +65,8 @@ public static class ErrorCodes
     public const string DriftRatioAll = "GATE3007";
     /// <summary>Kolmogorov–Smirnov test significant at the contract's family-wise level.</summary>
     public const string DriftKolmogorovSmirnovTest = "GATE3008";
+    /// <summary>Anderson–Darling test significant at the contract's family-wise level.</summary>
+    public const string DriftAndersonDarlingTest = "GATE3011";
     /// <summary>Mean shift shown above tolerance.</summary>
     public const string DriftMeanShift = "GATE3009";
     /// <summary>Width ratio shown outside tolerance.</summary>

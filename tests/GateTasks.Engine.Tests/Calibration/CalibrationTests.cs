@@ -37,6 +37,8 @@ public sealed class CalibrationTests : IDisposable
                 wasserstein-max: 0.1
                 ratio-max: {"{"} core: 0.1, tails: 0.3 {"}"}
                 chi2-test: on
+                ad-test: on
+                ks-test: on
             features:
             {features}
             """);
