@@ -22,6 +22,9 @@ internal enum CheckKind
     /// <summary>Anderson–Darling two-sample test on the binned distributions (a goodness-of-fit test in the family).</summary>
     AndersonDarlingTest,
 
+    /// <summary>Cramér–von Mises two-sample test on the binned distributions (a goodness-of-fit test in the family).</summary>
+    CramerVonMisesTest,
+
     /// <summary>Largest |surrogate/reference − 1| of the normalised bin contents in one region.</summary>
     BinRatio,
 

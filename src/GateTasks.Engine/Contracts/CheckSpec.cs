@@ -10,7 +10,7 @@ namespace GateTasks.Engine.Contracts;
 internal sealed record CheckSpec(CheckKind Kind, Region Region, double Limit, SourceLocation Location)
 {
     /// <summary>True for goodness-of-fit tests: no tolerance, only a p-value in the contract's family.</summary>
-    public bool IsTest => Kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest or CheckKind.AndersonDarlingTest;
+    public bool IsTest => Kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest or CheckKind.AndersonDarlingTest or CheckKind.CramerVonMisesTest;
 
     /// <summary>The contract key that states this check.</summary>
     public string Key => ContractKeys.CheckKey(Kind);

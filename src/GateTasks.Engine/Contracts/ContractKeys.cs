@@ -61,6 +61,7 @@ internal static class ContractKeys
         ("chi2-test", CheckKind.ChiSquareTest),
         ("ks-test", CheckKind.KolmogorovSmirnovTest),
         ("ad-test", CheckKind.AndersonDarlingTest),
+        ("cvm-test", CheckKind.CramerVonMisesTest),
         ("ratio-max", CheckKind.BinRatio),
         ("jsd-max", CheckKind.JensenShannon),
         ("mean-shift-max", CheckKind.MeanShift),

@@ -297,7 +297,7 @@ internal static class ContractLoader
                 continue;
             }
             checks.RemoveAll(kind);
-            if (kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest or CheckKind.AndersonDarlingTest)
+            if (new CheckSpec(kind, Region.All, double.NaN, r.At(value)).IsTest)
             {
                 if (!YamlNodeReader.IsScalar(value, ContractKeys.On))
                     throw r.Error(ErrorCodes.ContractBadValue, value, $"{key} is a goodness-of-fit test without a tolerance: write 'on' or 'off'.");

@@ -67,6 +67,8 @@ public static class ErrorCodes
     public const string DriftKolmogorovSmirnovTest = "GATE3008";
     /// <summary>Anderson–Darling test significant at the contract's family-wise level.</summary>
     public const string DriftAndersonDarlingTest = "GATE3011";
+    /// <summary>Cramér–von Mises test significant at the contract's family-wise level.</summary>
+    public const string DriftCramerVonMisesTest = "GATE3012";
     /// <summary>Mean shift shown above tolerance.</summary>
     public const string DriftMeanShift = "GATE3009";
     /// <summary>Width ratio shown outside tolerance.</summary>

@@ -38,6 +38,7 @@ public sealed class CalibrationTests : IDisposable
                 ratio-max: {"{"} core: 0.1, tails: 0.3 {"}"}
                 chi2-test: on
                 ad-test: on
+                cvm-test: on
                 ks-test: on
             features:
             {features}
