@@ -34,6 +34,7 @@ internal static class CheckEvaluator
         CheckKind.JensenShannon => JensenShannonCheck.Evaluate(comparison, spec, decision),
         CheckKind.MeanShift => MomentShiftCheck.Mean(comparison, spec, decision),
         CheckKind.WidthRatio => MomentShiftCheck.Width(comparison, spec, decision),
+        CheckKind.QuantileShift => QuantileShiftCheck.Evaluate(comparison, spec, decision),
         _ => throw new ArgumentOutOfRangeException(nameof(spec), spec.Kind, "Unknown check."),
     };
 
@@ -54,6 +55,7 @@ internal static class CheckEvaluator
         CheckKind.BinRatio => Diagnostics.ErrorCodes.DriftRatioAll,
         CheckKind.MeanShift => Diagnostics.ErrorCodes.DriftMeanShift,
         CheckKind.WidthRatio => Diagnostics.ErrorCodes.DriftWidthRatio,
+        CheckKind.QuantileShift => Diagnostics.ErrorCodes.DriftQuantileShift,
         _ => Diagnostics.ErrorCodes.DriftJensenShannon,
     };
 }

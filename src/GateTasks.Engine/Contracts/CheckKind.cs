@@ -36,4 +36,7 @@ internal enum CheckKind
 
     /// <summary>|σ_surrogate/σ_reference − 1|: a width (resolution) change.</summary>
     WidthRatio,
+
+    /// <summary>Largest shift of the core's bounding quantiles and the median, in units of σ_reference.</summary>
+    QuantileShift,
 }

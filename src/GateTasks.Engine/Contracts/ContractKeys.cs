@@ -66,6 +66,7 @@ internal static class ContractKeys
         ("jsd-max", CheckKind.JensenShannon),
         ("mean-shift-max", CheckKind.MeanShift),
         ("width-ratio-max", CheckKind.WidthRatio),
+        ("quantile-shift-max", CheckKind.QuantileShift),
     ];
 
     /// <summary>Every check key, in the order checks are reported.</summary>

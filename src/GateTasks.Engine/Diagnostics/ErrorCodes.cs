@@ -73,6 +73,8 @@ public static class ErrorCodes
     public const string DriftMeanShift = "GATE3009";
     /// <summary>Width ratio shown outside tolerance.</summary>
     public const string DriftWidthRatio = "GATE3010";
+    /// <summary>Quantile shift shown above tolerance.</summary>
+    public const string DriftQuantileShift = "GATE3013";
     /// <summary>A check the sample is too small to decide (an error or a warning, by the contract's policy).</summary>
     public const string Inconclusive = "GATE3100";
 }

@@ -36,6 +36,9 @@ public sealed class CalibrationTests : IDisposable
                 ks-max: 0.05
                 wasserstein-max: 0.1
                 ratio-max: {"{"} core: 0.1, tails: 0.3 {"}"}
+                quantile-shift-max: 0.1
+                mean-shift-max: 0.1
+                width-ratio-max: 0.1
                 chi2-test: on
                 ad-test: on
                 cvm-test: on
