@@ -1,7 +1,6 @@
 using System.Globalization;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
-using MathNet.Numerics.Distributions;
 
 namespace GateTasks.Engine.Checks;
 
@@ -23,16 +22,12 @@ internal static class BinRatioCheck
         var refTotal = reference.TotalSumW;
         var surTotal = surrogate.TotalSumW;
         var surEffective = KolmogorovSmirnovCheck.Kish(surTotal, surrogate.TotalSumW2);
-        var z = Normal.InvCDF(0, 1, decision.Confidence);
+        var effect = new EffectIntersection(spec.Limit, decision, surrogate.Entries);
 
         var worst = double.NaN;
         var worstBin = -1;
         var worstRatio = double.NaN;
         var worstSigma = double.NaN;
-        var upper = double.NegativeInfinity;
-        var lower = 0.0;
-        var smallestP = 1.0;
-        var needed = 0.0;
         var compared = 0;
         var unreferenced = 0;
         var unreferencedWeight = 0.0;
@@ -58,12 +53,7 @@ internal static class BinRatioCheck
             var sigmaSur = Math.Max(ratio, 1e-12) * Math.Sqrt(relSur);
             var sigma = Math.Sqrt(sigmaRef * sigmaRef + sigmaSur * sigmaSur);
             var deviation = Math.Abs(ratio - 1);
-
-            upper = Math.Max(upper, deviation + z * sigma);
-            lower = Math.Max(lower, deviation - z * sigma);
-            smallestP = Math.Min(smallestP, 1 - Normal.CDF(0, 1, (deviation - spec.Limit) / sigma));
-            if (deviation + z * sigma >= spec.Limit)
-                needed = Math.Max(needed, Measurement.EventsFor(Math.Abs(spec.Limit - deviation), z, sigmaRef, sigmaSur, surrogate.Entries));
+            effect.Add(deviation, sigmaRef, sigmaSur);
             if (!(deviation <= worst))
             {
                 worst = deviation;
@@ -88,11 +78,9 @@ internal static class BinRatioCheck
         details.Add(new("worst_bin_upper", InvariantNumber.Exact(axis.Upper(worstBin))));
         details.Add(new("worst_ratio", InvariantNumber.Exact(worstRatio)));
         details.Add(new("worst_ratio_stat_error", InvariantNumber.Exact(worstSigma)));
-        var p = Math.Min(1, compared * smallestP); // Bonferroni over the region's bins
-        var decided = upper < spec.Limit || p <= decision.FalseAlarm;
-        return new Measurement(worst, lower, upper, p, decided ? double.NaN : needed,
+        return effect.ToMeasurement(worst,
             $"max |ratio−1| {InvariantNumber.Short(worst)} in {spec.RegionName} (worst bin {range}: ratio {InvariantNumber.Short(worstRatio)} ± {InvariantNumber.Short(worstSigma)}), " +
-            $"upper bound {InvariantNumber.Short(upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+            $"upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
             details);
     }
 }

@@ -1,6 +1,5 @@
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
-using MathNet.Numerics.Distributions;
 
 namespace GateTasks.Engine.Checks;
 
@@ -41,18 +40,15 @@ internal static class MomentShiftCheck
             [new("width_ratio", InvariantNumber.Exact(ratio)), new("kurtosis_used", InvariantNumber.Exact(kappa))]);
     }
 
-    /// <summary>Bounds and p-value for |estimate| when the estimate is roughly normal with the given error parts.</summary>
-    private static Measurement Folded(double effect, double seRef, double seSur, CheckSpec spec, DecisionSettings decision, long events,
+    /// <summary>Bounds and p-value for a deviation that is roughly normal with the given error parts.</summary>
+    private static Measurement Folded(double deviation, double seRef, double seSur, CheckSpec spec, DecisionSettings decision, long events,
         string what, List<KeyValuePair<string, string>> details)
     {
-        var se = Math.Sqrt(seRef * seRef + seSur * seSur);
-        var z = Normal.InvCDF(0, 1, decision.Confidence);
-        var upper = effect + z * se;
-        var p = se > 0 ? 1 - Normal.CDF(0, 1, (effect - spec.Limit) / se) : effect > spec.Limit ? 0 : 1;
-        var needed = upper >= spec.Limit && p > decision.FalseAlarm ? Measurement.EventsFor(Math.Abs(spec.Limit - effect), z, seRef, seSur, events) : double.NaN;
-        details.Add(new("standard_error", InvariantNumber.Exact(se)));
-        return new Measurement(effect, Math.Max(0, effect - z * se), upper, p, needed,
-            $"{what} ± {InvariantNumber.Short(se)}, upper bound {InvariantNumber.Short(upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}", details);
+        var effect = new EffectIntersection(spec.Limit, decision, events);
+        effect.Add(deviation, seRef, seSur);
+        details.Add(new("standard_error", InvariantNumber.Exact(Math.Sqrt(seRef * seRef + seSur * seSur))));
+        return effect.ToMeasurement(deviation,
+            $"{what} ± {InvariantNumber.Short(Math.Sqrt(seRef * seRef + seSur * seSur))}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}", details);
     }
 
     /// <summary>μ₄/σ⁴ of the reference histogram at bin centres (at least 1, the smallest any distribution has).</summary>

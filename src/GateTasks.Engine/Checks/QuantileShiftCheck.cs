@@ -2,7 +2,6 @@ using System.Globalization;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Histograms;
-using MathNet.Numerics.Distributions;
 
 namespace GateTasks.Engine.Checks;
 
@@ -24,10 +23,10 @@ internal static class QuantileShiftCheck
         var s = c.Surrogate;
         var nRef = KolmogorovSmirnovCheck.Kish(r.TotalSumW, r.TotalSumW2);
         var nSur = KolmogorovSmirnovCheck.Kish(s.TotalSumW, s.TotalSumW2);
-        var z = Normal.InvCDF(0, 1, decision.Confidence);
+        var effect = new EffectIntersection(spec.Limit, decision, s.Entries);
         double[] probabilities = [c.Spec.Core.LowerQuantile, 0.5, c.Spec.Core.UpperQuantile];
 
-        double worst = 0, upper = 0, lower = 0, smallestP = 1, needed = 0;
+        double worst = 0;
         var details = new List<KeyValuePair<string, string>>();
         foreach (var p in probabilities)
         {
@@ -38,20 +37,14 @@ internal static class QuantileShiftCheck
             var unit = Math.Sqrt(p * (1 - p)) / density / sigma;
             var seRef = unit / Math.Sqrt(nRef);
             var seSur = unit / Math.Sqrt(nSur);
-            var se = Math.Sqrt(seRef * seRef + seSur * seSur);
             worst = Math.Max(worst, shift);
-            upper = Math.Max(upper, shift + z * se);
-            lower = Math.Max(lower, shift - z * se);
-            smallestP = Math.Min(smallestP, 1 - Normal.CDF(0, 1, (shift - spec.Limit) / se));
-            if (shift + z * se >= spec.Limit) needed = Math.Max(needed, Measurement.EventsFor(Math.Abs(spec.Limit - shift), z, seRef, seSur, s.Entries));
+            effect.Add(shift, seRef, seSur);
             var key = p.ToString("0.###", CultureInfo.InvariantCulture);
             details.Add(new($"quantile_{key}_reference", InvariantNumber.Exact(qr)));
             details.Add(new($"quantile_{key}_sample", InvariantNumber.Exact(qs)));
         }
-        var pFail = Math.Min(1, probabilities.Length * smallestP);
-        var decided = upper < spec.Limit || pFail <= decision.FalseAlarm;
-        return new Measurement(worst, lower, upper, pFail, decided ? double.NaN : needed,
-            $"largest quantile shift {InvariantNumber.Short(worst)} σ_ref (core bounds and median), upper bound {InvariantNumber.Short(upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+        return effect.ToMeasurement(worst,
+            $"largest quantile shift {InvariantNumber.Short(worst)} σ_ref (core bounds and median), upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
             details);
     }
 
