@@ -35,6 +35,7 @@ internal static class CheckEvaluator
         CheckKind.MeanShift => MomentShiftCheck.Mean(comparison, spec, decision),
         CheckKind.WidthRatio => MomentShiftCheck.Width(comparison, spec, decision),
         CheckKind.QuantileShift => QuantileShiftCheck.Evaluate(comparison, spec, decision),
+        CheckKind.Fraction => FractionCheck.Evaluate(comparison, spec, decision),
         _ => throw new ArgumentOutOfRangeException(nameof(spec), spec.Kind, "Unknown check."),
     };
 
@@ -56,6 +57,7 @@ internal static class CheckEvaluator
         CheckKind.MeanShift => Diagnostics.ErrorCodes.DriftMeanShift,
         CheckKind.WidthRatio => Diagnostics.ErrorCodes.DriftWidthRatio,
         CheckKind.QuantileShift => Diagnostics.ErrorCodes.DriftQuantileShift,
+        CheckKind.Fraction => Diagnostics.ErrorCodes.DriftFraction,
         _ => Diagnostics.ErrorCodes.DriftJensenShannon,
     };
 }

@@ -33,8 +33,15 @@ internal static class ContractCheck
 
         var histograms = references.Select(r => new Histogram(r.Histogram.Axis)).ToArray();
         var stats = contract.Features.Select(_ => new FeatureStatistics()).ToArray();
+        var spikes = contract.Features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
         var totals = SampleStream.Run(sample, contract.Features.Select(f => f.Column).ToList(), contract.Sample.Weight, (i, values, weights) =>
         {
+            if (spikes[i] is { } spike)
+            {
+                var (v, w) = spike.Apply(values, weights);
+                values = v.Span;
+                weights = w.Span;
+            }
             histograms[i].Fill(values, weights);
             stats[i].Add(values, weights);
         });
@@ -45,7 +52,7 @@ internal static class ContractCheck
         var measured = new List<(FeatureSpec, CheckSpec, Measurement)>();
         for (var i = 0; i < contract.Features.Count; i++)
         {
-            var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i]);
+            var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i], spikes[i]?.Tally);
             foreach (var check in contract.Features[i].Checks)
                 measured.Add((contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision)));
         }
@@ -60,14 +67,14 @@ internal static class ContractCheck
             ?? throw new GateInputException(ErrorCodes.ReferenceMismatch,
                 $"The reference {Path.GetFileName(referencePath)} has no feature '{feature.Name}'{NearestName.Hint(feature.Name, reference.Features.Select(f => f.Name))}; " +
                 "rebuild it with 'gatetasks reference build'.", feature.Location);
-        if (r.Column != feature.Column || r.Kind != feature.Kind || r.BinningRequest != feature.Binning.Canonical)
+        if (r.Column != feature.Column || r.Kind != feature.Kind || r.BinningRequest != feature.ReferenceRequest)
         {
             var where = r.Column != feature.Column ? feature.ColumnLocation
                 : r.Kind != feature.Kind ? feature.Location
                 : feature.Binning.Location;
             throw new GateInputException(ErrorCodes.ReferenceMismatch,
                 $"The reference for feature '{feature.Name}' was built with other settings (column '{r.Column}', {r.Kind.ToString().ToLowerInvariant()}, binning {r.BinningRequest}); " +
-                $"the contract asks for column '{feature.Column}', {feature.Kind.ToString().ToLowerInvariant()}, binning {feature.Binning.Canonical}. " +
+                $"the contract asks for column '{feature.Column}', {feature.Kind.ToString().ToLowerInvariant()}, binning {feature.ReferenceRequest}. " +
                 "Rebuild it with 'gatetasks reference build'.", where);
         }
         return r;

@@ -10,7 +10,8 @@ internal sealed record FeatureComparison(
     ReferenceFeature Reference,
     Histogram Surrogate,
     FeatureSummary SurrogateSummary,
-    IReadOnlyList<bool> CoreBins)
+    IReadOnlyList<bool> CoreBins,
+    SpikeTally? SampleSpike = null)
 {
     /// <summary>True when every cell's Σw² equals its Σw, i.e. all weights are one and the counts are plain counts.</summary>
     public static bool IsUnweighted(CellContents cells)

@@ -39,4 +39,7 @@ internal enum CheckKind
 
     /// <summary>Largest shift of the core's bounding quantiles and the median, in units of σ_reference.</summary>
     QuantileShift,
+
+    /// <summary>Largest |Δ fraction|: of the declared spike (continuous), or of any category (discrete).</summary>
+    Fraction,
 }

@@ -22,6 +22,7 @@ internal static class ContractKeys
     public const string Binning = "binning";
     public const string Core = "core";
     public const string Checks = "checks";
+    public const string Spike = "spike";
 
     public const string Bins = "bins";
     public const string Spacing = "spacing";
@@ -48,7 +49,7 @@ internal static class ContractKeys
     public static readonly string[] InconclusivePolicies = ["fail", "warn"];
     public static readonly string[] SampleKeys = [Path, Weight];
     public static readonly string[] DefaultsKeys = [Binning, Core, Checks];
-    public static readonly string[] FeatureKeys = [Name, Column, Kind, Binning, Core, Checks];
+    public static readonly string[] FeatureKeys = [Name, Column, Kind, Binning, Core, Spike, Checks];
     public static readonly string[] BinningKeys = [Bins, Spacing, Range, Edges];
     public static readonly string[] RegionKeys = [Core, Tails];
     public static readonly string[] Kinds = ["continuous", "discrete"];
@@ -67,6 +68,7 @@ internal static class ContractKeys
         ("mean-shift-max", CheckKind.MeanShift),
         ("width-ratio-max", CheckKind.WidthRatio),
         ("quantile-shift-max", CheckKind.QuantileShift),
+        ("fraction-max", CheckKind.Fraction),
     ];
 
     /// <summary>Every check key, in the order checks are reported.</summary>

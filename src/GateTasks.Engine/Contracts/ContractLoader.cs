@@ -196,6 +196,14 @@ internal static class ContractLoader
             ? ReadCore(r, c, $"The core of {what}")
             : defaults.Core ?? Central(DefaultCoreFraction, r.At(nameNode));
 
+        double? spike = null;
+        if (entries.TryGetValue(ContractKeys.Spike, out var sp))
+        {
+            if (kind == FeatureKind.Discrete)
+                throw r.Error(ErrorCodes.ContractBadValue, sp, $"{what} is discrete: every value is a category already, so it takes no spike; use fraction-max.");
+            spike = r.Number(sp, $"The spike of {what}");
+        }
+
         var checks = defaults.Checks.Copy();
         if (entries.TryGetValue(ContractKeys.Checks, out var ch)) ReadChecks(r, ch, $"the checks of {what}", checks);
         var list = checks.ToList();
@@ -203,7 +211,7 @@ internal static class ContractLoader
             throw r.Error(ErrorCodes.ContractBadValue, nameNode,
                 $"{char.ToUpperInvariant(what[0])}{what[1..]} has no checks (none of its own, none in defaults); it would always pass.");
 
-        return new FeatureSpec(name, column, kind, binning, core, list, r.At(nameNode), r.At(columnNode));
+        return new FeatureSpec(name, column, kind, binning, core, list, r.At(nameNode), r.At(columnNode), spike);
     }
 
     private static BinningSpec ReadBinning(YamlNodeReader r, YamlNode node, string what)

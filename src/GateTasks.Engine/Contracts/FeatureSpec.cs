@@ -2,7 +2,11 @@ using GateTasks.Engine.Diagnostics;
 
 namespace GateTasks.Engine.Contracts;
 
-/// <summary>One feature of the contract with its resolved binning, core and checks (defaults applied).</summary>
+/// <summary>
+/// One feature of the contract with its resolved binning, core and checks (defaults applied). A declared
+/// <see cref="Spike"/> value (0 for an absent object, a padding sentinel) is counted on its own; the histogram and
+/// every continuous check see only the other values.
+/// </summary>
 internal sealed record FeatureSpec(
     string Name,
     string Column,
@@ -11,4 +15,14 @@ internal sealed record FeatureSpec(
     CoreSpec Core,
     IReadOnlyList<CheckSpec> Checks,
     SourceLocation Location,
-    SourceLocation ColumnLocation);
+    SourceLocation ColumnLocation,
+    double? Spike = null)
+{
+    /// <summary>
+    /// What the reference must have been built for: the binning request and, when declared, the spike value. A
+    /// check refuses a reference built for anything else.
+    /// </summary>
+    public string ReferenceRequest => Spike is { } v
+        ? Binning.Canonical + "|spike:" + v.ToString("R", System.Globalization.CultureInfo.InvariantCulture)
+        : Binning.Canonical;
+}

@@ -30,7 +30,16 @@ internal static class ReferenceBuilder
 
         // Pass 1: ranges and moments.
         var stats = features.Select(_ => new FeatureStatistics()).ToArray();
-        var totals = SampleStream.Run(sample, columns, weightColumn, (i, values, weights) => stats[i].Add(values, weights));
+        var spikes = features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
+        var totals = SampleStream.Run(sample, columns, weightColumn, (i, values, weights) =>
+        {
+            if (spikes[i] is { } spike)
+            {
+                var (v, w) = spike.Apply(values, weights);
+                stats[i].Add(v.Span, w.Span);
+            }
+            else stats[i].Add(values, weights);
+        });
         if (totals.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty, $"The reference sample has no events ({string.Join(", ", files)}).",
                 new SourceLocation(files[0]));
@@ -40,7 +49,7 @@ internal static class ReferenceBuilder
         {
             if (stats[i].Count == 0)
                 throw new GateInputException(ErrorCodes.SampleEmpty,
-                    $"Feature '{features[i].Name}' (column '{features[i].Column}') has no finite value in the reference sample.", features[i].ColumnLocation);
+                    $"Feature '{features[i].Name}' (column '{features[i].Column}') has no finite value{(features[i].Spike is null ? "" : " besides its spike")} in the reference sample.", features[i].ColumnLocation);
             if (double.IsInfinity(min[i]) || double.IsInfinity(max[i]))
                 throw new GateInputException(ErrorCodes.SampleColumnType,
                     $"Feature '{features[i].Name}' (column '{features[i].Column}') holds infinite values in the reference sample; a reference must be finite.",
@@ -62,8 +71,17 @@ internal static class ReferenceBuilder
                 _ => null,
             };
         }
+        // Second pass: its own spike filters, whose tallies repeat the first pass's and are dropped.
+        var secondPass = features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
         SampleStream.Run(sample, columns, weightColumn, (i, values, weights) =>
         {
+            if (secondPass[i] is { } spike)
+            {
+                var (v, w) = spike.Apply(values, weights);
+                grids[i]?.Fine.Fill(v.Span, w.Span);
+                direct[i]?.Fill(v.Span, w.Span);
+                return;
+            }
             grids[i]?.Fine.Fill(values, weights);
             direct[i]?.Fill(values, weights);
         });
@@ -80,7 +98,7 @@ internal static class ReferenceBuilder
             var quantiles = grid is null
                 ? new List<QuantilePoint>()
                 : probabilities.Select(p => new QuantilePoint(p, grid.Quantile(p))).ToList();
-            result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.Binning.Canonical, histogram, stats[i].Summary(), quantiles));
+            result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.ReferenceRequest, histogram, stats[i].Summary(), quantiles, spikes[i]?.Tally));
         }
 
         var inputs = files.Select(p => new ReferenceInput(Path.GetFileName(p), new FileInfo(p).Length, FileDigest.Sha256(p))).ToList();

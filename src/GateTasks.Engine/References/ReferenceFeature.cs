@@ -14,7 +14,8 @@ internal sealed record ReferenceFeature(
     string BinningRequest,
     Histogram Histogram,
     FeatureSummary Summary,
-    IReadOnlyList<QuantilePoint> Quantiles)
+    IReadOnlyList<QuantilePoint> Quantiles,
+    SpikeTally? Spike = null)
 {
     /// <summary>The value at probability <paramref name="p"/>, if the reference stored it.</summary>
     public double? Quantile(double p)

@@ -174,6 +174,9 @@ internal static class ReferenceFile
                 ["min"] = s.Min,
                 ["max"] = s.Max,
                 ["quantiles"] = q,
+                ["spike"] = f.Spike is { } sp
+                    ? new JsonObject { ["value"] = sp.Value, ["entries"] = sp.Entries, ["sum_w"] = sp.SumW, ["sum_w2"] = sp.SumW2 }
+                    : null,
             });
         }
         var inputs = new JsonArray();
@@ -220,7 +223,8 @@ internal static class ReferenceFile
                 .Select(p => new QuantilePoint((double)p![0]!, (double)p[1]!)).ToList();
             features.Add(new ReferenceFeature(name, (string)f["column"]!,
                 (string)f["kind"]! == "discrete" ? FeatureKind.Discrete : FeatureKind.Continuous,
-                (string)f["binning"]!, histogram, summary, quantiles));
+                (string)f["binning"]!, histogram, summary, quantiles,
+                f["spike"] is JsonObject sp ? new SpikeTally((double)sp["value"]!, (long)sp["entries"]!, (double)sp["sum_w"]!, (double)sp["sum_w2"]!) : null));
         }
         var inputs = h["inputs"]!.AsArray()
             .Select(i => new ReferenceInput((string)i!["path"]!, (long)i["bytes"]!, (string)i["sha256"]!)).ToList();

@@ -120,6 +120,49 @@ public sealed class ContractCheckTests : IDisposable
     }
 
     [Fact]
+    public void A_wrong_zero_spike_fraction_fails_the_spike_check_while_the_rest_passes()
+    {
+        const string spiky = """
+            contract-version: 1
+            sample: surrogate.csv
+            reference: ref.parquet
+            features:
+              - name: x
+                spike: 0
+                binning: { bins: 10 }
+                checks:
+                  fraction-max: 0.01
+                  ks-max: 0.03
+                  ratio-max: { core: 0.15, tails: 0.3 }
+            """;
+        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contractPath, spiky);
+        var contract = ContractLoader.Load(contractPath);
+        // 30% of the events sit at exactly 0 (an absent object); the rest is |N(0,1)| + 1.
+        string Csv(string name, int rows, int seed, double zeroShare)
+        {
+            var rng = new Xoshiro256StarStar(seed);
+            var normal = new Normal(0, 1, rng);
+            var path = Path.Combine(_dir, name);
+            File.WriteAllLines(path, new[] { "x" }.Concat(Enumerable.Range(0, rows).Select(_ =>
+                rng.NextDouble() < zeroShare ? "0" : (Math.Abs(normal.Sample()) + 1).ToString("R", CultureInfo.InvariantCulture))));
+            return path;
+        }
+        var reference = ReferenceBuilder.Build(contract, [Csv("full.csv", 60_000, 1, 0.30)], null, "test");
+        Assert.Equal(0.30, reference.Find("x")!.Spike!.SumW / reference.Events, 2);
+        ReferenceFile.Write(contract.ReferenceFullPath, reference);
+        Assert.Equal(reference.Find("x")!.Spike, ReferenceFile.Read(contract.ReferenceFullPath).Find("x")!.Spike);
+
+        Csv("surrogate.csv", 60_000, 2, 0.35); // 5 points too many zeros, the non-zero part faithful
+        var report = ContractCheck.Run(contract);
+        Assert.Equal(Verdict.Fail, report.Outcomes.Single(o => o.Check.Kind == CheckKind.Fraction).Verdict);
+        Assert.All(report.Outcomes.Where(o => o.Check.Kind != CheckKind.Fraction), o => Assert.Equal(Verdict.Pass, o.Verdict));
+
+        Csv("surrogate.csv", 60_000, 3, 0.30);
+        Assert.True(ContractCheck.Run(contract).Passed);
+    }
+
+    [Fact]
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
         var contract = Setup();

@@ -1,0 +1,63 @@
+using System.Globalization;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>
+/// Absolute fraction differences: of the declared spike of a continuous feature (its share of all non-NaN events),
+/// or of every category of a discrete feature; the effect is the largest |f_sample − f_reference|. Each fraction's
+/// standard error is the binomial √(f(1−f)/n) at the Kish (1965) effective count, the normal approximation that
+/// Wilson's (1927) interval refines; the decision is <see cref="EffectIntersection"/>'s over the parts.
+/// </summary>
+internal static class FractionCheck
+{
+    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    {
+        var r = c.Reference.Histogram;
+        var s = c.Surrogate;
+        var effect = new EffectIntersection(spec.Limit, decision, s.Entries);
+        var details = new List<KeyValuePair<string, string>>();
+        var worst = 0.0;
+
+        void Part(string name, double refW, double refTotal, double refTotalW2, double sampleW, double sampleTotal, double sampleTotalW2)
+        {
+            var fr = refTotal > 0 ? refW / refTotal : 0;
+            var fs = sampleTotal > 0 ? sampleW / sampleTotal : 0;
+            var nr = refTotalW2 > 0 ? refTotal * refTotal / refTotalW2 : 0;
+            var ns = sampleTotalW2 > 0 ? sampleTotal * sampleTotal / sampleTotalW2 : 0;
+            // The reference's fraction stands in for both variances: it is the better-measured one under the null.
+            var seRef = nr > 0 ? Math.Sqrt(fr * (1 - fr) / nr) : 0;
+            var seSample = ns > 0 ? Math.Sqrt(fr * (1 - fr) / ns) : 0;
+            var d = Math.Abs(fs - fr);
+            worst = Math.Max(worst, d);
+            effect.Add(d, seRef, seSample);
+            details.Add(new($"fraction_{name}_reference", InvariantNumber.Exact(fr)));
+            details.Add(new($"fraction_{name}_sample", InvariantNumber.Exact(fs)));
+        }
+
+        if (c.Reference.Spike is { } refSpike)
+        {
+            var sampleSpike = c.SampleSpike ?? new References.SpikeTally(refSpike.Value, 0, 0, 0);
+            Part("spike", refSpike.SumW, refSpike.SumW + r.TotalSumW, refSpike.SumW2 + r.TotalSumW2,
+                sampleSpike.SumW, sampleSpike.SumW + s.TotalSumW, sampleSpike.SumW2 + s.TotalSumW2);
+            return effect.ToMeasurement(worst,
+                $"spike fraction at {InvariantNumber.Short(refSpike.Value)}: |Δ| {InvariantNumber.Short(worst)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+                details);
+        }
+        if (c.Spec.Kind != FeatureKind.Discrete)
+            return Measurement.Impossible("fraction-max needs a discrete feature or a declared spike value ('spike:' in the feature)", []);
+
+        double refTotalW = r.TotalSumW, refTotalW2 = r.TotalSumW2, sampleTotalW = s.TotalSumW, sampleTotalW2 = s.TotalSumW2;
+        for (var b = 0; b < r.Axis.Count; b++)
+        {
+            if (r.Storage.SumW[b + 1] <= 0 && s.Storage.SumW[b + 1] <= 0) continue;
+            var category = Math.Round(r.Axis.Centre(b)).ToString(CultureInfo.InvariantCulture);
+            Part(category, r.Storage.SumW[b + 1], refTotalW, refTotalW2, s.Storage.SumW[b + 1], sampleTotalW, sampleTotalW2);
+        }
+        if (effect.Parts == 0) return Measurement.Impossible("no category holds any event", details);
+        return effect.ToMeasurement(worst,
+            $"largest category-fraction difference {InvariantNumber.Short(worst)} over {effect.Parts} categories, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+            details);
+    }
+}
