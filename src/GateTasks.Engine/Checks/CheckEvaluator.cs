@@ -58,6 +58,7 @@ internal static class CheckEvaluator
         CheckKind.WidthRatio => Diagnostics.ErrorCodes.DriftWidthRatio,
         CheckKind.QuantileShift => Diagnostics.ErrorCodes.DriftQuantileShift,
         CheckKind.Fraction => Diagnostics.ErrorCodes.DriftFraction,
+        CheckKind.PearsonDifference or CheckKind.SpearmanDifference => Diagnostics.ErrorCodes.DriftCorrelation,
         _ => Diagnostics.ErrorCodes.DriftJensenShannon,
     };
 }

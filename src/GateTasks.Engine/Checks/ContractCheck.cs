@@ -34,6 +34,9 @@ internal static class ContractCheck
         var histograms = references.Select(r => new Histogram(r.Histogram.Axis)).ToArray();
         var stats = contract.Features.Select(_ => new FeatureStatistics()).ToArray();
         var spikes = contract.Features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
+        var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
+        var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
+            new MarginalCdf(references[index[p.First]].Histogram), new MarginalCdf(references[index[p.Second]].Histogram))).ToList();
         var totals = SampleStream.Run(sample, contract.Features.Select(f => f.Column).ToList(), contract.Sample.Weight, (i, values, weights) =>
         {
             if (spikes[i] is { } spike)
@@ -44,6 +47,9 @@ internal static class ContractCheck
             }
             histograms[i].Fill(values, weights);
             stats[i].Add(values, weights);
+        }, (batch, columnOf, weights) =>
+        {
+            foreach (var p in pairs) p.Add(batch, columnOf, weights);
         });
         if (totals.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
@@ -55,6 +61,17 @@ internal static class ContractCheck
             var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i], spikes[i]?.Tally);
             foreach (var check in contract.Features[i].Checks)
                 measured.Add((contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision)));
+        }
+        foreach (var pair in pairs)
+        {
+            var stored = reference.FindPair(pair.Spec.First, pair.Spec.Second)
+                ?? throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                    $"The reference holds no correlation for {pair.Spec.Name}; rebuild it with 'gatetasks reference build'.", pair.Spec.Location);
+            var first = contract.Features[index[pair.Spec.First]];
+            // Pair checks are reported like a feature named after the pair, at the pair's entry in the contract.
+            var subject = first with { Name = pair.Spec.Name, Column = pair.Spec.Name, Checks = [], Location = pair.Spec.Location, ColumnLocation = pair.Spec.Location };
+            foreach (var check in new[] { pair.Spec.Pearson, pair.Spec.Spearman })
+                if (check is not null) measured.Add((subject, check, CorrelationCheck.Evaluate(stored, pair, check, contract.Decision, totals.Events)));
         }
         var outcomes = VerdictRule.Decide(measured, contract.Decision);
 

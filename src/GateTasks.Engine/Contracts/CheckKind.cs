@@ -40,6 +40,12 @@ internal enum CheckKind
     /// <summary>Largest shift of the core's bounding quantiles and the median, in units of σ_reference.</summary>
     QuantileShift,
 
+    /// <summary>|Δ Pearson r| of a declared pair of features.</summary>
+    PearsonDifference,
+
+    /// <summary>|Δ Spearman ρ| of a declared pair of features.</summary>
+    SpearmanDifference,
+
     /// <summary>Largest |Δ fraction|: of the declared spike (continuous), or of any category (discrete).</summary>
     Fraction,
 }

@@ -38,12 +38,17 @@ internal static class ContractKeys
     public const string On = "on";
 
     public const string Decision = "decision";
+    public const string Correlations = "correlations";
+    public const string PairFeatures = "features";
+    public const string PearsonMax = "pearson-max";
+    public const string SpearmanMax = "spearman-max";
     public const string Confidence = "confidence";
     public const string FalseAlarm = "false-alarm";
     public const string Correction = "correction";
     public const string Inconclusive = "inconclusive";
 
-    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Decision, Defaults, Features];
+    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Decision, Defaults, Features, Correlations];
+    public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax];
     public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
     public static readonly string[] InconclusivePolicies = ["fail", "warn"];
@@ -83,7 +88,12 @@ internal static class ContractKeys
     }
 
     /// <summary>The key that names a check.</summary>
-    public static string CheckKey(CheckKind kind) => CheckTable.First(c => c.Kind == kind).Key;
+    public static string CheckKey(CheckKind kind) => kind switch
+    {
+        CheckKind.PearsonDifference => PearsonMax,
+        CheckKind.SpearmanDifference => SpearmanMax,
+        _ => CheckTable.First(c => c.Kind == kind).Key,
+    };
 
     /// <summary>Checks whose tolerance can be split into core and tails.</summary>
     public static bool HasRegions(CheckKind kind) => kind == CheckKind.BinRatio;

@@ -89,7 +89,8 @@ internal static class ContractLoader
             features.Add(feature);
         }
 
-        return new PrecisionContract(path, version, title, sample, reference, r.At(referenceNode), decision, features);
+        var correlations = top.TryGetValue(ContractKeys.Correlations, out var cn) ? ReadCorrelations(r, cn, features) : [];
+        return new PrecisionContract(path, version, title, sample, reference, r.At(referenceNode), decision, features, correlations);
     }
 
     private static string InnerMessage(YamlException e) => e.InnerException is YamlException inner ? inner.Message : e.Message;
@@ -106,6 +107,41 @@ internal static class ContractLoader
             r.String(pathNode, "sample.path"), r.At(pathNode),
             weightNode is null ? null : r.String(weightNode, "sample.weight"),
             weightNode is null ? null : r.At(weightNode));
+    }
+
+    private static List<CorrelationSpec> ReadCorrelations(YamlNodeReader r, YamlNode node, IReadOnlyList<FeatureSpec> features)
+    {
+        var list = new List<CorrelationSpec>();
+        var names = features.Select(f => f.Name).ToList();
+        foreach (var item in r.Sequence(node, ContractKeys.Correlations).Children)
+        {
+            var mapping = r.Mapping(item, "A correlation entry");
+            var entries = r.Entries(mapping, "a correlation entry", ContractKeys.CorrelationKeys).ToDictionary(e => e.Key, e => e.Value);
+            var pairNode = r.Sequence(r.Require(mapping, ContractKeys.PairFeatures, "A correlation entry"), "features");
+            if (pairNode.Children.Count != 2)
+                throw r.Error(ErrorCodes.ContractBadValue, pairNode, "A correlation entry names exactly two features, [first, second].");
+            var pair = pairNode.Children.Select(n =>
+            {
+                var name = r.String(n, "A feature of the pair");
+                if (!names.Contains(name))
+                    throw r.Error(ErrorCodes.ContractBadValue, n, $"'{name}' is not a feature of this contract{NearestName.Hint(name, names)}.");
+                return name;
+            }).ToArray();
+            if (pair[0] == pair[1]) throw r.Error(ErrorCodes.ContractBadValue, pairNode, "A correlation pair needs two different features.");
+            CheckSpec? Tolerance(string key, CheckKind kind)
+            {
+                if (!entries.TryGetValue(key, out var v)) return null;
+                var t = r.Number(v, key);
+                if (!(t > 0 && t <= 2)) throw r.Error(ErrorCodes.ContractBadValue, v, $"{key} must be in (0, 2], got {t}.");
+                return new CheckSpec(kind, Region.All, t, r.At(v));
+            }
+            var pearson = Tolerance(ContractKeys.PearsonMax, CheckKind.PearsonDifference);
+            var spearman = Tolerance(ContractKeys.SpearmanMax, CheckKind.SpearmanDifference);
+            if (pearson is null && spearman is null)
+                throw r.Error(ErrorCodes.ContractMissingKey, mapping, "A correlation entry needs pearson-max, spearman-max or both.");
+            list.Add(new CorrelationSpec(pair[0], pair[1], pearson, spearman, r.At(item)));
+        }
+        return list;
     }
 
     private static DecisionSettings ReadDecision(YamlNodeReader r, YamlNode node)

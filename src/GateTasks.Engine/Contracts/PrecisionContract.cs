@@ -11,8 +11,12 @@ internal sealed record PrecisionContract(
     string ReferencePath,
     SourceLocation ReferenceLocation,
     DecisionSettings Decision,
-    IReadOnlyList<FeatureSpec> Features)
+    IReadOnlyList<FeatureSpec> Features,
+    IReadOnlyList<CorrelationSpec>? Correlations = null)
 {
+    /// <summary>The declared correlation pairs (none when the contract lists none).</summary>
+    public IReadOnlyList<CorrelationSpec> Pairs => Correlations ?? [];
+
     /// <summary>Default contract file name.</summary>
     public const string DefaultFileName = "precision-contract.yaml";
 

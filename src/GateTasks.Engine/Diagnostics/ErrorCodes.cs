@@ -77,6 +77,8 @@ public static class ErrorCodes
     public const string DriftQuantileShift = "GATE3013";
     /// <summary>A spike or category fraction shown outside tolerance.</summary>
     public const string DriftFraction = "GATE3014";
+    /// <summary>A correlation coefficient of a declared pair shown outside tolerance.</summary>
+    public const string DriftCorrelation = "GATE3015";
     /// <summary>A check the sample is too small to decide (an error or a warning, by the contract's policy).</summary>
     public const string Inconclusive = "GATE3100";
 }

@@ -1,3 +1,4 @@
+using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Histograms;
@@ -101,9 +102,29 @@ internal static class ReferenceBuilder
             result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.ReferenceRequest, histogram, stats[i].Summary(), quantiles, spikes[i]?.Tally));
         }
 
+        // Third pass, only for declared pairs: Spearman's ranks need the final marginal histograms.
+        var correlations = new List<ReferenceCorrelation>();
+        if (contract.Pairs.Count > 0)
+        {
+            var index = features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
+            var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
+                new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram))).ToList();
+            SampleStream.Run(sample, columns, weightColumn, (_, _, _) => { }, (batch, columnOf, weights) =>
+            {
+                foreach (var p in pairs) p.Add(batch, columnOf, weights);
+            });
+            foreach (var p in pairs)
+            {
+                if (double.IsNaN(p.Pearson) || double.IsNaN(p.Spearman))
+                    throw new GateInputException(ErrorCodes.ContractBadValue,
+                        $"The correlation of {p.Spec.Name} is undefined in the reference sample: one of the two is constant (or all NaN).", p.Spec.Location);
+                correlations.Add(new ReferenceCorrelation(p.Spec.First, p.Spec.Second, p.Pearson, p.Spearman, p.EffectiveCount));
+            }
+        }
+
         var inputs = files.Select(p => new ReferenceInput(Path.GetFileName(p), new FileInfo(p).Length, FileDigest.Sha256(p))).ToList();
         return new ReferenceHistograms(ReferenceFile.FormatVersion, DateTimeOffset.UtcNow, toolVersion, inputs,
-            weightColumn, totals.Events, totals.SumW, totals.SumW2, result);
+            weightColumn, totals.Events, totals.SumW, totals.SumW2, result, correlations);
     }
 
     private static Axis CategoryAxis(FeatureSpec f, double min, double max)

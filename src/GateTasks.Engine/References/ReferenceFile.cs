@@ -193,6 +193,10 @@ internal static class ReferenceFile
             ["sum_w2"] = r.SumW2,
             ["inputs"] = inputs,
             ["features"] = features,
+            ["correlations"] = new JsonArray((r.Correlations ?? []).Select(c => (JsonNode)new JsonObject
+            {
+                ["first"] = c.First, ["second"] = c.Second, ["pearson"] = c.Pearson, ["spearman"] = c.Spearman, ["effective_count"] = c.EffectiveCount,
+            }).ToArray()),
         };
     }
 
@@ -237,6 +241,9 @@ internal static class ReferenceFile
             (long)h["events"]!,
             (double)h["sum_w"]!,
             (double)h["sum_w2"]!,
-            features);
+            features,
+            h["correlations"] is JsonArray pairs
+                ? pairs.Select(c => new ReferenceCorrelation((string)c!["first"]!, (string)c["second"]!, (double)c["pearson"]!, (double)c["spearman"]!, (double)c["effective_count"]!)).ToList()
+                : []);
     }
 }

@@ -13,10 +13,15 @@ internal sealed record ReferenceHistograms(
     long Events,
     double SumW,
     double SumW2,
-    IReadOnlyList<ReferenceFeature> Features)
+    IReadOnlyList<ReferenceFeature> Features,
+    IReadOnlyList<ReferenceCorrelation>? Correlations = null)
 {
     /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>
     public double EffectiveEvents => SumW2 > 0 ? SumW * SumW / SumW2 : 0;
+
+    /// <summary>The stored correlation of a pair, or null.</summary>
+    public ReferenceCorrelation? FindPair(string first, string second) =>
+        Correlations?.FirstOrDefault(c => c.First == first && c.Second == second);
 
     /// <summary>The feature of that name, or null.</summary>
     public ReferenceFeature? Find(string name) => Features.FirstOrDefault(f => f.Name == name);

@@ -5,6 +5,9 @@ namespace GateTasks.Engine.Samples;
 /// <summary>Receives one feature's values of one batch, with the batch's weights (empty: unit weights).</summary>
 internal delegate void FeatureBatch(int feature, ReadOnlySpan<double> values, ReadOnlySpan<double> weights);
 
+/// <summary>Receives a whole batch after its features were visited: <c>batch.Column(columnOfFeature[i])</c> holds feature i's values.</summary>
+internal delegate void WholeBatch(SampleBatch batch, IReadOnlyList<int> columnOfFeature, ReadOnlySpan<double> weights);
+
 /// <summary>Event totals of one pass over a sample.</summary>
 internal readonly record struct SampleTotals(long Events, double SumW, double SumW2);
 
@@ -14,7 +17,7 @@ internal readonly record struct SampleTotals(long Events, double SumW, double Su
 /// </summary>
 internal static class SampleStream
 {
-    public static SampleTotals Run(Sample sample, IReadOnlyList<string> featureColumns, string? weightColumn, FeatureBatch visit)
+    public static SampleTotals Run(Sample sample, IReadOnlyList<string> featureColumns, string? weightColumn, FeatureBatch visit, WholeBatch? afterEachBatch = null)
     {
         var columns = featureColumns.Distinct(StringComparer.Ordinal).ToList();
         var columnOf = featureColumns.Select(c => columns.IndexOf(c)).ToArray();
@@ -47,6 +50,7 @@ internal static class SampleStream
             }
             events += batch.RowCount;
             for (var i = 0; i < columnOf.Length; i++) visit(i, batch.Column(columnOf[i]), weights);
+            afterEachBatch?.Invoke(batch, columnOf, weights);
         }
         return new SampleTotals(events, sumW, sumW2);
     }

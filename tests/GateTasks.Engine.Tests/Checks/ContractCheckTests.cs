@@ -163,6 +163,64 @@ public sealed class ContractCheckTests : IDisposable
     }
 
     [Fact]
+    public void Shuffled_correlations_fail_the_joint_checks_while_every_marginal_passes()
+    {
+        const string text = """
+            contract-version: 1
+            sample: surrogate.csv
+            reference: ref.parquet
+            defaults:
+              binning: { bins: 20 }
+              checks:
+                ks-max: 0.03
+                ratio-max: { core: 0.15, tails: 0.3 }
+            features:
+              - name: x
+              - name: y
+            correlations:
+              - features: [x, y]
+                pearson-max: 0.05
+                spearman-max: 0.05
+            """;
+        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contractPath, text);
+        var contract = ContractLoader.Load(contractPath);
+        // y = 0.6 x + 0.8 z with x, z standard normal: correlation 0.6 and standard normal marginals.
+        (double[] X, double[] Y) Draw(int n, int seed)
+        {
+            var normal = new Normal(0, 1, new Xoshiro256StarStar(seed));
+            var x = Enumerable.Range(0, n).Select(_ => normal.Sample()).ToArray();
+            var y = x.Select(v => 0.6 * v + 0.8 * normal.Sample()).ToArray();
+            return (x, y);
+        }
+        void Write(string name, double[] x, double[] y) =>
+            File.WriteAllLines(Path.Combine(_dir, name), new[] { "x,y" }.Concat(x.Select((v, i) =>
+                string.Create(CultureInfo.InvariantCulture, $"{v:R},{y[i]:R}"))));
+        var (rx, ry) = Draw(50_000, 1);
+        Write("full.csv", rx, ry);
+        var reference = ReferenceBuilder.Build(contract, [Path.Combine(_dir, "full.csv")], null, "test");
+        Assert.Equal(0.6, reference.FindPair("x", "y")!.Pearson, 1);
+        // Spearman's ρ of a bivariate normal is (6/π)·asin(r/2) = 0.5822 for r = 0.6 (Pearson 1907) — ranks via binned marginals, approximate.
+        Assert.Equal(6 / Math.PI * Math.Asin(0.3), reference.FindPair("x", "y")!.Spearman, 1);
+        ReferenceFile.Write(contract.ReferenceFullPath, reference);
+
+        var (sx, sy) = Draw(50_000, 2);
+        Write("surrogate.csv", sx, sy);
+        var faithful = ContractCheck.Run(contract);
+        Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+
+        // Same marginals, joint structure destroyed: y shuffled against x.
+        var shuffled = sy.OrderBy(v => BitConverter.DoubleToInt64Bits(v) * 2654435761L).ToArray();
+        Write("surrogate.csv", sx, shuffled);
+        var broken = ContractCheck.Run(contract);
+        foreach (var o in broken.Outcomes)
+        {
+            var joint = o.Check.Kind is CheckKind.PearsonDifference or CheckKind.SpearmanDifference;
+            Assert.True(joint ? o.Verdict == Verdict.Fail : o.Verdict == Verdict.Pass, $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}");
+        }
+    }
+
+    [Fact]
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
         var contract = Setup();

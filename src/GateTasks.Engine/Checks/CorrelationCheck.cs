@@ -1,0 +1,29 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.References;
+using GateTasks.Engine.Statistics;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>
+/// |Δ r| of a declared pair (Pearson, or Spearman on ranks under the reference's marginals) between sample and
+/// reference, with each coefficient's large-sample standard error (<see cref="WeightedCorrelation.StandardError"/>,
+/// at the reference's coefficient: the better-measured one under the null).
+/// </summary>
+internal static class CorrelationCheck
+{
+    public static Measurement Evaluate(ReferenceCorrelation reference, PairCorrelation sample, CheckSpec spec, DecisionSettings decision, long sampleEvents)
+    {
+        var spearman = spec.Kind == CheckKind.SpearmanDifference;
+        var r = spearman ? reference.Spearman : reference.Pearson;
+        var s = spearman ? sample.Spearman : sample.Pearson;
+        if (double.IsNaN(s)) return Measurement.Impossible("the sample's correlation is undefined: one of the two features is constant or all NaN", []);
+        var effect = new EffectIntersection(spec.Limit, decision, sampleEvents);
+        var d = Math.Abs(s - r);
+        effect.Add(d, WeightedCorrelation.StandardError(r, reference.EffectiveCount, spearman), WeightedCorrelation.StandardError(r, sample.EffectiveCount, spearman));
+        var name = spearman ? "Spearman ρ" : "Pearson r";
+        return effect.ToMeasurement(d,
+            $"{name} {InvariantNumber.Short(s)} vs {InvariantNumber.Short(r)}: |Δ| {InvariantNumber.Short(d)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+            [new("sample_coefficient", InvariantNumber.Exact(s)), new("reference_coefficient", InvariantNumber.Exact(r))]);
+    }
+}

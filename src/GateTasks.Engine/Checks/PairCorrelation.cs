@@ -1,0 +1,35 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Histograms;
+using GateTasks.Engine.Statistics;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>
+/// Accumulates, in one streamed pass, Pearson's r of a declared pair and Spearman's ρ as the Pearson correlation of
+/// the values' ranks under the reference's marginal CDFs (equal to the sample's own ranks when its marginals match
+/// the reference's). Pairs where either value is NaN are skipped.
+/// </summary>
+internal sealed class PairCorrelation(CorrelationSpec spec, int first, int second, MarginalCdf firstCdf, MarginalCdf secondCdf)
+{
+    private readonly WeightedCorrelation _pearson = new();
+    private readonly WeightedCorrelation _spearman = new();
+
+    public CorrelationSpec Spec { get; } = spec;
+
+    public void Add(Samples.SampleBatch batch, IReadOnlyList<int> columnOf, ReadOnlySpan<double> weights)
+    {
+        var x = batch.Column(columnOf[first]);
+        var y = batch.Column(columnOf[second]);
+        for (var r = 0; r < x.Length; r++)
+        {
+            if (double.IsNaN(x[r]) || double.IsNaN(y[r])) continue;
+            var w = weights.IsEmpty ? 1.0 : weights[r];
+            _pearson.Add(x[r], y[r], w);
+            _spearman.Add(firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
+        }
+    }
+
+    public double Pearson => _pearson.Pearson;
+    public double Spearman => _spearman.Pearson;
+    public double EffectiveCount => _pearson.EffectiveCount;
+}

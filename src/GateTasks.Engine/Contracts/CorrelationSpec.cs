@@ -1,0 +1,13 @@
+using GateTasks.Engine.Diagnostics;
+
+namespace GateTasks.Engine.Contracts;
+
+/// <summary>
+/// A declared pair of features whose correlation the surrogate must reproduce: tolerances on |Δ Pearson r| and
+/// |Δ Spearman ρ| (either may be absent). Locations point at the pair and at each tolerance.
+/// </summary>
+internal sealed record CorrelationSpec(string First, string Second, CheckSpec? Pearson, CheckSpec? Spearman, SourceLocation Location)
+{
+    /// <summary>Name used in reports, e.g. <c>e_lead~e_sublead</c>.</summary>
+    public string Name => $"{First}~{Second}";
+}
