@@ -37,7 +37,8 @@ internal static class ContractCheck
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
             new MarginalCdf(references[index[p.First]].Histogram), new MarginalCdf(references[index[p.Second]].Histogram))).ToList();
-        var totals = SampleStream.Run(sample, contract.Features.Select(f => f.Column).ToList(), contract.Sample.Weight, (i, values, weights) =>
+        var inputs = FeatureInputs.Compile(contract, sample.Columns.Select(c => c.Name).ToList());
+        var totals = SampleStream.Run(sample, inputs, contract.Sample.Weight, (i, values, weights) =>
         {
             if (spikes[i] is { } spike)
             {
@@ -47,9 +48,9 @@ internal static class ContractCheck
             }
             histograms[i].Fill(values, weights);
             stats[i].Add(values, weights);
-        }, (batch, columnOf, weights) =>
+        }, view =>
         {
-            foreach (var p in pairs) p.Add(batch, columnOf, weights);
+            foreach (var p in pairs) p.Add(view);
         });
         if (totals.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
@@ -102,6 +103,7 @@ internal static class ContractCheck
         var available = sample.Columns.Select(c => c.Name).ToList();
         foreach (var f in contract.Features)
         {
+            if (f.Expression is not null) continue; // its columns are checked when it is compiled
             if (!available.Contains(f.Column))
                 throw new GateInputException(ErrorCodes.ContractUnknownColumn,
                     $"Feature '{f.Name}' reads column '{f.Column}', which the sample {Path.GetFileName(sample.Files[0])} does not have{NearestName.Hint(f.Column, available)}.",

@@ -16,10 +16,11 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
 
     public CorrelationSpec Spec { get; } = spec;
 
-    public void Add(Samples.SampleBatch batch, IReadOnlyList<int> columnOf, ReadOnlySpan<double> weights)
+    public void Add(Samples.FeatureView view)
     {
-        var x = batch.Column(columnOf[first]);
-        var y = batch.Column(columnOf[second]);
+        var x = view.Feature(first);
+        var y = view.Feature(second);
+        var weights = view.Weights;
         for (var r = 0; r < x.Length; r++)
         {
             if (double.IsNaN(x[r]) || double.IsNaN(y[r])) continue;

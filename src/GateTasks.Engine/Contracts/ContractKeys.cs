@@ -23,6 +23,8 @@ internal static class ContractKeys
     public const string Core = "core";
     public const string Checks = "checks";
     public const string Spike = "spike";
+    public const string Expression = "expression";
+    public const string Selection = "selection";
 
     public const string Bins = "bins";
     public const string Spacing = "spacing";
@@ -47,14 +49,14 @@ internal static class ContractKeys
     public const string Correction = "correction";
     public const string Inconclusive = "inconclusive";
 
-    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Decision, Defaults, Features, Correlations];
+    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Defaults, Features, Correlations];
     public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax];
     public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
     public static readonly string[] InconclusivePolicies = ["fail", "warn"];
     public static readonly string[] SampleKeys = [Path, Weight];
     public static readonly string[] DefaultsKeys = [Binning, Core, Checks];
-    public static readonly string[] FeatureKeys = [Name, Column, Kind, Binning, Core, Spike, Checks];
+    public static readonly string[] FeatureKeys = [Name, Column, Expression, Kind, Binning, Core, Spike, Checks];
     public static readonly string[] BinningKeys = [Bins, Spacing, Range, Edges];
     public static readonly string[] RegionKeys = [Core, Tails];
     public static readonly string[] Kinds = ["continuous", "discrete"];

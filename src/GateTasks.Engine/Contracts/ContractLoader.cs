@@ -90,7 +90,10 @@ internal static class ContractLoader
         }
 
         var correlations = top.TryGetValue(ContractKeys.Correlations, out var cn) ? ReadCorrelations(r, cn, features) : [];
-        return new PrecisionContract(path, version, title, sample, reference, r.At(referenceNode), decision, features, correlations);
+        var selection = top.TryGetValue(ContractKeys.Selection, out var sn)
+            ? new SelectionSpec(r.String(sn, ContractKeys.Selection), ExpressionStart(r, sn))
+            : null;
+        return new PrecisionContract(path, version, title, sample, reference, r.At(referenceNode), decision, features, correlations, selection);
     }
 
     private static string InnerMessage(YamlException e) => e.InnerException is YamlException inner ? inner.Message : e.Message;
@@ -107,6 +110,15 @@ internal static class ContractLoader
             r.String(pathNode, "sample.path"), r.At(pathNode),
             weightNode is null ? null : r.String(weightNode, "sample.weight"),
             weightNode is null ? null : r.At(weightNode));
+    }
+
+    /// <summary>Where an expression's first character is: one column further for a quoted scalar, so error carets land on the token.</summary>
+    private static SourceLocation ExpressionStart(YamlNodeReader r, YamlNode node)
+    {
+        var at = r.At(node);
+        return node is YamlScalarNode { Style: YamlDotNet.Core.ScalarStyle.DoubleQuoted or YamlDotNet.Core.ScalarStyle.SingleQuoted }
+            ? at with { Column = at.Column + 1 }
+            : at;
     }
 
     private static List<CorrelationSpec> ReadCorrelations(YamlNodeReader r, YamlNode node, IReadOnlyList<FeatureSpec> features)
@@ -207,8 +219,17 @@ internal static class ContractLoader
         var name = r.String(nameNode, "The feature name");
         var what = $"feature '{name}'";
 
-        var columnNode = entries.GetValueOrDefault(ContractKeys.Column) ?? nameNode;
-        var column = r.String(columnNode, $"The column of {what}");
+        string? expression = null;
+        YamlNode columnNode;
+        if (entries.TryGetValue(ContractKeys.Expression, out var expressionNode))
+        {
+            if (entries.TryGetValue(ContractKeys.Column, out var both))
+                throw r.Error(ErrorCodes.ContractBadValue, both, $"{what} has both a column and an expression; a derived feature takes only the expression.");
+            expression = r.String(expressionNode, $"The expression of {what}");
+            columnNode = expressionNode;
+        }
+        else columnNode = entries.GetValueOrDefault(ContractKeys.Column) ?? nameNode;
+        var column = expression is null ? r.String(columnNode, $"The column of {what}") : name;
 
         var kind = entries.TryGetValue(ContractKeys.Kind, out var k)
             ? r.OneOf(k, $"The kind of {what}", ContractKeys.Kinds) == "discrete" ? FeatureKind.Discrete : FeatureKind.Continuous
@@ -247,7 +268,7 @@ internal static class ContractLoader
             throw r.Error(ErrorCodes.ContractBadValue, nameNode,
                 $"{char.ToUpperInvariant(what[0])}{what[1..]} has no checks (none of its own, none in defaults); it would always pass.");
 
-        return new FeatureSpec(name, column, kind, binning, core, list, r.At(nameNode), r.At(columnNode), spike);
+        return new FeatureSpec(name, column, kind, binning, core, list, r.At(nameNode), ExpressionStart(r, columnNode), spike, expression);
     }
 
     private static BinningSpec ReadBinning(YamlNodeReader r, YamlNode node, string what)

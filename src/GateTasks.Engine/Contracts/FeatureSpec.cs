@@ -5,7 +5,8 @@ namespace GateTasks.Engine.Contracts;
 /// <summary>
 /// One feature of the contract with its resolved binning, core and checks (defaults applied). A declared
 /// <see cref="Spike"/> value (0 for an absent object, a padding sentinel) is counted on its own; the histogram and
-/// every continuous check see only the other values.
+/// every continuous check see only the other values. A derived feature has an <see cref="Expression"/> over columns
+/// instead of a column (<see cref="ColumnLocation"/> then points at the expression).
 /// </summary>
 internal sealed record FeatureSpec(
     string Name,
@@ -16,13 +17,15 @@ internal sealed record FeatureSpec(
     IReadOnlyList<CheckSpec> Checks,
     SourceLocation Location,
     SourceLocation ColumnLocation,
-    double? Spike = null)
+    double? Spike = null,
+    string? Expression = null)
 {
     /// <summary>
     /// What the reference must have been built for: the binning request and, when declared, the spike value. A
     /// check refuses a reference built for anything else.
     /// </summary>
-    public string ReferenceRequest => Spike is { } v
-        ? Binning.Canonical + "|spike:" + v.ToString("R", System.Globalization.CultureInfo.InvariantCulture)
-        : Binning.Canonical;
+    public string ReferenceRequest =>
+        Binning.Canonical
+        + (Spike is { } v ? "|spike:" + v.ToString("R", System.Globalization.CultureInfo.InvariantCulture) : "")
+        + (Expression is { } e ? "|expression:" + e : "");
 }

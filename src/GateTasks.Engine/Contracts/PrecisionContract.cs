@@ -12,7 +12,8 @@ internal sealed record PrecisionContract(
     SourceLocation ReferenceLocation,
     DecisionSettings Decision,
     IReadOnlyList<FeatureSpec> Features,
-    IReadOnlyList<CorrelationSpec>? Correlations = null)
+    IReadOnlyList<CorrelationSpec>? Correlations = null,
+    SelectionSpec? Selection = null)
 {
     /// <summary>The declared correlation pairs (none when the contract lists none).</summary>
     public IReadOnlyList<CorrelationSpec> Pairs => Correlations ?? [];

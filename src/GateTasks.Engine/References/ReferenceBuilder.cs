@@ -26,7 +26,7 @@ internal static class ReferenceBuilder
     {
         var features = contract.Features;
         var sample = Sample.Open(files);
-        var columns = features.Select(f => f.Column).ToList();
+        var columns = FeatureInputs.Compile(contract, sample.Columns.Select(c => c.Name).ToList());
         var n = features.Count;
 
         // Pass 1: ranges and moments.
@@ -109,9 +109,9 @@ internal static class ReferenceBuilder
             var index = features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
             var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
                 new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram))).ToList();
-            SampleStream.Run(sample, columns, weightColumn, (_, _, _) => { }, (batch, columnOf, weights) =>
+            SampleStream.Run(sample, columns, weightColumn, (_, _, _) => { }, view =>
             {
-                foreach (var p in pairs) p.Add(batch, columnOf, weights);
+                foreach (var p in pairs) p.Add(view);
             });
             foreach (var p in pairs)
             {

@@ -18,6 +18,9 @@ internal sealed class SampleBatch
     /// <summary>Number of columns (in the order they were requested).</summary>
     public int ColumnCount => _columns.Length;
 
+    /// <summary>The buffer behind the <paramref name="index"/>-th column (at least <see cref="RowCount"/> long), for column-wise evaluators.</summary>
+    public double[] ColumnBuffer(int index) => _columns[index];
+
     /// <summary>The values of the <paramref name="index"/>-th requested column.</summary>
     public ReadOnlySpan<double> Column(int index) => _columns[index].AsSpan(0, RowCount);
 }

@@ -5,52 +5,100 @@ namespace GateTasks.Engine.Samples;
 /// <summary>Receives one feature's values of one batch, with the batch's weights (empty: unit weights).</summary>
 internal delegate void FeatureBatch(int feature, ReadOnlySpan<double> values, ReadOnlySpan<double> weights);
 
-/// <summary>Receives a whole batch after its features were visited: <c>batch.Column(columnOfFeature[i])</c> holds feature i's values.</summary>
-internal delegate void WholeBatch(SampleBatch batch, IReadOnlyList<int> columnOfFeature, ReadOnlySpan<double> weights);
-
-/// <summary>Event totals of one pass over a sample.</summary>
+/// <summary>Event totals of one pass over a sample (events that passed the selection).</summary>
 internal readonly record struct SampleTotals(long Events, double SumW, double SumW2);
 
 /// <summary>
-/// One streamed pass over a sample for a list of feature columns and an optional weight column: reads each
-/// column once per batch however many features share it, rejects non-finite weights, and counts events.
+/// One streamed pass over a sample: reads each needed column once per batch, evaluates derived features
+/// column-wise, applies the selection, rejects non-finite weights, and hands every feature's values to the
+/// visitor. Buffers are reused across batches, so memory is bounded by the batch size.
 /// </summary>
 internal static class SampleStream
 {
-    public static SampleTotals Run(Sample sample, IReadOnlyList<string> featureColumns, string? weightColumn, FeatureBatch visit, WholeBatch? afterEachBatch = null)
+    public static SampleTotals Run(Sample sample, FeatureInputs inputs, string? weightColumn, FeatureBatch visit, Action<FeatureView>? afterEachBatch = null)
     {
-        var columns = featureColumns.Distinct(StringComparer.Ordinal).ToList();
-        var columnOf = featureColumns.Select(c => columns.IndexOf(c)).ToArray();
-        var weightIndex = -1;
-        if (weightColumn is not null)
-        {
-            weightIndex = columns.IndexOf(weightColumn);
-            if (weightIndex < 0) { columns.Add(weightColumn); weightIndex = columns.Count - 1; }
-        }
+        var columns = inputs.RequiredColumns.ToList();
+        if (weightColumn is not null && !columns.Contains(weightColumn)) columns.Add(weightColumn);
+        var index = columns.Select((c, i) => (c, i)).ToDictionary(p => p.c, p => p.i, StringComparer.Ordinal);
+        var weightIndex = weightColumn is null ? -1 : index[weightColumn];
+        var n = inputs.Count;
 
-        long events = 0;
+        var derived = new double[n][];
+        var selected = new double[n][];
+        var view = new double[n][];
+        var weightBuffer = Array.Empty<double>();
+        var mask = Array.Empty<double>();
+        var frame = new FeatureView(view, weightBuffer, weightColumn is not null);
+        var expressionInputs = inputs.Expressions.Select(e => e is null ? null : new double[e.Columns.Count][]).ToArray();
+
+        long events = 0, read = 0;
         double sumW = 0, sumW2 = 0;
         foreach (var batch in sample.ReadBatches(columns))
         {
-            var weights = weightIndex >= 0 ? batch.Column(weightIndex) : ReadOnlySpan<double>.Empty;
+            var rows = batch.RowCount;
+            if (mask.Length < rows)
+            {
+                mask = new double[rows];
+                weightBuffer = new double[rows];
+                for (var i = 0; i < n; i++) { derived[i] = new double[rows]; selected[i] = new double[rows]; }
+                frame = new FeatureView(view, weightBuffer, weightColumn is not null);
+            }
+            var rawWeights = weightIndex >= 0 ? batch.Column(weightIndex) : ReadOnlySpan<double>.Empty;
+            for (var r = 0; r < rawWeights.Length; r++)
+            {
+                if (!double.IsFinite(rawWeights[r]))
+                    throw new GateInputException(ErrorCodes.SampleBadWeight,
+                        $"Weight column '{weightColumn}' holds {InvariantNumber.Short(rawWeights[r])} at event {read + r} of the sample; weights must be finite.",
+                        new SourceLocation(sample.CurrentFile ?? sample.Files[0]));
+            }
+            read += rows;
+
+            // Derive: a column is used in place, an expression is evaluated over the whole batch.
+            for (var i = 0; i < n; i++)
+            {
+                if (inputs.Expressions[i] is { } e)
+                {
+                    var args = expressionInputs[i]!;
+                    for (var a = 0; a < args.Length; a++) args[a] = batch.ColumnBuffer(index[e.Columns[a]]);
+                    e.Evaluate(args, rows, derived[i].AsSpan(0, rows));
+                    view[i] = derived[i];
+                }
+                else view[i] = batch.ColumnBuffer(index[inputs.FeatureColumns[i]!]);
+            }
+            if (weightIndex >= 0) rawWeights.CopyTo(weightBuffer);
+
+            // Select: keep the rows whose condition is true (NaN counts as false), compacted into the same view.
+            var kept = rows;
+            if (inputs.Selection is { } selection)
+            {
+                var selectionArgs = selection.Columns.Select(c => batch.ColumnBuffer(index[c])).ToArray();
+                selection.Evaluate(selectionArgs, rows, mask.AsSpan(0, rows));
+                kept = 0;
+                for (var r = 0; r < rows; r++)
+                {
+                    if (!(mask[r] != 0) || double.IsNaN(mask[r])) continue;
+                    for (var i = 0; i < n; i++) selected[i][kept] = view[i][r];
+                    weightBuffer[kept] = weightIndex >= 0 ? weightBuffer[r] : 1;
+                    kept++;
+                }
+                for (var i = 0; i < n; i++) view[i] = selected[i];
+            }
+            frame.Rows = kept;
+
+            var weights = frame.Weights;
             if (weights.IsEmpty)
             {
-                sumW += batch.RowCount;
-                sumW2 += batch.RowCount;
+                sumW += kept;
+                sumW2 += kept;
             }
-            for (var r = 0; r < weights.Length; r++)
+            foreach (var w in weights)
             {
-                var w = weights[r];
-                if (!double.IsFinite(w))
-                    throw new GateInputException(ErrorCodes.SampleBadWeight,
-                        $"Weight column '{weightColumn}' holds {InvariantNumber.Short(w)} at event {events + r} of the sample; weights must be finite.",
-                        new SourceLocation(sample.CurrentFile ?? sample.Files[0]));
                 sumW += w;
                 sumW2 += w * w;
             }
-            events += batch.RowCount;
-            for (var i = 0; i < columnOf.Length; i++) visit(i, batch.Column(columnOf[i]), weights);
-            afterEachBatch?.Invoke(batch, columnOf, weights);
+            events += kept;
+            for (var i = 0; i < n; i++) visit(i, frame.Feature(i), weights);
+            afterEachBatch?.Invoke(frame);
         }
         return new SampleTotals(events, sumW, sumW2);
     }

@@ -1,0 +1,69 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Expressions;
+
+namespace GateTasks.Engine.Samples;
+
+/// <summary>
+/// Where each feature's values come from — a column, or a derived-feature expression over columns — and the
+/// contract's selection, compiled against the columns a sample has. Expressions are compiled once per pass.
+/// </summary>
+internal sealed class FeatureInputs
+{
+    private FeatureInputs(IReadOnlyList<string?> columns, IReadOnlyList<CompiledExpression?> expressions, CompiledExpression? selection)
+    {
+        FeatureColumns = columns;
+        Expressions = expressions;
+        Selection = selection;
+    }
+
+    /// <summary>Per feature: its column, or null for a derived feature.</summary>
+    public IReadOnlyList<string?> FeatureColumns { get; }
+
+    /// <summary>Per feature: its compiled expression, or null for a column.</summary>
+    public IReadOnlyList<CompiledExpression?> Expressions { get; }
+
+    /// <summary>The selection every event must pass before filling, or null.</summary>
+    public CompiledExpression? Selection { get; }
+
+    public int Count => FeatureColumns.Count;
+
+    /// <summary>Every sample column the pass must read (features, expressions, selection), in first-use order.</summary>
+    public IReadOnlyList<string> RequiredColumns =>
+        FeatureColumns.Where(c => c is not null).Select(c => c!)
+            .Concat(Expressions.Where(e => e is not null).SelectMany(e => e!.Columns))
+            .Concat(Selection?.Columns ?? [])
+            .Distinct(StringComparer.Ordinal).ToList();
+
+    public static FeatureInputs Compile(PrecisionContract contract, IReadOnlyCollection<string> available)
+    {
+        var columns = new List<string?>();
+        var expressions = new List<CompiledExpression?>();
+        foreach (var f in contract.Features)
+        {
+            if (f.Expression is { } text)
+            {
+                var compiled = ExpressionCompiler.Compile(text, available, f.ColumnLocation);
+                if (compiled.IsBoolean && f.Kind == FeatureKind.Continuous)
+                    throw new GateInputException(ErrorCodes.ContractExpression,
+                        $"Feature '{f.Name}' is a condition (true/false); declare it 'kind: discrete' to compare its two fractions.", f.ColumnLocation);
+                columns.Add(null);
+                expressions.Add(compiled);
+            }
+            else
+            {
+                columns.Add(f.Column);
+                expressions.Add(null);
+            }
+        }
+        CompiledExpression? selection = null;
+        if (contract.Selection is { } s)
+        {
+            selection = ExpressionCompiler.Compile(s.Text, available, s.Location);
+            if (!selection.IsBoolean)
+                throw new GateInputException(ErrorCodes.ContractExpression,
+                    "The selection must be a condition (a comparison, 'and', 'or', 'not' or isnan), not a number.", s.Location);
+        }
+        return new FeatureInputs(columns, expressions, selection);
+    }
+}
