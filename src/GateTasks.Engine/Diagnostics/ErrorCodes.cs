@@ -27,6 +27,8 @@ public static class ErrorCodes
     public const string ContractUnknownColumn = "GATE1007";
     /// <summary>The contract's schema version is not supported.</summary>
     public const string ContractVersion = "GATE1008";
+    /// <summary>An expression (derived feature or selection) that does not parse or names something unknown.</summary>
+    public const string ContractExpression = "GATE1009";
 
     /// <summary>No sample file matches, or a sample file does not exist.</summary>
     public const string SampleNotFound = "GATE2001";

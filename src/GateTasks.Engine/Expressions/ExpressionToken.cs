@@ -1,0 +1,16 @@
+namespace GateTasks.Engine.Expressions;
+
+/// <summary>
+/// One token: its kind, where it is in the text, its spelling (for a backquoted name, the name inside the quotes)
+/// and, for a number, its value.
+/// </summary>
+internal readonly record struct ExpressionToken(ExpressionTokenKind Kind, int Offset, string Text, double Number = 0)
+{
+    /// <summary>How an error message names this token.</summary>
+    public string Describe() => Kind switch
+    {
+        ExpressionTokenKind.End => "the end of the expression",
+        ExpressionTokenKind.QuotedIdentifier => $"`{Text}`",
+        _ => $"'{Text}'",
+    };
+}
