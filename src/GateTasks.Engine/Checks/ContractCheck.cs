@@ -24,6 +24,7 @@ internal static class ContractCheck
         var files = ContractInputs.SampleFiles(contract, samplePath);
         var sample = Sample.Open(files);
         ValidateColumns(contract, sample);
+        var inputs = FeatureInputs.Compile(contract, sample.Columns.Select(c => c.Name).ToList());
 
         var referencePath = contract.ReferenceFullPath;
         var reference = ReferenceFile.Read(referencePath, contract.ReferenceLocation);
@@ -37,7 +38,6 @@ internal static class ContractCheck
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
             new MarginalCdf(references[index[p.First]].Histogram), new MarginalCdf(references[index[p.Second]].Histogram))).ToList();
-        var inputs = FeatureInputs.Compile(contract, sample.Columns.Select(c => c.Name).ToList());
         var totals = SampleStream.Run(sample, inputs, contract.Sample.Weight, (i, values, weights) =>
         {
             if (spikes[i] is { } spike)

@@ -220,6 +220,73 @@ public sealed class ContractCheckTests : IDisposable
         }
     }
 
+    private const string DerivedContract = """
+        contract-version: 1
+        sample: surrogate.csv
+        reference: ref.parquet
+        selection: "n >= 1"
+        defaults:
+          binning: { bins: 10 }
+          checks: { ks-max: 0.05, ratio-max: { core: 0.2, tails: 0.4 } }
+        features:
+          - name: m
+            expression: sqrt(2*pt1*pt2*(cosh(eta1 - eta2) - cos(phi1 - phi2)))
+          - name: pt1
+        """;
+
+    private string PairsCsv(string name, int rows, int seed)
+    {
+        var rng = new Xoshiro256StarStar(seed);
+        var path = Path.Combine(_dir, name);
+        File.WriteAllLines(path, new[] { "pt1,eta1,phi1,pt2,eta2,phi2,n" }.Concat(Enumerable.Range(0, rows).Select(_ =>
+            string.Create(CultureInfo.InvariantCulture,
+                $"{20 + 60 * rng.NextDouble():R},{4 * rng.NextDouble() - 2:R},{6.28 * rng.NextDouble():R},{20 + 40 * rng.NextDouble():R},{4 * rng.NextDouble() - 2:R},{6.28 * rng.NextDouble():R},{rng.Next(0, 3)}"))));
+        return path;
+    }
+
+    [Fact]
+    public void Derived_features_and_the_selection_apply_to_reference_and_sample_alike()
+    {
+        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contractPath, DerivedContract);
+        var contract = ContractLoader.Load(contractPath);
+        var full = PairsCsv("full.csv", 30_000, 1);
+        var reference = ReferenceBuilder.Build(contract, [full], null, "test");
+        // The selection keeps n ∈ {1, 2}: about two thirds of the rows, counted directly from the file.
+        var kept = File.ReadLines(full).Skip(1).Count(l => l.Split(',')[6] != "0");
+        Assert.Equal(kept, reference.Events);
+        Assert.Equal(kept, reference.Find("m")!.Histogram.Entries);
+        Assert.Contains("|expression:", reference.Find("m")!.BinningRequest);
+        ReferenceFile.Write(contract.ReferenceFullPath, reference);
+
+        PairsCsv("surrogate.csv", 30_000, 2);
+        var report = ContractCheck.Run(contract);
+        Assert.True(report.Passed, string.Join("\n", report.Outcomes.Select(o => $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+
+        // A changed expression is a changed feature: the reference no longer fits.
+        File.WriteAllText(contractPath, DerivedContract.Replace("cos(phi1 - phi2)", "cos(phi2 - phi1) * 1.0"));
+        Assert.Equal(ErrorCodes.ReferenceMismatch, Assert.Throws<GateInputException>(() => ContractCheck.Run(ContractLoader.Load(contractPath))).Code);
+    }
+
+    [Fact]
+    public void An_expression_error_points_inside_the_expression()
+    {
+        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contractPath, DerivedContract.Replace("sqrt(2*pt1", "sqrtt(2*pt1"));
+        PairsCsv("surrogate.csv", 100, 2);
+        var e = Assert.Throws<GateInputException>(() => ContractCheck.Run(ContractLoader.Load(contractPath)));
+        Assert.Equal(ErrorCodes.ContractExpression, e.Code);
+        Assert.Equal(10, e.Location!.Line);
+        Assert.Equal(17, e.Location.Column); // "    expression: " is 16 characters; the unknown function starts right after
+        Assert.Contains("sqrt", e.Message);
+
+        File.WriteAllText(contractPath, DerivedContract.Replace("\"n >= 1\"", "\"n >= 1 and ptt > 3\""));
+        var c = Assert.Throws<GateInputException>(() => ContractCheck.Run(ContractLoader.Load(contractPath)));
+        Assert.Equal(ErrorCodes.ContractExpression, c.Code);
+        Assert.Equal(new SourceLocation(contractPath, 4, 24), c.Location); // 'selection: "' is 12 characters, 'n >= 1 and ' 11 more
+        Assert.Contains("pt1", c.Message);
+    }
+
     [Fact]
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
