@@ -189,8 +189,8 @@ internal sealed class ExpressionParser
         // The constant wins over a column of the same name; such a column is reachable as `pi`.
         if (name == "pi") EmitConstant(Math.PI, isBoolean: false);
         else if (_availableSet.Contains(name)) EmitColumn(token);
-        else if (ExpressionFunction.TryFind(name, out var function))
-            throw Error(token, $"'{name}' is a function; call it with its arguments: " + function.ArgumentCountMessage(0));
+        else if (ExpressionFunction.TryFind(name, out _))
+            throw Error(token, $"'{name}' is a function, not a value; call it with arguments, like {name}(...)");
         else throw UnknownColumn(token);
     }
 
@@ -252,7 +252,7 @@ internal sealed class ExpressionParser
     {
         if (++_depth > ExpressionCompiler.MaxDepth)
             throw Error(token,
-                $"expression nested too deeply: more than {ExpressionCompiler.MaxDepth} levels of parentheses, calls and prefix operators");
+                $"expression nested too deeply: more than {ExpressionCompiler.MaxDepth} levels of parentheses, calls, prefix operators and exponents");
     }
 
     private void Leave() => _depth--;
