@@ -36,6 +36,7 @@ internal static class CheckEvaluator
         CheckKind.WidthRatio => MomentShiftCheck.Width(comparison, spec, decision),
         CheckKind.QuantileShift => QuantileShiftCheck.Evaluate(comparison, spec, decision),
         CheckKind.Fraction => FractionCheck.Evaluate(comparison, spec, decision),
+        CheckKind.FarTail => FarTailCheck.Evaluate(comparison, spec, decision),
         _ => throw new ArgumentOutOfRangeException(nameof(spec), spec.Kind, "Unknown check."),
     };
 
@@ -58,6 +59,7 @@ internal static class CheckEvaluator
         CheckKind.WidthRatio => Diagnostics.ErrorCodes.DriftWidthRatio,
         CheckKind.QuantileShift => Diagnostics.ErrorCodes.DriftQuantileShift,
         CheckKind.Fraction => Diagnostics.ErrorCodes.DriftFraction,
+        CheckKind.FarTail => Diagnostics.ErrorCodes.DriftFarTail,
         CheckKind.PearsonDifference or CheckKind.SpearmanDifference => Diagnostics.ErrorCodes.DriftCorrelation,
         _ => Diagnostics.ErrorCodes.DriftJensenShannon,
     };

@@ -35,6 +35,8 @@ internal static class ContractCheck
         var histograms = references.Select(r => new Histogram(r.Histogram.Axis)).ToArray();
         var stats = contract.Features.Select(_ => new FeatureStatistics()).ToArray();
         var spikes = contract.Features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
+        var farTail = contract.Features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && references[i].FarTail is { } t
+            ? new FarTailCounter(t.Low, t.High) : null).ToArray();
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
             new MarginalCdf(references[index[p.First]].Histogram), new MarginalCdf(references[index[p.Second]].Histogram))).ToList();
@@ -48,6 +50,7 @@ internal static class ContractCheck
             }
             histograms[i].Fill(values, weights);
             stats[i].Add(values, weights);
+            farTail[i]?.Add(values, weights);
         }, view =>
         {
             foreach (var p in pairs) p.Add(view);
@@ -59,7 +62,7 @@ internal static class ContractCheck
         var measured = new List<(FeatureSpec, CheckSpec, Measurement)>();
         for (var i = 0; i < contract.Features.Count; i++)
         {
-            var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i], spikes[i]?.Tally);
+            var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i], spikes[i]?.Tally, farTail[i]?.Counts);
             foreach (var check in contract.Features[i].Checks)
                 measured.Add((contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision)));
         }

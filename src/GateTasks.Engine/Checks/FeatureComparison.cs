@@ -11,7 +11,8 @@ internal sealed record FeatureComparison(
     Histogram Surrogate,
     FeatureSummary SurrogateSummary,
     IReadOnlyList<bool> CoreBins,
-    SpikeTally? SampleSpike = null)
+    SpikeTally? SampleSpike = null,
+    FarTailCounts? SampleFarTail = null)
 {
     /// <summary>True when every cell's Σw² equals its Σw, i.e. all weights are one and the counts are plain counts.</summary>
     public static bool IsUnweighted(CellContents cells)

@@ -40,6 +40,9 @@ internal enum CheckKind
     /// <summary>Largest shift of the core's bounding quantiles and the median, in units of σ_reference.</summary>
     QuantileShift,
 
+    /// <summary>Largest |Δ fraction| beyond the reference's 0.1% and 99.9% quantiles.</summary>
+    FarTail,
+
     /// <summary>|Δ Pearson r| of a declared pair of features.</summary>
     PearsonDifference,
 

@@ -76,6 +76,7 @@ internal static class ContractKeys
         ("width-ratio-max", CheckKind.WidthRatio),
         ("quantile-shift-max", CheckKind.QuantileShift),
         ("fraction-max", CheckKind.Fraction),
+        ("far-tail-max", CheckKind.FarTail),
     ];
 
     /// <summary>Every check key, in the order checks are reported.</summary>

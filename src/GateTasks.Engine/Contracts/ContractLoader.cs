@@ -262,8 +262,13 @@ internal static class ContractLoader
         }
 
         var checks = defaults.Checks.Copy();
+        // A default far-tail tolerance is meant for continuous features; discrete ones have no quantiles to count beyond.
+        if (kind == FeatureKind.Discrete) checks.RemoveAll(CheckKind.FarTail);
         if (entries.TryGetValue(ContractKeys.Checks, out var ch)) ReadChecks(r, ch, $"the checks of {what}", checks);
         var list = checks.ToList();
+        if (kind == FeatureKind.Discrete && list.FirstOrDefault(c => c.Kind is CheckKind.FarTail) is { } continuousOnly)
+            throw new GateInputException(ErrorCodes.ContractBadValue,
+                $"{continuousOnly.Key} counts events beyond quantiles, which a discrete feature ('{name}') does not have.", continuousOnly.Location);
         if (list.Count == 0)
             throw r.Error(ErrorCodes.ContractBadValue, nameNode,
                 $"{char.ToUpperInvariant(what[0])}{what[1..]} has no checks (none of its own, none in defaults); it would always pass.");

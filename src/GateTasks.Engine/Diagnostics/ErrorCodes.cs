@@ -81,6 +81,8 @@ public static class ErrorCodes
     public const string DriftFraction = "GATE3014";
     /// <summary>A correlation coefficient of a declared pair shown outside tolerance.</summary>
     public const string DriftCorrelation = "GATE3015";
+    /// <summary>A far-tail fraction shown outside tolerance.</summary>
+    public const string DriftFarTail = "GATE3016";
     /// <summary>A check the sample is too small to decide (an error or a warning, by the contract's policy).</summary>
     public const string Inconclusive = "GATE3100";
 }

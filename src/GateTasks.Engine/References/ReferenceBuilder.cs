@@ -102,14 +102,26 @@ internal static class ReferenceBuilder
             result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.ReferenceRequest, histogram, stats[i].Summary(), quantiles, spikes[i]?.Tally));
         }
 
-        // Third pass, only for declared pairs: Spearman's ranks need the final marginal histograms.
+        // Third pass, only when needed: Spearman's ranks need the final marginals, far-tail counts the final quantiles.
         var correlations = new List<ReferenceCorrelation>();
-        if (contract.Pairs.Count > 0)
+        var farTail = features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && FarTailCounter.Thresholds(result[i]) is { } t
+            ? new FarTailCounter(t.Low, t.High) : null).ToArray();
+        if (contract.Pairs.Count > 0 || farTail.Any(t => t is not null))
         {
             var index = features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
             var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
                 new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram))).ToList();
-            SampleStream.Run(sample, columns, weightColumn, (_, _, _) => { }, view =>
+            var thirdPass = features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
+            SampleStream.Run(sample, columns, weightColumn, (i, values, weights) =>
+            {
+                if (farTail[i] is not { } counter) return;
+                if (thirdPass[i] is { } spike)
+                {
+                    var (v, w) = spike.Apply(values, weights);
+                    counter.Add(v.Span, w.Span);
+                }
+                else counter.Add(values, weights);
+            }, view =>
             {
                 foreach (var p in pairs) p.Add(view);
             });
@@ -120,6 +132,8 @@ internal static class ReferenceBuilder
                         $"The correlation of {p.Spec.Name} is undefined in the reference sample: one of the two is constant (or all NaN).", p.Spec.Location);
                 correlations.Add(new ReferenceCorrelation(p.Spec.First, p.Spec.Second, p.Pearson, p.Spearman, p.EffectiveCount));
             }
+            for (var i = 0; i < n; i++)
+                if (farTail[i] is { } counter) result[i] = result[i] with { FarTail = counter.Counts };
         }
 
         var inputs = files.Select(p => new ReferenceInput(Path.GetFileName(p), new FileInfo(p).Length, FileDigest.Sha256(p))).ToList();

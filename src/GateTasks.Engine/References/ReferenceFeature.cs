@@ -15,7 +15,8 @@ internal sealed record ReferenceFeature(
     Histogram Histogram,
     FeatureSummary Summary,
     IReadOnlyList<QuantilePoint> Quantiles,
-    SpikeTally? Spike = null)
+    SpikeTally? Spike = null,
+    FarTailCounts? FarTail = null)
 {
     /// <summary>The value at probability <paramref name="p"/>, if the reference stored it.</summary>
     public double? Quantile(double p)

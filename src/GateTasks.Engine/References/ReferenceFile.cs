@@ -174,6 +174,13 @@ internal static class ReferenceFile
                 ["min"] = s.Min,
                 ["max"] = s.Max,
                 ["quantiles"] = q,
+                ["far_tail"] = f.FarTail is { } ft
+                    ? new JsonObject
+                    {
+                        ["low"] = ft.Low, ["high"] = ft.High, ["below_w"] = ft.BelowW, ["below_w2"] = ft.BelowW2,
+                        ["above_w"] = ft.AboveW, ["above_w2"] = ft.AboveW2, ["total_w"] = ft.TotalW, ["total_w2"] = ft.TotalW2,
+                    }
+                    : null,
                 ["spike"] = f.Spike is { } sp
                     ? new JsonObject { ["value"] = sp.Value, ["entries"] = sp.Entries, ["sum_w"] = sp.SumW, ["sum_w2"] = sp.SumW2 }
                     : null,
@@ -228,7 +235,11 @@ internal static class ReferenceFile
             features.Add(new ReferenceFeature(name, (string)f["column"]!,
                 (string)f["kind"]! == "discrete" ? FeatureKind.Discrete : FeatureKind.Continuous,
                 (string)f["binning"]!, histogram, summary, quantiles,
-                f["spike"] is JsonObject sp ? new SpikeTally((double)sp["value"]!, (long)sp["entries"]!, (double)sp["sum_w"]!, (double)sp["sum_w2"]!) : null));
+                f["spike"] is JsonObject sp ? new SpikeTally((double)sp["value"]!, (long)sp["entries"]!, (double)sp["sum_w"]!, (double)sp["sum_w2"]!) : null,
+                f["far_tail"] is JsonObject ft
+                    ? new FarTailCounts((double)ft["low"]!, (double)ft["high"]!, (double)ft["below_w"]!, (double)ft["below_w2"]!,
+                        (double)ft["above_w"]!, (double)ft["above_w2"]!, (double)ft["total_w"]!, (double)ft["total_w2"]!)
+                    : null));
         }
         var inputs = h["inputs"]!.AsArray()
             .Select(i => new ReferenceInput((string)i!["path"]!, (long)i["bytes"]!, (string)i["sha256"]!)).ToList();

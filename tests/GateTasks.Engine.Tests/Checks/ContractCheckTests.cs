@@ -288,6 +288,24 @@ public sealed class ContractCheckTests : IDisposable
     }
 
     [Fact]
+    public void A_heavier_far_tail_fails_the_far_tail_check()
+    {
+        var contract = Setup(ContractText.Replace("ks-max: 0.03", "ks-max: 0.03\n    far-tail-max: 0.001"));
+        Assert.NotNull(ReferenceFile.Read(contract.ReferenceFullPath).Find("x")!.FarTail);
+        // 40 000 reference events: 40 ± 6 beyond each 0.1% quantile (binomial, by construction).
+        WriteCsv("surrogate.csv", 40_000, 2, 0);
+        Assert.Equal(Verdict.Pass, ContractCheck.Run(contract).Outcomes.Single(o => o.Check.Kind == CheckKind.FarTail).Verdict);
+
+        // The same sample with 0.4% of its events moved far out (x → 5): four times the reference's upper far tail.
+        var lines = File.ReadAllLines(Path.Combine(_dir, "surrogate.csv"));
+        for (var i = 1; i < lines.Length; i += 250) lines[i] = "5";
+        File.WriteAllLines(Path.Combine(_dir, "surrogate.csv"), lines);
+        var far = ContractCheck.Run(contract).Outcomes.Single(o => o.Check.Kind == CheckKind.FarTail);
+        Assert.Equal(Verdict.Fail, far.Verdict);
+        Assert.True(far.Value > 0.002, far.Summary);
+    }
+
+    [Fact]
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
         var contract = Setup();
