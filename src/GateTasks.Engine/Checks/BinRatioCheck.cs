@@ -14,6 +14,17 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class BinRatioCheck
 {
+    /// <summary>The value range of a named region: explicit, or between the reference histogram's quantiles.</summary>
+    private static (double Lower, double Upper) NamedBounds(FeatureComparison c, CheckSpec spec)
+    {
+        if (spec.Region != Region.Named) return (double.NaN, double.NaN);
+        var region = c.Spec.Regions?.FirstOrDefault(g => g.Name == spec.Named)
+            ?? throw new InvalidOperationException($"Region '{spec.Named}' was not declared; the contract loader should have refused it.");
+        return region.ByQuantile
+            ? (QuantileShiftCheck.Quantile(c.Reference.Histogram, region.Lower).Value, QuantileShiftCheck.Quantile(c.Reference.Histogram, region.Upper).Value)
+            : (region.Lower, region.Upper);
+    }
+
     public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
     {
         var reference = c.Reference.Histogram;
@@ -31,10 +42,12 @@ internal static class BinRatioCheck
         var compared = 0;
         var unreferenced = 0;
         var unreferencedWeight = 0.0;
+        var (namedLower, namedUpper) = NamedBounds(c, spec);
         for (var b = 0; b < axis.Count; b++)
         {
             if (spec.Region == Region.Core && !c.CoreBins[b]) continue;
             if (spec.Region == Region.Tails && c.CoreBins[b]) continue;
+            if (spec.Region == Region.Named && !(axis.Centre(b) >= namedLower && axis.Centre(b) <= namedUpper)) continue;
             var cell = b + 1;
             var rw = reference.Storage.SumW[cell];
             var sw = surrogate.Storage.SumW[cell];

@@ -54,6 +54,7 @@ internal static class CheckEvaluator
         CheckKind.CramerVonMisesTest => Diagnostics.ErrorCodes.DriftCramerVonMisesTest,
         CheckKind.BinRatio when spec.Region == Region.Tails => Diagnostics.ErrorCodes.DriftRatioTails,
         CheckKind.BinRatio when spec.Region == Region.Core => Diagnostics.ErrorCodes.DriftRatioCore,
+        CheckKind.BinRatio when spec.Region == Region.Named => Diagnostics.ErrorCodes.DriftRatioNamed,
         CheckKind.BinRatio => Diagnostics.ErrorCodes.DriftRatioAll,
         CheckKind.MeanShift => Diagnostics.ErrorCodes.DriftMeanShift,
         CheckKind.WidthRatio => Diagnostics.ErrorCodes.DriftWidthRatio,

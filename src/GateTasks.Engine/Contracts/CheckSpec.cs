@@ -7,8 +7,11 @@ namespace GateTasks.Engine.Contracts;
 /// NaN for goodness-of-fit tests, which have none.
 /// <see cref="Location"/> points at the tolerance in the contract (a feature's own or a default).
 /// </summary>
-internal sealed record CheckSpec(CheckKind Kind, Region Region, double Limit, SourceLocation Location)
+internal sealed record CheckSpec(CheckKind Kind, Region Region, double Limit, SourceLocation Location, string? Named = null)
 {
+    /// <summary>Where a named region's key stands in the tolerance mapping (for "no such region" errors).</summary>
+    public SourceLocation? NamedKeyLocation { get; init; }
+
     /// <summary>True for goodness-of-fit tests: no tolerance, only a p-value in the contract's family.</summary>
     public bool IsTest => Kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest or CheckKind.AndersonDarlingTest or CheckKind.CramerVonMisesTest;
 
@@ -23,6 +26,7 @@ internal sealed record CheckSpec(CheckKind Kind, Region Region, double Limit, So
     {
         Region.Core => "core",
         Region.Tails => "tails",
+        Region.Named => Named ?? "named",
         _ => "all",
     };
 }

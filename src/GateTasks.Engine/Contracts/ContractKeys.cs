@@ -23,6 +23,8 @@ internal static class ContractKeys
     public const string Core = "core";
     public const string Checks = "checks";
     public const string Spike = "spike";
+    public const string Regions = "regions";
+    public const string Quantiles = "quantiles";
     public const string Expression = "expression";
     public const string Selection = "selection";
 
@@ -55,10 +57,11 @@ internal static class ContractKeys
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
     public static readonly string[] InconclusivePolicies = ["fail", "warn"];
     public static readonly string[] SampleKeys = [Path, Weight];
-    public static readonly string[] DefaultsKeys = [Binning, Core, Checks];
-    public static readonly string[] FeatureKeys = [Name, Column, Expression, Kind, Binning, Core, Spike, Checks];
+    public static readonly string[] DefaultsKeys = [Binning, Core, Regions, Checks];
+    public static readonly string[] FeatureKeys = [Name, Column, Expression, Kind, Binning, Core, Regions, Spike, Checks];
     public static readonly string[] BinningKeys = [Bins, Spacing, Range, Edges];
     public static readonly string[] RegionKeys = [Core, Tails];
+    public static readonly string[] NamedRegionKeys = [Range, Quantiles];
     public static readonly string[] Kinds = ["continuous", "discrete"];
     public static readonly string[] Spacings = ["quantile", "uniform"];
 

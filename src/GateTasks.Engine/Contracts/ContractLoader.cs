@@ -71,7 +71,7 @@ internal static class ContractLoader
         var decision = top.TryGetValue(ContractKeys.Decision, out var dn) ? ReadDecision(r, dn) : DecisionSettings.Default;
         var defaults = top.TryGetValue(ContractKeys.Defaults, out var d)
             ? ReadDefaults(r, d)
-            : new FeatureSettings(null, null, new CheckTable());
+            : new FeatureSettings(null, null, new CheckTable(), null);
 
         var featuresNode = r.Sequence(r.Require(root, ContractKeys.Features, "The contract"), ContractKeys.Features);
         if (featuresNode.Children.Count == 0)
@@ -119,6 +119,38 @@ internal static class ContractLoader
         return node is YamlScalarNode { Style: YamlDotNet.Core.ScalarStyle.DoubleQuoted or YamlDotNet.Core.ScalarStyle.SingleQuoted }
             ? at with { Column = at.Column + 1 }
             : at;
+    }
+
+    private static List<NamedRegion> ReadRegions(YamlNodeReader r, YamlNode node, string what)
+    {
+        var list = new List<NamedRegion>();
+        foreach (var (keyNode, value) in r.Mapping(node, what).Children)
+        {
+            var name = r.String(keyNode, "A region name");
+            if (name is ContractKeys.Core or ContractKeys.Tails or "all")
+                throw r.Error(ErrorCodes.ContractBadValue, keyNode, $"'{name}' is a built-in region; pick another name.");
+            if (value is YamlSequenceNode)
+            {
+                var (lo, hi) = Pair(r, value, $"region '{name}'");
+                list.Add(new NamedRegion(name, lo, hi, false, r.At(keyNode)));
+                continue;
+            }
+            var m = r.Mapping(value, $"region '{name}'");
+            var e = r.Entries(m, $"region '{name}'", ContractKeys.NamedRegionKeys).ToDictionary(x => x.Key, x => x.Value);
+            if (e.Count != 1) throw r.Error(ErrorCodes.ContractBadValue, value, $"Region '{name}' takes either 'range: [lower, upper]' or 'quantiles: [p, q]'.");
+            if (e.TryGetValue(ContractKeys.Range, out var range))
+            {
+                var (lo, hi) = Pair(r, range, $"region '{name}'");
+                list.Add(new NamedRegion(name, lo, hi, false, r.At(keyNode)));
+            }
+            else
+            {
+                var (lo, hi) = Pair(r, e[ContractKeys.Quantiles], $"the quantiles of region '{name}'");
+                if (lo < 0 || hi > 1) throw r.Error(ErrorCodes.ContractBadValue, e[ContractKeys.Quantiles], "Quantiles must lie within [0, 1].");
+                list.Add(new NamedRegion(name, lo, hi, true, r.At(keyNode)));
+            }
+        }
+        return list;
     }
 
     private static List<CorrelationSpec> ReadCorrelations(YamlNodeReader r, YamlNode node, IReadOnlyList<FeatureSpec> features)
@@ -198,6 +230,7 @@ internal static class ContractLoader
         var mapping = r.Mapping(node, ContractKeys.Defaults);
         BinningSpec? binning = null;
         CoreSpec? core = null;
+        List<NamedRegion>? regions = null;
         var checks = new CheckTable();
         foreach (var (key, _, value) in r.Entries(mapping, ContractKeys.Defaults, ContractKeys.DefaultsKeys))
         {
@@ -205,10 +238,11 @@ internal static class ContractLoader
             {
                 case ContractKeys.Binning: binning = ReadBinning(r, value, "defaults.binning"); break;
                 case ContractKeys.Core: core = ReadCore(r, value, "defaults.core"); break;
+                case ContractKeys.Regions: regions = ReadRegions(r, value, "defaults.regions"); break;
                 case ContractKeys.Checks: ReadChecks(r, value, "defaults.checks", checks); break;
             }
         }
-        return new FeatureSettings(binning, core, checks);
+        return new FeatureSettings(binning, core, checks, regions);
     }
 
     private static FeatureSpec ReadFeature(YamlNodeReader r, YamlNode node, FeatureSettings defaults)
@@ -265,7 +299,15 @@ internal static class ContractLoader
         // A default far-tail tolerance is meant for continuous features; discrete ones have no quantiles to count beyond.
         if (kind == FeatureKind.Discrete) checks.RemoveAll(CheckKind.FarTail);
         if (entries.TryGetValue(ContractKeys.Checks, out var ch)) ReadChecks(r, ch, $"the checks of {what}", checks);
+        var regionsOfFeature = entries.TryGetValue(ContractKeys.Regions, out var rn) ? ReadRegions(r, rn, $"The regions of {what}") : defaults.Regions ?? [];
         var list = checks.ToList();
+        foreach (var named in list.Where(k => k.Region == Region.Named))
+        {
+            if (regionsOfFeature.All(g => g.Name != named.Named))
+                throw new GateInputException(ErrorCodes.ContractUnknownKey,
+                    $"{what} declares no region '{named.Named}'{NearestName.Hint(named.Named!, regionsOfFeature.Select(g => g.Name).Append(ContractKeys.Core).Append(ContractKeys.Tails))}; " +
+                    "declare it under 'regions:' (or use core / tails).", named.NamedKeyLocation ?? named.Location);
+        }
         if (kind == FeatureKind.Discrete && list.FirstOrDefault(c => c.Kind is CheckKind.FarTail) is { } continuousOnly)
             throw new GateInputException(ErrorCodes.ContractBadValue,
                 $"{continuousOnly.Key} counts events beyond quantiles, which a discrete feature ('{name}') does not have.", continuousOnly.Location);
@@ -273,7 +315,7 @@ internal static class ContractLoader
             throw r.Error(ErrorCodes.ContractBadValue, nameNode,
                 $"{char.ToUpperInvariant(what[0])}{what[1..]} has no checks (none of its own, none in defaults); it would always pass.");
 
-        return new FeatureSpec(name, column, kind, binning, core, list, r.At(nameNode), ExpressionStart(r, columnNode), spike, expression);
+        return new FeatureSpec(name, column, kind, binning, core, list, r.At(nameNode), ExpressionStart(r, columnNode), spike, expression, regionsOfFeature);
     }
 
     private static BinningSpec ReadBinning(YamlNodeReader r, YamlNode node, string what)
@@ -358,11 +400,14 @@ internal static class ContractLoader
                 if (!ContractKeys.HasRegions(kind))
                     throw r.Error(ErrorCodes.ContractBadValue, value, $"{key} takes one tolerance, not a mapping of regions.");
                 checks.Remove(kind, Region.All);
-                foreach (var (region, _, v) in r.Entries(regions, key, ContractKeys.RegionKeys))
+                foreach (var (keyNode, v) in regions.Children)
                 {
-                    var reg = region == ContractKeys.Core ? Region.Core : Region.Tails;
-                    if (YamlNodeReader.IsScalar(v, ContractKeys.Off)) checks.Remove(kind, reg);
-                    else checks.Set(new CheckSpec(kind, reg, Tolerance(r, v, kind, $"{key}.{region}"), r.At(v)));
+                    var region = r.String(keyNode, $"A region of {key}");
+                    var reg = region == ContractKeys.Core ? Region.Core : region == ContractKeys.Tails ? Region.Tails : Region.Named;
+                    var named = reg == Region.Named ? region : null;
+                    // Named regions are checked against the feature's declarations once defaults and feature are merged.
+                    if (YamlNodeReader.IsScalar(v, ContractKeys.Off)) checks.Remove(kind, reg, named);
+                    else checks.Set(new CheckSpec(kind, reg, Tolerance(r, v, kind, $"{key}.{region}"), r.At(v), named) { NamedKeyLocation = r.At(keyNode) });
                 }
                 continue;
             }
@@ -391,12 +436,12 @@ internal static class ContractLoader
         return v;
     }
 
-    private sealed record FeatureSettings(BinningSpec? Binning, CoreSpec? Core, CheckTable Checks);
+    private sealed record FeatureSettings(BinningSpec? Binning, CoreSpec? Core, CheckTable Checks, List<NamedRegion>? Regions = null);
 
     /// <summary>Checks keyed by (kind, region), kept in report order; features copy the defaults and override entries.</summary>
     private sealed class CheckTable
     {
-        private readonly Dictionary<(CheckKind, Region), CheckSpec> _items = [];
+        private readonly Dictionary<(CheckKind, Region, string?), CheckSpec> _items = [];
 
         public CheckTable Copy()
         {
@@ -405,16 +450,16 @@ internal static class ContractLoader
             return c;
         }
 
-        public void Set(CheckSpec spec) => _items[(spec.Kind, spec.Region)] = spec;
+        public void Set(CheckSpec spec) => _items[(spec.Kind, spec.Region, spec.Named)] = spec;
 
-        public void Remove(CheckKind kind, Region region) => _items.Remove((kind, region));
+        public void Remove(CheckKind kind, Region region, string? named = null) => _items.Remove((kind, region, named));
 
         public void RemoveAll(CheckKind kind)
         {
-            foreach (var region in Enum.GetValues<Region>()) _items.Remove((kind, region));
+            foreach (var key in _items.Keys.Where(k => k.Item1 == kind).ToList()) _items.Remove(key);
         }
 
         public List<CheckSpec> ToList() =>
-            _items.Values.OrderBy(c => c.Kind).ThenBy(c => c.Region).ToList();
+            _items.Values.OrderBy(c => c.Kind).ThenBy(c => c.Region).ThenBy(c => c.Named, StringComparer.Ordinal).ToList();
     }
 }

@@ -18,7 +18,8 @@ internal sealed record FeatureSpec(
     SourceLocation Location,
     SourceLocation ColumnLocation,
     double? Spike = null,
-    string? Expression = null)
+    string? Expression = null,
+    IReadOnlyList<NamedRegion>? Regions = null)
 {
     /// <summary>
     /// What the reference must have been built for: the binning request and, when declared, the spike value. A

@@ -11,4 +11,7 @@ internal enum Region
 
     /// <summary>Everything outside the core, on both sides.</summary>
     Tails,
+
+    /// <summary>A region the feature declares by name (<see cref="CheckSpec.Named"/>).</summary>
+    Named,
 }

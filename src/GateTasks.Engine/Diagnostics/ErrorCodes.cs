@@ -83,6 +83,8 @@ public static class ErrorCodes
     public const string DriftCorrelation = "GATE3015";
     /// <summary>A far-tail fraction shown outside tolerance.</summary>
     public const string DriftFarTail = "GATE3016";
+    /// <summary>Bin ratio outside tolerance in a region the feature declares by name.</summary>
+    public const string DriftRatioNamed = "GATE3017";
     /// <summary>A check the sample is too small to decide (an error or a warning, by the contract's policy).</summary>
     public const string Inconclusive = "GATE3100";
 }

@@ -63,6 +63,17 @@ public class BinRatioCheckTests
     }
 
     [Fact]
+    public void A_named_region_takes_the_bins_whose_centres_it_holds()
+    {
+        // Bins [0,1), [1,2), [2,3) with centres 0.5, 1.5, 2.5; region [1, 3] holds the last two: deviations 0 and 0.1.
+        var c = Comparison([100, 200, 100], [55, 100, 45], [false, true, false]);
+        c = c with { Spec = c.Spec with { Regions = [new NamedRegion("upper", 1, 3, false, At)] } };
+        var m = BinRatioCheck.Evaluate(c, new CheckSpec(CheckKind.BinRatio, Region.Named, 0.2, At, "upper"), Decision);
+        Assert.Equal(0.1, m.Estimate, 12);
+        Assert.Equal("2", m.Details.Single(d => d.Key == "bins_compared").Value);
+    }
+
+    [Fact]
     public void An_empty_region_fails_loudly_instead_of_passing()
     {
         var c = Comparison([100, 200, 100], [50, 100, 50], [true, true, true]);

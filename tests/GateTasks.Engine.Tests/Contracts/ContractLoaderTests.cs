@@ -144,6 +144,23 @@ public class ContractLoaderTests
     }
 
     [Fact]
+    public void Named_regions_get_their_own_tolerances_and_unknown_ones_are_refused()
+    {
+        var text = Minimal.Replace("  - name: x\n", "  - name: x\n    regions:\n      peak: [1, 2]\n      top: { quantiles: [0.9, 1] }\n    checks:\n      ratio-max: { peak: 0.02, top: 0.05 }\n");
+        var x = ContractLoader.Parse(text, "c.yaml").Features[0];
+        Assert.Equal(2, x.Regions!.Count);
+        Assert.True(x.Regions[1].ByQuantile);
+        Assert.Equal(0.02, x.Checks.Single(c => c.Named == "peak").Limit);
+        Assert.Equal("ratio-max[top]", x.Checks.Single(c => c.Named == "top").Label);
+        Assert.Equal(0.02, x.Checks.Single(c => c.Region == Region.Core).Limit); // the default core stays
+
+        var e = Fails(text.Replace("peak: 0.02", "paek: 0.02"));
+        Assert.Equal(ErrorCodes.ContractUnknownKey, e.Code);
+        Assert.Contains("did you mean 'peak'", e.Message);
+        Assert.Equal(14, e.Location!.Line); // the ratio-max line of feature x
+    }
+
+    [Fact]
     public void Missing_file_is_reported_with_its_path()
     {
         var e = Assert.Throws<GateInputException>(() => ContractLoader.Load(Path.Combine(Path.GetTempPath(), "no-such-dir", "none.yaml")));
