@@ -22,7 +22,4 @@ internal sealed record CheckOutcome(
 
     /// <summary>Named numbers for reports.</summary>
     public IReadOnlyList<KeyValuePair<string, string>> Details => Measured.Details;
-
-    /// <summary>Headroom of the upper bound below the tolerance, as a fraction of it (negative: not shown within); NaN for tests.</summary>
-    public double RelativeMargin => Check.IsTest ? double.NaN : (Check.Limit - Measured.Upper) / Check.Limit;
 }

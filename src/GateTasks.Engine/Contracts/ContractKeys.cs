@@ -60,7 +60,6 @@ internal static class ContractKeys
     public static readonly string[] DefaultsKeys = [Binning, Core, Regions, Checks];
     public static readonly string[] FeatureKeys = [Name, Column, Expression, Kind, Binning, Core, Regions, Spike, Checks];
     public static readonly string[] BinningKeys = [Bins, Spacing, Range, Edges];
-    public static readonly string[] RegionKeys = [Core, Tails];
     public static readonly string[] NamedRegionKeys = [Range, Quantiles];
     public static readonly string[] Kinds = ["continuous", "discrete"];
     public static readonly string[] Spacings = ["quantile", "uniform"];
