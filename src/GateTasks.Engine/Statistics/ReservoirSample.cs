@@ -1,0 +1,91 @@
+using MathNet.Numerics.Random;
+
+namespace GateTasks.Engine.Statistics;
+
+/// <summary>
+/// Fixed-capacity uniform random subsample of a stream of rows (Vitter 1985, Algorithm R): after t rows have
+/// been offered, each of them is kept with probability min(1, capacity/t), whatever t is, so a bounded
+/// subsample of a streamed sample can be kept in O(capacity · features) memory. Rows are unweighted. The
+/// choice depends only on the seed and the order rows are offered in, not on how they are split into batches.
+/// </summary>
+internal sealed class ReservoirSample
+{
+    private readonly double[][] _rows;
+    private readonly Xoshiro256StarStar _rng;
+    private int _kept;
+
+    /// <summary>An empty reservoir holding up to <paramref name="capacity"/> rows of <paramref name="features"/> values.</summary>
+    internal ReservoirSample(int capacity, int features, int seed)
+    {
+        ArgumentOutOfRangeException.ThrowIfLessThan(capacity, 1);
+        ArgumentOutOfRangeException.ThrowIfLessThan(features, 1);
+        Capacity = capacity;
+        Features = features;
+        _rows = new double[capacity][];
+        _rng = new Xoshiro256StarStar(seed, threadSafe: false);
+    }
+
+    /// <summary>Most rows kept.</summary>
+    internal int Capacity { get; }
+
+    /// <summary>Values per row.</summary>
+    internal int Features { get; }
+
+    /// <summary>Rows offered so far.</summary>
+    internal long Seen { get; private set; }
+
+    /// <summary>
+    /// The kept rows, min(Seen, Capacity) of them, in reservoir slot order (not stream order). The arrays are
+    /// the reservoir's own and are overwritten by later <c>Add</c> calls; copy them to keep a snapshot.
+    /// </summary>
+    internal double[][] Rows => _rows.AsSpan(0, _kept).ToArray();
+
+    /// <summary>Offers one row (copied if kept).</summary>
+    internal void Add(ReadOnlySpan<double> row)
+    {
+        if (row.Length != Features)
+            throw new ArgumentException($"A row has {row.Length} values; this reservoir holds rows of {Features}.", nameof(row));
+        int slot = NextSlot();
+        if (slot >= 0) row.CopyTo(Slot(slot));
+    }
+
+    /// <summary>
+    /// Offers the first <paramref name="rows"/> rows of a column-major batch: <paramref name="columns"/>[f]
+    /// holds feature f for every row (at least <paramref name="rows"/> values each).
+    /// </summary>
+    internal void Add(IReadOnlyList<double[]> columns, int rows)
+    {
+        ArgumentNullException.ThrowIfNull(columns);
+        if (columns.Count != Features)
+            throw new ArgumentException($"The batch has {columns.Count} columns; this reservoir holds rows of {Features}.", nameof(columns));
+        ArgumentOutOfRangeException.ThrowIfNegative(rows);
+        for (int f = 0; f < columns.Count; f++)
+        {
+            if (columns[f].Length < rows)
+                throw new ArgumentException($"Column {f} has {columns[f].Length} values but the batch has {rows} rows.", nameof(columns));
+        }
+        for (int r = 0; r < rows; r++)
+        {
+            int slot = NextSlot();
+            if (slot < 0) continue;
+            double[] target = Slot(slot);
+            for (int f = 0; f < target.Length; f++) target[f] = columns[f][r];
+        }
+    }
+
+    /// <summary>Slot the next offered row goes to, or −1 if it is not kept (Algorithm R's replacement step).</summary>
+    private int NextSlot()
+    {
+        long t = Seen++;
+        if (t < Capacity)
+        {
+            _kept++;
+            return (int)t;
+        }
+        // Uniform j in [0, t]; the row replaces slot j when j < capacity, i.e. with probability capacity/(t+1).
+        long j = t < int.MaxValue ? _rng.Next((int)(t + 1)) : _rng.NextInt64(t + 1);
+        return j < Capacity ? (int)j : -1;
+    }
+
+    private double[] Slot(int slot) => _rows[slot] ??= new double[Features];
+}

@@ -1,0 +1,190 @@
+using System.Text.Json;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Statistics;
+using MathNet.Numerics.Distributions;
+using MathNet.Numerics.Random;
+using static GateTasks.Engine.Tests.Statistics.ScipyFixture;
+
+namespace GateTasks.Engine.Tests.Statistics;
+
+public class EnergyDistanceTests
+{
+    // tests/fixtures/scipy/energy.json, written by tests/fixtures/scipy/make_energy_fixtures.py with Debian's
+    // python3-scipy 1.10.1 / numpy 1.24.2; each case records its exact call.
+    private static readonly Lazy<JsonDocument> Fixture = new(() =>
+        JsonDocument.Parse(File.ReadAllText(Path.Combine(AppContext.BaseDirectory, "fixtures", "scipy", "energy.json"))));
+
+    private static JsonElement EnergyCase(string section, string name) =>
+        Fixture.Value.RootElement.GetProperty(section).EnumerateArray().First(c => c.GetProperty("name").GetString() == name);
+
+    private static double[][] Rows(JsonElement c, string property) =>
+        c.GetProperty(property).EnumerateArray().Select(r => r.EnumerateArray().Select(v => v.GetDouble()).ToArray()).ToArray();
+
+    [Fact]
+    public void FixtureRecordsTheScipyVersion()
+    {
+        Assert.Equal("1.10.1", Fixture.Value.RootElement.GetProperty("scipy").GetString());
+        Assert.Equal("1.24.2", Fixture.Value.RootElement.GetProperty("numpy").GetString());
+    }
+
+    [Fact]
+    public void ScipyDocumentationExamples()
+    {
+        // scipy 1.10 documentation, energy_distance examples [pub, via reference-values.md]
+        Near(2.0, EnergyDistance.Univariate(new double[] { 0 }, new double[] { 2 }), 1e-15);
+        Near(1.0, EnergyDistance.Univariate(new double[] { 0, 8 }, new double[] { 0, 8 }, new double[] { 3, 1 }, new double[] { 2, 2 }), 1e-15);
+        Near(0.88003340976158217, EnergyDistance.Univariate(new[] { 0.7, 7.4, 2.4, 6.8 }, new[] { 1.4, 8.0 },
+            new[] { 2.1, 4.2, 7.4, 8.0 }, new[] { 7.6, 8.8 }), 1e-14);
+    }
+
+    [Fact]
+    public void HistogramAsPointMassesAtBinCentres()
+    {
+        // scipy 1.10.1 energy_distance(centres, centres, h1, h2) = 0.35355339059327384 [scipy, via reference-values.md]
+        double[] centres = { 0.5, 1.5, 2.5, 3.5, 4.5 };
+        Near(0.35355339059327384, EnergyDistance.Univariate(centres, centres, new double[] { 3, 7, 10, 6, 2 }, new double[] { 1, 5, 9, 9, 4 }), 1e-14);
+    }
+
+    [Theory]
+    [InlineData("normal_500_700")]
+    [InlineData("weighted_exponential_400_300")]
+    [InlineData("ties_300_250")]
+    public void UnivariateMatchesScipy(string name)
+    {
+        // scipy 1.10.1 stats.energy_distance(u, v[, u_weights, v_weights]), fixture energy_univariate/<name>
+        var c = EnergyCase("energy_univariate", name);
+        double e = c.TryGetProperty("u_weights", out _)
+            ? EnergyDistance.Univariate(c.Doubles("u"), c.Doubles("v"), c.Doubles("u_weights"), c.Doubles("v_weights"))
+            : EnergyDistance.Univariate(c.Doubles("u"), c.Doubles("v"));
+        Near(c.Double("distance"), e, 1e-12);
+    }
+
+    [Theory]
+    [InlineData("normal_shift_60_45_d3")]
+    [InlineData("correlated_vs_shuffled_80_70_d2")]
+    [InlineData("univariate_rows_50_40_d1")]
+    public void MultivariateMatchesDirectNumpyDefinition(string name)
+    {
+        // numpy 1.24.2 direct O(N²) computation of the V-statistic definition (call in fixture), energy_multivariate/<name>
+        var c = EnergyCase("energy_multivariate", name);
+        double[][] x = Rows(c, "x"), y = Rows(c, "y");
+        double e = EnergyDistance.Multivariate(x, y);
+        Near(c.Double("e_statistic"), e, 1e-12);
+        Near(c.Double("test_statistic"), EnergyDistance.TestStatistic(e, x.Length, y.Length), 1e-12);
+    }
+
+    [Fact]
+    public void OneFeatureRowsGiveTheSquareOfScipysEnergyDistance()
+    {
+        // scipy 1.10.1 stats.energy_distance(x[:,0], y[:,0]) ** 2, fixture energy_multivariate/univariate_rows_50_40_d1
+        var c = EnergyCase("energy_multivariate", "univariate_rows_50_40_d1");
+        double[][] x = Rows(c, "x"), y = Rows(c, "y");
+        Near(c.Double("scipy_energy_distance_squared"), EnergyDistance.Multivariate(x, y), 1e-12);
+        double u = EnergyDistance.Univariate(x.Select(r => r[0]).ToArray(), y.Select(r => r[0]).ToArray());
+        Near(c.Double("scipy_energy_distance_squared"), u * u, 1e-12);
+    }
+
+    [Fact]
+    public void PermutationTestReportsTheSameStatisticAsTheDirectSum()
+    {
+        // numpy 1.24.2 direct definition, fixture energy_multivariate/normal_shift_60_45_d3
+        var c = EnergyCase("energy_multivariate", "normal_shift_60_45_d3");
+        EnergyDistanceResult r = EnergyDistance.PermutationTest(Rows(c, "x"), Rows(c, "y"), 99, 1);
+        Near(c.Double("e_statistic"), r.EStatistic, 1e-11);
+        Near(c.Double("test_statistic"), r.TestStatistic, 1e-11);
+        Assert.Equal(99, r.Permutations);
+        Assert.InRange(r.PValue, 0.01, 1.0);
+    }
+
+    [Fact]
+    public void PermutationTestIsReproducibleForASeed()
+    {
+        double[][] x = CorrelatedNormal(200, 0.8, 3), y = CorrelatedNormal(150, 0.8, 4);
+        Assert.Equal(EnergyDistance.PermutationTest(x, y, 99, 17), EnergyDistance.PermutationTest(x, y, 99, 17));
+    }
+
+    [Fact]
+    public void FaithfulPairIsNotRejected()
+    {
+        // Same 2-D normal (ρ = 0.8) for both samples: H0 holds, so p should not be small.
+        double[][] x = CorrelatedNormal(1000, 0.8, 11), y = CorrelatedNormal(1000, 0.8, 12);
+        EnergyDistanceResult r = EnergyDistance.PermutationTest(x, y, 199, 5);
+        Assert.True(r.PValue > 0.01, $"p = {r.PValue}");
+    }
+
+    [Fact]
+    public void DestroyedCorrelationIsRejected()
+    {
+        // Same marginals, correlation destroyed by shuffling y's second column: p must be small.
+        double[][] x = CorrelatedNormal(1000, 0.8, 21), y = CorrelatedNormal(1000, 0.8, 22);
+        double[] second = y.Select(r => r[1]).ToArray();
+        new Xoshiro256StarStar(23, threadSafe: false).Shuffle(second);
+        for (int i = 0; i < y.Length; i++) y[i][1] = second[i];
+        EnergyDistanceResult r = EnergyDistance.PermutationTest(x, y, 199, 5);
+        Assert.True(r.PValue < 0.01, $"p = {r.PValue}");
+        Assert.Equal(1.0 / 200, r.PValue);
+    }
+
+    [Fact]
+    public void PValuesUnderTheNullAreRoughlyUniform()
+    {
+        // Under H0 a permutation p-value is (discretely) uniform; 300 seeded replicas of 30 vs 30 rows.
+        const int replicas = 300;
+        var p = new double[replicas];
+        for (int k = 0; k < replicas; k++)
+            p[k] = EnergyDistance.PermutationTest(CorrelatedNormal(30, 0.5, 1000 + 2 * k), CorrelatedNormal(30, 0.5, 1001 + 2 * k), 99, k).PValue;
+        // Mean of U(0,1) is 1/2 with SD 1/√12 per draw; allow 5 standard errors.
+        Assert.InRange(p.Average(), 0.5 - 5 / Math.Sqrt(12 * replicas), 0.5 + 5 / Math.Sqrt(12 * replicas));
+        // P(p ≤ 0.05) = 0.05 for B = 99; allow 5 binomial standard deviations.
+        double small = p.Count(v => v <= 0.05) / (double)replicas;
+        Assert.InRange(small, 0.0, 0.05 + 5 * Math.Sqrt(0.05 * 0.95 / replicas));
+    }
+
+    [Fact]
+    public void IdenticalSamplesHaveZeroStatistic()
+    {
+        double[][] x = CorrelatedNormal(40, 0.3, 9);
+        Near(0.0, EnergyDistance.Multivariate(x, x), 0, 1e-13);
+        Assert.Equal(0.0, EnergyDistance.Univariate(new double[] { 1, 2, 2, 5 }, new double[] { 1, 2, 2, 5 }));
+    }
+
+    [Fact]
+    public void BadInputIsReported()
+    {
+        double[][] ok = { new double[] { 1, 2 } };
+        var empty = Assert.Throws<GateInputException>(() => EnergyDistance.Multivariate(Array.Empty<double[]>(), ok));
+        Assert.Equal(ErrorCodes.SampleEmpty, empty.Code);
+        Assert.Throws<ArgumentException>(() => EnergyDistance.Multivariate(ok, new[] { new double[] { 1, 2, 3 } }));
+        Assert.Throws<ArgumentException>(() => EnergyDistance.Multivariate(ok, new[] { new[] { 1, double.NaN } }));
+        double[][] many = Enumerable.Range(0, EnergyDistance.MaxPooledRows).Select(i => new double[] { i, 0 }).ToArray();
+        var tooMany = Assert.Throws<ArgumentException>(() => EnergyDistance.PermutationTest(many, ok, 9, 1));
+        Assert.Contains("5000", tooMany.Message);
+        Assert.Throws<ArgumentOutOfRangeException>(() => EnergyDistance.PermutationTest(ok, ok, 0, 1));
+    }
+
+    [Fact]
+    public void StandardiseShiftsAndScalesEachFeature()
+    {
+        double[][] rows = { new double[] { 1, 10 }, new double[] { 3, 30 } };
+        double[][] z = EnergyDistance.Standardise(rows, new double[] { 2, 20 }, new double[] { 1, 10 });
+        Assert.Equal(new double[] { -1, -1 }, z[0]);
+        Assert.Equal(new double[] { 1, 1 }, z[1]);
+        Assert.Equal(new double[] { 1, 10 }, rows[0]);
+        Assert.Throws<ArgumentException>(() => EnergyDistance.Standardise(rows, new double[] { 0, 0 }, new double[] { 1, 0 }));
+        Assert.Throws<ArgumentException>(() => EnergyDistance.Standardise(rows, new double[] { 0 }, new double[] { 1 }));
+    }
+
+    /// <summary>Rows of a standard bivariate normal with correlation rho, seeded.</summary>
+    private static double[][] CorrelatedNormal(int rows, double rho, int seed)
+    {
+        var rng = new Xoshiro256StarStar(seed, threadSafe: false);
+        double c = Math.Sqrt(1 - rho * rho);
+        var result = new double[rows][];
+        for (int i = 0; i < rows; i++)
+        {
+            double a = Normal.Sample(rng, 0, 1), b = Normal.Sample(rng, 0, 1);
+            result[i] = new[] { a, rho * a + c * b };
+        }
+        return result;
+    }
+}
