@@ -62,6 +62,7 @@ internal static class CheckEvaluator
         CheckKind.Fraction => Diagnostics.ErrorCodes.DriftFraction,
         CheckKind.FarTail => Diagnostics.ErrorCodes.DriftFarTail,
         CheckKind.PearsonDifference or CheckKind.SpearmanDifference => Diagnostics.ErrorCodes.DriftCorrelation,
+        CheckKind.EnergyTest => Diagnostics.ErrorCodes.DriftJoint,
         _ => Diagnostics.ErrorCodes.DriftJensenShannon,
     };
 }

@@ -15,6 +15,9 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class ContractCheck
 {
+    /// <summary>Seed of the sample's joint subsample.</summary>
+    private const int SampleJointSeed = 7_654_321;
+
     /// <summary>Runs the contract. <paramref name="samplePath"/> overrides the contract's sample (relative to the working directory).</summary>
     public static CheckReport Run(PrecisionContract contract, string? samplePath = null)
     {
@@ -38,6 +41,7 @@ internal static class ContractCheck
         var farTail = contract.Features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && references[i].FarTail is { } t
             ? new FarTailCounter(t.Low, t.High) : null).ToArray();
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
+        var joint = contract.Joint is { } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, SampleJointSeed) : null;
         var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
             new MarginalCdf(references[index[p.First]].Histogram), new MarginalCdf(references[index[p.Second]].Histogram))).ToList();
         var totals = SampleStream.Run(sample, inputs, contract.Sample.Weight, (i, values, weights) =>
@@ -54,6 +58,7 @@ internal static class ContractCheck
         }, view =>
         {
             foreach (var p in pairs) p.Add(view);
+            joint?.Add(view);
         });
         if (totals.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
@@ -76,6 +81,17 @@ internal static class ContractCheck
             var subject = first with { Name = pair.Spec.Name, Column = pair.Spec.Name, Checks = [], Location = pair.Spec.Location, ColumnLocation = pair.Spec.Location };
             foreach (var check in new[] { pair.Spec.Pearson, pair.Spec.Spearman })
                 if (check is not null) measured.Add((subject, check, CorrelationCheck.Evaluate(stored, pair, check, contract.Decision, totals.Events)));
+        }
+        if (contract.Joint is { } jointSpec)
+        {
+            var stored = reference.Joint is { } rj && rj.Features.SequenceEqual(jointSpec.Features)
+                ? rj
+                : throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                    $"The reference holds no subsample of {jointSpec.Name}; rebuild it with 'gatetasks reference build'.", jointSpec.Location);
+            var first = contract.Features[index[jointSpec.Features[0]]];
+            var subject = first with { Name = jointSpec.Name, Column = jointSpec.Name, Checks = [], Location = jointSpec.Location, ColumnLocation = jointSpec.Location };
+            var permutations = jointSpec.PermutationsFor(measured.Count + 1, contract.Decision.FalseAlarm);
+            measured.Add((subject, jointSpec.Test, JointCheck.Evaluate(stored.Rows.ToArray(), joint!.Rows, jointSpec, permutations)));
         }
         var outcomes = VerdictRule.Decide(measured, contract.Decision);
 

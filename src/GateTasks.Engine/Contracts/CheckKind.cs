@@ -43,6 +43,9 @@ internal enum CheckKind
     /// <summary>Largest |Δ fraction| beyond the reference's 0.1% and 99.9% quantiles.</summary>
     FarTail,
 
+    /// <summary>Energy-distance test over a declared feature set (a goodness-of-fit test in the family).</summary>
+    EnergyTest,
+
     /// <summary>|Δ Pearson r| of a declared pair of features.</summary>
     PearsonDifference,
 

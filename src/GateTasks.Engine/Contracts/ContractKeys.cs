@@ -43,6 +43,10 @@ internal static class ContractKeys
 
     public const string Decision = "decision";
     public const string Correlations = "correlations";
+    public const string Joint = "joint";
+    public const string EnergyTest = "energy-test";
+    public const string Subsample = "subsample";
+    public const string Permutations = "permutations";
     public const string PairFeatures = "features";
     public const string PearsonMax = "pearson-max";
     public const string SpearmanMax = "spearman-max";
@@ -51,7 +55,8 @@ internal static class ContractKeys
     public const string Correction = "correction";
     public const string Inconclusive = "inconclusive";
 
-    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Defaults, Features, Correlations];
+    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Defaults, Features, Correlations, Joint];
+    public static readonly string[] JointKeys = [PairFeatures, EnergyTest, Subsample, Permutations];
     public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax];
     public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
@@ -97,6 +102,7 @@ internal static class ContractKeys
     {
         CheckKind.PearsonDifference => PearsonMax,
         CheckKind.SpearmanDifference => SpearmanMax,
+        CheckKind.EnergyTest => EnergyTest,
         _ => CheckTable.First(c => c.Kind == kind).Key,
     };
 

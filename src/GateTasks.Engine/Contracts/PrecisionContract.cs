@@ -13,7 +13,8 @@ internal sealed record PrecisionContract(
     DecisionSettings Decision,
     IReadOnlyList<FeatureSpec> Features,
     IReadOnlyList<CorrelationSpec>? Correlations = null,
-    SelectionSpec? Selection = null)
+    SelectionSpec? Selection = null,
+    JointSpec? Joint = null)
 {
     /// <summary>The declared correlation pairs (none when the contract lists none).</summary>
     public IReadOnlyList<CorrelationSpec> Pairs => Correlations ?? [];

@@ -85,6 +85,8 @@ public static class ErrorCodes
     public const string DriftFarTail = "GATE3016";
     /// <summary>Bin ratio outside tolerance in a region the feature declares by name.</summary>
     public const string DriftRatioNamed = "GATE3017";
+    /// <summary>The energy-distance test of the joint feature set significant at the contract's family-wise level.</summary>
+    public const string DriftJoint = "GATE3018";
     /// <summary>A check the sample is too small to decide (an error or a warning, by the contract's policy).</summary>
     public const string Inconclusive = "GATE3100";
 }

@@ -14,6 +14,9 @@ namespace GateTasks.Engine.References;
 /// </summary>
 internal static class ReferenceBuilder
 {
+    /// <summary>Seed of the reference's joint subsample (the sample's uses another, so the two are independent).</summary>
+    public const int JointSeed = 1_234_577;
+
     /// <summary>Most categories a discrete feature may have.</summary>
     public const int MaxCategories = 10_000;
 
@@ -32,6 +35,8 @@ internal static class ReferenceBuilder
         // Pass 1: ranges and moments.
         var stats = features.Select(_ => new FeatureStatistics()).ToArray();
         var spikes = features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
+        var jointIndex = contract.Joint?.Features.Select(name => features.ToList().FindIndex(f => f.Name == name)).ToArray();
+        var joint = contract.Joint is { } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
         var totals = SampleStream.Run(sample, columns, weightColumn, (i, values, weights) =>
         {
             if (spikes[i] is { } spike)
@@ -40,7 +45,7 @@ internal static class ReferenceBuilder
                 stats[i].Add(v.Span, w.Span);
             }
             else stats[i].Add(values, weights);
-        });
+        }, view => joint?.Add(view));
         if (totals.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty, $"The reference sample has no events ({string.Join(", ", files)}).",
                 new SourceLocation(files[0]));
@@ -138,7 +143,8 @@ internal static class ReferenceBuilder
 
         var inputs = files.Select(p => new ReferenceInput(Path.GetFileName(p), new FileInfo(p).Length, FileDigest.Sha256(p))).ToList();
         return new ReferenceHistograms(ReferenceFile.FormatVersion, DateTimeOffset.UtcNow, toolVersion, inputs,
-            weightColumn, totals.Events, totals.SumW, totals.SumW2, result, correlations);
+            weightColumn, totals.Events, totals.SumW, totals.SumW2, result, correlations,
+            joint is null ? null : new ReferenceJointSample(contract.Joint!.Features, joint.Rows));
     }
 
     private static Axis CategoryAxis(FeatureSpec f, double min, double max)

@@ -200,6 +200,13 @@ internal static class ReferenceFile
             ["sum_w2"] = r.SumW2,
             ["inputs"] = inputs,
             ["features"] = features,
+            ["joint"] = r.Joint is { } j
+                ? new JsonObject
+                {
+                    ["features"] = new JsonArray(j.Features.Select(f => (JsonNode)JsonValue.Create(f)!).ToArray()),
+                    ["rows"] = new JsonArray(j.Rows.Select(row => (JsonNode)new JsonArray(row.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray())).ToArray()),
+                }
+                : null,
             ["correlations"] = new JsonArray((r.Correlations ?? []).Select(c => (JsonNode)new JsonObject
             {
                 ["first"] = c.First, ["second"] = c.Second, ["pearson"] = c.Pearson, ["spearman"] = c.Spearman, ["effective_count"] = c.EffectiveCount,
@@ -253,8 +260,12 @@ internal static class ReferenceFile
             (double)h["sum_w"]!,
             (double)h["sum_w2"]!,
             features,
-            h["correlations"] is JsonArray pairs
+            Correlations: h["correlations"] is JsonArray pairs
                 ? pairs.Select(c => new ReferenceCorrelation((string)c!["first"]!, (string)c["second"]!, (double)c["pearson"]!, (double)c["spearman"]!, (double)c["effective_count"]!)).ToList()
-                : []);
+                : [],
+            Joint: h["joint"] is JsonObject joint
+                ? new ReferenceJointSample(joint["features"]!.AsArray().Select(f => (string)f!).ToList(),
+                    joint["rows"]!.AsArray().Select(row => row!.AsArray().Select(v => (double)v!).ToArray()).ToArray())
+                : null);
     }
 }

@@ -14,7 +14,8 @@ internal sealed record ReferenceHistograms(
     double SumW,
     double SumW2,
     IReadOnlyList<ReferenceFeature> Features,
-    IReadOnlyList<ReferenceCorrelation>? Correlations = null)
+    IReadOnlyList<ReferenceCorrelation>? Correlations = null,
+    ReferenceJointSample? Joint = null)
 {
     /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>
     public double EffectiveEvents => SumW2 > 0 ? SumW * SumW / SumW2 : 0;

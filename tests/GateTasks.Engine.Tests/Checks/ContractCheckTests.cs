@@ -181,6 +181,10 @@ public sealed class ContractCheckTests : IDisposable
               - features: [x, y]
                 pearson-max: 0.05
                 spearman-max: 0.05
+            joint:
+              features: [x, y]
+              energy-test: on
+              subsample: 1000
             """;
         var contractPath = Path.Combine(_dir, "precision-contract.yaml");
         File.WriteAllText(contractPath, text);
@@ -199,6 +203,7 @@ public sealed class ContractCheckTests : IDisposable
         var (rx, ry) = Draw(50_000, 1);
         Write("full.csv", rx, ry);
         var reference = ReferenceBuilder.Build(contract, [Path.Combine(_dir, "full.csv")], null, "test");
+        Assert.Equal(1000, reference.Joint!.Rows.Length);
         Assert.Equal(0.6, reference.FindPair("x", "y")!.Pearson, 1);
         // Spearman's ρ of a bivariate normal is (6/π)·asin(r/2) = 0.5822 for r = 0.6 (Pearson 1907) — ranks via binned marginals, approximate.
         Assert.Equal(6 / Math.PI * Math.Asin(0.3), reference.FindPair("x", "y")!.Spearman, 1);
@@ -213,9 +218,10 @@ public sealed class ContractCheckTests : IDisposable
         var shuffled = sy.OrderBy(v => BitConverter.DoubleToInt64Bits(v) * 2654435761L).ToArray();
         Write("surrogate.csv", sx, shuffled);
         var broken = ContractCheck.Run(contract);
+        Assert.Contains(broken.Outcomes, o => o.Check.Kind == CheckKind.EnergyTest);
         foreach (var o in broken.Outcomes)
         {
-            var joint = o.Check.Kind is CheckKind.PearsonDifference or CheckKind.SpearmanDifference;
+            var joint = o.Check.Kind is CheckKind.PearsonDifference or CheckKind.SpearmanDifference or CheckKind.EnergyTest;
             Assert.True(joint ? o.Verdict == Verdict.Fail : o.Verdict == Verdict.Pass, $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}");
         }
     }

@@ -1,0 +1,32 @@
+using GateTasks.Engine.Samples;
+using GateTasks.Engine.Statistics;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>
+/// Keeps a seeded reservoir (<see cref="ReservoirSample"/>) of rows of the joint feature set while streaming,
+/// skipping rows with a NaN in any of them, so the multivariate test sees a bounded, unbiased subsample.
+/// </summary>
+internal sealed class JointSubsample(IReadOnlyList<int> features, int capacity, int seed)
+{
+    private readonly ReservoirSample _reservoir = new(capacity, features.Count, seed);
+    private readonly double[] _row = new double[features.Count];
+
+    public void Add(FeatureView view)
+    {
+        for (var r = 0; r < view.Rows; r++)
+        {
+            var ok = true;
+            for (var f = 0; f < features.Count && ok; f++)
+            {
+                var x = view.Feature(features[f])[r];
+                ok = !double.IsNaN(x);
+                _row[f] = x;
+            }
+            if (ok) _reservoir.Add(_row);
+        }
+    }
+
+    /// <summary>A copy of the kept rows.</summary>
+    public double[][] Rows => _reservoir.Rows.Select(row => row.ToArray()).ToArray();
+}

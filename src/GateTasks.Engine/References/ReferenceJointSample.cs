@@ -1,0 +1,4 @@
+namespace GateTasks.Engine.References;
+
+/// <summary>A seeded subsample of the reference's rows of the joint feature set, for the multivariate test.</summary>
+internal sealed record ReferenceJointSample(IReadOnlyList<string> Features, double[][] Rows);
