@@ -63,6 +63,7 @@ internal static class CheckEvaluator
         CheckKind.FarTail => Diagnostics.ErrorCodes.DriftFarTail,
         CheckKind.PearsonDifference or CheckKind.SpearmanDifference => Diagnostics.ErrorCodes.DriftCorrelation,
         CheckKind.EnergyTest => Diagnostics.ErrorCodes.DriftJoint,
+        CheckKind.ChiSquare2DTest => Diagnostics.ErrorCodes.DriftChiSquare2D,
         _ => Diagnostics.ErrorCodes.DriftJensenShannon,
     };
 }

@@ -12,9 +12,12 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class ChiSquareCheck
 {
-    public static Measurement Evaluate(FeatureComparison c)
+    public static Measurement Evaluate(FeatureComparison c) => Evaluate(Cells.Of(c.Reference.Histogram), Cells.Of(c.Surrogate));
+
+    /// <summary>The test on any two sets of cells in the same layout (a 1-D histogram, or a 2-D one flattened row by row).</summary>
+    public static Measurement Evaluate(CellContents reference, CellContents sample)
     {
-        var (r, s, merged) = CellMerger.MergeSparse(Cells.Of(c.Reference.Histogram), Cells.Of(c.Surrogate));
+        var (r, s, merged) = CellMerger.MergeSparse(reference, sample);
         var rw = FeatureComparison.IsUnweighted(r);
         var sw = FeatureComparison.IsUnweighted(s);
         var (form, result) = (rw, sw) switch

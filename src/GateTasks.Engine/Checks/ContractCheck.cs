@@ -43,7 +43,8 @@ internal static class ContractCheck
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         var joint = contract.Joint is { } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, SampleJointSeed) : null;
         var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
-            new MarginalCdf(references[index[p.First]].Histogram), new MarginalCdf(references[index[p.Second]].Histogram))).ToList();
+            new MarginalCdf(references[index[p.First]].Histogram), new MarginalCdf(references[index[p.Second]].Histogram),
+            p.Chi2 is null ? null : new Histogram2D(references[index[p.First]].Histogram.Axis, references[index[p.Second]].Histogram.Axis))).ToList();
         var totals = SampleStream.Run(sample, inputs, contract.Sample.Weight, (i, values, weights) =>
         {
             if (spikes[i] is { } spike)
@@ -81,6 +82,15 @@ internal static class ContractCheck
             var subject = first with { Name = pair.Spec.Name, Column = pair.Spec.Name, Checks = [], Location = pair.Spec.Location, ColumnLocation = pair.Spec.Location };
             foreach (var check in new[] { pair.Spec.Pearson, pair.Spec.Spearman })
                 if (check is not null) measured.Add((subject, check, CorrelationCheck.Evaluate(stored, pair, check, contract.Decision, totals.Events)));
+            if (pair.Spec.Chi2 is { } chi2)
+            {
+                if (stored.Cells2DSumW is null || stored.Cells2DSumW2 is null || stored.Cells2DSumW.Length != pair.Joint!.Storage.CellCount)
+                    throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                        $"The reference holds no 2-D histogram for {pair.Spec.Name} on these axes; rebuild it with 'gatetasks reference build'.", pair.Spec.Location);
+                measured.Add((subject, chi2, ChiSquareCheck.Evaluate(
+                    new CellContents(stored.Cells2DSumW, stored.Cells2DSumW2),
+                    new CellContents(pair.Joint.Storage.SumW.ToArray(), pair.Joint.Storage.SumW2.ToArray()))));
+            }
         }
         if (contract.Joint is { } jointSpec)
         {

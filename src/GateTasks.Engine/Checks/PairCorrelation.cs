@@ -9,8 +9,12 @@ namespace GateTasks.Engine.Checks;
 /// the values' ranks under the reference's marginal CDFs (equal to the sample's own ranks when its marginals match
 /// the reference's). Pairs where either value is NaN are skipped.
 /// </summary>
-internal sealed class PairCorrelation(CorrelationSpec spec, int first, int second, MarginalCdf firstCdf, MarginalCdf secondCdf)
+internal sealed class PairCorrelation(CorrelationSpec spec, int first, int second, MarginalCdf firstCdf, MarginalCdf secondCdf,
+    Histogram2D? joint = null)
 {
+    /// <summary>The pair's 2-D histogram, when its χ² test is asked for.</summary>
+    public Histogram2D? Joint { get; } = joint;
+
     private readonly WeightedCorrelation _pearson = new();
     private readonly WeightedCorrelation _spearman = new();
 
@@ -27,6 +31,7 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
             var w = weights.IsEmpty ? 1.0 : weights[r];
             _pearson.Add(x[r], y[r], w);
             _spearman.Add(firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
+            Joint?.Fill(x[r], y[r], w);
         }
     }
 

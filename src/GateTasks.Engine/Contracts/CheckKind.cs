@@ -43,6 +43,9 @@ internal enum CheckKind
     /// <summary>Largest |Δ fraction| beyond the reference's 0.1% and 99.9% quantiles.</summary>
     FarTail,
 
+    /// <summary>χ² homogeneity test of a declared pair's 2-D histograms (a goodness-of-fit test in the family).</summary>
+    ChiSquare2DTest,
+
     /// <summary>Energy-distance test over a declared feature set (a goodness-of-fit test in the family).</summary>
     EnergyTest,
 

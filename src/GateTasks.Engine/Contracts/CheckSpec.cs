@@ -13,7 +13,7 @@ internal sealed record CheckSpec(CheckKind Kind, Region Region, double Limit, So
     public SourceLocation? NamedKeyLocation { get; init; }
 
     /// <summary>True for goodness-of-fit tests: no tolerance, only a p-value in the contract's family.</summary>
-    public bool IsTest => Kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest or CheckKind.AndersonDarlingTest or CheckKind.CramerVonMisesTest or CheckKind.EnergyTest;
+    public bool IsTest => Kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest or CheckKind.AndersonDarlingTest or CheckKind.CramerVonMisesTest or CheckKind.EnergyTest or CheckKind.ChiSquare2DTest;
 
     /// <summary>The contract key that states this check.</summary>
     public string Key => ContractKeys.CheckKey(Kind);

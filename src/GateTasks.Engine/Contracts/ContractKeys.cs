@@ -50,6 +50,7 @@ internal static class ContractKeys
     public const string PairFeatures = "features";
     public const string PearsonMax = "pearson-max";
     public const string SpearmanMax = "spearman-max";
+    public const string Chi2Test2D = "chi2-2d-test";
     public const string Confidence = "confidence";
     public const string FalseAlarm = "false-alarm";
     public const string Correction = "correction";
@@ -57,7 +58,7 @@ internal static class ContractKeys
 
     public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Defaults, Features, Correlations, Joint];
     public static readonly string[] JointKeys = [PairFeatures, EnergyTest, Subsample, Permutations];
-    public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax];
+    public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax, Chi2Test2D];
     public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
     public static readonly string[] InconclusivePolicies = ["fail", "warn"];
@@ -103,6 +104,7 @@ internal static class ContractKeys
         CheckKind.PearsonDifference => PearsonMax,
         CheckKind.SpearmanDifference => SpearmanMax,
         CheckKind.EnergyTest => EnergyTest,
+        CheckKind.ChiSquare2DTest => Chi2Test2D,
         _ => CheckTable.First(c => c.Kind == kind).Key,
     };
 

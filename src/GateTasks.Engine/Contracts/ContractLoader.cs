@@ -215,9 +215,16 @@ internal static class ContractLoader
             }
             var pearson = Tolerance(ContractKeys.PearsonMax, CheckKind.PearsonDifference);
             var spearman = Tolerance(ContractKeys.SpearmanMax, CheckKind.SpearmanDifference);
-            if (pearson is null && spearman is null)
-                throw r.Error(ErrorCodes.ContractMissingKey, mapping, "A correlation entry needs pearson-max, spearman-max or both.");
-            list.Add(new CorrelationSpec(pair[0], pair[1], pearson, spearman, r.At(item)));
+            CheckSpec? chi2 = null;
+            if (entries.TryGetValue(ContractKeys.Chi2Test2D, out var cv))
+            {
+                if (!YamlNodeReader.IsScalar(cv, ContractKeys.On) && !YamlNodeReader.IsScalar(cv, ContractKeys.Off))
+                    throw r.Error(ErrorCodes.ContractBadValue, cv, $"{ContractKeys.Chi2Test2D} is a test without a tolerance: write 'on' or 'off'.");
+                if (YamlNodeReader.IsScalar(cv, ContractKeys.On)) chi2 = new CheckSpec(CheckKind.ChiSquare2DTest, Region.All, double.NaN, r.At(cv));
+            }
+            if (pearson is null && spearman is null && chi2 is null)
+                throw r.Error(ErrorCodes.ContractMissingKey, mapping, "A correlation entry needs pearson-max, spearman-max, chi2-2d-test or several.");
+            list.Add(new CorrelationSpec(pair[0], pair[1], pearson, spearman, r.At(item), chi2));
         }
         return list;
     }

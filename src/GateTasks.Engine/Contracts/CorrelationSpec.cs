@@ -4,9 +4,10 @@ namespace GateTasks.Engine.Contracts;
 
 /// <summary>
 /// A declared pair of features whose correlation the surrogate must reproduce: tolerances on |Δ Pearson r| and
-/// |Δ Spearman ρ| (either may be absent). Locations point at the pair and at each tolerance.
+/// |Δ Spearman ρ| (either may be absent), and optionally a χ² homogeneity test of the pair's 2-D histograms.
+/// Locations point at the pair and at each tolerance.
 /// </summary>
-internal sealed record CorrelationSpec(string First, string Second, CheckSpec? Pearson, CheckSpec? Spearman, SourceLocation Location)
+internal sealed record CorrelationSpec(string First, string Second, CheckSpec? Pearson, CheckSpec? Spearman, SourceLocation Location, CheckSpec? Chi2 = null)
 {
     /// <summary>Name used in reports, e.g. <c>e_lead~e_sublead</c>.</summary>
     public string Name => $"{First}~{Second}";

@@ -16,6 +16,9 @@ internal sealed class WeightedStorage
         _sumW2 = new double[bins + 2];
     }
 
+    /// <summary>Storage of exactly <paramref name="cells"/> cells (for histograms whose flows are laid out otherwise).</summary>
+    public static WeightedStorage OfCells(int cells) => new(cells - 2);
+
     /// <summary>Number of cells, flows included.</summary>
     public int CellCount => _sumW.Length;
 

@@ -115,7 +115,8 @@ internal static class ReferenceBuilder
         {
             var index = features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
             var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
-                new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram))).ToList();
+                new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram),
+                p.Chi2 is null ? null : new Histogram2D(result[index[p.First]].Histogram.Axis, result[index[p.Second]].Histogram.Axis))).ToList();
             var thirdPass = features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
             SampleStream.Run(sample, columns, weightColumn, (i, values, weights) =>
             {
@@ -135,7 +136,8 @@ internal static class ReferenceBuilder
                 if (double.IsNaN(p.Pearson) || double.IsNaN(p.Spearman))
                     throw new GateInputException(ErrorCodes.ContractBadValue,
                         $"The correlation of {p.Spec.Name} is undefined in the reference sample: one of the two is constant (or all NaN).", p.Spec.Location);
-                correlations.Add(new ReferenceCorrelation(p.Spec.First, p.Spec.Second, p.Pearson, p.Spearman, p.EffectiveCount));
+                correlations.Add(new ReferenceCorrelation(p.Spec.First, p.Spec.Second, p.Pearson, p.Spearman, p.EffectiveCount,
+                    p.Joint?.Storage.SumW.ToArray(), p.Joint?.Storage.SumW2.ToArray()));
             }
             for (var i = 0; i < n; i++)
                 if (farTail[i] is { } counter) result[i] = result[i] with { FarTail = counter.Counts };

@@ -210,6 +210,8 @@ internal static class ReferenceFile
             ["correlations"] = new JsonArray((r.Correlations ?? []).Select(c => (JsonNode)new JsonObject
             {
                 ["first"] = c.First, ["second"] = c.Second, ["pearson"] = c.Pearson, ["spearman"] = c.Spearman, ["effective_count"] = c.EffectiveCount,
+                ["cells_2d_sum_w"] = c.Cells2DSumW is null ? null : new JsonArray(c.Cells2DSumW.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray()),
+                ["cells_2d_sum_w2"] = c.Cells2DSumW2 is null ? null : new JsonArray(c.Cells2DSumW2.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray()),
             }).ToArray()),
         };
     }
@@ -261,7 +263,8 @@ internal static class ReferenceFile
             (double)h["sum_w2"]!,
             features,
             Correlations: h["correlations"] is JsonArray pairs
-                ? pairs.Select(c => new ReferenceCorrelation((string)c!["first"]!, (string)c["second"]!, (double)c["pearson"]!, (double)c["spearman"]!, (double)c["effective_count"]!)).ToList()
+                ? pairs.Select(c => new ReferenceCorrelation((string)c!["first"]!, (string)c["second"]!, (double)c["pearson"]!, (double)c["spearman"]!, (double)c["effective_count"]!,
+                    (c["cells_2d_sum_w"] as JsonArray)?.Select(v => (double)v!).ToArray(), (c["cells_2d_sum_w2"] as JsonArray)?.Select(v => (double)v!).ToArray())).ToList()
                 : [],
             Joint: h["joint"] is JsonObject joint
                 ? new ReferenceJointSample(joint["features"]!.AsArray().Select(f => (string)f!).ToList(),

@@ -181,6 +181,7 @@ public sealed class ContractCheckTests : IDisposable
               - features: [x, y]
                 pearson-max: 0.05
                 spearman-max: 0.05
+                chi2-2d-test: on
             joint:
               features: [x, y]
               energy-test: on
@@ -219,9 +220,10 @@ public sealed class ContractCheckTests : IDisposable
         Write("surrogate.csv", sx, shuffled);
         var broken = ContractCheck.Run(contract);
         Assert.Contains(broken.Outcomes, o => o.Check.Kind == CheckKind.EnergyTest);
+        Assert.Contains(broken.Outcomes, o => o.Check.Kind == CheckKind.ChiSquare2DTest);
         foreach (var o in broken.Outcomes)
         {
-            var joint = o.Check.Kind is CheckKind.PearsonDifference or CheckKind.SpearmanDifference or CheckKind.EnergyTest;
+            var joint = o.Check.Kind is CheckKind.PearsonDifference or CheckKind.SpearmanDifference or CheckKind.EnergyTest or CheckKind.ChiSquare2DTest;
             Assert.True(joint ? o.Verdict == Verdict.Fail : o.Verdict == Verdict.Pass, $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}");
         }
     }

@@ -1,0 +1,41 @@
+namespace GateTasks.Engine.Histograms;
+
+/// <summary>
+/// A two-dimensional weighted histogram: two axes plus one storage of (n_x + 2) × (n_y + 2) cells (flows included
+/// on both axes, row-major by the first axis). Pairs with a NaN in either value are counted apart.
+/// </summary>
+internal sealed class Histogram2D
+{
+    public Histogram2D(Axis x, Axis y)
+    {
+        X = x;
+        Y = y;
+        Storage = WeightedStorage.OfCells((x.Count + 2) * (y.Count + 2));
+    }
+
+    public Axis X { get; }
+    public Axis Y { get; }
+
+    /// <summary>Σw and Σw² per cell; cell (i, j) of the flow-extended axes is i·(n_y + 2) + j.</summary>
+    public WeightedStorage Storage { get; }
+
+    public long NanEntries { get; private set; }
+
+    public void Fill(double x, double y, double w = 1.0)
+    {
+        if (double.IsNaN(x) || double.IsNaN(y)) { NanEntries++; return; }
+        var i = Histogram.Cell(X.Index(x));
+        var j = Histogram.Cell(Y.Index(y));
+        Storage.Add(i * (Y.Count + 2) + j, w);
+    }
+
+    /// <summary>Restores a histogram from stored cells.</summary>
+    public static Histogram2D FromCells(Axis x, Axis y, ReadOnlySpan<double> sumW, ReadOnlySpan<double> sumW2)
+    {
+        var h = new Histogram2D(x, y);
+        if (sumW.Length != h.Storage.CellCount) throw new ArgumentException("Cell count does not match the axes.");
+        sumW.CopyTo(h.Storage.SumW);
+        sumW2.CopyTo(h.Storage.SumW2);
+        return h;
+    }
+}
