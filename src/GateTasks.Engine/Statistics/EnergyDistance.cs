@@ -27,8 +27,8 @@ internal static class EnergyDistance
     internal static double Univariate(ReadOnlySpan<double> x, ReadOnlySpan<double> y,
         ReadOnlySpan<double> xw = default, ReadOnlySpan<double> yw = default)
     {
-        (double[] xs, double[] xws, double wx) = Prepare(x, xw, nameof(x));
-        (double[] ys, double[] yws, double wy) = Prepare(y, yw, nameof(y));
+        (double[] xs, double[] xws, double wx) = SampleChecks.SortedWithWeights(x, xw, nameof(x));
+        (double[] ys, double[] yws, double wy) = SampleChecks.SortedWithWeights(y, yw, nameof(y));
         int i = 0, j = 0;
         double cx = 0, cy = 0, area = 0;
         double previous = Math.Min(xs[0], ys[0]);
@@ -236,19 +236,5 @@ internal static class EnergyDistance
             SampleChecks.RequireFinite(row, $"{what}[{i}]");
         }
         return width;
-    }
-
-    private static (double[] Values, double[] Weights, double Total) Prepare(ReadOnlySpan<double> values,
-        ReadOnlySpan<double> weights, string what)
-    {
-        if (weights.IsEmpty)
-        {
-            double[] sorted = SampleChecks.SortedCopy(values, what);
-            var unit = new double[sorted.Length];
-            Array.Fill(unit, 1.0);
-            return (sorted, unit, sorted.Length);
-        }
-        double total = SampleChecks.SortedWeightedCopy(values, weights, what, out double[] v, out double[] w);
-        return (v, w, total);
     }
 }

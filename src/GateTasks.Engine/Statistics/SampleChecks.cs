@@ -87,4 +87,19 @@ internal static class SampleChecks
         Array.Sort(sortedValues, sortedWeights);
         return total;
     }
+
+    /// <summary>The values sorted with their weights (unit weights when none are given), and the total weight.</summary>
+    internal static (double[] Values, double[] Weights, double Total) SortedWithWeights(ReadOnlySpan<double> values,
+        ReadOnlySpan<double> weights, string what)
+    {
+        if (weights.IsEmpty)
+        {
+            double[] sorted = SortedCopy(values, what);
+            var unit = new double[sorted.Length];
+            Array.Fill(unit, 1.0);
+            return (sorted, unit, sorted.Length);
+        }
+        double total = SortedWeightedCopy(values, weights, what, out double[] v, out double[] w);
+        return (v, w, total);
+    }
 }

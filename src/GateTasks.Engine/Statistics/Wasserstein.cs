@@ -13,8 +13,8 @@ internal static class Wasserstein
     internal static double Samples(ReadOnlySpan<double> x, ReadOnlySpan<double> y,
         ReadOnlySpan<double> xWeights = default, ReadOnlySpan<double> yWeights = default)
     {
-        (double[] xs, double[] xw, double wx) = Prepare(x, xWeights, nameof(x));
-        (double[] ys, double[] yw, double wy) = Prepare(y, yWeights, nameof(y));
+        (double[] xs, double[] xw, double wx) = SampleChecks.SortedWithWeights(x, xWeights, nameof(x));
+        (double[] ys, double[] yw, double wy) = SampleChecks.SortedWithWeights(y, yWeights, nameof(y));
         int i = 0, j = 0;
         double cx = 0, cy = 0, area = 0;
         double previous = Math.Min(xs[0], ys[0]);
@@ -75,19 +75,5 @@ internal static class Wasserstein
         if (d0 * d1 >= 0)
             return (Math.Abs(d0) + Math.Abs(d1)) / 2;
         return (d0 * d0 + d1 * d1) / (2 * (Math.Abs(d0) + Math.Abs(d1)));
-    }
-
-    private static (double[] Values, double[] Weights, double Total) Prepare(ReadOnlySpan<double> values,
-        ReadOnlySpan<double> weights, string what)
-    {
-        if (weights.IsEmpty)
-        {
-            double[] sorted = SampleChecks.SortedCopy(values, what);
-            var unit = new double[sorted.Length];
-            Array.Fill(unit, 1.0);
-            return (sorted, unit, sorted.Length);
-        }
-        double total = SampleChecks.SortedWeightedCopy(values, weights, what, out double[] v, out double[] w);
-        return (v, w, total);
     }
 }
