@@ -21,7 +21,7 @@ internal static class CheckCommand
         {
             Description = "Also write the result table and summary as plain text to this path.",
         };
-        var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed; 2: input error.")
+        var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed (or was inconclusive, if the contract says so); 2: input error.")
         {
             contract, sample, junit, text,
         };
