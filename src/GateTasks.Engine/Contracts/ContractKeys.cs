@@ -24,6 +24,9 @@ internal static class ContractKeys
     public const string Checks = "checks";
     public const string Spike = "spike";
     public const string Regions = "regions";
+    public const string Categories = "categories";
+    public const string By = "by";
+    public const string Values = "values";
     public const string Quantiles = "quantiles";
     public const string Expression = "expression";
     public const string Selection = "selection";
@@ -64,7 +67,8 @@ internal static class ContractKeys
     public static readonly string[] InconclusivePolicies = ["fail", "warn"];
     public static readonly string[] SampleKeys = [Path, Weight];
     public static readonly string[] DefaultsKeys = [Binning, Core, Regions, Checks];
-    public static readonly string[] FeatureKeys = [Name, Column, Expression, Kind, Binning, Core, Regions, Spike, Checks];
+    public static readonly string[] FeatureKeys = [Name, Column, Expression, Kind, Binning, Core, Regions, Spike, Categories, Checks];
+    public static readonly string[] CategoryKeys = [By, Values, "fraction-max"];
     public static readonly string[] BinningKeys = [Bins, Spacing, Range, Edges];
     public static readonly string[] NamedRegionKeys = [Range, Quantiles];
     public static readonly string[] Kinds = ["continuous", "discrete"];

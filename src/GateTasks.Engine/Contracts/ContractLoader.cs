@@ -81,12 +81,16 @@ internal static class ContractLoader
         var seen = new Dictionary<string, SourceLocation>(StringComparer.Ordinal);
         foreach (var item in featuresNode.Children)
         {
-            var feature = ReadFeature(r, item, defaults);
-            if (seen.TryGetValue(feature.Name, out var first))
-                throw new GateInputException(ErrorCodes.ContractDuplicateFeature,
-                    $"Feature '{feature.Name}' is listed twice; the first is at line {first.Line}.", feature.Location);
-            seen.Add(feature.Name, feature.Location);
-            features.Add(feature);
+            var parent = ReadFeature(r, item, defaults);
+            var block = item is YamlMappingNode m && YamlNodeReader.Find(m, ContractKeys.Categories) is { } categoriesNode ? ReadCategories(r, categoriesNode, parent) : [];
+            foreach (var feature in block.Prepend(parent))
+            {
+                if (seen.TryGetValue(feature.Name, out var first))
+                    throw new GateInputException(ErrorCodes.ContractDuplicateFeature,
+                        $"Feature '{feature.Name}' is listed twice; the first is at line {first.Line}.", feature.Location);
+                seen.Add(feature.Name, feature.Location);
+                features.Add(feature);
+            }
         }
 
         var correlations = top.TryGetValue(ContractKeys.Correlations, out var cn) ? ReadCorrelations(r, cn, features) : [];
@@ -150,6 +154,44 @@ internal static class ContractLoader
                 if (lo < 0 || hi > 1) throw r.Error(ErrorCodes.ContractBadValue, e[ContractKeys.Quantiles], "Quantiles must lie within [0, 1].");
                 list.Add(new NamedRegion(name, lo, hi, true, r.At(keyNode)));
             }
+        }
+        return list;
+    }
+
+    /// <summary>
+    /// A category block: the feature's checks repeated for each category of a discrete column or expression, each
+    /// category a feature of its own with that condition; with fraction-max, the categories' population fractions
+    /// are checked as one more (discrete) feature.
+    /// </summary>
+    private static List<FeatureSpec> ReadCategories(YamlNodeReader r, YamlNode node, FeatureSpec parent)
+    {
+        var mapping = r.Mapping(node, $"The categories of feature '{parent.Name}'");
+        var e = r.Entries(mapping, "categories", ContractKeys.CategoryKeys).ToDictionary(x => x.Key, x => x.Value);
+        var byNode = r.Require(mapping, ContractKeys.By, "categories");
+        var by = r.String(byNode, "categories.by");
+        var byAt = ExpressionStart(r, byNode);
+        var valuesNode = r.Sequence(r.Require(mapping, ContractKeys.Values, "categories"), "categories.values");
+        var values = valuesNode.Children.Select(v => r.Number(v, "A category value")).ToList();
+        if (values.Count < 2 || values.Distinct().Count() != values.Count)
+            throw r.Error(ErrorCodes.ContractBadValue, valuesNode, "categories.values needs at least two different values.");
+        var label = System.Text.RegularExpressions.Regex.IsMatch(by, "^[A-Za-z_][A-Za-z0-9_]*$") ? by : "category";
+        var list = values.Select(v =>
+        {
+            var text = v.ToString("R", System.Globalization.CultureInfo.InvariantCulture);
+            return parent with
+            {
+                Name = $"{parent.Name}[{label}={text}]",
+                Location = r.At(valuesNode.Children[values.IndexOf(v)]),
+                Condition = new SelectionSpec($"({by}) == {text}", byAt),
+            };
+        }).ToList();
+        if (e.TryGetValue("fraction-max", out var fn))
+        {
+            var tolerance = r.Number(fn, "categories.fraction-max");
+            if (!(tolerance > 0 && tolerance <= 1)) throw r.Error(ErrorCodes.ContractBadValue, fn, $"categories.fraction-max must be in (0, 1], got {tolerance}.");
+            list.Add(new FeatureSpec($"{parent.Name}[{label}]", $"{parent.Name}[{label}]", FeatureKind.Discrete,
+                new BinningSpec(BinningMode.Categories, 0, 0, 0, [], byAt), parent.Core,
+                [new CheckSpec(CheckKind.Fraction, Region.All, tolerance, r.At(fn))], r.At(byNode), byAt, Expression: by));
         }
         return list;
     }

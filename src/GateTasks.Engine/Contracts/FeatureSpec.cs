@@ -19,7 +19,8 @@ internal sealed record FeatureSpec(
     SourceLocation ColumnLocation,
     double? Spike = null,
     string? Expression = null,
-    IReadOnlyList<NamedRegion>? Regions = null)
+    IReadOnlyList<NamedRegion>? Regions = null,
+    SelectionSpec? Condition = null)
 {
     /// <summary>
     /// What the reference must have been built for: the binning request and, when declared, the spike value. A
@@ -28,5 +29,6 @@ internal sealed record FeatureSpec(
     public string ReferenceRequest =>
         Binning.Canonical
         + (Spike is { } v ? "|spike:" + v.ToString("R", System.Globalization.CultureInfo.InvariantCulture) : "")
-        + (Expression is { } e ? "|expression:" + e : "");
+        + (Expression is { } e ? "|expression:" + e : "")
+        + (Condition is { } c ? "|condition:" + c.Text : "");
 }

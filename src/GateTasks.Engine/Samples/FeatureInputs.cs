@@ -10,12 +10,17 @@ namespace GateTasks.Engine.Samples;
 /// </summary>
 internal sealed class FeatureInputs
 {
-    private FeatureInputs(IReadOnlyList<string?> columns, IReadOnlyList<CompiledExpression?> expressions, CompiledExpression? selection)
+    private FeatureInputs(IReadOnlyList<string?> columns, IReadOnlyList<CompiledExpression?> expressions, CompiledExpression? selection,
+        IReadOnlyList<CompiledExpression?> conditions)
     {
         FeatureColumns = columns;
         Expressions = expressions;
         Selection = selection;
+        Conditions = conditions;
     }
+
+    /// <summary>Per feature: a condition of its own (a category of a category block), or null.</summary>
+    public IReadOnlyList<CompiledExpression?> Conditions { get; }
 
     /// <summary>Per feature: its column, or null for a derived feature.</summary>
     public IReadOnlyList<string?> FeatureColumns { get; }
@@ -33,14 +38,17 @@ internal sealed class FeatureInputs
         FeatureColumns.Where(c => c is not null).Select(c => c!)
             .Concat(Expressions.Where(e => e is not null).SelectMany(e => e!.Columns))
             .Concat(Selection?.Columns ?? [])
+            .Concat(Conditions.Where(c => c is not null).SelectMany(c => c!.Columns))
             .Distinct(StringComparer.Ordinal).ToList();
 
     public static FeatureInputs Compile(PrecisionContract contract, IReadOnlyCollection<string> available)
     {
         var columns = new List<string?>();
         var expressions = new List<CompiledExpression?>();
+        var conditions = new List<CompiledExpression?>();
         foreach (var f in contract.Features)
         {
+            conditions.Add(f.Condition is { } condition ? ExpressionCompiler.Compile(condition.Text, available, condition.Location) : null);
             if (f.Expression is { } text)
             {
                 var compiled = ExpressionCompiler.Compile(text, available, f.ColumnLocation);
@@ -64,6 +72,6 @@ internal sealed class FeatureInputs
                 throw new GateInputException(ErrorCodes.ContractExpression,
                     "The selection must be a condition (a comparison, 'and', 'or', 'not' or isnan), not a number.", s.Location);
         }
-        return new FeatureInputs(columns, expressions, selection);
+        return new FeatureInputs(columns, expressions, selection, conditions);
     }
 }

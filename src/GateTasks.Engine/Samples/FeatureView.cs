@@ -3,8 +3,10 @@ namespace GateTasks.Engine.Samples;
 /// <summary>One batch's feature values after derivation and selection: what the histograms and statistics see.</summary>
 internal sealed class FeatureView(double[][] features, double[] weights, bool weighted)
 {
+    /// <summary>Rows of the features that follow the common selection (all but those with a condition of their own).</summary>
     public int Rows { get; internal set; }
 
+    /// <summary>A feature's values. Features with a condition of their own are not aligned with the others; use <see cref="SampleStream"/>'s visitor for them.</summary>
     public ReadOnlySpan<double> Feature(int index) => features[index].AsSpan(0, Rows);
 
     /// <summary>The events' weights, empty for unit weights.</summary>

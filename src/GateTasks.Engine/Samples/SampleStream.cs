@@ -15,6 +15,9 @@ internal readonly record struct SampleTotals(long Events, double SumW, double Su
 /// </summary>
 internal static class SampleStream
 {
+    /// <summary>A condition holds when it is non-zero and not NaN.</summary>
+    private static bool Passes(double condition) => condition != 0 && !double.IsNaN(condition);
+
     public static SampleTotals Run(Sample sample, FeatureInputs inputs, string? weightColumn, FeatureBatch visit, Action<FeatureView>? afterEachBatch = null)
     {
         var columns = inputs.RequiredColumns.ToList();
@@ -30,6 +33,10 @@ internal static class SampleStream
         var mask = Array.Empty<double>();
         var frame = new FeatureView(view, weightBuffer, weightColumn is not null);
         var expressionInputs = inputs.Expressions.Select(e => e is null ? null : new double[e.Columns.Count][]).ToArray();
+        var ownMask = new double[]?[n];
+        var ownValues = new double[]?[n];
+        var ownWeights = new double[]?[n];
+        var ownRows = new int[n];
 
         long events = 0, read = 0;
         double sumW = 0, sumW2 = 0;
@@ -73,10 +80,37 @@ internal static class SampleStream
             {
                 var selectionArgs = selection.Columns.Select(c => batch.ColumnBuffer(index[c])).ToArray();
                 selection.Evaluate(selectionArgs, rows, mask.AsSpan(0, rows));
+            }
+            else mask.AsSpan(0, rows).Fill(1);
+
+            // A feature with a condition of its own (a category) keeps the rows that pass both; it is compacted on its own.
+            for (var i = 0; i < n; i++)
+            {
+                if (inputs.Conditions[i] is not { } condition) continue;
+                ownMask[i] ??= new double[mask.Length];
+                if (ownMask[i]!.Length < rows) ownMask[i] = new double[rows];
+                ownValues[i] ??= new double[mask.Length];
+                if (ownValues[i]!.Length < rows) { ownValues[i] = new double[rows]; ownWeights[i] = new double[rows]; }
+                ownWeights[i] ??= new double[ownValues[i]!.Length];
+                var conditionArgs = condition.Columns.Select(c => batch.ColumnBuffer(index[c])).ToArray();
+                condition.Evaluate(conditionArgs, rows, ownMask[i].AsSpan(0, rows));
+                var k = 0;
+                for (var r = 0; r < rows; r++)
+                {
+                    if (!Passes(mask[r]) || !Passes(ownMask[i]![r])) continue;
+                    ownValues[i]![k] = view[i][r];
+                    ownWeights[i]![k] = weightIndex >= 0 ? weightBuffer[r] : 1;
+                    k++;
+                }
+                ownRows[i] = k;
+            }
+
+            if (inputs.Selection is not null)
+            {
                 kept = 0;
                 for (var r = 0; r < rows; r++)
                 {
-                    if (!(mask[r] != 0) || double.IsNaN(mask[r])) continue;
+                    if (!Passes(mask[r])) continue;
                     for (var i = 0; i < n; i++) selected[i][kept] = view[i][r];
                     weightBuffer[kept] = weightIndex >= 0 ? weightBuffer[r] : 1;
                     kept++;
@@ -97,7 +131,11 @@ internal static class SampleStream
                 sumW2 += w * w;
             }
             events += kept;
-            for (var i = 0; i < n; i++) visit(i, frame.Feature(i), weights);
+            for (var i = 0; i < n; i++)
+            {
+                if (inputs.Conditions[i] is null) visit(i, frame.Feature(i), weights);
+                else visit(i, ownValues[i].AsSpan(0, ownRows[i]), weightIndex >= 0 ? ownWeights[i].AsSpan(0, ownRows[i]) : ReadOnlySpan<double>.Empty);
+            }
             afterEachBatch?.Invoke(frame);
         }
         return new SampleTotals(events, sumW, sumW2);

@@ -314,6 +314,64 @@ public sealed class ContractCheckTests : IDisposable
     }
 
     [Fact]
+    public void A_category_block_repeats_the_checks_per_category_and_checks_their_fractions()
+    {
+        const string text = """
+            contract-version: 1
+            sample: surrogate.csv
+            reference: ref.parquet
+            features:
+              - name: x
+                binning: { bins: 10 }
+                checks:
+                  ks-max: 0.07
+                  mean-shift-max: 0.1
+                categories:
+                  by: min(k, 3)
+                  values: [0, 1, 2, 3]
+                  fraction-max: 0.02
+            """;
+        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contractPath, text);
+        var contract = ContractLoader.Load(contractPath);
+        Assert.Equal(["x", "x[category=0]", "x[category=1]", "x[category=2]", "x[category=3]", "x[category]"], contract.Features.Select(f => f.Name));
+
+        // k ~ Poisson(λ) objects; x ~ N(min(k,3), 1), shifted by `shift` in category 2 only.
+        void Write(string name, int rows, int seed, double lambda, double shift)
+        {
+            var rng = new Xoshiro256StarStar(seed);
+            var normal = new Normal(0, 1, rng);
+            var poisson = new Poisson(lambda, rng);
+            File.WriteAllLines(Path.Combine(_dir, name), new[] { "x,k" }.Concat(Enumerable.Range(0, rows).Select(_ =>
+            {
+                var k = poisson.Sample();
+                var c = Math.Min(k, 3);
+                return string.Create(CultureInfo.InvariantCulture, $"{c + normal.Sample() + (c == 2 ? shift : 0):R},{k}");
+            })));
+        }
+        Write("full.csv", 60_000, 1, 1.2, 0);
+        var reference = ReferenceBuilder.Build(contract, [Path.Combine(_dir, "full.csv")], null, "test");
+        ReferenceFile.Write(contract.ReferenceFullPath, reference);
+        // Poisson(1.2): P(k = 2) = e^−1.2·1.2²/2 = 0.2169 (hand-computed), the share of category 2.
+        Assert.Equal(0.2169, reference.Find("x[category=2]")!.Histogram.TotalSumW / reference.Events, 2);
+
+        Write("surrogate.csv", 60_000, 2, 1.2, 0);
+        var faithful = ContractCheck.Run(contract);
+        Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+
+        Write("surrogate.csv", 60_000, 3, 1.2, 0.3); // category 2 shifted by 0.3σ
+        var shifted = ContractCheck.Run(contract);
+        Assert.All(shifted.Outcomes, o => Assert.True(
+            o.Feature.Name == "x[category=2]" ? o.Verdict == Verdict.Fail : o.Verdict != Verdict.Fail || o.Feature.Name == "x",
+            $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}"));
+        Assert.Contains(shifted.Outcomes, o => o.Feature.Name == "x[category=2]" && o.Verdict == Verdict.Fail);
+
+        Write("surrogate.csv", 60_000, 4, 1.5, 0); // more objects per event: the category fractions move
+        var fractions = ContractCheck.Run(contract);
+        Assert.Equal(Verdict.Fail, fractions.Outcomes.Single(o => o.Feature.Name == "x[category]").Verdict);
+    }
+
+    [Fact]
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
         var contract = Setup();
