@@ -6,8 +6,9 @@ namespace GateTasks.Engine.Checks;
 /// <summary>
 /// Shifts of the first two moments, from the unbinned streamed moments of both samples at Kish effective counts.
 /// Mean: |μ_s − μ_r|/σ_r with standard error √(σ_s²/n_s + σ_r²/n_r)/σ_r. Width: |σ_s/σ_r − 1| with the delta-method
-/// variance of a standard deviation, (κ − 1)/(4n) relative, κ the kurtosis taken from the reference histogram (bin
-/// centres) — exact for any distribution as n grows, approximate for heavy tails (Kendall &amp; Stuart, vol. 1, ch. 10).
+/// variance of a standard deviation, (κ − 1)/(4n) relative, κ each sample's unbinned kurtosis (the reference
+/// histogram's, at bin centres, where none was streamed) — exact for any distribution with a finite fourth moment as
+/// n grows (Kendall &amp; Stuart, vol. 1, ch. 10); with heavy tails the width is a poor measure of resolution.
 /// </summary>
 internal static class MomentShiftCheck
 {
@@ -32,9 +33,12 @@ internal static class MomentShiftCheck
         if (!(r.StandardDeviation > 0))
             return Measurement.Impossible("the reference's standard deviation is zero, so a width ratio is undefined", []);
         var ratio = s.StandardDeviation / r.StandardDeviation;
-        var kappa = Kurtosis(c);
-        var seRef = ratio * Math.Sqrt((kappa - 1) / (4 * r.EffectiveCount));
-        var seSur = ratio * Math.Sqrt((kappa - 1) / (4 * s.EffectiveCount));
+        // Each sample's own unbinned kurtosis where it was streamed; the reference histogram's otherwise.
+        var kappaRef = double.IsFinite(r.Kurtosis) ? r.Kurtosis : Kurtosis(c);
+        var kappaSample = double.IsFinite(s.Kurtosis) ? s.Kurtosis : kappaRef;
+        var kappa = kappaRef;
+        var seRef = ratio * Math.Sqrt((kappaRef - 1) / (4 * r.EffectiveCount));
+        var seSur = ratio * Math.Sqrt((kappaSample - 1) / (4 * s.EffectiveCount));
         return Folded(Math.Abs(ratio - 1), seRef, seSur, spec, decision, c.Surrogate.Entries,
             $"width ratio {InvariantNumber.Short(ratio)} (σ {InvariantNumber.Short(s.StandardDeviation)} vs {InvariantNumber.Short(r.StandardDeviation)})",
             [new("width_ratio", InvariantNumber.Exact(ratio)), new("kurtosis_used", InvariantNumber.Exact(kappa))]);

@@ -7,6 +7,9 @@ internal sealed class FeatureStatistics
 {
     private readonly WeightedMoments _moments = new();
 
+    // Power sums of (x − shift) for the kurtosis; the shift (the first value) keeps the cancellation moderate.
+    private double _shift = double.NaN, _s0, _s1, _s2, _s3, _s4;
+
     public double Min { get; private set; } = double.PositiveInfinity;
     public double Max { get; private set; } = double.NegativeInfinity;
     public long NanCount { get; private set; }
@@ -18,12 +21,31 @@ internal sealed class FeatureStatistics
         {
             var x = values[r];
             if (double.IsNaN(x)) { NanCount++; continue; }
-            _moments.Add(x, weights.IsEmpty ? 1.0 : weights[r]);
+            var w = weights.IsEmpty ? 1.0 : weights[r];
+            _moments.Add(x, w);
+            if (double.IsNaN(_shift)) _shift = x;
+            var d = x - _shift;
+            var d2 = d * d;
+            _s0 += w;
+            _s1 += w * d;
+            _s2 += w * d2;
+            _s3 += w * d2 * d;
+            _s4 += w * d2 * d2;
             if (x < Min) Min = x;
             if (x > Max) Max = x;
         }
     }
 
     public FeatureSummary Summary() =>
-        new(_moments.Count, _moments.SumOfWeights, _moments.SumOfSquaredWeights, _moments.Mean, _moments.StandardDeviation, Min, Max, NanCount);
+        new(_moments.Count, _moments.SumOfWeights, _moments.SumOfSquaredWeights, _moments.Mean, _moments.StandardDeviation, Min, Max, NanCount, Kurtosis());
+
+    /// <summary>μ₄/σ⁴ from the shifted power sums (central moments by binomial expansion); NaN without spread.</summary>
+    private double Kurtosis()
+    {
+        if (!(_s0 > 0)) return double.NaN;
+        var m1 = _s1 / _s0;
+        var m2 = _s2 / _s0 - m1 * m1;
+        var m4 = _s4 / _s0 - 4 * m1 * _s3 / _s0 + 6 * m1 * m1 * _s2 / _s0 - 3 * m1 * m1 * m1 * m1;
+        return m2 > 0 ? Math.Max(1, m4 / (m2 * m2)) : double.NaN;
+    }
 }

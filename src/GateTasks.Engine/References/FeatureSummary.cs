@@ -2,7 +2,8 @@ namespace GateTasks.Engine.References;
 
 /// <summary>
 /// Unbinned statistics of one feature in a sample, NaN values excluded: the numbers the checks need beyond
-/// the histogram (the reference's standard deviation normalises Wasserstein-1, its quantiles place the core).
+/// the histogram (the reference's standard deviation normalises Wasserstein-1, its quantiles place the core;
+/// the kurtosis μ₄/σ⁴ sets the uncertainty of a width).
 /// </summary>
 internal sealed record FeatureSummary(
     long Count,
@@ -12,7 +13,8 @@ internal sealed record FeatureSummary(
     double StandardDeviation,
     double Min,
     double Max,
-    long NanCount)
+    long NanCount,
+    double Kurtosis = double.NaN)
 {
     /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>
     public double EffectiveCount => SumW2 > 0 ? SumW * SumW / SumW2 : 0;

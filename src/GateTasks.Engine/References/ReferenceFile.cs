@@ -173,6 +173,7 @@ internal static class ReferenceFile
                 ["std"] = s.StandardDeviation,
                 ["min"] = s.Min,
                 ["max"] = s.Max,
+                ["kurtosis"] = double.IsFinite(s.Kurtosis) ? s.Kurtosis : null,
                 ["quantiles"] = q,
                 ["far_tail"] = f.FarTail is { } ft
                     ? new JsonObject
@@ -238,7 +239,8 @@ internal static class ReferenceFile
                 cells.Select(c => c.W).ToArray(), cells.Select(c => c.W2).ToArray(),
                 (long)f["entries"]!, (long)f["nan_entries"]!, (double)f["nan_sum_w"]!, (double)f["nan_sum_w2"]!);
             var summary = new FeatureSummary((long)f["count"]!, (double)f["sum_w"]!, (double)f["sum_w2"]!,
-                (double)f["mean"]!, (double)f["std"]!, (double)f["min"]!, (double)f["max"]!, (long)f["nan_entries"]!);
+                (double)f["mean"]!, (double)f["std"]!, (double)f["min"]!, (double)f["max"]!, (long)f["nan_entries"]!,
+                f["kurtosis"] is JsonValue k ? (double)k : double.NaN);
             var quantiles = f["quantiles"]!.AsArray()
                 .Select(p => new QuantilePoint((double)p![0]!, (double)p[1]!)).ToList();
             features.Add(new ReferenceFeature(name, (string)f["column"]!,

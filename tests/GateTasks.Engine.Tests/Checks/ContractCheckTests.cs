@@ -372,6 +372,52 @@ public sealed class ContractCheckTests : IDisposable
     }
 
     [Fact]
+    public void A_response_surrogate_with_worse_resolution_in_one_true_energy_bin_fails_in_that_bin_only()
+    {
+        const string text = """
+            contract-version: 1
+            sample: surrogate.csv
+            reference: ref.parquet
+            features:
+              - name: response
+                expression: e_reco / e_gen
+                binning: { bins: 20 }
+                checks:
+                  width-ratio-max: 0.02
+                  quantile-shift-max: 0.05
+                categories:
+                  by: min(floor(e_gen / 25), 7)
+                  values: [0, 1, 2, 3, 4, 5, 6, 7]
+            """;
+        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contractPath, text);
+        var contract = ContractLoader.Load(contractPath);
+        // e_gen uniform in [0, 200) GeV; reco = gen·(1 + σ_rel·z), σ_rel = 0.1/√E ⊕ 0.01 (stochastic and constant
+        // terms, the calorimetry parametrisation of the Review of Particle Physics); `worse` widens bin 3 (75–100 GeV).
+        void Write(string name, int rows, int seed, double worse)
+        {
+            var rng = new Xoshiro256StarStar(seed);
+            var normal = new Normal(0, 1, rng);
+            File.WriteAllLines(Path.Combine(_dir, name), new[] { "e_gen,e_reco" }.Concat(Enumerable.Range(0, rows).Select(_ =>
+            {
+                var gen = 200 * rng.NextDouble() + 1e-9;
+                var sigma = Math.Sqrt(0.01 / gen + 0.0001) * (Math.Min(Math.Floor(gen / 25), 7) == 3 ? worse : 1);
+                return string.Create(CultureInfo.InvariantCulture, $"{gen:R},{gen * (1 + sigma * normal.Sample()):R}");
+            })));
+        }
+        Write("full.csv", 400_000, 1, 1);
+        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [Path.Combine(_dir, "full.csv")], null, "test"));
+
+        Write("surrogate.csv", 200_000, 2, 1.05); // 5% worse resolution in 75–100 GeV only
+        var report = ContractCheck.Run(contract);
+        var failed = report.Outcomes.Where(o => o.Verdict == Verdict.Fail).Select(o => $"{o.Feature.Name} {o.Check.Label}").ToList();
+        Assert.Contains("response[category=3] width-ratio-max", failed);
+        Assert.All(failed, f => Assert.True(f.StartsWith("response[category=3]") || f.StartsWith("response "), f));
+        Assert.All(report.Outcomes.Where(o => o.Feature.Name.StartsWith("response[category=") && !o.Feature.Name.EndsWith("=3]")),
+            o => Assert.NotEqual(Verdict.Fail, o.Verdict));
+    }
+
+    [Fact]
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
         var contract = Setup();
