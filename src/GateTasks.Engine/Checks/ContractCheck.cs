@@ -37,7 +37,6 @@ internal static class ContractCheck
 
         var histograms = references.Select(r => new Histogram(r.Histogram.Axis)).ToArray();
         var stats = contract.Features.Select(_ => new FeatureStatistics()).ToArray();
-        var spikes = contract.Features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
         var farTail = contract.Features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && references[i].FarTail is { } t
             ? new FarTailCounter(t.Low, t.High) : null).ToArray();
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
@@ -47,12 +46,6 @@ internal static class ContractCheck
             p.Chi2 is null ? null : new Histogram2D(references[index[p.First]].Histogram.Axis, references[index[p.Second]].Histogram.Axis))).ToList();
         var totals = SampleStream.Run(sample, inputs, contract.Sample.Weight, (i, values, weights) =>
         {
-            if (spikes[i] is { } spike)
-            {
-                var (v, w) = spike.Apply(values, weights);
-                values = v.Span;
-                weights = w.Span;
-            }
             histograms[i].Fill(values, weights);
             stats[i].Add(values, weights);
             farTail[i]?.Add(values, weights);
@@ -68,7 +61,7 @@ internal static class ContractCheck
         var measured = new List<(FeatureSpec, CheckSpec, Measurement)>();
         for (var i = 0; i < contract.Features.Count; i++)
         {
-            var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i], spikes[i]?.Tally, farTail[i]?.Counts);
+            var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i], totals.Spikes[i], farTail[i]?.Counts);
             foreach (var check in contract.Features[i].Checks)
                 measured.Add((contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision)));
         }

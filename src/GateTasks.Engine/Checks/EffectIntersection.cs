@@ -33,6 +33,22 @@ internal sealed class EffectIntersection(double tolerance, DecisionSettings deci
             _needed = Math.Max(_needed, Measurement.EventsFor(Math.Abs(tolerance - deviation), _z, seReference, seSample, sampleEvents));
     }
 
+    /// <summary>
+    /// Adds a fraction difference as a part: the weight share of a subset in each sample, with the binomial error
+    /// √(f(1−f)/n) at Kish (1965) effective counts — the reference's fraction, the better-measured one under the null,
+    /// standing in for both. Returns the two fractions and the sample's effective count.
+    /// </summary>
+    public (double Reference, double Sample, double SampleEffective) AddFraction(
+        double referenceW, double referenceTotalW, double referenceTotalW2, double sampleW, double sampleTotalW, double sampleTotalW2)
+    {
+        var fr = referenceTotalW > 0 ? referenceW / referenceTotalW : 0;
+        var fs = sampleTotalW > 0 ? sampleW / sampleTotalW : 0;
+        var nr = referenceTotalW2 > 0 ? referenceTotalW * referenceTotalW / referenceTotalW2 : 0;
+        var ns = sampleTotalW2 > 0 ? sampleTotalW * sampleTotalW / sampleTotalW2 : 0;
+        Add(Math.Abs(fs - fr), nr > 0 ? Math.Sqrt(fr * (1 - fr) / nr) : 0, ns > 0 ? Math.Sqrt(fr * (1 - fr) / ns) : 0);
+        return (fr, fs, ns);
+    }
+
     /// <summary>P-value of "the effect is within tolerance".</summary>
     public double PValue => Math.Min(1, Parts * _smallestP);
 

@@ -6,9 +6,9 @@ namespace GateTasks.Engine.Checks;
 
 /// <summary>
 /// Far tails: the fractions of events beyond the reference's 0.1% and 99.9% quantiles, sample against reference;
-/// the effect is the larger |Δ fraction| of the two. Binomial uncertainties √(f(1−f)/n) at Kish effective counts,
-/// with the reference's fraction (the better-measured) standing in for both; the 95% Clopper–Pearson (1934)
-/// interval of each sample fraction is reported alongside.
+/// the effect is the larger |Δ fraction| of the two, with the binomial errors of
+/// <see cref="EffectIntersection.AddFraction"/>; the 95% Clopper–Pearson (1934) interval of each sample fraction is
+/// reported alongside.
 /// </summary>
 internal static class FarTailCheck
 {
@@ -23,15 +23,10 @@ internal static class FarTailCheck
             new("low_threshold", InvariantNumber.Exact(r.Low)), new("high_threshold", InvariantNumber.Exact(r.High)),
         };
         var worst = 0.0;
-        foreach (var (side, rw, sw, sw2) in new[] { ("below", r.BelowW, s.BelowW, s.BelowW2), ("above", r.AboveW, s.AboveW, s.AboveW2) })
+        foreach (var (side, rw, sw) in new[] { ("below", r.BelowW, s.BelowW), ("above", r.AboveW, s.AboveW) })
         {
-            var fr = r.TotalW > 0 ? rw / r.TotalW : 0;
-            var fs = s.TotalW > 0 ? sw / s.TotalW : 0;
-            var nr = r.TotalW2 > 0 ? r.TotalW * r.TotalW / r.TotalW2 : 0;
-            var ns = s.TotalW2 > 0 ? s.TotalW * s.TotalW / s.TotalW2 : 0;
-            var d = Math.Abs(fs - fr);
-            worst = Math.Max(worst, d);
-            effect.Add(d, nr > 0 ? Math.Sqrt(fr * (1 - fr) / nr) : 0, ns > 0 ? Math.Sqrt(fr * (1 - fr) / ns) : 0);
+            var (fr, fs, ns) = effect.AddFraction(rw, r.TotalW, r.TotalW2, sw, s.TotalW, s.TotalW2);
+            worst = Math.Max(worst, Math.Abs(fs - fr));
             var k = (long)Math.Round(fs * ns);
             var (lo, hi) = Statistics.BinomialInterval.ClopperPearson(Math.Max(0, k), Math.Max((long)Math.Round(ns), 1), 0.95);
             details.Add(new($"fraction_{side}_reference", InvariantNumber.Exact(fr)));

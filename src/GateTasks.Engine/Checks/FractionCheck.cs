@@ -6,9 +6,9 @@ namespace GateTasks.Engine.Checks;
 
 /// <summary>
 /// Absolute fraction differences: of the declared spike of a continuous feature (its share of all non-NaN events),
-/// or of every category of a discrete feature; the effect is the largest |f_sample − f_reference|. Each fraction's
-/// standard error is the binomial √(f(1−f)/n) at the Kish (1965) effective count, the normal approximation that
-/// Wilson's (1927) interval refines; the decision is <see cref="EffectIntersection"/>'s over the parts.
+/// or of every category of a discrete feature; the effect is the largest |f_sample − f_reference|, each fraction
+/// with the binomial error of <see cref="EffectIntersection.AddFraction"/> (the normal approximation that Wilson's
+/// 1927 interval refines).
 /// </summary>
 internal static class FractionCheck
 {
@@ -22,16 +22,8 @@ internal static class FractionCheck
 
         void Part(string name, double refW, double refTotal, double refTotalW2, double sampleW, double sampleTotal, double sampleTotalW2)
         {
-            var fr = refTotal > 0 ? refW / refTotal : 0;
-            var fs = sampleTotal > 0 ? sampleW / sampleTotal : 0;
-            var nr = refTotalW2 > 0 ? refTotal * refTotal / refTotalW2 : 0;
-            var ns = sampleTotalW2 > 0 ? sampleTotal * sampleTotal / sampleTotalW2 : 0;
-            // The reference's fraction stands in for both variances: it is the better-measured one under the null.
-            var seRef = nr > 0 ? Math.Sqrt(fr * (1 - fr) / nr) : 0;
-            var seSample = ns > 0 ? Math.Sqrt(fr * (1 - fr) / ns) : 0;
-            var d = Math.Abs(fs - fr);
-            worst = Math.Max(worst, d);
-            effect.Add(d, seRef, seSample);
+            var (fr, fs, _) = effect.AddFraction(refW, refTotal, refTotalW2, sampleW, sampleTotal, sampleTotalW2);
+            worst = Math.Max(worst, Math.Abs(fs - fr));
             details.Add(new($"fraction_{name}_reference", InvariantNumber.Exact(fr)));
             details.Add(new($"fraction_{name}_sample", InvariantNumber.Exact(fs)));
         }

@@ -34,18 +34,9 @@ internal static class ReferenceBuilder
 
         // Pass 1: ranges and moments.
         var stats = features.Select(_ => new FeatureStatistics()).ToArray();
-        var spikes = features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
         var jointIndex = contract.Joint?.Features.Select(name => features.ToList().FindIndex(f => f.Name == name)).ToArray();
         var joint = contract.Joint is { } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
-        var totals = SampleStream.Run(sample, columns, weightColumn, (i, values, weights) =>
-        {
-            if (spikes[i] is { } spike)
-            {
-                var (v, w) = spike.Apply(values, weights);
-                stats[i].Add(v.Span, w.Span);
-            }
-            else stats[i].Add(values, weights);
-        }, view => joint?.Add(view));
+        var totals = SampleStream.Run(sample, columns, weightColumn, (i, values, weights) => stats[i].Add(values, weights), view => joint?.Add(view));
         if (totals.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty, $"The reference sample has no events ({string.Join(", ", files)}).",
                 new SourceLocation(files[0]));
@@ -77,17 +68,8 @@ internal static class ReferenceBuilder
                 _ => null,
             };
         }
-        // Second pass: its own spike filters, whose tallies repeat the first pass's and are dropped.
-        var secondPass = features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
         SampleStream.Run(sample, columns, weightColumn, (i, values, weights) =>
         {
-            if (secondPass[i] is { } spike)
-            {
-                var (v, w) = spike.Apply(values, weights);
-                grids[i]?.Fine.Fill(v.Span, w.Span);
-                direct[i]?.Fill(v.Span, w.Span);
-                return;
-            }
             grids[i]?.Fine.Fill(values, weights);
             direct[i]?.Fill(values, weights);
         });
@@ -104,7 +86,7 @@ internal static class ReferenceBuilder
             var quantiles = grid is null
                 ? new List<QuantilePoint>()
                 : probabilities.Select(p => new QuantilePoint(p, grid.Quantile(p))).ToList();
-            result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.ReferenceRequest, histogram, stats[i].Summary(), quantiles, spikes[i]?.Tally));
+            result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.ReferenceRequest, histogram, stats[i].Summary(), quantiles, totals.Spikes[i]));
         }
 
         // Third pass, only when needed: Spearman's ranks need the final marginals, far-tail counts the final quantiles.
@@ -117,17 +99,7 @@ internal static class ReferenceBuilder
             var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
                 new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram),
                 p.Chi2 is null ? null : new Histogram2D(result[index[p.First]].Histogram.Axis, result[index[p.Second]].Histogram.Axis))).ToList();
-            var thirdPass = features.Select(f => f.Spike is { } v ? new SpikeFilter(v) : null).ToArray();
-            SampleStream.Run(sample, columns, weightColumn, (i, values, weights) =>
-            {
-                if (farTail[i] is not { } counter) return;
-                if (thirdPass[i] is { } spike)
-                {
-                    var (v, w) = spike.Apply(values, weights);
-                    counter.Add(v.Span, w.Span);
-                }
-                else counter.Add(values, weights);
-            }, view =>
+            SampleStream.Run(sample, columns, weightColumn, (i, values, weights) => farTail[i]?.Add(values, weights), view =>
             {
                 foreach (var p in pairs) p.Add(view);
             });

@@ -5,13 +5,13 @@ namespace GateTasks.Engine.Samples;
 /// <summary>Receives one feature's values of one batch, with the batch's weights (empty: unit weights).</summary>
 internal delegate void FeatureBatch(int feature, ReadOnlySpan<double> values, ReadOnlySpan<double> weights);
 
-/// <summary>Event totals of one pass over a sample (events that passed the selection).</summary>
-internal readonly record struct SampleTotals(long Events, double SumW, double SumW2);
+/// <summary>Event totals of one pass over a sample (events that passed the selection), and per feature its spike tally (null without a spike).</summary>
+internal readonly record struct SampleTotals(long Events, double SumW, double SumW2, IReadOnlyList<References.SpikeTally?> Spikes);
 
 /// <summary>
 /// One streamed pass over a sample: reads each needed column once per batch, evaluates derived features
-/// column-wise, applies the selection, rejects non-finite weights, and hands every feature's values to the
-/// visitor. Buffers are reused across batches, so memory is bounded by the batch size.
+/// column-wise, applies the selection, rejects non-finite weights, tallies declared spike values apart, and hands
+/// every feature's remaining values to the visitor (the whole-batch view keeps the spikes). Buffers are reused across batches, so memory is bounded by the batch size.
 /// </summary>
 internal static class SampleStream
 {
@@ -37,6 +37,7 @@ internal static class SampleStream
         var ownValues = new double[]?[n];
         var ownWeights = new double[]?[n];
         var ownRows = new int[n];
+        var spikes = inputs.Spikes.Select(v => v is { } value ? new SpikeFilter(value) : null).ToArray();
 
         long events = 0, read = 0;
         double sumW = 0, sumW2 = 0;
@@ -133,11 +134,18 @@ internal static class SampleStream
             events += kept;
             for (var i = 0; i < n; i++)
             {
-                if (inputs.Conditions[i] is null) visit(i, frame.Feature(i), weights);
-                else visit(i, ownValues[i].AsSpan(0, ownRows[i]), weightIndex >= 0 ? ownWeights[i].AsSpan(0, ownRows[i]) : ReadOnlySpan<double>.Empty);
+                var values = inputs.Conditions[i] is null ? frame.Feature(i) : ownValues[i].AsSpan(0, ownRows[i]);
+                var featureWeights = inputs.Conditions[i] is null ? weights
+                    : weightIndex >= 0 ? ownWeights[i].AsSpan(0, ownRows[i]) : ReadOnlySpan<double>.Empty;
+                if (spikes[i] is { } spike)
+                {
+                    var (v, w) = spike.Apply(values, featureWeights);
+                    visit(i, v.Span, w.Span);
+                }
+                else visit(i, values, featureWeights);
             }
             afterEachBatch?.Invoke(frame);
         }
-        return new SampleTotals(events, sumW, sumW2);
+        return new SampleTotals(events, sumW, sumW2, spikes.Select(f => f?.Tally).ToList());
     }
 }
