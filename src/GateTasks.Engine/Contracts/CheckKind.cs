@@ -40,6 +40,9 @@ internal enum CheckKind
     /// <summary>Largest shift of the core's bounding quantiles and the median, in units of σ_reference.</summary>
     QuantileShift,
 
+    /// <summary>|IQR_surrogate/IQR_reference − 1|: a robust width (resolution) change.</summary>
+    InterquartileWidthRatio,
+
     /// <summary>Largest |Δ fraction| beyond the reference's 0.1% and 99.9% quantiles.</summary>
     FarTail,
 

@@ -87,6 +87,7 @@ internal static class ContractKeys
         ("mean-shift-max", CheckKind.MeanShift),
         ("width-ratio-max", CheckKind.WidthRatio),
         ("quantile-shift-max", CheckKind.QuantileShift),
+        ("iqr-width-ratio-max", CheckKind.InterquartileWidthRatio),
         ("fraction-max", CheckKind.Fraction),
         ("far-tail-max", CheckKind.FarTail),
     ];

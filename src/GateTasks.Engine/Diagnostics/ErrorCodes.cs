@@ -89,6 +89,8 @@ public static class ErrorCodes
     public const string DriftJoint = "GATE3018";
     /// <summary>The χ² test of a declared pair's 2-D histograms significant at the family-wise level.</summary>
     public const string DriftChiSquare2D = "GATE3019";
+    /// <summary>Interquartile width ratio shown outside tolerance.</summary>
+    public const string DriftInterquartileWidth = "GATE3020";
     /// <summary>A check the sample is too small to decide (an error or a warning, by the contract's policy).</summary>
     public const string Inconclusive = "GATE3100";
 }

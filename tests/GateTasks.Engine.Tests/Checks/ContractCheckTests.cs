@@ -384,6 +384,7 @@ public sealed class ContractCheckTests : IDisposable
                 binning: { bins: 20 }
                 checks:
                   width-ratio-max: 0.02
+                  iqr-width-ratio-max: 0.02
                   quantile-shift-max: 0.05
                 categories:
                   by: min(floor(e_gen / 25), 7)
@@ -412,6 +413,11 @@ public sealed class ContractCheckTests : IDisposable
         var report = ContractCheck.Run(contract);
         var failed = report.Outcomes.Where(o => o.Verdict == Verdict.Fail).Select(o => $"{o.Feature.Name} {o.Check.Label}").ToList();
         Assert.Contains("response[category=3] width-ratio-max", failed);
+        // The interquartile width sees the same 5% (it is robust, not blind), but with 37% of σ's efficiency it cannot
+        // yet fail at 25 000 events per bin: inconclusive, never a pass.
+        var robust = report.Outcomes.Single(o => o.Feature.Name == "response[category=3]" && o.Check.Kind == CheckKind.InterquartileWidthRatio);
+        Assert.NotEqual(Verdict.Pass, robust.Verdict);
+        Assert.InRange(robust.Measured.Estimate, 0.02, 0.08);
         Assert.All(failed, f => Assert.True(f.StartsWith("response[category=3]") || f.StartsWith("response "), f));
         Assert.All(report.Outcomes.Where(o => o.Feature.Name.StartsWith("response[category=") && !o.Feature.Name.EndsWith("=3]")),
             o => Assert.NotEqual(Verdict.Fail, o.Verdict));
