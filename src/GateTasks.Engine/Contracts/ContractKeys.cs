@@ -51,6 +51,8 @@ internal static class ContractKeys
     public const string Subsample = "subsample";
     public const string Permutations = "permutations";
     public const string PairFeatures = "features";
+    /// <summary>A correlation entry's <c>features: all</c>: every pair of the contract's features.</summary>
+    public const string AllPairs = "all";
     public const string PearsonMax = "pearson-max";
     public const string SpearmanMax = "spearman-max";
     public const string Chi2Test2D = "chi2-2d-test";

@@ -237,17 +237,8 @@ internal static class ContractLoader
         {
             var mapping = r.Mapping(item, "A correlation entry");
             var entries = r.Entries(mapping, "a correlation entry", ContractKeys.CorrelationKeys).ToDictionary(e => e.Key, e => e.Value);
-            var pairNode = r.Sequence(r.Require(mapping, ContractKeys.PairFeatures, "A correlation entry"), "features");
-            if (pairNode.Children.Count != 2)
-                throw r.Error(ErrorCodes.ContractBadValue, pairNode, "A correlation entry names exactly two features, [first, second].");
-            var pair = pairNode.Children.Select(n =>
-            {
-                var name = r.String(n, "A feature of the pair");
-                if (!names.Contains(name))
-                    throw r.Error(ErrorCodes.ContractBadValue, n, $"'{name}' is not a feature of this contract{NearestName.Hint(name, names)}.");
-                return name;
-            }).ToArray();
-            if (pair[0] == pair[1]) throw r.Error(ErrorCodes.ContractBadValue, pairNode, "A correlation pair needs two different features.");
+            var featuresNode = r.Require(mapping, ContractKeys.PairFeatures, "A correlation entry");
+            var group = ReadCorrelationGroup(r, featuresNode, names);
             CheckSpec? Tolerance(string key, CheckKind kind)
             {
                 if (!entries.TryGetValue(key, out var v)) return null;
@@ -266,9 +257,47 @@ internal static class ContractLoader
             }
             if (pearson is null && spearman is null && chi2 is null)
                 throw r.Error(ErrorCodes.ContractMissingKey, mapping, "A correlation entry needs pearson-max, spearman-max, chi2-2d-test or several.");
-            list.Add(new CorrelationSpec(pair[0], pair[1], pearson, spearman, r.At(item), chi2));
+            // Every pair of the group, in the order listed.
+            for (var i = 0; i < group.Count; i++)
+            for (var j = i + 1; j < group.Count; j++)
+            {
+                var (first, second) = (group[i], group[j]);
+                var earlier = list.FirstOrDefault(c => (c.First, c.Second) == (first, second) || (c.First, c.Second) == (second, first));
+                if (earlier is not null)
+                    throw r.Error(ErrorCodes.ContractBadValue, featuresNode,
+                        $"The pair {first}~{second} is already declared at line {earlier.Location.Line}; declare each pair once.");
+                list.Add(new CorrelationSpec(first, second, pearson, spearman, r.At(item), chi2));
+            }
         }
         return list;
+    }
+
+    /// <summary>
+    /// The features a correlation entry covers: a list of two or more (every pair among them), or <c>all</c> (every
+    /// pair of the contract's features).
+    /// </summary>
+    private static List<string> ReadCorrelationGroup(YamlNodeReader r, YamlNode node, List<string> names)
+    {
+        if (YamlNodeReader.IsScalar(node, ContractKeys.AllPairs))
+        {
+            if (names.Count < 2) throw r.Error(ErrorCodes.ContractBadValue, node, "'all' needs a contract with at least two features.");
+            return names;
+        }
+        if (node is not YamlSequenceNode)
+            throw r.Error(ErrorCodes.ContractBadValue, node, "features of a correlation entry is a list of two or more features, [first, second, …], or 'all'.");
+        var sequence = r.Sequence(node, "features");
+        if (sequence.Children.Count < 2)
+            throw r.Error(ErrorCodes.ContractBadValue, sequence, "A correlation entry names at least two features, [first, second, …], or 'all'.");
+        var group = new List<string>();
+        foreach (var n in sequence.Children)
+        {
+            var name = r.String(n, "A feature of the pair");
+            if (!names.Contains(name))
+                throw r.Error(ErrorCodes.ContractBadValue, n, $"'{name}' is not a feature of this contract{NearestName.Hint(name, names)}.");
+            if (group.Contains(name)) throw r.Error(ErrorCodes.ContractBadValue, n, $"'{name}' is listed twice; a correlation needs different features.");
+            group.Add(name);
+        }
+        return group;
     }
 
     private static DecisionSettings ReadDecision(YamlNodeReader r, YamlNode node)

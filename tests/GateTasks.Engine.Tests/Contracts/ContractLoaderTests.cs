@@ -167,4 +167,60 @@ public class ContractLoaderTests
         Assert.Equal(ErrorCodes.ContractNotFound, e.Code);
         Assert.Contains("none.yaml", e.Message);
     }
+
+    [Fact]
+    public void A_correlation_entry_over_a_list_or_all_expands_into_every_pair_once()
+    {
+        var listed = ContractLoader.Parse(Minimal + "\n" + """
+            correlations:
+              - features: [y, x, n]
+                pearson-max: 0.02
+            """, "c.yaml");
+        Assert.Equal(["y~x", "y~n", "x~n"], listed.Pairs.Select(p => p.Name));
+        Assert.All(listed.Pairs, p => Assert.Equal(0.02, p.Pearson!.Limit));
+        Assert.All(listed.Pairs, p => Assert.Null(p.Spearman));
+
+        var all = ContractLoader.Parse(Minimal + "\n" + """
+            correlations:
+              - features: all
+                spearman-max: 0.03
+            """, "c.yaml");
+        Assert.Equal(["x~y", "x~n", "y~n"], all.Pairs.Select(p => p.Name));
+        Assert.All(all.Pairs, p => Assert.Equal(new SourceLocation("c.yaml", 20, 5), p.Location));
+    }
+
+    [Fact]
+    public void A_pair_declared_twice_or_a_feature_listed_twice_is_refused_where_it_is_written()
+    {
+        var twice = Fails(Minimal + "\n" + """
+            correlations:
+              - features: all
+                pearson-max: 0.02
+              - features: [n, x]
+                spearman-max: 0.02
+            """);
+        Assert.Equal(ErrorCodes.ContractBadValue, twice.Code);
+        Assert.Equal(new SourceLocation("c.yaml", 22, 15), twice.Location);
+        Assert.Contains("n~x is already declared at line 20", twice.Message);
+
+        var repeated = Fails(Minimal + "\n" + """
+            correlations:
+              - features: [x, y, x]
+                pearson-max: 0.02
+            """);
+        Assert.Equal(new SourceLocation("c.yaml", 20, 22), repeated.Location);
+
+        var single = Fails(Minimal + "\n" + """
+            correlations:
+              - features: [x]
+                pearson-max: 0.02
+            """);
+        Assert.Contains("at least two features", single.Message);
+        var scalar = Fails(Minimal + "\n" + """
+            correlations:
+              - features: x
+                pearson-max: 0.02
+            """);
+        Assert.Contains("or 'all'", scalar.Message);
+    }
 }
