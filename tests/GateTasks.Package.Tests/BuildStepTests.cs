@@ -62,7 +62,7 @@ public class BuildStepTests(PackageFeed feed)
         var p = GateProject.Create(feed, "DriftedGate");
         var (code, output) = p.Build("-p:GateSample=surrogate-drifted.parquet");
         Assert.NotEqual(0, code);
-        Assert.Matches(new Regex(@"precision-contract\.yaml\(35,13\): error GATE3004: feature 'm_gg' ratio-max\[core\]"), output);
+        Assert.Matches(new Regex(@"precision-contract\.yaml\(38,13\): error GATE3004: feature 'm_gg' ratio-max\[core\]"), output);
         Assert.Matches(new Regex(@"precision-contract\.yaml\(\d+,\d+\): error GATE3005: feature 'm_gg' ratio-max\[tails\]"), output);
         Assert.Contains("FAILED: 28 of 44 checks", output);
         Assert.DoesNotContain("   at ", output); // no stack trace
@@ -81,7 +81,7 @@ public class BuildStepTests(PackageFeed feed)
         var p = GateProject.Create(feed, "WarnGate");
         var (code, output) = p.Build("-p:GateSample=surrogate-drifted.parquet", "-p:GateFailuresAsWarnings=true");
         Assert.True(code == 0, output);
-        Assert.Matches(new Regex(@"precision-contract\.yaml\(35,13\): warning GATE3004"), output);
+        Assert.Matches(new Regex(@"precision-contract\.yaml\(38,13\): warning GATE3004"), output);
         Assert.DoesNotContain("error GATE3", output);
     }
 
@@ -115,7 +115,7 @@ public class BuildStepTests(PackageFeed feed)
         File.WriteAllText(contract, File.ReadAllText(contract).Replace("ks-max: 0.01", "ks-mx: 0.01"));
         var (code, output) = p.Build("-p:GateFailuresAsWarnings=true");
         Assert.NotEqual(0, code);
-        Assert.True(Regex.IsMatch(output, @"precision-contract\.yaml\(31,5\): error GATE1003: Unknown key 'ks-mx'.*did you mean 'ks-max'"), output);
+        Assert.True(Regex.IsMatch(output, @"precision-contract\.yaml\(34,5\): error GATE1003: Unknown key 'ks-mx'.*did you mean 'ks-max'"), output);
     }
 
     [Fact]

@@ -50,7 +50,7 @@ internal static class CheckCommand
         var severity = report.Contract.Decision.InconclusiveFails ? "error" : "warning";
         foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive))
             stderr.WriteLine($"{o.Check.Location}: {severity} {CheckEvaluator.InconclusiveCode}: feature '{o.Feature.Name}' {o.Check.Label} is inconclusive: {o.Summary}; " +
-                             $"{ResultTable.EventsText(o.Measured.EventsNeeded)} surrogate events needed to decide");
+                             ResultTable.NeededText(o.Measured.EventsNeeded));
         if (junitPath is not null)
         {
             JUnitReport.Write(junitPath, [report]);

@@ -7,11 +7,13 @@ namespace GateTasks.Engine.Checks;
 
 /// <summary>
 /// Shifts of the quantiles that bound the core, and of the median, in units of the reference's standard
-/// deviation: the effect is the largest |q_s(p) − q_r(p)|/σ_r. Both quantiles are read off the histograms with
-/// the same binning (linear within a bin), so binning cannot bias the comparison. Each has the asymptotic standard
-/// error √(p(1−p)/n)/f(q_p) (Serfling 1980, §2.3), f the reference histogram's density at q_p; as for the bin
-/// ratios, a pass needs every quantile's bound below the tolerance, and the fail p-value is Bonferroni-corrected
-/// over the three.
+/// deviation: the effect is the largest |q_s(p) − q_r(p)|/σ_r. The sample's quantile is taken to first order,
+/// q_s ≈ q_r − (F_s(q_r) − p)/f_r(q_r) (Bahadur 1966, Ann. Math. Statist. 37:577), from the sample's cumulative
+/// distribution at the reference quantile — an edge of equal-probability bins, so read without interpolation — and the
+/// reference density on the core's side of it; interpolating the sample's quantile inside an outermost bin, which runs
+/// to the reference's extreme value, would instead magnify a small change of the tail fraction by that bin's width.
+/// Each quantile has the asymptotic standard error √(p(1−p)/n)/f(q_p) (Serfling 1980, §2.3); as for the bin ratios,
+/// a pass needs every quantile's bound below the tolerance, and the fail p-value is Bonferroni-corrected over the three.
 /// </summary>
 internal static class QuantileShiftCheck
 {
@@ -30,9 +32,10 @@ internal static class QuantileShiftCheck
         var details = new List<KeyValuePair<string, string>>();
         foreach (var p in probabilities)
         {
-            var (qr, density) = Quantile(r, p);
-            var (qs, _) = Quantile(s, p);
+            var (qr, _) = Quantile(r, p);
+            var density = CoreSideDensity(r, qr, p);
             if (!(density > 0)) return Measurement.Impossible($"the reference histogram has no density at its {p} quantile", details);
+            var qs = qr - (Cdf(s, qr) - p) / density;
             var shift = Math.Abs(qs - qr) / sigma;
             var unit = Math.Sqrt(p * (1 - p)) / density / sigma;
             var seRef = unit / Math.Sqrt(nRef);
@@ -46,6 +49,48 @@ internal static class QuantileShiftCheck
         return effect.ToMeasurement(worst,
             $"largest quantile shift {InvariantNumber.Short(worst)} σ_ref (core bounds and median), upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
             details);
+    }
+
+    /// <summary>The histogram's normalised cumulative distribution at x (linear within a bin; underflow counted below the axis).</summary>
+    internal static double Cdf(Histogram h, double x)
+    {
+        var w = h.Storage.SumW;
+        var total = h.TotalSumW;
+        if (!(total > 0)) return double.NaN;
+        var edges = h.Axis.Edges;
+        var cumulative = w[0];
+        if (x < edges[0]) return 0;
+        for (var b = 0; b < h.Axis.Count; b++)
+        {
+            if (x < edges[b + 1]) return (cumulative + w[b + 1] * (x - edges[b]) / (edges[b + 1] - edges[b])) / total;
+            cumulative += w[b + 1];
+        }
+        return cumulative / total;
+    }
+
+    /// <summary>
+    /// The reference density at its p-quantile q, from the bin on the core's side: above q for p &lt; ½, below for
+    /// p &gt; ½, the mean of both for the median; an outermost bin (which runs to the extreme value) only when no
+    /// other bin touches q.
+    /// </summary>
+    internal static double CoreSideDensity(Histogram h, double q, double p)
+    {
+        var count = h.Axis.Count;
+        double Density(int b) => b >= 0 && b < count ? h.Storage.SumW[b + 1] / h.TotalSumW / (h.Axis.Upper(b) - h.Axis.Lower(b)) : 0;
+        var k = h.Axis.Edges.BinarySearch(q);
+        if (k < 0)
+        {
+            var b = ~k - 1; // q inside bin b
+            if (b == 0 && count > 1 && p < 0.5) return Density(1) > 0 ? Density(1) : Density(0);
+            if (b == count - 1 && count > 1 && p > 0.5) return Density(count - 2) > 0 ? Density(count - 2) : Density(count - 1);
+            return Density(b);
+        }
+        // q is edge k: bins k − 1 (below) and k (above).
+        if (p < 0.5) return Density(k) > 0 ? Density(k) : Density(k - 1);
+        if (p > 0.5) return Density(k - 1) > 0 ? Density(k - 1) : Density(k);
+        var below = Density(k - 1);
+        var above = Density(k);
+        return below > 0 && above > 0 ? (below + above) / 2 : Math.Max(below, above);
     }
 
     /// <summary>The p-quantile of a histogram (linear within its bin) and the density there; flows sit at the axis ends.</summary>

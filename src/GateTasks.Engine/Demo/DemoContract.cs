@@ -1,11 +1,15 @@
 namespace GateTasks.Engine.Demo;
 
-/// <summary>The commented precision contract the demo writes next to its samples.</summary>
+/// <summary>The commented precision contracts the demo writes next to its samples, one per surrogate kind.</summary>
 internal static class DemoContract
 {
     public const string FileName = "precision-contract.yaml";
     public const string ReferenceFileName = "reference/fullsim-reference.parquet";
 
+    /// <summary>The contract of a demo kind.</summary>
+    public static string For(DemoKind kind) => kind == DemoKind.Response ? ResponseText : Text;
+
+    /// <summary>The unconditional (generator) surrogate's contract: every kind of check the gate has, on reco-level features.</summary>
     public const string Text = """
         # Precision contract for the GateTasks demo: a surrogate of the toy full simulation of
         # Φ(95) → γγ over the diphoton continuum. Every tolerance below is what this demo analysis
@@ -22,6 +26,9 @@ internal static class DemoContract
         # Reference histograms built from the trusted full simulation with
         #   gatetasks reference build --from fullsim.parquet
         reference: reference/fullsim-reference.parquet
+
+        # The analysis's mass window, applied to reference and sample alike before anything is filled.
+        selection: "m_gg > 65 and m_gg < 180"
 
         # How verdicts are reached: a check passes when the upper end of its 95% confidence interval is
         # below the tolerance, and fails when its p-value, Holm-corrected over all checks, is at most 1%
@@ -47,23 +54,111 @@ internal static class DemoContract
         features:
           - name: m_gg              # the diphoton mass the analysis fits: more bins (narrow ones at the peak)
             binning: { bins: 30 }
+            regions:
+              peak: [93, 97]        # the signal window, held tighter than the rest of the core
             checks:
-              ratio-max: { tails: 0.08 }
+              ratio-max: { tails: 0.08, peak: 0.02 }
               mean-shift-max: 0.01  # the peak position and width the fit relies on
               width-ratio-max: 0.01
+              far-tail-max: 0.001   # events beyond the reference's 0.1% / 99.9% quantiles
           - name: pt_gg
+            binning: { bins: 10 }   # coarser, so each jet category below has enough events per bin
+            checks:
+              ks-max: 0.015
+              ratio-max: { core: 0.05, tails: 0.12 }
+              far-tail-max: 0.001
+            categories:             # the same checks per jet multiplicity, and each category's share
+              by: min(n_jets, 2)
+              values: [0, 1, 2]     # 0, 1 and ≥ 2 jets
+              fraction-max: 0.01
           - name: e_lead
           - name: e_sublead
           - name: eta_lead
           - name: eta_sublead
           - name: cos_theta_star
+          - name: et_ratio          # derived: E_T of the subleading photon over that of the leading one
+            expression: (e_sublead / cosh(eta_sublead)) / (e_lead / cosh(eta_lead))
+          - name: delta_phi         # derived: azimuthal opening angle, folded into [0, π]
+            expression: abs(atan2(sin(phi_lead - phi_sublead), cos(phi_lead - phi_sublead)))
+          - name: jet1_pt           # leading-jet p_T: exactly 0 when there is no jet
+            spike: 0                # the share of zeros is checked on its own; the other checks see the rest
+            checks:
+              fraction-max: 0.01
           - name: n_jets            # jet multiplicity: one bin per value
             kind: discrete
+            checks:
+              fraction-max: 0.01    # every multiplicity's share
           - name: converted         # leading photon converted (0/1): a discrete fraction
             kind: discrete
             checks:
-              ks-max: off           # a two-valued flag: the ratio and χ² say it all
+              ks-max: off           # a two-valued flag: the fractions, ratio and χ² say it all
               wasserstein-max: off
               ratio-max: 0.03       # both categories are in the core, so one tolerance for all
+              fraction-max: 0.01
+
+        # Correlations the analysis relies on: every pair among the three energies, and the mass against
+        # the diphoton p_T as a 2-D histogram.
+        correlations:
+          - features: [e_lead, e_sublead, pt_gg]
+            pearson-max: 0.02
+            spearman-max: 0.02
+          - features: [m_gg, pt_gg]
+            chi2-2d-test: on
+
+        # One multivariate test, so a broken joint structure fails even where every marginal passes.
+        joint:
+          features: [m_gg, pt_gg, cos_theta_star, et_ratio]
+          energy-test: on
+          subsample: 1000
+        """;
+
+    /// <summary>The response surrogate's contract: reco/gen in bins of the true energy.</summary>
+    public const string ResponseText = """
+        # Precision contract for the GateTasks demo's fast detector response: a model that takes each
+        # generator-level photon and returns the reconstructed one. What it must get right is the
+        # response as a function of the true energy, so the checks run on reco/gen and reco − gen in
+        # bins of the generator-level energy.
+        contract-version: 1
+        title: demo-diphoton-response
+
+        sample:
+          path: surrogate-faithful.parquet
+          weight: weight
+        reference: reference/fullsim-reference.parquet
+
+        decision:
+          confidence: 0.95
+          false-alarm: 0.01
+          correction: holm
+          inconclusive: fail
+
+        defaults:
+          binning: { bins: 30, spacing: quantile }
+          core: 0.90
+
+        features:
+          - name: response_lead             # scale and resolution of the leading photon
+            expression: e_lead / e_lead_true
+            binning: { bins: 20 }           # each true-energy bin below holds 5–30% of the events
+            checks:
+              quantile-shift-max: 0.10      # scale: median and core bounds, in units of σ_response
+              width-ratio-max: 0.02         # resolution: σ of the response
+              iqr-width-ratio-max: 0.03     # resolution of the core alone: IQR/1.349
+              ks-max: 0.02                  # the whole response distribution
+              ratio-max: { core: 0.10, tails: 0.25 }
+            categories:                     # per bin of the true energy
+              by: min(floor(e_lead_true / 25), 5)
+              values: [1, 2, 3, 4, 5]       # 25–50, 50–75, 75–100, 100–125, ≥ 125 GeV (E_T > 20 GeV leaves 0–25 empty)
+          - name: residual_sublead          # reco − gen of the other photon, where an absolute offset matters
+            expression: e_sublead - e_sublead_true
+            checks:
+              mean-shift-max: 0.02
+              width-ratio-max: 0.02
+          - name: m_gg                      # the response must still give the right mass distribution
+            binning: { bins: 40 }
+            checks:
+              ks-max: 0.01
+              mean-shift-max: 0.01
+              width-ratio-max: 0.02
         """;
 }

@@ -17,9 +17,14 @@ internal sealed class DemoEventChunk
         EnergySublead = new float[capacity];
         EtaLead = new float[capacity];
         EtaSublead = new float[capacity];
+        PhiLead = new float[capacity];
+        PhiSublead = new float[capacity];
         CosThetaStar = new float[capacity];
         JetCount = new int[capacity];
+        LeadJetPt = new float[capacity];
         LeadConverted = new int[capacity];
+        EnergyLeadTrue = new float[capacity];
+        EnergySubleadTrue = new float[capacity];
         Weight = new float[capacity];
     }
 
@@ -41,10 +46,20 @@ internal sealed class DemoEventChunk
     public float[] EtaLead { get; }
     /// <summary><see cref="DemoColumns.EtaSublead"/>.</summary>
     public float[] EtaSublead { get; }
+    /// <summary><see cref="DemoColumns.PhiLead"/>.</summary>
+    public float[] PhiLead { get; }
+    /// <summary><see cref="DemoColumns.PhiSublead"/>.</summary>
+    public float[] PhiSublead { get; }
     /// <summary><see cref="DemoColumns.CosThetaStar"/>.</summary>
     public float[] CosThetaStar { get; }
     /// <summary><see cref="DemoColumns.JetCount"/>.</summary>
     public int[] JetCount { get; }
+    /// <summary><see cref="DemoColumns.LeadJetPt"/>.</summary>
+    public float[] LeadJetPt { get; }
+    /// <summary><see cref="DemoColumns.EnergyLeadTrue"/>.</summary>
+    public float[] EnergyLeadTrue { get; }
+    /// <summary><see cref="DemoColumns.EnergySubleadTrue"/>.</summary>
+    public float[] EnergySubleadTrue { get; }
     /// <summary><see cref="DemoColumns.LeadConverted"/>.</summary>
     public int[] LeadConverted { get; }
     /// <summary><see cref="DemoColumns.Weight"/>.</summary>

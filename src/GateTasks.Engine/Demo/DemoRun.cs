@@ -8,9 +8,11 @@ namespace GateTasks.Engine.Demo;
 
 /// <summary>
 /// The built-in demo: writes a toy full simulation, a faithful and a drifted surrogate sample, a commented contract,
-/// builds the reference and checks both samples. All seeds are fixed, so every run gives the same numbers.
+/// builds the reference and checks both samples. All seeds are fixed, so every run gives the same numbers. The
+/// response kind keeps the full simulation and the faithful sample, and makes the drifted one a detector response
+/// whose resolution is 5% worse in one range of true energy.
 /// </summary>
-internal sealed class DemoRun(string folder)
+internal sealed class DemoRun(string folder, DemoKind kind = DemoKind.Generator)
 {
     public const int ReferenceEvents = 3_000_000;
     public const int SurrogateEvents = 1_000_000;
@@ -19,6 +21,7 @@ internal sealed class DemoRun(string folder)
     public const int DriftedSeed = 3003;
 
     public string Folder { get; } = Path.GetFullPath(folder);
+    public DemoKind Kind { get; } = kind;
     public string ContractPath => Path.Combine(Folder, DemoContract.FileName);
     public string FullSimulationPath => Path.Combine(Folder, "fullsim.parquet");
     public string FaithfulPath => Path.Combine(Folder, "surrogate-faithful.parquet");
@@ -33,9 +36,12 @@ internal sealed class DemoRun(string folder)
         Parallel.Invoke(
             () => DemoSampleWriter.Write(FullSimulationPath, DemoScenarioParameters.FullSimulation, ReferenceEvents, ReferenceSeed, DemoSampleWriter.DefaultRowGroupSize),
             () => DemoSampleWriter.Write(FaithfulPath, DemoScenarioParameters.FullSimulation, SurrogateEvents, FaithfulSeed, DemoSampleWriter.DefaultRowGroupSize),
-            () => DemoSampleWriter.Write(DriftedPath, DemoScenarioParameters.Drifted, SurrogateEvents, DriftedSeed, DemoSampleWriter.DefaultRowGroupSize));
-        AtomicFile.WriteText(ContractPath, DemoContract.Text);
+            () => DemoSampleWriter.Write(DriftedPath, DriftedScenario, SurrogateEvents, DriftedSeed, DemoSampleWriter.DefaultRowGroupSize));
+        AtomicFile.WriteText(ContractPath, DemoContract.For(Kind));
     }
+
+    /// <summary>What the drifted surrogate got wrong.</summary>
+    public DemoScenarioParameters DriftedScenario => Kind == DemoKind.Response ? DemoScenarioParameters.DegradedResponse : DemoScenarioParameters.Drifted;
 
     /// <summary>Builds the reference from the full simulation under the contract.</summary>
     public ReferenceHistograms BuildReference()

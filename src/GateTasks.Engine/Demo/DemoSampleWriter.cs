@@ -19,14 +19,20 @@ internal static class DemoSampleWriter
     private static readonly DataField<float> EnergySublead = new(DemoColumns.EnergySublead, false);
     private static readonly DataField<float> EtaLead = new(DemoColumns.EtaLead, false);
     private static readonly DataField<float> EtaSublead = new(DemoColumns.EtaSublead, false);
+    private static readonly DataField<float> PhiLead = new(DemoColumns.PhiLead, false);
+    private static readonly DataField<float> PhiSublead = new(DemoColumns.PhiSublead, false);
     private static readonly DataField<float> CosThetaStar = new(DemoColumns.CosThetaStar, false);
     private static readonly DataField<int> JetCount = new(DemoColumns.JetCount, false);
+    private static readonly DataField<float> LeadJetPt = new(DemoColumns.LeadJetPt, false);
     private static readonly DataField<int> LeadConverted = new(DemoColumns.LeadConverted, false);
+    private static readonly DataField<float> EnergyLeadTrue = new(DemoColumns.EnergyLeadTrue, false);
+    private static readonly DataField<float> EnergySubleadTrue = new(DemoColumns.EnergySubleadTrue, false);
     private static readonly DataField<float> Weight = new(DemoColumns.Weight, false);
 
     /// <summary>The file schema, fields in <see cref="DemoColumns.All"/> order.</summary>
     public static ParquetSchema Schema { get; } = new(
-        MassGg, PtGg, EnergyLead, EnergySublead, EtaLead, EtaSublead, CosThetaStar, JetCount, LeadConverted, Weight);
+        MassGg, PtGg, EnergyLead, EnergySublead, EtaLead, EtaSublead, PhiLead, PhiSublead, CosThetaStar, JetCount, LeadJetPt,
+        LeadConverted, EnergyLeadTrue, EnergySubleadTrue, Weight);
 
     /// <summary>
     /// Generates <paramref name="events"/> selected events of scenario <paramref name="p"/> with
@@ -84,9 +90,14 @@ internal static class DemoSampleWriter
         await group.WriteAsync<float>(EnergySublead, chunk.EnergySublead.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
         await group.WriteAsync<float>(EtaLead, chunk.EtaLead.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
         await group.WriteAsync<float>(EtaSublead, chunk.EtaSublead.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
+        await group.WriteAsync<float>(PhiLead, chunk.PhiLead.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
+        await group.WriteAsync<float>(PhiSublead, chunk.PhiSublead.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
         await group.WriteAsync<float>(CosThetaStar, chunk.CosThetaStar.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
         await group.WriteAsync<int>(JetCount, chunk.JetCount.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
+        await group.WriteAsync<float>(LeadJetPt, chunk.LeadJetPt.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
         await group.WriteAsync<int>(LeadConverted, chunk.LeadConverted.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
+        await group.WriteAsync<float>(EnergyLeadTrue, chunk.EnergyLeadTrue.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
+        await group.WriteAsync<float>(EnergySubleadTrue, chunk.EnergySubleadTrue.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
         await group.WriteAsync<float>(Weight, chunk.Weight.AsMemory(0, n), null, null, ct).ConfigureAwait(false);
     }
 }

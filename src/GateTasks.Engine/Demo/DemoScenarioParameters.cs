@@ -27,9 +27,14 @@ namespace GateTasks.Engine.Demo;
 /// <param name="JetMultiplicityBase">Mean of the Poisson jet count at zero diphoton p_T.</param>
 /// <param name="JetMultiplicityPerGeV">Increase of that mean per GeV of diphoton p_T.</param>
 /// <param name="MaxJets">The jet count is capped here (the last bin means "this many or more").</param>
+/// <param name="JetPtThreshold">Smallest leading-jet p_T; above it the spectrum falls exponentially.</param>
+/// <param name="JetPtSlope">Mean leading-jet p_T above the threshold at zero diphoton p_T; half of p_T(γγ) adds to it.</param>
 /// <param name="WeightShape">Generator weights follow Gamma(k, k): mean 1, relative spread 1/√k.</param>
 /// <param name="TailThinningMassThreshold">Reconstructed m_γγ above which events are thinned.</param>
 /// <param name="TailThinningFraction">Fraction of events above the threshold that are dropped (0 = none).</param>
+/// <param name="DegradedEnergyMin">Lower edge of the true photon energy range whose resolution a response surrogate got wrong.</param>
+/// <param name="DegradedEnergyMax">Upper edge (exclusive) of that range.</param>
+/// <param name="DegradedResolutionFactor">Factor on σ/E inside that range (1 = the nominal detector).</param>
 internal sealed record DemoScenarioParameters(
     double ResonanceMass,
     double ResonanceWidth,
@@ -54,9 +59,14 @@ internal sealed record DemoScenarioParameters(
     double JetMultiplicityBase,
     double JetMultiplicityPerGeV,
     int MaxJets,
+    double JetPtThreshold,
+    double JetPtSlope,
     double WeightShape,
     double TailThinningMassThreshold,
-    double TailThinningFraction)
+    double TailThinningFraction,
+    double DegradedEnergyMin = 0,
+    double DegradedEnergyMax = 0,
+    double DegradedResolutionFactor = 1)
 {
     /// <summary>The nominal detector: what the reference ("full simulation") sample is made with.</summary>
     public static DemoScenarioParameters FullSimulation { get; } = new(
@@ -83,6 +93,8 @@ internal sealed record DemoScenarioParameters(
         JetMultiplicityBase: 0.5,
         JetMultiplicityPerGeV: 1.0 / 30.0,
         MaxJets: 5,
+        JetPtThreshold: 25.0,
+        JetPtSlope: 10.0,
         WeightShape: 40.0,
         TailThinningMassThreshold: 120.0,
         TailThinningFraction: 0.0);
@@ -97,12 +109,24 @@ internal sealed record DemoScenarioParameters(
         TailThinningFraction = 0.40,
     };
 
+    /// <summary>
+    /// A fast detector response (generator-level photons in, reconstructed ones out) that got the energy resolution
+    /// 5% worse for photons of true energy 50–75 GeV, and right everywhere else.
+    /// </summary>
+    public static DemoScenarioParameters DegradedResponse { get; } = FullSimulation with
+    {
+        DegradedEnergyMin = 50.0,
+        DegradedEnergyMax = 75.0,
+        DegradedResolutionFactor = 1.05,
+    };
+
     /// <summary>Relative energy resolution σ/E for one photon of true energy <paramref name="energy"/> (GeV).</summary>
     // σ/E = a/√E ⊕ b/E ⊕ c with ⊕ addition in quadrature: the standard calorimeter parametrisation
     // (Review of Particle Physics, "Calorimetry" section).
     public double RelativeEnergyResolution(double energy, bool converted)
     {
         var a = converted ? StochasticTerm * ConvertedStochasticScale : StochasticTerm;
-        return Math.Sqrt(a * a / energy + NoiseTerm * NoiseTerm / (energy * energy) + ConstantTerm * ConstantTerm);
+        var nominal = Math.Sqrt(a * a / energy + NoiseTerm * NoiseTerm / (energy * energy) + ConstantTerm * ConstantTerm);
+        return energy >= DegradedEnergyMin && energy < DegradedEnergyMax ? nominal * DegradedResolutionFactor : nominal;
     }
 }

@@ -140,6 +140,7 @@ internal sealed class ToyDiphotonSimulation
             (phi1, phi2) = (phi2, phi1);
             (conv1, conv2) = (conv2, conv1);
             (et1, et2) = (et2, et1);
+            (e1, e2) = (e2, e1);
         }
 
         // Reconstructed (massless) photons.
@@ -170,6 +171,8 @@ internal sealed class ToyDiphotonSimulation
 
         var jetMean = p.JetMultiplicityBase + p.JetMultiplicityPerGeV * recoPt;
         var jets = Math.Min(Poisson.Sample(rng, jetMean), p.MaxJets);
+        // The leading jet recoils against the diphoton system: its p_T above the threshold grows with p_T(γγ).
+        var jetPt = jets > 0 ? p.JetPtThreshold - Math.Log(1 - rng.NextDouble()) * (p.JetPtSlope + 0.5 * recoPt) : 0.0;
         var weight = Gamma.Sample(rng, p.WeightShape, p.WeightShape);
 
         chunk.MassGg[row] = (float)recoMass;
@@ -178,9 +181,14 @@ internal sealed class ToyDiphotonSimulation
         chunk.EnergySublead[row] = (float)recoE2;
         chunk.EtaLead[row] = (float)eta1;
         chunk.EtaSublead[row] = (float)eta2;
+        chunk.PhiLead[row] = (float)phi1;
+        chunk.PhiSublead[row] = (float)phi2;
         chunk.CosThetaStar[row] = (float)cosThetaStar;
         chunk.JetCount[row] = jets;
+        chunk.LeadJetPt[row] = (float)jetPt;
         chunk.LeadConverted[row] = conv1 ? 1 : 0;
+        chunk.EnergyLeadTrue[row] = (float)e1;
+        chunk.EnergySubleadTrue[row] = (float)e2;
         chunk.Weight[row] = (float)weight;
         return true;
     }
@@ -204,6 +212,9 @@ internal sealed class ToyDiphotonSimulation
         recoE = e * (1 + resolution * Normal.Sample(rng, 0.0, 1.0));
         eta = trueEta + p.EtaSmearing * Normal.Sample(rng, 0.0, 1.0);
         phi = truePhi + p.PhiSmearing * Normal.Sample(rng, 0.0, 1.0);
+        // Wrapped into (−π, π], so the column has one convention.
+        if (phi > Math.PI) phi -= 2 * Math.PI;
+        else if (phi <= -Math.PI) phi += 2 * Math.PI;
         return recoE > 0 && Math.Abs(eta) < p.EtaAcceptance && recoE / Math.Cosh(eta) > p.MinTransverseEnergy;
     }
 
@@ -233,6 +244,8 @@ internal sealed class ToyDiphotonSimulation
         Require(p.MinTransverseEnergy >= 0, "MinTransverseEnergy must not be negative");
         Require(p.JetMultiplicityBase > 0 && p.JetMultiplicityPerGeV >= 0, "jet multiplicity mean must be positive");
         Require(p.MaxJets >= 0, "MaxJets must not be negative");
+        Require(p.JetPtThreshold > 0 && p.JetPtSlope > 0, "jet p_T threshold and slope must be positive");
+        Require(p.DegradedResolutionFactor > 0 && p.DegradedEnergyMax >= p.DegradedEnergyMin, "resolution degradation out of range");
         Require(p.WeightShape > 0, "WeightShape must be positive");
         Require(p.TailThinningFraction is >= 0 and < 1, "TailThinningFraction must be within [0, 1)");
     }

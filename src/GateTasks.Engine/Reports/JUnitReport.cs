@@ -103,7 +103,7 @@ internal static class JUnitReport
             if (counted)
             {
                 var code = o.Verdict == Verdict.Fail ? CheckEvaluator.DriftCode(o.Check) : CheckEvaluator.InconclusiveCode;
-                var what = o.Verdict == Verdict.Fail ? o.Summary : $"inconclusive: {o.Summary}; {ResultTable.EventsText(m.EventsNeeded)} surrogate events needed to decide";
+                var what = o.Verdict == Verdict.Fail ? o.Summary : $"inconclusive: {o.Summary}; {ResultTable.NeededText(m.EventsNeeded)}";
                 w.WriteStartElement("failure");
                 w.WriteAttributeString("message", Clean($"{o.Feature.Name} {o.Check.Label}: {what}"));
                 w.WriteAttributeString("type", code);
@@ -116,7 +116,7 @@ internal static class JUnitReport
             else if (o.Verdict == Verdict.Inconclusive)
             {
                 w.WriteStartElement("skipped");
-                w.WriteAttributeString("message", Clean($"{o.Feature.Name} {o.Check.Label}: inconclusive, {ResultTable.EventsText(m.EventsNeeded)} surrogate events needed"));
+                w.WriteAttributeString("message", Clean($"{o.Feature.Name} {o.Check.Label}: inconclusive, {ResultTable.NeededText(m.EventsNeeded)}"));
                 w.WriteEndElement();
             }
             w.WriteEndElement();

@@ -62,6 +62,15 @@ internal static class ResultTable
         return "≈" + (Math.Ceiling(events / magnitude) * magnitude).ToString("0", CultureInfo.InvariantCulture);
     }
 
+    /// <summary>
+    /// "≈1200000 surrogate events needed to decide", or, when the reference's own statistics limit the decision,
+    /// "more reference events needed to decide: no surrogate sample size is enough".
+    /// </summary>
+    public static string NeededText(double events) =>
+        double.IsPositiveInfinity(events) ? "more reference events needed to decide: no surrogate sample size is enough"
+        : double.IsNaN(events) ? "more surrogate events needed to decide"
+        : $"{EventsText(events)} surrogate events needed to decide";
+
     /// <summary>One line saying what was checked and how it went.</summary>
     public static string Summary(CheckReport report)
     {

@@ -36,20 +36,30 @@ public class ContractLoaderTests
         var c = ContractLoader.Parse(DemoContract.Text, "demo.yaml");
         Assert.Equal("demo-diphoton", c.Title);
         Assert.Equal("weight", c.Sample.Weight);
-        Assert.Equal(9, c.Features.Count);
-        var mgg = c.Features[0];
+        Assert.Equal("m_gg > 65 and m_gg < 180", c.Selection!.Text);
+        FeatureSpec F(string name) => c.Features.Single(f => f.Name == name);
+        var mgg = F("m_gg");
         Assert.Equal(BinningMode.Quantile, mgg.Binning.Mode);
         Assert.Equal(30, mgg.Binning.Bins);
         Assert.Equal(0.03, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Core).Limit);
         Assert.Equal(0.08, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Tails).Limit);
-        var pt = c.Features[1];
-        Assert.Equal(BinningMode.Quantile, pt.Binning.Mode);
-        Assert.Equal(20, pt.Binning.Bins);
+        Assert.Equal(0.02, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Named).Limit);
+        var pt = F("pt_gg");
+        Assert.Equal(10, pt.Binning.Bins);
         Assert.Equal(0.05, pt.Core.LowerQuantile, 12);
         Assert.Equal(0.95, pt.Core.UpperQuantile, 12);
-        var converted = c.Features[8];
+        // The category block: one feature per jet multiplicity, each under its condition, and their fractions.
+        Assert.Equal("(min(n_jets, 2)) == 1", F("pt_gg[category=1]").Condition!.Text);
+        Assert.Equal(FeatureKind.Discrete, F("pt_gg[category]").Kind);
+        Assert.Equal("abs(atan2(sin(phi_lead - phi_sublead), cos(phi_lead - phi_sublead)))", F("delta_phi").Expression);
+        Assert.Equal(0.0, F("jet1_pt").Spike);
+        var converted = F("converted");
         Assert.Equal(FeatureKind.Discrete, converted.Kind);
         Assert.DoesNotContain(converted.Checks, k => k.Kind is CheckKind.KolmogorovSmirnov or CheckKind.Wasserstein);
+        Assert.Equal(["e_lead~e_sublead", "e_lead~pt_gg", "e_sublead~pt_gg", "m_gg~pt_gg"], c.Pairs.Select(p => p.Name));
+        Assert.Equal(["m_gg", "pt_gg", "cos_theta_star", "et_ratio"], c.Joint!.Features);
+        Assert.Equal(1000, c.Joint.Subsample);
+        Assert.Equal("demo-diphoton-response", ContractLoader.Parse(DemoContract.ResponseText, "response.yaml").Title);
     }
 
     [Fact]

@@ -20,6 +20,7 @@ public class ContractSchemaTests
     public void Demo_contract_is_valid_against_the_schema()
     {
         Assert.True(Valid(DemoContract.Text));
+        Assert.True(Valid(DemoContract.ResponseText));
     }
 
     [Theory]

@@ -141,6 +141,39 @@ public class EnergyDistanceTests
     }
 
     [Fact]
+    public void SequentialStoppingGivesHOverLAndStaysValidUnderTheNull()
+    {
+        // Besag & Clifford (1991): stop at the h-th exceedance after L permutations, p = h/L; otherwise the full
+        // (1 + g)/(1 + B). Either way P(p ≤ α) ≤ α under H0. 300 seeded null replicas, h = 5, B = 99.
+        const int replicas = 300;
+        var p = new double[replicas];
+        int stopped = 0;
+        for (int k = 0; k < replicas; k++)
+        {
+            var r = EnergyDistance.PermutationTest(CorrelatedNormal(30, 0.5, 1000 + 2 * k), CorrelatedNormal(30, 0.5, 1001 + 2 * k), 99, k, stopAfter: 5);
+            if (r.Permutations < 99)
+            {
+                stopped++;
+                Assert.Equal(5.0 / r.Permutations, r.PValue, 15);
+            }
+            p[k] = r.PValue;
+        }
+        Assert.True(stopped > replicas / 2, $"{stopped} of {replicas} stopped early"); // most null replicas stop early
+        double small = p.Count(v => v <= 0.05) / (double)replicas;
+        Assert.InRange(small, 0.0, 0.05 + 5 * Math.Sqrt(0.05 * 0.95 / replicas));
+    }
+
+    [Fact]
+    public void SequentialStoppingChangesNothingWhereTheDataAreSignificant()
+    {
+        double[][] x = CorrelatedNormal(500, 0.8, 21), y = CorrelatedNormal(500, 0.8, 22);
+        double[] second = y.Select(r => r[1]).ToArray();
+        new Xoshiro256StarStar(23, threadSafe: false).Shuffle(second);
+        for (int i = 0; i < y.Length; i++) y[i][1] = second[i];
+        Assert.Equal(EnergyDistance.PermutationTest(x, y, 199, 5), EnergyDistance.PermutationTest(x, y, 199, 5, stopAfter: 20));
+    }
+
+    [Fact]
     public void IdenticalSamplesHaveZeroStatistic()
     {
         double[][] x = CorrelatedNormal(40, 0.3, 9);
