@@ -33,7 +33,7 @@ public class BuildStepTests(PackageFeed feed)
             """));
         var (code, output) = p.Build();
         Assert.True(code == 0, output);
-        Assert.Contains("PASSED: 44 of 44 checks", output);
+        Assert.Contains("PASSED: 92 of 92 checks", output);
         Assert.True(File.Exists(p.JUnitReport), output);
         Assert.Contains($"gate-report junit: {p.JUnitReport}", output);
         Assert.Contains("gate-report text: ", output);
@@ -48,7 +48,7 @@ public class BuildStepTests(PackageFeed feed)
         File.SetLastWriteTimeUtc(Path.Combine(p.Directory, "surrogate-faithful.parquet"), DateTime.UtcNow.AddSeconds(5));
         var (third, rerun) = p.Build();
         Assert.True(third == 0, rerun);
-        Assert.Contains("PASSED: 44 of 44 checks", rerun);
+        Assert.Contains("PASSED: 92 of 92 checks", rerun);
 
         // So does a changed setting.
         var (fourth, settings) = p.Build("-p:GateReportDir=other-reports/");
@@ -64,10 +64,10 @@ public class BuildStepTests(PackageFeed feed)
         Assert.NotEqual(0, code);
         Assert.Matches(new Regex(@"precision-contract\.yaml\(38,13\): error GATE3004: feature 'm_gg' ratio-max\[core\]"), output);
         Assert.Matches(new Regex(@"precision-contract\.yaml\(\d+,\d+\): error GATE3005: feature 'm_gg' ratio-max\[tails\]"), output);
-        Assert.Contains("FAILED: 28 of 44 checks", output);
+        Assert.Contains("FAILED: 69 of 92 checks", output);
         Assert.DoesNotContain("   at ", output); // no stack trace
         var junit = XDocument.Load(p.JUnitReport);
-        Assert.Equal("16", junit.Root!.Attribute("failures")!.Value); // 14 failed + 2 inconclusive (which fail by default)
+        Assert.Equal("23", junit.Root!.Attribute("failures")!.Value); // 17 failed + 6 inconclusive (which fail by default)
 
         // A failing check leaves no stamp: the next build checks again rather than passing silently.
         var (again, second) = p.Build("-p:GateSample=surrogate-drifted.parquet");
@@ -104,7 +104,7 @@ public class BuildStepTests(PackageFeed feed)
 
         var (alone, aloneOutput) = p.Build("-t:GateCheck");
         Assert.True(alone == 0, aloneOutput);
-        Assert.Contains("PASSED: 44 of 44 checks", aloneOutput);
+        Assert.Contains("PASSED: 92 of 92 checks", aloneOutput);
     }
 
     [Fact]
@@ -126,7 +126,7 @@ public class BuildStepTests(PackageFeed feed)
             .Replace("<TargetFramework>net8.0</TargetFramework>", "<TargetFrameworks>net8.0;net9.0</TargetFrameworks>"));
         var (code, output) = p.Build();
         Assert.True(code == 0, output);
-        Assert.Single(Regex.Matches(output, "PASSED: 44 of 44 checks"));
+        Assert.Single(Regex.Matches(output, "PASSED: 92 of 92 checks"));
         var (drift, driftOutput) = p.Build("-p:GateSample=surrogate-drifted.parquet");
         Assert.NotEqual(0, drift);
         Assert.Contains("error GATE3004", driftOutput);
@@ -141,7 +141,7 @@ public class BuildStepTests(PackageFeed feed)
         var (code, output) = p.Build();
         Assert.True(code == 0, output);
         Assert.True(output.Contains("fixture-yaml-task: read precision-contract.yaml with YamlDotNet 13."), output); // assembly version 13.0.0.0 of package 13.7.1
-        Assert.Contains("PASSED: 44 of 44 checks", output);
+        Assert.Contains("PASSED: 92 of 92 checks", output);
         var (drift, driftOutput) = p.Build("-p:GateSample=surrogate-drifted.parquet");
         Assert.NotEqual(0, drift);
         Assert.Contains("error GATE3004", driftOutput);

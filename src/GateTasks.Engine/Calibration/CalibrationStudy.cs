@@ -43,13 +43,19 @@ internal static class CalibrationStudy
             {
                 var (spec, refFeature, core) = features[i];
                 var axis = refFeature.Histogram.Axis;
-                var refHistogram = ReplicaSampler.Draw(axis, truth[i], referenceEvents, rng);
-                var sample = ReplicaSampler.Draw(axis, drifted[i], events, rng);
+                // A declared spike is split off before filling, as in a real check: its count first, the rest binned.
+                var (refSpike, refBinned) = DrawSpike(refFeature, referenceEvents, rng);
+                var (sampleSpike, sampleBinned) = DrawSpike(refFeature, events, rng);
+                var refHistogram = ReplicaSampler.Draw(axis, truth[i], refBinned, rng);
+                var sample = ReplicaSampler.Draw(axis, drifted[i], sampleBinned, rng);
                 // Moments of both replicas come from their bins alike, so binning cannot bias their comparison.
                 var refSummary = BinnedSummary.Of(refHistogram);
-                var refReplica = refFeature with { Histogram = refHistogram, Summary = refSummary };
+                var refReplica = refFeature with
+                {
+                    Histogram = refHistogram, Summary = refSummary, Spike = refSpike, FarTail = DrawFarTail(refFeature, refBinned, rng),
+                };
                 var sampleSummary = BinnedSummary.Of(sample);
-                var comparison = new FeatureComparison(spec, refReplica, sample, sampleSummary, core);
+                var comparison = new FeatureComparison(spec, refReplica, sample, sampleSummary, core, sampleSpike, DrawFarTail(refFeature, sampleBinned, rng));
                 foreach (var check in spec.Checks) measured.Add((spec, check, CheckEvaluator.Measure(comparison, check, contract.Decision)));
             }
             var outcomes = VerdictRule.Decide(measured, contract.Decision);
@@ -64,10 +70,36 @@ internal static class CalibrationStudy
         return new CalibrationResult(drift, target, events, replicas, failed, inconclusive);
     }
 
-    /// <summary>The first discrete feature for a spike-fraction drift, the first continuous one otherwise.</summary>
+    /// <summary>The spike tally of a replica of n events (binomial at the reference's spike fraction) and the events left to bin.</summary>
+    private static (SpikeTally? Spike, long Binned) DrawSpike(ReferenceFeature f, long n, Random rng)
+    {
+        if (f.Spike is not { } spike) return (null, n);
+        var fraction = spike.SumW / (spike.SumW + f.Histogram.TotalSumW);
+        var k = ReplicaSampler.Binomial(rng, fraction, n);
+        return (new SpikeTally(spike.Value, k, k, k), n - k);
+    }
+
+    /// <summary>
+    /// Far-tail counts of a replica of n events: a multinomial draw (below, above, the rest) at the reference's
+    /// fractions. Drawn apart from the histogram, so a drift of the histogram does not reach them.
+    /// </summary>
+    private static FarTailCounts? DrawFarTail(ReferenceFeature f, long n, Random rng)
+    {
+        if (f.FarTail is not { } t || !(t.TotalW > 0)) return null;
+        var pBelow = t.BelowW / t.TotalW;
+        var below = ReplicaSampler.Binomial(rng, pBelow, n);
+        var above = pBelow < 1 ? ReplicaSampler.Binomial(rng, Math.Min(1, t.AboveW / t.TotalW / (1 - pBelow)), n - below) : 0;
+        return t with { BelowW = below, BelowW2 = below, AboveW = above, AboveW2 = above, TotalW = n, TotalW2 = n };
+    }
+
+    /// <summary>
+    /// For a spike-fraction drift the discrete feature with the most checks (a category block's fraction feature,
+    /// with one, comes last), the first continuous one otherwise.
+    /// </summary>
     public static string? DefaultFeature(PrecisionContract contract, Drift drift)
     {
-        var kind = drift.Kind == DriftKind.SpikeFraction ? FeatureKind.Discrete : FeatureKind.Continuous;
-        return contract.Features.FirstOrDefault(f => f.Kind == kind)?.Name;
+        if (drift.Kind == DriftKind.SpikeFraction)
+            return contract.Features.Where(f => f.Kind == FeatureKind.Discrete).OrderByDescending(f => f.Checks.Count).FirstOrDefault()?.Name;
+        return contract.Features.FirstOrDefault(f => f.Kind == FeatureKind.Continuous)?.Name;
     }
 }

@@ -43,7 +43,7 @@ public class ContractLoaderTests
         Assert.Equal(30, mgg.Binning.Bins);
         Assert.Equal(0.03, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Core).Limit);
         Assert.Equal(0.08, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Tails).Limit);
-        Assert.Equal(0.02, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Named).Limit);
+        Assert.Equal(0.06, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Named).Limit);
         var pt = F("pt_gg");
         Assert.Equal(10, pt.Binning.Bins);
         Assert.Equal(0.05, pt.Core.LowerQuantile, 12);
