@@ -424,6 +424,58 @@ public sealed class ContractCheckTests : IDisposable
     }
 
     [Fact]
+    public void An_unfolding_surrogate_that_misses_closure_in_one_reconstructed_bin_fails_there_only()
+    {
+        // Closure: the surrogate's generator-level prediction against the true values, per bin of the
+        // reconstructed p_T (the layout of docs/examples/unfolding-surrogate.yaml).
+        const string text = """
+            contract-version: 1
+            sample: unfolded.csv
+            reference: ref.parquet
+            defaults:
+              binning: { bins: 15 }
+              checks:
+                ks-max: 0.03
+                mean-shift-max: 0.02
+            features:
+              - name: pt_true
+                categories:
+                  by: min(floor(pt_reco / 20), 4)
+                  values: [1, 2, 3, 4]
+            """;
+        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contractPath, text);
+        var contract = ContractLoader.Load(contractPath);
+        // True p_T = 20 + an exponential of mean 25 GeV, reco = true·(1 + 0.1 z); `bias` scales the prediction of
+        // events whose reco p_T lies in 40–60 GeV (category 2), as an unfolding that learnt that bin wrong would.
+        void Write(string name, int rows, int seed, double bias)
+        {
+            var rng = new Xoshiro256StarStar(seed);
+            var normal = new Normal(0, 1, rng);
+            File.WriteAllLines(Path.Combine(_dir, name), new[] { "pt_true,pt_reco" }.Concat(Enumerable.Range(0, rows).Select(_ =>
+            {
+                var truth = 20 - 25 * Math.Log(1 - rng.NextDouble());
+                var reco = truth * (1 + 0.1 * normal.Sample());
+                var predicted = Math.Min(Math.Floor(reco / 20), 4) == 2 ? truth * bias : truth;
+                return string.Create(CultureInfo.InvariantCulture, $"{predicted:R},{reco:R}");
+            })));
+        }
+        Write("truth.csv", 300_000, 1, 1);
+        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [Path.Combine(_dir, "truth.csv")], null, "test"));
+
+        Write("unfolded.csv", 200_000, 2, 1);
+        var closed = ContractCheck.Run(contract);
+        Assert.True(closed.Passed, string.Join("\n", closed.Outcomes.Select(o => $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+
+        Write("unfolded.csv", 200_000, 3, 1.03); // 3% high in 40–60 GeV of reco p_T only
+        var open = ContractCheck.Run(contract);
+        var failed = open.Outcomes.Where(o => o.Verdict == Verdict.Fail).Select(o => $"{o.Feature.Name} {o.Check.Label}").ToList();
+        Assert.Contains("pt_true[category=2] mean-shift-max", failed);
+        Assert.All(open.Outcomes.Where(o => o.Feature.Name.StartsWith("pt_true[category=") && !o.Feature.Name.EndsWith("=2]")),
+            o => Assert.NotEqual(Verdict.Fail, o.Verdict));
+    }
+
+    [Fact]
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
         var contract = Setup();
