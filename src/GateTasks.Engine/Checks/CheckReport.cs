@@ -17,6 +17,9 @@ internal sealed record CheckReport(
     DateTimeOffset StartedUtc,
     TimeSpan Elapsed)
 {
+    /// <summary>Per feature, in contract order: the reference and the sample's histograms as they were compared (for plots).</summary>
+    public IReadOnlyList<FeatureComparison> Comparisons { get; init; } = [];
+
     /// <summary>Kish (1965) effective number of surrogate events.</summary>
     public double EffectiveEvents => SumW2 > 0 ? SumW * SumW / SumW2 : 0;
 

@@ -59,9 +59,11 @@ internal static class ContractCheck
                 $"The surrogate sample has no events ({string.Join(", ", files.Select(Path.GetFileName))}).", contract.Sample.PathLocation);
 
         var measured = new List<(FeatureSpec, CheckSpec, Measurement)>();
+        var comparisons = new List<FeatureComparison>();
         for (var i = 0; i < contract.Features.Count; i++)
         {
             var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i], totals.Spikes[i], farTail[i]?.Counts);
+            comparisons.Add(comparison);
             foreach (var check in contract.Features[i].Checks)
                 measured.Add((contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision)));
         }
@@ -98,7 +100,10 @@ internal static class ContractCheck
         }
         var outcomes = VerdictRule.Decide(measured, contract.Decision);
 
-        return new CheckReport(contract, referencePath, referenceSha, reference, files, totals.Events, totals.SumW, totals.SumW2, outcomes, started, clock.Elapsed);
+        return new CheckReport(contract, referencePath, referenceSha, reference, files, totals.Events, totals.SumW, totals.SumW2, outcomes, started, clock.Elapsed)
+        {
+            Comparisons = comparisons,
+        };
     }
 
     private static ReferenceFeature MatchReference(ReferenceHistograms reference, FeatureSpec feature, string referencePath)
