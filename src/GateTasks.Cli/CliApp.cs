@@ -14,6 +14,8 @@ internal static class CliApp
     {
         var root = new RootCommand("GateTasks: holds a generative surrogate's sample to the tolerances of a precision contract, against full-simulation reference histograms.");
         root.Subcommands.Add(CheckCommand.Create(stdout, stderr));
+        root.Subcommands.Add(AcceptCommand.Create(stdout, stderr));
+        root.Subcommands.Add(HistoryCommand.Create(stdout, stderr));
         root.Subcommands.Add(ReferenceCommand.Create(stdout, stderr));
         root.Subcommands.Add(DemoCommand.Create(stdout, stderr));
         root.Subcommands.Add(InputsCommand.Create(stdout, stderr));

@@ -12,6 +12,12 @@ internal static class ExitCodes
     /// <summary>Usage or input error: bad arguments, contract, sample or reference. Nothing was judged.</summary>
     public const int InputError = 2;
 
+    /// <summary>
+    /// The checks passed but the accepted state was not respected: the ledger is broken, or a tolerance, check or
+    /// reference changed without an accepted entry, or the ratchet caught a degraded margin.
+    /// </summary>
+    public const int Unaccepted = 4;
+
     /// <summary>An internal error (a bug in GateTasks); nothing was judged.</summary>
     public const int InternalError = 3;
 }

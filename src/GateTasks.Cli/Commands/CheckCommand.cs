@@ -51,12 +51,16 @@ internal static class CheckCommand
         foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive))
             stderr.WriteLine($"{o.Check.Location}: {severity} {CheckEvaluator.InconclusiveCode}: feature '{o.Feature.Name}' {o.Check.Label} is inconclusive: {o.Summary}; " +
                              ResultTable.NeededText(o.Measured.EventsNeeded));
+        foreach (var f in report.Acceptance)
+            stderr.WriteLine($"{f.Location}: {(f.IsError ? "error" : "warning")} {f.Code}: {f.Message}");
         if (junitPath is not null)
         {
             JUnitReport.Write(junitPath, [report]);
             stdout.WriteLine($"JUnit report: {Path.GetFullPath(junitPath)}");
         }
         stdout.WriteLine(ResultTable.Summary(report));
-        return report.Passed ? ExitCodes.Success : ExitCodes.ChecksFailed;
+        if (!report.AcceptanceHolds)
+            stdout.WriteLine($"NOT ACCEPTED: {report.Acceptance.Count(f => f.IsError)} ledger error(s) above; the contract or reference in use is not the accepted one.");
+        return !report.Passed ? ExitCodes.ChecksFailed : report.AcceptanceHolds ? ExitCodes.Success : ExitCodes.Unaccepted;
     }
 }

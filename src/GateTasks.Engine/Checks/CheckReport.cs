@@ -20,6 +20,12 @@ internal sealed record CheckReport(
     /// <summary>Per feature, in contract order: the reference and the sample's histograms as they were compared (for plots).</summary>
     public IReadOnlyList<FeatureComparison> Comparisons { get; init; } = [];
 
+    /// <summary>What the acceptance ledger check found (see <see cref="Ledger.LedgerGuard"/>): errors fail the run.</summary>
+    public IReadOnlyList<Ledger.LedgerFinding> Acceptance { get; init; } = [];
+
+    /// <summary>True when the ledger check found no error: the contract and reference in use are the accepted ones.</summary>
+    public bool AcceptanceHolds => !Acceptance.Any(f => f.IsError);
+
     /// <summary>Kish (1965) effective number of surrogate events.</summary>
     public double EffectiveEvents => SumW2 > 0 ? SumW * SumW / SumW2 : 0;
 

@@ -103,6 +103,7 @@ internal static class ContractCheck
         return new CheckReport(contract, referencePath, referenceSha, reference, files, totals.Events, totals.SumW, totals.SumW2, outcomes, started, clock.Elapsed)
         {
             Comparisons = comparisons,
+            Acceptance = Ledger.LedgerGuard.Verify(contract, referenceSha, outcomes),
         };
     }
 

@@ -45,6 +45,11 @@ internal static class ContractKeys
     public const string On = "on";
 
     public const string Decision = "decision";
+    public const string Acceptance = "acceptance";
+    public const string Ledger = "ledger";
+    public const string Required = "required";
+    public const string Tightening = "tightening";
+    public const string Ratchet = "ratchet";
     public const string Correlations = "correlations";
     public const string Joint = "joint";
     public const string EnergyTest = "energy-test";
@@ -61,7 +66,9 @@ internal static class ContractKeys
     public const string Correction = "correction";
     public const string Inconclusive = "inconclusive";
 
-    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Defaults, Features, Correlations, Joint];
+    public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Acceptance, Defaults, Features, Correlations, Joint];
+    public static readonly string[] AcceptanceKeys = [Ledger, Required, Tightening, Ratchet];
+    public static readonly string[] TighteningPolicies = ["free", "record"];
     public static readonly string[] JointKeys = [PairFeatures, EnergyTest, Subsample, Permutations];
     public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax, Chi2Test2D];
     public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];

@@ -98,7 +98,8 @@ internal static class ContractLoader
             ? new SelectionSpec(r.String(sn, ContractKeys.Selection), ExpressionStart(r, sn))
             : null;
         var joint = top.TryGetValue(ContractKeys.Joint, out var jn) ? ReadJoint(r, jn, features) : null;
-        return new PrecisionContract(path, version, title, sample, reference, r.At(referenceNode), decision, features, correlations, selection, joint);
+        var acceptance = top.TryGetValue(ContractKeys.Acceptance, out var an) ? ReadAcceptance(r, an, path) : null;
+        return new PrecisionContract(path, version, title, sample, reference, r.At(referenceNode), decision, features, correlations, selection, joint, acceptance);
     }
 
     private static string InnerMessage(YamlException e) => e.InnerException is YamlException inner ? inner.Message : e.Message;
@@ -298,6 +299,43 @@ internal static class ContractLoader
             group.Add(name);
         }
         return group;
+    }
+
+    private static AcceptanceSettings ReadAcceptance(YamlNodeReader r, YamlNode node, string path)
+    {
+        var mapping = r.Mapping(node, ContractKeys.Acceptance);
+        var a = AcceptanceSettings.Default(path) with { Location = r.At(node) };
+        foreach (var (key, _, value) in r.Entries(mapping, ContractKeys.Acceptance, ContractKeys.AcceptanceKeys))
+        {
+            bool Switch(string what)
+            {
+                if (YamlNodeReader.IsScalar(value, ContractKeys.On)) return true;
+                if (YamlNodeReader.IsScalar(value, ContractKeys.Off)) return false;
+                throw r.Error(ErrorCodes.ContractBadValue, value, $"{what} takes 'on' or 'off'.");
+            }
+            switch (key)
+            {
+                case ContractKeys.Ledger:
+                    var ledger = r.String(value, "acceptance.ledger");
+                    if (ledger.Length == 0) throw r.Error(ErrorCodes.ContractBadValue, value, "acceptance.ledger needs a file name.");
+                    a = a with { LedgerPath = ledger };
+                    break;
+                case ContractKeys.Required:
+                    a = a with { Required = Switch("acceptance.required") };
+                    break;
+                case ContractKeys.Tightening:
+                    var policy = r.String(value, "acceptance.tightening");
+                    if (!ContractKeys.TighteningPolicies.Contains(policy))
+                        throw r.Error(ErrorCodes.ContractBadValue, value,
+                            $"acceptance.tightening is 'free' (tightening needs no entry) or 'record', got '{policy}'{NearestName.Hint(policy, ContractKeys.TighteningPolicies)}.");
+                    a = a with { RecordTightening = policy == "record" };
+                    break;
+                case ContractKeys.Ratchet:
+                    a = a with { Ratchet = Switch("acceptance.ratchet") };
+                    break;
+            }
+        }
+        return a;
     }
 
     private static DecisionSettings ReadDecision(YamlNodeReader r, YamlNode node)

@@ -14,8 +14,15 @@ internal sealed record PrecisionContract(
     IReadOnlyList<FeatureSpec> Features,
     IReadOnlyList<CorrelationSpec>? Correlations = null,
     SelectionSpec? Selection = null,
-    JointSpec? Joint = null)
+    JointSpec? Joint = null,
+    AcceptanceSettings? Acceptance = null)
 {
+    /// <summary>How the accepted state is guarded (defaults when the contract has no acceptance block).</summary>
+    public AcceptanceSettings Guard => Acceptance ?? AcceptanceSettings.Default(FilePath);
+
+    /// <summary>Absolute path of the acceptance ledger.</summary>
+    public string LedgerFullPath => System.IO.Path.GetFullPath(Guard.LedgerPath, Directory);
+
     /// <summary>The declared correlation pairs (none when the contract lists none).</summary>
     public IReadOnlyList<CorrelationSpec> Pairs => Correlations ?? [];
 

@@ -38,6 +38,18 @@ internal sealed class DemoRun(string folder, DemoKind kind = DemoKind.Generator)
             () => DemoSampleWriter.Write(FaithfulPath, DemoScenarioParameters.FullSimulation, SurrogateEvents, FaithfulSeed, DemoSampleWriter.DefaultRowGroupSize),
             () => DemoSampleWriter.Write(DriftedPath, DriftedScenario, SurrogateEvents, DriftedSeed, DemoSampleWriter.DefaultRowGroupSize));
         AtomicFile.WriteText(ContractPath, DemoContract.For(Kind));
+        // A fresh demo starts a fresh acceptance history.
+        File.Delete(Path.Combine(Folder, Contracts.AcceptanceSettings.DefaultLedgerName(ContractPath)));
+    }
+
+    /// <summary>
+    /// Records the faithful sample's run as the accepted state, as an analysis team would once it had reviewed the
+    /// tolerances, and returns the report with the ledger checked again.
+    /// </summary>
+    public CheckReport Accept(CheckReport faithful)
+    {
+        Ledger.Acceptance.Accept(faithful, "GateTasks demo", "the demo analysis's tolerances, met by the faithful surrogate", DateTimeOffset.UtcNow);
+        return faithful with { Acceptance = Ledger.LedgerGuard.Verify(faithful.Contract, faithful.ReferenceSha256, faithful.Outcomes) };
     }
 
     /// <summary>What the drifted surrogate got wrong.</summary>
@@ -53,10 +65,11 @@ internal sealed class DemoRun(string folder, DemoKind kind = DemoKind.Generator)
     }
 
     /// <summary>Checks one surrogate sample and writes its JUnit report.</summary>
-    public (CheckReport Report, string JUnitPath) Check(string samplePath, string reportName)
+    public (CheckReport Report, string JUnitPath) Check(string samplePath, string reportName, bool accept = false)
     {
         var contract = ContractLoader.Load(ContractPath);
         var report = ContractCheck.Run(contract, samplePath);
+        if (accept) report = Accept(report);
         var junit = Path.Combine(ReportFolder, reportName + ".junit.xml");
         JUnitReport.Write(junit, [report]);
         return (report, junit);

@@ -91,6 +91,22 @@ public static class ErrorCodes
     public const string DriftChiSquare2D = "GATE3019";
     /// <summary>Interquartile width ratio shown outside tolerance.</summary>
     public const string DriftInterquartileWidth = "GATE3020";
+    /// <summary>The contract has no acceptance ledger (a warning, an error with <c>acceptance.required: on</c>).</summary>
+    public const string LedgerMissing = "GATE4001";
+    /// <summary>An accepted entry of the ledger was edited, removed or reordered.</summary>
+    public const string LedgerTampered = "GATE4002";
+    /// <summary>A tolerance was loosened, a check removed or a definition changed without an accepted entry.</summary>
+    public const string LedgerUnrecordedLoosening = "GATE4003";
+    /// <summary>The reference differs from the accepted one and no entry records it.</summary>
+    public const string LedgerUnrecordedReference = "GATE4004";
+    /// <summary>A tolerance was tightened without an entry, where the contract asks for tightening to be recorded.</summary>
+    public const string LedgerUnrecordedTightening = "GATE4005";
+    /// <summary>A ledger line cannot be read.</summary>
+    public const string LedgerSyntax = "GATE4006";
+    /// <summary>'accept' refused: the check does not pass, so there is no state to record.</summary>
+    public const string AcceptRefused = "GATE4007";
+    /// <summary>A check's margin fell below the last accepted one by more than its noise (the ratchet).</summary>
+    public const string RatchetDegraded = "GATE4010";
     /// <summary>A check the sample is too small to decide (an error or a warning, by the contract's policy).</summary>
     public const string Inconclusive = "GATE3100";
 }

@@ -26,7 +26,7 @@ internal static class JUnitReport
             w.WriteStartDocument();
             w.WriteStartElement("testsuites");
             w.WriteAttributeString("name", "gatetasks");
-            w.WriteAttributeString("tests", Count(reports.Sum(r => r.Outcomes.Count)));
+            w.WriteAttributeString("tests", Count(reports.Sum(r => r.Outcomes.Count + r.Acceptance.Count)));
             w.WriteAttributeString("failures", Count(reports.Sum(Failed)));
             w.WriteAttributeString("errors", "0");
             w.WriteAttributeString("skipped", Count(reports.Sum(Skipped)));
@@ -45,7 +45,7 @@ internal static class JUnitReport
         var contractPath = r.Contract.FilePath;
         w.WriteStartElement("testsuite");
         w.WriteAttributeString("name", suite);
-        w.WriteAttributeString("tests", Count(r.Outcomes.Count));
+        w.WriteAttributeString("tests", Count(r.Outcomes.Count + r.Acceptance.Count));
         w.WriteAttributeString("failures", Count(Failed(r)));
         w.WriteAttributeString("errors", "0");
         w.WriteAttributeString("skipped", Count(Skipped(r)));
@@ -122,6 +122,36 @@ internal static class JUnitReport
             w.WriteEndElement();
         }
 
+        // The ledger's findings are test cases too, so a run whose tolerances were changed unseen never reads as green.
+        for (var i = 0; i < r.Acceptance.Count; i++)
+        {
+            var f = r.Acceptance[i];
+            w.WriteStartElement("testcase");
+            w.WriteAttributeString("classname", Clean($"{suite}.acceptance"));
+            w.WriteAttributeString("name", Clean($"ledger {i + 1}: {f.Code}"));
+            w.WriteAttributeString("time", Seconds(0));
+            if (f.Location is { } at)
+            {
+                w.WriteAttributeString("file", Clean(at.File));
+                if (at.Line > 0) w.WriteAttributeString("line", Count(at.Line));
+            }
+            if (f.IsError)
+            {
+                w.WriteStartElement("failure");
+                w.WriteAttributeString("message", Clean(f.Message));
+                w.WriteAttributeString("type", f.Code);
+                w.WriteString(Clean($"{f.Location}: error {f.Code}: {f.Message}"));
+                w.WriteEndElement();
+            }
+            else
+            {
+                w.WriteStartElement("system-out");
+                w.WriteString(Clean($"{f.Location}: warning {f.Code}: {f.Message}"));
+                w.WriteEndElement();
+            }
+            w.WriteEndElement();
+        }
+
         w.WriteStartElement("system-out");
         w.WriteString(Clean(ResultTable.Format(r) + ResultTable.Summary(r) + "\n"));
         w.WriteEndElement();
@@ -129,7 +159,7 @@ internal static class JUnitReport
     }
 
     private static int Failed(CheckReport r) =>
-        r.Failures + (r.Contract.Decision.InconclusiveFails ? r.Inconclusive : 0);
+        r.Failures + (r.Contract.Decision.InconclusiveFails ? r.Inconclusive : 0) + r.Acceptance.Count(f => f.IsError);
 
     private static int Skipped(CheckReport r) => r.Contract.Decision.InconclusiveFails ? 0 : r.Inconclusive;
 

@@ -46,6 +46,7 @@ public class ContractSchemaTests
         Assert.Equal(ContractKeys.TopLevel.Order(), Keys(root));
         Assert.Equal(ContractKeys.DefaultsKeys.Order(), Keys(root["properties"]!["defaults"]));
         Assert.Equal(ContractKeys.DecisionKeys.Order(), Keys(root["properties"]!["decision"]));
+        Assert.Equal(ContractKeys.AcceptanceKeys.Order(), Keys(root["properties"]!["acceptance"]));
         Assert.Equal(ContractKeys.CorrelationKeys.Order(), Keys(root["properties"]!["correlations"]!["items"]));
         Assert.Equal(ContractKeys.JointKeys.Order(), Keys(root["properties"]!["joint"]));
         Assert.Equal(ContractKeys.FeatureKeys.Order(), Keys(defs["feature"]));

@@ -1,0 +1,38 @@
+using System.CommandLine;
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Ledger;
+
+namespace GateTasks.Cli.Commands;
+
+/// <summary><c>gatetasks accept</c>: runs the check and records the passing state in the contract's acceptance ledger.</summary>
+internal static class AcceptCommand
+{
+    public static Command Create(TextWriter stdout, TextWriter stderr)
+    {
+        var contract = SharedOptions.Contract();
+        var sample = SharedOptions.Sample();
+        var reason = new Option<string>("--reason", "-r") { Description = "Why this state is accepted (one line; required).", Required = true };
+        var by = new Option<string?>("--by") { Description = "Who accepts (default: the CI user, else git's user.name and user.email)." };
+        var command = new Command("accept", "Check the sample, then record the contract, the reference and the results as accepted in the contract's ledger. Refused when the check does not pass.")
+        {
+            contract, sample, reason, by,
+        };
+        command.SetAction(parse => CliApp.Guard(stderr, () =>
+        {
+            var loaded = ContractLoader.Load(parse.GetValue(contract)!);
+            var who = parse.GetValue(by) ?? AcceptorIdentity.Find(loaded.Directory)
+                ?? throw new GateInputException(ErrorCodes.Usage, "Cannot tell who accepts: no CI user and no git user.name here; say it with --by \"Name <email>\".");
+            var report = ContractCheck.Run(loaded, parse.GetValue(sample));
+            var entry = Acceptance.Accept(report, who, parse.GetValue(reason)!, DateTimeOffset.UtcNow);
+            stdout.WriteLine($"accepted as entry {entry.Number} of {loaded.LedgerFullPath}");
+            stdout.WriteLine($"  by   {entry.By}");
+            stdout.WriteLine($"  why  {entry.Why}");
+            stdout.WriteLine($"  contract sha256 {entry.ContractSha256[..12]}…, reference sha256 {entry.ReferenceSha256[..12]}…, {entry.ResultsNote}");
+            stdout.WriteLine("Commit the ledger together with the contract.");
+            return ExitCodes.Success;
+        }));
+        return command;
+    }
+}

@@ -1,0 +1,61 @@
+using System.Globalization;
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+
+namespace GateTasks.Engine.Ledger;
+
+/// <summary>
+/// What a contract requires, in a form that can be stored and compared: the decision settings, the selection, each
+/// feature's definition (column or expression, binning, core, spike, condition, regions) and every check with its
+/// tolerance — with the margins measured when it was accepted, if results are given.
+/// </summary>
+internal sealed record AcceptedState(
+    IReadOnlyList<KeyValuePair<string, string>> Decision,
+    string? Selection,
+    IReadOnlyList<KeyValuePair<string, string>> Definitions,
+    IReadOnlyList<AcceptedLimit> Limits)
+{
+    public static AcceptedState Of(PrecisionContract contract, IReadOnlyList<CheckOutcome>? outcomes = null)
+    {
+        var d = contract.Decision;
+        var decision = new List<KeyValuePair<string, string>>
+        {
+            new("confidence", LedgerLine.Number(d.Confidence)),
+            new("false-alarm", LedgerLine.Number(d.FalseAlarm)),
+            new("correction", d.CorrectionName),
+            new("inconclusive", d.InconclusiveFails ? "fail" : "warn"),
+        };
+        var definitions = contract.Features.Select(f => new KeyValuePair<string, string>(f.Name, Definition(f))).ToList();
+        var margins = new Dictionary<string, Margin>(StringComparer.Ordinal);
+        foreach (var o in outcomes ?? [])
+            margins[$"{o.Feature.Name} {o.Check.Label}"] = Margin.Of(o, d);
+        var limits = new List<AcceptedLimit>();
+        void Add(string subject, CheckSpec check)
+        {
+            var m = margins.TryGetValue($"{subject} {check.Label}", out var found) ? found : new Margin(double.NaN, double.NaN);
+            limits.Add(new AcceptedLimit(subject, check.Label, check.IsTest ? double.NaN : check.Limit, m.Value, m.Noise, check.Location));
+        }
+        foreach (var f in contract.Features)
+            foreach (var c in f.Checks) Add(f.Name, c);
+        foreach (var p in contract.Pairs)
+            foreach (var c in new[] { p.Pearson, p.Spearman, p.Chi2 })
+                if (c is not null) Add(p.Name, c);
+        if (contract.Joint is { } j) Add(j.Name, j.Test);
+        return new AcceptedState(decision, contract.Selection?.Text, definitions, limits);
+    }
+
+    /// <summary>Everything that decides what a feature's histogram holds, as one line of text.</summary>
+    private static string Definition(FeatureSpec f)
+    {
+        var regions = f.Regions is { Count: > 0 } rs
+            ? "|regions:" + string.Join(",", rs.Select(r => string.Create(CultureInfo.InvariantCulture,
+                $"{r.Name}{(r.ByQuantile ? ":quantiles" : ":range")}[{r.Lower:R},{r.Upper:R}]")))
+            : "";
+        return $"{f.Kind.ToString().ToLowerInvariant()}|{(f.Expression is null ? "column:" + f.Column : "")}|{f.ReferenceRequest}" +
+               $"|core:{f.Core.LowerQuantile.ToString("G12", CultureInfo.InvariantCulture)},{f.Core.UpperQuantile.ToString("G12", CultureInfo.InvariantCulture)}{regions}";
+    }
+
+    /// <summary>Where a subject's check stands in the contract, for messages; null when the contract has no such check.</summary>
+    public SourceLocation? LocationOf(string id) => Limits.FirstOrDefault(l => l.Id == id)?.Location;
+}

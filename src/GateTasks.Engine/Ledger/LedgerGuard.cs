@@ -1,0 +1,104 @@
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
+using MathNet.Numerics.Distributions;
+
+namespace GateTasks.Engine.Ledger;
+
+/// <summary>
+/// Holds a check run to the contract's acceptance ledger: the ledger's chain must be intact, and the contract and
+/// reference in use must be the latest accepted ones — except for changes that only make the gate stricter, unless the
+/// contract asks for those to be recorded too. With the ratchet on, a margin that fell below the accepted one by more
+/// than its noise fails as well. Every error says what changed and the command that records it.
+/// </summary>
+internal static class LedgerGuard
+{
+    /// <summary>The command that records the contract's current state.</summary>
+    public static string AcceptCommand(PrecisionContract contract) =>
+        $"gatetasks accept --contract {Quote(contract.FilePath)} --reason \"…\"";
+
+    public static IReadOnlyList<LedgerFinding> Verify(PrecisionContract contract, string referenceSha256, IReadOnlyList<CheckOutcome>? outcomes = null)
+    {
+        var guard = contract.Guard;
+        var path = contract.LedgerFullPath;
+        var fix = $"record it with: {AcceptCommand(contract)}";
+        if (!File.Exists(path))
+            return [new(ErrorCodes.LedgerMissing, guard.Required,
+                $"No acceptance ledger at {path}: the tolerances in use are recorded nowhere; {fix}", guard.Location ?? new SourceLocation(contract.FilePath, 1, 1))];
+        IReadOnlyList<LedgerEntry> entries;
+        try
+        {
+            entries = LedgerFile.Read(path);
+        }
+        catch (GateInputException e) when (e.Code is ErrorCodes.LedgerTampered or ErrorCodes.LedgerSyntax)
+        {
+            return [new(e.Code, true, e.Message + " Restore the ledger from version control; accepted entries are never rewritten.", e.Location)];
+        }
+        if (entries.Count == 0)
+            return [new(ErrorCodes.LedgerMissing, guard.Required, $"The acceptance ledger {path} holds no entry yet; {fix}", new SourceLocation(path, 1, 1))];
+
+        var latest = entries[^1];
+        var since = $"entry {latest.Number} ({latest.When.UtcDateTime:yyyy-MM-dd} by {latest.By})";
+        var findings = new List<LedgerFinding>();
+        if (referenceSha256 != latest.ReferenceSha256)
+            findings.Add(new(ErrorCodes.LedgerUnrecordedReference, true,
+                $"The reference differs from the accepted one: sha256 {Short(referenceSha256)} against {Short(latest.ReferenceSha256)} in {since}; {fix}",
+                contract.ReferenceLocation));
+        var current = AcceptedState.Of(contract);
+        if (FileDigest.Sha256(contract.FilePath) != latest.ContractSha256)
+        {
+            foreach (var change in StateComparison.Compare(latest.State, current))
+            {
+                if (change.Direction == ChangeDirection.Looser)
+                    findings.Add(new(ErrorCodes.LedgerUnrecordedLoosening, true,
+                        $"{Describe(change)} since {since}, with no entry accepting it; {fix}", change.Location ?? new SourceLocation(contract.FilePath, 1, 1)));
+                else if (guard.RecordTightening)
+                    findings.Add(new(ErrorCodes.LedgerUnrecordedTightening, true,
+                        $"{Describe(change)} since {since}; this contract records tightening too ('acceptance.tightening: record'); {fix}",
+                        change.Location ?? new SourceLocation(contract.FilePath, 1, 1)));
+            }
+        }
+        if (guard.Ratchet && outcomes is not null) findings.AddRange(Ratchet(latest, outcomes, contract, since));
+        return findings;
+    }
+
+    /// <summary>
+    /// The ratchet, for effect checks whose tolerance is unchanged (tests carry no noise figure): it compares point
+    /// margins, 1 − estimate/tolerance — not the upper-bound margins, which grow with the sample size alone — and
+    /// fails a check whose point margin fell by more than z·√(σ_now² + σ_then²), σ the estimates' errors over the
+    /// tolerance and z at the contract's confidence. Both σ include the shared reference's part, so the allowance errs
+    /// on the side of no alarm.
+    /// </summary>
+    private static IEnumerable<LedgerFinding> Ratchet(LedgerEntry latest, IReadOnlyList<CheckOutcome> outcomes, PrecisionContract contract, string since)
+    {
+        var accepted = latest.State.Limits.ToDictionary(l => l.Id, StringComparer.Ordinal);
+        var z = Normal.InvCDF(0, 1, contract.Decision.Confidence);
+        var confidenceThen = latest.State.Decision.FirstOrDefault(p => p.Key == "confidence").Value is { } c ? LedgerLine.ParseNumber(c) : double.NaN;
+        if (!(confidenceThen > 0.5 && confidenceThen < 1)) yield break;
+        var zThen = Normal.InvCDF(0, 1, confidenceThen);
+        foreach (var o in outcomes)
+        {
+            if (!accepted.TryGetValue($"{o.Feature.Name} {o.Check.Label}", out var then) || then.IsTest || then.Tolerance != o.Check.Limit) continue;
+            var now = Margin.Of(o, contract.Decision);
+            if (!double.IsFinite(then.Margin) || !double.IsFinite(then.Noise) || !double.IsFinite(now.Noise)) continue;
+            var pointThen = then.Margin + zThen * then.Noise;
+            var pointNow = double.IsFinite(now.Value) ? now.Value + z * now.Noise : double.NegativeInfinity;
+            var allowed = z * Math.Sqrt(now.Noise * now.Noise + then.Noise * then.Noise);
+            if (pointNow < pointThen - allowed)
+                yield return new(ErrorCodes.RatchetDegraded, true,
+                    $"{o.Feature.Name} {o.Check.Label}: point margin 1 − estimate/tolerance is {Num(pointNow)} against {Num(pointThen)} accepted in {since}, " +
+                    $"worse by more than its noise allows ({Num(allowed)}); fidelity degraded although the check is " +
+                    $"{(o.Verdict == Verdict.Pass ? "still within tolerance" : o.Verdict.ToString().ToLowerInvariant())}",
+                    o.Check.Location);
+        }
+    }
+
+    private static string Describe(StateChange c) => c.To == "removed" ? $"{c.What} (was {c.From}) was removed" : $"{c.What} changed from {c.From} to {c.To}";
+
+    private static string Short(string sha) => sha.Length > 19 ? sha[..19] + "…" : sha;
+
+    private static string Num(double v) => InvariantNumber.Short(v);
+
+    private static string Quote(string path) => path.Contains(' ') ? $"\"{path}\"" : path;
+}
