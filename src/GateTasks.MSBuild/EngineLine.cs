@@ -31,8 +31,11 @@ internal sealed class EngineLine
     public string Code { get; }
     public string Message { get; }
 
-    /// <summary>Drift codes (GATE3xxx) are check failures; all others are set-up or input problems.</summary>
-    public bool IsDrift => Code.StartsWith("GATE3", StringComparison.Ordinal);
+    /// <summary>
+    /// Drift codes (GATE3xxx) and the ratchet's GATE4010 are fidelity failures; all others — ledger errors included,
+    /// which warning mode must never hide — are set-up or input problems.
+    /// </summary>
+    public bool IsDrift => Code.StartsWith("GATE3", StringComparison.Ordinal) || Code == "GATE4010";
 
     /// <summary>The parsed line, or null when <paramref name="text"/> is not a coded line.</summary>
     public static EngineLine? TryParse(string text)

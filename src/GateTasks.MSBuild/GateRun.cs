@@ -133,7 +133,10 @@ public sealed class GateRun : Task, ICancelableTask
         args.Add(Sample!);
     }
 
-    /// <summary>Maps the engine's exit code: 0 pass, 1 failed checks (already logged line by line), 2 input error, else a crash.</summary>
+    /// <summary>
+    /// Maps the engine's exit code: 0 pass, 1 failed checks (already logged line by line), 2 input error, 4 the
+    /// accepted state not respected (ledger errors, logged), else a crash.
+    /// </summary>
     private bool Finish(int exit, string contract)
     {
         switch (exit)
@@ -142,6 +145,7 @@ public sealed class GateRun : Task, ICancelableTask
                 return true;
             case 1 when _driftLogged:
             case 2 when _inputErrorLogged:
+            case 4 when _inputErrorLogged || _driftLogged:
                 return false;
             case -1:
                 return false;

@@ -21,6 +21,39 @@ public class BuildStepTests(PackageFeed feed)
     }
 
     [Fact]
+    public void A_loosened_tolerance_fails_the_build_until_accepted_and_an_edited_ledger_entry_fails_it_again()
+    {
+        var p = GateProject.Create(feed, "LedgerGate");
+        var (code, output) = p.Build();
+        Assert.True(code == 0, output);
+        Assert.DoesNotContain("GATE40", output);
+
+        // Loosen m_gg's width tolerance without recording it: the build fails at that line, naming the command.
+        var contract = Path.Combine(p.Directory, "precision-contract.yaml");
+        File.WriteAllText(contract, File.ReadAllText(contract).Replace("      width-ratio-max: 0.01", "      width-ratio-max: 0.02"));
+        (code, output) = p.Build();
+        Assert.NotEqual(0, code);
+        Assert.Matches(new Regex(@"precision-contract\.yaml\(49,24\): error GATE4003: m_gg width-ratio-max changed from 0\.01 to 0\.02 since entry 1 .*record it with: gatetasks accept --contract .*precision-contract\.yaml --reason"), output);
+        // Warning mode turns drift into warnings, never an unrecorded loosening.
+        (code, output) = p.Build("-p:GateFailuresAsWarnings=true");
+        Assert.NotEqual(0, code);
+        Assert.Contains("error GATE4003", output);
+
+        // Accept it with the packaged engine, as the error says: the build passes again.
+        var (accepted, acceptOutput) = feed.DotnetAllowingFailure(p.Directory, [feed.Engine, "accept", "--contract", contract, "--reason", "width checked against the fit's own systematic", "--by", "E2E Tester <e2e@example.org>"]);
+        Assert.True(accepted == 0, acceptOutput);
+        (code, output) = p.Build();
+        Assert.True(code == 0, output);
+
+        // Editing the first entry afterwards breaks the chain: the build fails and names the entry.
+        var ledger = Path.Combine(p.Directory, "precision-contract.ledger");
+        File.WriteAllText(ledger, File.ReadAllText(ledger).Replace("by \"GateTasks demo\"", "by \"Somebody Else\""));
+        (code, output) = p.Build();
+        Assert.NotEqual(0, code);
+        Assert.Matches(new Regex(@"precision-contract\.ledger\(5,1\): error GATE4002: Entry 1 \(line 5\) was edited"), output);
+    }
+
+    [Fact]
     public void Faithful_sample_builds_writes_reports_and_an_unchanged_rebuild_skips_the_check()
     {
         var p = GateProject.Create(feed, "FaithfulGate");

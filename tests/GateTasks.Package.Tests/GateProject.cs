@@ -36,7 +36,7 @@ public sealed class GateProject
             """);
         // The demo's contract, samples and reference stand in for the analysis's own.
         File.WriteAllText(Path.Combine(dir, "precision-contract.yaml"), DemoContract.Text);
-        foreach (var f in new[] { "surrogate-faithful.parquet", "surrogate-drifted.parquet" })
+        foreach (var f in new[] { "surrogate-faithful.parquet", "surrogate-drifted.parquet", "precision-contract.ledger" })
             File.Copy(Path.Combine(feed.Demo, f), Path.Combine(dir, f));
         System.IO.Directory.CreateDirectory(Path.Combine(dir, "reference"));
         File.Copy(Path.Combine(feed.Demo, DemoContract.ReferenceFileName), Path.Combine(dir, DemoContract.ReferenceFileName));

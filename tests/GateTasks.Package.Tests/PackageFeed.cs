@@ -31,6 +31,7 @@ public sealed class PackageFeed : IDisposable
         var demo = new DemoRun(Demo);
         demo.WriteInputs();
         demo.BuildReference();
+        demo.Check(demo.FaithfulPath, "faithful", accept: true); // the demo's ledger: its tolerances accepted
     }
 
     public string Root { get; }
@@ -38,6 +39,9 @@ public sealed class PackageFeed : IDisposable
     public string Hive { get; }
     public string Packages { get; }
     public string Demo { get; }
+
+    /// <summary>The packaged engine as restored into this feed's package folder (after a first restore).</summary>
+    public string Engine => Path.Combine(Packages, "gatetasks", Version, "tools", "net8.0", "gatetasks.dll");
 
     public IReadOnlyDictionary<string, string> Environment => new Dictionary<string, string>
     {

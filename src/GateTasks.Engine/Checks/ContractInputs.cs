@@ -4,7 +4,7 @@ using GateTasks.Engine.Samples;
 
 namespace GateTasks.Engine.Checks;
 
-/// <summary>The files a check of a contract reads: the contract, its reference and the sample's files.</summary>
+/// <summary>The files a check of a contract reads: the contract, its reference, its ledger and the sample's files.</summary>
 internal static class ContractInputs
 {
     /// <summary>
@@ -25,7 +25,14 @@ internal static class ContractInputs
         }
     }
 
-    /// <summary>Every input as an absolute path: contract, reference, sample files (the reference need not exist yet).</summary>
+    /// <summary>
+    /// Every input as an absolute path: contract, reference (which need not exist yet), the acceptance ledger when there
+    /// is one (so recording an entry re-runs the check), sample files.
+    /// </summary>
     public static IReadOnlyList<string> All(PrecisionContract contract, string? samplePath) =>
-        [Path.GetFullPath(contract.FilePath), contract.ReferenceFullPath, .. SampleFiles(contract, samplePath)];
+    [
+        Path.GetFullPath(contract.FilePath), contract.ReferenceFullPath,
+        .. File.Exists(contract.LedgerFullPath) ? [contract.LedgerFullPath] : Array.Empty<string>(),
+        .. SampleFiles(contract, samplePath),
+    ];
 }
