@@ -80,6 +80,43 @@ public class DemoEndToEndTests(DemoFixture demo) : IClassFixture<DemoFixture>
     }
 
     [Fact]
+    public void Accept_and_history_record_a_loosened_tolerance_that_check_refused_before()
+    {
+        // A copy of the demo's accepted state, so the shared demo folder stays as it is.
+        var dir = Path.Combine(Path.GetTempPath(), "gatetasks-ledger-cli-" + Guid.NewGuid().ToString("N")[..8]);
+        Directory.CreateDirectory(Path.Combine(dir, "reference"));
+        foreach (var f in new[] { "precision-contract.yaml", "precision-contract.ledger", "surrogate-faithful.parquet", "reference/fullsim-reference.parquet" })
+            File.Copy(Path.Combine(demo.Folder, f), Path.Combine(dir, f));
+        try
+        {
+            var contract = Path.Combine(dir, "precision-contract.yaml");
+            Assert.Equal(0, Cli.Run("check", "--contract", contract).ExitCode);
+            File.WriteAllText(contract, File.ReadAllText(contract).Replace("    ks-max: 0.01 ", "    ks-max: 0.012 "));
+            var (code, stdout, stderr) = Cli.Run("check", "--contract", contract);
+            Assert.True(code == 4, stdout + stderr); // checks pass, accepted state not respected
+            Assert.Contains("error GATE4003: m_gg ks-max changed from 0.01 to 0.012", stderr);
+            Assert.Contains("NOT ACCEPTED", stdout);
+
+            Assert.Equal(2, Cli.Run("accept", "--contract", contract).ExitCode); // --reason is required
+            (code, stdout, stderr) = Cli.Run("accept", "--contract", contract, "--reason", "KS loosened: the fit bins are twice as wide", "--by", "CLI Tester");
+            Assert.True(code == 0, stdout + stderr);
+            Assert.Contains("accepted as entry 2", stdout);
+            Assert.Equal(0, Cli.Run("check", "--contract", contract).ExitCode);
+
+            (code, stdout, _) = Cli.Run("history", "--contract", contract);
+            Assert.Equal(0, code);
+            Assert.Contains("2 accepted entries, chain intact", stdout);
+            Assert.Contains("CLI Tester", stdout);
+            Assert.Contains("why: KS loosened: the fit bins are twice as wide", stdout);
+            Assert.Contains("loosened  m_gg ks-max: 0.01 → 0.012", stdout);
+        }
+        finally
+        {
+            Directory.Delete(dir, recursive: true);
+        }
+    }
+
+    [Fact]
     public void Reference_show_prints_provenance_and_features()
     {
         var (code, stdout, stderr) = Cli.Run("reference", "show", Path.Combine(demo.Folder, "reference", "fullsim-reference.parquet"));
