@@ -167,7 +167,9 @@ public sealed class GateRun : Task, ICancelableTask
         {
             // The one-line verdict is shown at normal verbosity; the table and the rest at detailed.
             var summary = text.StartsWith("PASSED:", StringComparison.Ordinal) || text.StartsWith("FAILED:", StringComparison.Ordinal);
-            Log.LogMessage(summary ? MessageImportance.High : otherImportance, "{0}", text);
+            // Progress of a long read shows at normal verbosity, like the build's own progress.
+            var progress = text.StartsWith("progress:", StringComparison.Ordinal);
+            Log.LogMessage(summary ? MessageImportance.High : progress ? MessageImportance.Normal : otherImportance, "{0}", text);
             return;
         }
         if (coded.IsDrift) _driftLogged = true;

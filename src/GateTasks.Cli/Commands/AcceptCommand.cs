@@ -24,7 +24,7 @@ internal static class AcceptCommand
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             var who = parse.GetValue(by) ?? AcceptorIdentity.Find(loaded.Directory)
                 ?? throw new GateInputException(ErrorCodes.Usage, "Cannot tell who accepts: no CI user and no git user.name here; say it with --by \"Name <email>\".");
-            var report = ContractCheck.Run(loaded, parse.GetValue(sample));
+            var report = ContractCheck.Run(loaded, parse.GetValue(sample), ProgressDisplay.For(stdout, stderr));
             var entry = Acceptance.Accept(report, who, parse.GetValue(reason)!, DateTimeOffset.UtcNow);
             stdout.WriteLine($"accepted as entry {entry.Number} of {loaded.LedgerFullPath}");
             stdout.WriteLine($"  by   {entry.By}");

@@ -28,7 +28,7 @@ internal static class CheckCommand
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
-            var report = ContractCheck.Run(loaded, parse.GetValue(sample));
+            var report = ContractCheck.Run(loaded, parse.GetValue(sample), ProgressDisplay.For(stdout, stderr));
             if (parse.GetValue(text) is { } textPath)
                 AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
             return Print(report, parse.GetValue(junit), stdout, stderr);

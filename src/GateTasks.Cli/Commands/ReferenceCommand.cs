@@ -39,7 +39,7 @@ internal static class ReferenceCommand
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             var files = SampleFiles.Resolve(parse.GetValue(from)!, Directory.GetCurrentDirectory());
-            var reference = ReferenceBuilder.Build(loaded, files, parse.GetValue(weight) ?? loaded.Sample.Weight, ToolVersion.Current);
+            var reference = ReferenceBuilder.Build(loaded, files, parse.GetValue(weight) ?? loaded.Sample.Weight, ToolVersion.Current, ProgressDisplay.For(stdout, stderr));
             var target = parse.GetValue(output) is { } o ? Path.GetFullPath(o) : loaded.ReferenceFullPath;
             ReferenceFile.Write(target, reference);
             stdout.WriteLine($"Reference written: {target}");

@@ -19,13 +19,15 @@ internal static class ContractCheck
     private const int SampleJointSeed = 7_654_321;
 
     /// <summary>Runs the contract. <paramref name="samplePath"/> overrides the contract's sample (relative to the working directory).</summary>
-    public static CheckReport Run(PrecisionContract contract, string? samplePath = null)
+    public static CheckReport Run(PrecisionContract contract, string? samplePath = null, IProgress<ReadProgress>? progress = null)
     {
         var started = DateTimeOffset.UtcNow;
         var clock = Stopwatch.StartNew();
         // The sample's columns are checked first: a misspelt column is best answered with the sample's own names.
         var files = ContractInputs.SampleFiles(contract, samplePath);
         var sample = Sample.Open(files);
+        sample.Progress = progress;
+        sample.Phase = "checking the sample";
         ValidateColumns(contract, sample);
         var inputs = FeatureInputs.Compile(contract, sample.Columns.Select(c => c.Name).ToList());
 

@@ -25,10 +25,13 @@ internal static class ReferenceBuilder
         [0.001, 0.01, 0.025, 0.05, 0.1, 0.16, 0.25, 0.5, 0.75, 0.84, 0.9, 0.95, 0.975, 0.99, 0.999];
 
     /// <summary>Builds the reference for <paramref name="contract"/>'s features from <paramref name="files"/>.</summary>
-    public static ReferenceHistograms Build(PrecisionContract contract, IReadOnlyList<string> files, string? weightColumn, string toolVersion)
+    public static ReferenceHistograms Build(PrecisionContract contract, IReadOnlyList<string> files, string? weightColumn, string toolVersion,
+        IProgress<ReadProgress>? progress = null)
     {
         var features = contract.Features;
         var sample = Sample.Open(files);
+        sample.Progress = progress;
+        sample.Phase = "reference pass 1 (ranges and moments)";
         var columns = FeatureInputs.Compile(contract, sample.Columns.Select(c => c.Name).ToList());
         var n = features.Count;
 
@@ -54,6 +57,7 @@ internal static class ReferenceBuilder
         }
 
         // Pass 2: fine quantile grids and directly binned histograms.
+        sample.Phase = "reference pass 2 (quantile grids)";
         var grids = new QuantileGrid?[n];
         var direct = new Histogram?[n];
         for (var i = 0; i < n; i++)
@@ -99,6 +103,7 @@ internal static class ReferenceBuilder
             var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
                 new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram),
                 p.Chi2 is null ? null : new Histogram2D(result[index[p.First]].Histogram.Axis, result[index[p.Second]].Histogram.Axis))).ToList();
+            sample.Phase = "reference pass 3 (correlations and far tails)";
             SampleStream.Run(sample, columns, weightColumn, (i, values, weights) => farTail[i]?.Add(values, weights), view =>
             {
                 foreach (var p in pairs) p.Add(view);

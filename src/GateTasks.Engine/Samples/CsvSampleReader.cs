@@ -44,6 +44,9 @@ internal sealed class CsvSampleReader : ISampleReader
     /// <inheritdoc />
     public IReadOnlyList<SampleColumn> Columns { get; }
 
+    /// <inheritdoc />
+    public long? RowCount => null;
+
     /// <summary>Opens <paramref name="path"/> and reads its header row.</summary>
     /// <param name="path">The CSV file.</param>
     /// <param name="blockRows">Rows per batch.</param>

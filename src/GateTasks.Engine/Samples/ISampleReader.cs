@@ -9,6 +9,9 @@ internal interface ISampleReader : IDisposable
     /// <summary>The file being read.</summary>
     string Path { get; }
 
+    /// <summary>Rows in the file, when the format states it up front (Parquet does, CSV does not).</summary>
+    long? RowCount { get; }
+
     /// <summary>Every column of the file with its stored type, in file order.</summary>
     IReadOnlyList<SampleColumn> Columns { get; }
 

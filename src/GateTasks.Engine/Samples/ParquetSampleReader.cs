@@ -30,6 +30,9 @@ internal sealed class ParquetSampleReader : ISampleReader
     /// <inheritdoc />
     public IReadOnlyList<SampleColumn> Columns { get; }
 
+    /// <inheritdoc />
+    public long? RowCount => _reader.Metadata?.NumRows;
+
     /// <summary>Opens <paramref name="path"/> and reads its schema; GATE2001/GATE2002 when it cannot.</summary>
     public static ParquetSampleReader Open(string path)
     {

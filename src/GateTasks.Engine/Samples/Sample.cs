@@ -10,9 +10,10 @@ internal sealed class Sample
 {
     private readonly IReadOnlyList<SampleColumn>[] _fileColumns;
 
-    private Sample(IReadOnlyList<string> files, IReadOnlyList<SampleColumn>[] fileColumns)
+    private Sample(IReadOnlyList<string> files, IReadOnlyList<SampleColumn>[] fileColumns, long? totalRows)
     {
         Files = files;
+        TotalRows = totalRows;
         _fileColumns = fileColumns;
         Columns = CommonColumns(fileColumns);
     }
@@ -22,6 +23,15 @@ internal sealed class Sample
 
     /// <summary>The columns every file has, in the first file's order, with the first file's type.</summary>
     public IReadOnlyList<SampleColumn> Columns { get; }
+
+    /// <summary>Rows in all files, when every file states its count.</summary>
+    public long? TotalRows { get; }
+
+    /// <summary>Told after every batch how far a pass has got (and once at its end); null for silence.</summary>
+    public IProgress<ReadProgress>? Progress { get; set; }
+
+    /// <summary>What the next pass is for, as progress reports name it.</summary>
+    public string Phase { get; set; } = "reading the sample";
 
     /// <summary>Rows read by the last (or current) <see cref="ReadBatches"/> enumeration.</summary>
     public long RowsRead { get; private set; }
@@ -43,6 +53,7 @@ internal sealed class Sample
 
         var seen = new HashSet<string>(StringComparer.Ordinal);
         var columns = new IReadOnlyList<SampleColumn>[files.Count];
+        long? totalRows = 0;
         for (var i = 0; i < files.Count; i++)
         {
             if (!seen.Add(Path.GetFullPath(files[i])))
@@ -51,8 +62,9 @@ internal sealed class Sample
                     new SourceLocation(files[i]));
             using var reader = SampleReaderFactory.Open(files[i]);
             columns[i] = reader.Columns;
+            totalRows = totalRows is { } t && reader.RowCount is { } r ? t + r : null;
         }
-        return new Sample(files.ToArray(), columns);
+        return new Sample(files.ToArray(), columns, totalRows);
     }
 
     /// <summary>
@@ -71,6 +83,7 @@ internal sealed class Sample
     {
         RowsRead = 0;
         BatchesRead = 0;
+        var clock = System.Diagnostics.Stopwatch.StartNew();
         foreach (var file in Files)
         {
             CurrentFile = file;
@@ -80,8 +93,10 @@ internal sealed class Sample
                 RowsRead += batch.RowCount;
                 BatchesRead++;
                 yield return batch;
+                Progress?.Report(new ReadProgress(Phase, RowsRead, TotalRows, clock.Elapsed, false));
             }
         }
+        Progress?.Report(new ReadProgress(Phase, RowsRead, TotalRows, clock.Elapsed, true));
     }
 
     // For a column missing from one file: say how many of the others have it, since that usually means a stray file.
