@@ -94,7 +94,8 @@ public class DemoEndToEndTests(DemoFixture demo) : IClassFixture<DemoFixture>
             File.WriteAllText(contract, File.ReadAllText(contract).Replace("    ks-max: 0.01 ", "    ks-max: 0.012 "));
             var (code, stdout, stderr) = Cli.Run("check", "--contract", contract);
             Assert.True(code == 4, stdout + stderr); // checks pass, accepted state not respected
-            Assert.Contains("error GATE4003: m_gg ks-max changed from 0.01 to 0.012", stderr);
+            Assert.Contains("error GATE4003: ks-max of 10 features (m_gg, e_lead, e_sublead, eta_lead, …) changed from 0.01 to 0.012", stderr);
+            Assert.Single(stderr.Split('\n'), l => l.Contains("GATE4003")); // one line for the one changed default
             Assert.Contains("NOT ACCEPTED", stdout);
 
             Assert.Equal(2, Cli.Run("accept", "--contract", contract).ExitCode); // --reason is required

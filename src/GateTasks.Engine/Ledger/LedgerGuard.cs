@@ -48,15 +48,22 @@ internal static class LedgerGuard
         var current = AcceptedState.Of(contract);
         if (FileDigest.Sha256(contract.FilePath) != latest.ContractSha256)
         {
-            foreach (var change in StateComparison.Compare(latest.State, current))
+            // A changed default moves many features' checks at one contract line: one finding per line and change.
+            var groups = StateComparison.Compare(latest.State, current)
+                .GroupBy(c => (c.Direction, c.Location, c.From, c.To, Check: c.What[(c.What.IndexOf(' ') + 1)..]));
+            foreach (var g in groups)
             {
-                if (change.Direction == ChangeDirection.Looser)
-                    findings.Add(new(ErrorCodes.LedgerUnrecordedLoosening, true,
-                        $"{Describe(change)} since {since}, with no entry accepting it; {fix}", change.Location ?? new SourceLocation(contract.FilePath, 1, 1)));
+                var first = g.First();
+                var described = g.Count() == 1 ? Describe(first) : Describe(first with
+                {
+                    What = $"{g.Key.Check} of {g.Count()} features ({string.Join(", ", g.Select(c => c.What[..c.What.IndexOf(' ')]).Take(4))}{(g.Count() > 4 ? ", …" : "")})",
+                });
+                var at = first.Location ?? new SourceLocation(contract.FilePath, 1, 1);
+                if (first.Direction == ChangeDirection.Looser)
+                    findings.Add(new(ErrorCodes.LedgerUnrecordedLoosening, true, $"{described} since {since}, with no entry accepting it; {fix}", at));
                 else if (guard.RecordTightening)
                     findings.Add(new(ErrorCodes.LedgerUnrecordedTightening, true,
-                        $"{Describe(change)} since {since}; this contract records tightening too ('acceptance.tightening: record'); {fix}",
-                        change.Location ?? new SourceLocation(contract.FilePath, 1, 1)));
+                        $"{described} since {since}; this contract records tightening too ('acceptance.tightening: record'); {fix}", at));
             }
         }
         if (guard.Ratchet && outcomes is not null) findings.AddRange(Ratchet(latest, outcomes, contract, since));
