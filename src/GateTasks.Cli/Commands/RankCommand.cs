@@ -34,7 +34,7 @@ internal static class RankCommand
             stdout.WriteLine();
             stdout.Write(RankingTable.Format(report));
             foreach (var c in report.NotChecked)
-                stderr.WriteLine($"candidate {c.Result.Candidate} not checked: {c.Result.Error!.DiagnosticLine}");
+                stderr.WriteLine($"{c.Result.Error!.DiagnosticLine} (candidate {c.Result.Candidate}: not ranked)");
             if (parse.GetValue(csv) is { } csvPath)
             {
                 RankingCsv.Write(csvPath, report);

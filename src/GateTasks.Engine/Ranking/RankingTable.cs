@@ -16,10 +16,8 @@ internal static class RankingTable
             var r = c.Result;
             rows.Add(r.Error is not null
                 ? ["—", r.Candidate, "error", "", "", "", "", c.Reason]
-                : [c.Rank!.Value.ToString(System.Globalization.CultureInfo.InvariantCulture), r.Candidate, c.Status,
-                   r.Failed.ToString(System.Globalization.CultureInfo.InvariantCulture),
-                   r.Inconclusive.ToString(System.Globalization.CultureInfo.InvariantCulture),
-                   MarginText(r.WorstMargin), r.Worst?.Label ?? "—", c.Reason]);
+                : [InvariantNumber.Count(c.Rank!.Value), r.Candidate, r.Passed ? "pass" : "FAIL", InvariantNumber.Count(r.Failed),
+                   InvariantNumber.Count(r.Inconclusive), MarginText(r.WorstMargin), r.Worst?.Label ?? "—", c.Reason]);
         }
         var widths = Enumerable.Range(0, header.Length).Select(col => rows.Max(row => row[col].Length)).ToArray();
         var sb = new StringBuilder();
