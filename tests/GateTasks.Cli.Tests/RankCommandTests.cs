@@ -122,6 +122,15 @@ public sealed class RankCommandTests(CheckpointSet set) : IClassFixture<Checkpoi
     }
 
     [Fact]
+    public void Help_lists_rank_with_its_options()
+    {
+        var (code, stdout, _) = Cli.Run("rank", "--help");
+        Assert.Equal(0, code);
+        foreach (var word in new[] { "--contract", "--csv", "--json", "candidate" }) Assert.Contains(word, stdout);
+        Assert.Contains("rank", Cli.Run("--help").Stdout);
+    }
+
+    [Fact]
     public void Rank_without_candidates_is_a_usage_error()
     {
         var (code, _, stderr) = Cli.Run("rank", "--contract", set.ContractPath);
