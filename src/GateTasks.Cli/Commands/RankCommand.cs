@@ -1,0 +1,56 @@
+using System.CommandLine;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Ranking;
+
+namespace GateTasks.Cli.Commands;
+
+/// <summary><c>gatetasks rank</c>: checks several candidate samples under one contract and ranks them.</summary>
+internal static class RankCommand
+{
+    public static Command Create(TextWriter stdout, TextWriter stderr)
+    {
+        var contract = SharedOptions.Contract();
+        var candidates = new Argument<string[]>("candidate")
+        {
+            Description = "Candidate samples: a Parquet or CSV file, a folder (its files are one sample), or a quoted glob such as \"checkpoints/epoch-*.parquet\" (one candidate per file).",
+            Arity = ArgumentArity.OneOrMore,
+        };
+        var csv = new Option<string?>("--csv") { Description = "Also write the ranking as CSV to this path." };
+        var json = new Option<string?>("--json") { Description = "Also write the ranking, with every check's margin, as JSON to this path." };
+        var command = new Command("rank", "Check several candidate samples (e.g. the checkpoints of a training run) under one contract and rank them: fewer failed, then fewer inconclusive checks, then a higher worst margin. Exit 0: at least one candidate passes; 1: none does; 2: input error, or a candidate could not be checked.")
+        {
+            contract, candidates, csv, json,
+        };
+        command.SetAction(parse => CliApp.Guard(stderr, () =>
+        {
+            var loaded = ContractLoader.Load(parse.GetValue(contract)!);
+            var paths = CandidatePatterns.Expand(parse.GetValue(candidates)!);
+            var report = RankingRun.Run(loaded, paths, (i, r) => stdout.WriteLine(
+                $"checked {i + 1}/{paths.Count} {r.Candidate}: " +
+                (r.Error is not null ? $"not checked ({r.Error.Code})" : $"{(r.Passed ? "pass" : "FAIL")}, {r.Failed} failed, {r.Inconclusive} inconclusive")));
+            stdout.WriteLine();
+            stdout.WriteLine($"contract  {loaded.FilePath}");
+            stdout.WriteLine($"reference {report.ReferencePath}");
+            stdout.WriteLine();
+            stdout.Write(RankingTable.Format(report));
+            foreach (var c in report.NotChecked)
+                stderr.WriteLine($"{c.Result.Error!.DiagnosticLine} (candidate {c.Result.Candidate}: not ranked)");
+            if (parse.GetValue(csv) is { } csvPath)
+            {
+                RankingCsv.Write(csvPath, report);
+                stdout.WriteLine($"CSV: {Path.GetFullPath(csvPath)}");
+            }
+            if (parse.GetValue(json) is { } jsonPath)
+            {
+                RankingJson.Write(jsonPath, report);
+                stdout.WriteLine($"JSON: {Path.GetFullPath(jsonPath)}");
+            }
+            stdout.WriteLine(RankingTable.Summary(report));
+            // A candidate that could not be checked is an input error even when another passes: its place is unknown.
+            return report.NotChecked.Count > 0 ? ExitCodes.InputError
+                : report.AnyPassed ? ExitCodes.Success
+                : ExitCodes.ChecksFailed;
+        }));
+        return command;
+    }
+}

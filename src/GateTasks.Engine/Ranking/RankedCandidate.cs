@@ -1,0 +1,26 @@
+namespace GateTasks.Engine.Ranking;
+
+/// <summary>
+/// A candidate in its place: its rank (shared by tied candidates; null when it could not be checked), the key that
+/// decided its place against the candidate above, and that reason in words.
+/// </summary>
+internal sealed record RankedCandidate(int? Rank, CandidateResult Result, RankDecision DecidedBy, string Reason)
+{
+    /// <summary>True when it shares its rank with the candidate above.</summary>
+    public bool TiedWithPrevious => DecidedBy is RankDecision.Tie or RankDecision.TieWithinNoise;
+
+    /// <summary>"pass", "fail" or "error" (not checked).</summary>
+    public string Status => Result.Error is not null ? "error" : Result.Passed ? "pass" : "fail";
+
+    /// <summary>The <see cref="DecidedBy"/> key as written in the CSV and JSON reports.</summary>
+    public string DecidedByKey => DecidedBy switch
+    {
+        RankDecision.First => "first",
+        RankDecision.FailedChecks => "failed",
+        RankDecision.InconclusiveChecks => "inconclusive",
+        RankDecision.WorstMargin => "worst-margin",
+        RankDecision.Tie => "tie",
+        RankDecision.TieWithinNoise => "tie-within-noise",
+        _ => "not-checked",
+    };
+}

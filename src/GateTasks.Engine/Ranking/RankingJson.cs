@@ -1,0 +1,113 @@
+using System.Text.Encodings.Web;
+using System.Text.Json;
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.IO;
+
+namespace GateTasks.Engine.Ranking;
+
+/// <summary>
+/// The ranking as JSON: the contract and its decision settings, then every candidate in ranked order with its
+/// counts, worst margin and check, the key that placed it, and each check's margin. A margin that is not a finite
+/// number (an impossible measurement, −∞) is <c>null</c>, as JSON has no infinities.
+/// </summary>
+internal static class RankingJson
+{
+    public static void Write(string path, RankingReport report) => AtomicFile.Write(path, s => Write(s, report));
+
+    public static void Write(Stream stream, RankingReport report)
+    {
+        var options = new JsonWriterOptions { Indented = true, Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
+        using var w = new Utf8JsonWriter(stream, options);
+        var contract = report.Contract;
+        var d = contract.Decision;
+        w.WriteStartObject();
+        w.WriteString("contract", Path.GetFullPath(contract.FilePath));
+        w.WriteString("title", contract.DisplayName);
+        w.WriteString("reference", report.ReferencePath);
+        w.WriteStartObject("decision");
+        w.WriteNumber("confidence", d.Confidence);
+        w.WriteNumber("false_alarm", d.FalseAlarm);
+        w.WriteString("correction", d.CorrectionName);
+        w.WriteString("inconclusive", d.InconclusiveFails ? "fail" : "warn");
+        w.WriteEndObject();
+        w.WriteBoolean("any_passed", report.AnyPassed);
+        w.WriteStartArray("candidates");
+        foreach (var c in report.Candidates) WriteCandidate(w, c);
+        w.WriteEndArray();
+        w.WriteEndObject();
+    }
+
+    private static void WriteCandidate(Utf8JsonWriter w, RankedCandidate c)
+    {
+        var r = c.Result;
+        w.WriteStartObject();
+        if (c.Rank is { } rank) w.WriteNumber("rank", rank); else w.WriteNull("rank");
+        w.WriteString("candidate", r.Candidate);
+        w.WriteString("status", c.Status);
+        w.WriteStartArray("files");
+        foreach (var f in r.SampleFiles) w.WriteStringValue(f);
+        w.WriteEndArray();
+        if (r.Error is null)
+        {
+            w.WriteNumber("events", r.Events);
+            w.WriteNumber("failed", r.Failed);
+            w.WriteNumber("inconclusive", r.Inconclusive);
+        }
+        else
+        {
+            w.WriteNull("events");
+            w.WriteNull("failed");
+            w.WriteNull("inconclusive");
+        }
+        var worst = r.Worst;
+        WriteNumberOrNull(w, "worst_margin", worst?.Margin.Value ?? double.NaN);
+        WriteNumberOrNull(w, "worst_margin_noise", worst?.Margin.Noise ?? double.NaN);
+        if (worst is null) w.WriteNull("worst_check");
+        else
+        {
+            w.WriteStartObject("worst_check");
+            w.WriteString("feature", worst.Feature);
+            w.WriteString("check", worst.Check);
+            w.WriteString("verdict", VerdictKey(worst.Verdict));
+            w.WriteEndObject();
+        }
+        w.WriteString("decided_by", c.DecidedByKey);
+        w.WriteBoolean("tied_with_previous", c.TiedWithPrevious);
+        w.WriteString("reason", c.Reason);
+        if (r.Error is { } e)
+        {
+            w.WriteStartObject("error");
+            w.WriteString("code", e.Code);
+            w.WriteString("message", e.Message);
+            if (e.Location is { } at) w.WriteString("location", at.ToString()); else w.WriteNull("location");
+            w.WriteEndObject();
+        }
+        else w.WriteNull("error");
+        w.WriteStartArray("checks");
+        foreach (var check in r.Checks)
+        {
+            w.WriteStartObject();
+            w.WriteString("feature", check.Feature);
+            w.WriteString("check", check.Check);
+            w.WriteString("verdict", VerdictKey(check.Verdict));
+            WriteNumberOrNull(w, "margin", check.Margin.Value);
+            WriteNumberOrNull(w, "margin_noise", check.Margin.Noise);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        w.WriteEndObject();
+    }
+
+    private static void WriteNumberOrNull(Utf8JsonWriter w, string name, double value)
+    {
+        if (double.IsFinite(value)) w.WriteNumber(name, value);
+        else w.WriteNull(name);
+    }
+
+    private static string VerdictKey(Verdict v) => v switch
+    {
+        Verdict.Pass => "pass",
+        Verdict.Fail => "fail",
+        _ => "inconclusive",
+    };
+}
