@@ -21,9 +21,17 @@ internal static class CheckCommand
         {
             Description = "Also write the result table and summary as plain text to this path.",
         };
+        var html = new Option<string?>("--html")
+        {
+            Description = "Also write a self-contained HTML report with a plot per feature to this path.",
+        };
+        var markdown = new Option<string?>("--markdown")
+        {
+            Description = "Also write a Markdown summary (for a pull-request comment or CI job summary) to this path.",
+        };
         var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed (or was inconclusive, if the contract says so); 2: input error.")
         {
-            contract, sample, junit, text,
+            contract, sample, junit, text, html, markdown,
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
@@ -31,6 +39,16 @@ internal static class CheckCommand
             var report = ContractCheck.Run(loaded, parse.GetValue(sample));
             if (parse.GetValue(text) is { } textPath)
                 AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
+            if (parse.GetValue(html) is { } htmlPath)
+            {
+                HtmlReport.Write(htmlPath, report);
+                stdout.WriteLine($"HTML report: {Path.GetFullPath(htmlPath)}");
+            }
+            if (parse.GetValue(markdown) is { } markdownPath)
+            {
+                MarkdownSummary.Write(markdownPath, report);
+                stdout.WriteLine($"Markdown summary: {Path.GetFullPath(markdownPath)}");
+            }
             return Print(report, parse.GetValue(junit), stdout, stderr);
         }));
         return command;
