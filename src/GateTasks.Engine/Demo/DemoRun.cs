@@ -52,13 +52,15 @@ internal sealed class DemoRun(string folder, DemoKind kind = DemoKind.Generator)
         return reference;
     }
 
-    /// <summary>Checks one surrogate sample and writes its JUnit report.</summary>
+    /// <summary>Checks one surrogate sample and writes its reports: JUnit XML, HTML and Markdown, named after <paramref name="reportName"/>.</summary>
     public (CheckReport Report, string JUnitPath) Check(string samplePath, string reportName)
     {
         var contract = ContractLoader.Load(ContractPath);
         var report = ContractCheck.Run(contract, samplePath);
         var junit = Path.Combine(ReportFolder, reportName + ".junit.xml");
         JUnitReport.Write(junit, [report]);
+        HtmlReport.Write(Path.Combine(ReportFolder, reportName + ".html"), report);
+        MarkdownSummary.Write(Path.Combine(ReportFolder, reportName + ".md"), report);
         return (report, junit);
     }
 }
