@@ -145,7 +145,6 @@ internal static class HtmlReport
         CheckKind.PearsonDifference or CheckKind.SpearmanDifference or CheckKind.ChiSquare2DTest =>
             "A declared pair of features: its correlations (or 2-D histogram) are compared directly, with no 1-D plot.",
         CheckKind.EnergyTest => "A multivariate test over a feature set, on unbinned subsamples: no 1-D plot.",
-        CheckKind.Fraction => "The categories' shares of the events: each category's distribution has its own section.",
         _ => "No histogram to plot.",
     };
 
