@@ -41,6 +41,17 @@ public partial class DemoEndToEndTests
         Assert.Equal(["drifted.html", "drifted.md"], Directory.GetFiles(Path.GetDirectoryName(html)!).Select(Path.GetFileName).OrderBy(n => n));
     }
 
+    [Fact]
+    public void A_report_path_that_cannot_be_written_is_an_input_error_not_a_crash()
+    {
+        // A folder path through a regular file cannot be created.
+        var html = Path.Combine(demo.Contract, "report.html");
+        var (code, stdout, stderr) = Cli.Run("check", "--contract", demo.Contract, "--html", html);
+        Assert.True(code == 2, stdout + stderr);
+        Assert.Contains($"error {GateTasks.Engine.Diagnostics.ErrorCodes.OutputNotWritable}: Cannot write {html}", stderr);
+        Assert.DoesNotContain("   at ", stderr);
+    }
+
     /// <summary>
     /// Python-Markdown 3.4 (Debian's python3-markdown) with its 'tables' extension, an independent parser of the
     /// table syntax GitHub uses, turns the drifted summary into an HTML table whose rows name the failed checks.

@@ -39,17 +39,20 @@ internal static class CheckCommand
             var report = ContractCheck.Run(loaded, parse.GetValue(sample));
             if (parse.GetValue(text) is { } textPath)
                 AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
+            var written = new List<string>();
             if (parse.GetValue(html) is { } htmlPath)
             {
                 HtmlReport.Write(htmlPath, report);
-                stdout.WriteLine($"HTML report: {Path.GetFullPath(htmlPath)}");
+                written.Add($"HTML report: {Path.GetFullPath(htmlPath)}");
             }
             if (parse.GetValue(markdown) is { } markdownPath)
             {
                 MarkdownSummary.Write(markdownPath, report);
-                stdout.WriteLine($"Markdown summary: {Path.GetFullPath(markdownPath)}");
+                written.Add($"Markdown summary: {Path.GetFullPath(markdownPath)}");
             }
-            return Print(report, parse.GetValue(junit), stdout, stderr);
+            var exit = Print(report, parse.GetValue(junit), stdout, stderr);
+            foreach (var line in written) stdout.WriteLine(line);
+            return exit;
         }));
         return command;
     }

@@ -43,7 +43,7 @@ internal static class FeaturePlot
             Background = Color(ReportPalette.Paper),
         };
         var edges = bins.Select(b => b.Lower).Append(bins[^1].Upper).ToList();
-        var (viewLow, viewHigh) = View(edges);
+        var (viewLow, viewHigh) = View(edges, discrete);
         var pad = 0.01 * (viewHigh - viewLow);
         var x = new BinEdgeAxis(edges)
         {
@@ -246,12 +246,13 @@ internal static class FeaturePlot
     }
 
     /// <summary>
-    /// The value range shown: all bins, except that an outer bin far wider than the rest (a quantile binning's last
-    /// bin over a long tail) is cut to a quarter of the inner bins' span, so it does not squeeze them together.
+    /// The value range shown: all bins, except that an outer bin of a continuous feature far wider than the rest (a
+    /// quantile binning's last bin over a long tail) is cut to a quarter of the inner bins' span, so it does not
+    /// squeeze them together. Discrete features and coarse binnings are shown whole.
     /// </summary>
-    public static (double Low, double High) View(IReadOnlyList<double> edges)
+    public static (double Low, double High) View(IReadOnlyList<double> edges, bool discrete)
     {
-        if (edges.Count < 4) return (edges[0], edges[^1]);
+        if (discrete || edges.Count < 6) return (edges[0], edges[^1]);
         var inner = edges[^2] - edges[1];
         var low = edges[1] - edges[0] > 0.5 * inner ? edges[1] - 0.25 * inner : edges[0];
         var high = edges[^1] - edges[^2] > 0.5 * inner ? edges[^2] + 0.25 * inner : edges[^1];

@@ -44,9 +44,7 @@ internal static class MarkdownSummary
 
         if (passed.Count > 0)
         {
-            var features = passed.Select(o => o.Feature.Name).Distinct().Count();
-            sb.Append("<details><summary>").Append(passed.Count).Append(" passing check").Append(passed.Count == 1 ? "" : "s")
-              .Append(" on ").Append(features).Append(" feature").Append(features == 1 ? "" : "s").Append("</summary>\n\n");
+            sb.Append("<details><summary>").Append(passed.Count).Append(" passing check").Append(passed.Count == 1 ? "" : "s").Append("</summary>\n\n");
             sb.Append("| feature | check | region | estimate | tolerance |\n");
             sb.Append("|---|---|---|---:|---:|\n");
             foreach (var o in passed)

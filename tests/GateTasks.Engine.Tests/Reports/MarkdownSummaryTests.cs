@@ -56,7 +56,7 @@ public sealed class MarkdownSummaryTests(ReportCase run) : IClassFixture<ReportC
         Assert.Contains(failing, r => r[0] == "`x`" && r[1] == "ks-max" && r[2] == "all" && r[4] == "≤ 0.03" && r[5] == "**FAIL**");
         // The passing checks sit in a details block, after its summary line and a blank line.
         var passing = report.Outcomes.Count(o => o.Verdict == Verdict.Pass);
-        Assert.Contains($"<details><summary>{passing} passing checks", md);
+        Assert.Contains($"<details><summary>{passing} passing checks</summary>\n\n|", md);
         Assert.Equal(passing, tables[1].Count - 2);
         Assert.True(md.IndexOf("<details>", StringComparison.Ordinal) < md.LastIndexOf(tables[1][0], StringComparison.Ordinal));
     }
