@@ -21,9 +21,7 @@ internal sealed record FeatureOutcomes(string Name, FeatureComparison? Compariso
         return report.Outcomes
             .GroupBy(o => o.Feature.Name)
             .Select(g => new FeatureOutcomes(g.Key, comparisons.GetValueOrDefault(g.Key), g.ToList()))
-            .Select((f, i) => (f, i))
-            .OrderBy(p => Rank(p.f.Worst)).ThenBy(p => p.i)
-            .Select(p => p.f)
+            .OrderBy(f => Rank(f.Worst)) // stable: contract order within each verdict
             .ToList();
     }
 

@@ -59,7 +59,7 @@ internal static class HtmlReport
         Fact(sb, r.SampleFiles.Count == 1 ? "sample file" : $"sample files ({r.SampleFiles.Count})", string.Join("<br>", r.SampleFiles.Select(Code)));
         Fact(sb, "sample events", E($"{InvariantNumber.Count(r.Events)} (effective {r.EffectiveEvents.ToString("0", CultureInfo.InvariantCulture)})"));
         if (r.Contract.Selection is { } selection) Fact(sb, "selection", Code(selection.Text));
-        Fact(sb, "checked", E($"{r.StartedUtc.ToUniversalTime():yyyy-MM-dd HH:mm:ss} UTC in {r.Elapsed.TotalSeconds.ToString("0.0", CultureInfo.InvariantCulture)} s"));
+        Fact(sb, "checked", E($"{r.StartedUtc.UtcDateTime.ToString("yyyy-MM-dd HH:mm:ss", CultureInfo.InvariantCulture)} UTC in {r.Elapsed.TotalSeconds.ToString("0.0", CultureInfo.InvariantCulture)} s"));
         sb.Append("</dl>\n</header>\n");
     }
 
@@ -115,7 +115,7 @@ internal static class HtmlReport
             var bins = ComparedBin.Of(c);
             if (c.SampleSpike is { } spike && c.Reference.Spike is { } refSpike) SpikeNote(sb, report, spike, refSpike);
             sb.Append("<figure class=\"plot\" data-bands=\"").Append(E(string.Join(" ", bands.Select(b => $"{b.Region}:{InvariantNumber.Short(b.Tolerance)}")))).Append("\">\n")
-              .Append(Responsive(FeaturePlot.Svg(c, s.Outcomes)))
+              .Append(Responsive(FeaturePlot.Svg(c, s.Outcomes), $"{s.Name}: reference and surrogate distributions, and their ratio over the tolerance bands"))
               .Append("\n<figcaption>")
               .Append("<span class=\"key\"><i class=\"sw ref\"></i>reference</span>")
               .Append("<span class=\"key\"><i class=\"sw sur\"></i>surrogate ± 1σ</span>");
@@ -162,7 +162,8 @@ internal static class HtmlReport
     {
         sb.Append("<table class=\"checks\">\n<thead><tr><th>check</th><th>region</th><th class=\"num\">estimate</th><th class=\"num\">")
           .Append(E(ResultTable.IntervalHeader(report))).Append("</th><th class=\"num\">tolerance</th><th class=\"num\">adj. p</th><th>verdict</th><th class=\"num\">events needed</th></tr></thead>\n<tbody>\n");
-        foreach (var o in s.Outcomes.OrderBy(o => FeatureOutcomes.Rank(o.Verdict)).ThenBy(o => s.Outcomes.ToList().IndexOf(o)))
+        // A stable sort: failing rows first, contract order within each verdict.
+        foreach (var o in s.Outcomes.OrderBy(o => FeatureOutcomes.Rank(o.Verdict)))
         {
             var css = Css(o.Verdict);
             sb.Append("<tr class=\"").Append(css).Append("\" data-check=\"").Append(E(o.Check.Label)).Append("\" title=\"").Append(E(o.Summary)).Append("\">")
@@ -217,7 +218,7 @@ internal static class HtmlReport
     }
 
     /// <summary>Drops OxyPlot's fixed size so the plot scales with the page; its viewBox keeps the aspect ratio.</summary>
-    private static string Responsive(string svg)
+    private static string Responsive(string svg, string label)
     {
         var start = svg.IndexOf("<svg", StringComparison.Ordinal);
         var end = svg.IndexOf('>', start);
@@ -225,7 +226,7 @@ internal static class HtmlReport
         var fixedSize = System.Text.RegularExpressions.Regex.Replace(tag, "\\s(width|height)=\"[^\"]*\"", "");
         if (!fixedSize.Contains("viewBox", StringComparison.Ordinal))
             fixedSize += string.Create(CultureInfo.InvariantCulture, $" viewBox=\"0 0 {FeaturePlot.Width} {FeaturePlot.Height}\"");
-        fixedSize += " role=\"img\"";
+        fixedSize += " role=\"img\" aria-label=\"" + E(label) + "\"";
         return svg[..start] + fixedSize + svg[end..];
     }
 
