@@ -274,7 +274,7 @@ internal static class HtmlReport
         .group h2{margin:0 0 4px;font-size:1em}.group h2 small{color:var(--muted);font-weight:400}
         .group ul{margin:0;padding:0;list-style:none;columns:2 170px;column-gap:18px}
         .group li{break-inside:avoid;overflow-wrap:anywhere}.group a{color:var(--ink);font-weight:600;text-decoration:none}.group a:hover{text-decoration:underline}
-        .group li small{color:var(--muted)}
+        .group li small{color:var(--muted);white-space:nowrap}
         .controls{padding:8px 28px 0;color:var(--muted)}
         .controls button{font:inherit;font-size:.9em;margin:0 4px 0 0;padding:2px 10px;border:1px solid #c5cad1;background:var(--paper);border-radius:12px;cursor:pointer;color:var(--ink)}
         .controls button[aria-pressed="true"]{background:var(--ink);color:#fff;border-color:var(--ink)}
