@@ -21,15 +21,14 @@ internal static class FeaturePlot
     private const string RatioKey = "ratio";
 
     /// <summary>The plot as an SVG element (no XML declaration), ready to inline in HTML.</summary>
-    public static string Svg(FeatureComparison comparison, IReadOnlyList<CheckOutcome> outcomes)
+    public static string Svg(FeatureComparison comparison, IReadOnlyList<ComparedBin> bins, IReadOnlyList<ToleranceBand> bands)
     {
-        var model = Build(comparison, ComparedBin.Of(comparison), ToleranceBand.For(comparison, outcomes));
+        var model = Build(comparison, bins, bands);
         var exporter = new SvgExporter { Width = Width, Height = Height, IsDocument = false };
         return exporter.ExportToString(model);
     }
 
-    /// <summary>The plot model (exposed for tests).</summary>
-    public static PlotModel Build(FeatureComparison comparison, IReadOnlyList<ComparedBin> bins, IReadOnlyList<ToleranceBand> bands)
+    private static PlotModel Build(FeatureComparison comparison, IReadOnlyList<ComparedBin> bins, IReadOnlyList<ToleranceBand> bands)
     {
         var discrete = comparison.Spec.Kind == FeatureKind.Discrete;
         var model = new PlotModel

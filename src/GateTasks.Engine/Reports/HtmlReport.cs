@@ -115,7 +115,7 @@ internal static class HtmlReport
             var bins = ComparedBin.Of(c);
             if (c.SampleSpike is { } spike && c.Reference.Spike is { } refSpike) SpikeNote(sb, report, spike, refSpike);
             sb.Append("<figure class=\"plot\" data-bands=\"").Append(E(string.Join(" ", bands.Select(b => $"{b.Region}:{InvariantNumber.Short(b.Tolerance)}")))).Append("\">\n")
-              .Append(Responsive(FeaturePlot.Svg(c, s.Outcomes), $"{s.Name}: reference and surrogate distributions, and their ratio over the tolerance bands"))
+              .Append(Responsive(FeaturePlot.Svg(c, bins, bands), $"{s.Name}: reference and surrogate distributions, and their ratio over the tolerance bands"))
               .Append("\n<figcaption>")
               .Append("<span class=\"key\"><i class=\"sw ref\"></i>reference</span>")
               .Append("<span class=\"key\"><i class=\"sw sur\"></i>surrogate ± 1σ</span>");
