@@ -112,10 +112,12 @@ public sealed class GateRun : Task, ICancelableTask
         var name = Path.GetFileNameWithoutExtension(contract);
         var junit = Path.Combine(folder, name + ".junit.xml");
         var text = Path.Combine(folder, name + ".txt");
-        var args = new List<string> { "check", "--contract", contract, "--junit", junit, "--text", text };
+        var html = Path.Combine(folder, name + ".html");
+        var markdown = Path.Combine(folder, name + ".md");
+        var args = new List<string> { "check", "--contract", contract, "--junit", junit, "--text", text, "--html", html, "--markdown", markdown };
         AddSample(args);
         var exit = RunEngine(args, line => LogLine(line, MessageImportance.Low));
-        foreach (var (file, kind) in new[] { (junit, "junit"), (text, "text") })
+        foreach (var (file, kind) in new[] { (junit, "junit"), (text, "text"), (html, "html"), (markdown, "markdown") })
         {
             if (!File.Exists(file)) continue;
             var item = new TaskItem(file);

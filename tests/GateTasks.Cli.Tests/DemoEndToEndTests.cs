@@ -2,7 +2,7 @@ using System.Xml.Linq;
 
 namespace GateTasks.Cli.Tests;
 
-public class DemoEndToEndTests(DemoFixture demo) : IClassFixture<DemoFixture>
+public partial class DemoEndToEndTests(DemoFixture demo) : IClassFixture<DemoFixture>
 {
     [Fact]
     public void Demo_shows_the_faithful_sample_pass_and_the_drifted_one_fail()

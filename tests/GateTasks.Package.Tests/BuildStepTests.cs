@@ -71,6 +71,10 @@ public class BuildStepTests(PackageFeed feed)
         Assert.Contains($"gate-report junit: {p.JUnitReport}", output);
         Assert.Contains("gate-report text: ", output);
         Assert.True(File.Exists(Path.Combine(p.ReportDirectory, "precision-contract.txt")));
+        Assert.Contains($"gate-report html: {Path.Combine(p.ReportDirectory, "precision-contract.html")}", output);
+        Assert.Contains($"gate-report markdown: {Path.Combine(p.ReportDirectory, "precision-contract.md")}", output);
+        Assert.Contains("<svg", File.ReadAllText(Path.Combine(p.ReportDirectory, "precision-contract.html")));
+        Assert.StartsWith("### GateTasks check PASSED", File.ReadAllText(Path.Combine(p.ReportDirectory, "precision-contract.md")));
 
         var (again, second) = p.Build();
         Assert.True(again == 0, second);
@@ -101,6 +105,7 @@ public class BuildStepTests(PackageFeed feed)
         Assert.DoesNotContain("   at ", output); // no stack trace
         var junit = XDocument.Load(p.JUnitReport);
         Assert.Equal("23", junit.Root!.Attribute("failures")!.Value); // 17 failed + 6 inconclusive (which fail by default)
+        Assert.Contains("| `m_gg` | ratio-max | core |", File.ReadAllText(Path.Combine(p.ReportDirectory, "precision-contract.md")));
 
         // A failing check leaves no stamp: the next build checks again rather than passing silently.
         var (again, second) = p.Build("-p:GateSample=surrogate-drifted.parquet");

@@ -21,9 +21,17 @@ internal static class CheckCommand
         {
             Description = "Also write the result table and summary as plain text to this path.",
         };
-        var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed (or was inconclusive, if the contract says so); 2: input error.")
+        var html = new Option<string?>("--html")
         {
-            contract, sample, junit, text,
+            Description = "Also write a self-contained HTML report with a plot per feature to this path.",
+        };
+        var markdown = new Option<string?>("--markdown")
+        {
+            Description = "Also write a Markdown summary (for a pull-request comment or CI job summary) to this path.",
+        };
+        var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed (or was inconclusive, if the contract says so); 2: input error; 4: the checks pass but the contract or reference in use is not the accepted one (see the ledger errors).")
+        {
+            contract, sample, junit, text, html, markdown,
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
@@ -31,7 +39,20 @@ internal static class CheckCommand
             var report = ContractCheck.Run(loaded, parse.GetValue(sample), ProgressDisplay.For(stdout, stderr));
             if (parse.GetValue(text) is { } textPath)
                 AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
-            return Print(report, parse.GetValue(junit), stdout, stderr);
+            var written = new List<string>();
+            if (parse.GetValue(html) is { } htmlPath)
+            {
+                HtmlReport.Write(htmlPath, report);
+                written.Add($"HTML report: {Path.GetFullPath(htmlPath)}");
+            }
+            if (parse.GetValue(markdown) is { } markdownPath)
+            {
+                MarkdownSummary.Write(markdownPath, report);
+                written.Add($"Markdown summary: {Path.GetFullPath(markdownPath)}");
+            }
+            var exit = Print(report, parse.GetValue(junit), stdout, stderr);
+            foreach (var line in written) stdout.WriteLine(line);
+            return exit;
         }));
         return command;
     }

@@ -46,7 +46,7 @@ internal static class DemoCommand
         stdout.WriteLine("3. Checking the faithful surrogate (same model, another seed) and accepting its state into the ledger:");
         var (faithful, faithfulJunit) = demo.Check(demo.FaithfulPath, "faithful", accept: true);
         CheckCommand.Print(faithful, null, stdout, stderr);
-        stdout.WriteLine($"JUnit report: {faithfulJunit}");
+        Reports(faithfulJunit, stdout);
 
         stdout.WriteLine();
         stdout.WriteLine(response
@@ -54,14 +54,24 @@ internal static class DemoCommand
             : "4. Checking the drifted surrogate (larger constant term, thinned high-mass tail):");
         var (drifted, driftedJunit) = demo.Check(demo.DriftedPath, "drifted");
         CheckCommand.Print(drifted, null, stdout, stderr);
-        stdout.WriteLine($"JUnit report: {driftedJunit}");
+        Reports(driftedJunit, stdout);
 
         stdout.WriteLine();
         var asExpected = faithful.Passed && faithful.AcceptanceHolds && !drifted.Passed;
         stdout.WriteLine(asExpected
             ? $"Demo finished in {clock.Elapsed.TotalSeconds:0.0} s: the faithful surrogate passed and the drifted one failed, as it should."
             : $"Demo finished in {clock.Elapsed.TotalSeconds:0.0} s, but NOT as expected: faithful {(faithful.Passed ? "passed" : "failed")}, drifted {(drifted.Passed ? "passed" : "failed")}.");
-        stdout.WriteLine($"Try it yourself: cd {demo.Folder} && gatetasks check --sample {Path.GetFileName(demo.DriftedPath)} --junit drifted.xml");
+        stdout.WriteLine($"Open {Path.Combine(demo.ReportFolder, "drifted.html")} in a browser to see each feature's distributions and ratios.");
+        stdout.WriteLine($"Try it yourself: cd {demo.Folder} && gatetasks check --sample {Path.GetFileName(demo.DriftedPath)} --junit drifted.xml --html drifted.html");
         return asExpected ? ExitCodes.Success : ExitCodes.ChecksFailed;
+    }
+
+    /// <summary>Names the JUnit report and the HTML report and Markdown summary written beside it.</summary>
+    private static void Reports(string junit, TextWriter stdout)
+    {
+        var stem = junit[..^".junit.xml".Length];
+        stdout.WriteLine($"JUnit report: {junit}");
+        stdout.WriteLine($"HTML report: {stem}.html");
+        stdout.WriteLine($"Markdown summary: {stem}.md");
     }
 }

@@ -1,6 +1,7 @@
 using System.Globalization;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Histograms;
 
 namespace GateTasks.Engine.Checks;
 
@@ -14,17 +15,6 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class BinRatioCheck
 {
-    /// <summary>The value range of a named region: explicit, or between the reference histogram's quantiles.</summary>
-    private static (double Lower, double Upper) NamedBounds(FeatureComparison c, CheckSpec spec)
-    {
-        if (spec.Region != Region.Named) return (double.NaN, double.NaN);
-        var region = c.Spec.Regions?.FirstOrDefault(g => g.Name == spec.Named)
-            ?? throw new InvalidOperationException($"Region '{spec.Named}' was not declared; the contract loader should have refused it.");
-        return region.ByQuantile
-            ? (QuantileShiftCheck.Quantile(c.Reference.Histogram, region.Lower).Value, QuantileShiftCheck.Quantile(c.Reference.Histogram, region.Upper).Value)
-            : (region.Lower, region.Upper);
-    }
-
     public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
     {
         var reference = c.Reference.Histogram;
@@ -42,29 +32,19 @@ internal static class BinRatioCheck
         var compared = 0;
         var unreferenced = 0;
         var unreferencedWeight = 0.0;
-        var (namedLower, namedUpper) = NamedBounds(c, spec);
+        var covered = RegionBins.Covered(c, spec);
         for (var b = 0; b < axis.Count; b++)
         {
-            if (spec.Region == Region.Core && !c.CoreBins[b]) continue;
-            if (spec.Region == Region.Tails && c.CoreBins[b]) continue;
-            if (spec.Region == Region.Named && !(axis.Centre(b) >= namedLower && axis.Centre(b) <= namedUpper)) continue;
-            var cell = b + 1;
-            var rw = reference.Storage.SumW[cell];
-            var sw = surrogate.Storage.SumW[cell];
-            if (rw <= 0)
+            if (!covered[b]) continue;
+            if (BinRatio.Of(reference, surrogate, b, refTotal, surTotal, surEffective) is not { } bin)
             {
+                var sw = surrogate.Storage.SumW[Histogram.Cell(b)];
                 if (sw != 0) { unreferenced++; unreferencedWeight += sw; }
                 continue;
             }
             compared++;
-            var fraction = rw / refTotal;
-            var ratio = surTotal > 0 ? sw / surTotal / fraction : 0;
-            // Relative variances of the two normalised contents; an empty surrogate bin takes the variance expected from the reference.
-            var relRef = reference.Storage.SumW2[cell] / (rw * rw);
-            var relSur = sw > 0 ? surrogate.Storage.SumW2[cell] / (sw * sw) : 1 / Math.Max(fraction * surEffective, 1e-300);
-            var sigmaRef = Math.Max(ratio, 1e-12) * Math.Sqrt(relRef);
-            var sigmaSur = Math.Max(ratio, 1e-12) * Math.Sqrt(relSur);
-            var sigma = Math.Sqrt(sigmaRef * sigmaRef + sigmaSur * sigmaSur);
+            var (ratio, sigmaRef, sigmaSur) = bin;
+            var sigma = bin.Sigma;
             var deviation = Math.Abs(ratio - 1);
             effect.Add(deviation, sigmaRef, sigmaSur);
             if (!(deviation <= worst))

@@ -42,4 +42,35 @@ internal static class RegionBins
         }
         return mask;
     }
+
+    /// <summary>
+    /// The regular bins a check's region covers: every bin, the core's, the tails' (every non-core bin), or a named
+    /// region's (bin centre within its range).
+    /// </summary>
+    public static bool[] Covered(FeatureComparison c, CheckSpec spec)
+    {
+        var axis = c.Reference.Histogram.Axis;
+        var (lower, upper) = NamedBounds(c, spec);
+        var mask = new bool[axis.Count];
+        for (var b = 0; b < mask.Length; b++)
+            mask[b] = spec.Region switch
+            {
+                Region.Core => c.CoreBins[b],
+                Region.Tails => !c.CoreBins[b],
+                Region.Named => axis.Centre(b) >= lower && axis.Centre(b) <= upper,
+                _ => true,
+            };
+        return mask;
+    }
+
+    /// <summary>The value range of a named region: explicit, or between the reference histogram's quantiles.</summary>
+    private static (double Lower, double Upper) NamedBounds(FeatureComparison c, CheckSpec spec)
+    {
+        if (spec.Region != Region.Named) return (double.NaN, double.NaN);
+        var region = c.Spec.Regions?.FirstOrDefault(g => g.Name == spec.Named)
+            ?? throw new InvalidOperationException($"Region '{spec.Named}' was not declared; the contract loader should have refused it.");
+        return region.ByQuantile
+            ? (QuantileShiftCheck.Quantile(c.Reference.Histogram, region.Lower).Value, QuantileShiftCheck.Quantile(c.Reference.Histogram, region.Upper).Value)
+            : (region.Lower, region.Upper);
+    }
 }

@@ -64,7 +64,10 @@ internal sealed class DemoRun(string folder, DemoKind kind = DemoKind.Generator)
         return reference;
     }
 
-    /// <summary>Checks one surrogate sample and writes its JUnit report.</summary>
+    /// <summary>
+    /// Checks one surrogate sample (accepting its state into the ledger when <paramref name="accept"/>) and writes its
+    /// reports: JUnit XML, HTML and Markdown, named after <paramref name="reportName"/>.
+    /// </summary>
     public (CheckReport Report, string JUnitPath) Check(string samplePath, string reportName, bool accept = false)
     {
         var contract = ContractLoader.Load(ContractPath);
@@ -72,6 +75,8 @@ internal sealed class DemoRun(string folder, DemoKind kind = DemoKind.Generator)
         if (accept) report = Accept(report);
         var junit = Path.Combine(ReportFolder, reportName + ".junit.xml");
         JUnitReport.Write(junit, [report]);
+        HtmlReport.Write(Path.Combine(ReportFolder, reportName + ".html"), report);
+        MarkdownSummary.Write(Path.Combine(ReportFolder, reportName + ".md"), report);
         return (report, junit);
     }
 }

@@ -14,7 +14,7 @@ internal static class ResultTable
 {
     public static string Format(CheckReport report)
     {
-        var confidence = (report.Contract.Decision.Confidence * 100).ToString("0.#", CultureInfo.InvariantCulture) + "% interval";
+        var confidence = IntervalHeader(report);
         string[] header = ["feature", "check", "region", "estimate", confidence, "tolerance", "adj. p", "verdict", "events needed"];
         var rows = new List<string[]> { header };
         foreach (var o in report.Outcomes)
@@ -25,8 +25,8 @@ internal static class ResultTable
                 o.Check.Key,
                 o.Check.RegionName,
                 InvariantNumber.Short(m.Estimate),
-                o.Check.IsTest || double.IsNaN(m.Upper) ? "—" : $"[{InvariantNumber.Short(m.Lower)}, {InvariantNumber.Short(m.Upper)}]",
-                o.Check.IsTest ? "—" : "≤ " + InvariantNumber.Short(o.Check.Limit),
+                IntervalText(o),
+                ToleranceText(o),
                 InvariantNumber.Short(o.AdjustedPValue),
                 VerdictText(o.Verdict),
                 o.Verdict == Verdict.Inconclusive ? EventsText(m.EventsNeeded) : "",
@@ -39,10 +39,27 @@ internal static class ResultTable
             sb.AppendLine(string.Join("  ", rows[i].Select((cell, c) => c is 3 or 5 or 6 ? cell.PadLeft(widths[c]) : cell.PadRight(widths[c]))).TrimEnd());
             if (i == 0) sb.AppendLine(string.Join("  ", widths.Select(w => new string('-', w))));
         }
-        var d = report.Contract.Decision;
-        sb.AppendLine($"Fail when the {d.CorrectionName}-adjusted p-value ≤ {InvariantNumber.Short(d.FalseAlarm)} (family of {report.Outcomes.Count} checks); " +
-                      $"pass when the upper bound of the {confidence} is below the tolerance; inconclusive {(d.InconclusiveFails ? "fails" : "warns")}.");
+        sb.AppendLine(DecisionRule(report));
         return sb.ToString();
+    }
+
+    /// <summary>"95% interval": the column heading of the confidence intervals at the contract's confidence.</summary>
+    public static string IntervalHeader(CheckReport report) =>
+        (report.Contract.Decision.Confidence * 100).ToString("0.#", CultureInfo.InvariantCulture) + "% interval";
+
+    /// <summary>"[lower, upper]" of an effect's confidence interval; "—" for tests and impossible measurements.</summary>
+    public static string IntervalText(CheckOutcome o) =>
+        o.Check.IsTest || double.IsNaN(o.Measured.Upper) ? "—" : $"[{InvariantNumber.Short(o.Measured.Lower)}, {InvariantNumber.Short(o.Measured.Upper)}]";
+
+    /// <summary>"≤ 0.03" for an effect check; "—" for a test, which has no tolerance.</summary>
+    public static string ToleranceText(CheckOutcome o) => o.Check.IsTest ? "—" : "≤ " + InvariantNumber.Short(o.Check.Limit);
+
+    /// <summary>One sentence stating how the verdicts were reached.</summary>
+    public static string DecisionRule(CheckReport report)
+    {
+        var d = report.Contract.Decision;
+        return $"Fail when the {d.CorrectionName}-adjusted p-value ≤ {InvariantNumber.Short(d.FalseAlarm)} (family of {report.Outcomes.Count} checks); " +
+               $"pass when the upper bound of the {IntervalHeader(report)} is below the tolerance; inconclusive {(d.InconclusiveFails ? "fails" : "warns")}.";
     }
 
     public static string VerdictText(Verdict v) => v switch

@@ -1,0 +1,86 @@
+using System.Globalization;
+using System.Text;
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
+
+namespace GateTasks.Engine.Reports;
+
+/// <summary>
+/// A check run in GitHub-flavoured Markdown, for a pull-request comment or a CI job summary: a verdict line, a
+/// table of the failing and inconclusive checks, the counts, and the passing checks folded into a details block.
+/// </summary>
+internal static class MarkdownSummary
+{
+    public static void Write(string path, CheckReport report) => AtomicFile.WriteText(path, Render(report));
+
+    public static string Render(CheckReport report)
+    {
+        var sb = new StringBuilder();
+        var passed = report.Outcomes.Where(o => o.Verdict == Verdict.Pass).ToList();
+        var open = report.Outcomes.Where(o => o.Verdict != Verdict.Pass)
+            .OrderBy(o => FeatureOutcomes.Rank(o.Verdict)).ToList();
+        sb.Append("### GateTasks check ").Append(!report.Passed ? "FAILED" : report.AcceptanceHolds ? "PASSED" : "NOT ACCEPTED")
+          .Append(": ").Append(Text(report.Contract.DisplayName)).Append("\n\n");
+        // Ledger errors first: the checks may pass while the contract in use is not the accepted one.
+        foreach (var f in report.Acceptance.Where(f => f.IsError))
+            sb.Append("- **").Append(f.Code).Append("** ").Append(Text(f.Message)).Append('\n');
+        if (report.Acceptance.Any(f => f.IsError)) sb.Append('\n');
+        sb.Append($"**{report.Failures} failed**, **{report.Inconclusive} inconclusive**, {passed.Count} passed of {report.Outcomes.Count} checks " +
+                  $"on {report.Contract.Features.Count} features")
+          .Append(report.Inconclusive > 0 && !report.Contract.Decision.InconclusiveFails ? " (inconclusive checks only warn under this contract)" : "")
+          .Append(".\n\n");
+        sb.Append("Sample ").Append(string.Join(", ", report.SampleFiles.Take(3).Select(f => Code(Path.GetFileName(f)))))
+          .Append(report.SampleFiles.Count > 3 ? $" and {report.SampleFiles.Count - 3} more" : "")
+          .Append($": {InvariantNumber.Count(report.Events)} events (effective {report.EffectiveEvents.ToString("0", CultureInfo.InvariantCulture)}); ")
+          .Append("reference ").Append(Code(Path.GetFileName(report.ReferencePath))).Append($" ({InvariantNumber.Count(report.Reference.Events)} events, sha256 {report.ReferenceSha256[..Math.Min(12, report.ReferenceSha256.Length)]}…).\n\n");
+
+        if (open.Count > 0)
+        {
+            sb.Append("| feature | check | region | estimate | tolerance | verdict |\n");
+            sb.Append("|---|---|---|---:|---:|---|\n");
+            foreach (var o in open)
+            {
+                var verdict = o.Verdict == Verdict.Fail ? "**FAIL**" : "inconclusive" + Needed(o.Measured.EventsNeeded);
+                Row(sb, Code(o.Feature.Name), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o), verdict);
+            }
+            sb.Append('\n');
+        }
+
+        if (passed.Count > 0)
+        {
+            sb.Append("<details><summary>").Append(passed.Count).Append(" passing check").Append(passed.Count == 1 ? "" : "s").Append("</summary>\n\n");
+            sb.Append("| feature | check | region | estimate | tolerance |\n");
+            sb.Append("|---|---|---|---:|---:|\n");
+            foreach (var o in passed)
+                Row(sb, Code(o.Feature.Name), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o));
+            sb.Append("\n</details>\n\n");
+        }
+        sb.Append(Text(ResultTable.DecisionRule(report))).Append('\n');
+        return sb.ToString();
+    }
+
+    private static string Needed(double events) =>
+        double.IsPositiveInfinity(events) ? " (needs more reference events)"
+        : double.IsNaN(events) ? ""
+        : $" ({ResultTable.EventsText(events)} events needed)";
+
+    private static void Row(StringBuilder sb, params string[] cells) =>
+        sb.Append("| ").Append(string.Join(" | ", cells.Select(c => c.Replace("|", "\\|")))).Append(" |\n");
+
+    /// <summary>A name as inline code, which Markdown shows literally (brackets, underscores and all).</summary>
+    private static string Code(string text) => "`" + text.Replace("`", "'") + "`";
+
+    /// <summary>Free text with the characters that Markdown or HTML would act on escaped.</summary>
+    private static string Text(string text)
+    {
+        var sb = new StringBuilder(text.Length);
+        foreach (var ch in text)
+        {
+            if (ch is '\\' or '`' or '*' or '_' or '[' or ']' or '<' or '>' or '#' or '|') sb.Append('\\');
+            if (ch is '\r' or '\n') { sb.Append(' '); continue; }
+            sb.Append(ch);
+        }
+        return sb.ToString();
+    }
+}

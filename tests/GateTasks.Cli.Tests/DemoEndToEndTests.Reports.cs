@@ -1,0 +1,129 @@
+using System.Buffers.Binary;
+using System.Text.RegularExpressions;
+
+namespace GateTasks.Cli.Tests;
+
+/// <summary>The demo's HTML reports and Markdown summaries, read by a browser and a Markdown parser.</summary>
+public partial class DemoEndToEndTests
+{
+    private string Reports => Path.Combine(demo.Folder, "reports");
+
+    [Fact]
+    public void Demo_writes_html_and_markdown_reports_next_to_the_junit_reports()
+    {
+        Assert.True(demo.ExitCode == 0, demo.Stdout + demo.Stderr);
+        foreach (var (name, verdict) in new[] { ("faithful", "PASSED"), ("drifted", "FAILED") })
+        {
+            var html = File.ReadAllText(Path.Combine(Reports, name + ".html"));
+            Assert.Contains($"id=\"overall\">{verdict}<", html);
+            // 16 features (the category shares among them) have histograms to plot; the pairs and the joint test have none.
+            Assert.Equal(16, Regex.Matches(html, "<svg[ >]").Count);
+            Assert.True(new FileInfo(Path.Combine(Reports, name + ".html")).Length < 3_000_000, "the HTML report should stay a few MB at most");
+            Assert.StartsWith($"### GateTasks check {verdict}: demo-diphoton", File.ReadAllText(Path.Combine(Reports, name + ".md")));
+            Assert.Contains($"HTML report: {Path.Combine(Reports, name + ".html")}", demo.Stdout);
+        }
+        Assert.Contains("| `m_gg` | ratio-max | core |", File.ReadAllText(Path.Combine(Reports, "drifted.md")));
+    }
+
+    [Fact]
+    public void Check_writes_the_html_report_and_markdown_summary_it_is_asked_for()
+    {
+        var html = Path.Combine(demo.Folder, "asked", "drifted.html");
+        var md = Path.Combine(demo.Folder, "asked", "drifted.md");
+        var (code, stdout, stderr) = Cli.Run("check", "--contract", demo.Contract,
+            "--sample", Path.Combine(demo.Folder, "surrogate-drifted.parquet"), "--html", html, "--markdown", md);
+        Assert.True(code == 1, stdout + stderr);
+        Assert.Contains($"HTML report: {html}", stdout);
+        Assert.Contains($"Markdown summary: {md}", stdout);
+        Assert.Contains("data-feature=\"m_gg\"", File.ReadAllText(html));
+        Assert.Contains("**FAIL**", File.ReadAllText(md));
+        // Nothing but the two reports: no temporary files left behind.
+        Assert.Equal(["drifted.html", "drifted.md"], Directory.GetFiles(Path.GetDirectoryName(html)!).Select(Path.GetFileName).OrderBy(n => n));
+    }
+
+    [Fact]
+    public void A_report_path_that_cannot_be_written_is_an_input_error_not_a_crash()
+    {
+        // A folder path through a regular file cannot be created.
+        var html = Path.Combine(demo.Contract, "report.html");
+        var (code, stdout, stderr) = Cli.Run("check", "--contract", demo.Contract, "--html", html);
+        Assert.True(code == 2, stdout + stderr);
+        Assert.Contains($"error {GateTasks.Engine.Diagnostics.ErrorCodes.OutputNotWritable}: Cannot write {html}", stderr);
+        Assert.DoesNotContain("   at ", stderr);
+    }
+
+    /// <summary>
+    /// Python-Markdown 3.4 (Debian's python3-markdown) with its 'tables' extension, an independent parser of the
+    /// table syntax GitHub uses, turns the drifted summary into an HTML table whose rows name the failed checks.
+    /// </summary>
+    [PythonModulesFact("markdown")]
+    public void An_independent_markdown_parser_renders_the_failing_checks_as_a_table()
+    {
+        const string script = """
+            import re, sys
+            import xml.etree.ElementTree as ET
+            import markdown
+            html = markdown.markdown(open(sys.argv[1], encoding='utf-8').read(), extensions=['tables'])
+            table = re.search(r'<table>.*?</table>', html, re.S)
+            if table is None:
+                sys.exit('no table in: ' + html[:400])
+            for row in ET.fromstring(table.group(0)).iter('tr'):
+                print('\t'.join(''.join(cell.itertext()).strip() + ('*' if cell.find('strong') is not None else '') for cell in row))
+            """;
+        var (exit, stdout, stderr) = ExternalPython.Run(script, [Path.Combine(Reports, "drifted.md")]);
+        Assert.True(exit == 0, stderr);
+        var rows = stdout.Split('\n', StringSplitOptions.RemoveEmptyEntries).Select(r => r.Split('\t')).ToList();
+        Assert.Equal(["feature", "check", "region", "estimate", "tolerance", "verdict"], rows[0]);
+        Assert.All(rows, r => Assert.Equal(6, r.Length));
+        // 17 failed and 6 inconclusive checks (as the drifted demo's JUnit report and build-step test count them).
+        Assert.Equal(23, rows.Count - 1);
+        Assert.Contains(rows, r => r[0] == "m_gg" && r[1] == "ratio-max" && r[2] == "core" && r[4] == "≤ 0.03" && r[5] == "FAIL*");
+        Assert.Contains(rows, r => r[0] == "m_gg~pt_gg" && r[1] == "chi2-2d-test" && r[5] == "FAIL*");
+        Assert.Contains(rows, r => r[0] == "et_ratio" && r[2] == "core" && r[5].StartsWith("inconclusive", StringComparison.Ordinal));
+    }
+
+    /// <summary>
+    /// Debian's chromium loads the drifted HTML report headless: the page's own script marks the document once it
+    /// ran over every section, no script error reaches the console, and a screenshot of the page is drawn.
+    /// </summary>
+    [ChromiumFact]
+    public void A_headless_browser_renders_the_drifted_report_and_its_script_runs_without_error()
+    {
+        var page = Path.Combine(Reports, "drifted.html");
+        var sections = Regex.Matches(File.ReadAllText(page), "<section class=\"subject ").Count;
+        // 16 plotted features, and 5 subjects without a plot: 3 correlated pairs, the 2-D pair and the joint test.
+        Assert.Equal(21, sections);
+
+        var (exit, dom, stderr) = HeadlessChromium.Run(page, "--dump-dom");
+        Assert.True(exit == 0, stderr);
+        Assert.Empty(HeadlessChromium.ScriptErrors(stderr));
+        var root = Regex.Match(dom, "<html[^>]*>").Value;
+        Assert.Contains($"data-report-ready=\"{sections}\"", root);
+        Assert.DoesNotContain("data-script-error", root);
+        Assert.Contains("<div class=\"controls\" id=\"controls\">", dom); // the script revealed the filter buttons
+        Assert.Equal(16, Regex.Matches(dom, "<svg[ >]").Count);
+        Assert.Matches("<section class=\"subject fail\" id=\"f-m_gg\"", dom);
+
+        var png = Path.Combine(demo.Folder, "drifted.png");
+        var (shotExit, _, shotErr) = HeadlessChromium.Run(page, $"--screenshot={png}", "--window-size=1280,1800", "--hide-scrollbars");
+        Assert.True(shotExit == 0, shotErr);
+        var bytes = File.ReadAllBytes(png);
+        // PNG (ISO/IEC 15948): 8-byte signature, then the IHDR chunk with width and height as big-endian integers.
+        Assert.Equal(new byte[] { 0x89, 0x50, 0x4E, 0x47, 0x0D, 0x0A, 0x1A, 0x0A }, bytes[..8]);
+        Assert.Equal(1280, BinaryPrimitives.ReadInt32BigEndian(bytes.AsSpan(16)));
+        Assert.Equal(1800, BinaryPrimitives.ReadInt32BigEndian(bytes.AsSpan(20)));
+        // A blank or unstyled page compresses to a few kB; the header, overview and first plots do not.
+        Assert.True(bytes.Length > 60_000, $"screenshot of {bytes.Length} bytes looks empty");
+    }
+
+    /// <summary>The console check above can fail: a page whose script throws is caught by it.</summary>
+    [ChromiumFact]
+    public void The_browser_check_catches_a_script_error()
+    {
+        var page = Path.Combine(demo.Folder, "broken.html");
+        File.WriteAllText(page, "<!DOCTYPE html><html><body><p>x</p><script>undefinedFunction();</script></body></html>");
+        var (exit, _, stderr) = HeadlessChromium.Run(page, "--dump-dom");
+        Assert.Equal(0, exit);
+        Assert.Contains(HeadlessChromium.ScriptErrors(stderr), l => l.Contains("undefinedFunction", StringComparison.Ordinal));
+    }
+}
