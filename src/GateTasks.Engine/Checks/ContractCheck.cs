@@ -37,7 +37,9 @@ internal static class ContractCheck
         var references = contract.Features.Select(f => MatchReference(reference, f, referencePath)).ToList();
         var cores = contract.Features.Select((f, i) => RegionBins.Core(references[i], f)).ToList();
 
-        var histograms = references.Select(r => new Histogram(r.Histogram.Axis)).ToArray();
+        // Each batch fills a plain histogram, then is added exactly, so the cells do not depend on the batching.
+        var batchHistograms = references.Select(r => new Histogram(r.Histogram.Axis)).ToArray();
+        var exact = references.Select(r => new ExactHistogram(r.Histogram.Axis)).ToArray();
         var stats = contract.Features.Select(_ => new FeatureStatistics()).ToArray();
         var farTail = contract.Features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && references[i].FarTail is { } t
             ? new FarTailCounter(t.Low, t.High) : null).ToArray();
@@ -48,7 +50,8 @@ internal static class ContractCheck
             p.Chi2 is null ? null : new Histogram2D(references[index[p.First]].Histogram.Axis, references[index[p.Second]].Histogram.Axis))).ToList();
         var totals = SampleStream.Run(sample, inputs, contract.Sample.Weight, (i, values, weights) =>
         {
-            histograms[i].Fill(values, weights);
+            batchHistograms[i].Fill(values, weights);
+            exact[i].Absorb(batchHistograms[i]);
             stats[i].Add(values, weights);
             farTail[i]?.Add(values, weights);
         }, view =>
@@ -60,6 +63,7 @@ internal static class ContractCheck
             throw new GateInputException(ErrorCodes.SampleEmpty,
                 $"The surrogate sample has no events ({string.Join(", ", files.Select(Path.GetFileName))}).", contract.Sample.PathLocation);
 
+        var histograms = exact.Select(h => h.ToHistogram()).ToArray();
         var measured = new List<(FeatureSpec, CheckSpec, Measurement)>();
         var comparisons = new List<FeatureComparison>();
         for (var i = 0; i < contract.Features.Count; i++)

@@ -40,7 +40,9 @@ internal static class SampleStream
         var spikes = inputs.Spikes.Select(v => v is { } value ? new SpikeFilter(value) : null).ToArray();
 
         long events = 0, read = 0;
-        double sumW = 0, sumW2 = 0;
+        // Per batch in doubles, then exactly: totals that do not depend on how batches are grouped.
+        var sumW = new Statistics.ExactSum();
+        var sumW2 = new Statistics.ExactSum();
         foreach (var batch in sample.ReadBatches(columns))
         {
             var rows = batch.RowCount;
@@ -121,16 +123,14 @@ internal static class SampleStream
             frame.Rows = kept;
 
             var weights = frame.Weights;
-            if (weights.IsEmpty)
-            {
-                sumW += kept;
-                sumW2 += kept;
-            }
+            double batchW = weights.IsEmpty ? kept : 0, batchW2 = weights.IsEmpty ? kept : 0;
             foreach (var w in weights)
             {
-                sumW += w;
-                sumW2 += w * w;
+                batchW += w;
+                batchW2 += w * w;
             }
+            sumW.Add(batchW);
+            sumW2.Add(batchW2);
             events += kept;
             for (var i = 0; i < n; i++)
             {
@@ -146,6 +146,6 @@ internal static class SampleStream
             }
             afterEachBatch?.Invoke(frame);
         }
-        return new SampleTotals(events, sumW, sumW2, spikes.Select(f => f?.Tally).ToList());
+        return new SampleTotals(events, sumW.Value, sumW2.Value, spikes.Select(f => f?.Tally).ToList());
     }
 }

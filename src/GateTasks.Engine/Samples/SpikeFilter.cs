@@ -12,10 +12,11 @@ internal sealed class SpikeFilter(double value)
     private double[] _values = [];
     private double[] _weights = [];
     private long _entries;
-    private double _sumW;
-    private double _sumW2;
+    // Summed per batch, then exactly, so the tally does not depend on how batches are grouped into shards.
+    private readonly Statistics.ExactSum _sumW = new();
+    private readonly Statistics.ExactSum _sumW2 = new();
 
-    public SpikeTally Tally => new(value, _entries, _sumW, _sumW2);
+    public SpikeTally Tally => new(value, _entries, _sumW.Value, _sumW2.Value);
 
     /// <summary>The values (and weights, empty for unit weights) other than the spike.</summary>
     public (ReadOnlyMemory<double> Values, ReadOnlyMemory<double> Weights) Apply(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
@@ -26,20 +27,23 @@ internal sealed class SpikeFilter(double value)
             _weights = new double[values.Length];
         }
         var kept = 0;
+        double sumW = 0, sumW2 = 0;
         for (var i = 0; i < values.Length; i++)
         {
             var w = weights.IsEmpty ? 1.0 : weights[i];
             if (values[i] == value)
             {
                 _entries++;
-                _sumW += w;
-                _sumW2 += w * w;
+                sumW += w;
+                sumW2 += w * w;
                 continue;
             }
             _values[kept] = values[i];
             _weights[kept] = w;
             kept++;
         }
+        _sumW.Add(sumW);
+        _sumW2.Add(sumW2);
         return (_values.AsMemory(0, kept), weights.IsEmpty ? ReadOnlyMemory<double>.Empty : _weights.AsMemory(0, kept));
     }
 }

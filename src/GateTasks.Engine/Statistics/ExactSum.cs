@@ -4,7 +4,8 @@ namespace GateTasks.Engine.Statistics;
 /// An exact sum of doubles, kept as a short list of non-overlapping partial sums (Shewchuk 1997, "Adaptive precision
 /// floating-point arithmetic", grow-expansion with two-sum; the algorithm of Python's math.fsum). Adding is exact, so
 /// the sum does not depend on the order or grouping of its terms: partial sums of shards merge into exactly the sum of
-/// one pass. <see cref="Value"/> is the exact sum correctly rounded to a double. Non-finite terms are not allowed.
+/// one pass. <see cref="Value"/> is the exact sum correctly rounded to a double. A non-finite term — weights so large
+/// that a batch's sum of them or of their squares overflows — is an input error (GATE2007), not a crash.
 /// </summary>
 internal sealed class ExactSum
 {
@@ -15,7 +16,9 @@ internal sealed class ExactSum
 
     public void Add(double x)
     {
-        if (!double.IsFinite(x)) throw new ArgumentOutOfRangeException(nameof(x), x, "An exact sum takes finite terms only.");
+        if (!double.IsFinite(x))
+            throw new Diagnostics.GateInputException(Diagnostics.ErrorCodes.SampleBadWeight,
+                $"A sum of event weights (or of their squares) is {x}: the weights are too large for double precision; rescale them.");
         if (x == 0) return;
         var i = 0;
         for (var j = 0; j < _partials.Count; j++)

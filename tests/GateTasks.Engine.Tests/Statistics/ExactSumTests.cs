@@ -43,7 +43,7 @@ public class ExactSumTests
     [Fact]
     public void Non_finite_terms_are_refused()
     {
-        Assert.Throws<ArgumentOutOfRangeException>(() => new ExactSum().Add(double.NaN));
-        Assert.Throws<ArgumentOutOfRangeException>(() => new ExactSum().Add(double.PositiveInfinity));
+        Assert.Equal(GateTasks.Engine.Diagnostics.ErrorCodes.SampleBadWeight, Assert.Throws<GateTasks.Engine.Diagnostics.GateInputException>(() => new ExactSum().Add(double.NaN)).Code);
+        Assert.Equal(GateTasks.Engine.Diagnostics.ErrorCodes.SampleBadWeight, Assert.Throws<GateTasks.Engine.Diagnostics.GateInputException>(() => new ExactSum().Add(double.PositiveInfinity)).Code);
     }
 }
