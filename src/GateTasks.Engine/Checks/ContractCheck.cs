@@ -85,12 +85,12 @@ internal static class ContractCheck
                 if (check is not null) measured.Add((subject, check, CorrelationCheck.Evaluate(stored, pair, check, contract.Decision, totals.Events)));
             if (pair.Spec.Chi2 is { } chi2)
             {
-                if (stored.Cells2DSumW is null || stored.Cells2DSumW2 is null || stored.Cells2DSumW.Length != pair.Joint!.Storage.CellCount)
+                if (stored.Cells2DSumW is null || stored.Cells2DSumW2 is null || pair.JointCells is not { } cells || stored.Cells2DSumW.Length != cells.SumW.Length)
                     throw new GateInputException(ErrorCodes.ReferenceMismatch,
                         $"The reference holds no 2-D histogram for {pair.Spec.Name} on these axes; rebuild it with 'gatetasks reference build'.", pair.Spec.Location);
                 measured.Add((subject, chi2, ChiSquareCheck.Evaluate(
                     new CellContents(stored.Cells2DSumW, stored.Cells2DSumW2),
-                    new CellContents(pair.Joint.Storage.SumW.ToArray(), pair.Joint.Storage.SumW2.ToArray()))));
+                    new CellContents(cells.SumW, cells.SumW2))));
             }
         }
         if (contract.Joint is { } jointSpec)

@@ -25,6 +25,12 @@ internal sealed class FarTailCounter(double low, double high)
         for (var k = 0; k < batch.Length; k++) _sums[k].Add(batch[k]);
     }
 
+    /// <summary>Adds another counter's sums (exact).</summary>
+    public void Merge(FarTailCounter other)
+    {
+        for (var k = 0; k < _sums.Length; k++) _sums[k].Add(other._sums[k]);
+    }
+
     public FarTailCounts Counts => new(low, high, _sums[0].Value, _sums[1].Value, _sums[2].Value, _sums[3].Value, _sums[4].Value, _sums[5].Value);
 
     /// <summary>The thresholds every far-tail count uses: the reference's 0.1% and 99.9% quantiles.</summary>

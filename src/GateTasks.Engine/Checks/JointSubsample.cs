@@ -27,6 +27,9 @@ internal sealed class JointSubsample(IReadOnlyList<int> features, int capacity, 
         }
     }
 
+    /// <summary>Merges another subsample of the same features into a uniform subsample of both (see <see cref="ReservoirSample.Merge"/>).</summary>
+    public void Merge(JointSubsample other) => _reservoir.Merge(other._reservoir);
+
     /// <summary>A copy of the kept rows.</summary>
     public double[][] Rows => _reservoir.Rows.Select(row => row.ToArray()).ToArray();
 }

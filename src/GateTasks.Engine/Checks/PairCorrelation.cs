@@ -12,8 +12,14 @@ namespace GateTasks.Engine.Checks;
 internal sealed class PairCorrelation(CorrelationSpec spec, int first, int second, MarginalCdf firstCdf, MarginalCdf secondCdf,
     Histogram2D? joint = null)
 {
-    /// <summary>The pair's 2-D histogram, when its χ² test is asked for.</summary>
+    /// <summary>The pair's 2-D histogram, when its χ² test is asked for: a per-batch buffer, added exactly into the cells below.</summary>
     public Histogram2D? Joint { get; } = joint;
+
+    private readonly ExactSum[]? _cellsW = joint is null ? null : Enumerable.Range(0, joint.Storage.CellCount).Select(_ => new ExactSum()).ToArray();
+    private readonly ExactSum[]? _cellsW2 = joint is null ? null : Enumerable.Range(0, joint.Storage.CellCount).Select(_ => new ExactSum()).ToArray();
+
+    /// <summary>The 2-D cells' Σw and Σw², each summed exactly and rounded once; null without a χ² test.</summary>
+    public (double[] SumW, double[] SumW2)? JointCells => _cellsW is null ? null : (_cellsW.Select(c => c.Value).ToArray(), _cellsW2!.Select(c => c.Value).ToArray());
 
     private readonly WeightedCorrelation _pearson = new();
     private readonly WeightedCorrelation _spearman = new();
@@ -32,6 +38,31 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
             _pearson.Add(x[r], y[r], w);
             _spearman.Add(firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
             Joint?.Fill(x[r], y[r], w);
+        }
+        if (Joint is not null)
+        {
+            var sw = Joint.Storage.SumW;
+            var sw2 = Joint.Storage.SumW2;
+            for (var c = 0; c < sw.Length; c++)
+            {
+                if (sw[c] != 0) _cellsW![c].Add(sw[c]);
+                if (sw2[c] != 0) _cellsW2![c].Add(sw2[c]);
+            }
+            sw.Clear();
+            sw2.Clear();
+        }
+    }
+
+    /// <summary>Adds another accumulation of the same pair (coefficients to rounding, 2-D cells exactly).</summary>
+    public void Merge(PairCorrelation other)
+    {
+        _pearson.Merge(other._pearson);
+        _spearman.Merge(other._spearman);
+        if (_cellsW is null || other._cellsW is null) return;
+        for (var c = 0; c < _cellsW.Length; c++)
+        {
+            _cellsW[c].Add(other._cellsW[c]);
+            _cellsW2![c].Add(other._cellsW2![c]);
         }
     }
 

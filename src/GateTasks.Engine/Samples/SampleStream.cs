@@ -6,7 +6,15 @@ namespace GateTasks.Engine.Samples;
 internal delegate void FeatureBatch(int feature, ReadOnlySpan<double> values, ReadOnlySpan<double> weights);
 
 /// <summary>Event totals of one pass over a sample (events that passed the selection), and per feature its spike tally (null without a spike).</summary>
-internal readonly record struct SampleTotals(long Events, double SumW, double SumW2, IReadOnlyList<References.SpikeTally?> Spikes);
+internal readonly record struct SampleTotals(long Events, double SumW, double SumW2, IReadOnlyList<References.SpikeTally?> Spikes)
+{
+    /// <summary>Σw and Σw² as exact sums, for merging with other shards.</summary>
+    public Statistics.ExactSum? ExactSumW { get; init; }
+    public Statistics.ExactSum? ExactSumW2 { get; init; }
+
+    /// <summary>Per feature, the spike filter with its exact tally (null where no spike is declared).</summary>
+    public IReadOnlyList<SpikeFilter?>? SpikeFilters { get; init; }
+}
 
 /// <summary>
 /// One streamed pass over a sample: reads each needed column once per batch, evaluates derived features
@@ -146,6 +154,11 @@ internal static class SampleStream
             }
             afterEachBatch?.Invoke(frame);
         }
-        return new SampleTotals(events, sumW.Value, sumW2.Value, spikes.Select(f => f?.Tally).ToList());
+        return new SampleTotals(events, sumW.Value, sumW2.Value, spikes.Select(f => f?.Tally).ToList())
+        {
+            ExactSumW = sumW,
+            ExactSumW2 = sumW2,
+            SpikeFilters = spikes,
+        };
     }
 }

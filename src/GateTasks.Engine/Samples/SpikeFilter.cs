@@ -18,6 +18,14 @@ internal sealed class SpikeFilter(double value)
 
     public SpikeTally Tally => new(value, _entries, _sumW.Value, _sumW2.Value);
 
+    /// <summary>Adds another filter's tally (exact).</summary>
+    public void Merge(SpikeFilter other)
+    {
+        _entries += other._entries;
+        _sumW.Add(other._sumW);
+        _sumW2.Add(other._sumW2);
+    }
+
     /// <summary>The values (and weights, empty for unit weights) other than the spike.</summary>
     public (ReadOnlyMemory<double> Values, ReadOnlyMemory<double> Weights) Apply(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
     {
