@@ -31,6 +31,41 @@ internal static class ContractCheck
         return Decide(setup, accumulation, files, started, clock);
     }
 
+    /// <summary>
+    /// Decides from partial files (from 'gatetasks fill' on shards of the sample, or 'gatetasks merge'): they are merged,
+    /// then every check runs as on one pass over the whole sample.
+    /// </summary>
+    public static CheckReport RunFromPartials(PrecisionContract contract, IReadOnlyList<string> partials)
+    {
+        var started = DateTimeOffset.UtcNow;
+        var clock = Stopwatch.StartNew();
+        var setup = Prepare(contract);
+        var (accumulation, provenance) = Partials.PartialFile.ReadMerged(partials, setup);
+        if (accumulation.Events == 0)
+            throw new GateInputException(ErrorCodes.SampleEmpty, $"The partial files hold no events ({string.Join(", ", partials.Select(Path.GetFileName))}).", new SourceLocation(partials[0]));
+        return Decide(setup, accumulation, provenance.SampleFiles, started, clock);
+    }
+
+    /// <summary>Gathers one shard of the sample into a partial file, for merging elsewhere.</summary>
+    public static long Fill(PrecisionContract contract, string samplePath, string output, IProgress<ReadProgress>? progress = null)
+    {
+        var files = ContractInputs.SampleFiles(contract, samplePath);
+        var opened = OpenSample(contract, files, progress);
+        var setup = Prepare(contract);
+        var accumulation = Accumulate(setup, opened);
+        Partials.PartialFile.Write(output, setup, accumulation, new Partials.PartialFile.Provenance(files.Select(Path.GetFileName).ToList()!, []));
+        return accumulation.Events;
+    }
+
+    /// <summary>Merges partial files into one (exact sums stay exact), recording each input's SHA-256.</summary>
+    public static long Merge(PrecisionContract contract, IReadOnlyList<string> partials, string output)
+    {
+        var setup = Prepare(contract);
+        var (accumulation, provenance) = Partials.PartialFile.ReadMerged(partials, setup);
+        Partials.PartialFile.Write(output, setup, accumulation, provenance);
+        return accumulation.Events;
+    }
+
     /// <summary>The reference a contract is checked against, read and matched to its features once.</summary>
     internal sealed record CheckSetup(PrecisionContract Contract, ReferenceHistograms Reference, string ReferencePath, string ReferenceSha256,
         IReadOnlyList<ReferenceFeature> References);

@@ -25,6 +25,15 @@ internal sealed class FarTailCounter(double low, double high)
         for (var k = 0; k < batch.Length; k++) _sums[k].Add(batch[k]);
     }
 
+    /// <summary>The six exact sums' partials, for a partial file.</summary>
+    public IReadOnlyList<IReadOnlyList<double>> State() => _sums.Select(x => x.Partials).ToList();
+
+    /// <summary>Adds sums read from a partial file.</summary>
+    public void AddState(double[][] state)
+    {
+        for (var k = 0; k < _sums.Length; k++) foreach (var v in state[k]) _sums[k].Add(v);
+    }
+
     /// <summary>Adds another counter's sums (exact).</summary>
     public void Merge(FarTailCounter other)
     {

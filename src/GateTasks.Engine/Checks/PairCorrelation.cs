@@ -53,6 +53,40 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
         }
     }
 
+    /// <summary>Writes the pair's state into a partial file.</summary>
+    public void WriteState(System.Text.Json.Utf8JsonWriter w)
+    {
+        w.WriteStartObject();
+        w.WriteString("pair", Spec.Name);
+        Partials.PartialNumbers.WriteArray(w, "pearson", _pearson.State());
+        Partials.PartialNumbers.WriteArray(w, "spearman", _spearman.State());
+        if (_cellsW is not null)
+        {
+            Partials.PartialNumbers.WriteJagged(w, "cells_w", _cellsW.Select(c => c.Partials));
+            Partials.PartialNumbers.WriteJagged(w, "cells_w2", _cellsW2!.Select(c => c.Partials));
+        }
+        w.WriteEndObject();
+    }
+
+    /// <summary>Reads a state written by <see cref="WriteState"/> (into a fresh accumulation); false when it does not fit.</summary>
+    public bool ReadState(System.Text.Json.JsonElement e)
+    {
+        if (e.GetProperty("pair").GetString() != Spec.Name) return false;
+        _pearson.Restore(Partials.PartialNumbers.ReadArray(e.GetProperty("pearson")));
+        _spearman.Restore(Partials.PartialNumbers.ReadArray(e.GetProperty("spearman")));
+        if (_cellsW is null) return !e.TryGetProperty("cells_w", out _);
+        if (!e.TryGetProperty("cells_w", out var cw)) return false;
+        var w = Partials.PartialNumbers.ReadJagged(cw);
+        var w2 = Partials.PartialNumbers.ReadJagged(e.GetProperty("cells_w2"));
+        if (w.Length != _cellsW.Length) return false;
+        for (var c = 0; c < w.Length; c++)
+        {
+            foreach (var v in w[c]) _cellsW[c].Add(v);
+            foreach (var v in w2[c]) _cellsW2![c].Add(v);
+        }
+        return true;
+    }
+
     /// <summary>Adds another accumulation of the same pair (coefficients to rounding, 2-D cells exactly).</summary>
     public void Merge(PairCorrelation other)
     {

@@ -20,7 +20,7 @@ internal sealed class SampleAccumulation
 
     private readonly Histogram[] _batch;
     private readonly ExactHistogram[] _histograms;
-    private readonly FeatureStatistics[] _stats;
+    private readonly FeatureStatistics[] _stats; // replaced when read from a partial file
     private readonly FarTailCounter?[] _farTail;
     private readonly SpikeFilter?[] _spikes;
     private readonly ExactSum _sumW = new();
@@ -86,6 +86,86 @@ internal sealed class SampleAccumulation
         Events += other.Events;
         _sumW.Add(other._sumW);
         _sumW2.Add(other._sumW2);
+    }
+
+    /// <summary>Writes the whole accumulation (exact sums as their partials) into a partial file.</summary>
+    public void WriteState(System.Text.Json.Utf8JsonWriter w)
+    {
+        w.WriteStartObject();
+        w.WriteNumber("events", Events);
+        Partials.PartialNumbers.WriteArray(w, "sum_w", _sumW.Partials);
+        Partials.PartialNumbers.WriteArray(w, "sum_w2", _sumW2.Partials);
+        w.WriteStartArray("features");
+        for (var i = 0; i < _histograms.Length; i++)
+        {
+            w.WriteStartObject();
+            w.WriteString("name", Contract.Features[i].Name);
+            w.WritePropertyName("histogram");
+            _histograms[i].WriteState(w);
+            Partials.PartialNumbers.WriteArray(w, "statistics", _stats[i].State());
+            if (_spikes[i] is { } spike)
+            {
+                var (entries, sw, sw2) = spike.State();
+                w.WriteNumber("spike_entries", entries);
+                Partials.PartialNumbers.WriteArray(w, "spike_w", sw);
+                Partials.PartialNumbers.WriteArray(w, "spike_w2", sw2);
+            }
+            if (_farTail[i] is { } tail) Partials.PartialNumbers.WriteJagged(w, "far_tail", tail.State());
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        w.WriteStartArray("pairs");
+        foreach (var p in Pairs) p.WriteState(w);
+        w.WriteEndArray();
+        if (Joint is not null)
+        {
+            w.WriteStartObject("joint");
+            w.WriteNumber("seen", Joint.Seen);
+            Partials.PartialNumbers.WriteJagged(w, "rows", Joint.Rows);
+            w.WriteEndObject();
+        }
+        w.WriteEndObject();
+    }
+
+    /// <summary>
+    /// Reads an accumulation written by <see cref="WriteState"/> into this fresh one; the name of what does not fit
+    /// this contract and reference, or null when it all fits.
+    /// </summary>
+    public string? ReadState(System.Text.Json.JsonElement e)
+    {
+        var features = e.GetProperty("features").EnumerateArray().ToList();
+        if (features.Count != _histograms.Length) return $"{features.Count} features, the contract has {_histograms.Length}";
+        for (var i = 0; i < features.Count; i++)
+        {
+            var f = features[i];
+            var name = Contract.Features[i].Name;
+            if (f.GetProperty("name").GetString() != name) return $"feature {i + 1} is '{f.GetProperty("name").GetString()}', the contract's is '{name}'";
+            if (!_histograms[i].ReadState(f.GetProperty("histogram"))) return $"feature '{name}' has another binning";
+            _stats[i] = FeatureStatistics.Restore(Partials.PartialNumbers.ReadArray(f.GetProperty("statistics")));
+            if (_spikes[i] is { } spike)
+            {
+                if (!f.TryGetProperty("spike_entries", out var se)) return $"feature '{name}' has no spike tally";
+                spike.AddState(se.GetInt64(), Partials.PartialNumbers.ReadArray(f.GetProperty("spike_w")), Partials.PartialNumbers.ReadArray(f.GetProperty("spike_w2")));
+            }
+            if (_farTail[i] is { } tail)
+            {
+                if (!f.TryGetProperty("far_tail", out var ft)) return $"feature '{name}' has no far-tail counts";
+                tail.AddState(Partials.PartialNumbers.ReadJagged(ft));
+            }
+        }
+        var pairs = e.GetProperty("pairs").EnumerateArray().ToList();
+        if (pairs.Count != Pairs.Count) return $"{pairs.Count} correlation pairs, the contract has {Pairs.Count}";
+        for (var p = 0; p < pairs.Count; p++)
+            if (!Pairs[p].ReadState(pairs[p])) return $"correlation pair {Pairs[p].Spec.Name} does not fit";
+        if (Joint is not null)
+        {
+            if (!e.TryGetProperty("joint", out var j)) return "no joint subsample";
+            Joint.Restore(Partials.PartialNumbers.ReadJagged(j.GetProperty("rows")), j.GetProperty("seen").GetInt64());
+        }
+        Events = e.GetProperty("events").GetInt64();
+        foreach (var v in Partials.PartialNumbers.ReadArray(e.GetProperty("sum_w"))) _sumW.Add(v);
+        foreach (var v in Partials.PartialNumbers.ReadArray(e.GetProperty("sum_w2"))) _sumW2.Add(v);
+        return null;
     }
 
     /// <summary>Feature <paramref name="i"/>'s histogram, its cells rounded once from their exact sums.</summary>

@@ -61,6 +61,37 @@ internal sealed class ExactHistogram
         NanEntries += other.NanEntries;
     }
 
+    /// <summary>Writes the exact state (every cell's partial sums) into a partial file.</summary>
+    public void WriteState(System.Text.Json.Utf8JsonWriter w)
+    {
+        w.WriteStartObject();
+        w.WriteNumber("entries", Entries);
+        w.WriteNumber("nan_entries", NanEntries);
+        Partials.PartialNumbers.WriteJagged(w, "sum_w", _sumW.Select(c => c.Partials));
+        Partials.PartialNumbers.WriteJagged(w, "sum_w2", _sumW2.Select(c => c.Partials));
+        Partials.PartialNumbers.WriteArray(w, "nan_w", _nanW.Partials);
+        Partials.PartialNumbers.WriteArray(w, "nan_w2", _nanW2.Partials);
+        w.WriteEndObject();
+    }
+
+    /// <summary>Reads a state written by <see cref="WriteState"/> for this axis; false when the cell count differs.</summary>
+    public bool ReadState(System.Text.Json.JsonElement e)
+    {
+        var w = Partials.PartialNumbers.ReadJagged(e.GetProperty("sum_w"));
+        var w2 = Partials.PartialNumbers.ReadJagged(e.GetProperty("sum_w2"));
+        if (w.Length != _sumW.Length || w2.Length != _sumW2.Length) return false;
+        for (var c = 0; c < w.Length; c++)
+        {
+            foreach (var v in w[c]) _sumW[c].Add(v);
+            foreach (var v in w2[c]) _sumW2[c].Add(v);
+        }
+        foreach (var v in Partials.PartialNumbers.ReadArray(e.GetProperty("nan_w"))) _nanW.Add(v);
+        foreach (var v in Partials.PartialNumbers.ReadArray(e.GetProperty("nan_w2"))) _nanW2.Add(v);
+        Entries += e.GetProperty("entries").GetInt64();
+        NanEntries += e.GetProperty("nan_entries").GetInt64();
+        return true;
+    }
+
     /// <summary>The cells, each exact sum rounded once to a double.</summary>
     public Histogram ToHistogram() => Histogram.FromCells(Axis, _sumW.Select(s => s.Value).ToArray(), _sumW2.Select(s => s.Value).ToArray(),
         Entries, NanEntries, _nanW.Value, _nanW2.Value);

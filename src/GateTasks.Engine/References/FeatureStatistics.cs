@@ -58,6 +58,18 @@ internal sealed class FeatureStatistics
         _s4 += o4 + 4 * d * o3 + 6 * d * d * o2 + 4 * d * d * d * o1 + d * d * d * d * o0;
     }
 
+    /// <summary>The whole state as numbers, for a partial file (<see cref="Restore"/> reads it back).</summary>
+    public double[] State() => [.. _moments.State(), _shift, _s0, _s1, _s2, _s3, _s4, Min, Max, NanCount];
+
+    public static FeatureStatistics Restore(ReadOnlySpan<double> s)
+    {
+        var f = new FeatureStatistics();
+        f._moments.Restore(s[..6]);
+        (f._shift, f._s0, f._s1, f._s2, f._s3, f._s4) = (s[6], s[7], s[8], s[9], s[10], s[11]);
+        (f.Min, f.Max, f.NanCount) = (s[12], s[13], (long)s[14]);
+        return f;
+    }
+
     public FeatureSummary Summary() =>
         new(_moments.Count, _moments.SumOfWeights, _moments.SumOfSquaredWeights, _moments.Mean, _moments.StandardDeviation, Min, Max, NanCount, Kurtosis());
 

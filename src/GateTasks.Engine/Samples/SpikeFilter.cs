@@ -18,6 +18,17 @@ internal sealed class SpikeFilter(double value)
 
     public SpikeTally Tally => new(value, _entries, _sumW.Value, _sumW2.Value);
 
+    /// <summary>The tally's state, for a partial file: entries, then the partials of Σw and of Σw².</summary>
+    public (long Entries, IReadOnlyList<double> SumW, IReadOnlyList<double> SumW2) State() => (_entries, _sumW.Partials, _sumW2.Partials);
+
+    /// <summary>Adds a tally read from a partial file.</summary>
+    public void AddState(long entries, IEnumerable<double> sumW, IEnumerable<double> sumW2)
+    {
+        _entries += entries;
+        foreach (var v in sumW) _sumW.Add(v);
+        foreach (var v in sumW2) _sumW2.Add(v);
+    }
+
     /// <summary>Adds another filter's tally (exact).</summary>
     public void Merge(SpikeFilter other)
     {

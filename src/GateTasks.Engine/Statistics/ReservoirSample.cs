@@ -73,6 +73,17 @@ internal sealed class ReservoirSample
         }
     }
 
+    /// <summary>Sets the state read from a partial file: the kept rows and how many rows the stream had.</summary>
+    internal void Restore(double[][] rows, long seen)
+    {
+        if (rows.Length > Capacity || rows.Any(r => r.Length != Features) || seen < rows.Length)
+            throw new ArgumentException("The stored subsample does not fit this reservoir.", nameof(rows));
+        Array.Clear(_rows);
+        for (var i = 0; i < rows.Length; i++) _rows[i] = rows[i].ToArray();
+        _kept = rows.Length;
+        Seen = seen;
+    }
+
     /// <summary>
     /// Makes this reservoir a uniform subsample of the union of both streams: the number of rows drawn from each is
     /// hypergeometric in their stream sizes (drawn one row at a time, each side with probability proportional to its

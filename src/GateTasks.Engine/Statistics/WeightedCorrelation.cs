@@ -52,6 +52,15 @@ internal sealed class WeightedCorrelation
         Count += other.Count;
     }
 
+    /// <summary>The whole state as numbers, for a partial file (<see cref="Restore"/> reads it back).</summary>
+    public double[] State() => [Count, _sumW, _sumW2, _meanX, _meanY, _m2X, _m2Y, _cXY];
+
+    public void Restore(ReadOnlySpan<double> s)
+    {
+        Count = (long)s[0];
+        (_sumW, _sumW2, _meanX, _meanY, _m2X, _m2Y, _cXY) = (s[1], s[2], s[3], s[4], s[5], s[6], s[7]);
+    }
+
     /// <summary>Pearson's r, or NaN when either variable is constant.</summary>
     public double Pearson => _m2X > 0 && _m2Y > 0 ? Math.Clamp(_cXY / Math.Sqrt(_m2X * _m2Y), -1, 1) : double.NaN;
 
