@@ -23,6 +23,9 @@ internal readonly record struct SampleTotals(long Events, double SumW, double Su
 /// </summary>
 internal static class SampleStream
 {
+    /// <summary>Batches with at least this many rows visit their features in parallel.</summary>
+    private const int ParallelBatchRows = 8192;
+
     /// <summary>A condition holds when it is non-zero and not NaN.</summary>
     private static bool Passes(double condition) => condition != 0 && !double.IsNaN(condition);
 
@@ -140,10 +143,12 @@ internal static class SampleStream
             sumW.Add(batchW);
             sumW2.Add(batchW2);
             events += kept;
-            for (var i = 0; i < n; i++)
+            // Features are independent from here on (each touches only its own spike filter and its visitor's state
+            // for that feature), so large batches spread them over the cores; the results do not depend on it.
+            void Visit(int i)
             {
                 var values = inputs.Conditions[i] is null ? frame.Feature(i) : ownValues[i].AsSpan(0, ownRows[i]);
-                var featureWeights = inputs.Conditions[i] is null ? weights
+                var featureWeights = inputs.Conditions[i] is null ? frame.Weights
                     : weightIndex >= 0 ? ownWeights[i].AsSpan(0, ownRows[i]) : ReadOnlySpan<double>.Empty;
                 if (spikes[i] is { } spike)
                 {
@@ -152,6 +157,8 @@ internal static class SampleStream
                 }
                 else visit(i, values, featureWeights);
             }
+            if (n > 1 && kept >= ParallelBatchRows && Environment.ProcessorCount > 1) Parallel.For(0, n, Visit);
+            else for (var i = 0; i < n; i++) Visit(i);
             afterEachBatch?.Invoke(frame);
         }
         return new SampleTotals(events, sumW.Value, sumW2.Value, spikes.Select(f => f?.Tally).ToList())
