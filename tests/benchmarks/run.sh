@@ -68,7 +68,7 @@ for f in "$cli" "$harness"; do [ -f "$f" ] || { say "$f not found (build it, or 
 
 # DuckDB for Node, from the npm registry, once per version; installed beside and then moved, so an interrupted
 # install never leaves a half folder behind.
-cache=${GATETASKS_BENCH_CACHE:-${XDG_CACHE_HOME:-$HOME/.cache}/gatetasks-bench}
+cache=${GATETASKS_BENCH_CACHE:-${XDG_CACHE_HOME:-${HOME:-/tmp}/.cache}/gatetasks-bench}
 modules=$cache/duckdb-node-api-$duckdb_version
 if [ ! -f "$modules/node_modules/@duckdb/node-api/package.json" ]; then
   say "installing @duckdb/node-api@$duckdb_version into $modules"
@@ -199,6 +199,6 @@ cat >"$work/meta.json" <<EOF
 {"mode": "$mode", "events": $events, "linear_events": $linear, "startup_events": $startup_events,
  "reference_events": $reference_events, "row_groups": $row_groups, "repeat": $repeat, "cores": $cores,
  "duckdb_package": "@duckdb/node-api $duckdb_version", "node": "$(node --version)", "dotnet": "$(dotnet --version)",
- "sample_bytes": $(stat -c %s "$work/sample.parquet"), "build_overhead": $build_overhead}
+ "sample_bytes": $(stat -c %s "$work/sample.parquet"), "build_overhead": $build_overhead, "elapsed_seconds": $SECONDS}
 EOF
 "$python" "$here/summarize.py" "$work" ${out:+"$out"}

@@ -60,6 +60,12 @@ def machine():
     return model, ram
 
 
+def rate(per_second):
+    if per_second >= 1e6:
+        return f"{per_second / 1e6:.2f} M"
+    return f"{per_second / 1e3:.1f} k"
+
+
 def power_of_ten(n):
     text = str(n)
     if text.startswith("1") and set(text[1:]) == {"0"}:
@@ -109,7 +115,8 @@ def main(work, out_path=None):
     add(f"Sample: one Parquet file of {meta['sample_bytes'] / 1e6:.0f} MB (Snappy, {meta['row_groups']} row groups, seed 1); "
         f"reference built from {power_of_ten(meta['reference_events'])} other events (seed 2); 15 equal-probability "
         f"axes of 40 bins and 5 equal-width axes, the same edges in every tool. Page cache warm; median of "
-        f"{meta['repeat']} runs; peak RSS is the largest of them.")
+        f"{meta['repeat']} run{'s' if meta['repeat'] > 1 else ''}; peak RSS is the largest of them. The whole benchmark "
+        f"took {meta['elapsed_seconds'] / 60:.1f} minutes.")
     add("")
     add("| run | events | wall s | own timer s | CPU s | peak RSS MB | events/s per core |")
     add("|---|---:|---:|---:|---:|---:|---:|")
@@ -118,7 +125,7 @@ def main(work, out_path=None):
         r = runs[name]
         timer_text = "–" if timer is None else f"{timer:.3f}"
         add(f"| {label} | {n} | {r['wall']:.3f} | {timer_text} | {r['cpu']:.2f} | {mb(r['rss']):.0f} | "
-            f"{(n / r['cpu'] if r['cpu'] > 0 else float('nan')) / 1e6:.2f} M |")
+            f"{rate(n / r['cpu']) if r['cpu'] > 0 else '–'} |")
 
     row("`gatetasks check`, 2 cores", "check-full", events)
     row("`gatetasks check`, 1 core (`taskset -c 0`)", "check-one-core", events)
@@ -148,7 +155,8 @@ def main(work, out_path=None):
         ("peak RSS: check vs numpy", mb(runs["check-full"]["rss"]), mb(runs["numpy"]["rss"]), "MB"),
     ]
     for label, a, b, unit in ratios:
-        add(f"| {label} | {a:.3f} {unit} | {b:.3f} {unit} | {a / b:.2f} |")
+        digits = 0 if unit == "MB" else 3
+        add(f"| {label} | {a:.{digits}f} {unit} | {b:.{digits}f} {unit} | {a / b:.2f} |")
     add("")
 
     targets = []
@@ -188,8 +196,10 @@ def main(work, out_path=None):
     add("")
     if meta["mode"] != "full":
         add(f"The targets are stated for 10^7 events; this is a {meta['mode']} run of {power_of_ten(events)} events.")
-    add(f"Histograms: {'identical' if agree else 'DIFFERENT'} cells for all 20 features in the engine, DuckDB and numpy"
-        + ("." if agree else f" ({', '.join(mismatches[:5])})."))
+    if agree:
+        add("Histograms: identical cells for all 20 features in the engine, DuckDB and numpy.")
+    else:
+        add(f"Histograms: DIFFERENT cells between the engine, DuckDB and numpy ({', '.join(mismatches[:5])}).")
     if verdict:
         add(f"Check verdict at {power_of_ten(events)}: {verdict[0]}")
     text = "\n".join(lines) + "\n"
