@@ -22,6 +22,8 @@ internal static class CliApp
         root.Subcommands.Add(CalibrateCommand.Create(stdout, stderr));
         root.Subcommands.Add(SchemaCommand.Create(stdout));
         root.Subcommands.Add(RankCommand.Create(stdout, stderr));
+        root.Subcommands.Add(ShardCommands.Fill(stdout, stderr));
+        root.Subcommands.Add(ShardCommands.Merge(stdout, stderr));
 
         var parse = root.Parse(args);
         if (parse.Errors.Count > 0)

@@ -29,14 +29,21 @@ internal static class CheckCommand
         {
             Description = "Also write a Markdown summary (for a pull-request comment or CI job summary) to this path.",
         };
+        var partials = new Option<string[]>("--partials")
+        {
+            Description = "Decide from partial files (from 'gatetasks fill' on shards of the sample, or 'gatetasks merge') instead of reading a sample.",
+            AllowMultipleArgumentsPerToken = true,
+        };
         var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed (or was inconclusive, if the contract says so); 2: input error; 4: the checks pass but the contract or reference in use is not the accepted one (see the ledger errors).")
         {
-            contract, sample, junit, text, html, markdown,
+            contract, sample, junit, text, html, markdown, partials,
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
-            var report = ContractCheck.Run(loaded, parse.GetValue(sample), ProgressDisplay.For(stdout, stderr));
+            var report = parse.GetValue(partials) is { Length: > 0 } parts
+                ? ContractCheck.RunFromPartials(loaded, ShardCommands.Expand(parts))
+                : ContractCheck.Run(loaded, parse.GetValue(sample), ProgressDisplay.For(stdout, stderr));
             if (parse.GetValue(text) is { } textPath)
                 AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
             var written = new List<string>();

@@ -15,56 +15,105 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class ContractCheck
 {
-    /// <summary>Seed of the sample's joint subsample.</summary>
-    private const int SampleJointSeed = 7_654_321;
-
     /// <summary>Runs the contract. <paramref name="samplePath"/> overrides the contract's sample (relative to the working directory).</summary>
     public static CheckReport Run(PrecisionContract contract, string? samplePath = null, IProgress<ReadProgress>? progress = null)
     {
         var started = DateTimeOffset.UtcNow;
         var clock = Stopwatch.StartNew();
-        // The sample's columns are checked first: a misspelt column is best answered with the sample's own names.
         var files = ContractInputs.SampleFiles(contract, samplePath);
+        // The sample's columns are checked before the reference is read: a misspelt column is best answered with the sample's own names.
+        var sample = OpenSample(contract, files, progress);
+        var setup = Prepare(contract);
+        var accumulation = Accumulate(setup, sample);
+        if (accumulation.Events == 0)
+            throw new GateInputException(ErrorCodes.SampleEmpty,
+                $"The surrogate sample has no events ({string.Join(", ", files.Select(Path.GetFileName))}).", contract.Sample.PathLocation);
+        return Decide(setup, accumulation, files, started, clock);
+    }
+
+    /// <summary>
+    /// Decides from partial files (from 'gatetasks fill' on shards of the sample, or 'gatetasks merge'): they are merged,
+    /// then every check runs as on one pass over the whole sample.
+    /// </summary>
+    public static CheckReport RunFromPartials(PrecisionContract contract, IReadOnlyList<string> partials)
+    {
+        var started = DateTimeOffset.UtcNow;
+        var clock = Stopwatch.StartNew();
+        var setup = Prepare(contract);
+        var (accumulation, provenance) = Partials.PartialFile.ReadMerged(partials, setup);
+        if (accumulation.Events == 0)
+            throw new GateInputException(ErrorCodes.SampleEmpty, $"The partial files hold no events ({string.Join(", ", partials.Select(Path.GetFileName))}).", new SourceLocation(partials[0]));
+        return Decide(setup, accumulation, provenance.SampleFiles, started, clock);
+    }
+
+    /// <summary>Gathers one shard of the sample into a partial file, for merging elsewhere.</summary>
+    public static long Fill(PrecisionContract contract, string samplePath, string output, IProgress<ReadProgress>? progress = null)
+    {
+        var files = ContractInputs.SampleFiles(contract, samplePath);
+        var opened = OpenSample(contract, files, progress);
+        var setup = Prepare(contract);
+        var accumulation = Accumulate(setup, opened);
+        Partials.PartialFile.Write(output, setup, accumulation, new Partials.PartialFile.Provenance(files.Select(Path.GetFileName).ToList()!, []));
+        return accumulation.Events;
+    }
+
+    /// <summary>Merges partial files into one (exact sums stay exact), recording each input's SHA-256.</summary>
+    public static long Merge(PrecisionContract contract, IReadOnlyList<string> partials, string output)
+    {
+        var setup = Prepare(contract);
+        var (accumulation, provenance) = Partials.PartialFile.ReadMerged(partials, setup);
+        Partials.PartialFile.Write(output, setup, accumulation, provenance);
+        return accumulation.Events;
+    }
+
+    /// <summary>The reference a contract is checked against, read and matched to its features once.</summary>
+    internal sealed record CheckSetup(PrecisionContract Contract, ReferenceHistograms Reference, string ReferencePath, string ReferenceSha256,
+        IReadOnlyList<ReferenceFeature> References);
+
+    /// <summary>Reads the contract's reference and matches every feature to it.</summary>
+    internal static CheckSetup Prepare(PrecisionContract contract)
+    {
+        var referencePath = contract.ReferenceFullPath;
+        var reference = ReferenceFile.Read(referencePath, contract.ReferenceLocation);
+        var references = contract.Features.Select(f => MatchReference(reference, f, referencePath)).ToList();
+        return new CheckSetup(contract, reference, referencePath, FileDigest.Sha256(referencePath), references);
+    }
+
+    /// <summary>A sample opened for a contract: its files' schemas read, its columns checked, the expressions compiled.</summary>
+    internal sealed record OpenedSample(Sample Sample, FeatureInputs Inputs);
+
+    /// <summary>Opens a sample and checks it against the contract (columns, then expressions) before anything is read.</summary>
+    internal static OpenedSample OpenSample(PrecisionContract contract, IReadOnlyList<string> files, IProgress<ReadProgress>? progress = null)
+    {
         var sample = Sample.Open(files);
         sample.Progress = progress;
         sample.Phase = "checking the sample";
         ValidateColumns(contract, sample);
-        var inputs = FeatureInputs.Compile(contract, sample.Columns.Select(c => c.Name).ToList());
+        return new OpenedSample(sample, FeatureInputs.Compile(contract, sample.Columns.Select(c => c.Name).ToList()));
+    }
 
-        var referencePath = contract.ReferenceFullPath;
-        var reference = ReferenceFile.Read(referencePath, contract.ReferenceLocation);
-        var referenceSha = FileDigest.Sha256(referencePath);
-        var references = contract.Features.Select(f => MatchReference(reference, f, referencePath)).ToList();
+    /// <summary>Streams one sample (or one shard of it) into a new accumulation.</summary>
+    internal static SampleAccumulation Accumulate(CheckSetup setup, OpenedSample opened)
+    {
+        var accumulation = new SampleAccumulation(setup.Contract, setup.References);
+        accumulation.Read(opened.Sample, opened.Inputs);
+        return accumulation;
+    }
+
+    /// <summary>Evaluates every check on what was gathered from the sample (in one pass, or merged from shards).</summary>
+    internal static CheckReport Decide(CheckSetup setup, SampleAccumulation accumulation, IReadOnlyList<string> files, DateTimeOffset started, Stopwatch clock)
+    {
+        var (contract, reference, referencePath, referenceSha, references) = (setup.Contract, setup.Reference, setup.ReferencePath, setup.ReferenceSha256, setup.References);
         var cores = contract.Features.Select((f, i) => RegionBins.Core(references[i], f)).ToList();
-
-        var histograms = references.Select(r => new Histogram(r.Histogram.Axis)).ToArray();
-        var stats = contract.Features.Select(_ => new FeatureStatistics()).ToArray();
-        var farTail = contract.Features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && references[i].FarTail is { } t
-            ? new FarTailCounter(t.Low, t.High) : null).ToArray();
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
-        var joint = contract.Joint is { } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, SampleJointSeed) : null;
-        var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
-            new MarginalCdf(references[index[p.First]].Histogram), new MarginalCdf(references[index[p.Second]].Histogram),
-            p.Chi2 is null ? null : new Histogram2D(references[index[p.First]].Histogram.Axis, references[index[p.Second]].Histogram.Axis))).ToList();
-        var totals = SampleStream.Run(sample, inputs, contract.Sample.Weight, (i, values, weights) =>
-        {
-            histograms[i].Fill(values, weights);
-            stats[i].Add(values, weights);
-            farTail[i]?.Add(values, weights);
-        }, view =>
-        {
-            foreach (var p in pairs) p.Add(view);
-            joint?.Add(view);
-        });
-        if (totals.Events == 0)
-            throw new GateInputException(ErrorCodes.SampleEmpty,
-                $"The surrogate sample has no events ({string.Join(", ", files.Select(Path.GetFileName))}).", contract.Sample.PathLocation);
-
+        var pairs = accumulation.Pairs;
+        var joint = accumulation.Joint;
         var measured = new List<(FeatureSpec, CheckSpec, Measurement)>();
         var comparisons = new List<FeatureComparison>();
         for (var i = 0; i < contract.Features.Count; i++)
         {
-            var comparison = new FeatureComparison(contract.Features[i], references[i], histograms[i], stats[i].Summary(), cores[i], totals.Spikes[i], farTail[i]?.Counts);
+            var comparison = new FeatureComparison(contract.Features[i], references[i], accumulation.Histogram(i), accumulation.Summary(i), cores[i],
+                accumulation.Spike(i), accumulation.FarTail(i));
             comparisons.Add(comparison);
             foreach (var check in contract.Features[i].Checks)
                 measured.Add((contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision)));
@@ -78,15 +127,15 @@ internal static class ContractCheck
             // Pair checks are reported like a feature named after the pair, at the pair's entry in the contract.
             var subject = first with { Name = pair.Spec.Name, Column = pair.Spec.Name, Checks = [], Location = pair.Spec.Location, ColumnLocation = pair.Spec.Location };
             foreach (var check in new[] { pair.Spec.Pearson, pair.Spec.Spearman })
-                if (check is not null) measured.Add((subject, check, CorrelationCheck.Evaluate(stored, pair, check, contract.Decision, totals.Events)));
+                if (check is not null) measured.Add((subject, check, CorrelationCheck.Evaluate(stored, pair, check, contract.Decision, accumulation.Events)));
             if (pair.Spec.Chi2 is { } chi2)
             {
-                if (stored.Cells2DSumW is null || stored.Cells2DSumW2 is null || stored.Cells2DSumW.Length != pair.Joint!.Storage.CellCount)
+                if (stored.Cells2DSumW is null || stored.Cells2DSumW2 is null || pair.JointCells is not { } cells || stored.Cells2DSumW.Length != cells.SumW.Length)
                     throw new GateInputException(ErrorCodes.ReferenceMismatch,
                         $"The reference holds no 2-D histogram for {pair.Spec.Name} on these axes; rebuild it with 'gatetasks reference build'.", pair.Spec.Location);
                 measured.Add((subject, chi2, ChiSquareCheck.Evaluate(
                     new CellContents(stored.Cells2DSumW, stored.Cells2DSumW2),
-                    new CellContents(pair.Joint.Storage.SumW.ToArray(), pair.Joint.Storage.SumW2.ToArray()))));
+                    new CellContents(cells.SumW, cells.SumW2))));
             }
         }
         if (contract.Joint is { } jointSpec)
@@ -102,7 +151,7 @@ internal static class ContractCheck
         }
         var outcomes = VerdictRule.Decide(measured, contract.Decision);
 
-        return new CheckReport(contract, referencePath, referenceSha, reference, files, totals.Events, totals.SumW, totals.SumW2, outcomes, started, clock.Elapsed)
+        return new CheckReport(contract, referencePath, referenceSha, reference, files, accumulation.Events, accumulation.SumW, accumulation.SumW2, outcomes, started, clock.Elapsed)
         {
             Comparisons = comparisons,
             Acceptance = Ledger.LedgerGuard.Verify(contract, referenceSha, outcomes),

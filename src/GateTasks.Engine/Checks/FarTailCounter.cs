@@ -5,23 +5,42 @@ namespace GateTasks.Engine.Checks;
 /// <summary>Counts, while streaming, the weight strictly below <paramref name="low"/> and strictly above <paramref name="high"/>.</summary>
 internal sealed class FarTailCounter(double low, double high)
 {
-    private double _belowW, _belowW2, _aboveW, _aboveW2, _totalW, _totalW2;
+    // Below Σw, Σw²; above Σw, Σw²; total Σw, Σw² — summed per call (one batch), then exactly.
+    private readonly Statistics.ExactSum[] _sums = Enumerable.Range(0, 6).Select(_ => new Statistics.ExactSum()).ToArray();
 
     public void Add(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
     {
+        double belowW = 0, belowW2 = 0, aboveW = 0, aboveW2 = 0, totalW = 0, totalW2 = 0;
         for (var i = 0; i < values.Length; i++)
         {
             var x = values[i];
             if (double.IsNaN(x)) continue;
             var w = weights.IsEmpty ? 1.0 : weights[i];
-            _totalW += w;
-            _totalW2 += w * w;
-            if (x < low) { _belowW += w; _belowW2 += w * w; }
-            else if (x > high) { _aboveW += w; _aboveW2 += w * w; }
+            totalW += w;
+            totalW2 += w * w;
+            if (x < low) { belowW += w; belowW2 += w * w; }
+            else if (x > high) { aboveW += w; aboveW2 += w * w; }
         }
+        double[] batch = [belowW, belowW2, aboveW, aboveW2, totalW, totalW2];
+        for (var k = 0; k < batch.Length; k++) _sums[k].Add(batch[k]);
     }
 
-    public FarTailCounts Counts => new(low, high, _belowW, _belowW2, _aboveW, _aboveW2, _totalW, _totalW2);
+    /// <summary>The six exact sums' partials, for a partial file.</summary>
+    public IReadOnlyList<IReadOnlyList<double>> State() => _sums.Select(x => x.Partials).ToList();
+
+    /// <summary>Adds sums read from a partial file.</summary>
+    public void AddState(double[][] state)
+    {
+        for (var k = 0; k < _sums.Length; k++) foreach (var v in state[k]) _sums[k].Add(v);
+    }
+
+    /// <summary>Adds another counter's sums (exact).</summary>
+    public void Merge(FarTailCounter other)
+    {
+        for (var k = 0; k < _sums.Length; k++) _sums[k].Add(other._sums[k]);
+    }
+
+    public FarTailCounts Counts => new(low, high, _sums[0].Value, _sums[1].Value, _sums[2].Value, _sums[3].Value, _sums[4].Value, _sums[5].Value);
 
     /// <summary>The thresholds every far-tail count uses: the reference's 0.1% and 99.9% quantiles.</summary>
     public static (double Low, double High)? Thresholds(ReferenceFeature reference) =>

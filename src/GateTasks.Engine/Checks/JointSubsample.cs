@@ -27,6 +27,15 @@ internal sealed class JointSubsample(IReadOnlyList<int> features, int capacity, 
         }
     }
 
+    /// <summary>Merges another subsample of the same features into a uniform subsample of both (see <see cref="ReservoirSample.Merge"/>).</summary>
+    public void Merge(JointSubsample other) => _reservoir.Merge(other._reservoir);
+
+    /// <summary>Rows offered so far (without NaN).</summary>
+    public long Seen => _reservoir.Seen;
+
+    /// <summary>Sets the state read from a partial file.</summary>
+    public void Restore(double[][] rows, long seen) => _reservoir.Restore(rows, seen);
+
     /// <summary>A copy of the kept rows.</summary>
     public double[][] Rows => _reservoir.Rows.Select(row => row.ToArray()).ToArray();
 }

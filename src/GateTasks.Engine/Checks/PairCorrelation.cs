@@ -12,8 +12,14 @@ namespace GateTasks.Engine.Checks;
 internal sealed class PairCorrelation(CorrelationSpec spec, int first, int second, MarginalCdf firstCdf, MarginalCdf secondCdf,
     Histogram2D? joint = null)
 {
-    /// <summary>The pair's 2-D histogram, when its χ² test is asked for.</summary>
+    /// <summary>The pair's 2-D histogram, when its χ² test is asked for: a per-batch buffer, added exactly into the cells below.</summary>
     public Histogram2D? Joint { get; } = joint;
+
+    private readonly ExactSum[]? _cellsW = joint is null ? null : Enumerable.Range(0, joint.Storage.CellCount).Select(_ => new ExactSum()).ToArray();
+    private readonly ExactSum[]? _cellsW2 = joint is null ? null : Enumerable.Range(0, joint.Storage.CellCount).Select(_ => new ExactSum()).ToArray();
+
+    /// <summary>The 2-D cells' Σw and Σw², each summed exactly and rounded once; null without a χ² test.</summary>
+    public (double[] SumW, double[] SumW2)? JointCells => _cellsW is null ? null : (_cellsW.Select(c => c.Value).ToArray(), _cellsW2!.Select(c => c.Value).ToArray());
 
     private readonly WeightedCorrelation _pearson = new();
     private readonly WeightedCorrelation _spearman = new();
@@ -32,6 +38,65 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
             _pearson.Add(x[r], y[r], w);
             _spearman.Add(firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
             Joint?.Fill(x[r], y[r], w);
+        }
+        if (Joint is not null)
+        {
+            var sw = Joint.Storage.SumW;
+            var sw2 = Joint.Storage.SumW2;
+            for (var c = 0; c < sw.Length; c++)
+            {
+                if (sw[c] != 0) _cellsW![c].Add(sw[c]);
+                if (sw2[c] != 0) _cellsW2![c].Add(sw2[c]);
+            }
+            sw.Clear();
+            sw2.Clear();
+        }
+    }
+
+    /// <summary>Writes the pair's state into a partial file.</summary>
+    public void WriteState(System.Text.Json.Utf8JsonWriter w)
+    {
+        w.WriteStartObject();
+        w.WriteString("pair", Spec.Name);
+        Partials.PartialNumbers.WriteArray(w, "pearson", _pearson.State());
+        Partials.PartialNumbers.WriteArray(w, "spearman", _spearman.State());
+        if (_cellsW is not null)
+        {
+            Partials.PartialNumbers.WriteJagged(w, "cells_w", _cellsW.Select(c => c.Partials));
+            Partials.PartialNumbers.WriteJagged(w, "cells_w2", _cellsW2!.Select(c => c.Partials));
+        }
+        w.WriteEndObject();
+    }
+
+    /// <summary>Reads a state written by <see cref="WriteState"/> (into a fresh accumulation); false when it does not fit.</summary>
+    public bool ReadState(System.Text.Json.JsonElement e)
+    {
+        if (e.GetProperty("pair").GetString() != Spec.Name) return false;
+        _pearson.Restore(Partials.PartialNumbers.ReadArray(e.GetProperty("pearson")));
+        _spearman.Restore(Partials.PartialNumbers.ReadArray(e.GetProperty("spearman")));
+        if (_cellsW is null) return !e.TryGetProperty("cells_w", out _);
+        if (!e.TryGetProperty("cells_w", out var cw)) return false;
+        var w = Partials.PartialNumbers.ReadJagged(cw);
+        var w2 = Partials.PartialNumbers.ReadJagged(e.GetProperty("cells_w2"));
+        if (w.Length != _cellsW.Length) return false;
+        for (var c = 0; c < w.Length; c++)
+        {
+            foreach (var v in w[c]) _cellsW[c].Add(v);
+            foreach (var v in w2[c]) _cellsW2![c].Add(v);
+        }
+        return true;
+    }
+
+    /// <summary>Adds another accumulation of the same pair (coefficients to rounding, 2-D cells exactly).</summary>
+    public void Merge(PairCorrelation other)
+    {
+        _pearson.Merge(other._pearson);
+        _spearman.Merge(other._spearman);
+        if (_cellsW is null || other._cellsW is null) return;
+        for (var c = 0; c < _cellsW.Length; c++)
+        {
+            _cellsW[c].Add(other._cellsW[c]);
+            _cellsW2![c].Add(other._cellsW2![c]);
         }
     }
 

@@ -50,6 +50,12 @@ public static class ErrorCodes
     public const string ReferenceUnreadable = "GATE2102";
     /// <summary>The reference lacks a feature the contract checks, or was built with other binning.</summary>
     public const string ReferenceMismatch = "GATE2103";
+    /// <summary>A partial file (from 'gatetasks fill' or 'merge') cannot be read.</summary>
+    public const string PartialUnreadable = "GATE2201";
+    /// <summary>A partial file was filled for another contract or reference.</summary>
+    public const string PartialMismatch = "GATE2202";
+    /// <summary>Two partial files hold the same sample file: its events would be counted twice.</summary>
+    public const string PartialOverlap = "GATE2203";
 
     /// <summary>Kolmogorov–Smirnov distance above tolerance.</summary>
     public const string DriftKolmogorovSmirnov = "GATE3001";

@@ -89,6 +89,17 @@ internal sealed class Histogram
         NanSumW2 += other.NanSumW2;
     }
 
+    /// <summary>Empties every cell and count, keeping the binning (for reuse as a per-batch buffer).</summary>
+    public void Clear()
+    {
+        Storage.SumW.Clear();
+        Storage.SumW2.Clear();
+        Entries = 0;
+        NanEntries = 0;
+        NanSumW = 0;
+        NanSumW2 = 0;
+    }
+
     /// <summary>Restores a histogram from stored cells (for reading reference files).</summary>
     public static Histogram FromCells(Axis axis, ReadOnlySpan<double> sumW, ReadOnlySpan<double> sumW2,
         long entries, long nanEntries, double nanSumW, double nanSumW2)

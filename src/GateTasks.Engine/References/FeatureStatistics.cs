@@ -36,6 +36,40 @@ internal sealed class FeatureStatistics
         }
     }
 
+    /// <summary>
+    /// Adds another feature's statistics: moments by the pairwise update of Chan, Golub &amp; LeVeque (1979), power sums
+    /// re-centred on this shift by the binomial expansion, extremes and NaN counts. Agrees with one pass to rounding.
+    /// </summary>
+    public void Merge(FeatureStatistics other)
+    {
+        _moments.Merge(other._moments);
+        NanCount += other.NanCount;
+        Min = Math.Min(Min, other.Min);
+        Max = Math.Max(Max, other.Max);
+        if (double.IsNaN(other._shift)) return;
+        if (double.IsNaN(_shift)) _shift = other._shift;
+        // Σw(x − a)^k = Σ_j C(k, j)·(b − a)^(k−j)·Σw(x − b)^j, with a this shift and b the other's.
+        var d = other._shift - _shift;
+        double o0 = other._s0, o1 = other._s1, o2 = other._s2, o3 = other._s3, o4 = other._s4;
+        _s0 += o0;
+        _s1 += o1 + d * o0;
+        _s2 += o2 + 2 * d * o1 + d * d * o0;
+        _s3 += o3 + 3 * d * o2 + 3 * d * d * o1 + d * d * d * o0;
+        _s4 += o4 + 4 * d * o3 + 6 * d * d * o2 + 4 * d * d * d * o1 + d * d * d * d * o0;
+    }
+
+    /// <summary>The whole state as numbers, for a partial file (<see cref="Restore"/> reads it back).</summary>
+    public double[] State() => [.. _moments.State(), _shift, _s0, _s1, _s2, _s3, _s4, Min, Max, NanCount];
+
+    public static FeatureStatistics Restore(ReadOnlySpan<double> s)
+    {
+        var f = new FeatureStatistics();
+        f._moments.Restore(s[..6]);
+        (f._shift, f._s0, f._s1, f._s2, f._s3, f._s4) = (s[6], s[7], s[8], s[9], s[10], s[11]);
+        (f.Min, f.Max, f.NanCount) = (s[12], s[13], (long)s[14]);
+        return f;
+    }
+
     public FeatureSummary Summary() =>
         new(_moments.Count, _moments.SumOfWeights, _moments.SumOfSquaredWeights, _moments.Mean, _moments.StandardDeviation, Min, Max, NanCount, Kurtosis());
 

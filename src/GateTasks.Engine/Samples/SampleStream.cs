@@ -6,7 +6,15 @@ namespace GateTasks.Engine.Samples;
 internal delegate void FeatureBatch(int feature, ReadOnlySpan<double> values, ReadOnlySpan<double> weights);
 
 /// <summary>Event totals of one pass over a sample (events that passed the selection), and per feature its spike tally (null without a spike).</summary>
-internal readonly record struct SampleTotals(long Events, double SumW, double SumW2, IReadOnlyList<References.SpikeTally?> Spikes);
+internal readonly record struct SampleTotals(long Events, double SumW, double SumW2, IReadOnlyList<References.SpikeTally?> Spikes)
+{
+    /// <summary>Σw and Σw² as exact sums, for merging with other shards.</summary>
+    public Statistics.ExactSum? ExactSumW { get; init; }
+    public Statistics.ExactSum? ExactSumW2 { get; init; }
+
+    /// <summary>Per feature, the spike filter with its exact tally (null where no spike is declared).</summary>
+    public IReadOnlyList<SpikeFilter?>? SpikeFilters { get; init; }
+}
 
 /// <summary>
 /// One streamed pass over a sample: reads each needed column once per batch, evaluates derived features
@@ -40,7 +48,9 @@ internal static class SampleStream
         var spikes = inputs.Spikes.Select(v => v is { } value ? new SpikeFilter(value) : null).ToArray();
 
         long events = 0, read = 0;
-        double sumW = 0, sumW2 = 0;
+        // Per batch in doubles, then exactly: totals that do not depend on how batches are grouped.
+        var sumW = new Statistics.ExactSum();
+        var sumW2 = new Statistics.ExactSum();
         foreach (var batch in sample.ReadBatches(columns))
         {
             var rows = batch.RowCount;
@@ -121,16 +131,14 @@ internal static class SampleStream
             frame.Rows = kept;
 
             var weights = frame.Weights;
-            if (weights.IsEmpty)
-            {
-                sumW += kept;
-                sumW2 += kept;
-            }
+            double batchW = weights.IsEmpty ? kept : 0, batchW2 = weights.IsEmpty ? kept : 0;
             foreach (var w in weights)
             {
-                sumW += w;
-                sumW2 += w * w;
+                batchW += w;
+                batchW2 += w * w;
             }
+            sumW.Add(batchW);
+            sumW2.Add(batchW2);
             events += kept;
             for (var i = 0; i < n; i++)
             {
@@ -146,6 +154,11 @@ internal static class SampleStream
             }
             afterEachBatch?.Invoke(frame);
         }
-        return new SampleTotals(events, sumW, sumW2, spikes.Select(f => f?.Tally).ToList());
+        return new SampleTotals(events, sumW.Value, sumW2.Value, spikes.Select(f => f?.Tally).ToList())
+        {
+            ExactSumW = sumW,
+            ExactSumW2 = sumW2,
+            SpikeFilters = spikes,
+        };
     }
 }

@@ -12,10 +12,30 @@ internal sealed class SpikeFilter(double value)
     private double[] _values = [];
     private double[] _weights = [];
     private long _entries;
-    private double _sumW;
-    private double _sumW2;
+    // Summed per batch, then exactly, so the tally does not depend on how batches are grouped into shards.
+    private readonly Statistics.ExactSum _sumW = new();
+    private readonly Statistics.ExactSum _sumW2 = new();
 
-    public SpikeTally Tally => new(value, _entries, _sumW, _sumW2);
+    public SpikeTally Tally => new(value, _entries, _sumW.Value, _sumW2.Value);
+
+    /// <summary>The tally's state, for a partial file: entries, then the partials of Σw and of Σw².</summary>
+    public (long Entries, IReadOnlyList<double> SumW, IReadOnlyList<double> SumW2) State() => (_entries, _sumW.Partials, _sumW2.Partials);
+
+    /// <summary>Adds a tally read from a partial file.</summary>
+    public void AddState(long entries, IEnumerable<double> sumW, IEnumerable<double> sumW2)
+    {
+        _entries += entries;
+        foreach (var v in sumW) _sumW.Add(v);
+        foreach (var v in sumW2) _sumW2.Add(v);
+    }
+
+    /// <summary>Adds another filter's tally (exact).</summary>
+    public void Merge(SpikeFilter other)
+    {
+        _entries += other._entries;
+        _sumW.Add(other._sumW);
+        _sumW2.Add(other._sumW2);
+    }
 
     /// <summary>The values (and weights, empty for unit weights) other than the spike.</summary>
     public (ReadOnlyMemory<double> Values, ReadOnlyMemory<double> Weights) Apply(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
@@ -26,20 +46,23 @@ internal sealed class SpikeFilter(double value)
             _weights = new double[values.Length];
         }
         var kept = 0;
+        double sumW = 0, sumW2 = 0;
         for (var i = 0; i < values.Length; i++)
         {
             var w = weights.IsEmpty ? 1.0 : weights[i];
             if (values[i] == value)
             {
                 _entries++;
-                _sumW += w;
-                _sumW2 += w * w;
+                sumW += w;
+                sumW2 += w * w;
                 continue;
             }
             _values[kept] = values[i];
             _weights[kept] = w;
             kept++;
         }
+        _sumW.Add(sumW);
+        _sumW2.Add(sumW2);
         return (_values.AsMemory(0, kept), weights.IsEmpty ? ReadOnlyMemory<double>.Empty : _weights.AsMemory(0, kept));
     }
 }

@@ -73,6 +73,55 @@ internal sealed class ReservoirSample
         }
     }
 
+    /// <summary>Sets the state read from a partial file: the kept rows and how many rows the stream had.</summary>
+    internal void Restore(double[][] rows, long seen)
+    {
+        if (rows.Length > Capacity || rows.Any(r => r.Length != Features) || seen < rows.Length)
+            throw new ArgumentException("The stored subsample does not fit this reservoir.", nameof(rows));
+        Array.Clear(_rows);
+        for (var i = 0; i < rows.Length; i++) _rows[i] = rows[i].ToArray();
+        _kept = rows.Length;
+        Seen = seen;
+    }
+
+    /// <summary>
+    /// Makes this reservoir a uniform subsample of the union of both streams: the number of rows drawn from each is
+    /// hypergeometric in their stream sizes (drawn one row at a time, each side with probability proportional to its
+    /// rows not yet drawn), and each side's kept rows, a uniform subset of its stream, are taken in a seeded random
+    /// order. Valid, but not the subsample one pass over both streams would have kept.
+    /// </summary>
+    internal void Merge(ReservoirSample other)
+    {
+        if (other.Features != Features) throw new ArgumentException("Reservoirs differ in row length.", nameof(other));
+        var mine = Shuffled(Rows);
+        var theirs = Shuffled(other.Rows);
+        long a = Seen, b = other.Seen;
+        var take = (int)Math.Min(Capacity, a + b);
+        var merged = new double[take][];
+        int i = 0, j = 0;
+        for (var t = 0; t < take; t++)
+        {
+            var fromMine = b == 0 || (a > 0 && _rng.NextDouble() * (a + b) < a);
+            merged[t] = (fromMine ? mine[i++] : theirs[j++]).ToArray();
+            if (fromMine) a--; else b--;
+        }
+        Array.Clear(_rows);
+        merged.CopyTo(_rows, 0);
+        _kept = take;
+        Seen += other.Seen;
+    }
+
+    private double[][] Shuffled(double[][] rows)
+    {
+        var copy = rows.ToArray();
+        for (var k = copy.Length - 1; k > 0; k--)
+        {
+            var m = _rng.Next(k + 1);
+            (copy[k], copy[m]) = (copy[m], copy[k]);
+        }
+        return copy;
+    }
+
     /// <summary>Slot the next offered row goes to, or −1 if it is not kept (Algorithm R's replacement step).</summary>
     private int NextSlot()
     {

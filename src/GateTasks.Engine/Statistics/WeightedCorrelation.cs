@@ -28,6 +28,39 @@ internal sealed class WeightedCorrelation
         _sumW = newSum;
     }
 
+    /// <summary>Adds another accumulation (Chan, Golub &amp; LeVeque 1979, extended to the co-moment); agrees with one pass to rounding.</summary>
+    public void Merge(WeightedCorrelation other)
+    {
+        if (other._sumW == 0) { Count += other.Count; _sumW2 += other._sumW2; return; }
+        if (_sumW == 0)
+        {
+            (_sumW, _sumW2, _meanX, _meanY, _m2X, _m2Y, _cXY) = (other._sumW, _sumW2 + other._sumW2, other._meanX, other._meanY, other._m2X, other._m2Y, other._cXY);
+            Count += other.Count;
+            return;
+        }
+        var total = _sumW + other._sumW;
+        var dx = other._meanX - _meanX;
+        var dy = other._meanY - _meanY;
+        var f = _sumW * other._sumW / total;
+        _m2X += other._m2X + dx * dx * f;
+        _m2Y += other._m2Y + dy * dy * f;
+        _cXY += other._cXY + dx * dy * f;
+        _meanX += dx * other._sumW / total;
+        _meanY += dy * other._sumW / total;
+        _sumW = total;
+        _sumW2 += other._sumW2;
+        Count += other.Count;
+    }
+
+    /// <summary>The whole state as numbers, for a partial file (<see cref="Restore"/> reads it back).</summary>
+    public double[] State() => [Count, _sumW, _sumW2, _meanX, _meanY, _m2X, _m2Y, _cXY];
+
+    public void Restore(ReadOnlySpan<double> s)
+    {
+        Count = (long)s[0];
+        (_sumW, _sumW2, _meanX, _meanY, _m2X, _m2Y, _cXY) = (s[1], s[2], s[3], s[4], s[5], s[6], s[7]);
+    }
+
     /// <summary>Pearson's r, or NaN when either variable is constant.</summary>
     public double Pearson => _m2X > 0 && _m2Y > 0 ? Math.Clamp(_cXY / Math.Sqrt(_m2X * _m2Y), -1, 1) : double.NaN;
 

@@ -66,6 +66,14 @@ internal sealed class WeightedMoments
         SumOfWeights = total;
     }
 
+    /// <summary>The whole state as numbers, for a partial file (<see cref="Restore"/> reads it back).</summary>
+    internal double[] State() => [Count, SumOfWeights, SumOfSquaredWeights, _pivot, _meanFromPivot, _sumSquaredDeviations];
+
+    internal void Restore(ReadOnlySpan<double> s)
+    {
+        (Count, SumOfWeights, SumOfSquaredWeights, _pivot, _meanFromPivot, _sumSquaredDeviations) = ((long)s[0], s[1], s[2], s[3], s[4], s[5]);
+    }
+
     /// <summary>Adds everything accumulated in <paramref name="other"/> (which is left unchanged).</summary>
     internal void Merge(WeightedMoments other)
     {

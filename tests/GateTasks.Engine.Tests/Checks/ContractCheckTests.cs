@@ -476,6 +476,17 @@ public sealed class ContractCheckTests : IDisposable
     }
 
     [Fact]
+    public void Weights_whose_squares_overflow_are_an_input_error_not_a_crash()
+    {
+        var contract = Setup(ContractText.Replace("sample: surrogate.csv", "sample: { path: surrogate.csv, weight: w }"));
+        File.WriteAllLines(Path.Combine(_dir, "surrogate.csv"), new[] { "x,w" }.Concat(Enumerable.Range(0, 100)
+            .Select(i => string.Create(CultureInfo.InvariantCulture, $"{i * 0.01:R},1e200"))));
+        var e = Assert.Throws<GateInputException>(() => ContractCheck.Run(contract));
+        Assert.Equal(ErrorCodes.SampleBadWeight, e.Code);
+        Assert.Contains("rescale", e.Message);
+    }
+
+    [Fact]
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
         var contract = Setup();
