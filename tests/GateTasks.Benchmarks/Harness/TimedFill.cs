@@ -1,0 +1,48 @@
+using System.Diagnostics;
+using System.Text.Json;
+using GateTasks.Engine.Histograms;
+using GateTasks.Engine.References;
+using GateTasks.Engine.Samples;
+
+namespace GateTasks.Benchmarks.Harness;
+
+/// <summary>
+/// The engine's histogramming alone, in-process and after start-up: streams the sample through the engine's reader
+/// (row group by row group, as a check does) and fills one histogram per feature with the reference's axes. The
+/// time covers Parquet decoding and filling, the same work the independent engines are timed on; the cells are
+/// written out so the script can compare them.
+/// </summary>
+internal static class TimedFill
+{
+    public static void Run(string referencePath, string samplePath, string jsonPath)
+    {
+        var reference = ReferenceFile.Read(referencePath);
+        var columns = reference.Features.Select(f => f.Column).ToList();
+
+        var clock = Stopwatch.StartNew();
+        var histograms = reference.Features.Select(f => new Histogram(f.Histogram.Axis)).ToArray();
+        var sample = Sample.Open([samplePath]);
+        long events = 0;
+        foreach (var batch in sample.ReadBatches(columns))
+        {
+            for (var c = 0; c < histograms.Length; c++) histograms[c].Fill(batch.Column(c), ReadOnlySpan<double>.Empty);
+            events += batch.RowCount;
+        }
+        var seconds = clock.Elapsed.TotalSeconds;
+
+        using var stream = File.Create(jsonPath);
+        using var json = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true });
+        json.WriteStartObject();
+        json.WriteNumber("seconds", seconds);
+        json.WriteNumber("events", events);
+        json.WriteStartObject("features");
+        for (var c = 0; c < histograms.Length; c++)
+        {
+            json.WriteStartArray(reference.Features[c].Name);
+            foreach (var w in histograms[c].Storage.SumW) json.WriteNumberValue((long)w);
+            json.WriteEndArray();
+        }
+        json.WriteEndObject();
+        json.WriteEndObject();
+    }
+}

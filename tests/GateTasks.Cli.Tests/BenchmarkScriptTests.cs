@@ -1,0 +1,62 @@
+using System.Globalization;
+using GateTasks.Tests.Shared;
+
+namespace GateTasks.Cli.Tests;
+
+/// <summary>
+/// The end-to-end benchmark (tests/benchmarks/run.sh) at its tiny size, so the harness cannot rot: it generates a
+/// fixed-seed sample, checks it, and has two independent engines histogram the same events with the same edges.
+/// Nothing here asserts a speed (no timed tests); it asserts that every run finished, that the report has its
+/// shape, and that the engine's histograms equal DuckDB's and numpy's cell for cell.
+/// </summary>
+public class BenchmarkScriptTests
+{
+    [BenchmarkToolsFact]
+    public void Tiny_run_reports_every_tool_and_every_target_and_the_histograms_agree()
+    {
+        // The solution build has built both assemblies in this test run's configuration (bin/<Configuration>/…).
+        var configuration = new DirectoryInfo(AppContext.BaseDirectory).Parent!.Name;
+        var cli = Path.Combine(RepositoryRoot.Path, "src", "GateTasks.Cli", "bin", configuration, "net8.0", "gatetasks.dll");
+        var harness = Path.Combine(RepositoryRoot.Path, "tests", "GateTasks.Benchmarks", "bin", configuration, "net10.0", "GateTasks.Benchmarks.dll");
+        Assert.True(File.Exists(cli), cli);
+        Assert.True(File.Exists(harness), harness);
+
+        var (code, stdout, stderr) = ProcessRunner.Run("bash",
+            [Path.Combine(RepositoryRoot.Path, "tests", "benchmarks", "run.sh"), "--tiny", "--no-build", "--skip-build-overhead"],
+            RepositoryRoot.Path,
+            new Dictionary<string, string> { ["GATETASKS_BENCH_CLI"] = cli, ["GATETASKS_BENCH_HARNESS"] = harness },
+            timeoutSeconds: 240);
+        Assert.True(code == 0, $"run.sh exited {code}:\n{stderr}\n{stdout}");
+
+        var lines = stdout.Split('\n');
+        Assert.StartsWith("### GateTasks end-to-end benchmark: 10^5 events × 20 float32 features (tiny)", lines[0]);
+        Assert.Contains(lines, l => l.StartsWith("Machine: ", StringComparison.Ordinal) && l.Contains("cores", StringComparison.Ordinal));
+
+        // Eight timed runs, each with a positive wall time and peak RSS.
+        var header = Array.IndexOf(lines, "| run | events | wall s | own timer s | CPU s | peak RSS MB | events/s per core |");
+        Assert.True(header > 0, stdout);
+        var runs = lines.Skip(header + 2).TakeWhile(l => l.StartsWith('|')).ToList();
+        Assert.Equal(8, runs.Count);
+        foreach (var run in runs)
+        {
+            var cells = run.Split('|', StringSplitOptions.TrimEntries);
+            Assert.True(double.Parse(cells[3], CultureInfo.InvariantCulture) > 0, run);
+            Assert.True(double.Parse(cells[6], CultureInfo.InvariantCulture) > 0, run);
+        }
+        Assert.Contains(runs, r => r.Contains("DuckDB", StringComparison.Ordinal));
+        Assert.Contains(runs, r => r.Contains("numpy", StringComparison.Ordinal));
+
+        // All six targets are stated, each as met, missed or not measured (the build overhead is skipped here).
+        var targets = lines.SkipWhile(l => l != "| target | measured | result |").Skip(2).TakeWhile(l => l.StartsWith('|')).ToList();
+        Assert.Equal(6, targets.Count);
+        foreach (var t in targets)
+            Assert.Matches(@"\| (met|\*\*missed\*\*|not measured) \|$", t);
+        Assert.EndsWith("| not measured (--skip-build-overhead) | not measured |", targets[^1]);
+
+        // DuckDB (SQL histogram() over the same Parquet file) and numpy (searchsorted + bincount over the same events
+        // exported to .npy) are independent implementations; the script compares their cells with the engine's and
+        // says "DIFFERENT" (and exits 1) on any mismatch.
+        Assert.Contains("Histograms: identical cells for all 20 features in the engine, DuckDB and numpy.", stdout);
+        Assert.Contains(lines, l => l.StartsWith("Check verdict at 10^5: PASSED", StringComparison.Ordinal));
+    }
+}
