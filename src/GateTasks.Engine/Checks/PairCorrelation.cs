@@ -15,11 +15,10 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
     /// <summary>The pair's 2-D histogram, when its χ² test is asked for: a per-batch buffer, added exactly into the cells below.</summary>
     public Histogram2D? Joint { get; } = joint;
 
-    private readonly ExactSum[]? _cellsW = joint is null ? null : Enumerable.Range(0, joint.Storage.CellCount).Select(_ => new ExactSum()).ToArray();
-    private readonly ExactSum[]? _cellsW2 = joint is null ? null : Enumerable.Range(0, joint.Storage.CellCount).Select(_ => new ExactSum()).ToArray();
+    private readonly ExactCells? _cells = joint is null ? null : new ExactCells(joint.Storage.CellCount);
 
     /// <summary>The 2-D cells' Σw and Σw², each summed exactly and rounded once; null without a χ² test.</summary>
-    public (double[] SumW, double[] SumW2)? JointCells => _cellsW is null ? null : (_cellsW.Select(c => c.Value).ToArray(), _cellsW2!.Select(c => c.Value).ToArray());
+    public (double[] SumW, double[] SumW2)? JointCells => _cells is null ? null : (_cells.SumW(), _cells.SumW2());
 
     private readonly WeightedCorrelation _pearson = new();
     private readonly WeightedCorrelation _spearman = new();
@@ -39,18 +38,7 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
             _spearman.Add(firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
             Joint?.Fill(x[r], y[r], w);
         }
-        if (Joint is not null)
-        {
-            var sw = Joint.Storage.SumW;
-            var sw2 = Joint.Storage.SumW2;
-            for (var c = 0; c < sw.Length; c++)
-            {
-                if (sw[c] != 0) _cellsW![c].Add(sw[c]);
-                if (sw2[c] != 0) _cellsW2![c].Add(sw2[c]);
-            }
-            sw.Clear();
-            sw2.Clear();
-        }
+        if (Joint is not null) _cells!.Absorb(Joint.Storage);
     }
 
     /// <summary>Writes the pair's state into a partial file.</summary>
@@ -60,11 +48,7 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
         w.WriteString("pair", Spec.Name);
         Partials.PartialNumbers.WriteArray(w, "pearson", _pearson.State());
         Partials.PartialNumbers.WriteArray(w, "spearman", _spearman.State());
-        if (_cellsW is not null)
-        {
-            Partials.PartialNumbers.WriteJagged(w, "cells_w", _cellsW.Select(c => c.Partials));
-            Partials.PartialNumbers.WriteJagged(w, "cells_w2", _cellsW2!.Select(c => c.Partials));
-        }
+        _cells?.WriteState(w, "cells_w", "cells_w2");
         w.WriteEndObject();
     }
 
@@ -74,17 +58,8 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
         if (e.GetProperty("pair").GetString() != Spec.Name) return false;
         _pearson.Restore(Partials.PartialNumbers.ReadArray(e.GetProperty("pearson")));
         _spearman.Restore(Partials.PartialNumbers.ReadArray(e.GetProperty("spearman")));
-        if (_cellsW is null) return !e.TryGetProperty("cells_w", out _);
-        if (!e.TryGetProperty("cells_w", out var cw)) return false;
-        var w = Partials.PartialNumbers.ReadJagged(cw);
-        var w2 = Partials.PartialNumbers.ReadJagged(e.GetProperty("cells_w2"));
-        if (w.Length != _cellsW.Length) return false;
-        for (var c = 0; c < w.Length; c++)
-        {
-            foreach (var v in w[c]) _cellsW[c].Add(v);
-            foreach (var v in w2[c]) _cellsW2![c].Add(v);
-        }
-        return true;
+        if (_cells is null) return !e.TryGetProperty("cells_w", out _);
+        return e.TryGetProperty("cells_w", out _) && _cells.ReadState(e, "cells_w", "cells_w2");
     }
 
     /// <summary>Adds another accumulation of the same pair (coefficients to rounding, 2-D cells exactly).</summary>
@@ -92,12 +67,7 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
     {
         _pearson.Merge(other._pearson);
         _spearman.Merge(other._spearman);
-        if (_cellsW is null || other._cellsW is null) return;
-        for (var c = 0; c < _cellsW.Length; c++)
-        {
-            _cellsW[c].Add(other._cellsW[c]);
-            _cellsW2![c].Add(other._cellsW2![c]);
-        }
+        if (_cells is not null && other._cells is not null) _cells.Add(other._cells);
     }
 
     public double Pearson => _pearson.Pearson;

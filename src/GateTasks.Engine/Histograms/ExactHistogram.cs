@@ -9,17 +9,14 @@ namespace GateTasks.Engine.Histograms;
 /// </summary>
 internal sealed class ExactHistogram
 {
-    private readonly ExactSum[] _sumW;
-    private readonly ExactSum[] _sumW2;
+    private readonly ExactCells _cells;
     private readonly ExactSum _nanW = new();
     private readonly ExactSum _nanW2 = new();
 
     public ExactHistogram(Axis axis)
     {
         Axis = axis;
-        var cells = axis.Count + 2;
-        _sumW = Enumerable.Range(0, cells).Select(_ => new ExactSum()).ToArray();
-        _sumW2 = Enumerable.Range(0, cells).Select(_ => new ExactSum()).ToArray();
+        _cells = new ExactCells(axis.Count + 2);
     }
 
     public Axis Axis { get; }
@@ -29,13 +26,7 @@ internal sealed class ExactHistogram
     /// <summary>Adds a batch's histogram (same binning) exactly and clears it for the next batch.</summary>
     public void Absorb(Histogram batch)
     {
-        var w = batch.Storage.SumW;
-        var w2 = batch.Storage.SumW2;
-        for (var c = 0; c < _sumW.Length; c++)
-        {
-            if (w[c] != 0) _sumW[c].Add(w[c]);
-            if (w2[c] != 0) _sumW2[c].Add(w2[c]);
-        }
+        _cells.Absorb(batch.Storage);
         if (batch.NanEntries > 0)
         {
             _nanW.Add(batch.NanSumW);
@@ -50,11 +41,7 @@ internal sealed class ExactHistogram
     public void Add(ExactHistogram other)
     {
         if (!Axis.SameBinning(other.Axis)) throw new ArgumentException("Histograms differ in binning.", nameof(other));
-        for (var c = 0; c < _sumW.Length; c++)
-        {
-            _sumW[c].Add(other._sumW[c]);
-            _sumW2[c].Add(other._sumW2[c]);
-        }
+        _cells.Add(other._cells);
         _nanW.Add(other._nanW);
         _nanW2.Add(other._nanW2);
         Entries += other.Entries;
@@ -67,8 +54,7 @@ internal sealed class ExactHistogram
         w.WriteStartObject();
         w.WriteNumber("entries", Entries);
         w.WriteNumber("nan_entries", NanEntries);
-        Partials.PartialNumbers.WriteJagged(w, "sum_w", _sumW.Select(c => c.Partials));
-        Partials.PartialNumbers.WriteJagged(w, "sum_w2", _sumW2.Select(c => c.Partials));
+        _cells.WriteState(w, "sum_w", "sum_w2");
         Partials.PartialNumbers.WriteArray(w, "nan_w", _nanW.Partials);
         Partials.PartialNumbers.WriteArray(w, "nan_w2", _nanW2.Partials);
         w.WriteEndObject();
@@ -77,14 +63,7 @@ internal sealed class ExactHistogram
     /// <summary>Reads a state written by <see cref="WriteState"/> for this axis; false when the cell count differs.</summary>
     public bool ReadState(System.Text.Json.JsonElement e)
     {
-        var w = Partials.PartialNumbers.ReadJagged(e.GetProperty("sum_w"));
-        var w2 = Partials.PartialNumbers.ReadJagged(e.GetProperty("sum_w2"));
-        if (w.Length != _sumW.Length || w2.Length != _sumW2.Length) return false;
-        for (var c = 0; c < w.Length; c++)
-        {
-            foreach (var v in w[c]) _sumW[c].Add(v);
-            foreach (var v in w2[c]) _sumW2[c].Add(v);
-        }
+        if (!_cells.ReadState(e, "sum_w", "sum_w2")) return false;
         foreach (var v in Partials.PartialNumbers.ReadArray(e.GetProperty("nan_w"))) _nanW.Add(v);
         foreach (var v in Partials.PartialNumbers.ReadArray(e.GetProperty("nan_w2"))) _nanW2.Add(v);
         Entries += e.GetProperty("entries").GetInt64();
@@ -93,6 +72,6 @@ internal sealed class ExactHistogram
     }
 
     /// <summary>The cells, each exact sum rounded once to a double.</summary>
-    public Histogram ToHistogram() => Histogram.FromCells(Axis, _sumW.Select(s => s.Value).ToArray(), _sumW2.Select(s => s.Value).ToArray(),
+    public Histogram ToHistogram() => Histogram.FromCells(Axis, _cells.SumW(), _cells.SumW2(),
         Entries, NanEntries, _nanW.Value, _nanW2.Value);
 }
