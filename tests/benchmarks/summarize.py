@@ -131,7 +131,7 @@ def main(work, out_path=None):
     row("`gatetasks check`, 1 core (`taskset -c 0`)", "check-one-core", events)
     row(f"`gatetasks check`, {power_of_ten(linear)} events", "check-linear", linear)
     row(f"`gatetasks check`, {startup} events (fixed cost: start-up, contract, reference, checks)", "check-startup", startup)
-    row("engine histogram fill in-process (Parquet decode + `Histogram.Fill`, 1 thread)", "fill", events, own["fill"])
+    row(f"engine histogram fill in-process (Parquet decode + `Histogram.Fill`, {meta['cores']} threads)", "fill", events, own["fill"])
     row("DuckDB `histogram()` SQL over the Parquet file, 2 threads", "duckdb-2", events, own["duckdb-2"])
     row("DuckDB, 1 thread (`taskset -c 0`)", "duckdb-1", events, own["duckdb-1"])
     row("numpy `searchsorted`+`bincount` on .npy, + scipy KS and χ²", "numpy", events, own["numpy"])

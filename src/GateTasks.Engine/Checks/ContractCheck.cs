@@ -15,14 +15,19 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class ContractCheck
 {
-    /// <summary>Runs the contract. <paramref name="samplePath"/> overrides the contract's sample (relative to the working directory).</summary>
-    public static CheckReport Run(PrecisionContract contract, string? samplePath = null, IProgress<ReadProgress>? progress = null)
+    /// <summary>
+    /// Runs the contract. <paramref name="samplePath"/> overrides the contract's sample (relative to the working
+    /// directory); <paramref name="parallelism"/> bounds the threads (default: the processor count), which changes
+    /// the time, never the results.
+    /// </summary>
+    public static CheckReport Run(PrecisionContract contract, string? samplePath = null, IProgress<ReadProgress>? progress = null, int? parallelism = null)
     {
         var started = DateTimeOffset.UtcNow;
         var clock = Stopwatch.StartNew();
         var files = ContractInputs.SampleFiles(contract, samplePath);
         // The sample's columns are checked before the reference is read: a misspelt column is best answered with the sample's own names.
         var sample = OpenSample(contract, files, progress);
+        if (parallelism is { } threads) sample.Sample.Parallelism = Math.Max(1, threads);
         var setup = Prepare(contract);
         var accumulation = Accumulate(setup, sample);
         if (accumulation.Events == 0)

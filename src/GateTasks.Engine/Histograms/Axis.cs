@@ -22,6 +22,17 @@ internal abstract class Axis
     /// <summary>Regular bin index in [0, Count), or <see cref="Underflow"/>, or <see cref="Overflow"/>. Not for NaN.</summary>
     public abstract int Index(double value);
 
+    /// <summary>
+    /// For each value, its histogram storage cell (<see cref="Index"/> + 1: 0 the underflow, <see cref="Count"/> + 1
+    /// the overflow), or <paramref name="nanCell"/> for NaN. One call per block of values spares the per-value
+    /// virtual call in a histogram's fill loop.
+    /// </summary>
+    public virtual void Cells(ReadOnlySpan<double> values, Span<int> cells, int nanCell)
+    {
+        for (var i = 0; i < values.Length; i++)
+            cells[i] = double.IsNaN(values[i]) ? nanCell : Index(values[i]) + 1;
+    }
+
     /// <summary>Lower edge of regular bin <paramref name="bin"/>.</summary>
     public double Lower(int bin) => Edges[bin];
 

@@ -75,8 +75,66 @@ internal sealed class Histogram
     {
         if (!weights.IsEmpty && weights.Length != values.Length)
             throw new ArgumentException("Values and weights differ in length.", nameof(weights));
-        for (var i = 0; i < values.Length; i++) Fill(values[i], weights.IsEmpty ? 1.0 : weights[i]);
+        // The same sums as filling value by value: cells are found a block at a time, and unit weights are counted
+        // and added once per cell (a sum of ones is exact, so Σw and Σw² come out identical).
+        var nanCell = Storage.CellCount;
+        Span<int> cells = stackalloc int[Math.Min(values.Length, FillBlock)];
+        var sumW = Storage.SumW;
+        var sumW2 = Storage.SumW2;
+        if (weights.IsEmpty)
+        {
+            if (_counts is null || _counts.Length != nanCell + 1) _counts = new long[nanCell + 1];
+            for (var start = 0; start < values.Length; start += FillBlock)
+            {
+                var block = values.Slice(start, Math.Min(FillBlock, values.Length - start));
+                var blockCells = cells[..block.Length];
+                Axis.Cells(block, blockCells, nanCell);
+                foreach (var c in blockCells) _counts[c]++;
+            }
+            for (var c = 0; c < nanCell; c++)
+            {
+                if (_counts[c] == 0) continue;
+                sumW[c] += _counts[c];
+                sumW2[c] += _counts[c];
+                _counts[c] = 0;
+            }
+            var nan = _counts[nanCell];
+            _counts[nanCell] = 0;
+            Entries += values.Length;
+            NanEntries += nan;
+            NanSumW += nan;
+            NanSumW2 += nan;
+            return;
+        }
+        for (var start = 0; start < values.Length; start += FillBlock)
+        {
+            var length = Math.Min(FillBlock, values.Length - start);
+            var blockCells = cells[..length];
+            Axis.Cells(values.Slice(start, length), blockCells, nanCell);
+            var blockWeights = weights.Slice(start, length);
+            for (var i = 0; i < length; i++)
+            {
+                var w = blockWeights[i];
+                var c = blockCells[i];
+                if (c == nanCell)
+                {
+                    NanEntries++;
+                    NanSumW += w;
+                    NanSumW2 += w * w;
+                    continue;
+                }
+                sumW[c] += w;
+                sumW2[c] += w * w;
+            }
+        }
+        Entries += values.Length;
     }
+
+    /// <summary>Values whose cells are found in one call.</summary>
+    private const int FillBlock = 512;
+
+    /// <summary>Per-cell counts of the unit-weight fill (the last slot counts NaN), kept between fills.</summary>
+    private long[]? _counts;
 
     /// <summary>Adds another histogram with the same binning (exact; order-independent up to rounding).</summary>
     public void Add(Histogram other)

@@ -29,6 +29,7 @@ internal sealed class RegularAxis : Axis
     public override ReadOnlySpan<double> Edges => _edges;
 
     /// <inheritdoc />
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public override int Index(double value)
     {
         if (value < _lower) return Underflow;
@@ -39,5 +40,15 @@ internal sealed class RegularAxis : Axis
         if (value < _edges[i]) i--;
         else if (value >= _edges[i + 1]) i++;
         return i;
+    }
+
+    /// <inheritdoc />
+    public override void Cells(ReadOnlySpan<double> values, Span<int> cells, int nanCell)
+    {
+        for (var i = 0; i < values.Length; i++)
+        {
+            var v = values[i];
+            cells[i] = double.IsNaN(v) ? nanCell : Index(v) + 1;
+        }
     }
 }

@@ -44,21 +44,39 @@ internal sealed class VariableAxis : Axis
     public override ReadOnlySpan<double> Edges => _edges;
 
     /// <inheritdoc />
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public override int Index(double value)
     {
         if (value < _edges[0]) return Underflow;
         if (value >= _edges[^1]) return Count;
         if (_bucketsPerUnit > 0)
         {
-            // Rounding can put the value one bucket off, so search from the bucket before to the bucket after.
-            var bucket = (int)((value - _edges[0]) * _bucketsPerUnit);
-            var lo = _firstBin[Math.Clamp(bucket - 1, 0, _firstBin.Length - 1)];
-            var hi = _firstBin[Math.Clamp(bucket + 2, 0, _firstBin.Length - 1)];
-            var bin = Search(value, lo, Math.Min(hi, Count - 1));
-            if (value >= _edges[bin] && value < _edges[bin + 1]) return bin;
+            // Start at the bin holding the bucket's lower boundary and walk up: exact whatever the rounding of the
+            // bucket, as long as the start's lower edge is not above the value (else rounding put it one bucket
+            // high, and a binary search below it finishes). A long walk (many narrow bins in one bucket) also hands
+            // over to a binary search.
+            var bucket = Math.Min((int)((value - _edges[0]) * _bucketsPerUnit), _firstBin.Length - 1);
+            var bin = _firstBin[bucket];
+            if (value < _edges[bin]) return Search(value, 0, bin);
+            for (var step = 0; step < 4; step++)
+            {
+                if (value < _edges[bin + 1]) return bin;
+                bin++;
+            }
+            return Search(value, bin, Count - 1);
         }
         var i = Array.BinarySearch(_edges, value);
         return i >= 0 ? i : ~i - 1;
+    }
+
+    /// <inheritdoc />
+    public override void Cells(ReadOnlySpan<double> values, Span<int> cells, int nanCell)
+    {
+        for (var i = 0; i < values.Length; i++)
+        {
+            var v = values[i];
+            cells[i] = double.IsNaN(v) ? nanCell : Index(v) + 1;
+        }
     }
 
     /// <summary>The last bin in [lo, hi] whose lower edge is at most value (lo when none is).</summary>

@@ -5,9 +5,9 @@ using Parquet.Schema;
 namespace GateTasks.Engine.Samples;
 
 /// <summary>
-/// Reads one flat numeric Parquet column, row group by row group, into a <see cref="double"/> buffer.
-/// The stored-type buffers are kept and reused for the next row group, so a file costs
-/// one row group of memory per column however many row groups it has.
+/// Reads one flat numeric Parquet column, row group by row group, in its stored type, and hands it out as
+/// <see cref="double"/> slice by slice. The stored-type buffers are kept and reused for the next row group, so a file
+/// costs one row group of stored values per column (plus one slice of doubles) however many row groups it has.
 /// </summary>
 internal abstract class ParquetColumnDecoder
 {
@@ -29,18 +29,25 @@ internal abstract class ParquetColumnDecoder
     };
 
     /// <summary>
-    /// Reads the column's chunk in <paramref name="rowGroup"/> (<paramref name="rows"/> rows) into
-    /// <paramref name="destination"/>; a null becomes NaN. Throws <see cref="InvalidDataException"/> when the
-    /// chunk does not hold one value or null per row.
+    /// Reads the column's chunk in <paramref name="rowGroup"/> (<paramref name="rows"/> rows) into the decoder's
+    /// buffers. Throws <see cref="InvalidDataException"/> when the chunk does not hold one value or null per row.
     /// </summary>
-    public abstract void Decode(ParquetRowGroupReader rowGroup, int rows, double[] destination);
+    public abstract void Read(ParquetRowGroupReader rowGroup, int rows);
+
+    /// <summary>
+    /// Converts the next <paramref name="destination"/>.Length rows of the chunk last read into doubles; a null
+    /// becomes NaN. Slices are taken in order, from the first row of the chunk on.
+    /// </summary>
+    public abstract void Convert(Span<double> destination);
 
     private sealed class Typed<T>(DataField field) : ParquetColumnDecoder where T : struct
     {
         private T[] _values = [];
         private int[] _definitionLevels = [];
 
-        public override void Decode(ParquetRowGroupReader rowGroup, int rows, double[] destination)
+        private int _nextRow, _nextValue;
+
+        public override void Read(ParquetRowGroupReader rowGroup, int rows)
         {
             var metadata = rowGroup.GetMetadata(field)?.MetaData
                 ?? throw new InvalidDataException($"column '{field.Name}' has no data in a row group");
@@ -67,17 +74,27 @@ internal abstract class ParquetColumnDecoder
                     nullable ? _definitionLevels.AsMemory(0, rows) : (Memory<int>?)null, // a bare null would become an empty Memory
                     null)
                 .AsTask().GetAwaiter().GetResult();
+            _nextRow = 0;
+            _nextValue = 0;
+        }
 
-            if (!nullable)
+        public override void Convert(Span<double> destination)
+        {
+            var start = _nextRow;
+            _nextRow += destination.Length;
+            if (field.MaxDefinitionLevel == 0)
             {
-                for (var i = 0; i < rows; i++) destination[i] = ToDouble(_values[i]);
+                var values = _values.AsSpan(start, destination.Length);
+                for (var i = 0; i < destination.Length; i++) destination[i] = ToDouble(values[i]);
                 return;
             }
 
             var maxLevel = field.MaxDefinitionLevel;
-            var next = 0;
-            for (var i = 0; i < rows; i++)
-                destination[i] = _definitionLevels[i] < maxLevel ? double.NaN : ToDouble(_values[next++]);
+            var levels = _definitionLevels.AsSpan(start, destination.Length);
+            var next = _nextValue;
+            for (var i = 0; i < destination.Length; i++)
+                destination[i] = levels[i] < maxLevel ? double.NaN : ToDouble(_values[next++]);
+            _nextValue = next;
         }
 
         // Parquet.Net 6.1 returns wrong values (or divides by zero) for RLE-encoded booleans, found by comparing

@@ -1,11 +1,13 @@
+using GateTasks.Engine.Diagnostics;
 using Parquet;
 using Parquet.Schema;
 
 namespace GateTasks.Engine.Samples;
 
 /// <summary>
-/// Reads a Parquet sample file with Parquet.Net, one row group per batch. Only the footer is read on opening;
-/// data is read column chunk by column chunk as batches are requested.
+/// Reads a Parquet sample file with Parquet.Net a row group at a time, handed out in batches of at most
+/// <see cref="SliceRows"/> rows. Only the footer is read on opening; data is read column chunk by column chunk as
+/// batches are requested.
 /// </summary>
 /// <remarks>
 /// Parquet.Net is asynchronous; its calls are awaited synchronously, which is safe for the console and MSBuild
@@ -13,12 +15,19 @@ namespace GateTasks.Engine.Samples;
 /// </remarks>
 internal sealed class ParquetSampleReader : ISampleReader
 {
+    /// <summary>
+    /// Rows per batch: a row group is decoded whole in its stored types, then converted to doubles and handed on in
+    /// slices of this many rows, so the double buffers stay at a few megabytes however large the row groups are.
+    /// </summary>
+    internal const int SliceRows = 1 << 16;
+
     private readonly ParquetReader _reader;
     private readonly DataField?[] _fields;
 
-    private ParquetSampleReader(string path, ParquetReader reader, IReadOnlyList<SampleColumn> columns, DataField?[] fields)
+    private ParquetSampleReader(string path, ParquetReader reader, IReadOnlyList<SampleColumn> columns, DataField?[] fields, int parallelism)
     {
         Path = path;
+        Parallelism = Math.Max(1, parallelism);
         _reader = reader;
         Columns = columns;
         _fields = fields;
@@ -33,8 +42,14 @@ internal sealed class ParquetSampleReader : ISampleReader
     /// <inheritdoc />
     public long? RowCount => _reader.Metadata?.NumRows;
 
-    /// <summary>Opens <paramref name="path"/> and reads its schema; GATE2001/GATE2002 when it cannot.</summary>
-    public static ParquetSampleReader Open(string path)
+    /// <summary>How many columns of a row group are decoded side by side (each thread with its own reader).</summary>
+    public int Parallelism { get; }
+
+    /// <summary>
+    /// Opens <paramref name="path"/> and reads its schema; GATE2001/GATE2002 when it cannot. Up to
+    /// <paramref name="parallelism"/> columns of a row group are decoded side by side.
+    /// </summary>
+    public static ParquetSampleReader Open(string path, int parallelism = 1)
     {
         var stream = SampleInputErrors.OpenRead(path, FileOptions.RandomAccess);
         ParquetReader? reader = null;
@@ -47,7 +62,7 @@ internal sealed class ParquetSampleReader : ISampleReader
             }
             reader = ParquetReader.CreateAsync(stream, leaveStreamOpen: false).GetAwaiter().GetResult();
             var (columns, fields) = DescribeSchema(reader.Schema);
-            return new ParquetSampleReader(path, reader, columns, fields);
+            return new ParquetSampleReader(path, reader, columns, fields, parallelism);
         }
         catch (Exception ex) when (SampleInputErrors.IsReadFailure(ex))
         {
@@ -71,38 +86,90 @@ internal sealed class ParquetSampleReader : ISampleReader
 
     private IEnumerable<SampleBatch> Batches(int[] indices, int[] rowGroupSizes)
     {
-        var largest = rowGroupSizes.Length == 0 ? 0 : rowGroupSizes.Max();
+        var largest = rowGroupSizes.Length == 0 ? 0 : Math.Min(rowGroupSizes.Max(), SliceRows);
         var decoders = indices.Select(i => ParquetColumnDecoder.Create(_fields[i]!, Columns[i].Type)).ToArray();
         var buffers = indices.Select(_ => new double[largest]).ToArray();
-
-        for (var group = 0; group < rowGroupSizes.Length; group++)
+        // One reader per decoding thread: a reader shares one stream between its columns, so it cannot be used by
+        // two threads at once. The first is the one opened with the schema; the others are opened when needed.
+        var readers = new ParquetReader?[Math.Clamp(Parallelism, 1, Math.Max(1, decoders.Length))];
+        readers[0] = _reader;
+        try
         {
-            var rows = rowGroupSizes[group];
-            if (rows == 0) continue; // an empty row group carries no events; a batch of none would only confuse counts
-            DecodeRowGroup(group, rows, decoders, buffers);
-            yield return new SampleBatch(buffers, rows);
+            for (var group = 0; group < rowGroupSizes.Length; group++)
+            {
+                var rows = rowGroupSizes[group];
+                if (rows == 0) continue; // an empty row group carries no events; a batch of none would only confuse counts
+                DecodeRowGroup(group, rows, decoders, readers);
+                for (var start = 0; start < rows; start += SliceRows)
+                {
+                    var count = Math.Min(SliceRows, rows - start);
+                    for (var c = 0; c < decoders.Length; c++) decoders[c].Convert(buffers[c].AsSpan(0, count));
+                    yield return new SampleBatch(buffers, count);
+                }
+            }
+        }
+        finally
+        {
+            for (var r = 1; r < readers.Length; r++) readers[r]?.DisposeAsync().AsTask().GetAwaiter().GetResult();
         }
     }
 
     // Kept out of the iterator: C# forbids catch blocks around yield.
-    private void DecodeRowGroup(int group, int rows, ParquetColumnDecoder[] decoders, double[][] buffers)
+    private void DecodeRowGroup(int group, int rows, ParquetColumnDecoder[] decoders, ParquetReader?[] readers)
     {
-        try
+        // Each column lands in its own decoder's buffers, so decoding them side by side changes nothing but the time;
+        // a failure is reported for the first failing column, as a sequential read would.
+        var failures = new Exception?[decoders.Length];
+        var next = -1;
+        void Work(int worker)
         {
-            var rowGroup = _reader.OpenRowGroupReader(group);
-            for (var c = 0; c < decoders.Length; c++)
-                decoders[c].Decode(rowGroup, rows, buffers[c]);
+            ParquetRowGroupReader? rowGroup = null;
+            try
+            {
+                for (var c = Interlocked.Increment(ref next); c < decoders.Length; c = Interlocked.Increment(ref next))
+                {
+                    try
+                    {
+                        rowGroup ??= (readers[worker] ??= OpenAnotherReader()).OpenRowGroupReader(group);
+                        decoders[c].Read(rowGroup, rows);
+                    }
+                    catch (Exception ex)
+                    {
+                        failures[c] = ex;
+                    }
+                }
+            }
+            finally
+            {
+                rowGroup?.Dispose();
+            }
         }
-        catch (NotSupportedException ex)
-        {
+        if (readers.Length == 1 || decoders.Length < 2) Work(0);
+        else Parallel.For(0, readers.Length, new ParallelOptions { MaxDegreeOfParallelism = readers.Length }, Work);
+
+        if (Array.Find(failures, f => f is not null) is not { } failure) return;
+        if (failure is GateInputException) System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(failure);
+        if (failure is NotSupportedException)
             // A valid file using something this reader cannot decode: say what, not "damaged".
             throw SampleInputErrors.Unreadable(
-                Path, $"row group {group + 1} of {_reader.RowGroupCount}: {SampleInputErrors.Describe(ex)}", ex);
-        }
-        catch (Exception ex) when (SampleInputErrors.IsReadFailure(ex))
-        {
+                Path, $"row group {group + 1} of {_reader.RowGroupCount}: {SampleInputErrors.Describe(failure)}", failure);
+        if (SampleInputErrors.IsReadFailure(failure))
             throw SampleInputErrors.Unreadable(
-                Path, $"row group {group + 1} of {_reader.RowGroupCount} is damaged ({SampleInputErrors.Describe(ex)})", ex);
+                Path, $"row group {group + 1} of {_reader.RowGroupCount} is damaged ({SampleInputErrors.Describe(failure)})", failure);
+        System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(failure);
+    }
+
+    private ParquetReader OpenAnotherReader()
+    {
+        var stream = SampleInputErrors.OpenRead(Path, FileOptions.RandomAccess);
+        try
+        {
+            return ParquetReader.CreateAsync(stream, leaveStreamOpen: false).GetAwaiter().GetResult();
+        }
+        catch
+        {
+            stream.Dispose();
+            throw;
         }
     }
 

@@ -30,6 +30,12 @@ internal sealed class Sample
     /// <summary>Told after every batch how far a pass has got (and once at its end); null for silence.</summary>
     public IProgress<ReadProgress>? Progress { get; set; }
 
+    /// <summary>
+    /// Threads a pass may use (decoding columns, visiting features); the machine's processor count unless set. The
+    /// results do not depend on it. <c>DOTNET_PROCESSOR_COUNT</c> lowers the default for a whole process.
+    /// </summary>
+    public int Parallelism { get; set; } = Environment.ProcessorCount;
+
     /// <summary>What the next pass is for, as progress reports name it.</summary>
     public string Phase { get; set; } = "reading the sample";
 
@@ -87,7 +93,7 @@ internal sealed class Sample
         foreach (var file in Files)
         {
             CurrentFile = file;
-            using var reader = SampleReaderFactory.Open(file);
+            using var reader = SampleReaderFactory.Open(file, Parallelism);
             foreach (var batch in reader.ReadBatches(columns))
             {
                 RowsRead += batch.RowCount;

@@ -61,7 +61,12 @@ internal static class SampleStream
             {
                 mask = new double[rows];
                 weightBuffer = new double[rows];
-                for (var i = 0; i < n; i++) { derived[i] = new double[rows]; selected[i] = new double[rows]; }
+                // Only what is used: a derived buffer per expression, a selected one per feature when there is a selection.
+                for (var i = 0; i < n; i++)
+                {
+                    derived[i] = inputs.Expressions[i] is null ? [] : new double[rows];
+                    selected[i] = inputs.Selection is null ? [] : new double[rows];
+                }
                 frame = new FeatureView(view, weightBuffer, weightColumn is not null);
             }
             var rawWeights = weightIndex >= 0 ? batch.Column(weightIndex) : ReadOnlySpan<double>.Empty;
@@ -157,7 +162,8 @@ internal static class SampleStream
                 }
                 else visit(i, values, featureWeights);
             }
-            if (n > 1 && kept >= ParallelBatchRows && Environment.ProcessorCount > 1) Parallel.For(0, n, Visit);
+            if (n > 1 && kept >= ParallelBatchRows && sample.Parallelism > 1)
+                Parallel.For(0, n, new ParallelOptions { MaxDegreeOfParallelism = sample.Parallelism }, Visit);
             else for (var i = 0; i < n; i++) Visit(i);
             afterEachBatch?.Invoke(frame);
         }

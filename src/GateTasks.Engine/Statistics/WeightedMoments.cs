@@ -67,6 +67,18 @@ internal sealed class WeightedMoments
     }
 
     /// <summary>The whole state as numbers, for a partial file (<see cref="Restore"/> reads it back).</summary>
+    /// <summary>
+    /// Adds <paramref name="count"/> unit-weight values given by their mean and sum of squared deviations from it,
+    /// as one merge (Chan, Golub &amp; LeVeque 1979).
+    /// </summary>
+    internal void AddBatch(long count, double mean, double sumSquaredDeviations)
+    {
+        if (count == 0) return;
+        var batch = new WeightedMoments();
+        batch.Restore([count, count, count, mean, 0, sumSquaredDeviations]);
+        Merge(batch);
+    }
+
     internal double[] State() => [Count, SumOfWeights, SumOfSquaredWeights, _pivot, _meanFromPivot, _sumSquaredDeviations];
 
     internal void Restore(ReadOnlySpan<double> s)

@@ -34,4 +34,49 @@ public class HistogramTests
         Assert.Equal(whole.Entries, b.Entries);
         Assert.Throws<ArgumentException>(() => b.Add(new Histogram(new RegularAxis(3, 0, 4))));
     }
+
+    [Theory]
+    [InlineData(false, false)]
+    [InlineData(false, true)]
+    [InlineData(true, false)]
+    [InlineData(true, true)]
+    public void Filling_a_span_counts_every_value_where_a_binary_search_over_the_edges_puts_it(bool variable, bool weighted)
+    {
+        // The textbook placement (Array.BinarySearch over the edges, half-open bins, flows at the ends, NaN apart),
+        // value by value, against the block-wise fill; 5 000 values span several fill blocks.
+        var edges = variable ? new[] { -3, -1.5, -0.2, 0, 0.1, 0.7, 2, 3.5 } : Enumerable.Range(0, 13).Select(i => -3 + 0.5 * i).ToArray();
+        var axis = variable ? (Axis)new VariableAxis(edges) : new RegularAxis(12, -3, 3);
+        Assert.Equal(edges, axis.Edges.ToArray());
+        var rng = new MathNet.Numerics.Random.Xoshiro256StarStar(9);
+        var values = Enumerable.Range(0, 5_000).Select(i => (i % 97) switch
+        {
+            0 => double.NaN,
+            1 => double.PositiveInfinity,
+            2 => double.NegativeInfinity,
+            3 => edges[i % edges.Length],
+            _ => rng.NextDouble() * 8 - 4,
+        }).ToArray();
+        var weights = weighted ? values.Select(_ => Math.Round(rng.NextDouble() * 4 - 1, 3)).ToArray() : [];
+        var h = new Histogram(axis);
+        h.Fill(values, weights);
+
+        var sumW = new double[edges.Length + 1];
+        var sumW2 = new double[edges.Length + 1];
+        double nanW = 0, nanW2 = 0;
+        long nan = 0;
+        for (var i = 0; i < values.Length; i++)
+        {
+            var (x, w) = (values[i], weighted ? weights[i] : 1.0);
+            if (double.IsNaN(x)) { nan++; nanW += w; nanW2 += w * w; continue; }
+            var bin = x < edges[0] ? -1 : x >= edges[^1] ? edges.Length - 1 : Array.BinarySearch(edges, x) is var k && k >= 0 ? k : ~k - 1;
+            sumW[bin + 1] += w;
+            sumW2[bin + 1] += w * w;
+        }
+        Assert.Equal(sumW, h.Storage.SumW.ToArray());
+        Assert.Equal(sumW2, h.Storage.SumW2.ToArray());
+        Assert.Equal(values.Length, h.Entries);
+        Assert.Equal(nan, h.NanEntries);
+        Assert.Equal(nanW, h.NanSumW);
+        Assert.Equal(nanW2, h.NanSumW2);
+    }
 }

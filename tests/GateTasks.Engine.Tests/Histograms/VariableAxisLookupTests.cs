@@ -30,4 +30,19 @@ public class VariableAxisLookupTests
         for (var k = 0; k < 200_000; k++) probes.Add(Math.Pow(10, rng.NextDouble() * 6) - 1);
         foreach (var x in probes) Assert.True(Reference(edges, x) == axis.Index(x), $"x = {x:R}");
     }
+
+    [Fact]
+    public void Many_narrow_bins_inside_one_guide_bucket_still_give_the_binary_search_answer()
+    {
+        // 300 bins of width 1e-7 packed next to zero, then 20 unit bins: the guide buckets (8 per bin over the whole
+        // range) each hold dozens of the narrow bins, so the lookup's short walk gives way to its binary search.
+        var edges = Enumerable.Range(0, 301).Select(i => i * 1e-7).Concat(Enumerable.Range(1, 20).Select(i => (double)i)).ToArray();
+        var axis = new VariableAxis(edges);
+        var rng = new Xoshiro256StarStar(4);
+        var probes = new List<double>();
+        foreach (var e in edges) probes.AddRange([e, Math.BitDecrement(e), Math.BitIncrement(e)]);
+        for (var k = 0; k < 100_000; k++) probes.Add(rng.NextDouble() * 3.1e-5 - 1e-6);
+        for (var k = 0; k < 100_000; k++) probes.Add(rng.NextDouble() * 21 - 0.5);
+        foreach (var x in probes) Assert.True(Reference(edges, x) == axis.Index(x), $"x = {x:R}");
+    }
 }

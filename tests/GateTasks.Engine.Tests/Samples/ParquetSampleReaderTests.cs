@@ -6,7 +6,7 @@ namespace GateTasks.Engine.Tests.Samples;
 
 /// <summary>
 /// The Parquet reader against files written by an independent implementation, ParquetSharp 25.0.1.2 (Apache Arrow's
-/// C++ Parquet writer): every value must come back exactly as written, null as NaN, one batch per row group.
+/// C++ Parquet writer): every value must come back exactly as written, null as NaN, one batch per row group (up to a batch's size).
 /// </summary>
 public sealed class ParquetSampleReaderTests : IDisposable
 {
@@ -53,6 +53,32 @@ public sealed class ParquetSampleReaderTests : IDisposable
         var (values, batchRows) = SampleAssert.ReadAll(reader.ReadBatches(names), names.Length);
 
         Assert.Equal(RowGroups, batchRows); // one batch per row group
+        for (var c = 0; c < columns.Length; c++)
+        {
+            var expected = Enumerable.Range(0, columns[c].Length).Select(columns[c].Expected).ToArray();
+            SampleAssert.Identical(expected, values[c], columns[c].Name);
+        }
+    }
+
+    [Theory]
+    [InlineData(1)]
+    [InlineData(2)]
+    [InlineData(4)]
+    public void LargeRowGroupsAreHandedOnInSlicesAndThreadsChangeNothing(int parallelism)
+    {
+        // Row groups larger than a batch, with nulls (so the dense values and the definition levels are walked
+        // slice by slice), read with columns decoded side by side on 1, 2 or 4 threads.
+        var path = _folder.File("large.parquet");
+        int[] groups = [150_000, 70_000];
+        var columns = MixedColumns(groups.Sum(), lowCardinality: false, seed: 77);
+        ParquetFixture.Write(path, columns, groups, b => b.Compression(Compression.Snappy));
+
+        using var reader = ParquetSampleReader.Open(path, parallelism);
+        var names = columns.Select(c => c.Name).ToArray();
+        var (values, batchRows) = SampleAssert.ReadAll(reader.ReadBatches(names), names.Length);
+
+        const int slice = ParquetSampleReader.SliceRows;
+        Assert.Equal([slice, slice, 150_000 - 2 * slice, slice, 70_000 - slice], batchRows);
         for (var c = 0; c < columns.Length; c++)
         {
             var expected = Enumerable.Range(0, columns[c].Length).Select(columns[c].Expected).ToArray();

@@ -1,0 +1,53 @@
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Demo;
+using GateTasks.Engine.References;
+
+namespace GateTasks.Engine.Tests.Checks;
+
+/// <summary>
+/// Threads change the time of a check, never its content: the demo contract (every kind of check) on a sample whose
+/// row groups are larger than one batch gives the same bits for every number with one, two or three threads.
+/// </summary>
+public sealed class ParallelismTests : IDisposable
+{
+    private readonly string _dir = Directory.CreateTempSubdirectory("gatetasks-threads-").FullName;
+
+    public void Dispose() => Directory.Delete(_dir, recursive: true);
+
+    [Fact]
+    public void One_two_and_three_threads_give_identical_reports()
+    {
+        var contractPath = Path.Combine(_dir, DemoContract.FileName);
+        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet")
+            .Replace("subsample: 1000", "subsample: 300"));
+        var contract = ContractLoader.Load(contractPath);
+        var fullsim = Path.Combine(_dir, "fullsim.parquet");
+        DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 200_000, 21, 50_000);
+        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [fullsim], contract.Sample.Weight, "test"));
+        // Row groups of 90 000 rows: each is handed on in two batches, the second one partial.
+        DemoSampleWriter.Write(Path.Combine(_dir, "surrogate.parquet"), DemoScenarioParameters.Drifted, 200_000, 22, 90_000);
+
+        var reports = new[] { 1, 2, 3 }.Select(t => ContractCheck.Run(contract, parallelism: t)).ToList();
+
+        var one = reports[0];
+        Assert.True(one.Failures > 0); // the drifted sample: failures and passes both take part
+        foreach (var other in reports.Skip(1))
+        {
+            Assert.Equal(one.Events, other.Events);
+            Assert.Equal(one.SumW, other.SumW);
+            Assert.Equal(one.Outcomes.Count, other.Outcomes.Count);
+            for (var i = 0; i < one.Outcomes.Count; i++)
+            {
+                var (a, b) = (one.Outcomes[i], other.Outcomes[i]);
+                var what = $"{a.Feature.Name} {a.Check.Label}";
+                Assert.Equal(a.Verdict, b.Verdict);
+                Assert.True(a.Measured.Estimate.Equals(b.Measured.Estimate), $"{what}: estimate {a.Measured.Estimate:R} vs {b.Measured.Estimate:R}");
+                Assert.True(a.Measured.Lower.Equals(b.Measured.Lower), $"{what}: lower {a.Measured.Lower:R} vs {b.Measured.Lower:R}");
+                Assert.True(a.Measured.Upper.Equals(b.Measured.Upper), $"{what}: upper {a.Measured.Upper:R} vs {b.Measured.Upper:R}");
+                Assert.True(a.Measured.PValue.Equals(b.Measured.PValue), $"{what}: p {a.Measured.PValue:R} vs {b.Measured.PValue:R}");
+                Assert.Equal(a.Summary, b.Summary);
+            }
+        }
+    }
+}
