@@ -51,19 +51,19 @@ internal sealed class VariableAxis : Axis
         if (value >= _edges[^1]) return Count;
         if (_bucketsPerUnit > 0)
         {
-            // Start at the bin holding the bucket's lower boundary and walk up: exact whatever the rounding of the
-            // bucket, as long as the start's lower edge is not above the value (else rounding put it one bucket
-            // high, and a binary search below it finishes). A long walk (many narrow bins in one bucket) also hands
-            // over to a binary search.
+            // Start at the bin holding the bucket's lower boundary and step up at most twice, without branches (a
+            // bucket rarely meets more than three bins); then one test, nearly always true, confirms the bin. It fails
+            // only where rounding put the value a bucket high or many narrow bins share the bucket, and a binary
+            // search decides there: the answer is the binary search's in every case.
             var bucket = Math.Min((int)((value - _edges[0]) * _bucketsPerUnit), _firstBin.Length - 1);
             var bin = _firstBin[bucket];
-            if (value < _edges[bin]) return Search(value, 0, bin);
-            for (var step = 0; step < 4; step++)
-            {
-                if (value < _edges[bin + 1]) return bin;
-                bin++;
-            }
-            return Search(value, bin, Count - 1);
+            // bin + 1 never passes the last edge: a value below the last edge never steps past the last bin.
+            var up = value >= _edges[bin + 1];
+            bin += System.Runtime.CompilerServices.Unsafe.As<bool, byte>(ref up);
+            up = value >= _edges[bin + 1];
+            bin += System.Runtime.CompilerServices.Unsafe.As<bool, byte>(ref up);
+            if (value >= _edges[bin] && value < _edges[bin + 1]) return bin;
+            return value < _edges[bin] ? Search(value, 0, bin) : Search(value, bin, Count - 1);
         }
         var i = Array.BinarySearch(_edges, value);
         return i >= 0 ? i : ~i - 1;

@@ -30,9 +30,10 @@ internal abstract class ParquetColumnDecoder
 
     /// <summary>
     /// Reads the column's chunk in <paramref name="rowGroup"/> (<paramref name="rows"/> rows) into the decoder's
-    /// buffers. Throws <see cref="InvalidDataException"/> when the chunk does not hold one value or null per row.
+    /// buffers: through <paramref name="plain"/> (the calling thread's, reading <paramref name="file"/>) where it can,
+    /// else through Parquet.Net. Throws <see cref="InvalidDataException"/> when the chunk does not hold one value or null per row.
     /// </summary>
-    public abstract void Read(ParquetRowGroupReader rowGroup, int rows);
+    public abstract void Read(ParquetRowGroupReader rowGroup, int rows, Microsoft.Win32.SafeHandles.SafeFileHandle file, PlainChunkReader plain);
 
     /// <summary>
     /// Converts the next <paramref name="destination"/>.Length rows of the chunk last read into doubles; a null
@@ -47,7 +48,7 @@ internal abstract class ParquetColumnDecoder
 
         private int _nextRow, _nextValue;
 
-        public override void Read(ParquetRowGroupReader rowGroup, int rows)
+        public override void Read(ParquetRowGroupReader rowGroup, int rows, Microsoft.Win32.SafeHandles.SafeFileHandle file, PlainChunkReader plain)
         {
             var metadata = rowGroup.GetMetadata(field)?.MetaData
                 ?? throw new InvalidDataException($"column '{field.Name}' has no data in a row group");
@@ -66,6 +67,15 @@ internal abstract class ParquetColumnDecoder
             var nullable = field.MaxDefinitionLevel > 0;
             if (nullable && _definitionLevels.Length < rows) _definitionLevels = new int[rows];
 
+            _nextRow = 0;
+            _nextValue = 0;
+            // The common case (float, double, int or long, stored PLAIN) is read without a copy per page; the rest by
+            // Parquet.Net.
+            if (typeof(T) == typeof(float) && TryReadPlain<float>(metadata, rows, file, plain)) return;
+            if (typeof(T) == typeof(double) && TryReadPlain<double>(metadata, rows, file, plain)) return;
+            if (typeof(T) == typeof(int) && TryReadPlain<int>(metadata, rows, file, plain)) return;
+            if (typeof(T) == typeof(long) && TryReadPlain<long>(metadata, rows, file, plain)) return;
+
             // The raw read fills the values densely (nulls skipped) plus one definition level per row, into our
             // buffers; the library's nullable overload would allocate two temporary buffers per row group.
             rowGroup.ReadRawAsync<T>(
@@ -74,9 +84,14 @@ internal abstract class ParquetColumnDecoder
                     nullable ? _definitionLevels.AsMemory(0, rows) : (Memory<int>?)null, // a bare null would become an empty Memory
                     null)
                 .AsTask().GetAwaiter().GetResult();
-            _nextRow = 0;
-            _nextValue = 0;
         }
+
+        private bool TryReadPlain<TStored>(Parquet.Meta.ColumnMetaData metadata, int rows, Microsoft.Win32.SafeHandles.SafeFileHandle file, PlainChunkReader plain)
+            where TStored : unmanaged =>
+            PlainChunkReader.Supports<TStored>(metadata)
+            && plain.TryRead(file, metadata, field.MaxDefinitionLevel, rows,
+                System.Runtime.InteropServices.MemoryMarshal.Cast<T, TStored>(_values.AsSpan(0, rows)),
+                _definitionLevels.AsSpan(0, field.MaxDefinitionLevel > 0 ? rows : 0));
 
         public override void Convert(Span<double> destination)
         {

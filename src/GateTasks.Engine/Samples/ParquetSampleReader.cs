@@ -93,13 +93,16 @@ internal sealed class ParquetSampleReader : ISampleReader
         // two threads at once. The first is the one opened with the schema; the others are opened when needed.
         var readers = new ParquetReader?[Math.Clamp(Parallelism, 1, Math.Max(1, decoders.Length))];
         readers[0] = _reader;
+        var plainReaders = readers.Select(_ => new PlainChunkReader()).ToArray(); // one per thread: they hold its byte buffers
+        // Read at positions, so every decoding thread can share it.
+        using var file = OpenHandle();
         try
         {
             for (var group = 0; group < rowGroupSizes.Length; group++)
             {
                 var rows = rowGroupSizes[group];
                 if (rows == 0) continue; // an empty row group carries no events; a batch of none would only confuse counts
-                DecodeRowGroup(group, rows, decoders, readers);
+                DecodeRowGroup(group, rows, decoders, readers, plainReaders, file);
                 for (var start = 0; start < rows; start += SliceRows)
                 {
                     var count = Math.Min(SliceRows, rows - start);
@@ -115,7 +118,7 @@ internal sealed class ParquetSampleReader : ISampleReader
     }
 
     // Kept out of the iterator: C# forbids catch blocks around yield.
-    private void DecodeRowGroup(int group, int rows, ParquetColumnDecoder[] decoders, ParquetReader?[] readers)
+    private void DecodeRowGroup(int group, int rows, ParquetColumnDecoder[] decoders, ParquetReader?[] readers, PlainChunkReader[] plainReaders, Microsoft.Win32.SafeHandles.SafeFileHandle file)
     {
         // Each column lands in its own decoder's buffers, so decoding them side by side changes nothing but the time;
         // a failure is reported for the first failing column, as a sequential read would.
@@ -131,7 +134,7 @@ internal sealed class ParquetSampleReader : ISampleReader
                     try
                     {
                         rowGroup ??= (readers[worker] ??= OpenAnotherReader()).OpenRowGroupReader(group);
-                        decoders[c].Read(rowGroup, rows);
+                        decoders[c].Read(rowGroup, rows, file, plainReaders[worker]);
                     }
                     catch (Exception ex)
                     {
@@ -157,6 +160,18 @@ internal sealed class ParquetSampleReader : ISampleReader
             throw SampleInputErrors.Unreadable(
                 Path, $"row group {group + 1} of {_reader.RowGroupCount} is damaged ({SampleInputErrors.Describe(failure)})", failure);
         System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(failure);
+    }
+
+    private Microsoft.Win32.SafeHandles.SafeFileHandle OpenHandle()
+    {
+        try
+        {
+            return File.OpenHandle(Path, FileMode.Open, FileAccess.Read, FileShare.Read, FileOptions.RandomAccess);
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or NotSupportedException or ArgumentException)
+        {
+            throw SampleInputErrors.OpenFailure(Path, ex);
+        }
     }
 
     private ParquetReader OpenAnotherReader()

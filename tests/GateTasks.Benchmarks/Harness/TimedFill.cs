@@ -32,12 +32,18 @@ internal static class TimedFill
             events += batch.RowCount;
         }
         var seconds = clock.Elapsed.TotalSeconds;
+        var allocated = GC.GetTotalAllocatedBytes();
 
         using var stream = File.Create(jsonPath);
         using var json = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true });
         json.WriteStartObject();
         json.WriteNumber("seconds", seconds);
         json.WriteNumber("events", events);
+        // What the managed heap went through, to tell decoding garbage from resident memory.
+        json.WriteNumber("allocated_bytes", allocated);
+        json.WriteNumber("gc_gen0", GC.CollectionCount(0));
+        json.WriteNumber("gc_gen1", GC.CollectionCount(1));
+        json.WriteNumber("gc_gen2", GC.CollectionCount(2));
         json.WriteStartObject("features");
         for (var c = 0; c < histograms.Length; c++)
         {
