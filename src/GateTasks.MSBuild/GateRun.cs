@@ -45,6 +45,12 @@ public sealed class GateRun : Task, ICancelableTask
     /// <summary>Report failed checks as warnings instead of errors.</summary>
     public bool FailuresAsWarnings { get; set; }
 
+    /// <summary>
+    /// Folder where the inputs command keeps each contract's list of inputs (see InputsCache); empty: ask the engine
+    /// every time.
+    /// </summary>
+    public string? CacheDirectory { get; set; }
+
     /// <summary>True when every check of every contract passed.</summary>
     [Output]
     public bool Passed { get; private set; }
@@ -95,15 +101,31 @@ public sealed class GateRun : Task, ICancelableTask
 
     private bool ListInputs(string contract, List<ITaskItem> inputs)
     {
-        var args = new List<string> { "inputs", "--contract", contract };
+        var cache = string.IsNullOrEmpty(CacheDirectory) ? null : InputsCache.FileFor(CacheDirectory!, contract);
+        var key = InputsCache.Key(Engine, contract, Sample, WorkingDirectory);
+        if (cache is not null && InputsCache.TryRead(cache, key) is { } cached)
+        {
+            Log.LogMessage(MessageImportance.Low, "GateTasks: the inputs of {0} are as last listed ({1}); the engine was not asked.", contract, cache);
+            inputs.AddRange(cached.Select(path => (ITaskItem)new TaskItem(path)));
+            return true;
+        }
+
+        var args = new List<string> { "inputs", "--contract", contract, "--dependencies" };
         AddSample(args);
+        var files = new List<string>();
+        var dependencies = new List<string>();
         var exit = RunEngine(args, line =>
         {
             // An error line can start with a rooted path too; only uncoded lines are inputs.
-            if (EngineLine.TryParse(line) is null && Path.IsPathRooted(line)) inputs.Add(new TaskItem(line));
+            if (EngineLine.TryParse(line) is not null) LogLine(line, MessageImportance.Low);
+            else if (line.StartsWith("depends ", StringComparison.Ordinal) && Path.IsPathRooted(line.Substring(8))) dependencies.Add(line.Substring(8));
+            else if (Path.IsPathRooted(line)) files.Add(line);
             else LogLine(line, MessageImportance.Low);
         });
-        return Finish(exit, contract);
+        var ok = Finish(exit, contract);
+        inputs.AddRange(files.Select(path => (ITaskItem)new TaskItem(path)));
+        if (ok && cache is not null) InputsCache.Write(cache, key, files, dependencies);
+        return ok;
     }
 
     private bool Check(string contract, List<ITaskItem> reports)

@@ -94,6 +94,35 @@ public class BuildStepTests(PackageFeed feed)
     }
 
     [Fact]
+    public void A_no_op_build_reuses_the_input_list_until_a_file_joins_the_sample_glob()
+    {
+        var p = GateProject.Create(feed, "ShardGlobGate");
+        var shards = Path.Combine(p.Directory, "shards");
+        Directory.CreateDirectory(shards);
+        File.Copy(Path.Combine(p.Directory, "surrogate-faithful.parquet"), Path.Combine(shards, "part-1.parquet"));
+        var glob = "-p:GateSample=shards/*.parquet";
+
+        var (code, first) = p.Build(glob);
+        Assert.True(code == 0, first);
+        Assert.Contains("PASSED: 92 of 92 checks", first);
+
+        // Nothing changed: the list of inputs comes from the cache, without starting the engine, and the check is skipped.
+        var (again, second) = p.Build(glob, "-v:d");
+        Assert.True(again == 0, second);
+        Assert.Contains("are as last listed", second);
+        Assert.Contains("Skipping target \"_GateRun\" because all output files are up-to-date", second);
+
+        // A second shard matching the glob changes the folder: the engine lists the inputs again and the check reruns on both.
+        File.Copy(Path.Combine(p.Directory, "surrogate-faithful.parquet"), Path.Combine(shards, "part-2.parquet"));
+        var (third, rerun) = p.Build(glob, "-v:d");
+        Assert.True(third == 0, rerun);
+        Assert.DoesNotContain("are as last listed", rerun);
+        // Twice the events (the same file twice is a sample of twice the size; some checks may then turn inconclusive).
+        static long Events(string output) => long.Parse(System.Text.RegularExpressions.Regex.Match(output, @"(\d+) surrogate events").Groups[1].Value);
+        Assert.Equal(2 * Events(first), Events(rerun));
+    }
+
+    [Fact]
     public void Drifted_sample_fails_the_build_at_the_contract_lines_with_a_junit_report()
     {
         var p = GateProject.Create(feed, "DriftedGate");

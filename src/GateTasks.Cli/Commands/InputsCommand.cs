@@ -14,11 +14,19 @@ internal static class InputsCommand
     {
         var contract = SharedOptions.Contract();
         var sample = SharedOptions.Sample();
-        var command = new Command("inputs", "List the files a check reads (contract, reference, sample files), one per line.") { contract, sample };
+        var dependencies = new Option<bool>("--dependencies")
+        {
+            Description = "Also list, each after 'depends ', the files and folders whose state decides the list (for caching it).",
+        };
+        var command = new Command("inputs", "List the files a check reads (contract, reference, sample files), one per line.") { contract, sample, dependencies };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
-            foreach (var path in ContractInputs.All(ContractLoader.Load(parse.GetValue(contract)!), parse.GetValue(sample)))
+            var loaded = ContractLoader.Load(parse.GetValue(contract)!);
+            foreach (var path in ContractInputs.All(loaded, parse.GetValue(sample)))
                 stdout.WriteLine(path);
+            if (parse.GetValue(dependencies))
+                foreach (var path in ContractInputs.Dependencies(loaded, parse.GetValue(sample)))
+                    stdout.WriteLine("depends " + path);
             return ExitCodes.Success;
         }));
         return command;

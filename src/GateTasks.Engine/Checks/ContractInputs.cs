@@ -35,4 +35,16 @@ internal static class ContractInputs
         .. File.Exists(contract.LedgerFullPath) ? [contract.LedgerFullPath] : Array.Empty<string>(),
         .. SampleFiles(contract, samplePath),
     ];
+
+    /// <summary>
+    /// The paths whose state decides <see cref="All"/>'s list besides the contract: the ledger and the reference
+    /// (either may appear), and the sample's (<see cref="Samples.SampleFiles.Dependencies"/>).
+    /// </summary>
+    public static IReadOnlyList<string> Dependencies(PrecisionContract contract, string? samplePath) =>
+        new[] { contract.LedgerFullPath, contract.ReferenceFullPath }
+            .Concat(samplePath is not null
+                ? Samples.SampleFiles.Dependencies(samplePath, Directory.GetCurrentDirectory())
+                : Samples.SampleFiles.Dependencies(contract.Sample.Path, contract.Directory))
+            .Distinct(StringComparer.Ordinal)
+            .ToList();
 }

@@ -29,6 +29,32 @@ internal static class SampleFiles
         return wildcard < 0 ? ResolvePath(pattern, baseFull, combined) : ResolveGlob(pattern, baseFull, combined, wildcard);
     }
 
+    /// <summary>
+    /// The paths whose state decides what <paramref name="pattern"/> resolves to: a named file itself, a sample
+    /// folder, or a glob's root folder with every folder below it. A file added to or removed from a folder changes
+    /// the folder's last-write time, which is how the build step knows its list of inputs may have changed.
+    /// </summary>
+    public static IReadOnlyList<string> Dependencies(string pattern, string baseDirectory)
+    {
+        var baseFull = System.IO.Path.GetFullPath(baseDirectory);
+        var combined = System.IO.Path.IsPathRooted(pattern) ? pattern : System.IO.Path.Combine(baseFull, pattern);
+        var wildcard = combined.IndexOfAny(['*', '?']);
+        if (wildcard < 0)
+        {
+            return [System.IO.Path.GetFullPath(combined)];
+        }
+        var separator = combined.LastIndexOfAny(Separators, wildcard);
+        var root = System.IO.Path.TrimEndingDirectorySeparator(System.IO.Path.GetFullPath(separator < 0 ? baseFull : combined[..(separator + 1)]));
+        if (!Directory.Exists(root)) return [root];
+        // Every folder below the root: a glob may reach into any of them (conservative for globs without '**').
+        return [root, .. Directory.EnumerateDirectories(root, "*", new EnumerationOptions
+        {
+            RecurseSubdirectories = true,
+            IgnoreInaccessible = true,
+            AttributesToSkip = FileAttributes.ReparsePoint, // a link loop must not make the walk endless
+        }).Select(System.IO.Path.GetFullPath).Order(StringComparer.Ordinal)];
+    }
+
     private static string[] ResolvePath(string pattern, string baseFull, string combined)
     {
         var full = System.IO.Path.GetFullPath(combined);
