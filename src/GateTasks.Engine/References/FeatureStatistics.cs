@@ -1,3 +1,4 @@
+using System.Numerics;
 using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.References;
@@ -43,32 +44,74 @@ internal sealed class FeatureStatistics
     /// </summary>
     /// <summary>
     /// Unit weights, a batch at a time: the batch's mean and squared deviations in two passes, merged into the running
-    /// moments once (Chan, Golub &amp; LeVeque 1979), which spares the per-value division of the running update.
-    /// False, with nothing added, when the batch holds an infinity: the per-value path reports that.
+    /// moments once (Chan, Golub &amp; LeVeque 1979), which spares the per-value division of the running update. Both
+    /// passes run over SIMD lanes (NaN masked out), the sums added up lane by lane: the order of additions depends on
+    /// the batch only, never on threads. False, with nothing added, when the batch holds an infinity: the per-value
+    /// path reports that.
     /// </summary>
     private bool AddUnitWeights(ReadOnlySpan<double> values)
     {
-        long n = 0, nan = 0;
-        double sum = 0, min = Min, max = Max;
-        foreach (var x in values)
+        var lanes = Vector<double>.Count;
+        var whole = values.Length - values.Length % lanes;
+        var zero = Vector<double>.Zero;
+        var one = Vector<double>.One;
+        Vector<double> vSum = zero, vCount = zero;
+        var vMin = new Vector<double>(double.PositiveInfinity);
+        var vMax = new Vector<double>(double.NegativeInfinity);
+        for (var i = 0; i < whole; i += lanes)
         {
-            if (double.IsNaN(x)) { nan++; continue; }
-            if (!double.IsFinite(x)) return false;
+            var v = new Vector<double>(values.Slice(i, lanes));
+            var present = Vector.Equals(v, v); // false for NaN
+            vSum += Vector.ConditionalSelect(present, v, zero);
+            vCount += Vector.ConditionalSelect(present, one, zero);
+            vMin = Vector.Min(vMin, Vector.ConditionalSelect(present, v, new Vector<double>(double.PositiveInfinity)));
+            vMax = Vector.Max(vMax, Vector.ConditionalSelect(present, v, new Vector<double>(double.NegativeInfinity)));
+        }
+        double sum = Vector.Sum(vSum), n = Vector.Sum(vCount), min = Min, max = Max;
+        for (var k = 0; k < lanes; k++)
+        {
+            min = Math.Min(min, vMin[k]);
+            max = Math.Max(max, vMax[k]);
+        }
+        for (var i = whole; i < values.Length; i++)
+        {
+            var x = values[i];
+            if (double.IsNaN(x)) continue;
             n++;
             sum += x;
-            if (x < min) min = x;
-            if (x > max) max = x;
+            min = Math.Min(min, x);
+            max = Math.Max(max, x);
         }
-        NanCount += nan;
-        if (n == 0) return true;
-        var mean = sum / n;
+        if (double.IsInfinity(min) && n > 0 && min < 0 || double.IsInfinity(max) && n > 0 && max > 0) return false;
+        var count = (long)n;
+        NanCount += values.Length - count;
+        if (count == 0) return true;
+        var mean = sum / count;
         if (double.IsNaN(_shift))
             foreach (var x in values)
                 if (!double.IsNaN(x)) { _shift = x; break; }
         var shift = _shift;
-        double m2 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0;
-        foreach (var x in values)
+
+        Vector<double> vM2 = zero, v1 = zero, v2 = zero, v3 = zero, v4 = zero;
+        var vMean = new Vector<double>(mean);
+        var vShift = new Vector<double>(shift);
+        for (var i = 0; i < whole; i += lanes)
         {
+            var v = new Vector<double>(values.Slice(i, lanes));
+            var present = Vector.Equals(v, v);
+            var dm = Vector.ConditionalSelect(present, v - vMean, zero);
+            vM2 += dm * dm;
+            var d = Vector.ConditionalSelect(present, v - vShift, zero);
+            var d2 = d * d;
+            v1 += d;
+            v2 += d2;
+            v3 += d2 * d;
+            v4 += d2 * d2;
+        }
+        double m2 = Vector.Sum(vM2), s1 = Vector.Sum(v1), s2 = Vector.Sum(v2), s3 = Vector.Sum(v3), s4 = Vector.Sum(v4);
+        for (var i = whole; i < values.Length; i++)
+        {
+            var x = values[i];
             if (double.IsNaN(x)) continue;
             var dm = x - mean;
             m2 += dm * dm;
@@ -79,8 +122,8 @@ internal sealed class FeatureStatistics
             s3 += d2 * d;
             s4 += d2 * d2;
         }
-        _moments.AddBatch(n, mean, m2);
-        _s0 += n;
+        _moments.AddBatch(count, mean, m2);
+        _s0 += count;
         _s1 += s1;
         _s2 += s2;
         _s3 += s3;
