@@ -136,6 +136,8 @@ cp "$work/logs/check-full.1.out" "$work/out/check-full.txt"
 if [ "$build_overhead" = 1 ]; then
   say "packing the MSBuild package into a local feed and timing no-op builds"
   msb=$work/msbuild
+  # Afresh each run: a kept --work folder would otherwise restore the package this fixed version had last time.
+  rm -rf "$msb"
   mkdir -p "$msb/sources" "$msb/with" "$msb/without"
   # Packed from a copy, so the repository's own build outputs stay as they are.
   (cd "$root" && tar --exclude=bin --exclude=obj -cf - Directory.Build.props Directory.Packages.props global.json nuget.config README.md docs/precision-contract.schema.json src) \
