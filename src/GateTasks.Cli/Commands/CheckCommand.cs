@@ -81,6 +81,10 @@ internal static class CheckCommand
                              ResultTable.NeededText(o.Measured.EventsNeeded));
         foreach (var f in report.Acceptance)
             stderr.WriteLine($"{f.Location}: {(f.IsError ? "error" : "warning")} {f.Code}: {f.Message}");
+        // NaN and ±∞ the contract allows are still counted, and said.
+        foreach (var c in report.Comparisons.Where(c => c.SurrogateSummary.NonFiniteCount > 0))
+            stdout.WriteLine($"note: feature '{c.Spec.Name}' has {c.SurrogateSummary.NanCount} NaN, {c.SurrogateSummary.PositiveInfinityCount} +∞ and " +
+                             $"{c.SurrogateSummary.NegativeInfinityCount} −∞ in the surrogate sample, counted apart (non-finite: allow).");
         if (junitPath is not null)
         {
             JUnitReport.Write(junitPath, [report]);

@@ -109,6 +109,7 @@ internal static class ContractCheck
     internal static CheckReport Decide(CheckSetup setup, SampleAccumulation accumulation, IReadOnlyList<string> files, DateTimeOffset started, Stopwatch clock)
     {
         var (contract, reference, referencePath, referenceSha, references) = (setup.Contract, setup.Reference, setup.ReferencePath, setup.ReferenceSha256, setup.References);
+        NonFiniteGuard.Verify(contract, accumulation);
         var cores = contract.Features.Select((f, i) => RegionBins.Core(references[i], f)).ToList();
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         var pairs = accumulation.Pairs;

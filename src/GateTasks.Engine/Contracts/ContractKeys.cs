@@ -30,6 +30,9 @@ internal static class ContractKeys
     public const string Quantiles = "quantiles";
     public const string Expression = "expression";
     public const string Selection = "selection";
+    /// <summary>What a NaN or infinite value of a feature in the surrogate sample does: <c>fail</c> (the default) or <c>allow</c>.</summary>
+    public const string NonFinite = "non-finite";
+    public static readonly string[] NonFinitePolicies = ["fail", "allow"];
 
     public const string Bins = "bins";
     public const string Spacing = "spacing";
@@ -75,8 +78,8 @@ internal static class ContractKeys
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
     public static readonly string[] InconclusivePolicies = ["fail", "warn"];
     public static readonly string[] SampleKeys = [Path, Weight];
-    public static readonly string[] DefaultsKeys = [Binning, Core, Regions, Checks];
-    public static readonly string[] FeatureKeys = [Name, Column, Expression, Kind, Binning, Core, Regions, Spike, Categories, Checks];
+    public static readonly string[] DefaultsKeys = [Binning, Core, Regions, Checks, NonFinite];
+    public static readonly string[] FeatureKeys = [Name, Column, Expression, Kind, Binning, Core, Regions, Spike, Categories, Checks, NonFinite];
     public static readonly string[] CategoryKeys = [By, Values, "fraction-max"];
     public static readonly string[] BinningKeys = [Bins, Spacing, Range, Edges];
     public static readonly string[] NamedRegionKeys = [Range, Quantiles];

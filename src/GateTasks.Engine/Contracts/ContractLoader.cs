@@ -381,6 +381,7 @@ internal static class ContractLoader
         BinningSpec? binning = null;
         CoreSpec? core = null;
         List<NamedRegion>? regions = null;
+        (bool, SourceLocation)? nonFinite = null;
         var checks = new CheckTable();
         foreach (var (key, _, value) in r.Entries(mapping, ContractKeys.Defaults, ContractKeys.DefaultsKeys))
         {
@@ -390,9 +391,10 @@ internal static class ContractLoader
                 case ContractKeys.Core: core = ReadCore(r, value, "defaults.core"); break;
                 case ContractKeys.Regions: regions = ReadRegions(r, value, "defaults.regions"); break;
                 case ContractKeys.Checks: ReadChecks(r, value, "defaults.checks", checks); break;
+                case ContractKeys.NonFinite: nonFinite = ReadNonFinite(r, value, "defaults.non-finite"); break;
             }
         }
-        return new FeatureSettings(binning, core, checks, regions);
+        return new FeatureSettings(binning, core, checks, regions, nonFinite);
     }
 
     private static FeatureSpec ReadFeature(YamlNodeReader r, YamlNode node, FeatureSettings defaults)
@@ -465,8 +467,16 @@ internal static class ContractLoader
             throw r.Error(ErrorCodes.ContractBadValue, nameNode,
                 $"{char.ToUpperInvariant(what[0])}{what[1..]} has no checks (none of its own, none in defaults); it would always pass.");
 
-        return new FeatureSpec(name, column, kind, binning, core, list, r.At(nameNode), ExpressionStart(r, columnNode), spike, expression, regionsOfFeature);
+        var nonFinite = entries.TryGetValue(ContractKeys.NonFinite, out var nf) ? ReadNonFinite(r, nf, $"The non-finite setting of {what}") : defaults.NonFinite;
+        return new FeatureSpec(name, column, kind, binning, core, list, r.At(nameNode), ExpressionStart(r, columnNode), spike, expression, regionsOfFeature)
+        {
+            AllowNonFinite = nonFinite?.Allow ?? false,
+            NonFiniteLocation = nonFinite?.Location,
+        };
     }
+
+    private static (bool Allow, SourceLocation Location) ReadNonFinite(YamlNodeReader r, YamlNode node, string what) =>
+        (r.OneOf(node, what, ContractKeys.NonFinitePolicies) == "allow", r.At(node));
 
     private static BinningSpec ReadBinning(YamlNodeReader r, YamlNode node, string what)
     {
@@ -586,7 +596,8 @@ internal static class ContractLoader
         return v;
     }
 
-    private sealed record FeatureSettings(BinningSpec? Binning, CoreSpec? Core, CheckTable Checks, List<NamedRegion>? Regions = null);
+    private sealed record FeatureSettings(BinningSpec? Binning, CoreSpec? Core, CheckTable Checks, List<NamedRegion>? Regions = null,
+        (bool Allow, SourceLocation Location)? NonFinite = null);
 
     /// <summary>Checks keyed by (kind, region), kept in report order; features copy the defaults and override entries.</summary>
     private sealed class CheckTable

@@ -23,6 +23,15 @@ internal sealed record FeatureSpec(
     SelectionSpec? Condition = null)
 {
     /// <summary>
+    /// Whether NaN and infinite values of this feature in the surrogate sample are allowed (counted apart: NaN outside
+    /// every cell, ±∞ in the flow cells, neither in the moments); by default they fail the check with GATE2008.
+    /// </summary>
+    public bool AllowNonFinite { get; init; }
+
+    /// <summary>Where the feature's (or the defaults') <c>non-finite</c> setting stands; the feature's name when unset.</summary>
+    public SourceLocation? NonFiniteLocation { get; init; }
+
+    /// <summary>
     /// What the reference must have been built for: the binning request and, when declared, the spike value. A
     /// check refuses a reference built for anything else.
     /// </summary>

@@ -44,6 +44,9 @@ public static class ErrorCodes
     public const string SampleCsvValue = "GATE2006";
     /// <summary>The weight column holds a non-finite value.</summary>
     public const string SampleBadWeight = "GATE2007";
+
+    /// <summary>A feature of the surrogate sample holds NaN or infinite values, and its contract does not allow them.</summary>
+    public const string SampleNonFinite = "GATE2008";
     /// <summary>The reference file does not exist.</summary>
     public const string ReferenceNotFound = "GATE2101";
     /// <summary>The reference file is corrupt or of an unsupported format version.</summary>

@@ -53,7 +53,9 @@ internal sealed record AcceptedState(
                 $"{r.Name}{(r.ByQuantile ? ":quantiles" : ":range")}[{r.Lower:R},{r.Upper:R}]")))
             : "";
         return $"{f.Kind.ToString().ToLowerInvariant()}|{(f.Expression is null ? "column:" + f.Column : "")}|{f.ReferenceRequest}" +
-               $"|core:{f.Core.LowerQuantile.ToString("G12", CultureInfo.InvariantCulture)},{f.Core.UpperQuantile.ToString("G12", CultureInfo.InvariantCulture)}{regions}";
+               $"|core:{f.Core.LowerQuantile.ToString("G12", CultureInfo.InvariantCulture)},{f.Core.UpperQuantile.ToString("G12", CultureInfo.InvariantCulture)}{regions}" +
+               // Allowing NaN and ±∞ lets through what failed before: a change a reviewer must accept. Unset, nothing is added.
+               (f.AllowNonFinite ? "|non-finite:allow" : "");
     }
 
     /// <summary>Where a subject's check stands in the contract, for messages; null when the contract has no such check.</summary>

@@ -3,7 +3,10 @@ using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.References;
 
-/// <summary>Streams one feature's finite values into weighted moments, minimum and maximum; NaN values are only counted.</summary>
+/// <summary>
+/// Streams one feature's finite values into weighted moments, minimum and maximum; NaN and infinite values are only
+/// counted (whether they are allowed is the caller's decision).
+/// </summary>
 internal sealed class FeatureStatistics
 {
     private readonly WeightedMoments _moments = new();
@@ -14,15 +17,23 @@ internal sealed class FeatureStatistics
     public double Min { get; private set; } = double.PositiveInfinity;
     public double Max { get; private set; } = double.NegativeInfinity;
     public long NanCount { get; private set; }
+    public long PositiveInfinityCount { get; private set; }
+    public long NegativeInfinityCount { get; private set; }
     public long Count => _moments.Count;
 
     public void Add(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
     {
-        if (weights.IsEmpty && AddUnitWeights(values)) return;
+        if (weights.IsEmpty)
+        {
+            AddUnitWeights(values);
+            return;
+        }
         for (var r = 0; r < values.Length; r++)
         {
             var x = values[r];
             if (double.IsNaN(x)) { NanCount++; continue; }
+            if (double.IsPositiveInfinity(x)) { PositiveInfinityCount++; continue; }
+            if (double.IsNegativeInfinity(x)) { NegativeInfinityCount++; continue; }
             var w = weights.IsEmpty ? 1.0 : weights[r];
             _moments.Add(x, w);
             if (double.IsNaN(_shift)) _shift = x;
@@ -45,29 +56,31 @@ internal sealed class FeatureStatistics
     /// <summary>
     /// Unit weights, a batch at a time: the batch's mean and squared deviations in two passes, merged into the running
     /// moments once (Chan, Golub &amp; LeVeque 1979), which spares the per-value division of the running update. Both
-    /// passes run over SIMD lanes (NaN masked out), the sums added up lane by lane: the order of additions depends on
-    /// the batch only, never on threads. False, with nothing added, when the batch holds an infinity: the per-value
-    /// path reports that.
+    /// passes run over SIMD lanes (NaN and infinities masked out and counted), the sums added up lane by lane: the
+    /// order of additions depends on the batch only, never on threads.
     /// </summary>
-    private bool AddUnitWeights(ReadOnlySpan<double> values)
+    private void AddUnitWeights(ReadOnlySpan<double> values)
     {
         var lanes = Vector<double>.Count;
         var whole = values.Length - values.Length % lanes;
         var zero = Vector<double>.Zero;
         var one = Vector<double>.One;
-        Vector<double> vSum = zero, vCount = zero;
-        var vMin = new Vector<double>(double.PositiveInfinity);
-        var vMax = new Vector<double>(double.NegativeInfinity);
+        var plusInfinity = new Vector<double>(double.PositiveInfinity);
+        var minusInfinity = new Vector<double>(double.NegativeInfinity);
+        Vector<double> vSum = zero, vCount = zero, vPlus = zero, vMinus = zero;
+        Vector<double> vMin = plusInfinity, vMax = minusInfinity;
         for (var i = 0; i < whole; i += lanes)
         {
             var v = new Vector<double>(values.Slice(i, lanes));
-            var present = Vector.Equals(v, v); // false for NaN
-            vSum += Vector.ConditionalSelect(present, v, zero);
-            vCount += Vector.ConditionalSelect(present, one, zero);
-            vMin = Vector.Min(vMin, Vector.ConditionalSelect(present, v, new Vector<double>(double.PositiveInfinity)));
-            vMax = Vector.Max(vMax, Vector.ConditionalSelect(present, v, new Vector<double>(double.NegativeInfinity)));
+            var finite = Vector.LessThan(Vector.Abs(v), plusInfinity); // false for NaN and ±∞
+            vSum += Vector.ConditionalSelect(finite, v, zero);
+            vCount += Vector.ConditionalSelect(finite, one, zero);
+            vPlus += Vector.ConditionalSelect(Vector.Equals(v, plusInfinity), one, zero);
+            vMinus += Vector.ConditionalSelect(Vector.Equals(v, minusInfinity), one, zero);
+            vMin = Vector.Min(vMin, Vector.ConditionalSelect(finite, v, plusInfinity));
+            vMax = Vector.Max(vMax, Vector.ConditionalSelect(finite, v, minusInfinity));
         }
-        double sum = Vector.Sum(vSum), n = Vector.Sum(vCount), min = Min, max = Max;
+        double sum = Vector.Sum(vSum), n = Vector.Sum(vCount), plus = Vector.Sum(vPlus), minus = Vector.Sum(vMinus), min = Min, max = Max;
         for (var k = 0; k < lanes; k++)
         {
             min = Math.Min(min, vMin[k]);
@@ -76,20 +89,23 @@ internal sealed class FeatureStatistics
         for (var i = whole; i < values.Length; i++)
         {
             var x = values[i];
-            if (double.IsNaN(x)) continue;
+            if (double.IsPositiveInfinity(x)) plus++;
+            else if (double.IsNegativeInfinity(x)) minus++;
+            if (!double.IsFinite(x)) continue;
             n++;
             sum += x;
             min = Math.Min(min, x);
             max = Math.Max(max, x);
         }
-        if (double.IsInfinity(min) && n > 0 && min < 0 || double.IsInfinity(max) && n > 0 && max > 0) return false;
         var count = (long)n;
-        NanCount += values.Length - count;
-        if (count == 0) return true;
+        PositiveInfinityCount += (long)plus;
+        NegativeInfinityCount += (long)minus;
+        NanCount += values.Length - count - (long)plus - (long)minus;
+        if (count == 0) return;
         var mean = sum / count;
         if (double.IsNaN(_shift))
             foreach (var x in values)
-                if (!double.IsNaN(x)) { _shift = x; break; }
+                if (double.IsFinite(x)) { _shift = x; break; }
         var shift = _shift;
 
         Vector<double> vM2 = zero, v1 = zero, v2 = zero, v3 = zero, v4 = zero;
@@ -98,10 +114,10 @@ internal sealed class FeatureStatistics
         for (var i = 0; i < whole; i += lanes)
         {
             var v = new Vector<double>(values.Slice(i, lanes));
-            var present = Vector.Equals(v, v);
-            var dm = Vector.ConditionalSelect(present, v - vMean, zero);
+            var finite = Vector.LessThan(Vector.Abs(v), plusInfinity);
+            var dm = Vector.ConditionalSelect(finite, v - vMean, zero);
             vM2 += dm * dm;
-            var d = Vector.ConditionalSelect(present, v - vShift, zero);
+            var d = Vector.ConditionalSelect(finite, v - vShift, zero);
             var d2 = d * d;
             v1 += d;
             v2 += d2;
@@ -112,7 +128,7 @@ internal sealed class FeatureStatistics
         for (var i = whole; i < values.Length; i++)
         {
             var x = values[i];
-            if (double.IsNaN(x)) continue;
+            if (!double.IsFinite(x)) continue;
             var dm = x - mean;
             m2 += dm * dm;
             var d = x - shift;
@@ -130,13 +146,14 @@ internal sealed class FeatureStatistics
         _s4 += s4;
         Min = min;
         Max = max;
-        return true;
     }
 
     public void Merge(FeatureStatistics other)
     {
         _moments.Merge(other._moments);
         NanCount += other.NanCount;
+        PositiveInfinityCount += other.PositiveInfinityCount;
+        NegativeInfinityCount += other.NegativeInfinityCount;
         Min = Math.Min(Min, other.Min);
         Max = Math.Max(Max, other.Max);
         if (double.IsNaN(other._shift)) return;
@@ -152,7 +169,7 @@ internal sealed class FeatureStatistics
     }
 
     /// <summary>The whole state as numbers, for a partial file (<see cref="Restore"/> reads it back).</summary>
-    public double[] State() => [.. _moments.State(), _shift, _s0, _s1, _s2, _s3, _s4, Min, Max, NanCount];
+    public double[] State() => [.. _moments.State(), _shift, _s0, _s1, _s2, _s3, _s4, Min, Max, NanCount, PositiveInfinityCount, NegativeInfinityCount];
 
     public static FeatureStatistics Restore(ReadOnlySpan<double> s)
     {
@@ -160,11 +177,17 @@ internal sealed class FeatureStatistics
         f._moments.Restore(s[..6]);
         (f._shift, f._s0, f._s1, f._s2, f._s3, f._s4) = (s[6], s[7], s[8], s[9], s[10], s[11]);
         (f.Min, f.Max, f.NanCount) = (s[12], s[13], (long)s[14]);
+        // Partial files written before infinities were counted have no such entries (none were let through then).
+        if (s.Length >= 17) (f.PositiveInfinityCount, f.NegativeInfinityCount) = ((long)s[15], (long)s[16]);
         return f;
     }
 
     public FeatureSummary Summary() =>
-        new(_moments.Count, _moments.SumOfWeights, _moments.SumOfSquaredWeights, _moments.Mean, _moments.StandardDeviation, Min, Max, NanCount, Kurtosis());
+        new(_moments.Count, _moments.SumOfWeights, _moments.SumOfSquaredWeights, _moments.Mean, _moments.StandardDeviation, Min, Max, NanCount, Kurtosis())
+        {
+            PositiveInfinityCount = PositiveInfinityCount,
+            NegativeInfinityCount = NegativeInfinityCount,
+        };
 
     /// <summary>μ₄/σ⁴ from the shifted power sums (central moments by binomial expansion); NaN without spread.</summary>
     private double Kurtosis()

@@ -1,7 +1,7 @@
 namespace GateTasks.Engine.References;
 
 /// <summary>
-/// Unbinned statistics of one feature in a sample, NaN values excluded: the numbers the checks need beyond
+/// Unbinned statistics of one feature in a sample, NaN and infinite values excluded (and counted): the numbers the checks need beyond
 /// the histogram (the reference's standard deviation normalises Wasserstein-1, its quantiles place the core;
 /// the kurtosis μ₄/σ⁴ sets the uncertainty of a width).
 /// </summary>
@@ -16,6 +16,15 @@ internal sealed record FeatureSummary(
     long NanCount,
     double Kurtosis = double.NaN)
 {
+    /// <summary>Values equal to +∞.</summary>
+    public long PositiveInfinityCount { get; init; }
+
+    /// <summary>Values equal to −∞.</summary>
+    public long NegativeInfinityCount { get; init; }
+
+    /// <summary>NaN and infinite values together.</summary>
+    public long NonFiniteCount => NanCount + PositiveInfinityCount + NegativeInfinityCount;
+
     /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>
     public double EffectiveCount => SumW2 > 0 ? SumW * SumW / SumW2 : 0;
 }

@@ -50,7 +50,7 @@ internal static class ReferenceBuilder
             if (stats[i].Count == 0)
                 throw new GateInputException(ErrorCodes.SampleEmpty,
                     $"Feature '{features[i].Name}' (column '{features[i].Column}') has no finite value{(features[i].Spike is null ? "" : " besides its spike")} in the reference sample.", features[i].ColumnLocation);
-            if (double.IsInfinity(min[i]) || double.IsInfinity(max[i]))
+            if (stats[i].PositiveInfinityCount + stats[i].NegativeInfinityCount > 0)
                 throw new GateInputException(ErrorCodes.SampleColumnType,
                     $"Feature '{features[i].Name}' (column '{features[i].Column}') holds infinite values in the reference sample; a reference must be finite.",
                     features[i].ColumnLocation);
