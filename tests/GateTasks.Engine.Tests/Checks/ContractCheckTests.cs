@@ -50,6 +50,55 @@ public sealed class ContractCheckTests : IDisposable
         return contract;
     }
 
+    private void AppendRows(string path, params string[] rows) => File.AppendAllLines(path, rows);
+
+    [Fact]
+    public void NaN_and_infinities_in_the_surrogate_stop_the_check_at_the_feature_line_with_their_counts()
+    {
+        var contract = Setup();
+        var sample = WriteCsv("surrogate.csv", 20_000, 2, 0);
+        AppendRows(sample, "nan", "inf", "-inf", "inf");
+
+        var error = Assert.Throws<GateInputException>(() => ContractCheck.Run(contract));
+
+        Assert.Equal(ErrorCodes.SampleNonFinite, error.Code);
+        Assert.Equal(contract.Features[0].Location, error.Location); // the feature's name in the contract
+        Assert.Contains("1 NaN, 2 +∞, 1 −∞ among 20004 values", error.Message);
+        Assert.Contains("non-finite: allow", error.Message);
+    }
+
+    [Theory]
+    [InlineData("features:\n  - name: x\n    non-finite: allow")]
+    [InlineData("  non-finite: allow\nfeatures:\n  - name: x")]
+    public void Allowed_NaN_and_infinities_are_counted_apart_and_the_check_decides_on_the_rest(string allowing)
+    {
+        var contract = Setup(ContractText.Replace("features:\n  - name: x", allowing));
+        Assert.True(contract.Features[0].AllowNonFinite);
+        var sample = WriteCsv("surrogate.csv", 20_000, 2, 0);
+        AppendRows(sample, "nan", "inf", "-inf");
+
+        var report = ContractCheck.Run(contract);
+
+        Assert.True(report.Passed, string.Join("\n", report.Outcomes.Select(o => o.Summary)));
+        var summary = report.Comparisons[0].SurrogateSummary;
+        Assert.Equal((1, 1, 1), (summary.NanCount, summary.PositiveInfinityCount, summary.NegativeInfinityCount));
+        Assert.Equal(20_000, summary.Count);
+        var cells = report.Comparisons[0].Surrogate;
+        Assert.Equal(1, cells.NanEntries); // NaN apart; ±∞ in the flow cells
+        Assert.True(cells.Storage.SumW[0] >= 1 && cells.Storage.SumW[^1] >= 1);
+    }
+
+    [Fact]
+    public void A_misspelt_non_finite_setting_names_the_choices()
+    {
+        var path = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(path, ContractText.Replace("  - name: x", "  - name: x\n    non-finite: alow"));
+        var error = Assert.Throws<GateInputException>(() => ContractLoader.Load(path));
+        Assert.Equal(ErrorCodes.ContractBadValue, error.Code);
+        Assert.Contains("did you mean 'allow'", error.Message);
+        Assert.Equal(13, error.Location?.Line);
+    }
+
     [Fact]
     public void Faithful_csv_sample_passes_and_a_shifted_one_fails_in_the_core()
     {

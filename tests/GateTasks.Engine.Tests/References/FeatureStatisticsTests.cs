@@ -49,10 +49,24 @@ public class FeatureStatisticsTests
         Assert.Equal(b.Kurtosis, a.Kurtosis, 1e-10);
     }
 
-    [Fact]
-    public void An_infinite_value_is_refused_as_before()
+    [Theory]
+    [InlineData(false)]
+    [InlineData(true)]
+    public void Infinities_and_NaN_are_counted_and_kept_out_of_the_moments(bool weighted)
     {
+        // Ten finite values 1..10 (mean 5.5, population σ² = 8.25: arithmetic) among NaN and ±∞, past a SIMD width.
+        double[] values = [1, double.PositiveInfinity, 2, 3, double.NaN, 4, 5, double.NegativeInfinity, 6, 7, 8, double.PositiveInfinity, 9, 10];
         var stats = new FeatureStatistics();
-        Assert.Throws<ArgumentException>(() => stats.Add([1, double.PositiveInfinity, 2], []));
+        stats.Add(values, weighted ? Enumerable.Repeat(1.0, values.Length).ToArray() : []);
+        var s = stats.Summary();
+        Assert.Equal(10, s.Count);
+        Assert.Equal(1, s.NanCount);
+        Assert.Equal(2, s.PositiveInfinityCount);
+        Assert.Equal(1, s.NegativeInfinityCount);
+        Assert.Equal(4, s.NonFiniteCount);
+        Assert.Equal(1, s.Min);
+        Assert.Equal(10, s.Max);
+        Assert.Equal(5.5, s.Mean, 12);
+        Assert.Equal(Math.Sqrt(8.25), s.StandardDeviation, 12);
     }
 }
