@@ -1,6 +1,7 @@
 using System.CommandLine;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.IO;
 using GateTasks.Engine.Reports;
 
@@ -40,7 +41,31 @@ internal static class CheckCommand
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
-            var loaded = ContractLoader.Load(parse.GetValue(contract)!);
+            var contractPath = parse.GetValue(contract)!;
+            var reports = new UnfinishedReport.Paths(parse.GetValue(junit), parse.GetValue(text), parse.GetValue(html), parse.GetValue(markdown));
+            var started = DateTimeOffset.UtcNow;
+            // No report path keeps an earlier verdict while this check runs, or after it stops on bad input: what a
+            // killed run leaves says it did not finish.
+            UnfinishedReport.MarkRunning(reports, contractPath, started);
+            try
+            {
+                return Check(parse, contractPath, sample, junit, text, html, markdown, partials, stdout, stderr);
+            }
+            catch (GateInputException e)
+            {
+                try { UnfinishedReport.MarkFailed(reports, contractPath, started, e); }
+                catch (GateInputException) { } // the report path itself is the problem: the original error says more
+                throw;
+            }
+        }));
+        return command;
+    }
+
+    private static int Check(ParseResult parse, string contractPath, Option<string?> sample, Option<string?> junit, Option<string?> text,
+        Option<string?> html, Option<string?> markdown, Option<string[]> partials, TextWriter stdout, TextWriter stderr)
+    {
+        {
+            var loaded = ContractLoader.Load(contractPath);
             var report = parse.GetValue(partials) is { Length: > 0 } parts
                 ? ContractCheck.RunFromPartials(loaded, ShardCommands.Expand(parts))
                 : ContractCheck.Run(loaded, parse.GetValue(sample), ProgressDisplay.For(stdout, stderr));
@@ -60,8 +85,7 @@ internal static class CheckCommand
             var exit = Print(report, parse.GetValue(junit), stdout, stderr);
             foreach (var line in written) stdout.WriteLine(line);
             return exit;
-        }));
-        return command;
+        }
     }
 
     /// <summary>Prints the table, one diagnostic line per failed check, the summary; writes the JUnit report.</summary>

@@ -11,6 +11,9 @@ public static class ErrorCodes
     /// <summary>An output (report, reference) could not be written.</summary>
     public const string OutputNotWritable = "GATE0002";
 
+    /// <summary>A report written while a check runs: the check has not finished (or was stopped before it could).</summary>
+    public const string CheckUnfinished = "GATE0003";
+
     /// <summary>The contract file does not exist or cannot be read.</summary>
     public const string ContractNotFound = "GATE1001";
     /// <summary>The contract is not well-formed YAML.</summary>

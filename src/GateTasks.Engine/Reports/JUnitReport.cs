@@ -201,11 +201,5 @@ internal static class JUnitReport
 
     private static string Seconds(double s) => s.ToString("0.000", CultureInfo.InvariantCulture);
 
-    private static string Timestamp(DateTimeOffset t) => t.UtcDateTime.ToString("yyyy-MM-ddTHH:mm:ssZ", CultureInfo.InvariantCulture);
-
-    /// <summary>A StringWriter that declares UTF-8, so the XML declaration says what the file will be.</summary>
-    private sealed class StringWriterUtf8(StringBuilder sb) : StringWriter(sb, CultureInfo.InvariantCulture)
-    {
-        public override Encoding Encoding => new UTF8Encoding(false);
-    }
+    internal static string Timestamp(DateTimeOffset t) => t.UtcDateTime.ToString("yyyy-MM-ddTHH:mm:ssZ", CultureInfo.InvariantCulture);
 }

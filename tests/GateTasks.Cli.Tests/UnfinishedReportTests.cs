@@ -1,0 +1,85 @@
+using System.Diagnostics;
+using System.Xml.Linq;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Demo;
+using GateTasks.Engine.References;
+
+namespace GateTasks.Cli.Tests;
+
+/// <summary>
+/// A report path never keeps an earlier verdict: a check that stops on bad input, or is killed, leaves reports that
+/// say it did not finish (a JUnit error), never a pass. The JUnit files are read with System.Xml.Linq.
+/// </summary>
+public sealed class UnfinishedReportTests : IDisposable
+{
+    private readonly string _dir = Directory.CreateTempSubdirectory("gatetasks-unfinished-").FullName;
+
+    public void Dispose()
+    {
+        try { Directory.Delete(_dir, recursive: true); } catch (IOException) { }
+    }
+
+    private static readonly string PassingJUnit =
+        """<testsuites name="gatetasks" tests="1" failures="0" errors="0" skipped="0"><testsuite name="old" tests="1" failures="0" errors="0"><testcase classname="x" name="y" /></testsuite></testsuites>""";
+
+    [Fact]
+    public void A_check_stopped_by_bad_input_replaces_every_earlier_report_with_the_error()
+    {
+        var contract = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contract, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: no-such-sample.parquet"));
+        var junit = Path.Combine(_dir, "r.junit.xml");
+        var text = Path.Combine(_dir, "r.txt");
+        var markdown = Path.Combine(_dir, "r.md");
+        var html = Path.Combine(_dir, "r.html");
+        File.WriteAllText(junit, PassingJUnit);
+        foreach (var f in new[] { text, markdown, html }) File.WriteAllText(f, "PASSED: everything (an earlier run)");
+
+        var (code, stdout, stderr) = Cli.Run("check", "--contract", contract, "--junit", junit, "--text", text, "--markdown", markdown, "--html", html);
+
+        Assert.True(code == 2, stdout + stderr);
+        Assert.Contains("GATE2001", stderr);
+        var root = XDocument.Load(junit).Root!;
+        Assert.Equal("1", root.Attribute("errors")!.Value);
+        var error = root.Descendants("error").Single();
+        Assert.Equal("GATE2001", error.Attribute("type")!.Value);
+        Assert.Contains("no-such-sample.parquet", error.Attribute("message")!.Value);
+        Assert.StartsWith("NOT FINISHED: ", File.ReadAllText(text));
+        Assert.StartsWith("### GateTasks check DID NOT FINISH", File.ReadAllText(markdown));
+        Assert.Contains("did not finish", File.ReadAllText(html));
+        foreach (var f in new[] { text, markdown, html }) Assert.DoesNotContain("PASSED", File.ReadAllText(f));
+    }
+
+    [Fact]
+    public void Killing_a_check_mid_run_leaves_a_report_that_says_it_did_not_finish()
+    {
+        var contractPath = Path.Combine(_dir, DemoContract.FileName);
+        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet"));
+        var contract = ContractLoader.Load(contractPath);
+        var fullsim = Path.Combine(_dir, "fullsim.parquet");
+        DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 200_000, 31, 50_000);
+        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [fullsim], contract.Sample.Weight, "test"));
+        // Large enough that reading it takes seconds: the kill lands while the check reads.
+        DemoSampleWriter.Write(Path.Combine(_dir, "surrogate.parquet"), DemoScenarioParameters.FullSimulation, 3_000_000, 32, 100_000);
+        var junit = Path.Combine(_dir, "r.junit.xml");
+        File.WriteAllText(junit, PassingJUnit);
+
+        var cli = typeof(GateTasks.Cli.CliApp).Assembly.Location;
+        var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true };
+        foreach (var a in new[] { cli, "check", "--contract", contractPath, "--junit", junit }) psi.ArgumentList.Add(a);
+        using var process = Process.Start(psi)!;
+        _ = process.StandardOutput.ReadToEndAsync();
+        _ = process.StandardError.ReadToEndAsync();
+        var clock = Stopwatch.StartNew();
+        while (!File.ReadAllText(junit).Contains("GATE0003", StringComparison.Ordinal) && clock.Elapsed < TimeSpan.FromSeconds(60))
+            Thread.Sleep(20);
+        Assert.False(process.HasExited, "the check finished before it could be killed; the sample is too small for this test");
+        process.Kill(entireProcessTree: true);
+        process.WaitForExit();
+
+        var root = XDocument.Load(junit).Root!;
+        Assert.Equal("1", root.Attribute("errors")!.Value);
+        Assert.Equal("GATE0003", root.Descendants("error").Single().Attribute("type")!.Value);
+        Assert.Contains("has not finished", root.Descendants("error").Single().Attribute("message")!.Value);
+        Assert.Empty(Directory.EnumerateFiles(_dir, "*.tmp")); // nothing half-written beside it either
+    }
+}
