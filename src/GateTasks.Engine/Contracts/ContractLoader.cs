@@ -39,6 +39,7 @@ internal static class ContractLoader
     public static PrecisionContract Parse(string text, string path)
     {
         var r = new YamlNodeReader(path);
+        YamlShapeGuard.Verify(text, path);
         var stream = new YamlStream();
         try
         {

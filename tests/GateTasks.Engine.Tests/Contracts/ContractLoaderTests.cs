@@ -31,6 +31,33 @@ public class ContractLoaderTests
         Assert.Throws<GateInputException>(() => ContractLoader.Parse(text, "c.yaml"));
 
     [Fact]
+    public void Nesting_deep_enough_to_overflow_the_stack_is_refused_where_it_starts()
+    {
+        // 200 000 nested flow sequences: loaded into nodes this overflowed the stack and killed the process.
+        var deep = Minimal.Replace("ratio-max: 0.05", "ratio-max: " + new string('[', 200_000) + new string(']', 200_000));
+        var e = Fails(deep);
+        Assert.Equal(ErrorCodes.ContractSyntax, e.Code);
+        Assert.Contains("nests more than 64 levels", e.Message);
+        Assert.Equal(18, e.Location?.Line);
+    }
+
+    [Fact]
+    public void An_alias_expansion_bomb_is_refused_and_a_few_aliases_are_not()
+    {
+        // Ten levels of ten aliases each would stand for 10^10 values once expanded.
+        var bomb = string.Join("\n", Enumerable.Range(1, 10).Select(i => $"    b{i}: &b{i} [{string.Join(", ", Enumerable.Repeat(i == 1 ? "0" : $"*b{i - 1}", 10))}]"));
+        var e = Fails(Minimal.Replace("defaults:\n", "defaults:\n  regions:\n" + bomb + "\n"));
+        Assert.Equal(ErrorCodes.ContractSyntax, e.Code);
+        Assert.Contains("would stand for more than 100000 values", e.Message);
+
+        // A shared block written once and referred to twice still loads.
+        var shared = Minimal.Replace("            ratio-max: { core: 0.02, tails: 0.1 }", "            ratio-max: &ratio { core: 0.02, tails: 0.1 }")
+            .Replace("              ratio-max: { tails: 0.2 }", "              ratio-max: *ratio");
+        var c = ContractLoader.Parse(shared, "c.yaml");
+        Assert.Equal(3, c.Features.Count);
+    }
+
+    [Fact]
     public void Demo_contract_loads_with_defaults_applied()
     {
         var c = ContractLoader.Parse(DemoContract.Text, "demo.yaml");

@@ -1,0 +1,72 @@
+using GateTasks.Engine.Diagnostics;
+using YamlDotNet.Core;
+using YamlDotNet.Core.Events;
+
+namespace GateTasks.Engine.Contracts;
+
+/// <summary>
+/// Reads a contract's YAML as a flat stream of events (YamlDotNet's parser does not recurse) before it is loaded
+/// into nodes (which does): nesting deeper than any contract needs would overflow the stack and kill the process,
+/// and aliases of aliases can make a small file stand for an enormous tree (an "alias bomb"). Both are refused as
+/// GATE1002 where they start.
+/// </summary>
+internal static class YamlShapeGuard
+{
+    /// <summary>Far deeper than a contract's own structure (about six levels).</summary>
+    public const int MaxDepth = 64;
+
+    /// <summary>Nodes the document may stand for with every alias expanded: far more than any contract holds.</summary>
+    public const long MaxExpandedNodes = 100_000;
+
+    public static void Verify(string text, string path)
+    {
+        var parser = new Parser(new StringReader(text));
+        // Per open collection: its anchor and the nodes it holds so far, aliases counted at their expanded size.
+        var open = new Stack<(string? Anchor, long Nodes)>();
+        open.Push((null, 0));
+        var sizes = new Dictionary<string, long>(StringComparer.Ordinal);
+        try
+        {
+            while (parser.MoveNext())
+            {
+                var current = parser.Current!;
+                switch (current)
+                {
+                    case MappingStart or SequenceStart:
+                        if (open.Count > MaxDepth)
+                            throw Refuse(path, current.Start, $"The contract nests more than {MaxDepth} levels deep here; no contract needs that.");
+                        open.Push((((NodeEvent)current).Anchor.IsEmpty ? null : ((NodeEvent)current).Anchor.Value, 1));
+                        break;
+                    case MappingEnd or SequenceEnd:
+                        var (anchor, nodes) = open.Pop();
+                        if (anchor is not null) sizes[anchor] = nodes;
+                        Add(open, nodes, path, current.Start);
+                        break;
+                    case Scalar scalar:
+                        if (!scalar.Anchor.IsEmpty) sizes[scalar.Anchor.Value] = 1;
+                        Add(open, 1, path, current.Start);
+                        break;
+                    case AnchorAlias alias:
+                        Add(open, sizes.GetValueOrDefault(alias.Value.Value, 1), path, current.Start);
+                        break;
+                }
+            }
+        }
+        catch (YamlException)
+        {
+            // Not valid YAML: the loading that follows reports it, with the same words as for any other contract.
+        }
+    }
+
+    private static void Add(Stack<(string? Anchor, long Nodes)> open, long nodes, string path, Mark at)
+    {
+        var (anchor, count) = open.Pop();
+        count = Math.Min(count + nodes, MaxExpandedNodes + 1);
+        if (count > MaxExpandedNodes)
+            throw Refuse(path, at, $"With its aliases expanded the contract would stand for more than {MaxExpandedNodes} values (an alias of aliases here); write the values out.");
+        open.Push((anchor, count));
+    }
+
+    private static GateInputException Refuse(string path, Mark at, string message) =>
+        new(ErrorCodes.ContractSyntax, message, new SourceLocation(path, (int)at.Line, (int)at.Column));
+}
