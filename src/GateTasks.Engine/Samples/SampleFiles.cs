@@ -46,13 +46,18 @@ internal static class SampleFiles
         var separator = combined.LastIndexOfAny(Separators, wildcard);
         var root = System.IO.Path.TrimEndingDirectorySeparator(System.IO.Path.GetFullPath(separator < 0 ? baseFull : combined[..(separator + 1)]));
         if (!Directory.Exists(root)) return [root];
-        // Every folder below the root: a glob may reach into any of them (conservative for globs without '**').
-        return [root, .. Directory.EnumerateDirectories(root, "*", new EnumerationOptions
-        {
-            RecurseSubdirectories = true,
-            IgnoreInaccessible = true,
-            AttributesToSkip = FileAttributes.ReparsePoint, // a link loop must not make the walk endless
-        }).Select(System.IO.Path.GetFullPath).Order(StringComparer.Ordinal)];
+        // Every folder below the root, walked as the glob walks it (links followed, each real folder once): a glob may
+        // reach into any of them (conservative for globs without '**').
+        var folders = new List<string> { root };
+        var pending = new Stack<DirectoryInfoBase>();
+        pending.Push(new LoopSafeDirectory(new DirectoryInfo(root)));
+        while (pending.TryPop(out var folder))
+            foreach (var sub in folder.EnumerateFileSystemInfos().OfType<DirectoryInfoBase>())
+            {
+                folders.Add(System.IO.Path.GetFullPath(sub.FullName));
+                pending.Push(sub);
+            }
+        return [folders[0], .. folders.Skip(1).Order(StringComparer.Ordinal)];
     }
 
     private static string[] ResolvePath(string pattern, string baseFull, string combined)
@@ -91,7 +96,7 @@ internal static class SampleFiles
             var matcher = new Matcher(PathComparison);
             matcher.AddInclude(relative.Replace('?', '*'));
             var exact = GlobRegex(relative);
-            files = matcher.Execute(new DirectoryInfoWrapper(new DirectoryInfo(root))).Files
+            files = matcher.Execute(new LoopSafeDirectory(new DirectoryInfo(root))).Files
                 .Where(match => exact.IsMatch(match.Path))
                 .Select(match => System.IO.Path.GetFullPath(System.IO.Path.Combine(root, match.Path)))
                 .Distinct(StringComparer.Ordinal)

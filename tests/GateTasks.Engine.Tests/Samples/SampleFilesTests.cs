@@ -18,6 +18,30 @@ public sealed class SampleFilesTests : IDisposable
     private string[] Expect(params string[] relative) => relative.Select(r => Path.Combine(_folder.Path, r)).ToArray();
 
     [Fact]
+    public void A_glob_follows_links_but_enters_every_real_folder_once()
+    {
+        if (OperatingSystem.IsWindows()) return; // symbolic links need privileges there
+        // store/ holds the files; data is a link to it; inside, 'self' points at its own folder, 'deep/loop' at its
+        // parent, 'back' at store through its absolute path: three loops, and a linked folder the walk must enter.
+        var store = Path.Combine(_folder.Path, "store");
+        Directory.CreateDirectory(Path.Combine(store, "deep"));
+        File.WriteAllText(Path.Combine(store, "a.parquet"), "");
+        File.WriteAllText(Path.Combine(store, "deep", "b.parquet"), "");
+        Directory.CreateSymbolicLink(Path.Combine(_folder.Path, "data"), store);
+        Directory.CreateSymbolicLink(Path.Combine(store, "self"), ".");
+        Directory.CreateSymbolicLink(Path.Combine(store, "deep", "loop"), "..");
+        Directory.CreateSymbolicLink(Path.Combine(store, "back"), store);
+        var elsewhere = Path.Combine(_folder.Path, "elsewhere");
+        Directory.CreateDirectory(elsewhere);
+        File.WriteAllText(Path.Combine(elsewhere, "c.parquet"), "");
+        Directory.CreateSymbolicLink(Path.Combine(store, "linked"), elsewhere);
+
+        var files = SampleFiles.Resolve("data/**/*.parquet", _folder.Path);
+
+        Assert.Equal(Expect("data/a.parquet", "data/deep/b.parquet", "data/linked/c.parquet"), files);
+    }
+
+    [Fact]
     public void FolderGivesItsSampleFilesSortedNotSubfolders()
     {
         Assert.Equal(Expect("run/a.pq", "run/b.parquet", "run/c.csv", "run/x1.parquet"), SampleFiles.Resolve("run", _folder.Path));
