@@ -10,18 +10,22 @@ internal sealed class RegularAxis : Axis
     private readonly double _lower;
     private readonly double _upper;
     private readonly double _scale;
+    private readonly bool _divideFirst;
 
     /// <summary>Creates <paramref name="count"/> equal bins over [lower, upper).</summary>
     public RegularAxis(int count, double lower, double upper)
     {
         if (count < 1) throw new ArgumentOutOfRangeException(nameof(count), "An axis needs at least one bin.");
-        if (!double.IsFinite(lower) || !double.IsFinite(upper) || !(upper > lower))
-            throw new ArgumentException($"Axis limits must be finite and increasing, got [{lower}, {upper}).");
+        if (!double.IsFinite(lower) || !double.IsFinite(upper) || !(upper > lower) || !double.IsFinite(upper - lower))
+            throw new ArgumentException($"Axis limits must be finite and increasing, with a finite width, got [{lower}, {upper}).");
         _lower = lower;
         _upper = upper;
         _scale = count / (upper - lower);
         _edges = new double[count + 1];
-        for (var i = 0; i <= count; i++) _edges[i] = lower + (upper - lower) * i / count;
+        // (upper − lower)·i overflows for widths near the largest double; such axes divide first (and bin by the
+        // scalar lookup, whose stored edges are what the vectorised one would otherwise recompute).
+        _divideFirst = !double.IsFinite((upper - lower) * count);
+        for (var i = 0; i <= count; i++) _edges[i] = _divideFirst ? lower + (upper - lower) / count * i : lower + (upper - lower) * i / count;
         _edges[count] = upper;
     }
 
@@ -49,7 +53,7 @@ internal sealed class RegularAxis : Axis
     public override void Cells(ReadOnlySpan<double> values, Span<int> cells, int nanCell)
     {
         var i = 0;
-        if (Avx.IsSupported) i = CellsAvx(values, cells, nanCell);
+        if (Avx.IsSupported && !_divideFirst) i = CellsAvx(values, cells, nanCell);
         for (; i < values.Length; i++)
         {
             var v = values[i];

@@ -50,6 +50,15 @@ internal static class ReferenceBuilder
             if (stats[i].Count == 0)
                 throw new GateInputException(ErrorCodes.SampleEmpty,
                     $"Feature '{features[i].Name}' (column '{features[i].Column}') has no finite value{(features[i].Spike is null ? "" : " besides its spike")} in the reference sample.", features[i].ColumnLocation);
+            if (!double.IsFinite(max[i] - min[i]))
+                throw new GateInputException(ErrorCodes.SampleColumnType,
+                    $"Feature '{features[i].Name}' (column '{features[i].Column}') spans from {InvariantNumber.Short(min[i])} to {InvariantNumber.Short(max[i])} in the reference sample, " +
+                    "a range wider than a double can hold; rescale it (other units) before building a reference.", features[i].ColumnLocation);
+            var moments = stats[i].Summary();
+            if (!double.IsFinite(moments.Mean) || !double.IsFinite(moments.StandardDeviation))
+                throw new GateInputException(ErrorCodes.SampleColumnType,
+                    $"Feature '{features[i].Name}' (column '{features[i].Column}') reaches {InvariantNumber.Short(Math.Max(Math.Abs(min[i]), Math.Abs(max[i])))} in the reference sample: " +
+                    "its mean or spread (sums of squares) overflows a double; rescale it (other units) before building a reference.", features[i].ColumnLocation);
             if (stats[i].PositiveInfinityCount + stats[i].NegativeInfinityCount > 0)
                 throw new GateInputException(ErrorCodes.SampleColumnType,
                     $"Feature '{features[i].Name}' (column '{features[i].Column}') holds infinite values in the reference sample; a reference must be finite.",

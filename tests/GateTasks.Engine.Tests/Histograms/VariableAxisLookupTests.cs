@@ -51,6 +51,7 @@ public class VariableAxisLookupTests
     [InlineData(50, 25.0, 125.0)]
     [InlineData(7, -0.3, 1e-3)]
     [InlineData(1000, 0.0, 0.1)]
+    [InlineData(65_536, -8e307, 8e307)] // (upper − lower)·count overflows: edges are computed dividing first
     public void A_regular_axis_bins_a_block_where_a_binary_search_over_its_edges_does(int bins, double lower, double upper)
     {
         // The block-wise (vectorised where the processor allows) cells against the textbook placement over the

@@ -94,6 +94,32 @@ public sealed class ReferenceBuilderTests : IDisposable
         Assert.Equal(ErrorCodes.SampleEmpty, e.Code);
     }
 
+    [Theory]
+    [InlineData("inf", "holds infinite values")]
+    [InlineData("1.5e308", "a range wider than a double can hold")]
+    [InlineData("3e307", "overflows a double")]
+    public void Extreme_or_infinite_reference_values_are_refused_at_the_column_not_crashed_on(string extreme, string says)
+    {
+        // Alternating signs: the range, or the sum of squares, passes the largest double (1.8e308, IEEE 754).
+        var contract = Contract("  - name: x\n");
+        var csv = Csv(40, i => (i % 2 == 0 ? "" : "-") + (i < 4 ? extreme : (i * 0.1).ToString(CultureInfo.InvariantCulture)), "x");
+        var e = Assert.Throws<GateInputException>(() => ReferenceBuilder.Build(contract, [csv], null, "test"));
+        Assert.Equal(ErrorCodes.SampleColumnType, e.Code);
+        Assert.Contains(says, e.Message);
+        Assert.Equal(contract.Features[0].ColumnLocation, e.Location);
+    }
+
+    [Fact]
+    public void Large_but_representable_values_build_a_reference_with_finite_edges()
+    {
+        var contract = Contract("  - name: x\n");
+        var csv = Csv(2_000, i => ((i - 1000) * 1e140).ToString("R", CultureInfo.InvariantCulture), "x");
+        var r = ReferenceBuilder.Build(contract, [csv], null, "test");
+        var h = r.Find("x")!.Histogram;
+        Assert.All(h.Axis.Edges.ToArray(), e => Assert.True(double.IsFinite(e)));
+        Assert.Equal(2_000, h.TotalSumW);
+    }
+
     [Fact]
     public void A_file_that_is_not_a_reference_is_refused_with_its_name()
     {
