@@ -50,6 +50,11 @@ internal static class ContractLoader
             throw new GateInputException(ErrorCodes.ContractSyntax, $"Not valid YAML: {InnerMessage(e)}",
                 new SourceLocation(path, (int)e.Start.Line, (int)e.Start.Column));
         }
+        catch (Exception e) when (e is InvalidOperationException or ArgumentException)
+        {
+            // YamlDotNet gives up this way on some malformed text (found by fuzzing), without a position.
+            throw new GateInputException(ErrorCodes.ContractSyntax, $"Not valid YAML: {e.Message}", new SourceLocation(path, 1, 1));
+        }
         if (stream.Documents.Count != 1)
             throw new GateInputException(ErrorCodes.ContractSyntax,
                 stream.Documents.Count == 0 ? "The contract is empty." : "The contract must be a single YAML document.",

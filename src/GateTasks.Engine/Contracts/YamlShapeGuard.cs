@@ -25,11 +25,13 @@ internal static class YamlShapeGuard
         var open = new Stack<(string? Anchor, long Nodes)>();
         open.Push((null, 0));
         var sizes = new Dictionary<string, long>(StringComparer.Ordinal);
+        var lastRead = Mark.Empty;
         try
         {
             while (parser.MoveNext())
             {
                 var current = parser.Current!;
+                lastRead = current.End;
                 switch (current)
                 {
                     case MappingStart or SequenceStart:
@@ -55,6 +57,11 @@ internal static class YamlShapeGuard
         catch (YamlException)
         {
             // Not valid YAML: the loading that follows reports it, with the same words as for any other contract.
+        }
+        catch (InvalidOperationException)
+        {
+            // YamlDotNet's scanner gives up this way on some malformed text (found by fuzzing): still bad YAML, here.
+            throw Refuse(path, lastRead, "Not valid YAML: the text after this point cannot be read.");
         }
     }
 
