@@ -114,16 +114,29 @@ internal static class ContractCheck
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         var pairs = accumulation.Pairs;
         var joint = accumulation.Joint;
-        var measured = new List<(FeatureSpec, CheckSpec, Measurement)>();
-        var comparisons = new List<FeatureComparison>();
-        for (var i = 0; i < contract.Features.Count; i++)
+        // Features are measured side by side (each reads only its own histogram and summary, and every bootstrap has
+        // its own seed), then gathered in contract order: the same measurements whatever the thread count.
+        var n = contract.Features.Count;
+        var comparisonOf = new FeatureComparison[n];
+        var measuredOf = new (FeatureSpec, CheckSpec, Measurement)[n][];
+        var failures = new Exception?[n];
+        Parallel.For(0, n, i =>
         {
-            var comparison = new FeatureComparison(contract.Features[i], references[i], accumulation.Histogram(i), accumulation.Summary(i), cores[i],
-                accumulation.Spike(i), accumulation.FarTail(i));
-            comparisons.Add(comparison);
-            foreach (var check in contract.Features[i].Checks)
-                measured.Add((contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision)));
-        }
+            try
+            {
+                var comparison = new FeatureComparison(contract.Features[i], references[i], accumulation.Histogram(i), accumulation.Summary(i), cores[i],
+                    accumulation.Spike(i), accumulation.FarTail(i));
+                comparisonOf[i] = comparison;
+                measuredOf[i] = contract.Features[i].Checks.Select(check => (contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision))).ToArray();
+            }
+            catch (Exception e)
+            {
+                failures[i] = e;
+            }
+        });
+        if (Array.Find(failures, f => f is not null) is { } failure) System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(failure);
+        var comparisons = comparisonOf.ToList();
+        var measured = measuredOf.SelectMany(m => m).ToList();
         foreach (var pair in pairs)
         {
             var stored = reference.FindPair(pair.Spec.First, pair.Spec.Second)
