@@ -82,4 +82,45 @@ public sealed class UnfinishedReportTests : IDisposable
         Assert.Contains("has not finished", root.Descendants("error").Single().Attribute("message")!.Value);
         Assert.Empty(Directory.EnumerateFiles(_dir, "*.tmp")); // nothing half-written beside it either
     }
+
+    [Fact]
+    public async Task Two_checks_writing_one_report_folder_at_once_leave_whole_reports()
+    {
+        // Two builds of one project (say, two target frameworks or two CI jobs on a shared folder) check at the same
+        // time into the same report paths: each report is renamed into place whole, so the survivor parses.
+        var contractPath = Path.Combine(_dir, DemoContract.FileName);
+        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet")
+            .Replace("subsample: 1000", "subsample: 300"));
+        var contract = ContractLoader.Load(contractPath);
+        var fullsim = Path.Combine(_dir, "fullsim.parquet");
+        DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 200_000, 41, 50_000);
+        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [fullsim], contract.Sample.Weight, "test"));
+        DemoSampleWriter.Write(Path.Combine(_dir, "surrogate.parquet"), DemoScenarioParameters.FullSimulation, 200_000, 42, 50_000);
+        var reports = Path.Combine(_dir, "reports");
+        string[] Args() => [typeof(GateTasks.Cli.CliApp).Assembly.Location, "check", "--contract", contractPath,
+            "--junit", Path.Combine(reports, "gate.junit.xml"), "--html", Path.Combine(reports, "gate.html"), "--markdown", Path.Combine(reports, "gate.md")];
+
+        var runs = Enumerable.Range(0, 2).Select(_ =>
+        {
+            var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true };
+            foreach (var a in Args()) psi.ArgumentList.Add(a);
+            var p = Process.Start(psi)!;
+            return (Process: p, Out: p.StandardOutput.ReadToEndAsync(), Err: p.StandardError.ReadToEndAsync());
+        }).ToList();
+        foreach (var (process, output, error) in runs)
+        {
+            using var timeout = new CancellationTokenSource(TimeSpan.FromMinutes(2));
+            await process.WaitForExitAsync(timeout.Token);
+            var said = await output + await error;
+            Assert.True(process.ExitCode is 0 or 1 or 4, $"exit {process.ExitCode}: {said}");
+            process.Dispose();
+        }
+
+        var root = XDocument.Load(Path.Combine(reports, "gate.junit.xml")).Root!;
+        Assert.Equal("0", root.Attribute("errors")!.Value); // a finished verdict, not the "did not finish" placeholder
+        Assert.True(int.Parse(root.Attribute("tests")!.Value, System.Globalization.CultureInfo.InvariantCulture) > 50);
+        Assert.EndsWith("</html>", File.ReadAllText(Path.Combine(reports, "gate.html")).TrimEnd());
+        Assert.StartsWith("### GateTasks check", File.ReadAllText(Path.Combine(reports, "gate.md")));
+        Assert.Empty(Directory.EnumerateFiles(reports, "*.tmp"));
+    }
 }
