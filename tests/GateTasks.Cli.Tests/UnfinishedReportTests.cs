@@ -19,6 +19,33 @@ public sealed class UnfinishedReportTests : IDisposable
         try { Directory.Delete(_dir, recursive: true); } catch (IOException) { }
     }
 
+    /// <summary>
+    /// The demo's contract over a faithful sample of <paramref name="sampleEvents"/> events, with a reference from
+    /// 200 000 others (seeds <paramref name="seed"/> and the next); the contract's path.
+    /// </summary>
+    private string DemoSetup(int seed, int sampleEvents, int rowGroup, int subsample)
+    {
+        var contractPath = Path.Combine(_dir, DemoContract.FileName);
+        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet")
+            .Replace("subsample: 1000", $"subsample: {subsample}"));
+        var contract = ContractLoader.Load(contractPath);
+        var fullsim = Path.Combine(_dir, "fullsim.parquet");
+        DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 200_000, seed, 50_000);
+        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [fullsim], contract.Sample.Weight, "test"));
+        DemoSampleWriter.Write(Path.Combine(_dir, "surrogate.parquet"), DemoScenarioParameters.FullSimulation, sampleEvents, seed + 1, rowGroup);
+        return contractPath;
+    }
+
+    // 'gatetasks check' in a process of its own (as a build runs it), its output read as it comes.
+    private static (Process Process, Task<string> Out, Task<string> Err) StartCheck(string contractPath, params string[] reportOptions)
+    {
+        var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true };
+        foreach (var a in new[] { typeof(GateTasks.Cli.CliApp).Assembly.Location, "check", "--contract", contractPath }.Concat(reportOptions))
+            psi.ArgumentList.Add(a);
+        var process = Process.Start(psi)!;
+        return (process, process.StandardOutput.ReadToEndAsync(), process.StandardError.ReadToEndAsync());
+    }
+
     private static readonly string PassingJUnit =
         """<testsuites name="gatetasks" tests="1" failures="0" errors="0" skipped="0"><testsuite name="old" tests="1" failures="0" errors="0"><testcase classname="x" name="y" /></testsuite></testsuites>""";
 
@@ -52,23 +79,12 @@ public sealed class UnfinishedReportTests : IDisposable
     [Fact]
     public void Killing_a_check_mid_run_leaves_a_report_that_says_it_did_not_finish()
     {
-        var contractPath = Path.Combine(_dir, DemoContract.FileName);
-        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet"));
-        var contract = ContractLoader.Load(contractPath);
-        var fullsim = Path.Combine(_dir, "fullsim.parquet");
-        DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 200_000, 31, 50_000);
-        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [fullsim], contract.Sample.Weight, "test"));
-        // Large enough that reading it takes seconds: the kill lands while the check reads.
-        DemoSampleWriter.Write(Path.Combine(_dir, "surrogate.parquet"), DemoScenarioParameters.FullSimulation, 3_000_000, 32, 100_000);
+        // A sample large enough that reading it takes seconds: the kill lands while the check reads.
+        var contractPath = DemoSetup(seed: 31, sampleEvents: 3_000_000, rowGroup: 100_000, subsample: 1000);
         var junit = Path.Combine(_dir, "r.junit.xml");
         File.WriteAllText(junit, PassingJUnit);
 
-        var cli = typeof(GateTasks.Cli.CliApp).Assembly.Location;
-        var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true };
-        foreach (var a in new[] { cli, "check", "--contract", contractPath, "--junit", junit }) psi.ArgumentList.Add(a);
-        using var process = Process.Start(psi)!;
-        _ = process.StandardOutput.ReadToEndAsync();
-        _ = process.StandardError.ReadToEndAsync();
+        using var process = StartCheck(contractPath, "--junit", junit).Process;
         var clock = Stopwatch.StartNew();
         while (!File.ReadAllText(junit).Contains("GATE0003", StringComparison.Ordinal) && clock.Elapsed < TimeSpan.FromSeconds(60))
             Thread.Sleep(20);
@@ -88,25 +104,10 @@ public sealed class UnfinishedReportTests : IDisposable
     {
         // Two builds of one project (say, two target frameworks or two CI jobs on a shared folder) check at the same
         // time into the same report paths: each report is renamed into place whole, so the survivor parses.
-        var contractPath = Path.Combine(_dir, DemoContract.FileName);
-        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet")
-            .Replace("subsample: 1000", "subsample: 300"));
-        var contract = ContractLoader.Load(contractPath);
-        var fullsim = Path.Combine(_dir, "fullsim.parquet");
-        DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 200_000, 41, 50_000);
-        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [fullsim], contract.Sample.Weight, "test"));
-        DemoSampleWriter.Write(Path.Combine(_dir, "surrogate.parquet"), DemoScenarioParameters.FullSimulation, 200_000, 42, 50_000);
+        var contractPath = DemoSetup(seed: 41, sampleEvents: 200_000, rowGroup: 50_000, subsample: 300);
         var reports = Path.Combine(_dir, "reports");
-        string[] Args() => [typeof(GateTasks.Cli.CliApp).Assembly.Location, "check", "--contract", contractPath,
-            "--junit", Path.Combine(reports, "gate.junit.xml"), "--html", Path.Combine(reports, "gate.html"), "--markdown", Path.Combine(reports, "gate.md")];
-
-        var runs = Enumerable.Range(0, 2).Select(_ =>
-        {
-            var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true };
-            foreach (var a in Args()) psi.ArgumentList.Add(a);
-            var p = Process.Start(psi)!;
-            return (Process: p, Out: p.StandardOutput.ReadToEndAsync(), Err: p.StandardError.ReadToEndAsync());
-        }).ToList();
+        var runs = Enumerable.Range(0, 2).Select(_ => StartCheck(contractPath,
+            "--junit", Path.Combine(reports, "gate.junit.xml"), "--html", Path.Combine(reports, "gate.html"), "--markdown", Path.Combine(reports, "gate.md"))).ToList();
         foreach (var (process, output, error) in runs)
         {
             using var timeout = new CancellationTokenSource(TimeSpan.FromMinutes(2));

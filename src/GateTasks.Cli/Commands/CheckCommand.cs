@@ -49,7 +49,7 @@ internal static class CheckCommand
             UnfinishedReport.MarkRunning(reports, contractPath, started);
             try
             {
-                return Check(parse, contractPath, sample, junit, text, html, markdown, partials, stdout, stderr);
+                return Check(contractPath, parse.GetValue(sample), parse.GetValue(partials), reports, stdout, stderr);
             }
             catch (GateInputException e)
             {
@@ -61,31 +61,29 @@ internal static class CheckCommand
         return command;
     }
 
-    private static int Check(ParseResult parse, string contractPath, Option<string?> sample, Option<string?> junit, Option<string?> text,
-        Option<string?> html, Option<string?> markdown, Option<string[]> partials, TextWriter stdout, TextWriter stderr)
+    private static int Check(string contractPath, string? samplePath, string[]? partials, UnfinishedReport.Paths reports,
+        TextWriter stdout, TextWriter stderr)
     {
+        var loaded = ContractLoader.Load(contractPath);
+        var report = partials is { Length: > 0 }
+            ? ContractCheck.RunFromPartials(loaded, ShardCommands.Expand(partials))
+            : ContractCheck.Run(loaded, samplePath, ProgressDisplay.For(stdout, stderr));
+        if (reports.Text is { } textPath)
+            AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
+        var written = new List<string>();
+        if (reports.Html is { } htmlPath)
         {
-            var loaded = ContractLoader.Load(contractPath);
-            var report = parse.GetValue(partials) is { Length: > 0 } parts
-                ? ContractCheck.RunFromPartials(loaded, ShardCommands.Expand(parts))
-                : ContractCheck.Run(loaded, parse.GetValue(sample), ProgressDisplay.For(stdout, stderr));
-            if (parse.GetValue(text) is { } textPath)
-                AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
-            var written = new List<string>();
-            if (parse.GetValue(html) is { } htmlPath)
-            {
-                HtmlReport.Write(htmlPath, report);
-                written.Add($"HTML report: {Path.GetFullPath(htmlPath)}");
-            }
-            if (parse.GetValue(markdown) is { } markdownPath)
-            {
-                MarkdownSummary.Write(markdownPath, report);
-                written.Add($"Markdown summary: {Path.GetFullPath(markdownPath)}");
-            }
-            var exit = Print(report, parse.GetValue(junit), stdout, stderr);
-            foreach (var line in written) stdout.WriteLine(line);
-            return exit;
+            HtmlReport.Write(htmlPath, report);
+            written.Add($"HTML report: {Path.GetFullPath(htmlPath)}");
         }
+        if (reports.Markdown is { } markdownPath)
+        {
+            MarkdownSummary.Write(markdownPath, report);
+            written.Add($"Markdown summary: {Path.GetFullPath(markdownPath)}");
+        }
+        var exit = Print(report, reports.JUnit, stdout, stderr);
+        foreach (var line in written) stdout.WriteLine(line);
+        return exit;
     }
 
     /// <summary>Prints the table, one diagnostic line per failed check, the summary; writes the JUnit report.</summary>

@@ -34,10 +34,10 @@ internal static class YamlShapeGuard
                 lastRead = current.End;
                 switch (current)
                 {
-                    case MappingStart or SequenceStart:
+                    case NodeEvent { } collection and (MappingStart or SequenceStart):
                         if (open.Count > MaxDepth)
                             throw Refuse(path, current.Start, $"The contract nests more than {MaxDepth} levels deep here; no contract needs that.");
-                        open.Push((((NodeEvent)current).Anchor.IsEmpty ? null : ((NodeEvent)current).Anchor.Value, 1));
+                        open.Push((collection.Anchor.IsEmpty ? null : collection.Anchor.Value, 1));
                         break;
                     case MappingEnd or SequenceEnd:
                         var (anchor, nodes) = open.Pop();

@@ -44,25 +44,19 @@ internal static class FeaturePlot
         var edges = bins.Select(b => b.Lower).Append(bins[^1].Upper).ToList();
         var (viewLow, viewHigh) = View(edges, discrete);
         var pad = 0.01 * (viewHigh - viewLow);
-        var x = new BinEdgeAxis(edges)
+        var x = Styled(new BinEdgeAxis(edges)
         {
             Position = AxisPosition.Bottom,
             Title = comparison.Spec.Name + (discrete ? " (one bin per value)" : ""),
             Minimum = viewLow - pad,
             Maximum = viewHigh + pad,
-            AxislineStyle = LineStyle.Solid,
-            AxislineColor = Color(ReportPalette.Muted),
-            TicklineColor = Color(ReportPalette.Muted),
             MinorTickSize = 5,
             MajorTickSize = 8,
-            TickStyle = TickStyle.Outside,
             AxisTitleDistance = 6,
-            IsZoomEnabled = false,
-            IsPanEnabled = false,
-        };
+        }, grid: false);
         if (discrete && bins.Count <= 30) x.MajorStep = 1;
         model.Axes.Add(x);
-        model.Axes.Add(new LinearAxis
+        model.Axes.Add(Styled(new LinearAxis
         {
             Key = MainKey,
             Position = AxisPosition.Left,
@@ -72,19 +66,11 @@ internal static class FeaturePlot
             AxisTitleDistance = 14,
             Minimum = 0,
             MaximumPadding = 0.18,
-            MajorGridlineStyle = LineStyle.Solid,
-            MajorGridlineColor = Color(ReportPalette.Grid),
-            AxislineStyle = LineStyle.Solid,
-            AxislineColor = Color(ReportPalette.Muted),
-            TicklineColor = Color(ReportPalette.Muted),
-            TickStyle = TickStyle.Outside,
             StringFormat = "g3",
-            IsZoomEnabled = false,
-            IsPanEnabled = false,
-        });
+        }, grid: true));
 
         var (low, high) = RatioRange(bins, bands);
-        model.Axes.Add(new LinearAxis
+        model.Axes.Add(Styled(new LinearAxis
         {
             Key = RatioKey,
             Position = AxisPosition.Left,
@@ -94,22 +80,31 @@ internal static class FeaturePlot
             AxisTitleDistance = 14,
             Minimum = low,
             Maximum = high,
-            MajorGridlineStyle = LineStyle.Solid,
-            MajorGridlineColor = Color(ReportPalette.Grid),
-            AxislineStyle = LineStyle.Solid,
-            AxislineColor = Color(ReportPalette.Muted),
-            TicklineColor = Color(ReportPalette.Muted),
-            TickStyle = TickStyle.Outside,
             StringFormat = "0.###",
             MaximumMajorIntervalCount = 4,
-            IsZoomEnabled = false,
-            IsPanEnabled = false,
-        });
+        }, grid: true));
 
         AddBands(model, bands);
         AddDistributions(model, bins, viewLow, viewHigh);
         AddRatios(model, bins, bands, low, high, viewLow, viewHigh);
         return model;
+    }
+
+    // The look every axis of the plot shares: muted solid axis lines, ticks outside, fixed (a static SVG cannot zoom).
+    private static T Styled<T>(T axis, bool grid) where T : OxyPlot.Axes.Axis
+    {
+        axis.AxislineStyle = LineStyle.Solid;
+        axis.AxislineColor = Color(ReportPalette.Muted);
+        axis.TicklineColor = Color(ReportPalette.Muted);
+        axis.TickStyle = TickStyle.Outside;
+        axis.IsZoomEnabled = false;
+        axis.IsPanEnabled = false;
+        if (grid)
+        {
+            axis.MajorGridlineStyle = LineStyle.Solid;
+            axis.MajorGridlineColor = Color(ReportPalette.Grid);
+        }
+        return axis;
     }
 
     private static void AddDistributions(PlotModel model, IReadOnlyList<ComparedBin> bins, double viewLow, double viewHigh)

@@ -19,7 +19,7 @@ internal static class UnfinishedReport
 
     /// <summary>Marks every requested report as under way (started at <paramref name="started"/>).</summary>
     public static void MarkRunning(Paths paths, string contractPath, DateTimeOffset started) =>
-        WriteAll(paths, contractPath, started, ErrorCodes.CheckUnfinished, "the check started at " + Timestamp(started) +
+        WriteAll(paths, contractPath, started, ErrorCodes.CheckUnfinished, "the check started at " + JUnitReport.Timestamp(started) +
             " and has not finished; if this report stays, the check was stopped before it could write its result", null);
 
     /// <summary>Replaces every requested report with one saying the check stopped on <paramref name="error"/>.</summary>
@@ -45,16 +45,16 @@ internal static class UnfinishedReport
         var sb = new StringBuilder();
         using (var w = XmlWriter.Create(new StringWriterUtf8(sb), settings))
         {
+            // One test, in error, at both levels.
+            (string, string)[] counts = [("tests", "1"), ("failures", "0"), ("errors", "1"), ("skipped", "0"), ("time", "0")];
             w.WriteStartElement("testsuites");
             w.WriteAttributeString("name", "gatetasks");
-            foreach (var (name, value) in new[] { ("tests", "1"), ("failures", "0"), ("errors", "1"), ("skipped", "0"), ("time", "0") })
-                w.WriteAttributeString(name, value);
-            w.WriteAttributeString("timestamp", Timestamp(started));
+            foreach (var (name, value) in counts) w.WriteAttributeString(name, value);
+            w.WriteAttributeString("timestamp", JUnitReport.Timestamp(started));
             w.WriteStartElement("testsuite");
             w.WriteAttributeString("name", JUnitReport.Clean(Path.GetFileName(contractPath)));
-            foreach (var (name, value) in new[] { ("tests", "1"), ("failures", "0"), ("errors", "1"), ("skipped", "0"), ("time", "0") })
-                w.WriteAttributeString(name, value);
-            w.WriteAttributeString("timestamp", Timestamp(started));
+            foreach (var (name, value) in counts) w.WriteAttributeString(name, value);
+            w.WriteAttributeString("timestamp", JUnitReport.Timestamp(started));
             w.WriteStartElement("testcase");
             w.WriteAttributeString("classname", "gatetasks");
             w.WriteAttributeString("name", "check");
@@ -70,6 +70,4 @@ internal static class UnfinishedReport
         }
         return sb.ToString();
     }
-
-    private static string Timestamp(DateTimeOffset t) => JUnitReport.Timestamp(t);
 }

@@ -41,7 +41,7 @@ internal abstract class ParquetColumnDecoder
     /// </summary>
     public abstract void Convert(Span<double> destination);
 
-    private sealed class Typed<T>(DataField field) : ParquetColumnDecoder where T : struct
+    private sealed class Typed<T>(DataField field) : ParquetColumnDecoder where T : unmanaged
     {
         private T[] _values = [];
         private int[] _definitionLevels = [];
@@ -69,12 +69,11 @@ internal abstract class ParquetColumnDecoder
 
             _nextRow = 0;
             _nextValue = 0;
-            // The common case (float, double, int or long, stored PLAIN) is read without a copy per page; the rest by
-            // Parquet.Net.
-            if (typeof(T) == typeof(float) && TryReadPlain<float>(metadata, rows, file, plain)) return;
-            if (typeof(T) == typeof(double) && TryReadPlain<double>(metadata, rows, file, plain)) return;
-            if (typeof(T) == typeof(int) && TryReadPlain<int>(metadata, rows, file, plain)) return;
-            if (typeof(T) == typeof(long) && TryReadPlain<long>(metadata, rows, file, plain)) return;
+            // The common case (float, double, int or long, stored PLAIN: what Supports accepts) is read without a copy
+            // per page; the rest by Parquet.Net.
+            if (PlainChunkReader.Supports<T>(metadata)
+                && plain.TryRead(file, metadata, field.MaxDefinitionLevel, rows, _values.AsSpan(0, rows), _definitionLevels.AsSpan(0, nullable ? rows : 0)))
+                return;
 
             // The raw read fills the values densely (nulls skipped) plus one definition level per row, into our
             // buffers; the library's nullable overload would allocate two temporary buffers per row group.
@@ -85,13 +84,6 @@ internal abstract class ParquetColumnDecoder
                     null)
                 .AsTask().GetAwaiter().GetResult();
         }
-
-        private bool TryReadPlain<TStored>(Parquet.Meta.ColumnMetaData metadata, int rows, Microsoft.Win32.SafeHandles.SafeFileHandle file, PlainChunkReader plain)
-            where TStored : unmanaged =>
-            PlainChunkReader.Supports<TStored>(metadata)
-            && plain.TryRead(file, metadata, field.MaxDefinitionLevel, rows,
-                System.Runtime.InteropServices.MemoryMarshal.Cast<T, TStored>(_values.AsSpan(0, rows)),
-                _definitionLevels.AsSpan(0, field.MaxDefinitionLevel > 0 ? rows : 0));
 
         public override void Convert(Span<double> destination)
         {

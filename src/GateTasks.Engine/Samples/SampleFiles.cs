@@ -23,9 +23,7 @@ internal static class SampleFiles
         if (string.IsNullOrWhiteSpace(pattern))
             throw new GateInputException(ErrorCodes.SampleNotFound, "no sample file given (the sample pattern is empty)");
 
-        var baseFull = System.IO.Path.GetFullPath(baseDirectory);
-        var combined = System.IO.Path.IsPathRooted(pattern) ? pattern : System.IO.Path.Combine(baseFull, pattern);
-        var wildcard = combined.IndexOfAny(['*', '?']);
+        var (baseFull, combined, wildcard) = Absolute(pattern, baseDirectory);
         return wildcard < 0 ? ResolvePath(pattern, baseFull, combined) : ResolveGlob(pattern, baseFull, combined, wildcard);
     }
 
@@ -36,15 +34,9 @@ internal static class SampleFiles
     /// </summary>
     public static IReadOnlyList<string> Dependencies(string pattern, string baseDirectory)
     {
-        var baseFull = System.IO.Path.GetFullPath(baseDirectory);
-        var combined = System.IO.Path.IsPathRooted(pattern) ? pattern : System.IO.Path.Combine(baseFull, pattern);
-        var wildcard = combined.IndexOfAny(['*', '?']);
-        if (wildcard < 0)
-        {
-            return [System.IO.Path.GetFullPath(combined)];
-        }
-        var separator = combined.LastIndexOfAny(Separators, wildcard);
-        var root = System.IO.Path.TrimEndingDirectorySeparator(System.IO.Path.GetFullPath(separator < 0 ? baseFull : combined[..(separator + 1)]));
+        var (baseFull, combined, wildcard) = Absolute(pattern, baseDirectory);
+        if (wildcard < 0) return [System.IO.Path.GetFullPath(combined)];
+        var (root, _) = SplitGlob(baseFull, combined, wildcard);
         if (!Directory.Exists(root)) return [root];
         // Every folder below the root, walked as the glob walks it (links followed, each real folder once): a glob may
         // reach into any of them (conservative for globs without '**').
@@ -58,6 +50,23 @@ internal static class SampleFiles
                 pending.Push(sub);
             }
         return [folders[0], .. folders.Skip(1).Order(StringComparer.Ordinal)];
+    }
+
+    // The pattern made absolute against the base folder, and where its first wildcard is (−1: none).
+    private static (string BaseFull, string Combined, int Wildcard) Absolute(string pattern, string baseDirectory)
+    {
+        var baseFull = System.IO.Path.GetFullPath(baseDirectory);
+        var combined = System.IO.Path.IsPathRooted(pattern) ? pattern : System.IO.Path.Combine(baseFull, pattern);
+        return (baseFull, combined, combined.IndexOfAny(['*', '?']));
+    }
+
+    // The part before the first wildcard's folder is a plain path: the root the glob is matched under; the rest is
+    // the glob relative to it.
+    private static (string Root, string Relative) SplitGlob(string baseFull, string combined, int wildcard)
+    {
+        var separator = combined.LastIndexOfAny(Separators, wildcard);
+        var root = System.IO.Path.TrimEndingDirectorySeparator(System.IO.Path.GetFullPath(separator < 0 ? baseFull : combined[..(separator + 1)]));
+        return (root, combined[(separator + 1)..]);
     }
 
     private static string[] ResolvePath(string pattern, string baseFull, string combined)
@@ -82,10 +91,7 @@ internal static class SampleFiles
 
     private static string[] ResolveGlob(string pattern, string baseFull, string combined, int wildcard)
     {
-        // The part before the first wildcard's folder is a plain path: the root the glob is matched under.
-        var separator = combined.LastIndexOfAny(Separators, wildcard);
-        var root = System.IO.Path.GetFullPath(separator < 0 ? baseFull : combined[..(separator + 1)]);
-        var relative = combined[(separator + 1)..];
+        var (root, relative) = SplitGlob(baseFull, combined, wildcard);
         if (OperatingSystem.IsWindows()) relative = relative.Replace('\\', '/');
 
         string[] files = [];
