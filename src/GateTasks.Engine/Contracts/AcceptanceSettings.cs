@@ -8,7 +8,8 @@ namespace GateTasks.Engine.Contracts;
 /// <see cref="RecordTightening"/> a tightened tolerance needs an entry too (by default only loosening does). With
 /// <see cref="Ratchet"/> a check whose margin fell below the last accepted one by more than its noise fails.
 /// </summary>
-internal sealed record AcceptanceSettings(string LedgerPath, bool Required, bool RecordTightening, bool Ratchet, SourceLocation? Location)
+internal sealed record AcceptanceSettings(string LedgerPath, bool Required, bool RecordTightening, bool Ratchet, SourceLocation? Location,
+    SourceLocation? LedgerLocation = null)
 {
     /// <summary>The ledger's default name: the contract's file name with <c>.ledger</c> for its extension.</summary>
     public static string DefaultLedgerName(string contractPath) => Path.GetFileNameWithoutExtension(contractPath) + ".ledger";

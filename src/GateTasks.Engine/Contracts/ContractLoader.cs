@@ -32,7 +32,9 @@ internal static class ContractLoader
                     : $"Contract file cannot be read: {e.Message}",
                 new SourceLocation(path));
         }
-        return Parse(text, path);
+        var contract = Parse(text, path);
+        RepositoryBoundary.Verify(contract);
+        return contract;
     }
 
     /// <summary>Parses contract text; <paramref name="path"/> names the file in messages and anchors relative paths.</summary>
@@ -324,7 +326,7 @@ internal static class ContractLoader
                 case ContractKeys.Ledger:
                     var ledger = r.String(value, "acceptance.ledger");
                     if (ledger.Length == 0) throw r.Error(ErrorCodes.ContractBadValue, value, "acceptance.ledger needs a file name.");
-                    a = a with { LedgerPath = ledger };
+                    a = a with { LedgerPath = ledger, LedgerLocation = r.At(value) };
                     break;
                 case ContractKeys.Required:
                     a = a with { Required = Switch("acceptance.required") };

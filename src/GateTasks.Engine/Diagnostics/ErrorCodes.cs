@@ -32,6 +32,8 @@ public static class ErrorCodes
     public const string ContractVersion = "GATE1008";
     /// <summary>An expression (derived feature or selection) that does not parse or names something unknown.</summary>
     public const string ContractExpression = "GATE1009";
+    /// <summary>The reference or acceptance ledger lies outside the repository that holds the contract.</summary>
+    public const string ContractPathOutsideRepository = "GATE1010";
 
     /// <summary>No sample file matches, or a sample file does not exist.</summary>
     public const string SampleNotFound = "GATE2001";
