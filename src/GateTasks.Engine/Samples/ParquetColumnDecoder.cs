@@ -75,6 +75,7 @@ internal abstract class ParquetColumnDecoder
                 && plain.TryRead(file, metadata, field.MaxDefinitionLevel, rows, _values.AsSpan(0, rows), _definitionLevels.AsSpan(0, nullable ? rows : 0)))
                 return;
 
+            plain.VerifyChecksums(file, metadata);
             // The raw read fills the values densely (nulls skipped) plus one definition level per row, into our
             // buffers; the library's nullable overload would allocate two temporary buffers per row group.
             rowGroup.ReadRawAsync<T>(

@@ -2,7 +2,8 @@ namespace GateTasks.Engine.Samples;
 
 /// <summary>
 /// What the plain-column reader needs of a Parquet page header (parquet-format's <c>PageHeader</c> with its data-page
-/// headers v1 and v2), read with <see cref="ThriftCompactReader"/>; the rest (statistics, CRC) is skipped.
+/// headers v1 and v2), read with <see cref="ThriftCompactReader"/>; the rest (statistics) is skipped. <see cref="Crc"/>
+/// is the page's optional CRC-32 (parquet-format: over the page's bytes as stored, after the header).
 /// </summary>
 internal readonly record struct ParquetPageHeader(
     int Type,
@@ -13,7 +14,8 @@ internal readonly record struct ParquetPageHeader(
     int DefinitionLevelEncoding,
     int DefinitionLevelsLength,
     int RepetitionLevelsLength,
-    bool ValuesCompressed)
+    bool ValuesCompressed,
+    uint? Crc)
 {
     /// <summary>parquet-format page types.</summary>
     public const int DataPage = 0, IndexPage = 1, DictionaryPage = 2, DataPageV2 = 3;
@@ -25,6 +27,7 @@ internal readonly record struct ParquetPageHeader(
         int type = -1, uncompressed = -1, compressed = -1, values = -1, encoding = -1, definitionEncoding = -1;
         int definitionLength = 0, repetitionLength = 0;
         var valuesCompressed = true;
+        uint? crc = null;
         short last = 0;
         while (true)
         {
@@ -36,6 +39,7 @@ internal readonly record struct ParquetPageHeader(
                 case 1 when kind == ThriftCompactReader.I32: type = reader.ReadInt32(); break;
                 case 2 when kind == ThriftCompactReader.I32: uncompressed = reader.ReadInt32(); break;
                 case 3 when kind == ThriftCompactReader.I32: compressed = reader.ReadInt32(); break;
+                case 4 when kind == ThriftCompactReader.I32: crc = unchecked((uint)reader.ReadInt32()); break;
                 case 5 when kind == ThriftCompactReader.Struct:
                 {
                     // DataPageHeader: 1 num_values, 2 encoding, 3 definition_level_encoding, 4 repetition_level_encoding.
@@ -82,6 +86,6 @@ internal readonly record struct ParquetPageHeader(
         if (type < 0 || uncompressed < 0 || compressed < 0 || definitionLength < 0 || repetitionLength < 0)
             throw new InvalidDataException("a page header lacks its type or sizes");
         return new ParquetPageHeader(type, uncompressed, compressed, values, encoding, definitionEncoding,
-            definitionLength, repetitionLength, valuesCompressed);
+            definitionLength, repetitionLength, valuesCompressed, crc);
     }
 }

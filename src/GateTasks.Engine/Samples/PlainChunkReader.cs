@@ -45,21 +45,9 @@ internal sealed class PlainChunkReader
     public bool TryRead<T>(SafeFileHandle file, ColumnMetaData metadata, int maxDefinitionLevel, int rows, Span<T> values, Span<int> levels)
         where T : unmanaged
     {
-        var start = metadata.DataPageOffset;
-        var length = metadata.TotalCompressedSize;
-        if (start < 4 || length <= 0 || length > Array.MaxLength || start > RandomAccess.GetLength(file) - length)
-            throw new InvalidDataException($"column chunk at byte {start} of {length} bytes lies outside the file");
-        if (_chunk.Length < length) _chunk = new byte[length];
-        var chunk = _chunk.AsSpan(0, (int)length);
-        for (var read = 0; read < chunk.Length;)
-        {
-            var n = RandomAccess.Read(file, chunk[read..], start + read);
-            if (n == 0) throw new InvalidDataException("the file ends inside a column chunk");
-            read += n;
-        }
-
+        var chunk = Load(file, metadata);
         var bitWidth = maxDefinitionLevel == 0 ? 0 : 32 - int.LeadingZeroCount(maxDefinitionLevel);
-        int position = 0, decoded = 0, dense = 0;
+        int position = 0, decoded = 0, dense = 0, pageNumber = 1;
         while (decoded < rows)
         {
             if (position >= chunk.Length) break;
@@ -69,6 +57,7 @@ internal sealed class PlainChunkReader
                 throw new InvalidDataException($"a page of {header.CompressedSize} bytes runs past its column chunk");
             var dataOffset = position;
             position += header.CompressedSize;
+            VerifyChecksum(header, chunk.Slice(dataOffset, header.CompressedSize), pageNumber++);
             if (header.Type is ParquetPageHeader.IndexPage) continue;
             if (header.Type is not (ParquetPageHeader.DataPage or ParquetPageHeader.DataPageV2)) return false; // a dictionary page
             if (header.Encoding != PlainEncoding) return false;
@@ -130,6 +119,53 @@ internal sealed class PlainChunkReader
         }
         if (decoded != rows) throw new InvalidDataException($"the column chunk holds {decoded} of its {rows} rows");
         return true;
+    }
+
+    /// <summary>
+    /// Verifies the CRC-32 of every page of a chunk that stores one (for chunks read by Parquet.Net, which does not):
+    /// a flipped bit in a page with a checksum is an <see cref="InvalidDataException"/>, never a changed value.
+    /// </summary>
+    public void VerifyChecksums(SafeFileHandle file, ColumnMetaData metadata)
+    {
+        var chunk = Load(file, metadata);
+        for (int position = 0, pageNumber = 1; position < chunk.Length; pageNumber++)
+        {
+            var header = ParquetPageHeader.Read(chunk[position..], out var headerLength);
+            position += headerLength;
+            if (header.CompressedSize > chunk.Length - position)
+                throw new InvalidDataException($"a page of {header.CompressedSize} bytes runs past its column chunk");
+            VerifyChecksum(header, chunk.Slice(position, header.CompressedSize), pageNumber);
+            position += header.CompressedSize;
+        }
+    }
+
+    // parquet-format: the CRC-32 (ISO-HDLC polynomial, as zlib computes it) of the page's bytes as stored.
+    private static void VerifyChecksum(in ParquetPageHeader header, ReadOnlySpan<byte> stored, int pageNumber)
+    {
+        if (header.Crc is not { } expected) return;
+        var actual = System.IO.Hashing.Crc32.HashToUInt32(stored);
+        if (actual != expected)
+            throw new InvalidDataException($"page {pageNumber} of the column chunk fails its CRC-32 checksum (stored {expected:x8}, computed {actual:x8}): the file was damaged after it was written");
+    }
+
+    /// <summary>Reads a column chunk's bytes into the reused buffer.</summary>
+    private Span<byte> Load(SafeFileHandle file, ColumnMetaData metadata)
+    {
+        // A chunk starts at its dictionary page where it has one.
+        var start = metadata.DictionaryPageOffset is > 0 and var d && d < metadata.DataPageOffset ? d : metadata.DataPageOffset;
+        var length = metadata.TotalCompressedSize;
+        if (start < 4 || length <= 0 || length > Array.MaxLength || start > RandomAccess.GetLength(file) - length)
+            throw new InvalidDataException($"column chunk at byte {start} of {length} bytes lies outside the file");
+        if (_chunk.Length < length) _chunk = new byte[length];
+        var chunk = _chunk.AsSpan(0, (int)length);
+        for (var read = 0; read < chunk.Length;)
+        {
+            var n = RandomAccess.Read(file, chunk[read..], start + read);
+            if (n == 0) throw new InvalidDataException("the file ends inside a column chunk");
+            read += n;
+        }
+
+        return chunk;
     }
 
     private ReadOnlySpan<byte> Decompress(CompressionCodec codec, int offset, int length, int uncompressed)
