@@ -186,6 +186,21 @@ public class BuildStepTests(PackageFeed feed)
     }
 
     [Fact]
+    public void A_sample_error_is_an_msbuild_error_at_the_file_line_and_column_with_a_report_that_says_so()
+    {
+        // The corpus case csv-cell-not-a-number (tests/corpus), through the build step instead of the program.
+        var p = GateProject.Create(feed, "BadCellGate");
+        var columns = GateTasks.Engine.Demo.DemoColumns.All;
+        var good = string.Join(',', columns.Select(_ => "1"));
+        var bad = string.Join(',', columns.Select((_, i) => i == 1 ? "high" : "1"));
+        File.WriteAllText(Path.Combine(p.Directory, "words.csv"), $"{string.Join(',', columns)}\n{good}\n{bad}\n");
+        var (code, output) = p.Build("-p:GateSample=words.csv", "-p:GateFailuresAsWarnings=true");
+        Assert.NotEqual(0, code);
+        Assert.True(Regex.IsMatch(output, $@"words\.csv\(3,3\): error GATE2006: 'high' in column '{columns[1]}'"), output);
+        Assert.Contains("GATE2006", File.ReadAllText(p.JUnitReport));
+    }
+
+    [Fact]
     public void A_multi_targeted_project_checks_once()
     {
         var p = GateProject.Create(feed, "MultiGate");

@@ -94,7 +94,7 @@ internal static class ContractCheck
         sample.Progress = progress;
         sample.Phase = "checking the sample";
         ValidateColumns(contract, sample);
-        return new OpenedSample(sample, FeatureInputs.Compile(contract, sample.Columns.Select(c => c.Name).ToList()));
+        return new OpenedSample(sample, FeatureInputs.Compile(contract, sample.ColumnNamesInAnyFile));
     }
 
     /// <summary>Streams one sample (or one shard of it) into a new accumulation.</summary>
@@ -198,18 +198,19 @@ internal static class ContractCheck
 
     private static void ValidateColumns(PrecisionContract contract, Sample sample)
     {
-        var available = sample.Columns.Select(c => c.Name).ToList();
+        var available = sample.ColumnNamesInAnyFile;
+        var where = sample.Files.Count == 1 ? $"the sample {Path.GetFileName(sample.Files[0])} does not have" : $"none of the sample's {sample.Files.Count} files has";
         foreach (var f in contract.Features)
         {
             if (f.Expression is not null) continue; // its columns are checked when it is compiled
             if (!available.Contains(f.Column))
                 throw new GateInputException(ErrorCodes.ContractUnknownColumn,
-                    $"Feature '{f.Name}' reads column '{f.Column}', which the sample {Path.GetFileName(sample.Files[0])} does not have{NearestName.Hint(f.Column, available)}.",
+                    $"Feature '{f.Name}' reads column '{f.Column}', which {where}{NearestName.Hint(f.Column, available)}.",
                     f.ColumnLocation);
         }
         if (contract.Sample.Weight is { } w && !available.Contains(w))
             throw new GateInputException(ErrorCodes.ContractUnknownColumn,
-                $"The weight column '{w}' is not in the sample {Path.GetFileName(sample.Files[0])}{NearestName.Hint(w, available)}.",
+                $"The contract weighs events by column '{w}', which {where}{NearestName.Hint(w, available)}.",
                 contract.Sample.WeightLocation);
     }
 }

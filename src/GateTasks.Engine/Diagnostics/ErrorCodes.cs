@@ -52,6 +52,8 @@ public static class ErrorCodes
 
     /// <summary>A feature of the surrogate sample holds NaN or infinite values, and its contract does not allow them.</summary>
     public const string SampleNonFinite = "GATE2008";
+    /// <summary>A continuous feature takes a single value throughout the reference sample.</summary>
+    public const string ReferenceNoSpread = "GATE2009";
     /// <summary>The reference file does not exist.</summary>
     public const string ReferenceNotFound = "GATE2101";
     /// <summary>The reference file is corrupt or of an unsupported format version.</summary>

@@ -32,7 +32,7 @@ internal static class ReferenceBuilder
         var sample = Sample.Open(files);
         sample.Progress = progress;
         sample.Phase = "reference pass 1 (ranges and moments)";
-        var columns = FeatureInputs.Compile(contract, sample.Columns.Select(c => c.Name).ToList());
+        var columns = FeatureInputs.Compile(contract, sample.ColumnNamesInAnyFile);
         var n = features.Count;
 
         // Pass 1: ranges and moments.
@@ -63,6 +63,13 @@ internal static class ReferenceBuilder
                 throw new GateInputException(ErrorCodes.SampleColumnType,
                     $"Feature '{features[i].Name}' (column '{features[i].Column}') holds infinite values in the reference sample; a reference must be finite.",
                     features[i].ColumnLocation);
+            // Binning, quantiles and width checks all need spread; a constant is a spike or a category, said so.
+            if (features[i].Kind == FeatureKind.Continuous && min[i] == max[i])
+                throw new GateInputException(ErrorCodes.ReferenceNoSpread,
+                    $"Feature '{features[i].Name}' (column '{features[i].Column}') takes the single value {InvariantNumber.Short(min[i])} in all {InvariantNumber.Count(stats[i].Count)} events of the reference sample" +
+                    $"{(features[i].Spike is null ? "" : " besides its spike")}: a continuous feature needs spread to be binned and compared. " +
+                    "Declare it 'kind: discrete' (its category fractions are then checked) or drop it.",
+                    features[i].Location);
         }
 
         // Pass 2: fine quantile grids and directly binned histograms.

@@ -98,7 +98,15 @@ internal sealed class CsvSampleReader : ISampleReader
             ErrorCodes.SampleCsvValue,
             $"'{Encoding.UTF8.GetString(cell)}' in column '{name}' (field {field + 1} of the record) is not a number; "
             + "expected a decimal number, an empty cell, nan, inf, -inf, true or false",
-            new SourceLocation(Path, (int)Math.Min(csv.LineNumber, int.MaxValue), field + 1));
+            new SourceLocation(Path, (int)Math.Min(csv.LineNumber, int.MaxValue), CharacterColumn(csv, field)));
+    }
+
+    // The 1-based character column where a field starts: the raw fields before it (quotes and all) and their separators.
+    private static int CharacterColumn(CsvReader csv, int field)
+    {
+        var column = 1;
+        for (var k = 0; k < field; k++) column += Encoding.UTF8.GetCharCount(csv.GetRawSpan(k)) + 1;
+        return column;
     }
 
     private static CsvReader CreateReader(string path)

@@ -28,6 +28,9 @@ internal abstract class ParquetColumnDecoder
         _ => throw new ArgumentOutOfRangeException(nameof(type), type, "not a numeric column type"),
     };
 
+    /// <summary>The column's name, for messages.</summary>
+    public abstract string Column { get; }
+
     /// <summary>
     /// Reads the column's chunk in <paramref name="rowGroup"/> (<paramref name="rows"/> rows) into the decoder's
     /// buffers: through <paramref name="plain"/> (the calling thread's, reading <paramref name="file"/>) where it can,
@@ -47,6 +50,8 @@ internal abstract class ParquetColumnDecoder
         private int[] _definitionLevels = [];
 
         private int _nextRow, _nextValue;
+
+        public override string Column => @field.Name;
 
         public override void Read(ParquetRowGroupReader rowGroup, int rows, Microsoft.Win32.SafeHandles.SafeFileHandle file, PlainChunkReader plain)
         {

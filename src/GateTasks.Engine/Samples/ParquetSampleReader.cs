@@ -150,7 +150,9 @@ internal sealed class ParquetSampleReader : ISampleReader
         if (readers.Length == 1 || decoders.Length < 2) Work(0);
         else Parallel.For(0, readers.Length, new ParallelOptions { MaxDegreeOfParallelism = readers.Length }, Work);
 
-        if (Array.Find(failures, f => f is not null) is not { } failure) return;
+        var failed = Array.FindIndex(failures, f => f is not null);
+        if (failed < 0) return;
+        var failure = failures[failed]!;
         if (failure is GateInputException) System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(failure);
         if (failure is NotSupportedException)
             // A valid file using something this reader cannot decode: say what, not "damaged".
@@ -158,7 +160,7 @@ internal sealed class ParquetSampleReader : ISampleReader
                 Path, $"row group {group + 1} of {_reader.RowGroupCount}: {SampleInputErrors.Describe(failure)}", failure);
         if (SampleInputErrors.IsReadFailure(failure))
             throw SampleInputErrors.Unreadable(
-                Path, $"row group {group + 1} of {_reader.RowGroupCount} is damaged ({SampleInputErrors.Describe(failure)})", failure);
+                Path, $"row group {group + 1} of {_reader.RowGroupCount}, column '{decoders[failed].Column}', is damaged ({SampleInputErrors.Describe(failure)})", failure);
         System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(failure);
     }
 

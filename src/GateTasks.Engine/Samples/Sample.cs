@@ -24,6 +24,12 @@ internal sealed class Sample
     /// <summary>The columns every file has, in the first file's order, with the first file's type.</summary>
     public IReadOnlyList<SampleColumn> Columns { get; }
 
+    /// <summary>
+    /// The names of the columns any file has, in first-seen order. A contract is matched against these, so a column
+    /// that only some files lack is reported at such a file when it is read (GATE2004), not as unknown to the sample.
+    /// </summary>
+    public IReadOnlyList<string> ColumnNamesInAnyFile => _fileColumns.SelectMany(f => f).Select(c => c.Name).Distinct(StringComparer.Ordinal).ToList();
+
     /// <summary>Rows in all files, when every file states its count.</summary>
     public long? TotalRows { get; }
 
@@ -111,7 +117,7 @@ internal sealed class Sample
         var missing = columns.FirstOrDefault(c => _fileColumns[file].All(s => s.Name != c));
         if (missing is null || Files.Count == 1) return "";
         var having = _fileColumns.Count(fc => fc.Any(s => s.Name == missing));
-        return having == 0 ? "" : $"; {having} of the sample's {Files.Count} files have it";
+        return having == 0 ? "" : $"; {having} of the sample's {Files.Count} files {(having == 1 ? "has" : "have")} it";
     }
 
     private static SampleColumn[] CommonColumns(IReadOnlyList<SampleColumn>[] fileColumns) =>

@@ -61,17 +61,17 @@ public sealed class CsvSampleReaderTests : IDisposable
     public void NonNumericCellReportsLineFieldColumnAndValue()
     {
         var path = _folder.File("bad.csv");
-        File.WriteAllText(path, "pt,eta,phi\n1,2,3\n\n4,abc,6\n");
+        File.WriteAllText(path, "pt,eta,phi\n1,2,3\n\n\"4\",abc,6\n");
         using var reader = CsvSampleReader.Open(path);
 
         var error = Assert.Throws<GateInputException>(() => SampleAssert.ReadAll(reader.ReadBatches(["pt", "eta"]), 2));
 
         Assert.Equal(ErrorCodes.SampleCsvValue, error.Code);
-        Assert.Equal(new SourceLocation(path, 4, 2), error.Location); // line 4 of the file (blank line 3 counted), field 2
+        Assert.Equal(new SourceLocation(path, 4, 5), error.Location); // line 4 of the file (blank line 3 counted), character 5 (field 2, after a quoted field)
         Assert.Contains("'abc'", error.Message);
         Assert.Contains("column 'eta'", error.Message);
         Assert.Contains("field 2", error.Message);
-        Assert.StartsWith($"{path}(4,2): error GATE2006:", error.ToDiagnosticLine());
+        Assert.StartsWith($"{path}(4,5): error GATE2006:", error.ToDiagnosticLine());
     }
 
     [Fact]

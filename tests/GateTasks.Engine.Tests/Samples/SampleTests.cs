@@ -47,7 +47,7 @@ public sealed class SampleTests : IDisposable
         Assert.Equal(ErrorCodes.SampleColumnMissing, error.Code);
         Assert.Equal(second, error.Location?.File);
         Assert.Contains("did you mean 'Eta'?", error.Message);
-        Assert.Contains("1 of the sample's 2 files have it", error.Message);
+        Assert.Contains("1 of the sample's 2 files has it", error.Message);
         Assert.Equal(["pt"], sample.Columns.Select(c => c.Name));
     }
 

@@ -1,0 +1,99 @@
+using System.Globalization;
+using ParquetSharp;
+using YamlDotNet.RepresentationModel;
+
+namespace GateTasks.Cli.Tests.Corpus;
+
+/// <summary>The file actions a case's <c>prepare</c> list may take (tests/corpus/README.md); gatetasks commands run elsewhere.</summary>
+internal static class CorpusStep
+{
+    public static void Apply(string kind, YamlMappingNode args, string folder)
+    {
+        string Arg(string key) => CorpusCase.Text(args[key]);
+        string PathOf(string key) => Path.Combine(folder, Arg(key));
+        switch (kind)
+        {
+            case "parquet":
+                var types = args.Children.TryGetValue("types", out var t)
+                    ? ((YamlMappingNode)t).Children.ToDictionary(p => CorpusCase.Text(p.Key), p => CorpusCase.Text(p.Value))
+                    : [];
+                var checksums = args.Children.TryGetValue("checksums", out var c) && CorpusCase.Text(c) == "on";
+                WriteParquet(PathOf("from"), PathOf("to"), types, checksums);
+                break;
+            case "truncate":
+                var bytes = File.ReadAllBytes(PathOf("file"));
+                File.WriteAllBytes(PathOf("file"), bytes[..(int)(bytes.Length * double.Parse(Arg("keep"), CultureInfo.InvariantCulture))]);
+                break;
+            case "flip":
+                var data = File.ReadAllBytes(PathOf("file"));
+                data[int.Parse(Arg("offset"), CultureInfo.InvariantCulture)] ^= 0xFF;
+                File.WriteAllBytes(PathOf("file"), data);
+                break;
+            case "copy":
+                File.Copy(PathOf("from"), PathOf("to"), overwrite: true);
+                break;
+            case "replace":
+                var text = File.ReadAllText(PathOf("file"));
+                var at = text.IndexOf(Arg("text"), StringComparison.Ordinal);
+                Assert.True(at >= 0, $"'{Arg("text")}' not found in {Arg("file")}");
+                File.WriteAllText(PathOf("file"), text[..at] + Arg("with") + text[(at + Arg("text").Length)..]);
+                break;
+            case "repeat":
+                var content = File.ReadAllText(PathOf("file"));
+                var times = int.Parse(Arg("times"), CultureInfo.InvariantCulture);
+                File.WriteAllText(PathOf("file"), content.Replace(Arg("marker"), string.Concat(Enumerable.Repeat(Arg("text"), times)), StringComparison.Ordinal));
+                break;
+            case "link":
+                var link = PathOf("path");
+                Directory.CreateDirectory(Path.GetDirectoryName(link)!);
+                Directory.CreateSymbolicLink(link, Arg("to"));
+                break;
+            default:
+                throw new InvalidOperationException($"unknown corpus step '{kind}'");
+        }
+    }
+
+    /// <summary>Writes a CSV's columns to Parquet with ParquetSharp: one uncompressed row group, no dictionary.</summary>
+    private static void WriteParquet(string csv, string parquet, IReadOnlyDictionary<string, string> types, bool checksums)
+    {
+        var lines = File.ReadAllLines(csv);
+        var names = lines[0].Split(',');
+        var rows = lines.Skip(1).Select(l => l.Split(',')).ToList();
+        string[] Cells(int c) => rows.Select(r => r[c]).ToArray();
+        double Number(string s) => double.Parse(s, CultureInfo.InvariantCulture);
+
+        using var builder = new WriterPropertiesBuilder();
+        builder.Compression(Compression.Uncompressed).DisableDictionary();
+        if (checksums) builder.EnablePageChecksum();
+        using var properties = builder.Build();
+        var schema = names.Select(n => (Column)(types.GetValueOrDefault(n, "double") switch
+        {
+            "float" => new Column<float>(n),
+            "int" => new Column<int>(n),
+            "long" => new Column<long>(n),
+            "string" => new Column<string>(n),
+            _ => new Column<double>(n),
+        })).ToArray();
+        using var file = new ParquetFileWriter(parquet, schema, properties);
+        using (var group = file.AppendRowGroup())
+            for (var c = 0; c < names.Length; c++)
+            {
+                var cells = Cells(c);
+                switch (types.GetValueOrDefault(names[c], "double"))
+                {
+                    case "float": Write(group, cells.Select(s => (float)Number(s)).ToArray()); break;
+                    case "int": Write(group, cells.Select(s => (int)Number(s)).ToArray()); break;
+                    case "long": Write(group, cells.Select(s => (long)Number(s)).ToArray()); break;
+                    case "string": Write(group, cells); break;
+                    default: Write(group, cells.Select(Number).ToArray()); break;
+                }
+            }
+        file.Close();
+    }
+
+    private static void Write<T>(RowGroupWriter group, T[] values)
+    {
+        using var writer = group.NextColumn().LogicalWriter<T>();
+        writer.WriteBatch(values);
+    }
+}
