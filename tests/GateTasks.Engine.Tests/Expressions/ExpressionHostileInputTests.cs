@@ -158,4 +158,29 @@ public class ExpressionHostileInputTests
         }
         Assert.InRange(compiled, 1, 19_999); // both outcomes occurred
     }
+
+    [Fact]
+    public void The_expression_engine_names_no_reflection_files_network_processes_or_code_generation()
+    {
+        // The sandbox holds because the expression code cannot reach anything but columns and Math: a guard against a
+        // later change that would let it (the compiler emits its own instructions, never IL or expression trees).
+        var folder = new DirectoryInfo(AppContext.BaseDirectory);
+        while (!File.Exists(Path.Combine(folder!.FullName, "GateTasks.sln"))) folder = folder.Parent;
+        string[] forbidden =
+        [
+            "System.Reflection", "System.IO", "System.Net", "System.Diagnostics", "System.Linq.Expressions",
+            "System.Runtime.Loader", "System.Runtime.InteropServices", "Activator", "GetType", "typeof", "DynamicMethod",
+            "Environment", "File", "Directory", "Process", "Assembly", "unsafe", "Thread", "Task",
+        ];
+        var sources = Directory.GetFiles(Path.Combine(folder.FullName, "src", "GateTasks.Engine", "Expressions"), "*.cs");
+        Assert.NotEmpty(sources);
+        foreach (var source in sources)
+        {
+            // Comments may mention anything; code may not.
+            var code = string.Join('\n', File.ReadLines(source).Select(l => l.Split("//")[0]));
+            foreach (var name in forbidden)
+                Assert.False(System.Text.RegularExpressions.Regex.IsMatch(code, $@"\b{System.Text.RegularExpressions.Regex.Escape(name)}\b"),
+                    $"{Path.GetFileName(source)} names {name}");
+        }
+    }
 }
