@@ -1,0 +1,76 @@
+using System.CommandLine;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Drafting;
+using GateTasks.Engine.IO;
+using GateTasks.Engine.Samples;
+
+namespace GateTasks.Cli.Commands;
+
+/// <summary>
+/// <c>gatetasks draft</c>: writes a starter contract from a trusted sample, every tolerance derived from the analysis's
+/// expected number of data events and the share of their statistical uncertainty the surrogate's bias may take.
+/// </summary>
+internal static class DraftCommand
+{
+    public static Command Create(TextWriter stdout, TextWriter stderr)
+    {
+        var from = new Option<string>("--from") { Description = "Trusted full-simulation sample: a Parquet or CSV file, a folder, or a glob.", Required = true };
+        var dataEvents = new Option<long>("--data-events")
+        {
+            Description = "How many data events the analysis expects (after its selection): the statistical precision the tolerances derive from.",
+            Required = true,
+        };
+        var coreShare = new Option<double>("--bias-fraction")
+        {
+            Description = "Largest bias in the core as a fraction of the data's statistical uncertainty.",
+            DefaultValueFactory = _ => DraftOptions.DefaultCoreFraction,
+        };
+        var tailShare = new Option<double>("--tail-bias-fraction")
+        {
+            Description = "The same in the tails, where analyses rarely fit.",
+            DefaultValueFactory = _ => DraftOptions.DefaultTailFraction,
+        };
+        var bins = new Option<int>("--bins") { Description = "Equal-probability bins per continuous feature.", DefaultValueFactory = _ => 20 };
+        var core = new Option<double>("--core") { Description = "Central fraction of each continuous feature that takes the core tolerance.", DefaultValueFactory = _ => 0.90 };
+        var categories = new Option<int>("--max-categories") { Description = "A whole-number column with at most this many distinct values is discrete.", DefaultValueFactory = _ => 20 };
+        var spikeShare = new Option<double>("--spike-share") { Description = "A value holding at least this share of a continuous column's events becomes a declared spike.", DefaultValueFactory = _ => 0.05 };
+        var weight = new Option<string?>("--weight") { Description = "Weight column of the trusted sample (also written as the contract's sample weight)." };
+        var sample = new Option<string>("--sample-path") { Description = "The surrogate sample path written into the contract.", DefaultValueFactory = _ => "surrogate/*.parquet" };
+        var reference = new Option<string?>("--reference-path") { Description = "The reference path written into the contract (default: reference/<trusted sample>-reference.parquet)." };
+        var output = new Option<string>("--output", "-o") { Description = "Where to write the draft.", DefaultValueFactory = _ => Engine.Contracts.PrecisionContract.DefaultFileName };
+        var force = new Option<bool>("--force") { Description = "Replace the output file if it exists." };
+        var command = new Command("draft", "Draft a starter contract from a trusted sample: kinds inferred per column, tolerances derived from the analysis's expected data size.")
+        {
+            from, dataEvents, coreShare, tailShare, bins, core, categories, spikeShare, weight, sample, reference, output, force,
+        };
+        command.SetAction(parse => CliApp.Guard(stderr, () =>
+        {
+            var options = new DraftOptions(
+                Positive(parse.GetValue(dataEvents), "--data-events"),
+                Fraction(parse.GetValue(coreShare), "--bias-fraction", allowAboveOne: true),
+                Fraction(parse.GetValue(tailShare), "--tail-bias-fraction", allowAboveOne: true),
+                (int)Positive(parse.GetValue(bins), "--bins"),
+                Fraction(parse.GetValue(core), "--core", allowAboveOne: false),
+                (int)Positive(parse.GetValue(categories), "--max-categories"),
+                Fraction(parse.GetValue(spikeShare), "--spike-share", allowAboveOne: false));
+            var target = Path.GetFullPath(parse.GetValue(output)!);
+            if (File.Exists(target) && !parse.GetValue(force))
+                throw new GateInputException(ErrorCodes.Usage, $"{target} exists; a draft never replaces a contract unless told to (--force).");
+            var files = SampleFiles.Resolve(parse.GetValue(from)!, Directory.GetCurrentDirectory());
+            var referencePath = parse.GetValue(reference) ?? $"reference/{Path.GetFileNameWithoutExtension(files[0])}-reference.parquet";
+            var text = ContractDrafter.Draft(files, parse.GetValue(weight), options, parse.GetValue(sample)!, referencePath, ProgressDisplay.For(stdout, stderr));
+            AtomicFile.WriteText(target, text);
+            stdout.WriteLine($"Draft written: {target}");
+            stdout.WriteLine("Next: build its reference (gatetasks reference build), plan the surrogate sample size (gatetasks plan), review every value.");
+            return ExitCodes.Success;
+        }));
+        return command;
+    }
+
+    private static long Positive(long value, string option) =>
+        value > 0 ? value : throw new GateInputException(ErrorCodes.Usage, $"{option} must be a positive whole number, got {value}.");
+
+    private static double Fraction(double value, string option, bool allowAboveOne) =>
+        value > 0 && (allowAboveOne ? double.IsFinite(value) : value < 1) ? value
+            : throw new GateInputException(ErrorCodes.Usage, $"{option} must be {(allowAboveOne ? "a positive number" : "between 0 and 1")}, got {value}.");
+}

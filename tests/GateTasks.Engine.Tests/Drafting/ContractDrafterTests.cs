@@ -1,0 +1,60 @@
+using System.Globalization;
+using System.Text;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Drafting;
+using GateTasks.Engine.Tests.Samples;
+
+namespace GateTasks.Engine.Tests.Drafting;
+
+public sealed class ContractDrafterTests : IDisposable
+{
+    private readonly TemporaryFolder _folder = new();
+
+    public void Dispose() => _folder.Dispose();
+
+    /// <summary>A trusted sample of 20 000 weighted events: a normal x, counts n of 0–3, z zero in 30% of events, a constant c.</summary>
+    private string Sample()
+    {
+        var random = new Random(20261202);
+        var csv = new StringBuilder("x,n,z,c,w\n");
+        for (var i = 0; i < 20_000; i++)
+        {
+            var x = Math.Sqrt(-2 * Math.Log(1 - random.NextDouble())) * Math.Cos(2 * Math.PI * random.NextDouble());
+            var n = random.Next(4);
+            var z = random.NextDouble() < 0.3 ? 0 : 1 + random.NextDouble();
+            csv.Append(CultureInfo.InvariantCulture, $"{x:R},{n},{z:R},4.5,{0.5 + random.NextDouble():R}\n");
+        }
+        var path = _folder.File("fullsim.csv");
+        File.WriteAllText(path, csv.ToString());
+        return path;
+    }
+
+    [Fact]
+    public void A_draft_loads_with_kinds_inferred_and_every_tolerance_explained()
+    {
+        var text = ContractDrafter.Draft([Sample()], "w", new DraftOptions(10_000), "surrogate/*.parquet", "reference/fullsim-reference.parquet");
+        var path = _folder.File("precision-contract.yaml");
+        File.WriteAllText(path, text);
+
+        var contract = ContractLoader.Load(path);
+
+        Assert.Equal(["x", "n", "z"], contract.Features.Select(f => f.Name));
+        Assert.Equal(FeatureKind.Continuous, contract.Features[0].Kind);
+        Assert.Equal(FeatureKind.Discrete, contract.Features[1].Kind);
+        Assert.Equal(0, contract.Features[2].Spike);
+        Assert.Equal("w", contract.Sample.Weight);
+        Assert.Contains("#   c: takes the single value 4.5", text);
+        Assert.Contains("Derived features (expressions) are not guessed", text);
+        // Every generated number carries a comment; every tolerance its derivation.
+        var numbers = text.Split('\n').Where(l => System.Text.RegularExpressions.Regex.IsMatch(l, @"^\s+[a-z-]+: [0-9.]+( |$)")).ToList();
+        Assert.All(numbers.Where(l => !l.Contains("bins:")), l => Assert.Contains(" # ", l));
+        var tolerances = numbers.Where(l => !l.Contains("bins:") && !l.Contains("core: 0.9") && !l.Contains("spike:")).ToList();
+        Assert.Equal(5 + 2 + 6, tolerances.Count); // x: ratio core and tails, ks, mean, width; n: fraction, ratio; z: those of x and the spike's fraction
+        Assert.All(tolerances, l => Assert.Contains(" # 1/3 × ", l.Replace(" # 1 × ", " # 1/3 × ")));
+        // x: the rule's values for 10⁴ data events and 20 bins (hand computation in PrecisionRuleTests).
+        var x = contract.Features[0].Checks.Select(c => c.Limit).ToList();
+        Assert.Contains(0.014, x);   // ratio-max core
+        Assert.Contains(0.044, x);   // ratio-max tails
+        Assert.Contains(0.0016, x);  // ks-max
+    }
+}
