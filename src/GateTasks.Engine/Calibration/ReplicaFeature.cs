@@ -1,0 +1,124 @@
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Histograms;
+using GateTasks.Engine.References;
+
+namespace GateTasks.Engine.Calibration;
+
+/// <summary>
+/// One contract feature as the simulation studies see it (calibration and planning): its reference histogram taken as
+/// the truth, and replicas drawn from it — a fresh reference of the reference's effective size and a surrogate sample
+/// of a given size, each measured by the checks' own code. A drift distorts the surrogate's truth; a spike-fraction
+/// drift of a feature with a declared spike moves the spike's share.
+/// </summary>
+internal sealed class ReplicaFeature
+{
+    private readonly double[] _truth;
+
+    private ReplicaFeature(FeatureSpec spec, ReferenceFeature reference, IReadOnlyList<bool> core, long referenceEvents)
+    {
+        Spec = spec;
+        Reference = reference;
+        Core = core;
+        ReferenceEvents = referenceEvents;
+        _truth = DriftedDistribution.CellProbabilities(reference, core, Drift.Null);
+    }
+
+    public FeatureSpec Spec { get; }
+    public ReferenceFeature Reference { get; }
+    public IReadOnlyList<bool> Core { get; }
+    public long ReferenceEvents { get; }
+
+    /// <summary>Every feature of the contract, matched to the reference.</summary>
+    public static IReadOnlyList<ReplicaFeature> All(PrecisionContract contract, ReferenceHistograms reference)
+    {
+        var referenceEvents = (long)Math.Round(reference.EffectiveEvents);
+        return contract.Features.Select(f =>
+        {
+            var r = reference.Find(f.Name) ?? throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                $"The reference has no feature '{f.Name}'; rebuild it with 'gatetasks reference build'.", f.Location);
+            return new ReplicaFeature(f, r, RegionBins.Core(r, f), referenceEvents);
+        }).ToList();
+    }
+
+    /// <summary>The surrogate's cell probabilities under <paramref name="drift"/> (the truth's for the null drift).</summary>
+    public double[] Probabilities(Drift drift) =>
+        drift.Kind == DriftKind.None || (drift.Kind == DriftKind.SpikeFraction && Reference.Spike is not null)
+            ? _truth
+            : DriftedDistribution.CellProbabilities(Reference, Core, drift);
+
+    /// <summary>The share of a declared spike in the truth, and in a surrogate under <paramref name="drift"/>.</summary>
+    private (double Truth, double Drifted) SpikeShares(Drift drift)
+    {
+        if (Reference.Spike is not { } spike) return (0, 0);
+        var truth = spike.SumW / (spike.SumW + Reference.Histogram.TotalSumW);
+        // The spike loses the drift's size (absolute) to the rest, as the top category does for a discrete feature.
+        return (truth, drift.Kind == DriftKind.SpikeFraction ? Math.Clamp(truth - drift.Size, 0, 1) : truth);
+    }
+
+    /// <summary>Draws one replica (a fresh reference and a surrogate of <paramref name="events"/> events) and measures every check of the feature.</summary>
+    public IEnumerable<(FeatureSpec, CheckSpec, Measurement)> Measure(double[] surrogateProbabilities, Drift drift, long events, DecisionSettings decision, Random rng)
+    {
+        var comparison = Draw(surrogateProbabilities, drift, events, rng);
+        return Spec.Checks.Select(check => (Spec, check, CheckEvaluator.Measure(comparison, check, decision)));
+    }
+
+    /// <summary>One replica's comparison: both histograms drawn, spikes and far tails tallied apart as a check does.</summary>
+    public FeatureComparison Draw(double[] surrogateProbabilities, Drift drift, long events, Random rng)
+    {
+        var axis = Reference.Histogram.Axis;
+        var (truthShare, driftedShare) = SpikeShares(drift);
+        var (refSpike, refBinned) = DrawSpike(truthShare, ReferenceEvents, rng);
+        var (sampleSpike, sampleBinned) = DrawSpike(driftedShare, events, rng);
+        var refHistogram = ReplicaSampler.Draw(axis, _truth, refBinned, rng);
+        var sample = ReplicaSampler.Draw(axis, surrogateProbabilities, sampleBinned, rng);
+        // Moments of both replicas come from their bins alike, so binning cannot bias their comparison.
+        var refReplica = Reference with
+        {
+            Histogram = refHistogram, Summary = BinnedSummary.Of(refHistogram), Spike = refSpike, FarTail = DrawFarTail(refBinned, rng),
+        };
+        return new FeatureComparison(Spec, refReplica, sample, BinnedSummary.Of(sample), Core, sampleSpike, DrawFarTail(sampleBinned, rng));
+    }
+
+    /// <summary>
+    /// The comparison without noise: both histograms hold their expected contents (the reference at its size, the
+    /// surrogate at <paramref name="events"/>), so a check's estimate on it is the effect the drift truly makes.
+    /// </summary>
+    public FeatureComparison Expected(double[] surrogateProbabilities, Drift drift, long events)
+    {
+        var axis = Reference.Histogram.Axis;
+        var (truthShare, driftedShare) = SpikeShares(drift);
+        Histogram Fill(double[] p, double n)
+        {
+            var cells = p.Select(x => x * n).ToArray();
+            return Histogram.FromCells(axis, cells, cells, (long)Math.Round(n), 0, 0, 0);
+        }
+        SpikeTally? Spike(double share, long n) => Reference.Spike is { } s ? new SpikeTally(s.Value, (long)Math.Round(share * n), share * n, share * n) : null;
+        var refHistogram = Fill(_truth, ReferenceEvents * (1 - truthShare));
+        var sample = Fill(surrogateProbabilities, events * (1 - driftedShare));
+        var refReplica = Reference with { Histogram = refHistogram, Summary = BinnedSummary.Of(refHistogram), Spike = Spike(truthShare, ReferenceEvents) };
+        return new FeatureComparison(Spec, refReplica, sample, BinnedSummary.Of(sample), Core, Spike(driftedShare, events), Reference.FarTail);
+    }
+
+    /// <summary>The spike tally of a replica of n events (binomial at the spike's share) and the events left to bin.</summary>
+    private (SpikeTally? Spike, long Binned) DrawSpike(double share, long n, Random rng)
+    {
+        if (Reference.Spike is not { } spike) return (null, n);
+        var k = ReplicaSampler.Binomial(rng, share, n);
+        return (new SpikeTally(spike.Value, k, k, k), n - k);
+    }
+
+    /// <summary>
+    /// Far-tail counts of a replica of n events: a multinomial draw (below, above, the rest) at the reference's
+    /// fractions. Drawn apart from the histogram, so a drift of the histogram does not reach them.
+    /// </summary>
+    private FarTailCounts? DrawFarTail(long n, Random rng)
+    {
+        if (Reference.FarTail is not { } t || !(t.TotalW > 0)) return null;
+        var pBelow = t.BelowW / t.TotalW;
+        var below = ReplicaSampler.Binomial(rng, pBelow, n);
+        var above = pBelow < 1 ? ReplicaSampler.Binomial(rng, Math.Min(1, t.AboveW / t.TotalW / (1 - pBelow)), n - below) : 0;
+        return t with { BelowW = below, BelowW2 = below, AboveW = above, AboveW2 = above, TotalW = n, TotalW2 = n };
+    }
+}
