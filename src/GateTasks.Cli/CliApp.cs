@@ -21,6 +21,7 @@ internal static class CliApp
         root.Subcommands.Add(InputsCommand.Create(stdout, stderr));
         root.Subcommands.Add(CalibrateCommand.Create(stdout, stderr));
         root.Subcommands.Add(DraftCommand.Create(stdout, stderr));
+        root.Subcommands.Add(PlanCommand.Create(stdout, stderr));
         root.Subcommands.Add(SchemaCommand.Create(stdout));
         root.Subcommands.Add(RankCommand.Create(stdout, stderr));
         root.Subcommands.Add(ShardCommands.Fill(stdout, stderr));

@@ -27,10 +27,9 @@ internal static class FeatureDrafter
             return new FeatureDraft(p.Column, FeatureKind.Discrete,
                 $"discrete: whole numbers, {distinct.Count} distinct values (at most {o.MaxCategories} make categories)",
                 null, null,
-                [
-                    (CheckKind.Fraction, null, rule.Fraction(o.CoreFraction, least, "the category of at least 1% with the smallest uncertainty")),
-                    (CheckKind.BinRatio, null, rule.BinRatioAtShare(o.CoreFraction, counted.Max())),
-                ], null);
+                // No ratio-max: one relative tolerance for every category would be set by the most populated one and be
+                // far below what the rare ones' own noise allows; absolute fractions have no such spread.
+                [(CheckKind.Fraction, null, rule.Fraction(o.CoreFraction, least, "the category of at least 1% with the smallest uncertainty"))], null);
         }
 
         double? spike = null;

@@ -24,9 +24,6 @@ internal sealed class PrecisionRule(long dataEvents)
     public DraftedTolerance BinRatio(double fraction, int bins) =>
         Make(fraction * Math.Sqrt(bins / _n), fraction, $"√({bins} bins / {Count()} data events): the data's relative uncertainty in one equal-probability bin");
 
-    public DraftedTolerance BinRatioAtShare(double fraction, double share) =>
-        Make(fraction / Math.Sqrt(_n * share), fraction, $"1/√({Count()} data events × {Short(share)}): the data's relative uncertainty in the most populated category");
-
     public DraftedTolerance CdfDistance(double fraction) =>
         Make(fraction * 0.5 / Math.Sqrt(_n), fraction, $"0.5/√{Count()}: the largest standard deviation of the data's empirical CDF");
 

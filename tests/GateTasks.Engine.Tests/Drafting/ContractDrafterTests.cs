@@ -49,7 +49,7 @@ public sealed class ContractDrafterTests : IDisposable
         var numbers = text.Split('\n').Where(l => System.Text.RegularExpressions.Regex.IsMatch(l, @"^\s+[a-z-]+: [0-9.]+( |$)")).ToList();
         Assert.All(numbers.Where(l => !l.Contains("bins:")), l => Assert.Contains(" # ", l));
         var tolerances = numbers.Where(l => !l.Contains("bins:") && !l.Contains("core: 0.9") && !l.Contains("spike:")).ToList();
-        Assert.Equal(5 + 2 + 6, tolerances.Count); // x: ratio core and tails, ks, mean, width; n: fraction, ratio; z: those of x and the spike's fraction
+        Assert.Equal(5 + 1 + 6, tolerances.Count); // x: ratio core and tails, ks, mean, width; n: fraction; z: those of x and the spike's fraction
         Assert.All(tolerances, l => Assert.Contains(" # 1/3 × ", l.Replace(" # 1 × ", " # 1/3 × ")));
         // x: the rule's values for 10⁴ data events and 20 bins (hand computation in PrecisionRuleTests).
         var x = contract.Features[0].Checks.Select(c => c.Limit).ToList();

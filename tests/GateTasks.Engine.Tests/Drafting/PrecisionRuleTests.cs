@@ -12,14 +12,13 @@ public class PrecisionRuleTests
     {
         // Hand computation: (1/3)·√(20/10⁴) = 0.014907 → 0.014; (1/3)·0.5/100 = 0.0016667 → 0.0016;
         // (1/3)/100 = 0.0033333 → 0.0033; (1/3)·√(2/(4·10⁴)) = 0.0023570 → 0.0023 (normal kurtosis 3);
-        // (1/3)·√(0.5·0.5/10⁴) = 0.0016667 → 0.0016; 1·√(20/10⁴) = 0.044721 → 0.044; (1/3)/√(10⁴·0.4) = 0.0052705 → 0.0052.
+        // (1/3)·√(0.5·0.5/10⁴) = 0.0016667 → 0.0016; 1·√(20/10⁴) = 0.044721 → 0.044.
         Assert.Equal(0.014, Rule.BinRatio(1.0 / 3, 20).Value);
         Assert.Equal(0.0016, Rule.CdfDistance(1.0 / 3).Value);
         Assert.Equal(0.0033, Rule.MeanShift(1.0 / 3).Value);
         Assert.Equal(0.0023, Rule.WidthRatio(1.0 / 3, 3).Value);
         Assert.Equal(0.0016, Rule.Fraction(1.0 / 3, 0.5, "a category").Value);
         Assert.Equal(0.044, Rule.BinRatio(1, 20).Value);
-        Assert.Equal(0.0052, Rule.BinRatioAtShare(1.0 / 3, 0.4).Value);
     }
 
     [Fact]

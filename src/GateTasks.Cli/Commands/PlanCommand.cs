@@ -1,0 +1,46 @@
+using System.CommandLine;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
+using GateTasks.Engine.Planning;
+using GateTasks.Engine.References;
+using GateTasks.Engine.Reports;
+
+namespace GateTasks.Cli.Commands;
+
+/// <summary>
+/// <c>gatetasks plan</c>: per check, the surrogate size at which a perfect surrogate passes, and the smallest drift it
+/// catches at a given size; then the size for the whole contract. By simulation from the reference.
+/// </summary>
+internal static class PlanCommand
+{
+    public static Command Create(TextWriter stdout, TextWriter stderr)
+    {
+        var contract = SharedOptions.Contract();
+        var events = new Option<long?>("--events") { Description = "Surrogate size to state the detectable drifts at (default: the size the whole contract needs, else 1000000)." };
+        var replicas = new Option<int>("--replicas") { Description = "Replicas per simulated point.", DefaultValueFactory = _ => 200 };
+        var power = new Option<double>("--power") { Description = "Probability with which a detectable drift must fail its check.", DefaultValueFactory = _ => 0.95 };
+        var seed = new Option<int>("--seed") { Description = "Seed of the simulation.", DefaultValueFactory = _ => 1 };
+        var markdown = new Option<string?>("--markdown") { Description = "Also write the plan to this Markdown file." };
+        var command = new Command("plan", "Plan the surrogate sample size: per check the events a perfect surrogate needs to pass and the smallest drift caught at a given size, by simulation from the reference.")
+        {
+            contract, events, replicas, power, seed, markdown,
+        };
+        command.SetAction(parse => CliApp.Guard(stderr, () =>
+        {
+            var c = ContractLoader.Load(parse.GetValue(contract)!);
+            var reference = ReferenceFile.Read(c.ReferenceFullPath, c.ReferenceLocation);
+            if (parse.GetValue(events) is { } n && n < 1) throw new GateInputException(ErrorCodes.Usage, "--events must be a positive whole number.");
+            var r = parse.GetValue(replicas);
+            if (r < 20) throw new GateInputException(ErrorCodes.Usage, "--replicas must be at least 20 for a rate to mean anything.");
+            var p = parse.GetValue(power);
+            if (!(p > 0.5 && p < 1)) throw new GateInputException(ErrorCodes.Usage, "--power must lie between 0.5 and 1.");
+            var plan = PlanStudy.Run(c, reference, parse.GetValue(events), r, parse.GetValue(seed), p);
+            var table = PlanTable.Format(c, plan);
+            stdout.Write(table);
+            if (parse.GetValue(markdown) is { } path) AtomicFile.WriteText(path, table);
+            return ExitCodes.Success;
+        }));
+        return command;
+    }
+}

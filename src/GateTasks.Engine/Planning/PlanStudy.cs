@@ -1,0 +1,228 @@
+using GateTasks.Engine.Calibration;
+using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.References;
+using MathNet.Numerics.Random;
+
+namespace GateTasks.Engine.Planning;
+
+/// <summary>
+/// Plans a surrogate sample's size by simulation with the checks' own measuring and decision code (the replicas of
+/// <see cref="ReplicaFeature"/>, as calibration draws them: a fresh reference of the reference's effective size and a
+/// surrogate, both from the reference histogram taken as the truth). A check's verdict in a replica is decided over
+/// the whole contract's family, the other checks taken as perfect (p-value 1), so the multiple-testing correction
+/// sees the contract's size. Sizes step by quarter octaves (×2^¼ ≈ 1.19), so a planned size is exact to that step.
+/// Replicas use the same seeds at every size and drift (common random numbers), so rates change smoothly along a search.
+/// </summary>
+internal static class PlanStudy
+{
+    public const long SmallestEvents = 100;
+    public const long LargestEvents = 10_000_000_000;
+    private const int StepsPerDoubling = 4;
+
+    /// <summary>The surrogate size at grid step k.</summary>
+    public static long EventsAt(int k) => (long)Math.Round(SmallestEvents * Math.Pow(2, (double)k / StepsPerDoubling));
+
+    private static readonly int LastStep = (int)Math.Ceiling(StepsPerDoubling * Math.Log2((double)LargestEvents / SmallestEvents));
+
+    public static SampleSizePlan Run(PrecisionContract contract, ReferenceHistograms reference, long? detectionEvents, int replicas, int seed, double power = 0.95)
+    {
+        var features = ReplicaFeature.All(contract, reference);
+        var target = contract.Decision.Confidence;
+        var all = features.SelectMany(f => f.Spec.Checks.Select(c => (f.Spec, Check: c))).ToList();
+        var unsimulated = Unsimulated(contract);
+
+        // Passing: per feature, the smallest grid step at which each of its checks passes at the target rate.
+        var passSteps = new int?[features.Count][];
+        var passRates = new double[features.Count][];
+        Parallel.For(0, features.Count, i =>
+        {
+            var rates = new Dictionary<int, double[]>();
+            double[] At(int k) => rates.TryGetValue(k, out var r) ? r
+                : rates[k] = Rates(features[i], Drift.Null, EventsAt(k), all, unsimulated, contract.Decision, replicas, seed + i, Verdict.Pass);
+            var checks = features[i].Spec.Checks.Count;
+            passSteps[i] = new int?[checks];
+            passRates[i] = new double[checks];
+            for (var j = 0; j < checks; j++)
+            {
+                var step = Smallest(k => At(k)[j] >= target, 0, LastStep);
+                passSteps[i][j] = step;
+                passRates[i][j] = At(step ?? LastStep)[j];
+            }
+        });
+
+        // The whole contract: from the largest of the checks' sizes up, every feature drawn in each replica.
+        int? contractStep = null;
+        var contractRate = 0.0;
+        if (passSteps.All(s => s.All(k => k is not null)))
+        {
+            var start = passSteps.SelectMany(s => s).Max()!.Value;
+            for (var k = start; k <= Math.Min(LastStep, start + 2 * StepsPerDoubling); k++)
+            {
+                contractRate = ContractPassRate(features, unsimulated, contract.Decision, EventsAt(k), replicas, seed);
+                if (contractRate < target) continue;
+                contractStep = k;
+                break;
+            }
+        }
+
+        // Detection: per check, the smallest drift of its family failed in at least `power` of the replicas.
+        var nDetect = detectionEvents ?? (contractStep is { } cs ? EventsAt(cs) : 1_000_000);
+        var planned = new PlannedCheck[features.Count][];
+        Parallel.For(0, features.Count, i =>
+        {
+            var f = features[i];
+            var cache = new Dictionary<(DriftKind, double), double[]>();
+            planned[i] = new PlannedCheck[f.Spec.Checks.Count];
+            for (var j = 0; j < f.Spec.Checks.Count; j++)
+            {
+                var check = f.Spec.Checks[j];
+                var family = Family(f, check);
+                double? size = null;
+                var detection = double.NaN;
+                double? effect = null;
+                var largest = family is { } fk ? LargestDrift(f, fk) : 0;
+                if (family is { } kind)
+                {
+                    double[] At(double s) => cache.TryGetValue((kind, s), out var r) ? r
+                        : cache[(kind, s)] = Rates(f, new Drift(kind, s, ""), nDetect, all, unsimulated, contract.Decision, replicas, seed + 7919 * (i + 1), Verdict.Fail);
+                    size = SmallestDrift(s => At(s)[j] >= power, largest);
+                    if (size is { } s)
+                    {
+                        detection = At(s)[j];
+                        if (!check.IsTest)
+                        {
+                            var drift = new Drift(kind, s, "");
+                            effect = CheckEvaluator.Measure(f.Expected(f.Probabilities(drift), drift, nDetect), check, contract.Decision).Estimate;
+                        }
+                    }
+                }
+                var step = passSteps[i][j];
+                planned[i][j] = new PlannedCheck(f.Spec, check, step is { } k ? EventsAt(k) : null, passRates[i][j],
+                    Math.Sqrt(passRates[i][j] * (1 - passRates[i][j]) / replicas), family, size, detection, effect, largest);
+            }
+        });
+
+        var notPlanned = contract.Pairs.Select(p => $"the correlation checks of {p.Name}").ToList();
+        if (contract.Joint is { } joint) notPlanned.Add($"the joint test of {string.Join(", ", joint.Features)}");
+        return new SampleSizePlan(planned.SelectMany(p => p).ToList(), contractStep is { } c ? EventsAt(c) : null, contractRate,
+            Math.Sqrt(contractRate * (1 - contractRate) / replicas), nDetect, target, power, replicas,
+            features.Count > 0 ? features[0].ReferenceEvents : 0, notPlanned);
+    }
+
+    /// <summary>
+    /// The drift family a check is most sensitive to: a shift of the spike's share or the top category for
+    /// fractions and discrete features, a deficit of the tails for the tails' bin ratios, a widening for widths, a
+    /// scale shift otherwise. Null for far-tail fractions: their counts are drawn apart from the histogram.
+    /// </summary>
+    public static DriftKind? Family(ReplicaFeature f, CheckSpec check) => check.Kind switch
+    {
+        CheckKind.FarTail => null,
+        CheckKind.Fraction => DriftKind.SpikeFraction,
+        _ when f.Spec.Kind == FeatureKind.Discrete => DriftKind.SpikeFraction,
+        CheckKind.BinRatio when check.Region == Region.Tails => DriftKind.TailDeficit,
+        CheckKind.WidthRatio or CheckKind.InterquartileWidthRatio => DriftKind.Width,
+        _ => DriftKind.Scale,
+    };
+
+    private static double LargestDrift(ReplicaFeature f, DriftKind kind) => kind switch
+    {
+        DriftKind.Scale => 0.5,
+        DriftKind.Width => 1.0,
+        DriftKind.TailDeficit => 0.99,
+        // All of the spike's share (or the top category's) at the most.
+        _ => f.Reference.Spike is { } s ? s.SumW / (s.SumW + f.Reference.Histogram.TotalSumW)
+            : f.Reference.Histogram.Storage.SumW.ToArray().Max() / f.Reference.Histogram.TotalSumW,
+    };
+
+    /// <summary>Per check of the feature, the share of replicas whose verdict was <paramref name="counted"/>.</summary>
+    private static double[] Rates(ReplicaFeature f, Drift drift, long events, IReadOnlyList<(FeatureSpec Spec, CheckSpec Check)> all,
+        IReadOnlyList<(FeatureSpec, CheckSpec, Measurement)> unsimulated, DecisionSettings decision, int replicas, int seed, Verdict counted)
+    {
+        var probabilities = f.Probabilities(drift);
+        var others = all.Where(a => !ReferenceEquals(a.Spec, f.Spec)).Select(a => Perfect(a.Spec, a.Check)).Concat(unsimulated).ToList();
+        var hits = new int[f.Spec.Checks.Count];
+        for (var r = 0; r < replicas; r++)
+        {
+            var rng = new Xoshiro256StarStar(unchecked(seed * 1_000_003 + r), threadSafe: false);
+            var items = f.Measure(probabilities, drift, events, decision, rng).ToList();
+            var count = items.Count;
+            items.AddRange(others);
+            var outcomes = VerdictRule.Decide(items, decision);
+            for (var j = 0; j < count; j++)
+                if (outcomes[j].Verdict == counted) hits[j]++;
+        }
+        return hits.Select(h => (double)h / replicas).ToArray();
+    }
+
+    /// <summary>The share of replicas in which a perfect surrogate of <paramref name="events"/> events passes every check of the contract.</summary>
+    public static double PassRate(PrecisionContract contract, ReferenceHistograms reference, long events, int replicas, int seed)
+    {
+        return ContractPassRate(ReplicaFeature.All(contract, reference), Unsimulated(contract), contract.Decision, events, replicas, seed);
+    }
+
+    // Pair and joint checks are not simulated, but they belong to the family the correction counts: as perfect.
+    private static List<(FeatureSpec, CheckSpec, Measurement)> Unsimulated(PrecisionContract contract) =>
+        contract.Pairs.SelectMany(p => new[] { p.Pearson, p.Spearman, p.Chi2 }).OfType<CheckSpec>()
+            .Concat(contract.Joint is { } j ? [j.Test] : Array.Empty<CheckSpec>())
+            .Select(c => Perfect(contract.Features[0], c)).ToList();
+
+    /// <summary>A check taken as perfectly met: nothing to correct for, passing.</summary>
+    private static (FeatureSpec, CheckSpec, Measurement) Perfect(FeatureSpec feature, CheckSpec check) =>
+        (feature, check, new Measurement(0, 0, 0, 1, double.NaN, "", []));
+
+    private static double ContractPassRate(IReadOnlyList<ReplicaFeature> features, IReadOnlyList<(FeatureSpec, CheckSpec, Measurement)> unsimulated,
+        DecisionSettings decision, long events, int replicas, int seed)
+    {
+        var passed = 0;
+        var probabilities = features.Select(f => f.Probabilities(Drift.Null)).ToList();
+        Parallel.For(0, replicas, r =>
+        {
+            var rng = new Xoshiro256StarStar(unchecked(seed * 1_000_003 + r), threadSafe: false);
+            var items = features.SelectMany((f, i) => f.Measure(probabilities[i], Drift.Null, events, decision, rng)).Concat(unsimulated).ToList();
+            if (VerdictRule.Decide(items, decision).All(o => o.Verdict == Verdict.Pass)) Interlocked.Increment(ref passed);
+        });
+        return (double)passed / replicas;
+    }
+
+    /// <summary>The smallest step in [lo, hi] where <paramref name="holds"/> (taken as monotone), by doubling then bisection; null if none.</summary>
+    private static int? Smallest(Func<int, bool> holds, int lo, int hi)
+    {
+        var below = lo - 1;
+        var k = lo;
+        while (!holds(k))
+        {
+            if (k >= hi) return null;
+            below = k;
+            k = Math.Min(hi, k + StepsPerDoubling);
+        }
+        // holds(k), not holds(below): bisect between them.
+        while (k - below > 1)
+        {
+            var mid = (k + below) / 2;
+            if (holds(mid)) k = mid; else below = mid;
+        }
+        return k;
+    }
+
+    /// <summary>The smallest drift size (to ±3%) where <paramref name="holds"/>, searched from 10⁻⁴ up to <paramref name="largest"/>; null if none.</summary>
+    private static double? SmallestDrift(Func<double, bool> holds, double largest)
+    {
+        var s = Math.Min(1e-4, largest);
+        var below = 0.0;
+        while (!holds(s))
+        {
+            if (s >= largest) return null;
+            below = s;
+            s = Math.Min(largest, s * 2);
+        }
+        if (below == 0) return s;
+        // Geometric bisection: the sizes span decades.
+        while (s / below > 1.03)
+        {
+            var mid = Math.Sqrt(s * below);
+            if (holds(mid)) s = mid; else below = mid;
+        }
+        return s;
+    }
+}
