@@ -23,7 +23,7 @@ internal static class DraftWriter
         e.Emit(new DocumentStart());
         Comment(e, $"Drafted by 'gatetasks draft' from {source.Description} ({InvariantNumber.Count(source.Events)} events)");
         Comment(e, $"for an analysis expecting {InvariantNumber.Count(o.DataEvents)} data events: every tolerance keeps the surrogate's bias");
-        Comment(e, $"below {PrecisionRule.FractionText(o.CoreFraction)} of the data's statistical uncertainty in the core and {PrecisionRule.FractionText(o.TailFraction)} of it in the tails");
+        Comment(e, $"below {PrecisionRule.FractionText(o.CoreFraction)} of the data's statistical uncertainty in the core and {(o.TailFraction == 1 ? "all" : PrecisionRule.FractionText(o.TailFraction))} of it in the tails");
         Comment(e, "(docs/drafting.md). A draft, not a decision: review every value, tighten it where the analysis fits,");
         Comment(e, "check the sample size with 'gatetasks plan', and record the contract with 'gatetasks accept'.");
         e.Emit(new MappingStart());

@@ -17,7 +17,7 @@ internal static class PlanTable
         sb.AppendLine($"Contract {contract.DisplayName}: {plan.Checks.Count} checks simulated from the reference ({InvariantNumber.Count(plan.ReferenceEvents)} effective events), " +
                       $"{plan.Replicas} replicas per point; confidence {Short(d.Confidence)}, false-alarm level {Short(d.FalseAlarm)} ({d.CorrectionName}).");
         sb.AppendLine();
-        sb.AppendLine($"| feature | check | tolerance | events to pass | pass rate there | drift family | detectable at {InvariantNumber.Count(plan.DetectionEvents)} events | its effect |");
+        sb.AppendLine($"| feature | check | tolerance | events to pass | pass rate there | drift family | detectable at {Approximately(plan.DetectionEvents)} events | its effect |");
         sb.AppendLine("|---|---|---:|---:|---|---|---:|---:|");
         foreach (var c in plan.Checks)
         {
@@ -25,12 +25,12 @@ internal static class PlanTable
             var detectable = c.Family is null ? "not simulated"
                 : c.DetectableDrift is { } s ? Percent(s) : $"none up to {Percent(c.DriftSearchedUpTo)}";
             sb.AppendLine($"| {c.Feature.Name} | {c.Check.Label} | {(c.Check.IsTest ? "test" : Short(c.Check.Limit))} | {events} | " +
-                          $"{Short(c.PassRate)} ± {Short(c.PassRateNoise)} | {FamilyName(c.Family)} | {detectable} | {(c.EffectAtDrift is { } e ? Short(e) : "—")} |");
+                          $"{Short(c.PassRate)} ± {Noise(c.PassRateNoise)} | {FamilyName(c.Family)} | {detectable} | {(c.EffectAtDrift is { } e ? Short(e) : "—")} |");
         }
         sb.AppendLine();
         if (plan.ContractEvents is { } total)
             sb.AppendLine($"Whole contract: a perfect surrogate passes every check with probability ≥ {Short(plan.Target)} from {Approximately(total)} events " +
-                          $"(simulated there: {Short(plan.ContractPassRate)} ± {Short(plan.ContractPassRateNoise)}).");
+                          $"(simulated there: {Short(plan.ContractPassRate)} ± {Noise(plan.ContractPassRateNoise)}).");
         else
         {
             var limited = plan.Checks.Count(c => c.EventsToPass is null);
@@ -38,7 +38,7 @@ internal static class PlanTable
                 ? $"Whole contract: no surrogate size up to {InvariantNumber.Count(PlanStudy.LargestEvents)} events passes it reliably: {limited} check(s) are limited by the reference's own noise. A larger reference, fewer bins or looser tolerances are needed."
                 : $"Whole contract: no size within two octaves of the checks' own sizes passed every check at the rate {Short(plan.Target)} (last simulated: {Short(plan.ContractPassRate)}).");
         }
-        sb.AppendLine($"Detectable drift: the smallest drift of the check's family that fails the check with probability ≥ {Short(plan.Power)} at {InvariantNumber.Count(plan.DetectionEvents)} surrogate events " +
+        sb.AppendLine($"Detectable drift: the smallest drift of the check's family that fails the check with probability ≥ {Short(plan.Power)} at {Approximately(plan.DetectionEvents)} surrogate events " +
                       "(scale shift: values × (1 + s); tail deficit: tail bins thinned by s; width increase: spread about the mean × (1 + s); spike-share shift: the spike or top category loses s of the events); its effect is the check's estimate for that drift without noise.");
         sb.AppendLine("Sizes step by quarter octaves (×1.19); rates carry their binomial standard deviation.");
         if (plan.NotPlanned.Count > 0) sb.AppendLine($"Not simulated (counted in the correction as perfect): {string.Join("; ", plan.NotPlanned)}.");
@@ -61,7 +61,9 @@ internal static class PlanTable
         return "≈" + InvariantNumber.Count((long)(Math.Round(n / scale) * scale));
     }
 
-    private static string Percent(double s) => (s * 100).ToString("0.###", CultureInfo.InvariantCulture) + "%";
+    private static string Percent(double s) => (s * 100).ToString("G3", CultureInfo.InvariantCulture) + "%";
+
+    private static string Noise(double x) => x.ToString("G2", CultureInfo.InvariantCulture);
 
     private static string Short(double x) => InvariantNumber.Short(x);
 }
