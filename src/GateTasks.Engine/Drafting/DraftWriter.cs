@@ -28,7 +28,9 @@ internal static class DraftWriter
         Comment(e, "check the sample size with 'gatetasks plan', and record the contract with 'gatetasks accept'.");
         e.Emit(new MappingStart());
         Scalar(e, ContractKeys.Version); Scalar(e, "1");
+        Comment(e, "the contract format this GateTasks reads", inline: true);
         Scalar(e, ContractKeys.Title); Scalar(e, source.Title);
+        Comment(e, "named after the trusted sample; it names the JUnit suite", inline: true);
         Scalar(e, ContractKeys.Sample);
         e.Emit(new MappingStart());
         Scalar(e, ContractKeys.Path); Scalar(e, source.SamplePath);
@@ -46,6 +48,7 @@ internal static class DraftWriter
         Scalar(e, ContractKeys.Binning);
         e.Emit(new MappingStart());
         Scalar(e, ContractKeys.Bins); Scalar(e, o.Bins.ToString(CultureInfo.InvariantCulture));
+        Comment(e, "per continuous feature (--bins); fewer bins loosen ratio-max as √B but need less reference", inline: true);
         Scalar(e, ContractKeys.Spacing); Scalar(e, "quantile");
         Comment(e, "equal-probability bins: every bin holds the same share of the data", inline: true);
         e.Emit(new MappingEnd());
@@ -63,6 +66,7 @@ internal static class DraftWriter
             if (f.Kind == FeatureKind.Discrete)
             {
                 Scalar(e, ContractKeys.Kind); Scalar(e, "discrete");
+                Comment(e, "each value a category", inline: true);
             }
             if (f.Spike is { } spike)
             {
