@@ -20,10 +20,10 @@ internal static class DraftCommand
             Description = "How many data events the analysis expects (after its selection): the statistical precision the tolerances derive from.",
             Required = true,
         };
-        var coreShare = new Option<double>("--bias-fraction")
+        // No default shown by the parser: it would print 1/3 as 0.3333333333333333.
+        var coreShare = new Option<double?>("--bias-fraction")
         {
-            Description = "Largest bias in the core as a fraction of the data's statistical uncertainty.",
-            DefaultValueFactory = _ => DraftOptions.DefaultCoreFraction,
+            Description = "Largest bias in the core as a fraction of the data's statistical uncertainty (default: 1/3).",
         };
         var tailShare = new Option<double>("--tail-bias-fraction")
         {
@@ -47,7 +47,7 @@ internal static class DraftCommand
         {
             var options = new DraftOptions(
                 Positive(parse.GetValue(dataEvents), "--data-events"),
-                Fraction(parse.GetValue(coreShare), "--bias-fraction", allowAboveOne: true),
+                Fraction(parse.GetValue(coreShare) ?? DraftOptions.DefaultCoreFraction, "--bias-fraction", allowAboveOne: true),
                 Fraction(parse.GetValue(tailShare), "--tail-bias-fraction", allowAboveOne: true),
                 (int)Positive(parse.GetValue(bins), "--bins"),
                 Fraction(parse.GetValue(core), "--core", allowAboveOne: false),
