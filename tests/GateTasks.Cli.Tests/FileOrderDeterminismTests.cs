@@ -2,7 +2,6 @@ using System.Text.RegularExpressions;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Demo;
 using GateTasks.Engine.References;
-using GateTasks.Tests.Shared;
 
 namespace GateTasks.Cli.Tests;
 
@@ -88,5 +87,5 @@ public sealed class FileOrderDeterminismTests : IDisposable
         string.Join('\n', System.Xml.Linq.XDocument.Parse(reports["junit"]).Descendants("testcase").Select(t => t.ToString()));
 
     private static (int Exit, string Stdout, string Stderr) Gatetasks(IEnumerable<string> args, IReadOnlyDictionary<string, string>? environment = null) =>
-        ProcessRunner.Run("dotnet", args.Prepend(typeof(GateTasks.Cli.CliApp).Assembly.Location), Path.GetTempPath(), environment);
+        GatetasksProcess.Run(args, Path.GetTempPath(), environment);
 }

@@ -48,13 +48,15 @@ internal sealed class ReplicaFeature
             ? _truth
             : DriftedDistribution.CellProbabilities(Reference, Core, drift);
 
+    /// <summary>The share of all events a declared spike holds in the truth (0 without one).</summary>
+    public double SpikeShare => Reference.Spike is { } spike ? spike.SumW / (spike.SumW + Reference.Histogram.TotalSumW) : 0;
+
     /// <summary>The share of a declared spike in the truth, and in a surrogate under <paramref name="drift"/>.</summary>
     private (double Truth, double Drifted) SpikeShares(Drift drift)
     {
-        if (Reference.Spike is not { } spike) return (0, 0);
-        var truth = spike.SumW / (spike.SumW + Reference.Histogram.TotalSumW);
+        var truth = SpikeShare;
         // The spike loses the drift's size (absolute) to the rest, as the top category does for a discrete feature.
-        return (truth, drift.Kind == DriftKind.SpikeFraction ? Math.Clamp(truth - drift.Size, 0, 1) : truth);
+        return (truth, drift.Kind == DriftKind.SpikeFraction && Reference.Spike is not null ? Math.Clamp(truth - drift.Size, 0, 1) : truth);
     }
 
     /// <summary>Draws one replica (a fresh reference and a surrogate of <paramref name="events"/> events) and measures every check of the feature.</summary>

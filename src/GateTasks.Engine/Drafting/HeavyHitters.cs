@@ -8,7 +8,6 @@ namespace GateTasks.Engine.Drafting;
 internal sealed class HeavyHitters(int counters)
 {
     private readonly Dictionary<double, long> _counts = new(counters + 1);
-    private readonly List<double> _drop = new(counters + 1);
 
     public void Add(double value)
     {
@@ -22,12 +21,13 @@ internal sealed class HeavyHitters(int counters)
             _counts[value] = 1;
             return;
         }
-        // Full: the new value and one count of every candidate cancel out.
-        _drop.Clear();
-        foreach (var (v, n) in _counts)
-            if (n == 1) _drop.Add(v);
-        foreach (var v in _drop) _counts.Remove(v);
-        foreach (var v in _counts.Keys.ToList()) _counts[v]--;
+        // Full: the new value and one count of every candidate cancel out (a candidate at zero leaves).
+        foreach (var v in _counts.Keys.ToList())
+        {
+            var n = _counts[v];
+            if (n == 1) _counts.Remove(v);
+            else _counts[v] = n - 1;
+        }
     }
 
     /// <summary>The candidates: a superset of the values with a share above 1/(k+1).</summary>

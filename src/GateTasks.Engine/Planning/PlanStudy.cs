@@ -81,9 +81,10 @@ internal static class PlanStudy
                 double? size = null;
                 var detection = double.NaN;
                 double? effect = null;
-                var largest = family is { } fk ? LargestDrift(f, fk) : 0;
+                var largest = 0.0;
                 if (family is { } kind)
                 {
+                    largest = LargestDrift(f, kind);
                     double[] At(double s) => cache.TryGetValue((kind, s), out var r) ? r
                         : cache[(kind, s)] = Rates(f, new Drift(kind, s, ""), nDetect, all, unsimulated, contract.Decision, replicas, seed + 7919 * (i + 1), Verdict.Fail);
                     size = SmallestDrift(s => At(s)[j] >= power, largest);
@@ -131,7 +132,7 @@ internal static class PlanStudy
         DriftKind.Width => 1.0,
         DriftKind.TailDeficit => 0.99,
         // All of the spike's share (or the top category's) at the most.
-        _ => f.Reference.Spike is { } s ? s.SumW / (s.SumW + f.Reference.Histogram.TotalSumW)
+        _ => f.Reference.Spike is not null ? f.SpikeShare
             : f.Reference.Histogram.Storage.SumW.ToArray().Max() / f.Reference.Histogram.TotalSumW,
     };
 

@@ -1,6 +1,5 @@
 using System.Text.RegularExpressions;
 using System.Xml.Linq;
-using GateTasks.Tests.Shared;
 using YamlDotNet.RepresentationModel;
 
 namespace GateTasks.Cli.Tests.Corpus;
@@ -125,5 +124,5 @@ public sealed class BadInputCorpusTests
     }
 
     private static (int Exit, string Stdout, string Stderr) Gatetasks(string folder, IEnumerable<string> args) =>
-        ProcessRunner.Run("dotnet", args.Prepend(typeof(GateTasks.Cli.CliApp).Assembly.Location), folder, timeoutSeconds: 120);
+        GatetasksProcess.Run(args, folder, timeoutSeconds: 120);
 }
