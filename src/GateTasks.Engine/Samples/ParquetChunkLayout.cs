@@ -8,9 +8,9 @@ namespace GateTasks.Engine.Samples;
 /// chunk lies between the leading signature and the footer, and no two chunks share a byte. A file that lost bytes
 /// before its footer (a page cut short in transfer or by a crashed copy) keeps a valid footer whose offsets now
 /// point past the data; without a page checksum, the chunk that lost them would be read on into the next column's
-/// bytes as if they were its own values. Where bytes are missing, the first page header of each chunk is read, in
-/// file order, to name the chunk that lost them: the first chunk that no longer starts with a page header is the
-/// one after it.
+/// bytes as if they were its own values. Where bytes are missing, or unused bytes lie between the chunks (a writer's
+/// padding, or bytes added), the first page header of each chunk is read, in file order, to name the chunk that
+/// changed length: the first chunk that no longer starts with a page header is the one after it.
 /// </summary>
 /// <remarks>Layout: Apache Parquet format specification (parquet-format, "File format", ColumnMetaData offsets).</remarks>
 internal static class ParquetChunkLayout
@@ -44,19 +44,32 @@ internal static class ParquetChunkLayout
                 dataEnd = Math.Max(dataEnd, chunk.End);
             }
         chunks.Sort((a, b) => a.Start.CompareTo(b.Start));
+        var gaps = false;
         for (var i = 1; i < chunks.Count; i++)
+        {
             if (chunks[i].Start < chunks[i - 1].End)
                 return $"{Where(chunks[i - 1], groups)}, is damaged (the footer places its chunk, bytes {chunks[i - 1].Start} to {chunks[i - 1].End}, "
                        + $"over that of {Where(chunks[i], groups)}, from byte {chunks[i].Start}: two columns cannot share bytes)";
+            gaps |= chunks[i].Start > chunks[i - 1].End;
+        }
+        if (chunks.Count == 0) return null;
 
-        if (chunks.Count == 0 || dataEnd <= footerStart) return null;
-        var missing = dataEnd - footerStart;
-        var lost = LostIn(stream, chunks);
-        var next = chunks.IndexOf(lost) + 1 < chunks.Count ? chunks[chunks.IndexOf(lost) + 1] : (Chunk?)null;
-        return $"{Where(lost, groups)}, is damaged: a page of it was cut short (at least {missing} bytes are missing: the footer places "
-               + $"data up to byte {dataEnd}, but the footer itself begins at byte {footerStart}"
-               + (next is { } n ? $", and the next chunk, {Where(n, groups)}, no longer starts with a page header at byte {n.Start})" : ")")
-               + "; its values would be read from other bytes, so the file is refused";
+        if (dataEnd > footerStart)
+        {
+            var missing = dataEnd - footerStart;
+            var (lost, next) = Shifted(stream, chunks) is { } shifted ? (chunks[shifted - 1], chunks[shifted]) : (chunks[^1], (Chunk?)null);
+            return $"{Where(lost, groups)}, is damaged: a page of it was cut short (at least {missing} bytes are missing: the footer places "
+                   + $"data up to byte {dataEnd}, but the footer itself begins at byte {footerStart}"
+                   + (next is { } n ? $", and the next chunk, {Where(n, groups)}, no longer starts with a page header at byte {n.Start})" : ")")
+                   + "; its values would be read from other bytes, so the file is refused";
+        }
+        // Unused bytes between chunks or before the footer may be a writer's padding, or bytes added inside a page:
+        // only then are the chunks' first page headers read (a file written without gaps costs nothing more).
+        if ((gaps || dataEnd < footerStart) && Shifted(stream, chunks) is { } moved)
+            return $"{Where(chunks[moved - 1], groups)}, is damaged: the next chunk, {Where(chunks[moved], groups)}, does not start with a page header "
+                   + $"at byte {chunks[moved].Start}, where the footer places it, so bytes were added to or lost from the chunk before it; "
+                   + "its values would be read from other bytes, so the file is refused";
+        return null;
     }
 
     private static long End(long? offset, int? length) => offset is > 0 and var o && length is > 0 and var l ? o + l : 0;
@@ -74,17 +87,18 @@ internal static class ParquetChunkLayout
         return stream.Length - 8 - BinaryPrimitives.ReadInt32LittleEndian(tail);
     }
 
-    // Bytes went missing somewhere before the footer: every chunk after the loss starts earlier in the file than the
-    // footer says, so the first chunk whose offset holds no sound page header follows the one that lost them.
-    private static Chunk LostIn(Stream stream, List<Chunk> chunks)
+    // Bytes lost or added before the footer move every chunk after them away from where the footer says it starts,
+    // so the first chunk (after the first) whose offset holds no sound page header follows the one that changed
+    // length: its index, or null when every chunk starts with a page header.
+    private static int? Shifted(Stream stream, List<Chunk> chunks)
     {
         var probe = new byte[HeaderProbeBytes];
         var position = stream.Position;
         try
         {
             for (var i = 1; i < chunks.Count; i++)
-                if (!StartsWithPageHeader(stream, chunks[i], probe)) return chunks[i - 1];
-            return chunks[^1];
+                if (!StartsWithPageHeader(stream, chunks[i], probe)) return i;
+            return null;
         }
         finally
         {
