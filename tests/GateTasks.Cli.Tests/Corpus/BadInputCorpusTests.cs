@@ -22,11 +22,11 @@ public sealed class BadInputCorpusTests
             "alias-bomb", "altered-reference", "bit-flipped-page", "bit-flipped-page-header", "corrupted-ledger",
             "csv-cell-not-a-number", "csv-header-not-utf8", "csv-semicolon-separated", "deep-yaml", "duplicate-feature",
             "empty-sample", "extreme-magnitudes", "long-expression", "malformed-yaml", "non-finite-allowed",
-            "non-finite-values", "not-parquet", "only-nan-sample", "other-binning", "page-grown-no-checksum", "parquet-duplicate-column",
+            "non-finite-values", "not-parquet", "only-nan-sample", "other-binning", "page-grown-no-checksum", "page-sizes-disagree", "parquet-duplicate-column",
             "path-outside-repository", "path-outside-through-link", "schema-column-missing", "schema-type-changed",
             "symlink-loop", "truncated-page-no-checksum", "truncated-parquet", "unknown-column", "unknown-key",
             "weight-missing", "weight-not-finite", "weights-all-negative", "weights-all-zero",
-            "weights-subnormal", "wrong-type", "zero-variance",
+            "weights-some-negative", "weights-subnormal", "wrong-type", "zero-variance",
         };
         Assert.Equal(expected, CorpusCase.All.Select(c => c.Name).Order(StringComparer.Ordinal));
     }

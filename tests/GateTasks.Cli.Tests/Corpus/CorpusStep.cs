@@ -47,7 +47,9 @@ internal static class CorpusStep
                 break;
             case "flip":
                 var data = File.ReadAllBytes(PathOf("file"));
-                data[int.Parse(Arg("offset"), CultureInfo.InvariantCulture)] ^= 0xFF;
+                // mask: the bits to invert (hex, e.g. "02"); all eight unless given.
+                var mask = args.Children.ContainsKey("mask") ? Convert.FromHexString(Arg("mask"))[0] : (byte)0xFF;
+                data[int.Parse(Arg("offset"), CultureInfo.InvariantCulture)] ^= mask;
                 File.WriteAllBytes(PathOf("file"), data);
                 break;
             case "copy":
