@@ -30,7 +30,7 @@ internal sealed class CsvSampleReader : ISampleReader
     };
 
     /// <summary>The longest header line checked byte by byte (for UTF-8 and the separator); longer headers are checked in their first part.</summary>
-    private const int HeaderProbeBytes = 1 << 20;
+    private const int HeaderProbeBytes = 1 << 16;
 
     private readonly int _blockRows;
 
