@@ -201,6 +201,23 @@ public class BuildStepTests(PackageFeed feed)
     }
 
     [Fact]
+    public void A_missing_weight_is_an_msbuild_error_at_its_cell()
+    {
+        // The corpus case weight-missing (tests/corpus), through the build step: the demo contract weighs events by
+        // the column 'weight', left empty on line 3. Expected: docs/error-codes.md, GATE2007 at the cell.
+        var p = GateProject.Create(feed, "MissingWeightGate");
+        var columns = GateTasks.Engine.Demo.DemoColumns.All;
+        var weight = columns.ToList().IndexOf(GateTasks.Engine.Demo.DemoColumns.Weight);
+        var good = string.Join(',', columns.Select(_ => "1"));
+        var bad = string.Join(',', columns.Select((_, i) => i == weight ? "" : "1"));
+        File.WriteAllText(Path.Combine(p.Directory, "unweighed.csv"), $"{string.Join(',', columns)}\n{good}\n{bad}\n");
+        var (code, output) = p.Build("-p:GateSample=unweighed.csv", "-p:GateFailuresAsWarnings=true");
+        Assert.NotEqual(0, code);
+        Assert.True(Regex.IsMatch(output, $@"unweighed\.csv\(3,{2 * weight + 1}\): error GATE2007: weight column 'weight' holds an empty cell \(a missing value\)"), output);
+        Assert.Contains("GATE2007", File.ReadAllText(p.JUnitReport));
+    }
+
+    [Fact]
     public void A_multi_targeted_project_checks_once()
     {
         var p = GateProject.Create(feed, "MultiGate");

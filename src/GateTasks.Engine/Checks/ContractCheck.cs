@@ -33,6 +33,7 @@ internal static class ContractCheck
         if (accumulation.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
                 $"The surrogate sample has no events ({string.Join(", ", files.Select(Path.GetFileName))}).", contract.Sample.PathLocation);
+        RequireNormalisable(contract, accumulation, "surrogate sample", files);
         return Decide(setup, accumulation, files, started, clock);
     }
 
@@ -48,7 +49,17 @@ internal static class ContractCheck
         var (accumulation, provenance) = Partials.PartialFile.ReadMerged(partials, setup);
         if (accumulation.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty, $"The partial files hold no events ({string.Join(", ", partials.Select(Path.GetFileName))}).", new SourceLocation(partials[0]));
+        RequireNormalisable(contract, accumulation, "surrogate sample in the partial files", partials);
         return Decide(setup, accumulation, provenance.SampleFiles, started, clock);
+    }
+
+    // All-zero weights, or negatives that outweigh the positives, leave nothing to normalise: an input error (GATE2010)
+    // at the contract's weight line, not a drift of every check.
+    private static void RequireNormalisable(PrecisionContract contract, SampleAccumulation accumulation, string what, IReadOnlyList<string> files)
+    {
+        if (contract.Sample.Weight is not { } weight) return;
+        SampleWeights.RequireNormalisable(accumulation.SumW, accumulation.SumW2, accumulation.Events, weight, what, files,
+            contract.Sample.WeightLocation ?? contract.Sample.PathLocation);
     }
 
     /// <summary>Gathers one shard of the sample into a partial file, for merging elsewhere.</summary>

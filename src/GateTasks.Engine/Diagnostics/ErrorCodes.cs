@@ -50,6 +50,11 @@ public static class ErrorCodes
     /// <summary>The weight column holds a non-finite value.</summary>
     public const string SampleBadWeight = "GATE2007";
 
+    /// <summary>The weights of a sample sum to zero or below (all zero, or negatives outweigh positives): it cannot be normalised.</summary>
+    public const string SampleWeightsNotNormalisable = "GATE2010";
+    /// <summary>Every weight of a sample is so small that its square is not a normal double.</summary>
+    public const string SampleWeightsTooSmall = "GATE2011";
+
     /// <summary>A feature of the surrogate sample holds NaN or infinite values, and its contract does not allow them.</summary>
     public const string SampleNonFinite = "GATE2008";
     /// <summary>A continuous feature takes a single value throughout the reference sample.</summary>

@@ -107,11 +107,19 @@ internal static class ColumnProfiler
             return unit;
         }
         var weights = batch.ColumnBuffer(weightIndex);
-        foreach (var w in weights.AsSpan(0, batch.RowCount))
-            if (!double.IsFinite(w))
+        for (var r = 0; r < batch.RowCount; r++)
+        {
+            var w = weights[r];
+            if (double.IsFinite(w)) continue;
+            // At the cell, in the file's own words (an empty cell is a missing weight), where the reader can say.
+            if (batch.Locate?.Invoke(r, weightIndex) is { } origin)
                 throw new GateInputException(ErrorCodes.SampleBadWeight,
-                    $"The weight column '{weightColumn}' holds a non-finite weight ({w}); a trusted sample needs finite weights.",
-                    new SourceLocation(file ?? ""));
+                    $"weight column '{weightColumn}' holds {origin.Written} at {origin.Place} of sample file '{file}'; a trusted sample needs finite weights",
+                    origin.Location);
+            throw new GateInputException(ErrorCodes.SampleBadWeight,
+                $"The weight column '{weightColumn}' holds a non-finite weight ({w}); a trusted sample needs finite weights.",
+                new SourceLocation(file ?? ""));
+        }
         return weights;
     }
 }

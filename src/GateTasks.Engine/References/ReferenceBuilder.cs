@@ -43,6 +43,8 @@ internal static class ReferenceBuilder
         if (totals.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty, $"The reference sample has no events ({string.Join(", ", files)}).",
                 new SourceLocation(files[0]));
+        if (weightColumn is not null)
+            SampleWeights.RequireNormalisable(totals.SumW, totals.SumW2, totals.Events, weightColumn, "reference sample", files, new SourceLocation(files[0]));
         var min = stats.Select(s => s.Min).ToArray();
         var max = stats.Select(s => s.Max).ToArray();
         for (var i = 0; i < n; i++)

@@ -29,6 +29,9 @@ internal sealed class CsvSampleReader : ISampleReader
         FormatProvider = CultureInfo.InvariantCulture,
     };
 
+    /// <summary>The longest header line checked byte by byte (for UTF-8 and the separator); longer headers are checked in their first part.</summary>
+    private const int HeaderProbeBytes = 1 << 16;
+
     private readonly int _blockRows;
 
     private CsvSampleReader(string path, IReadOnlyList<SampleColumn> columns, int blockRows)
@@ -53,8 +56,11 @@ internal sealed class CsvSampleReader : ISampleReader
     public static CsvSampleReader Open(string path, int blockRows = DefaultBlockRows)
     {
         ArgumentOutOfRangeException.ThrowIfLessThan(blockRows, 1);
+        var (firstLine, lineNumber) = FirstLine(path);
+        RequireUtf8(path, firstLine, lineNumber);
         using var csv = CreateReader(path);
         var header = Guard(path, () => csv.Headers.ToArray());
+        RequireCommaSeparated(path, header, firstLine, lineNumber);
         return new CsvSampleReader(path, DescribeHeader(path, header), blockRows);
     }
 
@@ -75,18 +81,40 @@ internal sealed class CsvSampleReader : ISampleReader
     {
         using var csv = CreateReader(Path);
         var buffers = indices.Select(_ => new double[_blockRows]).ToArray();
+        // The line each row was read from (one number a row, not a cell), so a bad value found later, such as a
+        // weight that is not finite, is reported at its line and column.
+        var lines = new long[_blockRows];
+        CellOrigin Locate(int row, int column) => Origin(lines[row], indices[column]);
         var rows = 0;
         while (Guard(Path, csv.Read))
         {
+            lines[rows] = csv.LineNumber;
             for (var c = 0; c < indices.Length; c++)
                 buffers[c][rows] = ParseCell(csv, indices[c]);
             if (++rows == _blockRows)
             {
-                yield return new SampleBatch(buffers, rows);
+                yield return new SampleBatch(buffers, rows) { Locate = Locate };
                 rows = 0;
             }
         }
-        if (rows > 0) yield return new SampleBatch(buffers, rows);
+        if (rows > 0) yield return new SampleBatch(buffers, rows) { Locate = Locate };
+    }
+
+    // Reads the file again up to the record at <paramref name="line"/> (an error path only): where its field starts
+    // and how it is written.
+    private CellOrigin Origin(long line, int field)
+    {
+        var at = (int)Math.Min(line, int.MaxValue);
+        using var csv = CreateReader(Path);
+        while (Guard(Path, csv.Read))
+        {
+            if (csv.LineNumber < line) continue;
+            var column = CharacterColumn(csv, field);
+            var cell = csv.GetSpan(field);
+            var written = cell.Trim(" \t"u8).IsEmpty ? "an empty cell (a missing value)" : $"'{Utf8Escapes.Show(cell)}'";
+            return new CellOrigin(new SourceLocation(Path, at, column), $"line {line}, column {column}", written);
+        }
+        return new CellOrigin(new SourceLocation(Path, at), $"line {line}", "a value that is not a finite number");
     }
 
     private double ParseCell(CsvReader csv, int field)
@@ -96,7 +124,7 @@ internal sealed class CsvSampleReader : ISampleReader
         var name = Columns[field].Name;
         throw new GateInputException(
             ErrorCodes.SampleCsvValue,
-            $"'{Encoding.UTF8.GetString(cell)}' in column '{name}' (field {field + 1} of the record) is not a number; "
+            $"'{Utf8Escapes.Show(cell)}' in column '{name}' (field {field + 1} of the record) is not a number; "
             + "expected a decimal number, an empty cell, nan, inf, -inf, true or false",
             new SourceLocation(Path, (int)Math.Min(csv.LineNumber, int.MaxValue), CharacterColumn(csv, field)));
     }
@@ -138,6 +166,70 @@ internal sealed class CsvSampleReader : ISampleReader
         catch (Exception ex) when (ex is IOException or DecoderFallbackException)
         {
             throw SampleInputErrors.Unreadable(path, SampleInputErrors.Describe(ex), ex);
+        }
+    }
+
+    /// <summary>The first non-empty line's bytes (at most <see cref="HeaderProbeBytes"/>) and its line number.</summary>
+    private static (byte[] Line, int Number) FirstLine(string path)
+    {
+        using var stream = SampleInputErrors.OpenRead(path, FileOptions.SequentialScan);
+        var buffer = new byte[HeaderProbeBytes];
+        int read;
+        try
+        {
+            read = stream.ReadAtLeast(buffer, buffer.Length, throwOnEndOfStream: false);
+        }
+        catch (IOException ex)
+        {
+            throw SampleInputErrors.Unreadable(path, SampleInputErrors.Describe(ex), ex);
+        }
+        var text = buffer.AsSpan(0, read);
+        var number = 1;
+        while (true)
+        {
+            var end = text.IndexOfAny((byte)'\n', (byte)'\r');
+            var line = end < 0 ? text : text[..end];
+            if (!line.Trim(" \t"u8).IsEmpty || end < 0) return (line.ToArray(), number);
+            if (text[end] == (byte)'\n' || end + 1 >= text.Length || text[end + 1] != (byte)'\n') number++;
+            text = text[(end + 1)..];
+        }
+    }
+
+    // The header is read as UTF-8; a byte that is not (a file saved as Latin-1 or UTF-16) would become a
+    // replacement character in a column name, and a contract's name would then miss it without a visible reason.
+    private static void RequireUtf8(string path, byte[] line, int lineNumber)
+    {
+        var bad = Utf8Escapes.FirstInvalid(line);
+        if (bad < 0) return;
+        var column = Encoding.UTF8.GetCharCount(line.AsSpan(0, bad)) + 1;
+        var fieldStart = line.AsSpan(0, bad).LastIndexOf((byte)',') + 1;
+        var fieldEnd = line.AsSpan(bad).IndexOf((byte)',');
+        var field = line.AsSpan(fieldStart, fieldEnd < 0 ? line.Length - fieldStart : bad - fieldStart + fieldEnd);
+        var utf16 = line.Length >= 2 && ((line[0] == 0xFF && line[1] == 0xFE) || (line[0] == 0xFE && line[1] == 0xFF))
+            ? " (it starts with a UTF-16 byte-order mark: the file is UTF-16)" : "";
+        throw new GateInputException(ErrorCodes.SampleUnreadable,
+            $"sample file '{path}': the header row holds the byte \\x{line[bad]:X2} at line {lineNumber}, column {column}, which is not UTF-8{utf16}, "
+            + $"in the column name '{Utf8Escapes.Show(field)}'; GateTasks reads CSV files as UTF-8: save the file as UTF-8",
+            new SourceLocation(path, lineNumber, column));
+    }
+
+    // A header that parses as one column holding semicolons (or tabs) is almost surely a file in another dialect,
+    // which would otherwise surface as "column not found" for every feature. Such files often write decimal commas
+    // too, so they are refused with a plain word rather than guessed at.
+    private static void RequireCommaSeparated(string path, string[] header, byte[] line, int lineNumber)
+    {
+        if (header.Length != 1) return;
+        foreach (var (separator, name) in new[] { ((byte)';', "semicolon"), ((byte)'\t', "tab") })
+        {
+            var at = line.AsSpan().IndexOf(separator);
+            if (at < 0 || header[0].Split((char)separator).Count(p => p.Trim().Length > 0) < 2) continue;
+            var count = line.AsSpan().Count(separator);
+            var column = Encoding.UTF8.GetCharCount(line.AsSpan(0, at)) + 1;
+            throw new GateInputException(ErrorCodes.SampleUnreadable,
+                $"sample file '{path}' looks {name}-separated: its header row '{Utf8Escapes.Show(line)}' holds no comma but {count} {name}{(count == 1 ? "" : "s")} "
+                + $"(the first at line {lineNumber}, column {column}); GateTasks reads comma-separated values (RFC 4180, '.' as the decimal point): "
+                + "write the file with ',' between fields",
+                new SourceLocation(path, lineNumber, column));
         }
     }
 

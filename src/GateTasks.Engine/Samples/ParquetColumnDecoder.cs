@@ -44,6 +44,9 @@ internal abstract class ParquetColumnDecoder
     /// </summary>
     public abstract void Convert(Span<double> destination);
 
+    /// <summary>Whether row <paramref name="row"/> of the chunk last read is a null (for messages; not used per value).</summary>
+    public abstract bool IsNull(int row);
+
     private sealed class Typed<T>(DataField field) : ParquetColumnDecoder where T : unmanaged
     {
         private T[] _values = [];
@@ -90,6 +93,8 @@ internal abstract class ParquetColumnDecoder
                     null)
                 .AsTask().GetAwaiter().GetResult();
         }
+
+        public override bool IsNull(int row) => field.MaxDefinitionLevel > 0 && _definitionLevels[row] < field.MaxDefinitionLevel;
 
         public override void Convert(Span<double> destination)
         {

@@ -61,8 +61,16 @@ internal sealed class ParquetSampleReader : ISampleReader
                 throw SampleInputErrors.Unreadable(path, problem);
             }
             reader = ParquetReader.CreateAsync(stream, leaveStreamOpen: false).GetAwaiter().GetResult();
-            var (columns, fields) = DescribeSchema(reader.Schema);
+            var (columns, fields) = DescribeSchema(path, reader.Schema);
+            if (reader.Metadata is { } metadata && ParquetChunkLayout.Problem(stream, metadata) is { } damage)
+                throw SampleInputErrors.Unreadable(path, damage);
             return new ParquetSampleReader(path, reader, columns, fields, parallelism);
+        }
+        catch (GateInputException)
+        {
+            reader?.DisposeAsync().AsTask().GetAwaiter().GetResult();
+            stream.Dispose();
+            throw;
         }
         catch (Exception ex) when (SampleInputErrors.IsReadFailure(ex))
         {
@@ -98,6 +106,7 @@ internal sealed class ParquetSampleReader : ISampleReader
         using var file = OpenHandle();
         try
         {
+            long groupStart = 0; // rows of the file before this row group
             for (var group = 0; group < rowGroupSizes.Length; group++)
             {
                 var rows = rowGroupSizes[group];
@@ -107,8 +116,13 @@ internal sealed class ParquetSampleReader : ISampleReader
                 {
                     var count = Math.Min(SliceRows, rows - start);
                     for (var c = 0; c < decoders.Length; c++) decoders[c].Convert(buffers[c].AsSpan(0, count));
-                    yield return new SampleBatch(buffers, count);
+                    var (g, first, fileRow) = (group, start, groupStart + start);
+                    yield return new SampleBatch(buffers, count)
+                    {
+                        Locate = (row, column) => Origin(g, first + row, fileRow + row, decoders[column], buffers[column][row]),
+                    };
                 }
+                groupStart += rows;
             }
         }
         finally
@@ -116,6 +130,11 @@ internal sealed class ParquetSampleReader : ISampleReader
             for (var r = 1; r < readers.Length; r++) readers[r]?.DisposeAsync().AsTask().GetAwaiter().GetResult();
         }
     }
+
+    private CellOrigin Origin(int group, int rowInGroup, long fileRow, ParquetColumnDecoder decoder, double value) =>
+        new(new SourceLocation(Path),
+            $"row {fileRow + 1} (row {rowInGroup + 1} of row group {group + 1})",
+            decoder.IsNull(rowInGroup) ? "a null (a missing value)" : InvariantNumber.Short(value));
 
     // Kept out of the iterator: C# forbids catch blocks around yield.
     private void DecodeRowGroup(int group, int rows, ParquetColumnDecoder[] decoders, ParquetReader?[] readers, PlainChunkReader[] plainReaders, Microsoft.Win32.SafeHandles.SafeFileHandle file)
@@ -204,13 +223,21 @@ internal sealed class ParquetSampleReader : ISampleReader
         return sizes;
     }
 
-    private static (IReadOnlyList<SampleColumn>, DataField?[]) DescribeSchema(ParquetSchema schema)
+    private static (IReadOnlyList<SampleColumn>, DataField?[]) DescribeSchema(string path, ParquetSchema schema)
     {
         var columns = new List<SampleColumn>(schema.Fields.Count);
         var fields = new DataField?[schema.Fields.Count];
+        var seen = new Dictionary<string, int>(StringComparer.Ordinal);
         for (var i = 0; i < schema.Fields.Count; i++)
         {
             var field = schema.Fields[i];
+            // Arrow-based writers accept two columns of one name; which of them a name would read is then arbitrary
+            // (the library maps a name to the last), so the file is refused, as a CSV header naming a column twice is.
+            if (!seen.TryAdd(field.Name, i))
+                throw new GateInputException(ErrorCodes.SampleUnreadable,
+                    $"sample file '{path}': column '{field.Name}' appears twice in the Parquet schema (columns {seen[field.Name] + 1} and {i + 1} of {schema.Fields.Count}); "
+                    + "column names must be unique, or which column a feature reads is arbitrary: rename one when writing the file",
+                    new SourceLocation(path));
             var type = field is DataField data && !data.IsArray && data.MaxRepetitionLevel == 0
                 ? TypeOf(data.ClrType)
                 : SampleValueType.Unsupported; // structs, lists and maps

@@ -68,6 +68,12 @@ internal sealed class PlainChunkReader
             // with a huge buffer.
             if (header.UncompressedSize > (long)header.Values * (Marshal.SizeOf<T>() + 8) + 4096)
                 throw new InvalidDataException($"a page claims {header.UncompressedSize} bytes for {header.Values} values");
+            // Stored as is, a page is as long as its header says both ways; a page cut short or run on into other
+            // bytes is not (checked per page, not per value).
+            if ((metadata.Codec == CompressionCodec.UNCOMPRESSED || (header.Type == ParquetPageHeader.DataPageV2 && !header.ValuesCompressed))
+                && header.UncompressedSize != header.CompressedSize)
+                throw new InvalidDataException(
+                    $"page {pageNumber - 1} is stored uncompressed but its header gives {header.CompressedSize} bytes stored and {header.UncompressedSize} uncompressed");
 
             ReadOnlySpan<byte> levelBytes, valueBytes;
             if (header.Type == ParquetPageHeader.DataPage)
@@ -110,24 +116,30 @@ internal sealed class PlainChunkReader
                     else if ((uint)level > (uint)maxDefinitionLevel) throw new InvalidDataException($"definition level {level} above the column's {maxDefinitionLevel}");
                 }
             }
+            // PLAIN fixed-width values fill their page exactly: more bytes than the values need are as wrong as fewer.
             var size = Marshal.SizeOf<T>();
-            if ((long)present * size > valueBytes.Length)
-                throw new InvalidDataException($"a page holds {valueBytes.Length} bytes for {present} values");
+            if ((long)present * size != valueBytes.Length)
+                throw new InvalidDataException($"page {pageNumber - 1} holds {valueBytes.Length} bytes of values where its header's {present} values take {(long)present * size}");
             MemoryMarshal.Cast<byte, T>(valueBytes[..(present * size)]).CopyTo(values.Slice(dense, present));
             dense += present;
             decoded += header.Values;
         }
         if (decoded != rows) throw new InvalidDataException($"the column chunk holds {decoded} of its {rows} rows");
+        // The chunk header's size must be what its pages take: bytes left over belong to no page of this column.
+        if (position != chunk.Length)
+            throw new InvalidDataException($"its pages take {position} of the {chunk.Length} bytes the column chunk header gives it");
         return true;
     }
 
     /// <summary>
-    /// Verifies the CRC-32 of every page of a chunk that stores one (for chunks read by Parquet.Net, which does not):
+    /// Verifies the CRC-32 of every page of a chunk that stores one (for chunks read by Parquet.Net, which does not),
+    /// and that its pages hold as many values as the chunk header gives:
     /// a flipped bit in a page with a checksum is an <see cref="InvalidDataException"/>, never a changed value.
     /// </summary>
     public void VerifyChecksums(SafeFileHandle file, ColumnMetaData metadata)
     {
         var chunk = Load(file, metadata);
+        long values = 0;
         for (int position = 0, pageNumber = 1; position < chunk.Length; pageNumber++)
         {
             var header = ParquetPageHeader.Read(chunk[position..], out var headerLength);
@@ -136,7 +148,11 @@ internal sealed class PlainChunkReader
                 throw new InvalidDataException($"a page of {header.CompressedSize} bytes runs past its column chunk");
             VerifyChecksum(header, chunk.Slice(position, header.CompressedSize), pageNumber);
             position += header.CompressedSize;
+            if (header.Type is ParquetPageHeader.DataPage or ParquetPageHeader.DataPageV2) values += Math.Max(0, header.Values);
         }
+        // The pages' value counts must add up to the chunk header's (checked per page header, not per value).
+        if (values != metadata.NumValues)
+            throw new InvalidDataException($"its pages hold {values} values where the column chunk header gives {metadata.NumValues}");
     }
 
     // parquet-format: the CRC-32 (ISO-HDLC polynomial, as zlib computes it) of the page's bytes as stored.

@@ -12,6 +12,12 @@ internal sealed class SampleBatch
         RowCount = rowCount;
     }
 
+    /// <summary>
+    /// Finds where a cell was read from, for a message about a bad value; null where the reader cannot say. Like the
+    /// buffers, valid only until the next batch is requested. Called on error paths only.
+    /// </summary>
+    public CellLocator? Locate { get; init; }
+
     /// <summary>Rows in this batch.</summary>
     public int RowCount { get; }
 

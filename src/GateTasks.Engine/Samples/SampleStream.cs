@@ -51,6 +51,7 @@ internal static class SampleStream
         var spikes = inputs.Spikes.Select(v => v is { } value ? new SpikeFilter(value) : null).ToArray();
 
         long events = 0, read = 0;
+        var largestWeight = 0.0;
         // Per batch in doubles, then exactly: totals that do not depend on how batches are grouped.
         var sumW = new Statistics.ExactSum();
         var sumW2 = new Statistics.ExactSum();
@@ -72,10 +73,9 @@ internal static class SampleStream
             var rawWeights = weightIndex >= 0 ? batch.Column(weightIndex) : ReadOnlySpan<double>.Empty;
             for (var r = 0; r < rawWeights.Length; r++)
             {
-                if (!double.IsFinite(rawWeights[r]))
-                    throw new GateInputException(ErrorCodes.SampleBadWeight,
-                        $"Weight column '{weightColumn}' holds {InvariantNumber.Short(rawWeights[r])} at event {read + r} of the sample; weights must be finite.",
-                        new SourceLocation(sample.CurrentFile ?? sample.Files[0]));
+                var w = rawWeights[r];
+                if (!double.IsFinite(w)) throw BadWeight(sample, batch, weightColumn!, weightIndex, r, read + r, w);
+                largestWeight = Math.Max(largestWeight, Math.Abs(w));
             }
             read += rows;
 
@@ -167,11 +167,27 @@ internal static class SampleStream
             else for (var i = 0; i < n; i++) Visit(i);
             afterEachBatch?.Invoke(frame);
         }
+        if (weightColumn is not null)
+            SampleWeights.RequireRepresentableSquares(largestWeight, weightColumn, sample.Files, new SourceLocation(sample.Files[0]));
         return new SampleTotals(events, sumW.Value, sumW2.Value, spikes.Select(f => f?.Tally).ToList())
         {
             ExactSumW = sumW,
             ExactSumW2 = sumW2,
             SpikeFilters = spikes,
         };
+    }
+
+    // GATE2007 at the cell itself where the reader can say where it is (a CSV line and column, a Parquet row), and
+    // in the words the file uses: an empty cell or a null is a missing weight, not a NaN.
+    private static GateInputException BadWeight(Sample sample, SampleBatch batch, string weightColumn, int weightIndex, int row, long eventIndex, double value)
+    {
+        var file = sample.CurrentFile ?? sample.Files[0];
+        if (batch.Locate?.Invoke(row, weightIndex) is { } origin)
+            return new GateInputException(ErrorCodes.SampleBadWeight,
+                $"weight column '{weightColumn}' holds {origin.Written} at {origin.Place} of sample file '{file}'; every event needs a finite weight",
+                origin.Location);
+        return new GateInputException(ErrorCodes.SampleBadWeight,
+            $"weight column '{weightColumn}' holds {InvariantNumber.Short(value)} at event {eventIndex + 1} of the sample (in file '{file}'); every event needs a finite weight",
+            new SourceLocation(file));
     }
 }

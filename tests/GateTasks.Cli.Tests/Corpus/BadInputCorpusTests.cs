@@ -20,11 +20,13 @@ public sealed class BadInputCorpusTests
         var expected = new[]
         {
             "alias-bomb", "altered-reference", "bit-flipped-page", "bit-flipped-page-header", "corrupted-ledger",
-            "csv-cell-not-a-number", "deep-yaml", "duplicate-feature", "empty-sample", "extreme-magnitudes",
-            "long-expression", "malformed-yaml", "non-finite-allowed", "non-finite-values", "not-parquet",
-            "only-nan-sample", "other-binning", "path-outside-repository", "path-outside-through-link",
-            "schema-column-missing", "schema-type-changed", "symlink-loop", "truncated-parquet", "unknown-column",
-            "unknown-key", "wrong-type", "zero-variance",
+            "csv-cell-not-a-number", "csv-header-not-utf8", "csv-semicolon-separated", "deep-yaml", "duplicate-feature",
+            "empty-sample", "extreme-magnitudes", "long-expression", "malformed-yaml", "non-finite-allowed",
+            "non-finite-values", "not-parquet", "only-nan-sample", "other-binning", "page-grown-no-checksum", "page-sizes-disagree", "parquet-duplicate-column",
+            "path-outside-repository", "path-outside-through-link", "schema-column-missing", "schema-type-changed",
+            "symlink-loop", "truncated-page-no-checksum", "truncated-parquet", "unknown-column", "unknown-key",
+            "weight-missing", "weight-not-finite", "weights-all-negative", "weights-all-zero",
+            "weights-some-negative", "weights-subnormal", "wrong-type", "zero-variance",
         };
         Assert.Equal(expected, CorpusCase.All.Select(c => c.Name).Order(StringComparer.Ordinal));
     }

@@ -18,7 +18,28 @@ internal static class CorpusStep
                     ? ((YamlMappingNode)t).Children.ToDictionary(p => CorpusCase.Text(p.Key), p => CorpusCase.Text(p.Value))
                     : [];
                 var checksums = args.Children.TryGetValue("checksums", out var c) && CorpusCase.Text(c) == "on";
-                WriteParquet(PathOf("from"), PathOf("to"), types, checksums);
+                // columns: [x, y, n, x=y] writes those CSV columns in that order, the last one named x but holding y.
+                var columns = args.Children.TryGetValue("columns", out var cs)
+                    ? ((YamlSequenceNode)cs).Children.Select(CorpusCase.Text).ToList()
+                    : null;
+                WriteParquet(PathOf("from"), PathOf("to"), types, checksums, columns);
+                break;
+            case "cut":
+                var whole = File.ReadAllBytes(PathOf("file"));
+                var from = int.Parse(Arg("offset"), CultureInfo.InvariantCulture);
+                var count = int.Parse(Arg("bytes"), CultureInfo.InvariantCulture);
+                File.WriteAllBytes(PathOf("file"), [.. whole[..from], .. whole[(from + count)..]]);
+                break;
+            case "insert":
+                var original = File.ReadAllBytes(PathOf("file"));
+                var offset = int.Parse(Arg("offset"), CultureInfo.InvariantCulture);
+                File.WriteAllBytes(PathOf("file"), [.. original[..offset], .. Convert.FromHexString(Arg("hex")), .. original[offset..]]);
+                break;
+            case "add-column":
+                AddColumn(PathOf("file"), Arg("name"), Arg("value"),
+                    args.Children.TryGetValue("at", out var overrides)
+                        ? ((YamlMappingNode)overrides).Children.ToDictionary(p => int.Parse(CorpusCase.Text(p.Key), CultureInfo.InvariantCulture), p => CorpusCase.Text(p.Value))
+                        : []);
                 break;
             case "truncate":
                 var bytes = File.ReadAllBytes(PathOf("file"));
@@ -26,7 +47,9 @@ internal static class CorpusStep
                 break;
             case "flip":
                 var data = File.ReadAllBytes(PathOf("file"));
-                data[int.Parse(Arg("offset"), CultureInfo.InvariantCulture)] ^= 0xFF;
+                // mask: the bits to invert (hex, e.g. "02"); all eight unless given.
+                var mask = args.Children.ContainsKey("mask") ? Convert.FromHexString(Arg("mask"))[0] : (byte)0xFF;
+                data[int.Parse(Arg("offset"), CultureInfo.InvariantCulture)] ^= mask;
                 File.WriteAllBytes(PathOf("file"), data);
                 break;
             case "copy":
@@ -53,13 +76,28 @@ internal static class CorpusStep
         }
     }
 
-    /// <summary>Writes a CSV's columns to Parquet with ParquetSharp: one uncompressed row group, no dictionary.</summary>
-    private static void WriteParquet(string csv, string parquet, IReadOnlyDictionary<string, string> types, bool checksums)
+    /// <summary>Appends a column to every line of a CSV: its name to the header, <paramref name="value"/> to each record but those <paramref name="at"/> names (1-based record numbers).</summary>
+    private static void AddColumn(string csv, string name, string value, IReadOnlyDictionary<int, string> at)
     {
         var lines = File.ReadAllLines(csv);
-        var names = lines[0].Split(',');
+        lines[0] += "," + name;
+        for (var i = 1; i < lines.Length; i++) lines[i] += "," + at.GetValueOrDefault(i, value);
+        File.WriteAllText(csv, string.Join('\n', lines) + "\n");
+    }
+
+    /// <summary>
+    /// Writes a CSV's columns to Parquet with ParquetSharp: one uncompressed row group, no dictionary. <paramref name="columns"/>
+    /// picks and orders them (<c>name=source</c> writes column source under another name); all in file order when null.
+    /// </summary>
+    private static void WriteParquet(string csv, string parquet, IReadOnlyDictionary<string, string> types, bool checksums, IReadOnlyList<string>? columns)
+    {
+        var lines = File.ReadAllLines(csv);
+        var header = lines[0].Split(',');
+        var picked = (columns ?? header).Select(c => c.Split('=') is [var n, var from] ? (Name: n, Source: Array.IndexOf(header, from)) : (Name: c, Source: Array.IndexOf(header, c))).ToArray();
+        Assert.DoesNotContain(picked, p => p.Source < 0);
+        var names = picked.Select(p => p.Name).ToArray();
         var rows = lines.Skip(1).Select(l => l.Split(',')).ToList();
-        string[] Cells(int c) => rows.Select(r => r[c]).ToArray();
+        string[] Cells(int c) => rows.Select(r => r[picked[c].Source]).ToArray();
         double Number(string s) => double.Parse(s, CultureInfo.InvariantCulture);
 
         using var builder = new WriterPropertiesBuilder();
