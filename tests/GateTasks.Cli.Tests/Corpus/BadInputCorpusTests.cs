@@ -21,7 +21,7 @@ public sealed class BadInputCorpusTests
         {
             "alias-bomb", "altered-reference", "bit-flipped-page", "bit-flipped-page-header", "corrupted-ledger",
             "csv-cell-not-a-number", "deep-yaml", "duplicate-feature", "empty-sample", "extreme-magnitudes",
-            "long-expression", "malformed-yaml", "non-finite-allowed", "non-finite-values", "not-parquet",
+            "ledger-is-directory", "long-expression", "malformed-yaml", "non-finite-allowed", "non-finite-values", "not-parquet",
             "only-nan-sample", "other-binning", "path-outside-repository", "path-outside-through-link",
             "schema-column-missing", "schema-type-changed", "symlink-loop", "truncated-parquet", "unknown-column",
             "unknown-key", "wrong-type", "zero-variance",
