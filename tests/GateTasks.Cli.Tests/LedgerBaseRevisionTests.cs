@@ -1,5 +1,3 @@
-using System.Security.Cryptography;
-using System.Text;
 using GateTasks.Cli.Tests.Corpus;
 using GateTasks.Tests.Shared;
 
@@ -26,7 +24,7 @@ public sealed class LedgerBaseRevisionTests : IDisposable
     {
         CommitTwoEntriesOnMainThenBranch();
         var line = EntryLine(1);
-        Reseal(File.ReadAllText(Ledger).Replace("why \"first acceptance\"", "why \"first acceptance, widened\"", StringComparison.Ordinal));
+        LedgerReseal.Edit(Ledger, "why \"first acceptance\"", "why \"first acceptance, widened\"");
 
         // Without a base revision the resealed ledger still passes, and the output says the history was not checked.
         var (exit, stdout, stderr) = Gatetasks("check");
@@ -94,7 +92,7 @@ public sealed class LedgerBaseRevisionTests : IDisposable
     public void The_pull_request_base_from_CI_is_the_default()
     {
         CommitTwoEntriesOnMainThenBranch();
-        Reseal(File.ReadAllText(Ledger).Replace("why \"second acceptance\"", "why \"second acceptance, widened\"", StringComparison.Ordinal));
+        LedgerReseal.Edit(Ledger, "why \"second acceptance\"", "why \"second acceptance, widened\"");
         var github = new Dictionary<string, string> { ["GITHUB_BASE_REF"] = "main" };
 
         // GitHub Actions names the target branch; it is read as origin/main, which a shallow clone may lack: an error, never a pass.
@@ -132,7 +130,7 @@ public sealed class LedgerBaseRevisionTests : IDisposable
     public void Accept_and_history_refuse_a_ledger_that_rewrote_the_base_revision()
     {
         CommitTwoEntriesOnMainThenBranch();
-        Reseal(File.ReadAllText(Ledger).Replace("why \"first acceptance\"", "why \"first acceptance, widened\"", StringComparison.Ordinal));
+        LedgerReseal.Edit(Ledger, "why \"first acceptance\"", "why \"first acceptance, widened\"");
         var before = File.ReadAllText(Ledger);
 
         var (exit, stdout, stderr) = Gatetasks("accept", "--reason", "on top", "--by", "Tester <tester@example.org>", "--base-revision", "main");
@@ -179,29 +177,6 @@ public sealed class LedgerBaseRevisionTests : IDisposable
 
     /// <summary>The 1-based line of entry <paramref name="number"/>'s header in the ledger.</summary>
     private int EntryLine(int number) => Array.IndexOf(File.ReadAllLines(Ledger), $"[accepted {number}]") + 1;
-
-    /// <summary>
-    /// Recomputes every entry's <c>after</c> and <c>seal</c> as docs/ledger.md defines them (the SHA-256 of the entry's
-    /// lines up to and including <c>after</c>, each ended by a line feed): what someone rewriting the ledger by hand does.
-    /// </summary>
-    private void Reseal(string text)
-    {
-        var lines = text.Split('\n').ToList();
-        var previous = "sha256:none";
-        var start = -1;
-        for (var i = 0; i < lines.Count; i++)
-        {
-            if (lines[i].StartsWith("[accepted ", StringComparison.Ordinal)) start = i;
-            else if (lines[i].StartsWith("after ", StringComparison.Ordinal)) lines[i] = "after " + previous;
-            else if (lines[i].StartsWith("seal ", StringComparison.Ordinal))
-            {
-                var block = string.Concat(lines.Skip(start).Take(i - start).Select(l => l + "\n"));
-                previous = "sha256:" + Convert.ToHexString(SHA256.HashData(Encoding.UTF8.GetBytes(block))).ToLowerInvariant();
-                lines[i] = "seal " + previous;
-            }
-        }
-        File.WriteAllText(Ledger, string.Join('\n', lines));
-    }
 
     private (int Exit, string Stdout, string Stderr) Gatetasks(params string[] args) => Gatetasks(null, args);
 
