@@ -144,6 +144,35 @@ public sealed class LedgerBaseRevisionTests : IDisposable
     }
 
     [GitFact]
+    public void A_broken_ledger_at_the_base_revision_is_an_error_not_a_pass()
+    {
+        Setup();
+        Succeed("accept", "--reason", "first acceptance", "--by", "Tester <tester@example.org>");
+        var intact = File.ReadAllText(Ledger);
+        File.WriteAllText(Ledger, intact.Replace("first acceptance", "first acceptance, edited", StringComparison.Ordinal));
+        Git("add", "-A");
+        Git("commit", "-q", "-m", "an entry edited without resealing");
+        Git("checkout", "-q", "-b", "feature");
+        File.WriteAllText(Ledger, intact);
+
+        var (exit, stdout, stderr) = Gatetasks("check", "--base-revision", "main");
+        Assert.True(exit == 2, $"exit {exit}\n{stdout}{stderr}");
+        Assert.Contains("error GATE4015: The ledger as committed at base revision main", stderr);
+    }
+
+    [GitFact]
+    public void Outside_a_repository_a_base_revision_is_an_error()
+    {
+        CorpusData.Write(_folder);
+        File.Copy(Path.Combine(CorpusCase.BaseFolder, "contract.yaml"), Path.Combine(_folder, "contract.yaml"));
+        Succeed("reference", "build", "--from", "reference.csv");
+        var (exit, stdout, stderr) = Gatetasks("check", "--base-revision", "main");
+        Assert.True(exit == 2, $"exit {exit}\n{stdout}{stderr}");
+        Assert.Contains("error GATE4013", stderr);
+        Assert.Contains("not a git repository", stderr);
+    }
+
+    [GitFact]
     public void Without_git_a_base_revision_is_an_error()
     {
         CommitTwoEntriesOnMainThenBranch();

@@ -19,7 +19,7 @@ public sealed class BadInputCorpusTests
         // A guard against cases going missing: the list the corpus was written for.
         var expected = new[]
         {
-            "alias-bomb", "altered-reference", "bit-flipped-page", "bit-flipped-page-header", "corrupted-ledger",
+            "alias-bomb", "altered-reference", "base-revision-without-repository", "bit-flipped-page", "bit-flipped-page-header", "corrupted-ledger",
             "csv-cell-not-a-number", "deep-yaml", "duplicate-feature", "empty-sample", "extreme-magnitudes",
             "ledger-is-directory", "long-expression", "malformed-yaml", "non-finite-allowed", "non-finite-values", "not-parquet",
             "only-nan-sample", "other-binning", "path-outside-repository", "path-outside-through-link",
