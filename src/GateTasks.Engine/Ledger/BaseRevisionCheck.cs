@@ -23,7 +23,7 @@ internal static class BaseRevisionCheck
     public static Result Verify(PrecisionContract contract, BaseRevision? baseRevision, IGitCommandLine git)
     {
         if (baseRevision is null)
-            return new("ledger history: not checked (no --base-revision, no GateBaseRevision, and no pull-request base from CI): " +
+            return new("ledger history: not checked (no base revision given, and no pull-request base from CI): " +
                        "an accepted entry edited and resealed would not be detected", null);
         var path = contract.LedgerFullPath;
         var at = new SourceLocation(path);
