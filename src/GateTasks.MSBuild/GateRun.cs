@@ -42,6 +42,12 @@ public sealed class GateRun : Task, ICancelableTask
     /// <summary>Folder for the reports (check only).</summary>
     public string? ReportDirectory { get; set; }
 
+    /// <summary>
+    /// Git revision whose acceptance ledger each contract's ledger must extend (check only); empty: the engine's default
+    /// (a CI system's pull-request base, else none).
+    /// </summary>
+    public string? BaseRevision { get; set; }
+
     /// <summary>Report failed checks as warnings instead of errors.</summary>
     public bool FailuresAsWarnings { get; set; }
 
@@ -138,6 +144,7 @@ public sealed class GateRun : Task, ICancelableTask
         var markdown = Path.Combine(folder, name + ".md");
         var args = new List<string> { "check", "--contract", contract, "--junit", junit, "--text", text, "--html", html, "--markdown", markdown };
         AddSample(args);
+        if (!string.IsNullOrWhiteSpace(BaseRevision)) args.AddRange(new[] { "--base-revision", BaseRevision!.Trim() });
         var exit = RunEngine(args, line => LogLine(line, MessageImportance.Low));
         foreach (var (file, kind) in new[] { (junit, "junit"), (text, "text"), (html, "html"), (markdown, "markdown") })
         {
@@ -192,7 +199,9 @@ public sealed class GateRun : Task, ICancelableTask
             // The one-line verdict is shown at normal verbosity; the table and the rest at detailed.
             var summary = text.StartsWith("PASSED:", StringComparison.Ordinal) || text.StartsWith("FAILED:", StringComparison.Ordinal);
             // Progress of a long read shows at normal verbosity, like the build's own progress.
-            var progress = text.StartsWith("progress:", StringComparison.Ordinal);
+            var progress = text.StartsWith("progress:", StringComparison.Ordinal)
+                // Whether the ledger was held to its base revision is shown too: "not checked" must not go unseen.
+                || text.StartsWith("ledger history:", StringComparison.Ordinal);
             Log.LogMessage(summary ? MessageImportance.High : progress ? MessageImportance.Normal : otherImportance, "{0}", text);
             return;
         }

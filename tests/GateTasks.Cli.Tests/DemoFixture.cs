@@ -24,6 +24,14 @@ public sealed class DemoFixture : IDisposable
 /// <summary>Runs the CLI in-process with captured output.</summary>
 public static class Cli
 {
+    // A pull request's base in the test run's own environment (CI) would make every in-process check compare the
+    // ledger with it; tests of that behaviour set it for the child process they start.
+    static Cli()
+    {
+        foreach (var v in new[] { "GITHUB_BASE_REF", "CI_MERGE_REQUEST_DIFF_BASE_SHA", "SYSTEM_PULLREQUEST_TARGETBRANCH" })
+            Environment.SetEnvironmentVariable(v, null);
+    }
+
     public static (int ExitCode, string Stdout, string Stderr) Run(params string[] args)
     {
         var stdout = new StringWriter();

@@ -17,6 +17,8 @@ public static class ProcessRunner
         foreach (var a in args) psi.ArgumentList.Add(a);
         // CI markers change build behaviour; tests of the tool must not inherit them.
         foreach (var v in new[] { "CI", "GITHUB_ACTIONS", "TF_BUILD" }) psi.Environment.Remove(v);
+        // A pull request's base (read by the ledger's history check) must not reach the tool either.
+        foreach (var v in new[] { "GITHUB_BASE_REF", "CI_MERGE_REQUEST_DIFF_BASE_SHA", "SYSTEM_PULLREQUEST_TARGETBRANCH" }) psi.Environment.Remove(v);
         psi.Environment["MSBUILDDISABLENODEREUSE"] = "1";
         psi.Environment["DOTNET_CLI_TELEMETRY_OPTOUT"] = "1";
         psi.Environment["DOTNET_NOLOGO"] = "1";

@@ -54,6 +54,46 @@ public class BuildStepTests(PackageFeed feed)
     }
 
     [Fact]
+    public void With_GateBaseRevision_a_ledger_entry_edited_and_resealed_fails_the_build()
+    {
+        var p = GateProject.Create(feed, "BaseRevisionGate");
+        void Git(params string[] args)
+        {
+            var (exit, stdout, stderr) = GateTasks.Tests.Shared.ProcessRunner.Run("git", args, p.Directory);
+            Assert.True(exit == 0, $"git {string.Join(' ', args)}: {stdout}{stderr}");
+        }
+        Git("init", "-q", "-b", "main");
+        Git("config", "user.email", "e2e@example.org");
+        Git("config", "user.name", "E2E Tester");
+        Git("config", "commit.gpgsign", "false");
+        Git("add", "-A");
+        Git("commit", "-q", "-m", "the accepted state");
+        Git("checkout", "-q", "-b", "feature");
+
+        // Entry 1 edited and every seal recomputed: the chain is intact, so without a base revision the build passes
+        // and says the history was not checked (docs/ledger.md, docs/msbuild.md).
+        var ledger = Path.Combine(p.Directory, "precision-contract.ledger");
+        GateTasks.Tests.Shared.LedgerReseal.Edit(ledger, "by \"GateTasks demo\"", "by \"Somebody Else\"");
+        var (code, output) = p.Build();
+        Assert.True(code == 0, output);
+        Assert.Contains("ledger history: not checked", output);
+
+        // With the target branch as base revision, the build fails at the edited entry; and again on a rebuild with
+        // nothing changed, since the base's ledger is no input file the up-to-date check could see.
+        for (var run = 0; run < 2; run++)
+        {
+            (code, output) = p.Build("-p:GateBaseRevision=main");
+            Assert.NotEqual(0, code);
+            Assert.Matches(new Regex(@"precision-contract\.ledger\(5,1\): error GATE4002: Entry 1 \(line 5\) is not the entry accepted at base revision main"), output);
+        }
+
+        // An unknown base revision is an error, never a pass.
+        (code, output) = p.Build("-p:GateBaseRevision=no-such-branch");
+        Assert.NotEqual(0, code);
+        Assert.Contains("error GATE4012", output);
+    }
+
+    [Fact]
     public void Faithful_sample_builds_writes_reports_and_an_unchanged_rebuild_skips_the_check()
     {
         var p = GateProject.Create(feed, "FaithfulGate");

@@ -15,15 +15,20 @@ internal static class AcceptCommand
         var sample = SharedOptions.Sample();
         var reason = new Option<string>("--reason", "-r") { Description = "Why this state is accepted (one line; required).", Required = true };
         var by = new Option<string?>("--by") { Description = "Who accepts (default: the CI user, else git's user.name and user.email)." };
+        var baseRevision = SharedOptions.BaseRevision();
         var command = new Command("accept", "Check the sample, then record the contract, the reference and the results as accepted in the contract's ledger. Refused when the check does not pass.")
         {
-            contract, sample, reason, by,
+            contract, sample, reason, by, baseRevision,
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             var who = parse.GetValue(by) ?? AcceptorIdentity.Find(loaded.Directory)
                 ?? throw new GateInputException(ErrorCodes.Usage, "Cannot tell who accepts: no CI user and no git user.name here; say it with --by \"Name <email>\".");
+            // An entry is never appended to a ledger that rewrote the accepted history.
+            var history = SharedOptions.CheckHistory(loaded, parse.GetValue(baseRevision));
+            stdout.WriteLine(history.Note);
+            if (history.Finding is { } finding) throw new GateInputException(finding.Code, "Not accepted: " + finding.Message, finding.Location);
             var report = ContractCheck.Run(loaded, parse.GetValue(sample), ProgressDisplay.For(stdout, stderr));
             var entry = Acceptance.Accept(report, who, parse.GetValue(reason)!, DateTimeOffset.UtcNow);
             stdout.WriteLine($"accepted as entry {entry.Number} of {loaded.LedgerFullPath}");

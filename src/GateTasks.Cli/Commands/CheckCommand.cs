@@ -35,9 +35,10 @@ internal static class CheckCommand
             Description = "Decide from partial files (from 'gatetasks fill' on shards of the sample, or 'gatetasks merge') instead of reading a sample.",
             AllowMultipleArgumentsPerToken = true,
         };
+        var baseRevision = SharedOptions.BaseRevision();
         var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed (or was inconclusive, if the contract says so); 2: input error; 4: the checks pass but the contract or reference in use is not the accepted one (see the ledger errors).")
         {
-            contract, sample, junit, text, html, markdown, partials,
+            contract, sample, junit, text, html, markdown, partials, baseRevision,
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
@@ -49,7 +50,7 @@ internal static class CheckCommand
             UnfinishedReport.MarkRunning(reports, contractPath, started);
             try
             {
-                return Check(contractPath, parse.GetValue(sample), parse.GetValue(partials), reports, stdout, stderr);
+                return Check(contractPath, parse.GetValue(sample), parse.GetValue(partials), parse.GetValue(baseRevision), reports, stdout, stderr);
             }
             catch (GateInputException e)
             {
@@ -61,13 +62,17 @@ internal static class CheckCommand
         return command;
     }
 
-    private static int Check(string contractPath, string? samplePath, string[]? partials, UnfinishedReport.Paths reports,
+    private static int Check(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
         TextWriter stdout, TextWriter stderr)
     {
         var loaded = ContractLoader.Load(contractPath);
+        // Before the sample is read: an unknown base revision stops the run at once.
+        var history = SharedOptions.CheckHistory(loaded, baseRevision);
+        stdout.WriteLine(history.Note);
         var report = partials is { Length: > 0 }
             ? ContractCheck.RunFromPartials(loaded, ShardCommands.Expand(partials))
             : ContractCheck.Run(loaded, samplePath, ProgressDisplay.For(stdout, stderr));
+        if (history.Finding is { } finding) report = report with { Acceptance = [finding, .. report.Acceptance] };
         if (reports.Text is { } textPath)
             AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
         var written = new List<string>();

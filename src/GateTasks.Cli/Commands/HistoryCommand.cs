@@ -1,5 +1,6 @@
 using System.CommandLine;
 using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Ledger;
 
 namespace GateTasks.Cli.Commands;
@@ -10,11 +11,15 @@ internal static class HistoryCommand
     public static Command Create(TextWriter stdout, TextWriter stderr)
     {
         var contract = SharedOptions.Contract();
-        var command = new Command("history", "List the accepted entries of the contract's ledger, oldest first, with the tolerances loosened and tightened at each.") { contract };
+        var baseRevision = SharedOptions.BaseRevision();
+        var command = new Command("history", "List the accepted entries of the contract's ledger, oldest first, with the tolerances loosened and tightened at each.") { contract, baseRevision };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             var path = loaded.LedgerFullPath;
+            LedgerGuard.RefuseDirectory(loaded);
+            var history = SharedOptions.CheckHistory(loaded, parse.GetValue(baseRevision));
+            if (history.Finding is { } finding) throw new GateInputException(finding.Code, finding.Message, finding.Location);
             if (!File.Exists(path))
             {
                 stdout.WriteLine($"No acceptance ledger at {path}; start one with: {LedgerGuard.AcceptCommand(loaded)}");
@@ -22,6 +27,7 @@ internal static class HistoryCommand
             }
             var entries = LedgerFile.Read(path);
             stdout.WriteLine($"{path}: {entries.Count} accepted entr{(entries.Count == 1 ? "y" : "ies")}, chain intact");
+            stdout.WriteLine(history.Note);
             foreach (var item in LedgerHistory.Of(entries))
             {
                 var e = item.Entry;

@@ -1,5 +1,6 @@
 using System.CommandLine;
 using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Ledger;
 
 namespace GateTasks.Cli.Commands;
 
@@ -16,4 +17,15 @@ internal static class SharedOptions
     {
         Description = "Surrogate sample to use instead of the contract's: a Parquet or CSV file, a folder, or a glob (relative to the working directory).",
     };
+
+    public static Option<string?> BaseRevision() => new("--base-revision")
+    {
+        Description = "Git revision (e.g. the pull request's target branch) whose acceptance ledger the ledger must extend, entry for entry. " +
+                      "Default: the pull-request base CI provides (GITHUB_BASE_REF as origin/BRANCH, CI_MERGE_REQUEST_DIFF_BASE_SHA, " +
+                      "SYSTEM_PULLREQUEST_TARGETBRANCH as origin/BRANCH); none otherwise, and the history is not checked.",
+    };
+
+    /// <summary>Compares the contract's ledger with the base revision in effect (the option, else CI's), with git.</summary>
+    public static BaseRevisionCheck.Result CheckHistory(PrecisionContract contract, string? baseRevision) =>
+        BaseRevisionCheck.Verify(contract, Engine.Ledger.BaseRevision.Choose(baseRevision, Environment.GetEnvironmentVariable), new GitProcess());
 }

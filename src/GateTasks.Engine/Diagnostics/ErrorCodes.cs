@@ -128,6 +128,16 @@ public static class ErrorCodes
     public const string AcceptRefused = "GATE4007";
     /// <summary>A check's margin fell below the last accepted one by more than its noise (the ratchet).</summary>
     public const string RatchetDegraded = "GATE4010";
+    /// <summary>A base revision is in effect but the <c>git</c> program cannot be started.</summary>
+    public const string GitUnavailable = "GATE4011";
+    /// <summary>The base revision names no commit in the repository that holds the ledger.</summary>
+    public const string BaseRevisionUnknown = "GATE4012";
+    /// <summary>The ledger's folder is not in a Git work tree, or <c>git</c> failed otherwise.</summary>
+    public const string GitFailed = "GATE4013";
+    /// <summary>The acceptance ledger's path is a directory.</summary>
+    public const string LedgerIsDirectory = "GATE4014";
+    /// <summary>The ledger as committed at the base revision cannot be read or its chain is broken.</summary>
+    public const string BaseLedgerUnreadable = "GATE4015";
     /// <summary>A check the sample is too small to decide (an error or a warning, by the contract's policy).</summary>
     public const string Inconclusive = "GATE3100";
 }

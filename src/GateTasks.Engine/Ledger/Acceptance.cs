@@ -25,6 +25,7 @@ internal static class Acceptance
                 $"Not accepted: the check does not pass ({report.Failures} failed, {report.Inconclusive} inconclusive). An entry records a state that passes; fix the surrogate or the contract first.",
                 new SourceLocation(contract.FilePath, 1, 1));
         var path = contract.LedgerFullPath;
+        LedgerGuard.RefuseDirectory(contract);
         var existing = File.Exists(path) ? LedgerFile.Read(path) : [];
         var state = AcceptedState.Of(contract, report.Outcomes);
         var results = ResultsText(report);

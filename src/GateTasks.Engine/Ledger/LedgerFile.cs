@@ -26,6 +26,8 @@ internal static class LedgerFile
     /// <summary>Reads and verifies a ledger: syntax (GATE4006) and the chain of seals (GATE4002).</summary>
     public static IReadOnlyList<LedgerEntry> Read(string path)
     {
+        if (Directory.Exists(path))
+            throw new GateInputException(ErrorCodes.LedgerIsDirectory, $"The acceptance ledger {path} is a directory, not a file.", new SourceLocation(path));
         string[] lines;
         try
         {
@@ -35,10 +37,19 @@ internal static class LedgerFile
         {
             throw new GateInputException(ErrorCodes.LedgerSyntax, $"Cannot read the ledger: {e.Message}", new SourceLocation(path));
         }
+        return Parse(lines, path);
+    }
+
+    /// <summary>
+    /// Reads and verifies a ledger's text, split into lines as <see cref="File.ReadAllLines(string)"/> splits them;
+    /// <paramref name="path"/> names it in messages.
+    /// </summary>
+    public static IReadOnlyList<LedgerEntry> Parse(IReadOnlyList<string> lines, string path)
+    {
         var entries = new List<LedgerEntry>();
         var i = 0;
-        while (i < lines.Length && (lines[i].Length == 0 || lines[i].StartsWith('#'))) i++;
-        while (i < lines.Length)
+        while (i < lines.Count && (lines[i].Length == 0 || lines[i].StartsWith('#'))) i++;
+        while (i < lines.Count)
         {
             if (lines[i].Length == 0) { i++; continue; }
             var start = i;
@@ -46,18 +57,18 @@ internal static class LedgerFile
                 throw new GateInputException(ErrorCodes.LedgerSyntax, $"Expected an entry header '[accepted N]', found '{Shorten(lines[i])}'.", new SourceLocation(path, i + 1, 1));
             var block = new List<string> { lines[i] };
             i++;
-            while (i < lines.Length && !lines[i].StartsWith("seal ", StringComparison.Ordinal))
+            while (i < lines.Count && !lines[i].StartsWith("seal ", StringComparison.Ordinal))
             {
                 if (lines[i].StartsWith("[accepted ", StringComparison.Ordinal))
                     throw new GateInputException(ErrorCodes.LedgerTampered, $"The entry starting at line {start + 1} has no seal: it was cut short or edited.", new SourceLocation(path, start + 1, 1));
                 block.Add(lines[i]);
                 i++;
             }
-            if (i >= lines.Length)
+            if (i >= lines.Count)
                 throw new GateInputException(ErrorCodes.LedgerTampered, $"The entry starting at line {start + 1} has no seal: the ledger was cut short or edited.", new SourceLocation(path, start + 1, 1));
             var seal = LedgerLine.Parse(lines[i], path, i + 1);
             i++;
-            var entry = ParseBlock(block, seal, path, start + 1);
+            var entry = ParseBlock(block, seal, path, start + 1) with { LastLine = i };
             // The seal covers the lines exactly as written, so even an edit that keeps the meaning is seen.
             if (Seal(block) != entry.Seal)
                 throw new GateInputException(ErrorCodes.LedgerTampered,

@@ -18,11 +18,36 @@ internal static class LedgerGuard
     public static string AcceptCommand(PrecisionContract contract) =>
         $"gatetasks accept --contract {Quote(contract.FilePath)} --reason \"…\"";
 
+    /// <summary>Where the contract names its ledger: the <c>acceptance.ledger</c> line, else the acceptance block, else its top.</summary>
+    public static SourceLocation LedgerLocation(PrecisionContract contract) =>
+        contract.Guard.LedgerLocation ?? contract.Guard.Location ?? new SourceLocation(contract.FilePath, 1, 1);
+
+    /// <summary>
+    /// Refuses a ledger path that is a directory (GATE4014, at the contract's <c>acceptance.ledger</c> line): it is
+    /// neither a missing ledger nor one that can be read or appended to.
+    /// </summary>
+    public static void RefuseDirectory(PrecisionContract contract)
+    {
+        var path = contract.LedgerFullPath;
+        if (Directory.Exists(path))
+            throw new GateInputException(ErrorCodes.LedgerIsDirectory,
+                $"The acceptance ledger {path} is a directory, not a file; name a ledger file in 'acceptance.ledger', or remove the directory.",
+                LedgerLocation(contract));
+    }
+
     public static IReadOnlyList<LedgerFinding> Verify(PrecisionContract contract, string referenceSha256, IReadOnlyList<CheckOutcome>? outcomes = null)
     {
         var guard = contract.Guard;
         var path = contract.LedgerFullPath;
         var fix = $"record it with: {AcceptCommand(contract)}";
+        try
+        {
+            RefuseDirectory(contract);
+        }
+        catch (GateInputException e)
+        {
+            return [new(e.Code, true, e.Message, e.Location)];
+        }
         if (!File.Exists(path))
             return [new(ErrorCodes.LedgerMissing, guard.Required,
                 $"No acceptance ledger at {path}: the tolerances in use are recorded nowhere; {fix}", guard.Location ?? new SourceLocation(contract.FilePath, 1, 1))];
