@@ -15,6 +15,7 @@ internal static class HistoryCommand
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             var path = loaded.LedgerFullPath;
+            new RunPaths().Read(path, "the contract's acceptance ledger").VerifyInputs();
             if (!File.Exists(path))
             {
                 stdout.WriteLine($"No acceptance ledger at {path}; start one with: {LedgerGuard.AcceptCommand(loaded)}");
