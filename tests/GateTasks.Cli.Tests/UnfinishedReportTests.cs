@@ -86,7 +86,8 @@ public sealed class UnfinishedReportTests : IDisposable
 
         using var process = StartCheck(contractPath, "--junit", junit).Process;
         var clock = Stopwatch.StartNew();
-        while (!File.ReadAllText(junit).Contains("GATE0003", StringComparison.Ordinal) && clock.Elapsed < TimeSpan.FromSeconds(60))
+        // The earlier report is deleted first, then the marker renamed into place: the path may briefly hold nothing.
+        while (!(ReadIfThere(junit)?.Contains("GATE0003", StringComparison.Ordinal) ?? false) && clock.Elapsed < TimeSpan.FromSeconds(60))
             Thread.Sleep(20);
         Assert.False(process.HasExited, "the check finished before it could be killed; the sample is too small for this test");
         process.Kill(entireProcessTree: true);
@@ -97,6 +98,12 @@ public sealed class UnfinishedReportTests : IDisposable
         Assert.Equal("GATE0003", root.Descendants("error").Single().Attribute("type")!.Value);
         Assert.Contains("has not finished", root.Descendants("error").Single().Attribute("message")!.Value);
         Assert.Empty(Directory.EnumerateFiles(_dir, "*.tmp")); // nothing half-written beside it either
+    }
+
+    private static string? ReadIfThere(string path)
+    {
+        try { return File.ReadAllText(path); }
+        catch (FileNotFoundException) { return null; }
     }
 
     [Fact]

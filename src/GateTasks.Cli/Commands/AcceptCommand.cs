@@ -23,6 +23,10 @@ internal static class AcceptCommand
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
+            // The ledger is written: it must be a regular file or a new path, and none of the files the check reads.
+            new RunPaths().Read(loaded.FilePath, "the contract").Read(loaded.ReferenceFullPath, "the contract's reference")
+                .Read(ContractInputs.SampleFiles(loaded, parse.GetValue(sample)), "a sample file")
+                .Write(loaded.LedgerFullPath, "the acceptance ledger").Verify();
             var who = parse.GetValue(by) ?? AcceptorIdentity.Find(loaded.Directory)
                 ?? throw new GateInputException(ErrorCodes.Usage, "Cannot tell who accepts: no CI user and no git user.name here; say it with --by \"Name <email>\".");
             // An entry is never appended to a ledger that rewrote the accepted history.

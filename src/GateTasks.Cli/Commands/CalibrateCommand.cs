@@ -22,7 +22,7 @@ internal static class CalibrateCommand
         var events = new Option<string>("--events") { Description = "Surrogate sample sizes, comma-separated.", DefaultValueFactory = _ => "100000,1000000" };
         var feature = new Option<string?>("--feature") { Description = "Feature to drift (default: the first continuous one; the first discrete one for the spike-fraction drift)." };
         var seed = new Option<int>("--seed") { Description = "Seed of the study.", DefaultValueFactory = _ => 1 };
-        var markdown = new Option<string?>("--markdown") { Description = "Also write the table to this Markdown file." };
+        var markdown = new Option<string?>("--markdown") { Description = "Also write the table to this Markdown file." }.NotEmpty();
         var command = new Command("calibrate", "Measure the contract's false-alarm rate (null replicas) and detection rate (injected drifts) by simulation from the reference.")
         {
             contract, replicas, events, feature, seed, markdown,
@@ -30,6 +30,7 @@ internal static class CalibrateCommand
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var c = ContractLoader.Load(parse.GetValue(contract)!);
+            new RunPaths().Contract(c).Write(parse.GetValue(markdown), "--markdown").Verify();
             var reference = ReferenceFile.Read(c.ReferenceFullPath, c.ReferenceLocation);
             var sizes = parse.GetValue(events)!.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries)
                 .Select(s => long.TryParse(s, NumberStyles.Integer, CultureInfo.InvariantCulture, out var n) && n > 0 ? n

@@ -17,55 +17,97 @@ internal static class CheckCommand
         var junit = new Option<string?>("--junit")
         {
             Description = "Also write a JUnit XML report to this path.",
-        };
+        }.NotEmpty();
         var text = new Option<string?>("--text")
         {
             Description = "Also write the result table and summary as plain text to this path.",
-        };
+        }.NotEmpty();
         var html = new Option<string?>("--html")
         {
             Description = "Also write a self-contained HTML report with a plot per feature to this path.",
-        };
+        }.NotEmpty();
         var markdown = new Option<string?>("--markdown")
         {
             Description = "Also write a Markdown summary (for a pull-request comment or CI job summary) to this path.",
-        };
+        }.NotEmpty();
         var partials = new Option<string[]>("--partials")
         {
             Description = "Decide from partial files (from 'gatetasks fill' on shards of the sample, or 'gatetasks merge') instead of reading a sample.",
             AllowMultipleArgumentsPerToken = true,
-        };
+        }.NotEmpty();
         var baseRevision = SharedOptions.BaseRevision();
         var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed (or was inconclusive, if the contract says so); 2: input error; 4: the checks pass but the contract or reference in use is not the accepted one (see the ledger errors).")
         {
             contract, sample, junit, text, html, markdown, partials, baseRevision,
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
-        {
-            var contractPath = parse.GetValue(contract)!;
-            var reports = new UnfinishedReport.Paths(parse.GetValue(junit), parse.GetValue(text), parse.GetValue(html), parse.GetValue(markdown));
-            var started = DateTimeOffset.UtcNow;
-            // No report path keeps an earlier verdict while this check runs, or after it stops on bad input: what a
-            // killed run leaves says it did not finish.
-            UnfinishedReport.MarkRunning(reports, contractPath, started);
-            try
-            {
-                return Check(contractPath, parse.GetValue(sample), parse.GetValue(partials), parse.GetValue(baseRevision), reports, stdout, stderr);
-            }
-            catch (GateInputException e)
-            {
-                try { UnfinishedReport.MarkFailed(reports, contractPath, started, e); }
-                catch (GateInputException) { } // the report path itself is the problem: the original error says more
-                throw;
-            }
-        }));
+            Run(parse.GetValue(contract)!, parse.GetValue(sample), parse.GetValue(partials), parse.GetValue(baseRevision),
+                new UnfinishedReport.Paths(parse.GetValue(junit), parse.GetValue(text), parse.GetValue(html), parse.GetValue(markdown)),
+                stdout, stderr)));
         return command;
     }
 
-    private static int Check(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
+    private static int Run(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
         TextWriter stdout, TextWriter stderr)
     {
-        var loaded = ContractLoader.Load(contractPath);
+        var started = DateTimeOffset.UtcNow;
+        // Every file the check reads, found without reading any at length; an input error here is held until the
+        // reports are cleared, so that it is what they say.
+        var paths = new RunPaths().Write(reports.JUnit, "--junit").Write(reports.Text, "--text").Write(reports.Html, "--html")
+            .Write(reports.Markdown, "--markdown").Read(contractPath, "the contract");
+        PrecisionContract? loaded = null;
+        GateInputException? pending = null;
+        try
+        {
+            loaded = ContractLoader.Load(contractPath);
+            paths.Contract(loaded, readsLedger: true);
+        }
+        catch (GateInputException e)
+        {
+            pending = e;
+            // The contract's own ledger is unknown; at least the default one is never overwritten.
+            paths.Keep(Path.Combine(Path.GetDirectoryName(Path.GetFullPath(contractPath))!, AcceptanceSettings.DefaultLedgerName(contractPath)),
+                "the contract's acceptance ledger");
+        }
+        try
+        {
+            if (partials is { Length: > 0 }) paths.Read(ShardCommands.Expand(partials), "a partial file");
+            else if (samplePath is not null) paths.Read(Engine.Samples.SampleFiles.Resolve(samplePath, Directory.GetCurrentDirectory()), "a sample file");
+            else if (loaded is not null) paths.Read(ContractInputs.SampleFiles(loaded, null), "a sample file");
+        }
+        catch (GateInputException e)
+        {
+            pending ??= e;
+        }
+        // A report path that would destroy an input, or is no regular file, is refused before any file is touched.
+        paths.VerifyOutputs();
+
+        try
+        {
+            // No report keeps an earlier verdict, whatever happens next: removed first (which works on a full disk),
+            // then marked as running, which is what a killed run leaves.
+            UnfinishedReport.Clear(reports);
+            UnfinishedReport.MarkRunning(reports, contractPath, started);
+            if (pending is not null) throw pending;
+            paths.VerifyInputs();
+            return Check(loaded!, samplePath, partials, baseRevision, reports, stdout, stderr);
+        }
+        catch (GateInputException e)
+        {
+            UnfinishedReport.MarkFailed(reports, contractPath, started, e);
+            throw;
+        }
+        catch (Exception e) when (e is not OutOfMemoryException)
+        {
+            UnfinishedReport.MarkStopped(reports, contractPath, started, ErrorCodes.CheckUnfinished,
+                $"the check stopped on an internal error ({e.GetType().Name}: {e.Message})", null);
+            throw;
+        }
+    }
+
+    private static int Check(PrecisionContract loaded, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
+        TextWriter stdout, TextWriter stderr)
+    {
         // Before the sample is read: an unknown base revision stops the run at once.
         var history = SharedOptions.CheckHistory(loaded, baseRevision);
         stdout.WriteLine(history.Note);

@@ -1,7 +1,10 @@
 using System.CommandLine;
 using System.Diagnostics;
 using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Demo;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
 
 namespace GateTasks.Cli.Commands;
 
@@ -17,7 +20,7 @@ internal static class DemoCommand
         {
             Description = "Folder for the demo's samples, contract, reference and reports.",
             DefaultValueFactory = _ => "gatetasks-demo",
-        };
+        }.NotEmpty();
         var surrogate = new Option<string>("--surrogate")
         {
             Description = "Which surrogate the demo plays: 'generator' (reco-level events in place of the full simulation) or 'response' (a fast detector response, checked per bin of the true energy).",
@@ -32,6 +35,7 @@ internal static class DemoCommand
 
     private static int Run(DemoRun demo, TextWriter stdout, TextWriter stderr)
     {
+        Verify(demo);
         var clock = Stopwatch.StartNew();
         var response = demo.Kind == DemoKind.Response;
         stdout.WriteLine($"GateTasks demo in {demo.Folder} ({(response ? "a fast detector response" : "a generator surrogate")})");
@@ -64,6 +68,27 @@ internal static class DemoCommand
         stdout.WriteLine($"Open {Path.Combine(demo.ReportFolder, "drifted.html")} in a browser to see each feature's distributions and ratios.");
         stdout.WriteLine($"Try it yourself: cd {demo.Folder} && gatetasks check --sample {Path.GetFileName(demo.DriftedPath)} --junit drifted.xml --html drifted.html");
         return asExpected ? ExitCodes.Success : ExitCodes.ChecksFailed;
+    }
+
+    /// <summary>
+    /// Refuses, before anything is written, a folder where the demo would destroy something: one of its files that is not
+    /// a regular file (GATE0005), or a contract there that is not the demo's (GATE0004): the demo would replace it and
+    /// delete its ledger.
+    /// </summary>
+    private static void Verify(DemoRun demo)
+    {
+        var paths = new RunPaths();
+        foreach (var file in new[] { demo.FullSimulationPath, demo.FaithfulPath, demo.DriftedPath, demo.ContractPath,
+                     Path.Combine(demo.Folder, DemoContract.ReferenceFileName), Path.Combine(demo.Folder, AcceptanceSettings.DefaultLedgerName(demo.ContractPath)) }
+                     .Concat(new[] { "faithful", "drifted" }.SelectMany(n => new[] { ".junit.xml", ".html", ".md" }.Select(e => Path.Combine(demo.ReportFolder, n + e)))))
+            paths.Write(file, "the demo's file");
+        paths.VerifyOutputs();
+        var contract = new FileInfo(demo.ContractPath);
+        if (contract.Exists && (contract.Length > InputFileGuard.ContractSizeLimit
+                                || File.ReadAllText(contract.FullName) is var text && text != DemoContract.Text && text != DemoContract.ResponseText))
+            throw new GateInputException(ErrorCodes.OutputIsInput,
+                $"{contract.FullName} is a contract the demo did not write; the demo would replace it and delete its ledger. Run the demo in a folder of its own (--dir).",
+                new SourceLocation(contract.FullName));
     }
 
     /// <summary>Names the JUnit report and the HTML report and Markdown summary written beside it.</summary>

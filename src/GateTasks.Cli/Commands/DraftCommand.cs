@@ -14,7 +14,7 @@ internal static class DraftCommand
 {
     public static Command Create(TextWriter stdout, TextWriter stderr)
     {
-        var from = new Option<string>("--from") { Description = "Trusted full-simulation sample: a Parquet or CSV file, a folder, or a glob.", Required = true };
+        var from = new Option<string>("--from") { Description = "Trusted full-simulation sample: a Parquet or CSV file, a folder, or a glob.", Required = true }.NotEmpty();
         var dataEvents = new Option<long>("--data-events")
         {
             Description = "How many data events the analysis expects (after its selection): the statistical precision the tolerances derive from.",
@@ -35,9 +35,9 @@ internal static class DraftCommand
         var categories = new Option<int>("--max-categories") { Description = "A whole-number column with at most this many distinct values is discrete.", DefaultValueFactory = _ => 20 };
         var spikeShare = new Option<double>("--spike-share") { Description = "A value holding at least this share of a continuous column's events becomes a declared spike.", DefaultValueFactory = _ => 0.05 };
         var weight = new Option<string?>("--weight") { Description = "Weight column of the trusted sample (also written as the contract's sample weight)." };
-        var sample = new Option<string>("--sample-path") { Description = "The surrogate sample path written into the contract.", DefaultValueFactory = _ => "surrogate/*.parquet" };
-        var reference = new Option<string?>("--reference-path") { Description = "The reference path written into the contract (default: reference/<trusted sample>-reference.parquet)." };
-        var output = new Option<string>("--output", "-o") { Description = "Where to write the draft.", DefaultValueFactory = _ => Engine.Contracts.PrecisionContract.DefaultFileName };
+        var sample = new Option<string>("--sample-path") { Description = "The surrogate sample path written into the contract.", DefaultValueFactory = _ => "surrogate/*.parquet" }.NotEmpty();
+        var reference = new Option<string?>("--reference-path") { Description = "The reference path written into the contract (default: reference/<trusted sample>-reference.parquet)." }.NotEmpty();
+        var output = new Option<string>("--output", "-o") { Description = "Where to write the draft.", DefaultValueFactory = _ => Engine.Contracts.PrecisionContract.DefaultFileName }.NotEmpty();
         var force = new Option<bool>("--force") { Description = "Replace the output file if it exists." };
         var command = new Command("draft", "Draft a starter contract from a trusted sample: kinds inferred per column, tolerances derived from the analysis's expected data size.")
         {
@@ -57,6 +57,7 @@ internal static class DraftCommand
             if (File.Exists(target) && !parse.GetValue(force))
                 throw new GateInputException(ErrorCodes.Usage, $"{target} exists; a draft never replaces a contract unless told to (--force).");
             var files = SampleFiles.Resolve(parse.GetValue(from)!, Directory.GetCurrentDirectory());
+            new RunPaths().Read(files, "a trusted sample file").Write(target, "--output").Verify();
             var referencePath = parse.GetValue(reference) ?? $"reference/{Path.GetFileNameWithoutExtension(files[0])}-reference.parquet";
             var text = ContractDrafter.Draft(files, parse.GetValue(weight), options, parse.GetValue(sample)!, referencePath, ProgressDisplay.For(stdout, stderr));
             AtomicFile.WriteText(target, text);

@@ -20,6 +20,7 @@ internal static class HistoryCommand
             LedgerGuard.RefuseDirectory(loaded);
             var history = SharedOptions.CheckHistory(loaded, parse.GetValue(baseRevision));
             if (history.Finding is { } finding) throw new GateInputException(finding.Code, finding.Message, finding.Location);
+            new RunPaths().Read(path, "the contract's acceptance ledger").VerifyInputs();
             if (!File.Exists(path))
             {
                 stdout.WriteLine($"No acceptance ledger at {path}; start one with: {LedgerGuard.AcceptCommand(loaded)}");

@@ -21,7 +21,7 @@ internal static class PlanCommand
         var replicas = new Option<int>("--replicas") { Description = "Replicas per simulated point.", DefaultValueFactory = _ => 200 };
         var power = new Option<double>("--power") { Description = "Probability with which a detectable drift must fail its check.", DefaultValueFactory = _ => 0.95 };
         var seed = new Option<int>("--seed") { Description = "Seed of the simulation.", DefaultValueFactory = _ => 1 };
-        var markdown = new Option<string?>("--markdown") { Description = "Also write the plan to this Markdown file." };
+        var markdown = new Option<string?>("--markdown") { Description = "Also write the plan to this Markdown file." }.NotEmpty();
         var command = new Command("plan", "Plan the surrogate sample size: per check the events a perfect surrogate needs to pass and the smallest drift caught at a given size, by simulation from the reference.")
         {
             contract, events, replicas, power, seed, markdown,
@@ -29,6 +29,7 @@ internal static class PlanCommand
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var c = ContractLoader.Load(parse.GetValue(contract)!);
+            new RunPaths().Contract(c).Write(parse.GetValue(markdown), "--markdown").Verify();
             var reference = ReferenceFile.Read(c.ReferenceFullPath, c.ReferenceLocation);
             if (parse.GetValue(events) is { } n && n < 1) throw new GateInputException(ErrorCodes.Usage, "--events must be a positive whole number.");
             var r = parse.GetValue(replicas);

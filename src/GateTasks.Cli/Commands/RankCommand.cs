@@ -1,6 +1,7 @@
 using System.CommandLine;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Ranking;
+using GateTasks.Engine.Samples;
 
 namespace GateTasks.Cli.Commands;
 
@@ -14,9 +15,9 @@ internal static class RankCommand
         {
             Description = "Candidate samples: a Parquet or CSV file, a folder (its files are one sample), or a quoted glob such as \"checkpoints/epoch-*.parquet\" (one candidate per file).",
             Arity = ArgumentArity.OneOrMore,
-        };
-        var csv = new Option<string?>("--csv") { Description = "Also write the ranking as CSV to this path." };
-        var json = new Option<string?>("--json") { Description = "Also write the ranking, with every check's margin, as JSON to this path." };
+        }.NotEmpty();
+        var csv = new Option<string?>("--csv") { Description = "Also write the ranking as CSV to this path." }.NotEmpty();
+        var json = new Option<string?>("--json") { Description = "Also write the ranking, with every check's margin, as JSON to this path." }.NotEmpty();
         var command = new Command("rank", "Check several candidate samples (e.g. the checkpoints of a training run) under one contract and rank them: fewer failed, then fewer inconclusive checks, then a higher worst margin. Exit 0: at least one candidate passes; 1: none does; 2: input error, or a candidate could not be checked.")
         {
             contract, candidates, csv, json,
@@ -25,6 +26,8 @@ internal static class RankCommand
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             var paths = CandidatePatterns.Expand(parse.GetValue(candidates)!);
+            new RunPaths().Contract(loaded).Read(paths.SelectMany(p => Directory.Exists(p) ? SampleFiles.Resolve(p, Directory.GetCurrentDirectory()) : [p]), "a candidate file")
+                .Write(parse.GetValue(csv), "--csv").Write(parse.GetValue(json), "--json").Verify();
             var report = RankingRun.Run(loaded, paths, (i, r) => stdout.WriteLine(
                 $"checked {i + 1}/{paths.Count} {r.Candidate}: " +
                 (r.Error is not null ? $"not checked ({r.Error.Code})" : $"{(r.Passed ? "pass" : "FAIL")}, {r.Failed} failed, {r.Inconclusive} inconclusive")));

@@ -14,8 +14,8 @@ internal static class ShardCommands
     public static Command Fill(TextWriter stdout, TextWriter stderr)
     {
         var contract = SharedOptions.Contract();
-        var sample = new Option<string>("--sample", "-s") { Description = "The shard to gather: a Parquet or CSV file, a folder or a glob.", Required = true };
-        var output = new Option<string>("--output", "-o") { Description = "The partial file to write.", Required = true };
+        var sample = new Option<string>("--sample", "-s") { Description = "The shard to gather: a Parquet or CSV file, a folder or a glob.", Required = true }.NotEmpty();
+        var output = new Option<string>("--output", "-o") { Description = "The partial file to write.", Required = true }.NotEmpty();
         var command = new Command("fill", "Gather one shard of a sample into a partial file (histograms, tallies, moments) for 'gatetasks merge' or 'gatetasks check --partials'.")
         {
             contract, sample, output,
@@ -23,6 +23,8 @@ internal static class ShardCommands
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
+            new RunPaths().Contract(loaded).Read(ContractInputs.SampleFiles(loaded, parse.GetValue(sample)!), "a sample file")
+                .Write(parse.GetValue(output)!, "--output").Verify();
             var events = ContractCheck.Fill(loaded, parse.GetValue(sample)!, parse.GetValue(output)!, ProgressDisplay.For(stdout, stderr));
             stdout.WriteLine($"partial written: {Path.GetFullPath(parse.GetValue(output)!)} ({events} events)");
             return ExitCodes.Success;
@@ -33,8 +35,8 @@ internal static class ShardCommands
     public static Command Merge(TextWriter stdout, TextWriter stderr)
     {
         var contract = SharedOptions.Contract();
-        var output = new Option<string>("--output", "-o") { Description = "The merged partial file to write.", Required = true };
-        var partials = new Argument<string[]>("partials") { Description = "Partial files (or globs) to merge.", Arity = ArgumentArity.OneOrMore };
+        var output = new Option<string>("--output", "-o") { Description = "The merged partial file to write.", Required = true }.NotEmpty();
+        var partials = new Argument<string[]>("partials") { Description = "Partial files (or globs) to merge.", Arity = ArgumentArity.OneOrMore }.NotEmpty();
         var command = new Command("merge", "Merge partial files into one; histogram cells and tallies add exactly, in an order that does not depend on the arguments'.")
         {
             contract, output, partials,
@@ -43,6 +45,7 @@ internal static class ShardCommands
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             var paths = Expand(parse.GetValue(partials)!);
+            new RunPaths().Contract(loaded).Read(paths, "a partial file").Write(parse.GetValue(output)!, "--output").Verify();
             var events = ContractCheck.Merge(loaded, paths, parse.GetValue(output)!);
             stdout.WriteLine($"merged {paths.Count} partial files into {Path.GetFullPath(parse.GetValue(output)!)} ({events} events)");
             return ExitCodes.Success;

@@ -1,4 +1,5 @@
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
 using YamlDotNet.Core;
 using YamlDotNet.RepresentationModel;
 
@@ -19,6 +20,7 @@ internal static class ContractLoader
     /// <summary>Loads and validates the contract at <paramref name="path"/>.</summary>
     public static PrecisionContract Load(string path)
     {
+        InputFileGuard.VerifyContract(path);
         string text;
         try
         {

@@ -1,4 +1,5 @@
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
 
 namespace GateTasks.Engine.Contracts;
 
@@ -10,9 +11,6 @@ namespace GateTasks.Engine.Contracts;
 /// </summary>
 internal static class RepositoryBoundary
 {
-    // More link hops than this in one path is a loop (the limit Linux itself uses).
-    private const int MaxLinkHops = 40;
-
     private static readonly StringComparison PathComparison =
         OperatingSystem.IsWindows() || OperatingSystem.IsMacOS() ? StringComparison.OrdinalIgnoreCase : StringComparison.Ordinal;
 
@@ -52,45 +50,6 @@ internal static class RepositoryBoundary
         return path.StartsWith(prefix, PathComparison) || string.Equals(path, root, PathComparison);
     }
 
-    /// <summary>
-    /// The path with every symbolic link along it followed (parts that do not exist are kept as written). A loop
-    /// resolves to the path as far as it got, which then lies wherever the loop points.
-    /// </summary>
-    public static string Resolve(string fullPath)
-    {
-        var pending = new Stack<string>();
-        var rootPart = Path.GetPathRoot(fullPath) ?? "/";
-        Push(pending, fullPath[rootPart.Length..]);
-        var current = rootPart;
-        var hops = 0;
-        while (pending.TryPop(out var part))
-        {
-            if (part == ".") continue;
-            if (part == "..") { current = Path.GetDirectoryName(current) ?? current; continue; }
-            var next = Path.Combine(current, part);
-            string? target = null;
-            try { target = new FileInfo(next).LinkTarget; }
-            catch (Exception e) when (e is IOException or UnauthorizedAccessException) { }
-            if (target is null || ++hops > MaxLinkHops)
-            {
-                current = next;
-                continue;
-            }
-            // The link's target replaces it: an absolute target restarts from its root, a relative one from here.
-            if (Path.IsPathRooted(target))
-            {
-                current = Path.GetPathRoot(target) ?? rootPart;
-                target = target[current.Length..];
-            }
-            Push(pending, target);
-        }
-        return current;
-    }
-
-    private static void Push(Stack<string> pending, string relative)
-    {
-        var parts = relative.Split(Path.DirectorySeparatorChar, Path.AltDirectorySeparatorChar);
-        for (var i = parts.Length - 1; i >= 0; i--)
-            if (parts[i].Length > 0) pending.Push(parts[i]);
-    }
+    /// <summary>The path with every symbolic link along it followed (<see cref="LinkFreePath"/>).</summary>
+    public static string Resolve(string fullPath) => LinkFreePath.Of(fullPath);
 }

@@ -1,4 +1,5 @@
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
 using Parquet;
 using Parquet.Schema;
 
@@ -53,6 +54,8 @@ internal static class DemoSampleWriter
 
         var simulation = new ToyDiphotonSimulation(p, seed);
         var chunk = new DemoEventChunk(Math.Min(rowGroupSize, events));
+        // Never over a device or a pipe (GATE0005).
+        OutputPathGuard.VerifyKind(new RunFile(path, "the demo sample"));
         FileStream stream;
         try
         {

@@ -13,6 +13,14 @@ public static class ErrorCodes
 
     /// <summary>A report written while a check runs: the check has not finished (or was stopped before it could).</summary>
     public const string CheckUnfinished = "GATE0003";
+    /// <summary>An output path names an input of the same run (links followed), or two outputs name one file.</summary>
+    public const string OutputIsInput = "GATE0004";
+    /// <summary>An output path names something other than a regular file (a device, a named pipe, a socket, a folder).</summary>
+    public const string OutputNotRegular = "GATE0005";
+    /// <summary>An input path names something other than a regular file (a device, a named pipe, a socket).</summary>
+    public const string InputNotRegular = "GATE0006";
+    /// <summary>A contract file larger than a contract can sensibly be.</summary>
+    public const string ContractTooLarge = "GATE0007";
 
     /// <summary>The contract file does not exist or cannot be read.</summary>
     public const string ContractNotFound = "GATE1001";

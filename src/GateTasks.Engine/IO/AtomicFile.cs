@@ -4,14 +4,18 @@ namespace GateTasks.Engine.IO;
 
 /// <summary>
 /// Writes a file through a temporary sibling and renames it into place, so readers (and a build that was
-/// killed half-way) never see a half-written report or reference.
+/// killed half-way) never see a half-written report or reference. Only a regular file or a new path is replaced: a
+/// rename over a device, a named pipe or a socket would replace it with a regular file (as root, <c>/dev/null</c>
+/// itself), so those are refused (GATE0005) before anything is written. A symbolic link is written through: its
+/// target is replaced, the link stays.
 /// </summary>
 internal static class AtomicFile
 {
     /// <summary>Writes via <paramref name="write"/> into a temporary file, then replaces <paramref name="path"/>.</summary>
     public static void Write(string path, Action<Stream> write)
     {
-        var full = Path.GetFullPath(path);
+        OutputPathGuard.VerifyKind(new RunFile(path, "the output"));
+        var full = LinkFreePath.Of(path);
         var temp = full + "." + Guid.NewGuid().ToString("N")[..8] + ".tmp";
         try
         {

@@ -72,15 +72,5 @@ internal static class MarkdownSummary
     private static string Code(string text) => "`" + text.Replace("`", "'") + "`";
 
     /// <summary>Free text with the characters that Markdown or HTML would act on escaped.</summary>
-    private static string Text(string text)
-    {
-        var sb = new StringBuilder(text.Length);
-        foreach (var ch in text)
-        {
-            if (ch is '\\' or '`' or '*' or '_' or '[' or ']' or '<' or '>' or '#' or '|') sb.Append('\\');
-            if (ch is '\r' or '\n') { sb.Append(' '); continue; }
-            sb.Append(ch);
-        }
-        return sb.ToString();
-    }
+    private static string Text(string text) => MarkdownText.Escape(text);
 }

@@ -8,35 +8,92 @@ using GateTasks.Engine.IO;
 namespace GateTasks.Engine.Reports;
 
 /// <summary>
-/// What a report path holds while a check runs, and after one that stopped on bad input: a report that says the
-/// check did not finish (a JUnit <c>error</c>), never the previous run's verdict. Written before the check starts,
-/// it is what a killed or crashed run leaves behind; a finished check replaces it with its own report.
+/// What a report path holds while a check runs, and after one that stopped: a report that says the check did not
+/// finish (a JUnit <c>error</c>), or no file at all, never the previous run's verdict. Every requested report is
+/// deleted first (deleting works on a full disk, where writing the marker may not), then the marker is written; a
+/// killed or crashed run leaves the marker, a finished check replaces it with its own report.
 /// </summary>
 internal static class UnfinishedReport
 {
     /// <summary>The report paths one check writes (any may be null: not requested).</summary>
-    public sealed record Paths(string? JUnit, string? Text, string? Html, string? Markdown);
+    public sealed record Paths(string? JUnit, string? Text, string? Html, string? Markdown)
+    {
+        /// <summary>The requested paths.</summary>
+        public IEnumerable<string> All => new[] { JUnit, Text, Html, Markdown }.OfType<string>();
+    }
+
+    /// <summary>
+    /// Deletes every requested report (the file a link points to, not the link), so that no earlier verdict survives
+    /// whatever happens next. The paths must have passed <see cref="OutputPathGuard"/>: nothing else is deleted.
+    /// </summary>
+    public static void Clear(Paths paths)
+    {
+        foreach (var path in paths.All)
+        {
+            var target = LinkFreePath.Of(path);
+            if (FileNode.Of(target).Kind != FileNodeKind.Regular) continue;
+            try
+            {
+                File.Delete(target);
+            }
+            catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+            {
+                throw new GateInputException(ErrorCodes.OutputNotWritable,
+                    $"Cannot remove the earlier report {target} before the check: {e.Message}", new SourceLocation(target));
+            }
+        }
+    }
 
     /// <summary>Marks every requested report as under way (started at <paramref name="started"/>).</summary>
-    public static void MarkRunning(Paths paths, string contractPath, DateTimeOffset started) =>
-        WriteAll(paths, contractPath, started, ErrorCodes.CheckUnfinished, "the check started at " + JUnitReport.Timestamp(started) +
-            " and has not finished; if this report stays, the check was stopped before it could write its result", null);
+    public static void MarkRunning(Paths paths, string contractPath, DateTimeOffset started)
+    {
+        var message = "the check started at " + JUnitReport.Timestamp(started) +
+                      " and has not finished; if this report stays, the check was stopped before it could write its result";
+        foreach (var write in Writers(paths, contractPath, started, ErrorCodes.CheckUnfinished, message, null)) write();
+    }
 
     /// <summary>Replaces every requested report with one saying the check stopped on <paramref name="error"/>.</summary>
     public static void MarkFailed(Paths paths, string contractPath, DateTimeOffset started, GateInputException error) =>
-        WriteAll(paths, contractPath, started, error.Code, error.Message, error.Location?.ToString());
+        MarkStopped(paths, contractPath, started, error.Code, error.Message, error.Location?.ToString());
 
-    private static void WriteAll(Paths paths, string contractPath, DateTimeOffset started, string code, string message, string? location)
+    /// <summary>
+    /// Replaces every requested report with one saying the check stopped (<paramref name="code"/>,
+    /// <paramref name="message"/>); a report that cannot be written (a full disk) is deleted instead. Never throws for a
+    /// report: the error that stopped the check is the one to show.
+    /// </summary>
+    public static void MarkStopped(Paths paths, string contractPath, DateTimeOffset started, string code, string message, string? location)
+    {
+        var writers = Writers(paths, contractPath, started, code, message, location);
+        var requested = paths.All.ToList();
+        for (var i = 0; i < writers.Count; i++)
+        {
+            try
+            {
+                writers[i]();
+            }
+            catch (Exception e) when (e is GateInputException or IOException or UnauthorizedAccessException)
+            {
+                try { File.Delete(LinkFreePath.Of(requested[i])); }
+                catch (Exception d) when (d is IOException or UnauthorizedAccessException) { }
+            }
+        }
+    }
+
+    // One writer per requested report, in the order of Paths.All.
+    private static List<Action> Writers(Paths paths, string contractPath, DateTimeOffset started, string code, string message, string? location)
     {
         var where = location is null ? "" : location + ": ";
         var line = $"{where}error {code}: {message}";
-        if (paths.JUnit is { } junit) AtomicFile.WriteText(junit, JUnit(contractPath, started, code, message, line));
-        if (paths.Text is { } text) AtomicFile.WriteText(text, "NOT FINISHED: " + line + Environment.NewLine);
-        if (paths.Markdown is { } markdown)
-            AtomicFile.WriteText(markdown, $"### GateTasks check DID NOT FINISH\n\n`{contractPath}`\n\n{line}\n");
+        var writers = new List<Action>();
+        if (paths.JUnit is { } junit) writers.Add(() => AtomicFile.WriteText(junit, JUnit(contractPath, started, code, message, line)));
+        if (paths.Text is { } text) writers.Add(() => AtomicFile.WriteText(text, "NOT FINISHED: " + line + Environment.NewLine));
         if (paths.Html is { } html)
-            AtomicFile.WriteText(html, "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>GateTasks check did not finish</title></head>\n" +
-                $"<body><h1>GateTasks check did not finish</h1><p><code>{WebUtility.HtmlEncode(contractPath)}</code></p><p>{WebUtility.HtmlEncode(line)}</p></body></html>\n");
+            writers.Add(() => AtomicFile.WriteText(html, "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>GateTasks check did not finish</title></head>\n" +
+                $"<body><h1>GateTasks check did not finish</h1><p><code>{WebUtility.HtmlEncode(contractPath)}</code></p><p>{WebUtility.HtmlEncode(line)}</p></body></html>\n"));
+        if (paths.Markdown is { } markdown)
+            // The message may quote a sample's cell: escaped, so a pull-request comment shows it as text.
+            writers.Add(() => AtomicFile.WriteText(markdown, $"### GateTasks check DID NOT FINISH\n\n`{contractPath.Replace("`", "'")}`\n\n{MarkdownText.Escape(line)}\n"));
+        return writers;
     }
 
     private static string JUnit(string contractPath, DateTimeOffset started, string code, string message, string line)

@@ -32,6 +32,7 @@ public sealed class BadInputCorpusTests
             "duplicate-feature",
             "empty-sample",
             "extreme-magnitudes",
+            "html-in-csv-cell",
             "ledger-is-directory",
             "long-expression",
             "malformed-yaml",
