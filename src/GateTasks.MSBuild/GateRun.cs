@@ -39,6 +39,9 @@ public sealed class GateRun : Task, ICancelableTask
     /// <summary>Folder the engine runs in, so a relative <see cref="Sample"/> is relative to the project.</summary>
     public string? WorkingDirectory { get; set; }
 
+    /// <summary>The project being built: where an error without a place of its own (a wrong GateSample) is shown.</summary>
+    public string? ProjectFile { get; set; }
+
     /// <summary>Folder for the reports (check only).</summary>
     public string? ReportDirectory { get; set; }
 
@@ -247,7 +250,7 @@ public sealed class GateRun : Task, ICancelableTask
 
         // A line without a place would be shown at this package's targets file; the project is where the settings
         // are (GateSample above all, which the message then names).
-        var file = coded.File ?? BuildEngine?.ProjectFileOfTaskNode;
+        var file = coded.File ?? (string.IsNullOrEmpty(ProjectFile) ? null : ProjectFile);
         var message = coded.File is null && !string.IsNullOrWhiteSpace(Sample) && coded.Code.StartsWith("GATE2", StringComparison.Ordinal)
             ? coded.Message + " (the sample named by the GateSample property)"
             : coded.Message;
