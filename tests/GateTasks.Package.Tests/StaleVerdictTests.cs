@@ -50,6 +50,23 @@ public class StaleVerdictTests(PackageFeed feed)
     }
 
     [Fact]
+    public void A_missing_engine_leaves_an_unfinished_JUnit_and_no_report_that_says_passed()
+    {
+        var p = GateProject.Create(feed, "NoEngineGate");
+        var (code, output) = p.Build();
+        Assert.True(code == 0, output);
+        var reportBase = Path.Combine(p.ReportDirectory, "precision-contract");
+        Assert.Contains("PASSED", File.ReadAllText(reportBase + ".txt"));
+
+        // A global property outranks the package's own value: the task looks for the engine where there is none.
+        (code, output) = p.Build($"-p:_GateEngine={Path.Combine(p.Directory, "no-engine", "gatetasks.dll")}");
+        Assert.NotEqual(0, code);
+        Assert.Contains("error GATE0011", output);
+        AssertUnfinishedJUnit(p.JUnitReport, "GATE0011");
+        AssertNoReportSaysPassed(reportBase);
+    }
+
+    [Fact]
     public void A_missing_contract_sample_in_a_fresh_workspace_writes_the_unfinished_JUnit_and_names_the_contract_line()
     {
         var p = GateProject.Create(feed, "FreshMissingGate");
