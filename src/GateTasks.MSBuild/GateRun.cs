@@ -39,6 +39,9 @@ public sealed class GateRun : Task, ICancelableTask
     /// <summary>Folder the engine runs in, so a relative <see cref="Sample"/> is relative to the project.</summary>
     public string? WorkingDirectory { get; set; }
 
+    /// <summary>The project being built: where an error without a place of its own (a wrong GateSample) is shown.</summary>
+    public string? ProjectFile { get; set; }
+
     /// <summary>Folder for the reports (check only).</summary>
     public string? ReportDirectory { get; set; }
 
@@ -61,11 +64,22 @@ public sealed class GateRun : Task, ICancelableTask
     [Output]
     public bool Passed { get; private set; }
 
+    /// <summary>
+    /// Inputs only: true when the engine listed every contract's inputs. When it could not (a wrong sample, a broken
+    /// contract, no engine), nothing is logged as an error here: the check then runs anyway and reports the problem at
+    /// its place, replacing the reports with ones that say the check did not finish.
+    /// </summary>
+    [Output]
+    public bool Listed { get; private set; }
+
     /// <summary>The files the checks read (inputs only).</summary>
     [Output]
     public ITaskItem[] Inputs { get; private set; } = [];
 
-    /// <summary>The reports written (check only).</summary>
+    /// <summary>
+    /// Check: the reports written. Inputs: every report file the check will write (see ReportNames), whether or not
+    /// it exists yet. Each has <c>Kind</c> and <c>Contract</c> metadata.
+    /// </summary>
     [Output]
     public ITaskItem[] Reports { get; private set; } = [];
 
@@ -82,28 +96,52 @@ public sealed class GateRun : Task, ICancelableTask
     /// <inheritdoc />
     public override bool Execute()
     {
+        var contracts = Contracts.Select(c => c.GetMetadata("FullPath")).ToList();
+        var reportBases = ReportNames.For(contracts, ReportDirectory, string.IsNullOrEmpty(WorkingDirectory) ? Directory.GetCurrentDirectory() : WorkingDirectory!);
+        var listing = Command == "inputs";
+        if (listing) Reports = contracts.SelectMany((c, i) => ReportItems(c, reportBases[i])).ToArray();
         if (!File.Exists(Engine))
         {
-            Log.LogError(null, "GATE0011", null, null, 0, 0, 0, 0,
-                "The GateTasks engine is missing at '{0}'; the package is incomplete. Restore it again or reinstall GateTasks.", Engine);
+            if (listing)
+            {
+                Log.LogMessage(MessageImportance.Low, "GateTasks: no engine at '{0}'; the check will say so.", Engine);
+                return true;
+            }
+            const string missing = "The GateTasks engine is missing at '{0}'; the package is incomplete. Restore it again or reinstall GateTasks.";
+            Log.LogError(null, "GATE0011", null, null, 0, 0, 0, 0, missing, Engine);
+            for (var i = 0; i < contracts.Count; i++)
+                TaskUnfinishedReport.Write(ReportItems(contracts[i], reportBases[i]), contracts[i], "GATE0011", string.Format(missing, Engine));
             return false;
         }
         var inputs = new List<ITaskItem>();
         var reports = new List<ITaskItem>();
         var allPassed = true;
-        foreach (var contract in Contracts)
+        for (var i = 0; i < contracts.Count; i++)
         {
             if (_cancelled) return false;
-            var path = contract.GetMetadata("FullPath");
             _driftLogged = _inputErrorLogged = false;
-            var ok = Command == "inputs" ? ListInputs(path, inputs) : Check(path, reports);
+            var ok = listing ? ListInputs(contracts[i], inputs) : Check(contracts[i], reportBases[i], reports);
             allPassed &= ok;
         }
         Inputs = inputs.ToArray();
+        if (listing)
+        {
+            Listed = allPassed && !_cancelled;
+            return true;
+        }
         Reports = reports.ToArray();
         Passed = allPassed && !Log.HasLoggedErrors;
         return !Log.HasLoggedErrors;
     }
+
+    private static IEnumerable<ITaskItem> ReportItems(string contract, string reportBase) =>
+        ReportNames.Kinds.Select(k =>
+        {
+            var item = new TaskItem(reportBase + k.Ending);
+            item.SetMetadata("Kind", k.Kind);
+            item.SetMetadata("Contract", contract);
+            return (ITaskItem)item;
+        });
 
     private bool ListInputs(string contract, List<ITaskItem> inputs)
     {
@@ -120,42 +158,44 @@ public sealed class GateRun : Task, ICancelableTask
         AddSample(args);
         var files = new List<string>();
         var dependencies = new List<string>();
-        var exit = RunEngine(args, line =>
+        var exit = RunEngine(args, (line, _) =>
         {
-            // An error line can start with a rooted path too; only uncoded lines are inputs.
-            if (EngineLine.TryParse(line) is not null) LogLine(line, MessageImportance.Low);
+            // An error line can start with a rooted path too; only uncoded lines are inputs. Errors are the check's
+            // to report (it runs when the list is incomplete), so here they are only messages.
+            if (EngineLine.TryParse(line) is not null) Log.LogMessage(MessageImportance.Low, "{0}", line);
             else if (line.StartsWith("depends ", StringComparison.Ordinal) && Path.IsPathRooted(line.Substring(8))) dependencies.Add(line.Substring(8));
             else if (Path.IsPathRooted(line)) files.Add(line);
-            else LogLine(line, MessageImportance.Low);
+            else Log.LogMessage(MessageImportance.Low, "{0}", line);
         });
-        var ok = Finish(exit, contract);
+        var ok = exit == 0;
+        if (!ok) Log.LogMessage(MessageImportance.Low, "GateTasks: the engine could not list the inputs of {0} (exit {1}); the check runs and says why.", contract, exit);
         inputs.AddRange(files.Select(path => (ITaskItem)new TaskItem(path)));
         if (ok && cache is not null) InputsCache.Write(cache, key, files, dependencies);
         return ok;
     }
 
-    private bool Check(string contract, List<ITaskItem> reports)
+    private bool Check(string contract, string reportBase, List<ITaskItem> reports)
     {
-        var folder = string.IsNullOrEmpty(ReportDirectory) ? Path.GetDirectoryName(contract)! : ReportDirectory!;
-        var name = Path.GetFileNameWithoutExtension(contract);
-        var junit = Path.Combine(folder, name + ".junit.xml");
-        var text = Path.Combine(folder, name + ".txt");
-        var html = Path.Combine(folder, name + ".html");
-        var markdown = Path.Combine(folder, name + ".md");
-        var args = new List<string> { "check", "--contract", contract, "--junit", junit, "--text", text, "--html", html, "--markdown", markdown };
+        var planned = ReportItems(contract, reportBase).ToList();
+        string PathOf(string kind) => planned.First(r => r.GetMetadata("Kind") == kind).ItemSpec;
+        var args = new List<string> { "check", "--contract", contract, "--junit", PathOf("junit"), "--text", PathOf("text"), "--html", PathOf("html"), "--markdown", PathOf("markdown") };
         AddSample(args);
         if (!string.IsNullOrWhiteSpace(BaseRevision)) args.AddRange(new[] { "--base-revision", BaseRevision!.Trim() });
-        var exit = RunEngine(args, line => LogLine(line, MessageImportance.Low));
-        foreach (var (file, kind) in new[] { (junit, "junit"), (text, "text"), (html, "html"), (markdown, "markdown") })
+        var exit = RunEngine(args, (line, code) => LogLine(line, MessageImportance.Low, code));
+        var ok = Finish(exit, contract);
+        if (_unfinished is { } why)
         {
-            if (!File.Exists(file)) continue;
-            var item = new TaskItem(file);
-            item.SetMetadata("Kind", kind);
-            item.SetMetadata("Contract", contract);
-            reports.Add(item);
+            // The engine did not start, was stopped, or died without a word: it may have written nothing, so no
+            // report of an earlier run may stay to say PASSED.
+            TaskUnfinishedReport.Write(planned, contract, why.Code, why.Message);
+            _unfinished = null;
         }
-        return Finish(exit, contract);
+        reports.AddRange(planned.Where(r => File.Exists(r.ItemSpec)));
+        return ok;
     }
+
+    // Set when the engine ended in a way that leaves its reports in doubt: the code and message for the reports.
+    private (string Code, string Message)? _unfinished;
 
     private void AddSample(List<string> args)
     {
@@ -179,11 +219,14 @@ public sealed class GateRun : Task, ICancelableTask
             case 4 when _inputErrorLogged || _driftLogged:
                 return false;
             case -1:
+                _unfinished ??= ("GATE0013", _cancelled ? "the build was cancelled while the check ran" : "the GateTasks engine could not be started");
                 return false;
             default:
-                Log.LogError(null, "GATE0012", null, contract, 0, 0, 0, 0,
+                var message = string.Format(System.Globalization.CultureInfo.InvariantCulture,
                     "The GateTasks engine stopped with exit code {0} without saying why; run 'dotnet \"{1}\" check --contract \"{2}\"' to see its output.",
                     exit, Engine, contract);
+                Log.LogError(null, "GATE0012", null, contract, 0, 0, 0, 0, "{0}", message);
+                _unfinished = ("GATE0012", message);
                 return false;
         }
     }
@@ -191,13 +234,19 @@ public sealed class GateRun : Task, ICancelableTask
     private bool _driftLogged;
     private bool _inputErrorLogged;
 
-    private void LogLine(string text, MessageImportance otherImportance)
+    private void LogLine(string text, MessageImportance otherImportance, int exit)
     {
         var coded = EngineLine.TryParse(text);
         if (coded is null)
         {
+            // The engine prints its checks' summary before the ledger's verdict: a run that then failed (exit 4: the
+            // contract or reference in use is not the accepted one) must not show a PASSED line in the build log.
+            if (exit != 0 && text.StartsWith("PASSED:", StringComparison.Ordinal))
+                text = (exit == 4 ? "NOT ACCEPTED (checks within tolerance, but the ledger does not hold):" : $"NOT PASSED (the engine exited {exit}):") +
+                       text.Substring("PASSED:".Length);
             // The one-line verdict is shown at normal verbosity; the table and the rest at detailed.
-            var summary = text.StartsWith("PASSED:", StringComparison.Ordinal) || text.StartsWith("FAILED:", StringComparison.Ordinal);
+            var summary = text.StartsWith("PASSED:", StringComparison.Ordinal) || text.StartsWith("FAILED:", StringComparison.Ordinal) ||
+                          text.StartsWith("NOT ", StringComparison.Ordinal);
             // Progress of a long read shows at normal verbosity, like the build's own progress.
             var progress = text.StartsWith("progress:", StringComparison.Ordinal)
                 // Whether the ledger was held to its base revision is shown too: "not checked" must not go unseen.
@@ -208,15 +257,24 @@ public sealed class GateRun : Task, ICancelableTask
         if (coded.IsDrift) _driftLogged = true;
         else if (coded.IsError) _inputErrorLogged = true;
 
+        // A line without a place would be shown at this package's targets file; the project is where the settings
+        // are (GateSample above all, which the message then names).
+        var file = coded.File ?? (string.IsNullOrEmpty(ProjectFile) ? null : ProjectFile);
+        var message = coded.File is null && !string.IsNullOrWhiteSpace(Sample) && coded.Code.StartsWith("GATE2", StringComparison.Ordinal)
+            ? coded.Message + " (the sample named by the GateSample property)"
+            : coded.Message;
         var asWarning = !coded.IsError || (coded.IsDrift && FailuresAsWarnings);
         if (asWarning)
-            Log.LogWarning(null, coded.Code, null, coded.File, coded.Line, coded.Column, 0, 0, "{0}", coded.Message);
+            Log.LogWarning(null, coded.Code, null, file, coded.Line, coded.Column, 0, 0, "{0}", message);
         else
-            Log.LogError(null, coded.Code, null, coded.File, coded.Line, coded.Column, 0, 0, "{0}", coded.Message);
+            Log.LogError(null, coded.Code, null, file, coded.Line, coded.Column, 0, 0, "{0}", message);
     }
 
-    /// <summary>Runs the engine and feeds every output line to <paramref name="onLine"/>; -1 when it could not start or was cancelled.</summary>
-    private int RunEngine(IReadOnlyList<string> args, Action<string> onLine)
+    /// <summary>
+    /// Runs the engine and feeds every output line, with the exit code, to <paramref name="onLine"/>; -1 when it could
+    /// not start or was cancelled.
+    /// </summary>
+    private int RunEngine(IReadOnlyList<string> args, Action<string, int> onLine)
     {
         var host = string.IsNullOrEmpty(DotnetHost) ? "dotnet" : DotnetHost!;
         var psi = new ProcessStartInfo(host, Quote(Engine) + " " + string.Join(" ", args.Select(Quote)))
@@ -247,13 +305,16 @@ public sealed class GateRun : Task, ICancelableTask
             _process.BeginErrorReadLine();
             _process.WaitForExit();
             // Logged on this thread, in arrival order: MSBuild's logging is not meant for the reader threads.
-            foreach (var (_, text) in lines.OrderBy(l => l.Order)) onLine(text);
-            return _cancelled ? -1 : _process.ExitCode;
+            var exit = _cancelled ? -1 : _process.ExitCode;
+            foreach (var (_, text) in lines.OrderBy(l => l.Order)) onLine(text, exit);
+            return exit;
         }
         catch (Exception e) when (e is System.ComponentModel.Win32Exception or InvalidOperationException or IOException)
         {
-            Log.LogError(null, "GATE0013", null, null, 0, 0, 0, 0,
-                "Cannot start the GateTasks engine with '{0}': {1}. Set DOTNET_HOST_PATH or put dotnet on PATH.", host, e.Message);
+            var message = $"Cannot start the GateTasks engine with '{host}': {e.Message}. Set DOTNET_HOST_PATH or put dotnet on PATH.";
+            if (Command == "inputs") Log.LogMessage(MessageImportance.Low, "{0}", message);
+            else Log.LogError(null, "GATE0013", null, null, 0, 0, 0, 0, "{0}", message);
+            _unfinished = ("GATE0013", message);
             return -1;
         }
         finally

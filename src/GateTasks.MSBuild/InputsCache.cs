@@ -9,14 +9,14 @@ namespace GateTasks.MSBuild;
 
 /// <summary>
 /// The list of a contract's inputs from the last time the engine was asked, kept in the build's intermediate folder
-/// with what it depended on: the engine, the settings, the contract's last-write time and that of every file and
-/// folder the engine named as deciding the list (a file added to or removed from a folder changes the folder's time;
-/// a file that did not exist is recorded as absent). While none of these changed, a no-op build reuses the list
-/// instead of starting the engine.
+/// with what it depended on: the engine's and the contract's content digests, the settings, and the state of every
+/// file and folder the engine named as deciding the list (a file's presence, a folder's sorted entry names, or
+/// absence). While none of these changed, a no-op build reuses the list instead of starting the engine. No
+/// modification time counts: a contract or a shard copied in with an old time (<c>cp -p</c>) still changes the key.
 /// </summary>
 internal static class InputsCache
 {
-    private const string Header = "gatetasks-inputs 1";
+    private const string Header = "gatetasks-inputs 2";
 
     /// <summary>The cache file for <paramref name="contract"/> in <paramref name="folder"/>.</summary>
     public static string FileFor(string folder, string contract) =>
@@ -24,7 +24,7 @@ internal static class InputsCache
 
     /// <summary>What the list depends on besides the named paths: the engine build, the contract, and the settings.</summary>
     public static string Key(string engine, string contract, string? sample, string? workingDirectory) =>
-        string.Join("|", engine, Ticks(engine), contract, Ticks(contract), sample ?? "", workingDirectory ?? "");
+        string.Join("|", engine, InputsDigest.Of(engine), contract, InputsDigest.Of(contract), sample ?? "", workingDirectory ?? "");
 
     /// <summary>The cached inputs, or null when there are none or anything they depend on changed.</summary>
     public static IReadOnlyList<string>? TryRead(string file, string key)
@@ -47,7 +47,7 @@ internal static class InputsCache
             else if (line.StartsWith("depends ", StringComparison.Ordinal))
             {
                 var space = line.IndexOf(' ', 8);
-                if (space < 0 || line.Substring(8, space - 8) != Ticks(line.Substring(space + 1))) return null;
+                if (space < 0 || line.Substring(8, space - 8) != State(line.Substring(space + 1))) return null;
             }
             else return null;
         }
@@ -58,7 +58,7 @@ internal static class InputsCache
     public static void Write(string file, string key, IEnumerable<string> inputs, IEnumerable<string> dependencies)
     {
         var text = new StringBuilder().Append(Header).Append('\n').Append("key ").Append(key).Append('\n');
-        foreach (var path in dependencies) text.Append("depends ").Append(Ticks(path)).Append(' ').Append(path).Append('\n');
+        foreach (var path in dependencies) text.Append("depends ").Append(State(path)).Append(' ').Append(path).Append('\n');
         foreach (var input in inputs) text.Append("input ").Append(input).Append('\n');
         try
         {
@@ -74,10 +74,12 @@ internal static class InputsCache
         }
     }
 
-    // Last-write time in ticks, or "-" for a path that does not exist (its appearing changes the key).
-    private static string Ticks(string path) =>
-        File.Exists(path) ? File.GetLastWriteTimeUtc(path).Ticks.ToString(CultureInfo.InvariantCulture)
-        : Directory.Exists(path) ? Directory.GetLastWriteTimeUtc(path).Ticks.ToString(CultureInfo.InvariantCulture)
+    // What of a path can change the list: "f" for a file (its content does not change which files are read), a
+    // digest of the sorted entry names for a folder (a glob's matches), "-" for nothing there. No spaces: the line
+    // is "depends STATE PATH".
+    private static string State(string path) =>
+        File.Exists(path) ? "f"
+        : Directory.Exists(path) ? "d" + new InputsDigest().AddPath(path).Hex()
         : "-";
 
     // FNV-1a over the path's UTF-16 units: stable across processes, unlike string.GetHashCode.
