@@ -48,7 +48,7 @@ internal static class ContractCheck
         var (accumulation, provenance) = Partials.PartialFile.ReadMerged(partials, setup);
         if (accumulation.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty, $"The partial files hold no events ({string.Join(", ", partials.Select(Path.GetFileName))}).", new SourceLocation(partials[0]));
-        return Decide(setup, accumulation, provenance.SampleFiles, started, clock);
+        return Decide(setup, accumulation, provenance.SampleFiles.Select(f => f.Path).ToList(), started, clock);
     }
 
     /// <summary>Gathers one shard of the sample into a partial file, for merging elsewhere.</summary>
@@ -58,7 +58,9 @@ internal static class ContractCheck
         var opened = OpenSample(contract, files, progress);
         var setup = Prepare(contract);
         var accumulation = Accumulate(setup, opened);
-        Partials.PartialFile.Write(output, setup, accumulation, new Partials.PartialFile.Provenance(files.Select(Path.GetFileName).ToList()!, []));
+        // Each file is recorded by the digest of its content (its identity when partials are merged) and its path (for messages).
+        var counted = opened.Sample.Shards.Select(s => new Partials.PartialFile.CountedFile(s.Path, s.Xxh128)).ToList();
+        Partials.PartialFile.Write(output, setup, accumulation, new Partials.PartialFile.Provenance(counted, []));
         return accumulation.Events;
     }
 
