@@ -20,7 +20,9 @@ public sealed class BadInputCorpusTests
         var expected = new[]
         {
             "alias-bomb", "altered-reference", "bit-flipped-page", "bit-flipped-page-header", "corrupted-ledger",
-            "csv-cell-not-a-number", "deep-yaml", "duplicate-feature", "empty-sample", "extreme-magnitudes",
+            "csv-cell-not-a-number", "deep-yaml", "duplicate-feature",
+            "duplicate-shard-content", "edited-partial",
+            "empty-sample", "extreme-magnitudes",
             "long-expression", "malformed-yaml", "non-finite-allowed", "non-finite-values", "not-parquet",
             "only-nan-sample", "other-binning", "path-outside-repository", "path-outside-through-link",
             "schema-column-missing", "schema-type-changed", "symlink-loop", "truncated-parquet", "unknown-column",
