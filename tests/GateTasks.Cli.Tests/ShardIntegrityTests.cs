@@ -24,10 +24,11 @@ public sealed class ShardIntegrityTests : IDisposable
     }
 
     /// <summary>The demo contract with its sample given as a glob, and a reference built from a full simulation.</summary>
-    private string Setup(string samplePath)
+    private string Setup(string samplePath, bool weighted = true)
     {
         var contractPath = Path.Combine(_dir, "precision-contract.yaml");
-        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", $"path: \"{samplePath}\"").Replace("subsample: 1000", "subsample: 300"));
+        var text = DemoContract.Text.Replace("path: surrogate-faithful.parquet", $"path: \"{samplePath}\"").Replace("subsample: 1000", "subsample: 300");
+        File.WriteAllText(contractPath, weighted ? text : text.Replace("  weight: weight\n", ""));
         var contract = ContractLoader.Load(contractPath);
         var fullsim = Path.Combine(_dir, "fullsim.parquet");
         DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 60_000, 11, 20_000);
@@ -133,10 +134,13 @@ public sealed class ShardIntegrityTests : IDisposable
             t => (t.Descendants("property").Single(p => p.Attribute("name")!.Value == "verdict").Attribute("value")!.Value,
                   t.Descendants("property").Single(p => p.Attribute("name")!.Value == "estimate").Attribute("value")!.Value));
 
-    [Fact]
-    public void Hand_edited_partials_are_refused_sealed_or_resealed()
+    [Theory]
+    [InlineData(true)]
+    [InlineData(false)]
+    public void Hand_edited_partials_are_refused_sealed_or_resealed(bool weighted)
     {
-        var contract = Setup("shard.parquet");
+        var contract = Setup("shard.parquet", weighted);
+        Assert.Equal(weighted, File.ReadAllText(contract).Contains("weight: weight"));
         DemoSampleWriter.Write(Path.Combine(_dir, "shard.parquet"), DemoScenarioParameters.FullSimulation, 6_000, 31, 3_000);
         var filled = Path.Combine(_dir, "filled.partial");
         var (exit, stdout, stderr) = Gatetasks("fill", "--contract", contract, "--output", filled, "--sample", Path.Combine(_dir, "shard.parquet"));
@@ -144,27 +148,33 @@ public sealed class ShardIntegrityTests : IDisposable
         // As filled, it is accepted.
         (exit, stdout, stderr) = Gatetasks("check", "--contract", contract, "--partials", filled);
         Assert.True(exit is 0 or 1, $"exit {exit}\n{stdout}{stderr}");
+        // Re-indented, it still is: the seal covers the content, not its white space.
+        var indented = Path.Combine(_dir, "indented.partial");
+        File.WriteAllText(indented, JsonNode.Parse(File.ReadAllText(filled))!.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));
+        (exit, stdout, stderr) = Gatetasks("check", "--contract", contract, "--partials", indented);
+        Assert.True(exit is 0 or 1, $"exit {exit}\n{stdout}{stderr}");
 
-        var edits = new (string Name, Action<JsonObject> Edit, string Contradiction)[]
+        var edits = new (string Name, Action<JsonObject> Edit, string Contradiction, string UnitContradiction)[]
         {
             // A histogram cell raised: one more partial sum of 500 in the 6th cell of the first feature.
-            ("cell-raised", acc => Cell(acc, 0, "sum_w", 5).Add(500.0), "cells hold"),
+            ("cell-raised", acc => Cell(acc, 0, "sum_w", 5).Add(500.0), "cells hold", "same whole count"),
             // A negative count.
-            ("negative-count", acc => Histogram(acc, 1)["entries"] = -5, "counts -5 values"),
+            ("negative-count", acc => Histogram(acc, 1)["entries"] = -5, "counts -5 values", "counts -5 values"),
             // A negative Σw² in a cell.
-            ("negative-sum-of-squares", acc => Cell(acc, 2, "sum_w2", 4).Add(-1e6), "is negative"),
+            ("negative-sum-of-squares", acc => Cell(acc, 2, "sum_w2", 4).Add(-1e6), "is negative", "is negative"),
             // The event total multiplied by 100.
-            ("total-times-100", acc => acc["events"] = acc["events"]!.GetValue<long>() * 100, "the event total is"),
+            ("total-times-100", acc => acc["events"] = acc["events"]!.GetValue<long>() * 100, "the event total is", "event total"),
             // A cell and the total Σw raised together (by 20 of about 5 000, so N·Σw² still exceeds (Σw)²): the first feature
             // still adds up, the other features do not.
             ("cell-and-totals-raised", acc =>
             {
                 Cell(acc, 0, "sum_w", 5).Add(20.0);
                 ((JsonArray)acc["sum_w"]!).Add(20.0);
-            }, "cells hold"),
+            }, "cells hold", "event total"),
         };
-        foreach (var (name, edit, contradiction) in edits)
+        foreach (var (name, edit, weightedContradiction, unitContradiction) in edits)
         {
+            var contradiction = weighted ? weightedContradiction : unitContradiction;
             // Edited and left as it is: the seal no longer matches.
             var edited = Path.Combine(_dir, name + ".partial");
             var root = JsonNode.Parse(File.ReadAllText(filled))!.AsObject();
