@@ -21,7 +21,7 @@ public sealed class BadInputCorpusTests
         {
             "alias-bomb", "altered-reference", "bit-flipped-page", "bit-flipped-page-header", "corrupted-ledger",
             "csv-cell-not-a-number", "deep-yaml", "duplicate-feature",
-            "duplicate-shard-content", "edited-partial",
+            "duplicate-reference-shard", "duplicate-shard-content", "edited-partial",
             "empty-sample", "extreme-magnitudes",
             "long-expression", "malformed-yaml", "non-finite-allowed", "non-finite-values", "not-parquet",
             "only-nan-sample", "other-binning", "path-outside-repository", "path-outside-through-link",
