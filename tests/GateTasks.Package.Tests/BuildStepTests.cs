@@ -152,14 +152,23 @@ public class BuildStepTests(PackageFeed feed)
         Assert.Contains("are as last listed", second);
         Assert.Contains("GateTasks: up to date, the check is skipped", second);
 
-        // A second shard matching the glob changes the folder: the engine lists the inputs again and the check reruns on both.
-        File.Copy(Path.Combine(p.Directory, "surrogate-faithful.parquet"), Path.Combine(shards, "part-2.parquet"));
+        // A second shard (other events of the same distribution) matching the glob changes the folder: the engine lists
+        // the inputs again and the check reruns on both.
+        GateTasks.Engine.Demo.DemoSampleWriter.Write(Path.Combine(shards, "part-2.parquet"), GateTasks.Engine.Demo.DemoScenarioParameters.FullSimulation,
+            200_000, 4242, GateTasks.Engine.Demo.DemoSampleWriter.DefaultRowGroupSize);
         var (third, rerun) = p.Build(glob, "-v:d");
         Assert.True(third == 0, rerun);
         Assert.DoesNotContain("are as last listed", rerun);
-        // Twice the events (the same file twice is a sample of twice the size; some checks may then turn inconclusive).
         static long Events(string output) => long.Parse(System.Text.RegularExpressions.Regex.Match(output, @"(\d+) surrogate events").Groups[1].Value);
-        Assert.Equal(2 * Events(first), Events(rerun));
+        Assert.True(Events(rerun) > Events(first), rerun);
+
+        // A copy of a shard under another name is the same shard, not more events: the build fails naming both files
+        // (GATE2204, docs/error-codes.md), and the report says so.
+        File.Copy(Path.Combine(shards, "part-1.parquet"), Path.Combine(shards, "part-3.parquet"));
+        var (fourth, copied) = p.Build(glob);
+        Assert.NotEqual(0, fourth);
+        Assert.True(Regex.IsMatch(copied, @"part-3\.parquet ?: error GATE2204: sample files '[^']*part-1\.parquet' and '[^']*part-3\.parquet' have the same content"), copied);
+        Assert.Contains("GATE2204", File.ReadAllText(p.JUnitReport));
     }
 
     [Fact]

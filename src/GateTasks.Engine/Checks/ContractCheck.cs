@@ -50,7 +50,7 @@ internal static class ContractCheck
         if (accumulation.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty, $"The partial files hold no events ({string.Join(", ", partials.Select(Path.GetFileName))}).", new SourceLocation(partials[0]));
         RequireNormalisable(contract, accumulation, "surrogate sample in the partial files", partials);
-        return Decide(setup, accumulation, provenance.SampleFiles, started, clock);
+        return Decide(setup, accumulation, provenance.SampleFiles.Select(f => f.Path).ToList(), started, clock);
     }
 
     // All-zero weights, or negatives that outweigh the positives, leave nothing to normalise: an input error (GATE2010)
@@ -69,7 +69,9 @@ internal static class ContractCheck
         var opened = OpenSample(contract, files, progress);
         var setup = Prepare(contract);
         var accumulation = Accumulate(setup, opened);
-        Partials.PartialFile.Write(output, setup, accumulation, new Partials.PartialFile.Provenance(files.Select(Path.GetFileName).ToList()!, []));
+        // Each file is recorded by the digest of its content (its identity when partials are merged) and its path (for messages).
+        var counted = opened.Sample.Shards.Select(s => new Partials.PartialFile.CountedFile(s.Path, s.Xxh128)).ToList();
+        Partials.PartialFile.Write(output, setup, accumulation, new Partials.PartialFile.Provenance(counted, []));
         return accumulation.Events;
     }
 

@@ -46,6 +46,9 @@ internal sealed class SampleAccumulation
     public IReadOnlyList<PairCorrelation> Pairs { get; }
     public JointSubsample? Joint { get; }
     public long Events { get; private set; }
+
+    /// <summary>Events (after the selection) with a negative weight: none means every cell's Σw² is at most its (Σw)².</summary>
+    public long NegativeWeightEvents { get; private set; }
     public double SumW => _sumW.Value;
     public double SumW2 => _sumW2.Value;
 
@@ -61,6 +64,8 @@ internal sealed class SampleAccumulation
             _farTail[i]?.Add(values, weights);
         }, view =>
         {
+            foreach (var w in view.Weights)
+                if (w < 0) NegativeWeightEvents++;
             foreach (var p in Pairs) p.Add(view);
             Joint?.Add(view);
         });
@@ -84,6 +89,7 @@ internal sealed class SampleAccumulation
         for (var p = 0; p < Pairs.Count; p++) Pairs[p].Merge(other.Pairs[p]);
         if (Joint is not null) Joint.Merge(other.Joint!);
         Events += other.Events;
+        NegativeWeightEvents += other.NegativeWeightEvents;
         _sumW.Add(other._sumW);
         _sumW2.Add(other._sumW2);
     }
@@ -93,6 +99,7 @@ internal sealed class SampleAccumulation
     {
         w.WriteStartObject();
         w.WriteNumber("events", Events);
+        w.WriteNumber("negative_weight_events", NegativeWeightEvents);
         Partials.PartialNumbers.WriteArray(w, "sum_w", _sumW.Partials);
         Partials.PartialNumbers.WriteArray(w, "sum_w2", _sumW2.Partials);
         w.WriteStartArray("features");
@@ -163,6 +170,7 @@ internal sealed class SampleAccumulation
             Joint.Restore(Partials.PartialNumbers.ReadJagged(j.GetProperty("rows")), j.GetProperty("seen").GetInt64());
         }
         Events = e.GetProperty("events").GetInt64();
+        NegativeWeightEvents = e.GetProperty("negative_weight_events").GetInt64();
         foreach (var v in Partials.PartialNumbers.ReadArray(e.GetProperty("sum_w"))) _sumW.Add(v);
         foreach (var v in Partials.PartialNumbers.ReadArray(e.GetProperty("sum_w2"))) _sumW2.Add(v);
         return null;

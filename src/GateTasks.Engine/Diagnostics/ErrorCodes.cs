@@ -77,8 +77,14 @@ public static class ErrorCodes
     public const string PartialUnreadable = "GATE2201";
     /// <summary>A partial file was filled for another contract or reference.</summary>
     public const string PartialMismatch = "GATE2202";
-    /// <summary>Two partial files hold the same sample file: its events would be counted twice.</summary>
+    /// <summary>Two partial files count the same sample file (same content), or are copies of each other: its events would be counted twice.</summary>
     public const string PartialOverlap = "GATE2203";
+    /// <summary>Two files of one sample have the same content (a copy under another name): its events would be counted twice.</summary>
+    public const string SampleDuplicateContent = "GATE2204";
+    /// <summary>A partial file's content does not match its seal: edited or damaged after it was written.</summary>
+    public const string PartialSealBroken = "GATE2205";
+    /// <summary>A partial file's numbers contradict each other (cells against totals, negative counts or sums of squares).</summary>
+    public const string PartialInconsistent = "GATE2206";
 
     /// <summary>Kolmogorov–Smirnov distance above tolerance.</summary>
     public const string DriftKolmogorovSmirnov = "GATE3001";

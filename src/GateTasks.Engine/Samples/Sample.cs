@@ -10,9 +10,10 @@ internal sealed class Sample
 {
     private readonly IReadOnlyList<SampleColumn>[] _fileColumns;
 
-    private Sample(IReadOnlyList<string> files, IReadOnlyList<SampleColumn>[] fileColumns, long? totalRows)
+    private Sample(IReadOnlyList<string> files, IReadOnlyList<SampleColumn>[] fileColumns, long? totalRows, IReadOnlyList<ShardFile> shards)
     {
         Files = files;
+        Shards = shards;
         TotalRows = totalRows;
         _fileColumns = fileColumns;
         Columns = CommonColumns(fileColumns);
@@ -20,6 +21,9 @@ internal sealed class Sample
 
     /// <summary>The files, in reading order.</summary>
     public IReadOnlyList<string> Files { get; }
+
+    /// <summary>The files with the digests of their content, in reading order (no two alike).</summary>
+    public IReadOnlyList<ShardFile> Shards { get; }
 
     /// <summary>The columns every file has, in the first file's order, with the first file's type.</summary>
     public IReadOnlyList<SampleColumn> Columns { get; }
@@ -56,7 +60,7 @@ internal sealed class Sample
 
     /// <summary>
     /// Opens every file's schema (GATE2001 missing, GATE2002 unreadable, GATE0001 a file listed twice, which would
-    /// count its events twice).
+    /// count its events twice) and digests every file's content (GATE2204 two files alike: a copy under another name).
     /// </summary>
     public static Sample Open(IReadOnlyList<string> files)
     {
@@ -76,7 +80,7 @@ internal sealed class Sample
             columns[i] = reader.Columns;
             totalRows = totalRows is { } t && reader.RowCount is { } r ? t + r : null;
         }
-        return new Sample(files.ToArray(), columns, totalRows);
+        return new Sample(files.ToArray(), columns, totalRows, ShardContent.Identify(files));
     }
 
     /// <summary>
