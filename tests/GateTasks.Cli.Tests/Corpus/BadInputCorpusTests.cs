@@ -19,12 +19,13 @@ public sealed class BadInputCorpusTests
         // A guard against cases going missing: the list the corpus was written for.
         var expected = new[]
         {
-            "alias-bomb", "altered-reference", "bit-flipped-page", "bit-flipped-page-header", "corrupted-ledger",
-            "csv-cell-not-a-number", "deep-yaml", "duplicate-feature", "empty-sample", "extreme-magnitudes",
+            "alias-bomb", "altered-reference", "binning-outside-reference", "bit-flipped-page", "bit-flipped-page-header", "corrupted-ledger",
+            "csv-cell-not-a-number", "deep-yaml", "definition-changed", "duplicate-feature", "empty-sample", "expression-non-finite", "extreme-magnitudes",
             "long-expression", "malformed-yaml", "non-finite-allowed", "non-finite-values", "not-parquet",
             "only-nan-sample", "other-binning", "path-outside-repository", "path-outside-through-link",
-            "schema-column-missing", "schema-type-changed", "symlink-loop", "truncated-parquet", "unknown-column",
-            "unknown-key", "wrong-type", "zero-variance",
+            "reference-column-missing", "reference-flipped-cell", "region-without-reference",
+            "schema-column-missing", "schema-type-changed", "selection-selects-nothing", "symlink-loop", "truncated-parquet", "unknown-column",
+            "unknown-key", "wrong-type", "yaml-tab-indentation", "yaml-undefined-alias", "zero-variance",
         };
         Assert.Equal(expected, CorpusCase.All.Select(c => c.Name).Order(StringComparer.Ordinal));
     }
