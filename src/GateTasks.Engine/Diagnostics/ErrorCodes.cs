@@ -64,7 +64,7 @@ public static class ErrorCodes
     public const string ReferenceOutsideBins = "GATE2104";
     /// <summary>A named region a check uses holds no reference events.</summary>
     public const string ReferenceRegionEmpty = "GATE2105";
-    /// <summary>A feature of the reference sample holds NaN or infinite values (a derived feature's expression included), and its contract does not allow them.</summary>
+    /// <summary>A derived feature's expression gives NaN or infinite values in the reference sample, and its contract does not allow them.</summary>
     public const string ReferenceNonFinite = "GATE2106";
     /// <summary>A partial file (from 'gatetasks fill' or 'merge') cannot be read.</summary>
     public const string PartialUnreadable = "GATE2201";

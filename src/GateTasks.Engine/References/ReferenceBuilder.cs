@@ -150,20 +150,20 @@ internal static class ReferenceBuilder
     }
 
     /// <summary>
-    /// Refuses NaN or ±∞ in a reference feature (a derived feature such as log(x) makes them from finite columns) unless
-    /// the contract allows non-finite values for it (GATE2106, at the column or expression, with the counts). Allowed
-    /// NaN are counted apart, as in the sample; ±∞ are refused after this in any case.
+    /// Refuses NaN or ±∞ that a derived feature's expression makes in the reference (log(x) of a column that is
+    /// sometimes negative, say) unless the contract allows non-finite values for it (GATE2106, at the expression, with
+    /// the counts): a domain error, not a measurement. NaN read from a column are counted apart, as before; allowed NaN
+    /// of an expression too; ±∞ are refused after this in any case.
     /// </summary>
     private static void NonFiniteValues(FeatureSpec f, FeatureStatistics s, long events)
     {
-        if (f.AllowNonFinite || s.NanCount + s.PositiveInfinityCount + s.NegativeInfinityCount == 0) return;
+        if (f.Expression is not { } expression || f.AllowNonFinite || s.NanCount + s.PositiveInfinityCount + s.NegativeInfinityCount == 0) return;
         var counts = string.Join(", ", new[] { (s.NanCount, "NaN"), (s.PositiveInfinityCount, "+∞"), (s.NegativeInfinityCount, "−∞") }
             .Where(c => c.Item1 > 0).Select(c => $"{InvariantNumber.Count(c.Item1)} {c.Item2}"));
-        var source = f.Expression is { } e ? $"The expression '{e}' of feature '{f.Name}' gives" : $"Feature '{f.Name}' (column '{f.Column}') holds";
         throw new GateInputException(ErrorCodes.ReferenceNonFinite,
-            $"{source} {counts} among the {InvariantNumber.Count(events)} events of the reference sample; a reference is built from finite values. " +
-            (f.Expression is null ? "Clean the trusted sample, or " : "Guard the expression (or select the events where it is defined), or ") +
-            "declare 'non-finite: allow' for the feature to count NaN apart.", f.ColumnLocation);
+            $"The expression '{expression}' of feature '{f.Name}' gives {counts} among the {InvariantNumber.Count(events)} events of the reference sample. " +
+            "Guard the expression (or select the events where it is defined), or declare 'non-finite: allow' for the feature to count NaN apart.",
+            f.ColumnLocation);
     }
 
     /// <summary>
