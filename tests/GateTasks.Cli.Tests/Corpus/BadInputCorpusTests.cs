@@ -24,7 +24,7 @@ public sealed class BadInputCorpusTests
             "long-expression", "malformed-yaml", "non-finite-allowed", "non-finite-values", "not-parquet",
             "only-nan-sample", "other-binning", "path-outside-repository", "path-outside-through-link",
             "reference-column-missing", "reference-flipped-cell", "region-without-reference",
-            "schema-column-missing", "schema-type-changed", "selection-selects-nothing", "symlink-loop", "truncated-parquet", "unknown-column",
+            "schema-column-missing", "schema-type-changed", "selection-keeps-no-sample-event", "selection-selects-nothing", "symlink-loop", "truncated-parquet", "unknown-column",
             "unknown-key", "wrong-type", "yaml-tab-indentation", "yaml-undefined-alias", "zero-variance",
         };
         Assert.Equal(expected, CorpusCase.All.Select(c => c.Name).Order(StringComparer.Ordinal));
