@@ -235,6 +235,27 @@ public class BuildStepTests(PackageFeed feed)
     }
 
     [Fact]
+    public void A_tab_in_the_contract_is_an_msbuild_error_at_the_tab_and_a_passing_report_gives_the_flow_shares()
+    {
+        // The corpus case yaml-tab-indentation (tests/corpus), through the build step: the error is placed at the tab
+        // (YamlDotNet itself gives no position for it), as documented in docs/error-codes.md (GATE1002).
+        var p = GateProject.Create(feed, "TabGate");
+        var contract = Path.Combine(p.Directory, "precision-contract.yaml");
+        var text = File.ReadAllText(contract);
+        File.WriteAllText(contract, text.Replace("\n    ks-max: 0.01", "\n\tks-max: 0.01"));
+        var (code, output) = p.Build();
+        Assert.NotEqual(0, code);
+        Assert.True(Regex.IsMatch(output, @"precision-contract\.yaml\(34,1\): error GATE1002: .*A tab indents this line"), output);
+
+        File.WriteAllText(contract, text);
+        var (passed, passedOutput) = p.Build();
+        Assert.True(passed == 0, passedOutput);
+        // docs/cli.md: the JUnit system-out holds the table of shares outside the bins.
+        var junit = File.ReadAllText(p.JUnitReport);
+        Assert.True(Regex.IsMatch(junit, @"outside the bins +reference below +above +sample below +above"), junit[Math.Max(0, junit.Length - 6000)..]);
+    }
+
+    [Fact]
     public void A_sample_error_is_an_msbuild_error_at_the_file_line_and_column_with_a_report_that_says_so()
     {
         // The corpus case csv-cell-not-a-number (tests/corpus), through the build step instead of the program.

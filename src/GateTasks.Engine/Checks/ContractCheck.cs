@@ -30,6 +30,10 @@ internal static class ContractCheck
         if (parallelism is { } threads) sample.Sample.Parallelism = Math.Max(1, threads);
         var setup = Prepare(contract);
         var accumulation = Accumulate(setup, sample);
+        if (accumulation.Events == 0 && contract.Selection is { } selection && sample.Sample.RowsRead > 0)
+            throw new GateInputException(ErrorCodes.SampleEmpty,
+                $"The selection '{selection.Text}' keeps none of the {InvariantNumber.Count(sample.Sample.RowsRead)} events of the surrogate sample " +
+                $"({string.Join(", ", files.Select(Path.GetFileName))}).", selection.Location);
         if (accumulation.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
                 $"The surrogate sample has no events ({string.Join(", ", files.Select(Path.GetFileName))}).", contract.Sample.PathLocation);
@@ -94,6 +98,8 @@ internal static class ContractCheck
         var referencePath = contract.ReferenceFullPath;
         var reference = ReferenceFile.Read(referencePath, contract.ReferenceLocation);
         var references = contract.Features.Select(f => MatchReference(reference, f, referencePath)).ToList();
+        // Again at check: a reference built before this rule, or a contract's regions changed since, is caught here.
+        for (var i = 0; i < references.Count; i++) BinCoverage.Verify(contract.Features[i], references[i]);
         return new CheckSetup(contract, reference, referencePath, FileDigest.Sha256(referencePath), references);
     }
 
@@ -198,15 +204,35 @@ internal static class ContractCheck
                 "rebuild it with 'gatetasks reference build'.", feature.Location);
         if (r.Column != feature.Column || r.Kind != feature.Kind || r.BinningRequest != feature.ReferenceRequest)
         {
-            var where = r.Column != feature.Column ? feature.ColumnLocation
-                : r.Kind != feature.Kind ? feature.Location
-                : feature.Binning.Location;
+            // Said where the changed part of the definition is written: a feature's expression at the feature, not at
+            // the binning (which may be the defaults').
+            var (what, where) = r.Column != feature.Column ? ("column", feature.ColumnLocation)
+                : r.Kind != feature.Kind ? ("kind", feature.Location)
+                : ChangedPart(r.BinningRequest, feature);
             throw new GateInputException(ErrorCodes.ReferenceMismatch,
-                $"The reference for feature '{feature.Name}' was built with other settings (column '{r.Column}', {r.Kind.ToString().ToLowerInvariant()}, binning {r.BinningRequest}); " +
+                $"The reference for feature '{feature.Name}' was built with another {what} (column '{r.Column}', {r.Kind.ToString().ToLowerInvariant()}, binning {r.BinningRequest}); " +
                 $"the contract asks for column '{feature.Column}', {feature.Kind.ToString().ToLowerInvariant()}, binning {feature.ReferenceRequest}. " +
                 "Rebuild it with 'gatetasks reference build'.", where);
         }
         return r;
+    }
+
+    /// <summary>Which part of a feature's reference request (<see cref="FeatureSpec.ReferenceRequest"/>) differs from the stored one, and where the contract writes it.</summary>
+    private static (string What, SourceLocation Where) ChangedPart(string stored, FeatureSpec feature)
+    {
+        static string Part(string request, string marker)
+        {
+            var at = request.IndexOf(marker, StringComparison.Ordinal);
+            if (at < 0) return "";
+            var end = new[] { "|spike:", "|expression:", "|condition:" }.Select(m => request.IndexOf(m, at + marker.Length, StringComparison.Ordinal))
+                .Where(i => i > at).DefaultIfEmpty(request.Length).Min();
+            return request[at..end];
+        }
+        var wanted = feature.ReferenceRequest;
+        if (Part(stored, "|expression:") != Part(wanted, "|expression:")) return ("expression", feature.ColumnLocation);
+        if (Part(stored, "|condition:") != Part(wanted, "|condition:")) return ("condition", feature.Condition?.Location ?? feature.Location);
+        if (Part(stored, "|spike:") != Part(wanted, "|spike:")) return ("spike", feature.Location);
+        return ("binning", feature.Binning.Location);
     }
 
     private static void ValidateColumns(PrecisionContract contract, Sample sample)

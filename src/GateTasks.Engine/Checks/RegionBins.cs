@@ -1,5 +1,6 @@
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Histograms;
 using GateTasks.Engine.References;
 
 namespace GateTasks.Engine.Checks;
@@ -69,8 +70,12 @@ internal static class RegionBins
         if (spec.Region != Region.Named) return (double.NaN, double.NaN);
         var region = c.Spec.Regions?.FirstOrDefault(g => g.Name == spec.Named)
             ?? throw new InvalidOperationException($"Region '{spec.Named}' was not declared; the contract loader should have refused it.");
-        return region.ByQuantile
-            ? (QuantileShiftCheck.Quantile(c.Reference.Histogram, region.Lower).Value, QuantileShiftCheck.Quantile(c.Reference.Histogram, region.Upper).Value)
-            : (region.Lower, region.Upper);
+        return Bounds(c.Reference.Histogram, region);
     }
+
+    /// <summary>The value range of <paramref name="region"/> on the reference histogram <paramref name="reference"/>.</summary>
+    public static (double Lower, double Upper) Bounds(Histogram reference, NamedRegion region) =>
+        region.ByQuantile
+            ? (QuantileShiftCheck.Quantile(reference, region.Lower).Value, QuantileShiftCheck.Quantile(reference, region.Upper).Value)
+            : (region.Lower, region.Upper);
 }

@@ -25,6 +25,7 @@ internal static class YamlShapeGuard
         var open = new Stack<(string? Anchor, long Nodes)>();
         open.Push((null, 0));
         var sizes = new Dictionary<string, long>(StringComparer.Ordinal);
+        var anchors = new HashSet<string>(StringComparer.Ordinal);
         var lastRead = Mark.Empty;
         try
         {
@@ -35,6 +36,7 @@ internal static class YamlShapeGuard
                 switch (current)
                 {
                     case NodeEvent { } collection and (MappingStart or SequenceStart):
+                        if (!collection.Anchor.IsEmpty) anchors.Add(collection.Anchor.Value);
                         if (open.Count > MaxDepth)
                             throw Refuse(path, current.Start, $"The contract nests more than {MaxDepth} levels deep here; no contract needs that.");
                         open.Push((collection.Anchor.IsEmpty ? null : collection.Anchor.Value, 1));
@@ -45,14 +47,31 @@ internal static class YamlShapeGuard
                         Add(open, nodes, path, current.Start);
                         break;
                     case Scalar scalar:
-                        if (!scalar.Anchor.IsEmpty) sizes[scalar.Anchor.Value] = 1;
+                        if (!scalar.Anchor.IsEmpty)
+                        {
+                            sizes[scalar.Anchor.Value] = 1;
+                            anchors.Add(scalar.Anchor.Value);
+                        }
                         Add(open, 1, path, current.Start);
                         break;
                     case AnchorAlias alias:
+                        // YamlDotNet reports an undefined alias without a position: said here, where the alias stands.
+                        if (!anchors.Contains(alias.Value.Value))
+                            throw Refuse(path, current.Start,
+                                $"Not valid YAML: the alias '*{alias.Value.Value}' refers to no anchor ('&{alias.Value.Value}') defined before it.");
                         Add(open, sizes.GetValueOrDefault(alias.Value.Value, 1), path, current.Start);
                         break;
                 }
             }
+        }
+        catch (YamlException e) when (e.Start.Index == 0 && e.End.Index == 0 || e.Message.Contains("tab", StringComparison.OrdinalIgnoreCase))
+        {
+            // YamlDotNet raises some scanner errors without a position, and places a tab that breaks indentation at the
+            // scalar before it: find the tab itself.
+            var from = e.Start.Index == 0 && e.End.Index == 0 ? lastRead : e.Start;
+            var tab = TabIndentation(text, (int)from.Line);
+            throw Refuse(path, tab ?? from,
+                $"Not valid YAML: {(e.InnerException ?? e).Message}{(tab is null ? "" : " A tab indents this line; YAML indents with spaces only.")}");
         }
         catch (YamlException)
         {
@@ -63,6 +82,19 @@ internal static class YamlShapeGuard
             // YamlDotNet's scanner gives up this way on some malformed text (found by fuzzing): still bad YAML, here.
             throw Refuse(path, lastRead, "Not valid YAML: the text after this point cannot be read.");
         }
+    }
+
+    /// <summary>The first tab in a line's indentation, from line <paramref name="fromLine"/> on (1-based), or null.</summary>
+    private static Mark? TabIndentation(string text, int fromLine)
+    {
+        var lines = text.Split('\n');
+        for (var i = Math.Max(0, fromLine - 1); i < lines.Length; i++)
+        {
+            var line = lines[i];
+            for (var c = 0; c < line.Length && line[c] is ' ' or '\t'; c++)
+                if (line[c] == '\t') return new Mark(1, i + 1, c + 1);
+        }
+        return null;
     }
 
     private static void Add(Stack<(string? Anchor, long Nodes)> open, long nodes, string path, Mark at)

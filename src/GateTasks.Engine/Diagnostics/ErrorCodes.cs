@@ -73,6 +73,12 @@ public static class ErrorCodes
     public const string ReferenceUnreadable = "GATE2102";
     /// <summary>The reference lacks a feature the contract checks, or was built with other binning.</summary>
     public const string ReferenceMismatch = "GATE2103";
+    /// <summary>A feature's bins (flows aside) hold less than half of the reference: its edges or range miss the reference.</summary>
+    public const string ReferenceOutsideBins = "GATE2104";
+    /// <summary>A named region a check uses holds no reference events.</summary>
+    public const string ReferenceRegionEmpty = "GATE2105";
+    /// <summary>A derived feature's expression gives NaN or infinite values in the reference sample, and its contract does not allow them.</summary>
+    public const string ReferenceNonFinite = "GATE2106";
     /// <summary>A partial file (from 'gatetasks fill' or 'merge') cannot be read.</summary>
     public const string PartialUnreadable = "GATE2201";
     /// <summary>A partial file was filled for another contract or reference.</summary>

@@ -32,6 +32,7 @@ internal static class ReferenceBuilder
         var sample = Sample.Open(files);
         sample.Progress = progress;
         sample.Phase = "reference pass 1 (ranges and moments)";
+        VerifyColumns(contract, sample, weightColumn);
         var columns = FeatureInputs.Compile(contract, sample.ColumnNamesInAnyFile);
         var n = features.Count;
 
@@ -40,6 +41,10 @@ internal static class ReferenceBuilder
         var jointIndex = contract.Joint?.Features.Select(name => features.ToList().FindIndex(f => f.Name == name)).ToArray();
         var joint = contract.Joint is { } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
         var totals = SampleStream.Run(sample, columns, weightColumn, (i, values, weights) => stats[i].Add(values, weights), view => joint?.Add(view));
+        if (totals.Events == 0 && contract.Selection is { } selection && sample.RowsRead > 0)
+            throw new GateInputException(ErrorCodes.SampleEmpty,
+                $"The selection '{selection.Text}' keeps none of the {InvariantNumber.Count(sample.RowsRead)} events of the reference sample " +
+                $"({string.Join(", ", files.Select(Path.GetFileName))}); a reference needs events to compare with.", selection.Location);
         if (totals.Events == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty, $"The reference sample has no events ({string.Join(", ", files)}).",
                 new SourceLocation(files[0]));
@@ -61,6 +66,7 @@ internal static class ReferenceBuilder
                 throw new GateInputException(ErrorCodes.SampleColumnType,
                     $"Feature '{features[i].Name}' (column '{features[i].Column}') reaches {InvariantNumber.Short(Math.Max(Math.Abs(min[i]), Math.Abs(max[i])))} in the reference sample: " +
                     "its mean or spread (sums of squares) overflows a double; rescale it (other units) before building a reference.", features[i].ColumnLocation);
+            NonFiniteValues(features[i], stats[i], totals.Events);
             if (stats[i].PositiveInfinityCount + stats[i].NegativeInfinityCount > 0)
                 throw new GateInputException(ErrorCodes.SampleColumnType,
                     $"Feature '{features[i].Name}' (column '{features[i].Column}') holds infinite values in the reference sample; a reference must be finite.",
@@ -109,6 +115,7 @@ internal static class ReferenceBuilder
                 ? new List<QuantilePoint>()
                 : probabilities.Select(p => new QuantilePoint(p, grid.Quantile(p))).ToList();
             result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.ReferenceRequest, histogram, stats[i].Summary(), quantiles, totals.Spikes[i]));
+            BinCoverage.Verify(f, result[i]);
         }
 
         // Third pass, only when needed: Spearman's ranks need the final marginals, far-tail counts the final quantiles.
@@ -142,6 +149,45 @@ internal static class ReferenceBuilder
         return new ReferenceHistograms(ReferenceFile.FormatVersion, DateTimeOffset.UtcNow, toolVersion, inputs,
             weightColumn, totals.Events, totals.SumW, totals.SumW2, result, correlations,
             joint is null ? null : new ReferenceJointSample(contract.Joint!.Features, joint.Rows));
+    }
+
+    /// <summary>
+    /// Refuses NaN or ±∞ that a derived feature's expression makes in the reference (log(x) of a column that is
+    /// sometimes negative, say) unless the contract allows non-finite values for it (GATE2106, at the expression, with
+    /// the counts): a domain error, not a measurement. NaN read from a column are counted apart, as before; allowed NaN
+    /// of an expression too; ±∞ are refused after this in any case.
+    /// </summary>
+    private static void NonFiniteValues(FeatureSpec f, FeatureStatistics s, long events)
+    {
+        if (f.Expression is not { } expression || f.AllowNonFinite || s.NanCount + s.PositiveInfinityCount + s.NegativeInfinityCount == 0) return;
+        var counts = string.Join(", ", new[] { (s.NanCount, "NaN"), (s.PositiveInfinityCount, "+∞"), (s.NegativeInfinityCount, "−∞") }
+            .Where(c => c.Item1 > 0).Select(c => $"{InvariantNumber.Count(c.Item1)} {c.Item2}"));
+        throw new GateInputException(ErrorCodes.ReferenceNonFinite,
+            $"The expression '{expression}' of feature '{f.Name}' gives {counts} among the {InvariantNumber.Count(events)} events of the reference sample. " +
+            "Guard the expression (or select the events where it is defined), or declare 'non-finite: allow' for the feature to count NaN apart.",
+            f.ColumnLocation);
+    }
+
+    /// <summary>
+    /// Every column a feature or the contract's weight reads must be in the reference sample: said at the contract's line,
+    /// with the column and the file (GATE1007), before anything is read.
+    /// </summary>
+    private static void VerifyColumns(PrecisionContract contract, Sample sample, string? weightColumn)
+    {
+        var available = sample.ColumnNamesInAnyFile;
+        var where = sample.Files.Count == 1
+            ? $"the reference sample {sample.Files[0]} does not have"
+            : $"none of the reference sample's {sample.Files.Count} files ({string.Join(", ", sample.Files.Select(Path.GetFileName))}) has";
+        foreach (var f in contract.Features)
+        {
+            if (f.Expression is not null || available.Contains(f.Column)) continue; // an expression's columns are checked when it is compiled
+            throw new GateInputException(ErrorCodes.ContractUnknownColumn,
+                $"Feature '{f.Name}' reads column '{f.Column}', which {where}{NearestName.Hint(f.Column, available)}.", f.ColumnLocation);
+        }
+        if (weightColumn is not null && !available.Contains(weightColumn) && weightColumn == contract.Sample.Weight)
+            throw new GateInputException(ErrorCodes.ContractUnknownColumn,
+                $"The contract weighs events by column '{weightColumn}', which {where}{NearestName.Hint(weightColumn, available)}.",
+                contract.Sample.WeightLocation);
     }
 
     private static Axis CategoryAxis(FeatureSpec f, double min, double max)

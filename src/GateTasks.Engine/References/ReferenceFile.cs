@@ -11,13 +11,15 @@ using Parquet.Schema;
 namespace GateTasks.Engine.References;
 
 /// <summary>
-/// The reference file format, version 1 (docs/reference-format.md): a Parquet file whose rows are histogram
+/// The reference file format, version 2 (docs/reference-format.md): a Parquet file whose rows are histogram
 /// cells (feature, cell, lower, upper, sum_w, sum_w2) and whose key/value metadata entry
-/// <c>gatetasks.reference</c> holds a JSON header with provenance and per-feature statistics.
+/// <c>gatetasks.reference</c> holds a JSON header with provenance, per-feature statistics and the SHA-256 of the
+/// whole content (<see cref="ReferenceDigest"/>), verified on every read. Version 1 had no digest and is refused
+/// with the command that rebuilds it.
 /// </summary>
 internal static class ReferenceFile
 {
-    public const int FormatVersion = 1;
+    public const int FormatVersion = 2;
     public const string MetadataKey = "gatetasks.reference";
     public const string FormatKey = "gatetasks.reference.format";
 
@@ -52,7 +54,10 @@ internal static class ReferenceFile
             }
         }
 
-        var header = Header(reference).ToJsonString(new JsonSerializerOptions { WriteIndented = false });
+        var unsealed = Header(reference).ToJsonString(new JsonSerializerOptions { WriteIndented = false });
+        using var digest = new ReferenceDigest(unsealed);
+        for (var i = 0; i < features.Count; i++) digest.Add(features[i], cells[i], lower[i], upper[i], sumW[i], sumW2[i]);
+        var header = unsealed.Replace(ReferenceDigest.Entry(ReferenceDigest.Placeholder), ReferenceDigest.Entry(digest.Finish()), StringComparison.Ordinal);
         AtomicFile.Write(path, stream => WriteParquetAsync(stream, header, features, cells, lower, upper, sumW, sumW2).GetAwaiter().GetResult());
     }
 
@@ -108,8 +113,17 @@ internal static class ReferenceFile
             await using var reader = await ParquetReader.CreateAsync(stream);
             if (!reader.CustomMetadata.TryGetValue(FormatKey, out var fmt) || !reader.CustomMetadata.TryGetValue(MetadataKey, out var json))
                 throw Unreadable(path, "it is a Parquet file but not a GateTasks reference (no header metadata)");
+            if (fmt == "1")
+                throw Unreadable(path, "it is in reference format 1, which carries no checksum of its content, so an edit to it cannot be detected; " +
+                    "rebuild it with 'gatetasks reference build' (format 2), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt != FormatVersion.ToString(CultureInfo.InvariantCulture))
                 throw Unreadable(path, $"reference format version {fmt} is not supported; this GateTasks reads version {FormatVersion}");
+            var header = JsonNode.Parse(json)!.AsObject();
+            var recorded = header[ReferenceDigest.Key] is JsonValue rv && rv.TryGetValue<string>(out var text) ? text : null;
+            var entry = recorded is null ? null : ReferenceDigest.Entry(recorded);
+            if (recorded is null || recorded.Length != ReferenceDigest.Placeholder.Length || CountOf(json, entry!) != 1)
+                throw Damaged(path, "its header holds no readable checksum of its content");
+            using var digest = new ReferenceDigest(json.Replace(entry!, ReferenceDigest.Entry(ReferenceDigest.Placeholder), StringComparison.Ordinal));
 
             var rows = new Dictionary<string, List<(int Cell, double Lower, double Upper, double W, double W2)>>();
             for (var g = 0; g < reader.RowGroupCount; g++)
@@ -130,18 +144,35 @@ internal static class ReferenceFile
                 await rg.ReadAsync<double>(Field(reader, SumW2Field), w2.AsMemory());
                 for (var i = 0; i < n; i++)
                 {
-                    var name = names[i] ?? throw new InvalidDataException("a feature name is null");
+                    var name = names[i] ?? throw Damaged(path, "a feature name is null");
+                    digest.Add(name, cell[i], lo[i], hi[i], w[i], w2[i]);
                     if (!rows.TryGetValue(name, out var list)) rows[name] = list = [];
                     list.Add((cell[i], lo[i], hi[i], w[i], w2[i]));
                 }
             }
-            return FromHeader(path, JsonNode.Parse(json)!.AsObject(), rows);
+            var actual = digest.Finish();
+            if (!string.Equals(actual, recorded, StringComparison.Ordinal))
+                throw Damaged(path, $"the SHA-256 of its content is {actual[..12]}…, its header records {recorded[..Math.Min(12, recorded.Length)]}…");
+            return FromHeader(path, header, rows);
         }
     }
 
     private static DataField Field(ParquetReader reader, DataField wanted) =>
         reader.Schema.DataFields.FirstOrDefault(f => f.Name == wanted.Name)
         ?? throw new InvalidDataException($"column '{wanted.Name}' is missing");
+
+    private static int CountOf(string text, string part)
+    {
+        var count = 0;
+        for (var at = text.IndexOf(part, StringComparison.Ordinal); at >= 0; at = text.IndexOf(part, at + part.Length, StringComparison.Ordinal)) count++;
+        return count;
+    }
+
+    /// <summary>A reference whose content does not match its checksum: edited by hand, or damaged on disk or in transit.</summary>
+    private static GateInputException Damaged(string path, string why) =>
+        new(ErrorCodes.ReferenceUnreadable,
+            $"Reference file {path} is damaged or was edited after it was built: {why}. Rebuild it with 'gatetasks reference build' from the trusted sample.",
+            new SourceLocation(path));
 
     private static GateInputException Unreadable(string path, string why) =>
         new(ErrorCodes.ReferenceUnreadable, $"Reference file {path} cannot be read: {why}.", new SourceLocation(path));
@@ -193,6 +224,7 @@ internal static class ReferenceFile
         return new JsonObject
         {
             ["format"] = r.FormatVersion,
+            [ReferenceDigest.Key] = ReferenceDigest.Placeholder,
             ["created_utc"] = r.CreatedUtc.UtcDateTime.ToString("yyyy-MM-ddTHH:mm:ssZ", CultureInfo.InvariantCulture),
             ["tool_version"] = r.ToolVersion,
             ["weight_column"] = r.WeightColumn,

@@ -130,6 +130,11 @@ internal static class HtmlReport
                   .Append(E($"{b.Region} {FeaturePlot.Percent(b.Tolerance)}")).Append(" <b class=\"").Append(Css(b.Verdict)).Append("\">").Append(ResultTable.VerdictText(b.Verdict)).Append("</b></span>");
             if (bands.Count == 0) sb.Append("<span class=\"key\">no ratio-max tolerance on this feature</span>");
             sb.Append("<span class=\"key\"><i class=\"sw out\"></i>ratio outside its band</span>");
+            // The flow cells are compared by no binned check: their shares are said.
+            var (rb, _, ra) = BinCoverage.Shares(c.Reference.Histogram);
+            var (sbl, _, sa) = BinCoverage.Shares(c.Surrogate);
+            sb.Append("<span class=\"key flows\">").Append(E($"outside the bins: reference {BinCoverage.Percent(rb)} below, {BinCoverage.Percent(ra)} above; " +
+                $"surrogate {BinCoverage.Percent(sbl)} below, {BinCoverage.Percent(sa)} above")).Append("</span>");
             var (viewLow, viewHigh) = FeaturePlot.View([.. bins.Select(b => b.Lower), bins[^1].Upper], c.Spec.Kind == FeatureKind.Discrete);
             if (viewLow > bins[0].Lower) sb.Append("<span class=\"key\">").Append(E($"first bin [{InvariantNumber.Short(bins[0].Lower)}, {InvariantNumber.Short(bins[0].Upper)}) shown in part")).Append("</span>");
             if (viewHigh < bins[^1].Upper) sb.Append("<span class=\"key\">").Append(E($"last bin [{InvariantNumber.Short(bins[^1].Lower)}, {InvariantNumber.Short(bins[^1].Upper)}) shown in part")).Append("</span>");

@@ -40,7 +40,29 @@ internal static class ResultTable
             if (i == 0) sb.AppendLine(string.Join("  ", widths.Select(w => new string('-', w))));
         }
         sb.AppendLine(DecisionRule(report));
+        Flows(sb, report);
         return sb.ToString();
+    }
+
+    /// <summary>
+    /// Each feature's share of weight outside its bins (the flow cells), in reference and sample: the binned checks
+    /// do not compare it, so it is shown.
+    /// </summary>
+    private static void Flows(StringBuilder sb, CheckReport report)
+    {
+        if (report.Comparisons.Count == 0) return;
+        string[] header = ["outside the bins", "reference below", "above", "sample below", "above"];
+        var rows = new List<string[]> { header };
+        foreach (var c in report.Comparisons)
+        {
+            var (rb, _, ra) = BinCoverage.Shares(c.Reference.Histogram);
+            var (sbw, _, sa) = BinCoverage.Shares(c.Surrogate);
+            rows.Add([c.Spec.Name, BinCoverage.Percent(rb), BinCoverage.Percent(ra), BinCoverage.Percent(sbw), BinCoverage.Percent(sa)]);
+        }
+        var widths = Enumerable.Range(0, header.Length).Select(c => rows.Max(r => r[c].Length)).ToArray();
+        sb.AppendLine();
+        foreach (var row in rows)
+            sb.AppendLine(string.Join("  ", row.Select((cell, c) => c == 0 ? cell.PadRight(widths[c]) : cell.PadLeft(widths[c]))).TrimEnd());
     }
 
     /// <summary>"95% interval": the column heading of the confidence intervals at the contract's confidence.</summary>

@@ -1,0 +1,48 @@
+using System.Buffers.Binary;
+using System.Security.Cryptography;
+using System.Text;
+
+namespace GateTasks.Engine.References;
+
+/// <summary>
+/// The SHA-256 a reference carries over its own content (format 2 on), so that a cell or a header value edited
+/// after the build is caught on every read, with or without an acceptance ledger. The canonical content is the
+/// header's JSON text exactly as stored, with the digest's own value replaced by <see cref="Placeholder"/>, then
+/// every histogram row in file order: the feature name in UTF-8 and a zero byte, the cell as a little-endian int32,
+/// and lower, upper, Σw, Σw² as little-endian IEEE 754 doubles.
+/// </summary>
+internal sealed class ReferenceDigest : IDisposable
+{
+    /// <summary>The header key that holds the digest.</summary>
+    public const string Key = "content_sha256";
+
+    /// <summary>What stands in the digest's place while it is computed: 64 zeros.</summary>
+    public static readonly string Placeholder = new('0', 64);
+
+    private readonly IncrementalHash _hash = IncrementalHash.CreateHash(HashAlgorithmName.SHA256);
+    private readonly byte[] _row = new byte[4 + 4 * 8];
+
+    /// <summary>Starts with the header text, in which the digest's value is <see cref="Placeholder"/>.</summary>
+    public ReferenceDigest(string headerWithPlaceholder) => _hash.AppendData(Encoding.UTF8.GetBytes(headerWithPlaceholder));
+
+    /// <summary>Adds one histogram row.</summary>
+    public void Add(string feature, int cell, double lower, double upper, double sumW, double sumW2)
+    {
+        _hash.AppendData(Encoding.UTF8.GetBytes(feature));
+        _hash.AppendData([0]);
+        BinaryPrimitives.WriteInt32LittleEndian(_row, cell);
+        BinaryPrimitives.WriteDoubleLittleEndian(_row.AsSpan(4), lower);
+        BinaryPrimitives.WriteDoubleLittleEndian(_row.AsSpan(12), upper);
+        BinaryPrimitives.WriteDoubleLittleEndian(_row.AsSpan(20), sumW);
+        BinaryPrimitives.WriteDoubleLittleEndian(_row.AsSpan(28), sumW2);
+        _hash.AppendData(_row);
+    }
+
+    /// <summary>The digest as 64 lower-case hexadecimal digits.</summary>
+    public string Finish() => Convert.ToHexString(_hash.GetHashAndReset()).ToLowerInvariant();
+
+    /// <summary>The JSON text of the digest entry holding <paramref name="value"/>, as the compact header writes it.</summary>
+    public static string Entry(string value) => $"\"{Key}\":\"{value}\"";
+
+    public void Dispose() => _hash.Dispose();
+}
