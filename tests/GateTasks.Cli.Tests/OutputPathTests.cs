@@ -97,15 +97,18 @@ public sealed class OutputPathTests : IDisposable
     }
 
     [Fact]
-    public void Two_reports_that_name_one_file_are_refused_before_either_is_written()
+    public void Two_reports_that_name_one_file_are_refused_and_the_file_keeps_no_earlier_verdict()
     {
-        File.WriteAllText(In("r.html"), "earlier");
+        File.WriteAllText(In("r.html"), "GateTasks check PASSED (an earlier run)");
         File.CreateSymbolicLink(In("r-link.md"), In("r.html"));
 
         var run = Gatetasks("check", "--contract", "contract.yaml", "--html", "r.html", "--markdown", "r-link.md");
 
         AssertRefused(run, "GATE0004", "name the same file");
-        Assert.Equal("earlier", File.ReadAllText(In("r.html")));
+        // The file is a report path, not an input: it loses the earlier verdict and says why the run stopped; the link stays.
+        Assert.Contains("GATE0004", File.ReadAllText(In("r.html")));
+        Assert.DoesNotContain("PASSED", File.ReadAllText(In("r.html")));
+        Assert.NotNull(new FileInfo(In("r-link.md")).LinkTarget);
     }
 
     [Fact]
@@ -377,6 +380,24 @@ public sealed class OutputPathTests : IDisposable
         Assert.Equal("GATE0006", XDocument.Load(In("r.xml")).Root!.Descendants("error").Single().Attribute("type")!.Value);
         foreach (var name in new[] { "r.txt", "r.md", "r.html" })
             Assert.Contains("GATE0006", File.ReadAllText(In(name)));
+    }
+
+    [Fact]
+    public void A_report_refused_as_an_input_leaves_the_input_alone_and_no_other_report_that_says_passed()
+    {
+        Accept();
+        PlantPassingReports(_dir);
+        File.Delete(In("r.xml")); // not requested below: the JUnit path is the ledger
+        var ledger = Digest("contract.ledger");
+
+        // --junit names the ledger: refused; the other requested reports (planted as PASSED) must not keep that verdict.
+        var run = Gatetasks("check", "--contract", "contract.yaml", "--junit", "contract.ledger", "--text", "r.txt", "--markdown", "r.md", "--html", "r.html");
+
+        AssertRefused(run, "GATE0004", "acceptance ledger");
+        Assert.Equal(ledger, Digest("contract.ledger"));
+        foreach (var name in new[] { "r.txt", "r.md", "r.html" })
+            Assert.Contains("GATE0004", File.ReadAllText(In(name)));
+        AssertNoReportPasses(_dir);
     }
 
     // ---- A message quoting a sample's cell is text in every report. ----

@@ -79,8 +79,20 @@ internal static class CheckCommand
         {
             pending ??= e;
         }
-        // A report path that would destroy an input, or is no regular file, is refused before any file is touched.
-        paths.VerifyOutputs();
+        // A report path that would destroy an input, or is no regular file, is refused and left untouched; every other
+        // requested report still loses its earlier verdict and says why the run stopped.
+        try
+        {
+            paths.VerifyOutputs();
+        }
+        catch (GateInputException e)
+        {
+            string? Safe(string? path) => paths.CanWriteAlone(path) ? path : null;
+            var others = new UnfinishedReport.Paths(Safe(reports.JUnit), Safe(reports.Text), Safe(reports.Html), Safe(reports.Markdown));
+            UnfinishedReport.Clear(others);
+            UnfinishedReport.MarkFailed(others, contractPath, started, e);
+            throw;
+        }
 
         try
         {
@@ -162,6 +174,11 @@ internal static class CheckCommand
         stdout.WriteLine(ResultTable.Summary(report));
         if (!report.AcceptanceHolds)
             stdout.WriteLine($"NOT ACCEPTED: {report.Acceptance.Count(f => f.IsError)} ledger error(s) above; the contract or reference in use is not the accepted one.");
-        return !report.Passed ? ExitCodes.ChecksFailed : report.AcceptanceHolds ? ExitCodes.Success : ExitCodes.Unaccepted;
+        return report.Outcome switch
+        {
+            RunOutcome.Passed => ExitCodes.Success,
+            RunOutcome.Failed => ExitCodes.ChecksFailed,
+            _ => ExitCodes.Unaccepted,
+        };
     }
 }

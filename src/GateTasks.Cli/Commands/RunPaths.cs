@@ -60,6 +60,25 @@ internal sealed class RunPaths
         return this;
     }
 
+    /// <summary>
+    /// Whether <paramref name="path"/>, written alone, would destroy nothing: a regular file or a new path that names no
+    /// input or kept file. After an output was refused, the other requested reports that pass this lose their earlier
+    /// verdict all the same.
+    /// </summary>
+    public bool CanWriteAlone(string? path)
+    {
+        if (path is null) return false;
+        try
+        {
+            OutputPathGuard.Verify([new RunFile(path, "the report")], _reads.Concat(_kept));
+            return true;
+        }
+        catch (Engine.Diagnostics.GateInputException)
+        {
+            return false;
+        }
+    }
+
     /// <summary>GATE0006 for an input that is not a regular file; nothing has been opened yet.</summary>
     public RunPaths VerifyInputs()
     {

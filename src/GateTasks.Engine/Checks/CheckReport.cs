@@ -37,4 +37,7 @@ internal sealed record CheckReport(
 
     /// <summary>True when no check failed and, where the contract says inconclusive fails, none is inconclusive.</summary>
     public bool Passed => Failures == 0 && (Inconclusive == 0 || !Contract.Decision.InconclusiveFails);
+
+    /// <summary>How the run ended: the one verdict every report, the console and the exit code show.</summary>
+    public RunOutcome Outcome => !Passed ? RunOutcome.Failed : AcceptanceHolds ? RunOutcome.Passed : RunOutcome.NotAccepted;
 }

@@ -23,13 +23,13 @@ internal static class HtmlReport
         var subjects = FeatureOutcomes.Group(report);
         var ids = Ids(subjects);
         var sb = new StringBuilder(1 << 20);
-        var verdict = report.Passed ? "PASSED" : "FAILED";
+        var verdict = report.Outcome.Word();
         sb.Append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
           .Append("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n")
           .Append("<meta name=\"generator\" content=\"GateTasks ").Append(E(ToolVersion.Current)).Append("\">\n")
           .Append("<title>").Append(E($"{verdict} · {report.Contract.DisplayName} · GateTasks check")).Append("</title>\n")
           .Append("<style>").Append(Style).Append("</style>\n</head>\n")
-          .Append("<body data-verdict=\"").Append(report.Passed ? "passed" : "failed").Append("\">\n");
+          .Append("<body data-verdict=\"").Append(report.Outcome.Token()).Append("\">\n");
         Header(sb, report);
         Overview(sb, subjects, ids);
         sb.Append("<main>\n");
@@ -45,8 +45,8 @@ internal static class HtmlReport
     private static void Header(StringBuilder sb, CheckReport r)
     {
         var passed = r.Outcomes.Count(o => o.Verdict == Verdict.Pass);
-        var css = r.Passed && r.AcceptanceHolds ? "pass" : "fail";
-        var stamp = !r.Passed ? "FAILED" : r.AcceptanceHolds ? "PASSED" : "NOT ACCEPTED";
+        var css = r.Outcome == RunOutcome.Passed ? "pass" : "fail";
+        var stamp = r.Outcome.Word();
         sb.Append("<header class=\"run ").Append(css).Append("\">\n")
           .Append("<div class=\"headline\"><span class=\"stamp ").Append(css).Append("\" id=\"overall\">").Append(stamp).Append("</span>")
           .Append("<h1>").Append(E(r.Contract.DisplayName)).Append("</h1></div>\n")

@@ -20,7 +20,7 @@ internal static class MarkdownSummary
         var passed = report.Outcomes.Where(o => o.Verdict == Verdict.Pass).ToList();
         var open = report.Outcomes.Where(o => o.Verdict != Verdict.Pass)
             .OrderBy(o => FeatureOutcomes.Rank(o.Verdict)).ToList();
-        sb.Append("### GateTasks check ").Append(!report.Passed ? "FAILED" : report.AcceptanceHolds ? "PASSED" : "NOT ACCEPTED")
+        sb.Append("### GateTasks check ").Append(report.Outcome.Word())
           .Append(": ").Append(Text(report.Contract.DisplayName)).Append("\n\n");
         // Ledger errors first: the checks may pass while the contract in use is not the accepted one.
         foreach (var f in report.Acceptance.Where(f => f.IsError))

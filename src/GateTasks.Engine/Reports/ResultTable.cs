@@ -113,7 +113,7 @@ internal static class ResultTable
     /// <summary>One line saying what was checked and how it went.</summary>
     public static string Summary(CheckReport report)
     {
-        var verdict = report.Passed ? "PASSED" : "FAILED";
+        var verdict = report.Outcome.Word();
         var passed = report.Outcomes.Count(o => o.Verdict == Verdict.Pass);
         return $"{verdict}: {passed} of {report.Outcomes.Count} checks within tolerance, {report.Failures} failed, {report.Inconclusive} inconclusive " +
                $"({report.Contract.Features.Count} features, {InvariantNumber.Count(report.Events)} surrogate events, " +

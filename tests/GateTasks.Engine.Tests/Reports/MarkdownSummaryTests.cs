@@ -88,5 +88,12 @@ public sealed class MarkdownSummaryTests(ReportCase run) : IClassFixture<ReportC
         var html = HtmlReport.Render(report);
         Assert.Contains("id=\"overall\">NOT ACCEPTED</span>", html);
         Assert.Contains("error GATE4003</span> x ks-max changed from 0.03 to 0.05 since entry 1", html);
+        // No word of the run's own reports may call it a pass: the HTML title and page attribute, and the summary line the
+        // console and the text report print (the verdict words are the documented ones, docs/reports.md).
+        Assert.Contains("<title>NOT ACCEPTED ", html);
+        Assert.Contains("<body data-verdict=\"not-accepted\">", html);
+        Assert.DoesNotContain("PASSED", html);
+        Assert.StartsWith("NOT ACCEPTED: ", ResultTable.Summary(report));
+        Assert.DoesNotContain("PASSED", string.Join("\n", md));
     }
 }
