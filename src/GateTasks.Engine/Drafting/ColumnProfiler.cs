@@ -111,14 +111,7 @@ internal static class ColumnProfiler
         {
             var w = weights[r];
             if (double.IsFinite(w)) continue;
-            // At the cell, in the file's own words (an empty cell is a missing weight), where the reader can say.
-            if (batch.Locate?.Invoke(r, weightIndex) is { } origin)
-                throw new GateInputException(ErrorCodes.SampleBadWeight,
-                    $"weight column '{weightColumn}' holds {origin.Written} at {origin.Place} of sample file '{file}'; a trusted sample needs finite weights",
-                    origin.Location);
-            throw new GateInputException(ErrorCodes.SampleBadWeight,
-                $"The weight column '{weightColumn}' holds a non-finite weight ({w}); a trusted sample needs finite weights.",
-                new SourceLocation(file ?? ""));
+            throw SampleStream.BadWeight(file ?? "", batch, weightColumn, weightIndex, r, -1, w, "a trusted sample needs finite weights");
         }
         return weights;
     }

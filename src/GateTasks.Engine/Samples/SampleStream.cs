@@ -74,7 +74,8 @@ internal static class SampleStream
             for (var r = 0; r < rawWeights.Length; r++)
             {
                 var w = rawWeights[r];
-                if (!double.IsFinite(w)) throw BadWeight(sample, batch, weightColumn!, weightIndex, r, read + r, w);
+                if (!double.IsFinite(w))
+                    throw BadWeight(sample.CurrentFile ?? sample.Files[0], batch, weightColumn!, weightIndex, r, read + r, w, "every event needs a finite weight");
                 largestWeight = Math.Max(largestWeight, Math.Abs(w));
             }
             read += rows;
@@ -177,17 +178,21 @@ internal static class SampleStream
         };
     }
 
-    // GATE2007 at the cell itself where the reader can say where it is (a CSV line and column, a Parquet row), and
-    // in the words the file uses: an empty cell or a null is a missing weight, not a NaN.
-    private static GateInputException BadWeight(Sample sample, SampleBatch batch, string weightColumn, int weightIndex, int row, long eventIndex, double value)
+    /// <summary>
+    /// GATE2007 for a weight that is not finite, at its cell where the reader can say (a CSV line and column, a Parquet
+    /// row) and in the file's own words (an empty cell or a null is a missing weight, not a NaN);
+    /// <paramref name="eventIndex"/> -1: unknown.
+    /// </summary>
+    internal static GateInputException BadWeight(string file, SampleBatch batch, string weightColumn, int weightIndex, int row, long eventIndex,
+        double value, string need)
     {
-        var file = sample.CurrentFile ?? sample.Files[0];
         if (batch.Locate?.Invoke(row, weightIndex) is { } origin)
             return new GateInputException(ErrorCodes.SampleBadWeight,
-                $"weight column '{weightColumn}' holds {origin.Written} at {origin.Place} of sample file '{file}'; every event needs a finite weight",
+                $"weight column '{weightColumn}' holds {origin.Written} at {origin.Place} of sample file '{file}'; {need}",
                 origin.Location);
         return new GateInputException(ErrorCodes.SampleBadWeight,
-            $"weight column '{weightColumn}' holds {InvariantNumber.Short(value)} at event {eventIndex + 1} of the sample (in file '{file}'); every event needs a finite weight",
+            $"weight column '{weightColumn}' holds {InvariantNumber.Short(value)} " +
+            (eventIndex >= 0 ? $"at event {eventIndex + 1} of the sample (in file '{file}'); {need}" : $"in sample file '{file}'; {need}"),
             new SourceLocation(file));
     }
 }
