@@ -10,10 +10,12 @@ internal sealed class Sample
 {
     private readonly IReadOnlyList<SampleColumn>[] _fileColumns;
 
-    private Sample(IReadOnlyList<string> files, IReadOnlyList<SampleColumn>[] fileColumns, long? totalRows, IReadOnlyList<ShardFile> shards)
+    private readonly Lazy<IReadOnlyList<ShardFile>> _shards;
+
+    private Sample(IReadOnlyList<string> files, IReadOnlyList<SampleColumn>[] fileColumns, long? totalRows)
     {
         Files = files;
-        Shards = shards;
+        _shards = new Lazy<IReadOnlyList<ShardFile>>(() => ShardContent.Identify(files));
         TotalRows = totalRows;
         _fileColumns = fileColumns;
         Columns = CommonColumns(fileColumns);
@@ -22,8 +24,12 @@ internal sealed class Sample
     /// <summary>The files, in reading order.</summary>
     public IReadOnlyList<string> Files { get; }
 
-    /// <summary>The files with the digests of their content, in reading order (no two alike).</summary>
-    public IReadOnlyList<ShardFile> Shards { get; }
+    /// <summary>
+    /// The files with the digests of their content, in reading order (no two alike). Digested when the sample is opened
+    /// if it has several files (a copy must be refused before any is read), else when first asked for (a partial file
+    /// records it; a check of one file has no copy to find and skips the extra pass).
+    /// </summary>
+    public IReadOnlyList<ShardFile> Shards => _shards.Value;
 
     /// <summary>The columns every file has, in the first file's order, with the first file's type.</summary>
     public IReadOnlyList<SampleColumn> Columns { get; }
@@ -60,7 +66,8 @@ internal sealed class Sample
 
     /// <summary>
     /// Opens every file's schema (GATE2001 missing, GATE2002 unreadable, GATE0001 a file listed twice, which would
-    /// count its events twice) and digests every file's content (GATE2204 two files alike: a copy under another name).
+    /// count its events twice) and, when there are several, digests every file's content (GATE2204 two files alike: a
+    /// copy under another name).
     /// </summary>
     public static Sample Open(IReadOnlyList<string> files)
     {
@@ -80,7 +87,9 @@ internal sealed class Sample
             columns[i] = reader.Columns;
             totalRows = totalRows is { } t && reader.RowCount is { } r ? t + r : null;
         }
-        return new Sample(files.ToArray(), columns, totalRows, ShardContent.Identify(files));
+        var sample = new Sample(files.ToArray(), columns, totalRows);
+        if (files.Count > 1) _ = sample.Shards;
+        return sample;
     }
 
     /// <summary>
