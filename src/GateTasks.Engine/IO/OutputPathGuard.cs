@@ -36,13 +36,13 @@ internal static class OutputPathGuard
             foreach (var input in resolvedInputs.Where(input => Same(output, input)))
                 throw new GateInputException(ErrorCodes.OutputIsInput,
                     $"{output.File.Role} '{output.Full}' is {input.File.Role} of this run{Through(output, input)}; writing it would destroy it. " +
-                    "Nothing was written; choose another output path.",
+                    "It was left as it was; choose another output path.",
                     new SourceLocation(output.Full));
             for (var j = 0; j < i; j++)
                 if (Same(output, resolvedOutputs[j]))
                     throw new GateInputException(ErrorCodes.OutputIsInput,
                         $"{resolvedOutputs[j].File.Role} and {output.File.Role} name the same file '{output.Full}'{Through(output, resolvedOutputs[j])}; " +
-                        "one would overwrite the other. Nothing was written; give each output a path of its own.",
+                        "one would overwrite the other; give each output a path of its own.",
                         new SourceLocation(output.Full));
         }
     }
