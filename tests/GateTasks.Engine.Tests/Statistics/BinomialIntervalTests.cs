@@ -7,7 +7,7 @@ public class BinomialIntervalTests
 {
     [Theory]
     // Newcombe 1998, Stat. Med. 17:857, Table I, Wilson score interval without continuity correction, 95%
-    // [pub, via reference-values.md], given to 4 decimals.
+    // [published], given to 4 decimals.
     [InlineData(81, 263, 0.2553, 0.3662)]
     [InlineData(15, 148, 0.0624, 0.1605)]
     [InlineData(0, 20, 0.0, 0.1611)]
@@ -20,7 +20,7 @@ public class BinomialIntervalTests
     }
 
     [Theory]
-    // scipy 1.10.1 stats.binomtest(k, n).proportion_ci(0.95, method='exact') [scipy, via reference-values.md], 7 decimals.
+    // scipy 1.10.1 stats.binomtest(k, n).proportion_ci(0.95, method='exact') [scipy], 7 decimals.
     [InlineData(81, 263, 0.2527367, 0.3676219)]
     [InlineData(15, 148, 0.0578440, 0.1616505)]
     [InlineData(0, 20, 0.0, 0.1684335)]
@@ -35,7 +35,7 @@ public class BinomialIntervalTests
     [Fact]
     public void ClopperPearsonAtTheEnds()
     {
-        // 0/10 upper 0.3084971 and 10/10 lower 0.6915029 [pub, via R binom.test, reference-values.md]; the other ends are exactly 0 and 1.
+        // 0/10 upper 0.3084971 and 10/10 lower 0.6915029 [published; R binom.test]; the other ends are exactly 0 and 1.
         Assert.Equal((0.0, 0.3084971), Round7(BinomialInterval.ClopperPearson(0, 10, 0.95)));
         Assert.Equal((0.6915029, 1.0), Round7(BinomialInterval.ClopperPearson(10, 10, 0.95)));
     }
@@ -68,8 +68,8 @@ public class BinomialIntervalTests
     [Fact]
     public void WilsonEffectiveWithEqualWeightsIsWilson()
     {
-        // Equal weights give the Kish (1965) effective count n ([1,1,1,1] → 4, reference-values.md), so the
-        // weighted interval must reproduce Newcombe 1998's 81/263 → 0.2553–0.3662 [pub, via reference-values.md].
+        // Equal weights give the Kish (1965) effective count n ([1,1,1,1] → 4), so the
+        // weighted interval must reproduce Newcombe 1998's 81/263 → 0.2553–0.3662 [published].
         double[] weights = Enumerable.Repeat(0.7, 263).ToArray();
         double nEff = Math.Pow(weights.Sum(), 2) / weights.Sum(w => w * w);
         double fraction = weights.Take(81).Sum() / weights.Sum();
@@ -84,7 +84,7 @@ public class BinomialIntervalTests
     [Fact]
     public void WilsonEffectiveWidensWhenWeightsVary()
     {
-        // Kish (1965): weights [1,1,1,1,10] → n_eff = 196/104 < 5 [pub, via reference-values.md]; a smaller
+        // Kish (1965): weights [1,1,1,1,10] → n_eff = 196/104 < 5 [published]; a smaller
         // effective count must give a wider Wilson interval than the raw count would.
         double nEff = 196.0 / 104.0;
         (double lo, double hi) = BinomialInterval.WilsonEffective(0.4, nEff, 0.95);

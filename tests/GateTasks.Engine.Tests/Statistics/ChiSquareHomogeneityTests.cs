@@ -26,7 +26,7 @@ public class ChiSquareHomogeneityTests
     public void UnweightedWeightedPublishedExample()
     {
         ChiSquareResult r = ChiSquareHomogeneity.UnweightedWeighted(H1, H2Weights, Squares(H2Errors));
-        // Gagunashvili 2006 unweighted–weighted example [pub, via reference-values.md]: X² = 21.085124, ndf 19, p 0.332116
+        // Gagunashvili 2006 unweighted–weighted example [published]: X² = 21.085124, ndf 19, p 0.332116
         Near(21.085124, r.ChiSquare, 0, 5e-7);
         Assert.Equal(19, r.DegreesOfFreedom);
         Near(0.332116, r.PValue, 0, 5e-7);
@@ -38,13 +38,13 @@ public class ChiSquareHomogeneityTests
         double[] h1 = (double[])H1.Clone();
         h1[14] += 17; // bin 15 (1-based)
         ChiSquareResult r = ChiSquareHomogeneity.UnweightedWeighted(h1, H2Weights, Squares(H2Errors));
-        // Gagunashvili 2006, same example with 17 added to bin 15 of h1 [pub, via reference-values.md]: 32.333882, p 0.028653
+        // Gagunashvili 2006, same example with 17 added to bin 15 of h1 [published]: 32.333882, p 0.028653
         Near(32.333882, r.ChiSquare, 0, 5e-7);
         Near(0.028653, r.PValue, 0, 5e-7);
     }
 
     [Theory]
-    // scipy 1.10.1 chi2_contingency([a, b], correction=False) [scipy, via reference-values.md]
+    // scipy 1.10.1 chi2_contingency([a, b], correction=False) [scipy]
     [InlineData(new double[] { 10, 25, 40, 18, 7 }, new double[] { 14, 30, 31, 20, 5 }, 2.7006536829, 4, 0.6091002312)]
     [InlineData(new double[] { 5, 12, 30, 22, 9, 2 }, new double[] { 20, 41, 70, 52, 25, 12 }, 3.0285795998, 5, 0.6955795233)]
     public void UnweightedMatchesContingencyTable(double[] a, double[] b, double chi2, int ndf, double p)
@@ -58,7 +58,7 @@ public class ChiSquareHomogeneityTests
     [Fact]
     public void BinsEmptyInBothAreSkipped()
     {
-        // Same scipy chi2_contingency case as above [scipy, via reference-values.md] with empty bins inserted.
+        // Same scipy chi2_contingency case as above [scipy] with empty bins inserted.
         ChiSquareResult r = ChiSquareHomogeneity.Unweighted(new double[] { 0, 10, 25, 0, 40, 18, 7, 0 }, new double[] { 0, 14, 30, 0, 31, 20, 5, 0 });
         Near(2.7006536829, r.ChiSquare, 0, 5e-11);
         Assert.Equal(4, r.DegreesOfFreedom);
@@ -82,7 +82,7 @@ public class ChiSquareHomogeneityTests
     public void WeightedWithUnitWeightsEqualsUnweighted()
     {
         // With unit weights s² = w = n, the weighted formula reduces to the unweighted one (Gagunashvili 2010);
-        // checked on the scipy chi2_contingency case [scipy, via reference-values.md].
+        // checked on the scipy chi2_contingency case [scipy].
         double[] a = { 10, 25, 40, 18, 7 }, b = { 14, 30, 31, 20, 5 };
         ChiSquareResult r = ChiSquareHomogeneity.Weighted(a, a, b, b);
         Near(2.7006536829, r.ChiSquare, 0, 5e-11);

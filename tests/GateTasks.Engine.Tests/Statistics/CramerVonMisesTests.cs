@@ -6,7 +6,7 @@ namespace GateTasks.Engine.Tests.Statistics;
 public class CramerVonMisesTests
 {
     [Theory]
-    // Anderson 1962 exact tail probabilities P(U ≥ u) [pub, via; exact], reference-values.md
+    // Anderson 1962 exact tail probabilities P(U ≥ u) [published; exact]
     [InlineData(5, 6, 710, 48.0 / 462)]
     [InlineData(7, 7, 1897, 117.0 / 1716)]
     [InlineData(4, 6, 576, 2.0 / 210)]
@@ -23,7 +23,7 @@ public class CramerVonMisesTests
     public void ConoverExampleExact()
     {
         CramerVonMisesResult r = CramerVonMises.TwoSample(ConoverX, ConoverY);
-        // scipy 1.10.1 cramervonmises_2samp(x, y) [scipy, via reference-values.md]; Conover 1971 T = 0.262, p ≈ 0.18 [pub, via]
+        // scipy 1.10.1 cramervonmises_2samp(x, y) [scipy]; Conover 1971 T = 0.262, p ≈ 0.18 [published]
         Assert.Equal(12975, r.U, 9);
         Near(0.2615740741, r.T, 0, 5e-11);
         Near(0.1867543044, r.PValue, 0, 5e-11);
@@ -34,7 +34,7 @@ public class CramerVonMisesTests
     public void ConoverExampleAsymptotic()
     {
         CramerVonMisesResult r = CramerVonMises.TwoSampleAsymptotic(ConoverX, ConoverY);
-        // scipy 1.10.1 cramervonmises_2samp(x, y, method='asymptotic') = 0.1795224560 [scipy, via reference-values.md];
+        // scipy 1.10.1 cramervonmises_2samp(x, y, method='asymptotic') = 0.1795224560 [scipy];
         // scipy stops its series at terms below 1e-7, so agreement is to that order.
         Near(0.1795224560, r.PValue, 0, 2e-7);
         Assert.Equal(CramerVonMises.AsymptoticMethod, r.Method);

@@ -19,11 +19,11 @@ public class EquivalenceTestTests
         // Stegner et al. 1996: means 1.6764 (SD 0.4748, n 70) − 1.5679 (SD 0.4285, n 64), bounds ±0.3136.
         (double d, double se, double df) = Pooled(1.6764, 0.4748, 70, 1.5679, 0.4285, 64);
         (double tLower, double tUpper) = EquivalenceTest.Statistics(d, se, -0.3136, 0.3136);
-        // t = 5.383 and −2.616 [pub, via reference-values.md]; the full-precision pooled SE gives 5.3842, so
+        // t = 5.383 and −2.616 [published]; the full-precision pooled SE gives 5.3842, so
         // the published 5.383 carries ~1e-3 of rounding from its intermediate values.
         Near(5.383, tLower, 0, 1.5e-3);
         Near(-2.616, tUpper, 0, 5e-4);
-        // p_TOST with df 132 = 0.0049636 [computed, reference-values.md].
+        // p_TOST with df 132 = 0.0049636 [computed].
         Assert.Equal(132, df);
         Near(0.0049636, EquivalenceTest.PValue(d, se, -0.3136, 0.3136, df), 0, 5e-8);
     }
@@ -34,12 +34,12 @@ public class EquivalenceTestTests
         // Quertemont 2011, Table 1: 407.24 (SD 41.77) vs 402.98 (SD 41.79), n = 150 each, bounds ±15.
         (double d, double se, double df) = Pooled(407.24, 41.77, 150, 402.98, 41.79, 150);
         (_, double tUpper) = EquivalenceTest.Statistics(d, se, -15, 15);
-        // t(298) = −2.23 [pub, via reference-values.md]; computed −2.2262 [reference-values.md].
+        // t(298) = −2.23 [published]; computed −2.2262 from the table's means, SDs and n [computed].
         Assert.Equal(298, df);
         Near(-2.23, tUpper, 0, 5e-3);
         Near(-2.2262, tUpper, 0, 5e-5);
         double p = EquivalenceTest.PValue(d, se, -15, 15, df);
-        // p = .013 [pub, via reference-values.md]; computed 0.013374 [reference-values.md].
+        // p = .013 [published]; computed 0.013374 from the same [computed].
         Near(0.013, p, 0, 5e-4);
         Near(0.013374, p, 0, 5e-7);
     }
@@ -48,7 +48,7 @@ public class EquivalenceTestTests
     public void NormalTostEqualsTheIntervalInclusionRule()
     {
         // Schuirmann 1987: TOST at α rejects exactly when the (1 − 2α) interval d ± z_{1−α}·se lies inside the
-        // bounds [pub, via reference-values.md]. With the lower bound placed on the 95% one-sided lower limit
+        // bounds [published]. With the lower bound placed on the 95% one-sided lower limit
         // and the upper bound far away, p_TOST = 0.05.
         double d = 0.3, se = 0.1;
         double lower = EquivalenceTest.LowerBound(d, se, 0.95);

@@ -7,7 +7,7 @@ namespace GateTasks.Engine.Tests.Statistics;
 public class KolmogorovSmirnovTests
 {
     [Theory]
-    // Smirnov (1948) table of the Kolmogorov distribution [pub, via reference-values.md], to the table's digits.
+    // Smirnov (1948) table of the Kolmogorov distribution [published], to the table's digits.
     [InlineData(0.50, 0.036055, 5e-7)]
     [InlineData(0.99, 0.719126, 5e-7)]
     [InlineData(1.00, 0.730000, 5e-7)]
@@ -22,7 +22,7 @@ public class KolmogorovSmirnovTests
     }
 
     [Theory]
-    // scipy kstwobign.isf(alpha) critical values [scipy, via reference-values.md], given to 6 decimals.
+    // scipy kstwobign.isf(alpha) critical values [scipy], given to 6 decimals.
     [InlineData(0.10, 1.223848)]
     [InlineData(0.05, 1.358099)]
     [InlineData(0.025, 1.480207)]
@@ -48,7 +48,7 @@ public class KolmogorovSmirnovTests
     }
 
     [Theory]
-    // [exact] rational values from full enumeration, reference-values.md
+    // [exact] rational values from full enumeration of the permutations
     [InlineData(new[] { 1.01, 2.01 }, new[] { 1.0, 2, 3, 4 }, 1.0 / 2, 14.0 / 15)]
     [InlineData(new[] { 0.99, 1.99 }, new[] { 1.0, 2, 3, 4 }, 3.0 / 4, 2.0 / 5)]
     [InlineData(new[] { 1.0, 3, 5, 6, 9, 10 }, new[] { 2.0, 4, 7, 8 }, 1.0 / 3, 97.0 / 105)]
@@ -67,10 +67,10 @@ public class KolmogorovSmirnovTests
     public void FeedTrialsExactAndLimit()
     {
         TestResult r = KolmogorovSmirnov.TwoSample(FeedX, FeedY);
-        // [exact] D = 9/22, p = 132289/676039 (R ks.test 0.1956825), reference-values.md
+        // [exact] D = 9/22, p = 132289/676039 (R ks.test 0.1956825)
         Near(9.0 / 22, r.Statistic, 1e-15);
         Near(132289.0 / 676039, r.PValue, 1e-12);
-        // Kolmogorov-limit p = 0.2920155201, reference-values.md
+        // Kolmogorov-limit p = 0.2920155201 [computed from the limiting series]
         Near(0.2920155201, KolmogorovSmirnov.LimitSurvival(KolmogorovSmirnov.Lambda(r.Statistic, 12, 11)), 0, 5e-11);
     }
 
@@ -80,14 +80,14 @@ public class KolmogorovSmirnovTests
         double[] x = Enumerable.Range(0, 2000).Select(i => (double)i * i).ToArray();
         double[] y = Enumerable.Range(-150, 2150).Select(i => (double)i * i).ToArray();
         TestResult r = KolmogorovSmirnov.TwoSample(x, y);
-        // D = 0.0645, limit p = 0.0003604729 [pub, via R], reference-values.md (y has ties: i² for ±i)
+        // D = 0.0645, limit p = 0.0003604729 [R ks.test] (y has ties: i² for ±i)
         Near(0.0645, r.Statistic, 1e-12);
         Near(0.0003604729, r.PValue, 0, 5e-11);
         Assert.Equal(KolmogorovSmirnov.LimitMethod, r.Method);
     }
 
     [Theory]
-    // Exact two-sample critical values [pub: two-sample tables, via reference-values.md]: D ≥ crit rejects at α,
+    // Exact two-sample critical values [published: two-sample tables]: D ≥ crit rejects at α,
     // so P(D ≥ crit) ≤ α while the next smaller lattice value does not reject.
     [InlineData(5, 8, 30.0 / 40, 0.05)]
     [InlineData(5, 8, 35.0 / 40, 0.01)]
@@ -117,7 +117,7 @@ public class KolmogorovSmirnovTests
     [Fact]
     public void ExactPValueFiveEight()
     {
-        // (m,n) = (5,8), P(D ≥ 30/40) = 0.04196 [pub: two-sample tables, via reference-values.md]
+        // (m,n) = (5,8), P(D ≥ 30/40) = 0.04196 [published: two-sample tables]
         Near(0.04196, KolmogorovSmirnov.ExactPValue(5, 8, 30.0 / 40), 0, 5e-6);
     }
 

@@ -5,7 +5,7 @@ namespace GateTasks.Engine.Tests.Statistics;
 
 public class MultipleTestingTests
 {
-    // Benjamini & Hochberg (1995), JRSS-B 57:289, Section 4.2: the 15 p-values of their worked example [pub, via reference-values.md].
+    // Benjamini & Hochberg (1995), JRSS-B 57:289, Section 4.2: the 15 p-values of their worked example [published].
     private static readonly double[] BenjaminiHochbergExample =
     {
         0.0001, 0.0004, 0.0019, 0.0095, 0.0201, 0.0278, 0.0298, 0.0344, 0.0459, 0.3240, 0.4262, 0.5719, 0.6528, 0.7590, 1.000,
@@ -15,7 +15,7 @@ public class MultipleTestingTests
     public void BenjaminiHochbergRejectsFourOfTheExample()
     {
         bool[] rejected = MultipleTesting.Reject(BenjaminiHochbergExample, 0.05, MultipleTestingMethod.BenjaminiHochberg);
-        // Benjamini & Hochberg 1995: at q = 0.05 the step-up procedure rejects the four smallest [pub, via reference-values.md].
+        // Benjamini & Hochberg 1995: at q = 0.05 the step-up procedure rejects the four smallest [published].
         Assert.Equal(Enumerable.Range(0, 15).Select(i => i < 4), rejected);
     }
 
@@ -23,7 +23,7 @@ public class MultipleTestingTests
     public void BonferroniRejectsThreeOfTheExample()
     {
         bool[] rejected = MultipleTesting.Reject(BenjaminiHochbergExample, 0.05, MultipleTestingMethod.Bonferroni);
-        // Benjamini & Hochberg 1995: Bonferroni at 0.05 rejects three [pub, via reference-values.md].
+        // Benjamini & Hochberg 1995: Bonferroni at 0.05 rejects three [published].
         Assert.Equal(Enumerable.Range(0, 15).Select(i => i < 3), rejected);
     }
 
@@ -31,7 +31,7 @@ public class MultipleTestingTests
     public void HolmRejectsThreeOfTheExample()
     {
         bool[] rejected = MultipleTesting.Reject(BenjaminiHochbergExample, 0.05, MultipleTestingMethod.Holm);
-        // reference-values.md: Holm (1979) rejects three of the Benjamini–Hochberg p-values (computed); by hand,
+        // Holm (1979) rejects three of the Benjamini–Hochberg p-values (computed); by hand,
         // 13·0.0019 = 0.0247 ≤ 0.05 but 12·0.0095 = 0.114 > 0.05, so the step-down stops after the third.
         Assert.Equal(Enumerable.Range(0, 15).Select(i => i < 3), rejected);
     }
@@ -40,7 +40,7 @@ public class MultipleTestingTests
     public void BenjaminiHochbergAdjustedValues()
     {
         double[] adjusted = MultipleTesting.Adjust(BenjaminiHochbergExample, MultipleTestingMethod.BenjaminiHochberg);
-        // BH-adjusted values of the 1995 example, reference-values.md (given to 8 significant digits).
+        // BH-adjusted values of the Benjamini & Hochberg (1995) example [computed] (given to 8 significant digits).
         double[] expected =
         {
             0.0015, 0.003, 0.0095, 0.035625, 0.0603, 0.06385714, 0.06385714, 0.0645, 0.0765, 0.486, 0.58118182,
@@ -54,7 +54,7 @@ public class MultipleTestingTests
     public void HolmAdjustedValues()
     {
         double[] adjusted = MultipleTesting.Adjust(BenjaminiHochbergExample, MultipleTestingMethod.Holm);
-        // reference-values.md lists these as "computed". Rechecked [exact, hand-computed] from Holm's (1979)
+        // [computed] Rechecked [exact, hand-computed] from Holm's (1979)
         // definition p̃_(j) = max_{i≤j} min(1, (m − i + 1) p_(i)), m = 15:
         //   15·0.0001 = 0.0015; 14·0.0004 = 0.0056; 13·0.0019 = 0.0247; 12·0.0095 = 0.114; 11·0.0201 = 0.2211;
         //   10·0.0278 = 0.278; 9·0.0298 = 0.2682 → running max 0.278; 8·0.0344 = 0.2752 → 0.278;
@@ -164,7 +164,7 @@ public class MultipleTestingTests
     public void PerTestLevelsOfTheExampleMatchTheDecisions()
     {
         // Benjamini & Hochberg 1995 compare p_(i) with i·q/m; the largest i with p_(i) ≤ i·0.05/15 is 4
-        // (0.0095 ≤ 0.01333, 0.0201 > 0.01667, …) [pub, via reference-values.md: BH rejects 4].
+        // (0.0095 ≤ 0.01333, 0.0201 > 0.01667, …) [published: BH rejects 4].
         double[] levels = MultipleTesting.PerTestLevels(BenjaminiHochbergExample, 0.05, MultipleTestingMethod.BenjaminiHochberg);
         Near(4 * 0.05 / 15, levels[3], 1e-15);
         int lastBelow = Enumerable.Range(0, 15).Last(i => BenjaminiHochbergExample[i] <= levels[i]);

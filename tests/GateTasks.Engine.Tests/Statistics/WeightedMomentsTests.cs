@@ -6,7 +6,7 @@ namespace GateTasks.Engine.Tests.Statistics;
 public class WeightedMomentsTests
 {
     [Theory]
-    // Kish 1965 effective sample size (Σw)²/Σw² [reference-values.md]
+    // Kish 1965 effective sample size (Σw)²/Σw² [published]
     [InlineData(new double[] { 1, 1, 1, 1 }, 4.0)]
     [InlineData(new double[] { 1, 2, 3, 4 }, 10.0 / 3)]
     [InlineData(new[] { 0.5, 0.5, 1, 2 }, 32.0 / 11)]
