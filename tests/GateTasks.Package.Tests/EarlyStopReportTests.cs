@@ -97,4 +97,26 @@ public class EarlyStopReportTests(PackageFeed feed)
         Assert.Contains("GateTasks: up to date, the check is skipped", output);
         AssertPassedReports(reportBase);
     }
+
+    [Fact]
+    public void A_disabled_gate_or_a_design_time_build_leaves_the_reports_alone()
+    {
+        // Guards the conditions of the early step: with the gate off it must not touch the reports (documented:
+        // GateEnabled=false, the gate does not run at all; design-time builds are skipped).
+        var p = CompilingProject(feed, "DisabledGate", "<TargetFramework>net8.0</TargetFramework>");
+        var reportBase = Path.Combine(p.ReportDirectory, "precision-contract");
+        var (code, output) = p.Build();
+        Assert.True(code == 0, output);
+        var before = Kinds.Select(k => File.ReadAllBytes(reportBase + k)).ToList();
+        var stateDir = Path.Combine(p.Directory, "obj", "gate");
+        Directory.Delete(Path.Combine(stateDir, "passed-reports"), recursive: true); // so a restore could not hide a move
+
+        foreach (var setting in new[] { "-p:GateEnabled=false", "-p:DesignTimeBuild=true" })
+        {
+            (code, output) = p.Build(setting);
+            Assert.True(code == 0, output);
+            Assert.DoesNotContain("GateTasks:", output);
+            Assert.Equal(before, Kinds.Select(k => File.ReadAllBytes(reportBase + k)).ToList());
+        }
+    }
 }
