@@ -171,35 +171,12 @@ internal static class JUnitReport
         w.WriteEndElement();
     }
 
-    /// <summary>
-    /// Drops characters XML 1.0 cannot carry (NUL and C0 controls other than tab, LF, CR, even escaped) and ANSI
-    /// escape sequences, which would make the whole file unreadable to consumers.
-    /// </summary>
-    internal static string Clean(string text)
-    {
-        var sb = new StringBuilder(text.Length);
-        for (var i = 0; i < text.Length; i++)
-        {
-            var ch = text[i];
-            if (ch == '\u001b' && i + 1 < text.Length && text[i + 1] == '[')
-            {
-                i += 2;
-                while (i < text.Length && !(text[i] >= '@' && text[i] <= '~')) i++;
-                continue;
-            }
-            if (char.IsHighSurrogate(ch) && i + 1 < text.Length && char.IsLowSurrogate(text[i + 1]))
-            {
-                sb.Append(ch).Append(text[++i]);
-                continue;
-            }
-            if (XmlConvert.IsXmlChar(ch)) sb.Append(ch);
-        }
-        return sb.ToString();
-    }
+    /// <summary>See <see cref="JUnitText.Clean"/>.</summary>
+    internal static string Clean(string text) => JUnitText.Clean(text);
 
     private static string Count(long n) => n.ToString(CultureInfo.InvariantCulture);
 
     private static string Seconds(double s) => s.ToString("0.000", CultureInfo.InvariantCulture);
 
-    internal static string Timestamp(DateTimeOffset t) => t.UtcDateTime.ToString("yyyy-MM-ddTHH:mm:ssZ", CultureInfo.InvariantCulture);
+    internal static string Timestamp(DateTimeOffset t) => JUnitText.Timestamp(t);
 }

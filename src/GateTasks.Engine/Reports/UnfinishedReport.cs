@@ -85,7 +85,7 @@ internal static class UnfinishedReport
         var where = location is null ? "" : location + ": ";
         var line = $"{where}error {code}: {message}";
         var writers = new List<Action>();
-        if (paths.JUnit is { } junit) writers.Add(() => AtomicFile.WriteText(junit, JUnit(contractPath, started, code, message, line)));
+        if (paths.JUnit is { } junit) writers.Add(() => AtomicFile.WriteText(junit, UnfinishedJUnit.Render(contractPath, started, code, message, line)));
         if (paths.Text is { } text) writers.Add(() => AtomicFile.WriteText(text, "NOT FINISHED: " + line + Environment.NewLine));
         if (paths.Html is { } html)
             writers.Add(() => AtomicFile.WriteText(html, "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>GateTasks check did not finish</title></head>\n" +
@@ -94,37 +94,5 @@ internal static class UnfinishedReport
             // The message may quote a sample's cell: escaped, so a pull-request comment shows it as text.
             writers.Add(() => AtomicFile.WriteText(markdown, $"### GateTasks check DID NOT FINISH\n\n`{contractPath.Replace("`", "'")}`\n\n{MarkdownText.Escape(line)}\n"));
         return writers;
-    }
-
-    private static string JUnit(string contractPath, DateTimeOffset started, string code, string message, string line)
-    {
-        var settings = new XmlWriterSettings { Indent = true, Encoding = new UTF8Encoding(false), CheckCharacters = true };
-        var sb = new StringBuilder();
-        using (var w = XmlWriter.Create(new StringWriterUtf8(sb), settings))
-        {
-            // One test, in error, at both levels.
-            (string, string)[] counts = [("tests", "1"), ("failures", "0"), ("errors", "1"), ("skipped", "0"), ("time", "0")];
-            w.WriteStartElement("testsuites");
-            w.WriteAttributeString("name", "gatetasks");
-            foreach (var (name, value) in counts) w.WriteAttributeString(name, value);
-            w.WriteAttributeString("timestamp", JUnitReport.Timestamp(started));
-            w.WriteStartElement("testsuite");
-            w.WriteAttributeString("name", JUnitReport.Clean(Path.GetFileName(contractPath)));
-            foreach (var (name, value) in counts) w.WriteAttributeString(name, value);
-            w.WriteAttributeString("timestamp", JUnitReport.Timestamp(started));
-            w.WriteStartElement("testcase");
-            w.WriteAttributeString("classname", "gatetasks");
-            w.WriteAttributeString("name", "check");
-            w.WriteAttributeString("time", "0");
-            w.WriteStartElement("error");
-            w.WriteAttributeString("type", code);
-            w.WriteAttributeString("message", JUnitReport.Clean(message));
-            w.WriteString(JUnitReport.Clean(line + "\ncontract: " + contractPath));
-            w.WriteEndElement();
-            w.WriteEndElement();
-            w.WriteEndElement();
-            w.WriteEndElement();
-        }
-        return sb.ToString();
     }
 }
