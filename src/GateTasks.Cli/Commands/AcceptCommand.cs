@@ -3,6 +3,7 @@ using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Ledger;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Cli.Commands;
 

@@ -4,6 +4,7 @@ using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.IO;
 using GateTasks.Engine.Reports;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Cli.Commands;
 

@@ -1,6 +1,7 @@
 using System.CommandLine;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Cli.Commands;
 

@@ -1,5 +1,6 @@
 using GateTasks.Engine.Histograms;
 using GateTasks.Engine.References;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Calibration;
 

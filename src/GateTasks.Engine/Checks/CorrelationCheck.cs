@@ -2,6 +2,7 @@ using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.References;
 using GateTasks.Engine.Statistics;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Checks;
 
@@ -12,7 +13,7 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class CorrelationCheck
 {
-    public static Measurement Evaluate(ReferenceCorrelation reference, PairCorrelation sample, CheckSpec spec, DecisionSettings decision, long sampleEvents)
+    public static Measurement Evaluate(ReferenceCorrelation reference, AccumulatedPair sample, CheckSpec spec, DecisionSettings decision, long sampleEvents)
     {
         var spearman = spec.Kind == CheckKind.SpearmanDifference;
         var r = spearman ? reference.Spearman : reference.Pearson;

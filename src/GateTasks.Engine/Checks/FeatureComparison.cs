@@ -1,6 +1,7 @@
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Histograms;
 using GateTasks.Engine.References;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Checks;
 

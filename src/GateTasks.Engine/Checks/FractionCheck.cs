@@ -30,7 +30,7 @@ internal static class FractionCheck
 
         if (c.Reference.Spike is { } refSpike)
         {
-            var sampleSpike = c.SampleSpike ?? new References.SpikeTally(refSpike.Value, 0, 0, 0);
+            var sampleSpike = c.SampleSpike ?? new Accumulation.SpikeTally(refSpike.Value, 0, 0, 0);
             Part("spike", refSpike.SumW, refSpike.SumW + r.TotalSumW, refSpike.SumW2 + r.TotalSumW2,
                 sampleSpike.SumW, sampleSpike.SumW + s.TotalSumW, sampleSpike.SumW2 + s.TotalSumW2);
             return effect.ToMeasurement(worst,

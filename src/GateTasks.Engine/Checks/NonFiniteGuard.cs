@@ -1,5 +1,6 @@
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Checks;
 
@@ -10,15 +11,15 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class NonFiniteGuard
 {
-    public static void Verify(PrecisionContract contract, SampleAccumulation accumulation)
+    public static void Verify(PrecisionContract contract, AccumulatedSample accumulation)
     {
         var offending = Enumerable.Range(0, contract.Features.Count)
-            .Where(i => !contract.Features[i].AllowNonFinite && accumulation.Summary(i).NonFiniteCount > 0)
+            .Where(i => !contract.Features[i].AllowNonFinite && accumulation.Features[i].Summary.NonFiniteCount > 0)
             .ToList();
         if (offending.Count == 0) return;
 
         var first = contract.Features[offending[0]];
-        var s = accumulation.Summary(offending[0]);
+        var s = accumulation.Features[offending[0]].Summary;
         var parts = new List<string>();
         if (s.NanCount > 0) parts.Add($"{InvariantNumber.Count(s.NanCount)} NaN");
         if (s.PositiveInfinityCount > 0) parts.Add($"{InvariantNumber.Count(s.PositiveInfinityCount)} +∞");

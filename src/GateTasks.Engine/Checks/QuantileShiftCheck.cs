@@ -93,25 +93,6 @@ internal static class QuantileShiftCheck
         return below > 0 && above > 0 ? (below + above) / 2 : Math.Max(below, above);
     }
 
-    /// <summary>The p-quantile of a histogram (linear within its bin) and the density there; flows sit at the axis ends.</summary>
-    internal static (double Value, double Density) Quantile(Histogram h, double p)
-    {
-        var w = h.Storage.SumW;
-        var total = h.TotalSumW;
-        var target = p * total;
-        var cumulative = w[0];
-        var edges = h.Axis.Edges;
-        if (cumulative >= target) return (edges[0], 0);
-        for (var b = 0; b < h.Axis.Count; b++)
-        {
-            var content = w[b + 1];
-            if (cumulative + content >= target && content > 0)
-            {
-                var width = edges[b + 1] - edges[b];
-                return (edges[b] + (target - cumulative) / content * width, content / total / width);
-            }
-            cumulative += content;
-        }
-        return (edges[^1], 0);
-    }
+    /// <summary>The p-quantile of a histogram and the density there (<see cref="Histogram.Quantile"/>).</summary>
+    internal static (double Value, double Density) Quantile(Histogram h, double p) => h.Quantile(p);
 }

@@ -70,12 +70,6 @@ internal static class RegionBins
         if (spec.Region != Region.Named) return (double.NaN, double.NaN);
         var region = c.Spec.Regions?.FirstOrDefault(g => g.Name == spec.Named)
             ?? throw new InvalidOperationException($"Region '{spec.Named}' was not declared; the contract loader should have refused it.");
-        return Bounds(c.Reference.Histogram, region);
+        return NamedRegionRange.Of(c.Reference.Histogram, region);
     }
-
-    /// <summary>The value range of <paramref name="region"/> on the reference histogram <paramref name="reference"/>.</summary>
-    public static (double Lower, double Upper) Bounds(Histogram reference, NamedRegion region) =>
-        region.ByQuantile
-            ? (QuantileShiftCheck.Quantile(reference, region.Lower).Value, QuantileShiftCheck.Quantile(reference, region.Upper).Value)
-            : (region.Lower, region.Upper);
 }

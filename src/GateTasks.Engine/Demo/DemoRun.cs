@@ -3,6 +3,7 @@ using GateTasks.Engine.Contracts;
 using GateTasks.Engine.IO;
 using GateTasks.Engine.References;
 using GateTasks.Engine.Reports;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Demo;
 
@@ -48,7 +49,7 @@ internal sealed class DemoRun(string folder, DemoKind kind = DemoKind.Generator)
     /// </summary>
     public CheckReport Accept(CheckReport faithful)
     {
-        Ledger.Acceptance.Accept(faithful, "GateTasks demo", "the demo analysis's tolerances, met by the faithful surrogate", DateTimeOffset.UtcNow);
+        Runs.Acceptance.Accept(faithful, "GateTasks demo", "the demo analysis's tolerances, met by the faithful surrogate", DateTimeOffset.UtcNow);
         return faithful with { Acceptance = Ledger.LedgerGuard.Verify(faithful.Contract, faithful.ReferenceSha256, faithful.Outcomes) };
     }
 

@@ -1,4 +1,5 @@
 using GateTasks.Engine.References;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Drafting;
 

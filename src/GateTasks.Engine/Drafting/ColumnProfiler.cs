@@ -1,6 +1,7 @@
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.References;
 using GateTasks.Engine.Samples;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Drafting;
 

@@ -1,5 +1,3 @@
-using System.Text.Json;
-using GateTasks.Engine.Partials;
 using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Histograms;
@@ -51,23 +49,17 @@ internal sealed class ExactCells
     /// <summary>Each cell's Σw², rounded once from its exact sum.</summary>
     public double[] SumW2() => _sumW2.Select(s => s.Value).ToArray();
 
-    /// <summary>Writes every cell's partial sums under the two property names.</summary>
-    public void WriteState(Utf8JsonWriter w, string sumWName, string sumW2Name)
-    {
-        PartialNumbers.WriteJagged(w, sumWName, _sumW.Select(c => c.Partials));
-        PartialNumbers.WriteJagged(w, sumW2Name, _sumW2.Select(c => c.Partials));
-    }
+    /// <summary>Every cell's exact sums as their terms.</summary>
+    public ExactCellsState State() => new(_sumW.Select(c => c.Partials).ToList(), _sumW2.Select(c => c.Partials).ToList());
 
-    /// <summary>Adds cells written by <see cref="WriteState"/>; false when their count differs.</summary>
-    public bool ReadState(JsonElement e, string sumWName, string sumW2Name)
+    /// <summary>Adds cells in the form <see cref="State"/> gives them; false when their count differs.</summary>
+    public bool AddState(ExactCellsState state)
     {
-        var w = PartialNumbers.ReadJagged(e.GetProperty(sumWName));
-        var w2 = PartialNumbers.ReadJagged(e.GetProperty(sumW2Name));
-        if (w.Length != _sumW.Length || w2.Length != _sumW2.Length) return false;
-        for (var c = 0; c < w.Length; c++)
+        if (state.SumW.Count != _sumW.Length || state.SumW2.Count != _sumW2.Length) return false;
+        for (var c = 0; c < _sumW.Length; c++)
         {
-            foreach (var v in w[c]) _sumW[c].Add(v);
-            foreach (var v in w2[c]) _sumW2[c].Add(v);
+            foreach (var v in state.SumW[c]) _sumW[c].Add(v);
+            foreach (var v in state.SumW2[c]) _sumW2[c].Add(v);
         }
         return true;
     }

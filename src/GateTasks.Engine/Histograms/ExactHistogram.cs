@@ -48,26 +48,17 @@ internal sealed class ExactHistogram
         NanEntries += other.NanEntries;
     }
 
-    /// <summary>Writes the exact state (every cell's partial sums) into a partial file.</summary>
-    public void WriteState(System.Text.Json.Utf8JsonWriter w)
-    {
-        w.WriteStartObject();
-        w.WriteNumber("entries", Entries);
-        w.WriteNumber("nan_entries", NanEntries);
-        _cells.WriteState(w, "sum_w", "sum_w2");
-        Partials.PartialNumbers.WriteArray(w, "nan_w", _nanW.Partials);
-        Partials.PartialNumbers.WriteArray(w, "nan_w2", _nanW2.Partials);
-        w.WriteEndObject();
-    }
+    /// <summary>The whole exact state as plain numbers.</summary>
+    public ExactHistogramState State() => new(Entries, NanEntries, _cells.State(), _nanW.Partials, _nanW2.Partials);
 
-    /// <summary>Reads a state written by <see cref="WriteState"/> for this axis; false when the cell count differs.</summary>
-    public bool ReadState(System.Text.Json.JsonElement e)
+    /// <summary>Adds a state in the form <see cref="State"/> gives it (for this axis); false when the cell count differs.</summary>
+    public bool AddState(ExactHistogramState state)
     {
-        if (!_cells.ReadState(e, "sum_w", "sum_w2")) return false;
-        foreach (var v in Partials.PartialNumbers.ReadArray(e.GetProperty("nan_w"))) _nanW.Add(v);
-        foreach (var v in Partials.PartialNumbers.ReadArray(e.GetProperty("nan_w2"))) _nanW2.Add(v);
-        Entries += e.GetProperty("entries").GetInt64();
-        NanEntries += e.GetProperty("nan_entries").GetInt64();
+        if (!_cells.AddState(state.Cells)) return false;
+        foreach (var v in state.NanW) _nanW.Add(v);
+        foreach (var v in state.NanW2) _nanW2.Add(v);
+        Entries += state.Entries;
+        NanEntries += state.NanEntries;
         return true;
     }
 

@@ -173,4 +173,26 @@ internal sealed class Histogram
         h.NanSumW2 = nanSumW2;
         return h;
     }
+
+    /// <summary>The p-quantile of a histogram (linear within its bin) and the density there; flows sit at the axis ends.</summary>
+    public (double Value, double Density) Quantile(double p)
+    {
+        var w = Storage.SumW;
+        var total = TotalSumW;
+        var target = p * total;
+        var cumulative = w[0];
+        var edges = Axis.Edges;
+        if (cumulative >= target) return (edges[0], 0);
+        for (var b = 0; b < Axis.Count; b++)
+        {
+            var content = w[b + 1];
+            if (cumulative + content >= target && content > 0)
+            {
+                var width = edges[b + 1] - edges[b];
+                return (edges[b] + (target - cumulative) / content * width, content / total / width);
+            }
+            cumulative += content;
+        }
+        return (edges[^1], 0);
+    }
 }

@@ -1,10 +1,11 @@
 using System.Security.Cryptography;
 using System.Text;
 using System.Text.Json;
-using GateTasks.Engine.Checks;
+using GateTasks.Engine.Accumulation;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.IO;
+using GateTasks.Engine.References;
 
 namespace GateTasks.Engine.Partials;
 
@@ -60,7 +61,7 @@ internal static class PartialFile
         return Convert.ToHexString(SHA256.HashData(buffer.ToArray())).ToLowerInvariant();
     }
 
-    public static void Write(string path, ContractCheck.CheckSetup setup, SampleAccumulation accumulation, Provenance provenance)
+    public static void Write(string path, MatchedReference setup, SampleAccumulation accumulation, Provenance provenance)
     {
         // The content is written once to memory (a partial's size depends on the binning, not on the sample), sealed, then
         // written to the file after the seal.
@@ -89,7 +90,7 @@ internal static class PartialFile
             }
             w.WriteEndArray();
             w.WritePropertyName("accumulation");
-            accumulation.WriteState(w);
+            AccumulationJson.Write(w, accumulation.State());
             w.WriteEndObject();
         }
         using var parsed = JsonDocument.Parse(content.ToArray());
@@ -114,7 +115,7 @@ internal static class PartialFile
     /// Reads a partial filled for this contract and reference: GATE2201 unreadable, GATE2205 content that does not match
     /// its seal, GATE2202 made for others, GATE2206 numbers that contradict each other.
     /// </summary>
-    public static ReadPartial Read(string path, ContractCheck.CheckSetup setup)
+    public static ReadPartial Read(string path, MatchedReference setup)
     {
         var at = new SourceLocation(path);
         JsonDocument doc;
@@ -153,10 +154,10 @@ internal static class PartialFile
                 if (content.GetProperty("contract_fingerprint").GetString() != Fingerprint(setup.Contract))
                     throw new GateInputException(ErrorCodes.PartialMismatch,
                         "Filled for a contract that gathers other things (features, binning, selection, pairs or joint set differ); fill it again with this contract.", at);
-                var accumulation = new SampleAccumulation(setup.Contract, setup.References);
-                if (accumulation.ReadState(content.GetProperty("accumulation")) is { } misfit)
+                var accumulation = new SampleAccumulation(setup.Contract, setup.Layouts);
+                if (accumulation.SetState(AccumulationJson.Read(content.GetProperty("accumulation"))) is { } misfit)
                     throw new GateInputException(ErrorCodes.PartialMismatch, $"The partial does not fit this contract: {misfit}.", at);
-                if (AccumulationConsistency.Find(accumulation) is { } contradiction)
+                if (AccumulationConsistency.Find(setup.Contract, accumulation.Finish()) is { } contradiction)
                     throw new GateInputException(ErrorCodes.PartialInconsistent,
                         $"The partial's numbers contradict each other: {contradiction}. It was edited or damaged; fill it again.", at);
                 var files = content.GetProperty("sample_files").EnumerateArray()
@@ -181,7 +182,7 @@ internal static class PartialFile
     /// neither on the order they are given in nor on file names; refuses two partials with the same content, and a
     /// sample file (by content) counted twice, in one partial or in two (GATE2203).
     /// </summary>
-    public static (SampleAccumulation Accumulation, Provenance Provenance) ReadMerged(IReadOnlyList<string> paths, ContractCheck.CheckSetup setup)
+    public static (SampleAccumulation Accumulation, Provenance Provenance) ReadMerged(IReadOnlyList<string> paths, MatchedReference setup)
     {
         if (paths.Count == 0) throw new GateInputException(ErrorCodes.Usage, "No partial files given.");
         var read = paths.Select(p => (Path: p, Part: Read(p, setup))).ToList();

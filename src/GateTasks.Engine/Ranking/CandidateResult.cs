@@ -1,5 +1,6 @@
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Ranking;
 

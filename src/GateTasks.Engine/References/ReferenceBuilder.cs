@@ -1,9 +1,9 @@
-using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Histograms;
 using GateTasks.Engine.IO;
 using GateTasks.Engine.Samples;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.References;
 
@@ -40,7 +40,9 @@ internal static class ReferenceBuilder
         var stats = features.Select(_ => new FeatureStatistics()).ToArray();
         var jointIndex = contract.Joint?.Features.Select(name => features.ToList().FindIndex(f => f.Name == name)).ToArray();
         var joint = contract.Joint is { } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
-        var totals = SampleStream.Run(sample, columns, weightColumn, (i, values, weights) => stats[i].Add(values, weights), view => joint?.Add(view));
+        // Each pass puts the declared spikes apart; the first one's tallies are the reference's.
+        var spikes = new SpikeSeparation(features);
+        var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)), view => joint?.Add(view));
         if (totals.Events == 0 && contract.Selection is { } selection && sample.RowsRead > 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
                 $"The selection '{selection.Text}' keeps none of the {InvariantNumber.Count(sample.RowsRead)} events of the reference sample " +
@@ -96,11 +98,11 @@ internal static class ReferenceBuilder
                 _ => null,
             };
         }
-        SampleStream.Run(sample, columns, weightColumn, (i, values, weights) =>
+        SampleStream.Run(sample, columns, weightColumn, new SpikeSeparation(features).Around((i, values, weights) =>
         {
             grids[i]?.Fine.Fill(values, weights);
             direct[i]?.Fill(values, weights);
-        });
+        }));
 
         var result = new List<ReferenceFeature>();
         for (var i = 0; i < n; i++)
@@ -114,13 +116,13 @@ internal static class ReferenceBuilder
             var quantiles = grid is null
                 ? new List<QuantilePoint>()
                 : probabilities.Select(p => new QuantilePoint(p, grid.Quantile(p))).ToList();
-            result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.ReferenceRequest, histogram, stats[i].Summary(), quantiles, totals.Spikes[i]));
+            result.Add(new ReferenceFeature(f.Name, f.Column, f.Kind, f.ReferenceRequest, histogram, stats[i].Summary(), quantiles, spikes.Filters[i]?.Tally));
             BinCoverage.Verify(f, result[i]);
         }
 
         // Third pass, only when needed: Spearman's ranks need the final marginals, far-tail counts the final quantiles.
         var correlations = new List<ReferenceCorrelation>();
-        var farTail = features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && FarTailCounter.Thresholds(result[i]) is { } t
+        var farTail = features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && result[i].FarTailThresholds is { } t
             ? new FarTailCounter(t.Low, t.High) : null).ToArray();
         if (contract.Pairs.Count > 0 || farTail.Any(t => t is not null))
         {
@@ -129,17 +131,17 @@ internal static class ReferenceBuilder
                 new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram),
                 p.Chi2 is null ? null : new Histogram2D(result[index[p.First]].Histogram.Axis, result[index[p.Second]].Histogram.Axis))).ToList();
             sample.Phase = "reference pass 3 (correlations and far tails)";
-            SampleStream.Run(sample, columns, weightColumn, (i, values, weights) => farTail[i]?.Add(values, weights), view =>
+            SampleStream.Run(sample, columns, weightColumn, new SpikeSeparation(features).Around((i, values, weights) => farTail[i]?.Add(values, weights)), view =>
             {
                 foreach (var p in pairs) p.Add(view);
             });
-            foreach (var p in pairs)
+            foreach (var p in pairs.Select(p => p.Finish()))
             {
                 if (double.IsNaN(p.Pearson) || double.IsNaN(p.Spearman))
                     throw new GateInputException(ErrorCodes.ContractBadValue,
                         $"The correlation of {p.Spec.Name} is undefined in the reference sample: one of the two is constant (or all NaN).", p.Spec.Location);
                 correlations.Add(new ReferenceCorrelation(p.Spec.First, p.Spec.Second, p.Pearson, p.Spearman, p.EffectiveCount,
-                    p.JointCells?.SumW, p.JointCells?.SumW2));
+                    p.Cells?.SumW, p.Cells?.SumW2));
             }
             for (var i = 0; i < n; i++)
                 if (farTail[i] is { } counter) result[i] = result[i] with { FarTail = counter.Counts };

@@ -1,4 +1,5 @@
 using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Accumulation;
 using GateTasks.Engine.Histograms;
 
 namespace GateTasks.Engine.References;
@@ -25,6 +26,13 @@ internal sealed record ReferenceFeature(
             if (Math.Abs(q.Probability - p) < 1e-12) return q.Value;
         return null;
     }
+
+    /// <summary>The thresholds every far-tail count uses: the reference's 0.1% and 99.9% quantiles.</summary>
+    public (double Low, double High)? FarTailThresholds =>
+        Quantile(0.001) is { } lo && Quantile(0.999) is { } hi ? (lo, hi) : null;
+
+    /// <summary>What a sample's accumulation takes from this feature of the reference.</summary>
+    public FeatureLayout Layout => new(Histogram, FarTail is { } t ? (t.Low, t.High) : null);
 }
 
 /// <summary>A stored quantile: P(X &lt; value) ≈ probability.</summary>

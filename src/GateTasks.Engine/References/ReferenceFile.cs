@@ -7,6 +7,7 @@ using GateTasks.Engine.Histograms;
 using GateTasks.Engine.IO;
 using Parquet;
 using Parquet.Schema;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.References;
 

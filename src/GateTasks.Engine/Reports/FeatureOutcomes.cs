@@ -1,4 +1,5 @@
 using GateTasks.Engine.Checks;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Reports;
 

@@ -5,6 +5,8 @@ using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.IO;
+using GateTasks.Engine.Runs;
+using GateTasks.Engine.References;
 
 namespace GateTasks.Engine.Reports;
 
@@ -158,7 +160,7 @@ internal static class HtmlReport
         _ => "No histogram to plot.",
     };
 
-    private static void SpikeNote(StringBuilder sb, CheckReport report, References.SpikeTally sample, References.SpikeTally reference)
+    private static void SpikeNote(StringBuilder sb, CheckReport report, Accumulation.SpikeTally sample, Accumulation.SpikeTally reference)
     {
         var refShare = report.Reference.SumW > 0 ? reference.SumW / report.Reference.SumW : double.NaN;
         var sampleShare = report.SumW > 0 ? sample.SumW / report.SumW : double.NaN;

@@ -4,6 +4,7 @@ using System.Xml;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.IO;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Reports;
 

@@ -2,6 +2,8 @@ using System.Globalization;
 using System.Text;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Runs;
+using GateTasks.Engine.References;
 
 namespace GateTasks.Engine.Reports;
 

@@ -19,9 +19,6 @@ internal sealed class FeatureInputs
         Conditions = conditions;
     }
 
-    /// <summary>Per feature: its declared spike value, or null.</summary>
-    public IReadOnlyList<double?> Spikes { get; private init; } = [];
-
     /// <summary>Per feature: a condition of its own (a category of a category block), or null.</summary>
     public IReadOnlyList<CompiledExpression?> Conditions { get; }
 
@@ -75,6 +72,6 @@ internal sealed class FeatureInputs
                 throw new GateInputException(ErrorCodes.ContractExpression,
                     "The selection must be a condition (a comparison, 'and', 'or', 'not' or isnan), not a number.", s.Location);
         }
-        return new FeatureInputs(columns, expressions, selection, conditions) { Spikes = contract.Features.Select(f => f.Spike).ToList() };
+        return new FeatureInputs(columns, expressions, selection, conditions);
     }
 }

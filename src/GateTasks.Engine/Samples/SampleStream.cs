@@ -5,21 +5,17 @@ namespace GateTasks.Engine.Samples;
 /// <summary>Receives one feature's values of one batch, with the batch's weights (empty: unit weights).</summary>
 internal delegate void FeatureBatch(int feature, ReadOnlySpan<double> values, ReadOnlySpan<double> weights);
 
-/// <summary>Event totals of one pass over a sample (events that passed the selection), and per feature its spike tally (null without a spike).</summary>
-internal readonly record struct SampleTotals(long Events, double SumW, double SumW2, IReadOnlyList<References.SpikeTally?> Spikes)
+/// <summary>Event totals of one pass over a sample (events that passed the selection); Σw and Σw² as exact sums, for merging with other shards.</summary>
+internal sealed record SampleTotals(long Events, Statistics.ExactSum ExactSumW, Statistics.ExactSum ExactSumW2)
 {
-    /// <summary>Σw and Σw² as exact sums, for merging with other shards.</summary>
-    public Statistics.ExactSum? ExactSumW { get; init; }
-    public Statistics.ExactSum? ExactSumW2 { get; init; }
-
-    /// <summary>Per feature, the spike filter with its exact tally (null where no spike is declared).</summary>
-    public IReadOnlyList<SpikeFilter?>? SpikeFilters { get; init; }
+    public double SumW => ExactSumW.Value;
+    public double SumW2 => ExactSumW2.Value;
 }
 
 /// <summary>
 /// One streamed pass over a sample: reads each needed column once per batch, evaluates derived features
-/// column-wise, applies the selection, rejects non-finite weights, tallies declared spike values apart, and hands
-/// every feature's remaining values to the visitor (the whole-batch view keeps the spikes). Buffers are reused across batches, so memory is bounded by the batch size.
+/// column-wise, applies the selection, rejects non-finite weights, and hands
+/// every feature's values to the visitor, then the whole batch to the batch visitor. Buffers are reused across batches, so memory is bounded by the batch size.
 /// </summary>
 internal static class SampleStream
 {
@@ -48,7 +44,6 @@ internal static class SampleStream
         var ownValues = new double[]?[n];
         var ownWeights = new double[]?[n];
         var ownRows = new int[n];
-        var spikes = inputs.Spikes.Select(v => v is { } value ? new SpikeFilter(value) : null).ToArray();
 
         long events = 0, read = 0;
         var largestWeight = 0.0;
@@ -149,19 +144,14 @@ internal static class SampleStream
             sumW.Add(batchW);
             sumW2.Add(batchW2);
             events += kept;
-            // Features are independent from here on (each touches only its own spike filter and its visitor's state
-            // for that feature), so large batches spread them over the cores; the results do not depend on it.
+            // Features are independent from here on (each touches only its visitor's state for that feature), so large
+            // batches spread them over the cores; the results do not depend on it.
             void Visit(int i)
             {
                 var values = inputs.Conditions[i] is null ? frame.Feature(i) : ownValues[i].AsSpan(0, ownRows[i]);
                 var featureWeights = inputs.Conditions[i] is null ? frame.Weights
                     : weightIndex >= 0 ? ownWeights[i].AsSpan(0, ownRows[i]) : ReadOnlySpan<double>.Empty;
-                if (spikes[i] is { } spike)
-                {
-                    var (v, w) = spike.Apply(values, featureWeights);
-                    visit(i, v.Span, w.Span);
-                }
-                else visit(i, values, featureWeights);
+                visit(i, values, featureWeights);
             }
             if (n > 1 && kept >= ParallelBatchRows && sample.Parallelism > 1)
                 Parallel.For(0, n, new ParallelOptions { MaxDegreeOfParallelism = sample.Parallelism }, Visit);
@@ -170,12 +160,7 @@ internal static class SampleStream
         }
         if (weightColumn is not null)
             SampleWeights.RequireRepresentableSquares(largestWeight, weightColumn, sample.Files, new SourceLocation(sample.Files[0]));
-        return new SampleTotals(events, sumW.Value, sumW2.Value, spikes.Select(f => f?.Tally).ToList())
-        {
-            ExactSumW = sumW,
-            ExactSumW2 = sumW2,
-            SpikeFilters = spikes,
-        };
+        return new SampleTotals(events, sumW, sumW2);
     }
 
     /// <summary>

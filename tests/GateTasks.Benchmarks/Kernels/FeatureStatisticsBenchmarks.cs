@@ -1,5 +1,6 @@
 using BenchmarkDotNet.Attributes;
 using GateTasks.Engine.References;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Benchmarks.Kernels;
 

@@ -6,6 +6,7 @@ using GateTasks.Engine.Histograms;
 using GateTasks.Engine.References;
 using MathNet.Numerics.Distributions;
 using MathNet.Numerics.Random;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Tests.Calibration;
 

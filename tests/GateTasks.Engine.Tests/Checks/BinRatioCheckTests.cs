@@ -3,6 +3,7 @@ using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Histograms;
 using GateTasks.Engine.References;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Tests.Checks;
 

@@ -5,6 +5,7 @@ using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.References;
 using MathNet.Numerics.Distributions;
 using MathNet.Numerics.Random;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Checks;
 

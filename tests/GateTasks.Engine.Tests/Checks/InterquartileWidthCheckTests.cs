@@ -5,6 +5,7 @@ using GateTasks.Engine.Histograms;
 using GateTasks.Engine.References;
 using MathNet.Numerics.Distributions;
 using MathNet.Numerics.Random;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Tests.Checks;
 

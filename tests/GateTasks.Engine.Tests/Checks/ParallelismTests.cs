@@ -2,6 +2,7 @@ using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Demo;
 using GateTasks.Engine.References;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Checks;
 

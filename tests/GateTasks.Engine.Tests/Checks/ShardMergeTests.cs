@@ -3,6 +3,7 @@ using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Demo;
 using GateTasks.Engine.References;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Checks;
 
@@ -39,11 +40,11 @@ public sealed class ShardMergeTests : IDisposable
 
         var whole = ContractCheck.Run(contract);
 
-        var setup = ContractCheck.Prepare(contract);
+        var setup = MatchedReference.Load(contract);
         var parts = shards.Select(s => ContractCheck.Accumulate(setup, ContractCheck.OpenSample(contract, [s]))).ToList();
         var merged = parts[2];
         foreach (var k in new[] { 0, 3, 1 }) merged.Merge(parts[k]);
-        var fanned = ContractCheck.Decide(setup, merged, shards, DateTimeOffset.UtcNow, Stopwatch.StartNew());
+        var fanned = ContractCheck.Decide(setup, merged.Finish(), shards, DateTimeOffset.UtcNow, Stopwatch.StartNew());
 
         Assert.Equal(whole.Events, fanned.Events);
         Assert.Equal(whole.SumW, fanned.SumW); // exact sums: the same bits

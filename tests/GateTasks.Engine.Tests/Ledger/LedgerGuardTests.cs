@@ -6,6 +6,7 @@ using GateTasks.Engine.Ledger;
 using GateTasks.Engine.References;
 using MathNet.Numerics.Distributions;
 using MathNet.Numerics.Random;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Ledger;
 

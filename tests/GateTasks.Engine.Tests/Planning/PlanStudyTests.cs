@@ -5,6 +5,7 @@ using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Planning;
 using GateTasks.Engine.References;
 using GateTasks.Engine.Tests.Samples;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Planning;
 

@@ -4,6 +4,7 @@ using FsCheck.Xunit;
 using GateTasks.Engine.Histograms;
 using GateTasks.Engine.References;
 using GateTasks.Engine.Statistics;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Tests.Properties;
 

@@ -1,6 +1,7 @@
 using GateTasks.Engine.References;
 using MathNet.Numerics.Random;
 using MathNet.Numerics.Statistics;
+using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Tests.References;
 

@@ -3,6 +3,7 @@ using System.Text.Json;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.References;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.References;
 

@@ -3,6 +3,7 @@ using System.Text.RegularExpressions;
 using System.Xml.Linq;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Reports;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Reports;
 

@@ -4,6 +4,7 @@ using GateTasks.Engine.Contracts;
 using GateTasks.Engine.References;
 using MathNet.Numerics.Distributions;
 using MathNet.Numerics.Random;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Reports;
 

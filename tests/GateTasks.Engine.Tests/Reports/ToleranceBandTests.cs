@@ -1,6 +1,7 @@
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Reports;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Reports;
 

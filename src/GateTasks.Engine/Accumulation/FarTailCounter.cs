@@ -1,6 +1,5 @@
-using GateTasks.Engine.References;
 
-namespace GateTasks.Engine.Checks;
+namespace GateTasks.Engine.Accumulation;
 
 /// <summary>Counts, while streaming, the weight strictly below <paramref name="low"/> and strictly above <paramref name="high"/>.</summary>
 internal sealed class FarTailCounter(double low, double high)
@@ -25,11 +24,11 @@ internal sealed class FarTailCounter(double low, double high)
         for (var k = 0; k < batch.Length; k++) _sums[k].Add(batch[k]);
     }
 
-    /// <summary>The six exact sums' partials, for a partial file.</summary>
+    /// <summary>The six exact sums (below Σw, Σw²; above Σw, Σw²; total Σw, Σw²), each as its exact terms.</summary>
     public IReadOnlyList<IReadOnlyList<double>> State() => _sums.Select(x => x.Partials).ToList();
 
-    /// <summary>Adds sums read from a partial file.</summary>
-    public void AddState(double[][] state)
+    /// <summary>Adds sums in the form <see cref="State"/> gives them (another shard's).</summary>
+    public void AddState(IReadOnlyList<IReadOnlyList<double>> state)
     {
         for (var k = 0; k < _sums.Length; k++) foreach (var v in state[k]) _sums[k].Add(v);
     }
@@ -41,8 +40,4 @@ internal sealed class FarTailCounter(double low, double high)
     }
 
     public FarTailCounts Counts => new(low, high, _sums[0].Value, _sums[1].Value, _sums[2].Value, _sums[3].Value, _sums[4].Value, _sums[5].Value);
-
-    /// <summary>The thresholds every far-tail count uses: the reference's 0.1% and 99.9% quantiles.</summary>
-    public static (double Low, double High)? Thresholds(ReferenceFeature reference) =>
-        reference.Quantile(0.001) is { } lo && reference.Quantile(0.999) is { } hi ? (lo, hi) : null;
 }

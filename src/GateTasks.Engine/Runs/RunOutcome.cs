@@ -1,4 +1,4 @@
-namespace GateTasks.Engine.Checks;
+namespace GateTasks.Engine.Runs;
 
 /// <summary>
 /// How one run of a contract ended, decided in one place (<see cref="CheckReport.Outcome"/>) so that the console, every

@@ -1,7 +1,8 @@
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.References;
+using GateTasks.Engine.Checks;
 
-namespace GateTasks.Engine.Checks;
+namespace GateTasks.Engine.Runs;
 
 /// <summary>Everything one run of a contract produced: what was compared and each check's outcome.</summary>
 internal sealed record CheckReport(

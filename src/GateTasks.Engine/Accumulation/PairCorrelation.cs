@@ -2,7 +2,7 @@ using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Histograms;
 using GateTasks.Engine.Statistics;
 
-namespace GateTasks.Engine.Checks;
+namespace GateTasks.Engine.Accumulation;
 
 /// <summary>
 /// Accumulates, in one streamed pass, Pearson's r of a declared pair and Spearman's ρ as the Pearson correlation of
@@ -16,9 +16,6 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
     public Histogram2D? Joint { get; } = joint;
 
     private readonly ExactCells? _cells = joint is null ? null : new ExactCells(joint.Storage.CellCount);
-
-    /// <summary>The 2-D cells' Σw and Σw², each summed exactly and rounded once; null without a χ² test.</summary>
-    public (double[] SumW, double[] SumW2)? JointCells => _cells is null ? null : (_cells.SumW(), _cells.SumW2());
 
     private readonly WeightedCorrelation _pearson = new();
     private readonly WeightedCorrelation _spearman = new();
@@ -41,26 +38,21 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
         if (Joint is not null) _cells!.Absorb(Joint.Storage);
     }
 
-    /// <summary>Writes the pair's state into a partial file.</summary>
-    public void WriteState(System.Text.Json.Utf8JsonWriter w)
+    /// <summary>The pair's state as plain numbers.</summary>
+    public PairState State() => new(Spec.Name, _pearson.State(), _spearman.State(), _cells?.State());
+
+    /// <summary>Sets a state in the form <see cref="State"/> gives it (into a fresh accumulation); false when it does not fit.</summary>
+    public bool SetState(PairState state)
     {
-        w.WriteStartObject();
-        w.WriteString("pair", Spec.Name);
-        Partials.PartialNumbers.WriteArray(w, "pearson", _pearson.State());
-        Partials.PartialNumbers.WriteArray(w, "spearman", _spearman.State());
-        _cells?.WriteState(w, "cells_w", "cells_w2");
-        w.WriteEndObject();
+        if (state.Name != Spec.Name) return false;
+        _pearson.Restore(state.Pearson.ToArray());
+        _spearman.Restore(state.Spearman.ToArray());
+        if (_cells is null) return state.Cells is null;
+        return state.Cells is { } cells && _cells.AddState(cells);
     }
 
-    /// <summary>Reads a state written by <see cref="WriteState"/> (into a fresh accumulation); false when it does not fit.</summary>
-    public bool ReadState(System.Text.Json.JsonElement e)
-    {
-        if (e.GetProperty("pair").GetString() != Spec.Name) return false;
-        _pearson.Restore(Partials.PartialNumbers.ReadArray(e.GetProperty("pearson")));
-        _spearman.Restore(Partials.PartialNumbers.ReadArray(e.GetProperty("spearman")));
-        if (_cells is null) return !e.TryGetProperty("cells_w", out _);
-        return e.TryGetProperty("cells_w", out _) && _cells.ReadState(e, "cells_w", "cells_w2");
-    }
+    /// <summary>The pair, finished.</summary>
+    public AccumulatedPair Finish() => new(Spec, Pearson, Spearman, EffectiveCount, _cells is null ? null : new CellSums(_cells.SumW(), _cells.SumW2()));
 
     /// <summary>Adds another accumulation of the same pair (coefficients to rounding, 2-D cells exactly).</summary>
     public void Merge(PairCorrelation other)

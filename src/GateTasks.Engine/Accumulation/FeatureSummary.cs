@@ -1,4 +1,4 @@
-namespace GateTasks.Engine.References;
+namespace GateTasks.Engine.Accumulation;
 
 /// <summary>
 /// Unbinned statistics of one feature in a sample, NaN and infinite values excluded (and counted): the numbers the checks need beyond

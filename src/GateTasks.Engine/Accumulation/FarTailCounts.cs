@@ -1,4 +1,4 @@
-namespace GateTasks.Engine.References;
+namespace GateTasks.Engine.Accumulation;
 
 /// <summary>
 /// Weight beyond the reference's 0.1% and 99.9% quantiles (<see cref="Low"/>, <see cref="High"/>): Σw and Σw² below

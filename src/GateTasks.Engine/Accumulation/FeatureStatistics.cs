@@ -1,7 +1,7 @@
 using System.Numerics;
 using GateTasks.Engine.Statistics;
 
-namespace GateTasks.Engine.References;
+namespace GateTasks.Engine.Accumulation;
 
 /// <summary>
 /// Streams one feature's finite values into weighted moments, minimum and maximum; NaN and infinite values are only

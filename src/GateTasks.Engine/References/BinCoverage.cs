@@ -3,7 +3,7 @@ using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Histograms;
 using GateTasks.Engine.References;
 
-namespace GateTasks.Engine.Checks;
+namespace GateTasks.Engine.References;
 
 /// <summary>
 /// Whether a feature's bins hold the reference. Explicit edges or a range can be written where the reference has
@@ -44,7 +44,7 @@ internal static class BinCoverage
         {
             var region = spec.Regions?.FirstOrDefault(g => g.Name == name);
             if (region is null) continue; // the contract loader refuses an undeclared region
-            var (lower, upper) = RegionBins.Bounds(h, region);
+            var (lower, upper) = NamedRegionRange.Of(h, region);
             var weight = 0.0;
             var bins = 0;
             for (var b = 0; b < h.Axis.Count; b++)

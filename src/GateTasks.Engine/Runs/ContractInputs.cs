@@ -2,7 +2,7 @@ using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Samples;
 
-namespace GateTasks.Engine.Checks;
+namespace GateTasks.Engine.Runs;
 
 /// <summary>The files a check of a contract reads: the contract, its reference, its ledger and the sample's files.</summary>
 internal static class ContractInputs

@@ -1,6 +1,7 @@
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Contracts;
 
-namespace GateTasks.Engine.Checks;
+namespace GateTasks.Engine.Accumulation;
 
 /// <summary>
 /// What must hold between the numbers of an accumulation whatever the sample was: counts are not negative, every
@@ -19,9 +20,8 @@ internal static class AccumulationConsistency
     private const double Relative = 1e-9;
 
     /// <summary>What contradicts what, or null when the numbers fit together.</summary>
-    public static string? Find(SampleAccumulation a)
+    public static string? Find(PrecisionContract contract, AccumulatedSample a)
     {
-        var contract = a.Contract;
         var unit = contract.Sample.Weight is null;
         var positive = a.NegativeWeightEvents == 0;
         if (a.Events < 0) return $"the event total is negative ({a.Events})";
@@ -44,8 +44,8 @@ internal static class AccumulationConsistency
         {
             var feature = contract.Features[i];
             var name = $"feature '{feature.Name}'";
-            var h = a.Histogram(i);
-            var spike = a.Spike(i);
+            var h = a.Features[i].Histogram;
+            var spike = a.Features[i].Spike;
             var spikeEntries = spike?.Entries ?? 0;
             if (h.Entries < 0 || h.NanEntries < 0 || h.NanEntries > h.Entries || spikeEntries < 0)
                 return $"{name} counts {h.Entries} values, {h.NanEntries} of them NaN, and {spikeEntries} at its spike";
@@ -53,7 +53,7 @@ internal static class AccumulationConsistency
             // A feature with a condition of its own counts only the events that pass it.
             if (feature.Condition is null ? counted != a.Events : counted > a.Events)
                 return $"{name} counts {counted} events (histogram {h.Entries}, spike {spikeEntries}), the event total is {a.Events}";
-            var summary = a.Summary(i);
+            var summary = a.Features[i].Summary;
             if (summary.Count < 0 || summary.Count + summary.NonFiniteCount != h.Entries)
                 return $"{name}: its moments count {summary.Count + summary.NonFiniteCount} values, its histogram {h.Entries}";
 
@@ -71,19 +71,19 @@ internal static class AccumulationConsistency
             sumW2 += h.NanSumW2 + (spike?.SumW2 ?? 0);
             if (feature.Condition is null && (Math.Abs(sumW - a.SumW) > toleranceW || Math.Abs(sumW2 - a.SumW2) > toleranceW2))
                 return $"{name}: its cells hold Σw = {N(sumW)} and Σw² = {N(sumW2)}, the totals are Σw = {N(a.SumW)} and Σw² = {N(a.SumW2)}";
-            if (a.FarTail(i) is { } tail && !(tail.BelowW2 >= 0 && tail.AboveW2 >= 0 && tail.TotalW2 >= 0))
+            if (a.Features[i].FarTail is { } tail && !(tail.BelowW2 >= 0 && tail.AboveW2 >= 0 && tail.TotalW2 >= 0))
                 return $"{name}: a far-tail Σw² is negative";
         }
 
         foreach (var pair in a.Pairs)
         {
-            if (pair.JointCells is not { } cells) continue;
+            if (pair.Cells is not { } cells) continue;
             for (var c = 0; c < cells.SumW.Length; c++)
                 if (Cell(cells.SumW[c], cells.SumW2[c], unit, positive) is { } problem) return $"pair {pair.Spec.Name}, 2-D cell {c}: {problem}";
         }
 
-        if (a.Joint is { } joint && contract.Joint is { } spec && (joint.Seen < 0 || joint.Seen > a.Events || joint.Rows.Length > Math.Min(joint.Seen, spec.Subsample)))
-            return $"the joint subsample keeps {joint.Rows.Length} rows of {joint.Seen} seen (at most {spec.Subsample}), the event total is {a.Events}";
+        if (a.Joint is { } joint && contract.Joint is { } spec && (joint.Seen < 0 || joint.Seen > a.Events || joint.Rows.Count > Math.Min(joint.Seen, spec.Subsample)))
+            return $"the joint subsample keeps {joint.Rows.Count} rows of {joint.Seen} seen (at most {spec.Subsample}), the event total is {a.Events}";
         return null;
     }
 

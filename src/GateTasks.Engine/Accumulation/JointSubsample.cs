@@ -1,7 +1,7 @@
 using GateTasks.Engine.Samples;
 using GateTasks.Engine.Statistics;
 
-namespace GateTasks.Engine.Checks;
+namespace GateTasks.Engine.Accumulation;
 
 /// <summary>
 /// Keeps a seeded reservoir (<see cref="ReservoirSample"/>) of rows of the joint feature set while streaming,
@@ -33,8 +33,11 @@ internal sealed class JointSubsample(IReadOnlyList<int> features, int capacity, 
     /// <summary>Rows offered so far (without NaN).</summary>
     public long Seen => _reservoir.Seen;
 
-    /// <summary>Sets the state read from a partial file.</summary>
-    public void Restore(double[][] rows, long seen) => _reservoir.Restore(rows, seen);
+    /// <summary>The subsample's state: rows offered and the rows kept.</summary>
+    public JointState State() => new(Seen, _reservoir.Rows.Select(r => (IReadOnlyList<double>)r.ToArray()).ToList());
+
+    /// <summary>Sets a state in the form <see cref="State"/> gives it (into a fresh accumulation).</summary>
+    public void SetState(JointState state) => _reservoir.Restore(state.Rows.Select(r => r.ToArray()).ToArray(), state.Seen);
 
     /// <summary>A copy of the kept rows.</summary>
     public double[][] Rows => _reservoir.Rows.Select(row => row.ToArray()).ToArray();

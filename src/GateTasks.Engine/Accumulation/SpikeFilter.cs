@@ -1,6 +1,5 @@
-using GateTasks.Engine.References;
 
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Accumulation;
 
 /// <summary>
 /// Splits a feature's values into those exactly equal to a declared spike value, which are only tallied, and the
@@ -18,15 +17,15 @@ internal sealed class SpikeFilter(double value)
 
     public SpikeTally Tally => new(value, _entries, _sumW.Value, _sumW2.Value);
 
-    /// <summary>The tally's state, for a partial file: entries, then the partials of Σw and of Σw².</summary>
-    public (long Entries, IReadOnlyList<double> SumW, IReadOnlyList<double> SumW2) State() => (_entries, _sumW.Partials, _sumW2.Partials);
+    /// <summary>The tally's state: entries, then the exact terms of Σw and of Σw².</summary>
+    public SpikeState State() => new(_entries, _sumW.Partials, _sumW2.Partials);
 
-    /// <summary>Adds a tally read from a partial file.</summary>
-    public void AddState(long entries, IEnumerable<double> sumW, IEnumerable<double> sumW2)
+    /// <summary>Adds a tally in the form <see cref="State"/> gives it (another shard's).</summary>
+    public void AddState(SpikeState state)
     {
-        _entries += entries;
-        foreach (var v in sumW) _sumW.Add(v);
-        foreach (var v in sumW2) _sumW2.Add(v);
+        _entries += state.Entries;
+        foreach (var v in state.SumW) _sumW.Add(v);
+        foreach (var v in state.SumW2) _sumW2.Add(v);
     }
 
     /// <summary>Adds another filter's tally (exact).</summary>

@@ -2,10 +2,11 @@ using System.Globalization;
 using System.Security.Cryptography;
 using System.Text;
 using GateTasks.Engine.Checks;
+using GateTasks.Engine.Ledger;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.IO;
 
-namespace GateTasks.Engine.Ledger;
+namespace GateTasks.Engine.Runs;
 
 /// <summary>
 /// Records the state a passing check run rests on as a new ledger entry: the contract's and reference's SHA-256, the

@@ -1,0 +1,32 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Histograms;
+
+namespace GateTasks.Engine.Accumulation;
+
+/// <summary>
+/// What a pass over a sample (or the merge of its shards) gathered, finished: every exact sum rounded once. Checks,
+/// the ledger, reports and references read this; they never see an accumulation while it is being filled.
+/// </summary>
+internal sealed record AccumulatedSample(
+    long Events,
+    long NegativeWeightEvents,
+    double SumW,
+    double SumW2,
+    IReadOnlyList<AccumulatedFeature> Features,
+    IReadOnlyList<AccumulatedPair> Pairs,
+    AccumulatedJoint? Joint);
+
+/// <summary>One feature, finished: its histogram on the reference's axis, unbinned summary, spike tally and far-tail counts.</summary>
+internal sealed record AccumulatedFeature(Histogram Histogram, FeatureSummary Summary, SpikeTally? Spike, FarTailCounts? FarTail);
+
+/// <summary>
+/// One declared pair, finished: Pearson's r, Spearman's ρ (the Pearson correlation of the reference-CDF ranks), the
+/// Kish effective count of the pairs used, and the 2-D cells when its χ² test is asked for.
+/// </summary>
+internal sealed record AccumulatedPair(CorrelationSpec Spec, double Pearson, double Spearman, double EffectiveCount, CellSums? Cells);
+
+/// <summary>Σw and Σw² of a histogram's cells, each rounded once from its exact sum.</summary>
+internal sealed record CellSums(double[] SumW, double[] SumW2);
+
+/// <summary>The joint subsample, finished: rows offered (without NaN) and the rows kept.</summary>
+internal sealed record AccumulatedJoint(long Seen, IReadOnlyList<double[]> Rows);

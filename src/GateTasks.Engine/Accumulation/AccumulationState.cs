@@ -1,0 +1,29 @@
+using GateTasks.Engine.Histograms;
+
+namespace GateTasks.Engine.Accumulation;
+
+/// <summary>
+/// A <see cref="SampleAccumulation"/>'s whole state as plain numbers, every exact sum as its terms: what a partial
+/// file stores, so that shards filled apart add up to the bits of one pass.
+/// </summary>
+internal sealed record AccumulationState(
+    long Events,
+    long NegativeWeightEvents,
+    IReadOnlyList<double> SumW,
+    IReadOnlyList<double> SumW2,
+    IReadOnlyList<FeatureState> Features,
+    IReadOnlyList<PairState> Pairs,
+    JointState? Joint);
+
+/// <summary>One feature's state: its exact histogram, its statistics (<see cref="FeatureStatistics.State"/>), spike tally and far-tail sums.</summary>
+internal sealed record FeatureState(string Name, ExactHistogramState Histogram, IReadOnlyList<double> Statistics, SpikeState? Spike,
+    IReadOnlyList<IReadOnlyList<double>>? FarTail);
+
+/// <summary>A spike tally's state: entries, and Σw and Σw² as their exact terms.</summary>
+internal sealed record SpikeState(long Entries, IReadOnlyList<double> SumW, IReadOnlyList<double> SumW2);
+
+/// <summary>A pair's state: the Pearson and Spearman accumulators' numbers, and the 2-D cells when its χ² is asked for.</summary>
+internal sealed record PairState(string Name, IReadOnlyList<double> Pearson, IReadOnlyList<double> Spearman, ExactCellsState? Cells);
+
+/// <summary>The joint subsample's state: rows offered so far and the rows kept.</summary>
+internal sealed record JointState(long Seen, IReadOnlyList<IReadOnlyList<double>> Rows);

@@ -1,0 +1,10 @@
+using GateTasks.Engine.Histograms;
+
+namespace GateTasks.Engine.Accumulation;
+
+/// <summary>
+/// What a sample's accumulation takes from one feature of the reference: the reference histogram, whose axis the
+/// sample fills and whose marginal CDF ranks the feature's values for Spearman's ρ, and the thresholds of its far
+/// tails (null when the reference counts none).
+/// </summary>
+internal sealed record FeatureLayout(Histogram Reference, (double Low, double High)? FarTail);

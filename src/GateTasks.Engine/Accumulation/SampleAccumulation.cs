@@ -1,0 +1,151 @@
+using GateTasks.Engine.Histograms;
+using GateTasks.Engine.Samples;
+using GateTasks.Engine.Statistics;
+using GateTasks.Engine.Contracts;
+
+namespace GateTasks.Engine.Accumulation;
+
+/// <summary>
+/// Everything a check gathers from the surrogate sample, before any decision: per feature the histogram on the
+/// reference's binning, moments, spike and far-tail tallies; per declared pair the coefficients and 2-D cells; the
+/// joint subsample; the event totals. Accumulations of shards of one sample merge into that of the whole: histogram
+/// cells, tallies and totals exactly (they are exact sums), moments and coefficients to rounding (Chan, Golub &amp;
+/// LeVeque 1979), the joint subsample as a valid uniform subsample of the union (not the one a single pass keeps).
+/// </summary>
+internal sealed class SampleAccumulation
+{
+    /// <summary>Seed of the sample's joint subsample.</summary>
+    private const int JointSeed = 7_654_321;
+
+    private readonly Histogram[] _batch;
+    private readonly ExactHistogram[] _histograms;
+    private readonly FeatureStatistics[] _stats; // replaced when a state is set
+    private readonly FarTailCounter?[] _farTail;
+    private readonly SpikeSeparation _spikes;
+    private readonly JointSubsample? _joint;
+    private readonly IReadOnlyList<PairCorrelation> _pairs;
+    private readonly ExactSum _sumW = new();
+    private readonly ExactSum _sumW2 = new();
+
+    /// <summary>
+    /// A fresh accumulation of <paramref name="contract"/>'s features, each on the reference's layout
+    /// (<paramref name="layouts"/>, in contract order).
+    /// </summary>
+    public SampleAccumulation(PrecisionContract contract, IReadOnlyList<FeatureLayout> layouts)
+    {
+        Contract = contract;
+        _batch = layouts.Select(r => new Histogram(r.Reference.Axis)).ToArray();
+        _histograms = layouts.Select(r => new ExactHistogram(r.Reference.Axis)).ToArray();
+        _stats = contract.Features.Select(_ => new FeatureStatistics()).ToArray();
+        _farTail = contract.Features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && layouts[i].FarTail is { } t
+            ? new FarTailCounter(t.Low, t.High) : null).ToArray();
+        _spikes = new SpikeSeparation(contract.Features);
+        var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
+        _joint = contract.Joint is { } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, JointSeed) : null;
+        _pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
+            new MarginalCdf(layouts[index[p.First]].Reference), new MarginalCdf(layouts[index[p.Second]].Reference),
+            p.Chi2 is null ? null : new Histogram2D(layouts[index[p.First]].Reference.Axis, layouts[index[p.Second]].Reference.Axis))).ToList();
+    }
+
+    public PrecisionContract Contract { get; }
+    public long Events { get; private set; }
+
+    /// <summary>Events (after the selection) with a negative weight: none means every cell's Σw² is at most its (Σw)².</summary>
+    public long NegativeWeightEvents { get; private set; }
+    public double SumW => _sumW.Value;
+    public double SumW2 => _sumW2.Value;
+
+    /// <summary>Streams a sample (one pass, batch by batch) into the accumulation.</summary>
+    public void Read(Sample sample, FeatureInputs inputs)
+    {
+        var totals = SampleStream.Run(sample, inputs, Contract.Sample.Weight, _spikes.Around((i, values, weights) =>
+        {
+            // Each batch fills a plain histogram, then is added exactly, so the cells do not depend on the batching.
+            _batch[i].Fill(values, weights);
+            _histograms[i].Absorb(_batch[i]);
+            _stats[i].Add(values, weights);
+            _farTail[i]?.Add(values, weights);
+        }), view =>
+        {
+            foreach (var w in view.Weights)
+                if (w < 0) NegativeWeightEvents++;
+            foreach (var p in _pairs) p.Add(view);
+            _joint?.Add(view);
+        });
+        Events += totals.Events;
+        _sumW.Add(totals.ExactSumW);
+        _sumW2.Add(totals.ExactSumW2);
+    }
+
+    /// <summary>Adds another accumulation of the same contract and reference (another shard of the sample).</summary>
+    public void Merge(SampleAccumulation other)
+    {
+        for (var i = 0; i < _histograms.Length; i++)
+        {
+            _histograms[i].Add(other._histograms[i]);
+            _stats[i].Merge(other._stats[i]);
+            if (_farTail[i] is { } f) f.Merge(other._farTail[i]!);
+            if (_spikes.Filters[i] is { } s) s.Merge(other._spikes.Filters[i]!);
+        }
+        for (var p = 0; p < _pairs.Count; p++) _pairs[p].Merge(other._pairs[p]);
+        _joint?.Merge(other._joint!);
+        Events += other.Events;
+        NegativeWeightEvents += other.NegativeWeightEvents;
+        _sumW.Add(other._sumW);
+        _sumW2.Add(other._sumW2);
+    }
+
+    /// <summary>The whole accumulation as plain numbers (every exact sum as its terms), for a partial file.</summary>
+    public AccumulationState State() => new(Events, NegativeWeightEvents, _sumW.Partials, _sumW2.Partials,
+        _histograms.Select((h, i) => new FeatureState(Contract.Features[i].Name, h.State(), _stats[i].State(),
+            _spikes.Filters[i]?.State(), _farTail[i]?.State())).ToList(),
+        _pairs.Select(p => p.State()).ToList(),
+        _joint?.State());
+
+    /// <summary>
+    /// Sets a state in the form <see cref="State"/> gives it into this fresh accumulation; the name of what does not fit
+    /// this contract and reference, or null when it all fits.
+    /// </summary>
+    public string? SetState(AccumulationState state)
+    {
+        var features = state.Features;
+        if (features.Count != _histograms.Length) return $"{features.Count} features, the contract has {_histograms.Length}";
+        for (var i = 0; i < features.Count; i++)
+        {
+            var f = features[i];
+            var name = Contract.Features[i].Name;
+            if (f.Name != name) return $"feature {i + 1} is '{f.Name}', the contract's is '{name}'";
+            if (!_histograms[i].AddState(f.Histogram)) return $"feature '{name}' has another binning";
+            _stats[i] = FeatureStatistics.Restore(f.Statistics.ToArray());
+            if (_spikes.Filters[i] is { } spike)
+            {
+                if (f.Spike is not { } s) return $"feature '{name}' has no spike tally";
+                spike.AddState(s);
+            }
+            if (_farTail[i] is { } tail)
+            {
+                if (f.FarTail is not { } ft) return $"feature '{name}' has no far-tail counts";
+                tail.AddState(ft);
+            }
+        }
+        if (state.Pairs.Count != _pairs.Count) return $"{state.Pairs.Count} correlation pairs, the contract has {_pairs.Count}";
+        for (var p = 0; p < _pairs.Count; p++)
+            if (!_pairs[p].SetState(state.Pairs[p])) return $"correlation pair {_pairs[p].Spec.Name} does not fit";
+        if (_joint is not null)
+        {
+            if (state.Joint is not { } j) return "no joint subsample";
+            _joint.SetState(j);
+        }
+        Events = state.Events;
+        NegativeWeightEvents = state.NegativeWeightEvents;
+        foreach (var v in state.SumW) _sumW.Add(v);
+        foreach (var v in state.SumW2) _sumW2.Add(v);
+        return null;
+    }
+
+    /// <summary>What was gathered, finished: each exact sum rounded once, nothing shared with this accumulation.</summary>
+    public AccumulatedSample Finish() => new(Events, NegativeWeightEvents, SumW, SumW2,
+        _histograms.Select((h, i) => new AccumulatedFeature(h.ToHistogram(), _stats[i].Summary(), _spikes.Filters[i]?.Tally, _farTail[i]?.Counts)).ToList(),
+        _pairs.Select(p => p.Finish()).ToList(),
+        _joint is null ? null : new AccumulatedJoint(_joint.Seen, _joint.Rows));
+}

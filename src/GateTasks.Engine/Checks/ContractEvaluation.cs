@@ -1,0 +1,77 @@
+using GateTasks.Engine.Accumulation;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.References;
+
+namespace GateTasks.Engine.Checks;
+
+/// <summary>
+/// Decides every check of a contract from what was gathered from the sample (in one pass, or merged from shards) and
+/// the matched reference: measures each feature's, pair's and joint block's checks, then applies the contract's
+/// decision rule across all of them.
+/// </summary>
+internal static class ContractEvaluation
+{
+    public static EvaluatedChecks Evaluate(MatchedReference matched, AccumulatedSample sample)
+    {
+        var (contract, reference, references) = (matched.Contract, matched.Reference, matched.Features);
+        NonFiniteGuard.Verify(contract, sample);
+        var cores = contract.Features.Select((f, i) => RegionBins.Core(references[i], f)).ToList();
+        var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
+        // Features are measured side by side (each reads only its own histogram and summary, and every bootstrap has
+        // its own seed), then gathered in contract order: the same measurements whatever the thread count.
+        var n = contract.Features.Count;
+        var comparisonOf = new FeatureComparison[n];
+        var measuredOf = new (FeatureSpec, CheckSpec, Measurement)[n][];
+        var failures = new Exception?[n];
+        Parallel.For(0, n, i =>
+        {
+            try
+            {
+                var gathered = sample.Features[i];
+                var comparison = new FeatureComparison(contract.Features[i], references[i], gathered.Histogram, gathered.Summary, cores[i],
+                    gathered.Spike, gathered.FarTail);
+                comparisonOf[i] = comparison;
+                measuredOf[i] = contract.Features[i].Checks.Select(check => (contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision))).ToArray();
+            }
+            catch (Exception e)
+            {
+                failures[i] = e;
+            }
+        });
+        if (Array.Find(failures, f => f is not null) is { } failure) System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(failure);
+        var measured = measuredOf.SelectMany(m => m).ToList();
+        foreach (var pair in sample.Pairs)
+        {
+            var stored = reference.FindPair(pair.Spec.First, pair.Spec.Second)
+                ?? throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                    $"The reference holds no correlation for {pair.Spec.Name}; rebuild it with 'gatetasks reference build'.", pair.Spec.Location);
+            var first = contract.Features[index[pair.Spec.First]];
+            // Pair checks are reported like a feature named after the pair, at the pair's entry in the contract.
+            var subject = first with { Name = pair.Spec.Name, Column = pair.Spec.Name, Checks = [], Location = pair.Spec.Location, ColumnLocation = pair.Spec.Location };
+            foreach (var check in new[] { pair.Spec.Pearson, pair.Spec.Spearman })
+                if (check is not null) measured.Add((subject, check, CorrelationCheck.Evaluate(stored, pair, check, contract.Decision, sample.Events)));
+            if (pair.Spec.Chi2 is { } chi2)
+            {
+                if (stored.Cells2DSumW is null || stored.Cells2DSumW2 is null || pair.Cells is not { } cells || stored.Cells2DSumW.Length != cells.SumW.Length)
+                    throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                        $"The reference holds no 2-D histogram for {pair.Spec.Name} on these axes; rebuild it with 'gatetasks reference build'.", pair.Spec.Location);
+                measured.Add((subject, chi2, ChiSquareCheck.Evaluate(
+                    new CellContents(stored.Cells2DSumW, stored.Cells2DSumW2),
+                    new CellContents(cells.SumW, cells.SumW2))));
+            }
+        }
+        if (contract.Joint is { } jointSpec)
+        {
+            var stored = reference.Joint is { } rj && rj.Features.SequenceEqual(jointSpec.Features)
+                ? rj
+                : throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                    $"The reference holds no subsample of {jointSpec.Name}; rebuild it with 'gatetasks reference build'.", jointSpec.Location);
+            var first = contract.Features[index[jointSpec.Features[0]]];
+            var subject = first with { Name = jointSpec.Name, Column = jointSpec.Name, Checks = [], Location = jointSpec.Location, ColumnLocation = jointSpec.Location };
+            var permutations = jointSpec.PermutationsFor(measured.Count + 1, contract.Decision.FalseAlarm);
+            measured.Add((subject, jointSpec.Test, JointCheck.Evaluate(stored.Rows.ToArray(), sample.Joint!.Rows.ToArray(), jointSpec, permutations)));
+        }
+        return new EvaluatedChecks(comparisonOf, VerdictRule.Decide(measured, contract.Decision));
+    }
+}

@@ -1,0 +1,106 @@
+using System.Text.Json;
+using GateTasks.Engine.Accumulation;
+using GateTasks.Engine.Histograms;
+
+namespace GateTasks.Engine.Partials;
+
+/// <summary>
+/// The accumulation inside a partial file, as JSON: the state records of <see cref="AccumulationState"/> written in a
+/// fixed order (the seal is computed over these bytes) and read back bit for bit (<see cref="PartialNumbers"/>).
+/// Reading only parses; whether the state fits a contract is the accumulation's to say.
+/// </summary>
+internal static class AccumulationJson
+{
+    public static void Write(Utf8JsonWriter w, AccumulationState state)
+    {
+        w.WriteStartObject();
+        w.WriteNumber("events", state.Events);
+        w.WriteNumber("negative_weight_events", state.NegativeWeightEvents);
+        PartialNumbers.WriteArray(w, "sum_w", state.SumW);
+        PartialNumbers.WriteArray(w, "sum_w2", state.SumW2);
+        w.WriteStartArray("features");
+        foreach (var f in state.Features)
+        {
+            w.WriteStartObject();
+            w.WriteString("name", f.Name);
+            w.WritePropertyName("histogram");
+            WriteHistogram(w, f.Histogram);
+            PartialNumbers.WriteArray(w, "statistics", f.Statistics);
+            if (f.Spike is { } spike)
+            {
+                w.WriteNumber("spike_entries", spike.Entries);
+                PartialNumbers.WriteArray(w, "spike_w", spike.SumW);
+                PartialNumbers.WriteArray(w, "spike_w2", spike.SumW2);
+            }
+            if (f.FarTail is { } tail) PartialNumbers.WriteJagged(w, "far_tail", tail);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        w.WriteStartArray("pairs");
+        foreach (var p in state.Pairs)
+        {
+            w.WriteStartObject();
+            w.WriteString("pair", p.Name);
+            PartialNumbers.WriteArray(w, "pearson", p.Pearson);
+            PartialNumbers.WriteArray(w, "spearman", p.Spearman);
+            if (p.Cells is { } cells) WriteCells(w, cells, "cells_w", "cells_w2");
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        if (state.Joint is { } joint)
+        {
+            w.WriteStartObject("joint");
+            w.WriteNumber("seen", joint.Seen);
+            PartialNumbers.WriteJagged(w, "rows", joint.Rows);
+            w.WriteEndObject();
+        }
+        w.WriteEndObject();
+    }
+
+    /// <summary>Parses what <see cref="Write"/> wrote; a missing or mistyped property throws (the partial is damaged).</summary>
+    public static AccumulationState Read(JsonElement e)
+    {
+        var features = e.GetProperty("features").EnumerateArray().Select(f => new FeatureState(
+            f.GetProperty("name").GetString()!,
+            ReadHistogram(f.GetProperty("histogram")),
+            PartialNumbers.ReadArray(f.GetProperty("statistics")),
+            f.TryGetProperty("spike_entries", out var se)
+                ? new SpikeState(se.GetInt64(), PartialNumbers.ReadArray(f.GetProperty("spike_w")), PartialNumbers.ReadArray(f.GetProperty("spike_w2")))
+                : null,
+            f.TryGetProperty("far_tail", out var ft) ? PartialNumbers.ReadJagged(ft) : null)).ToList();
+        var pairs = e.GetProperty("pairs").EnumerateArray().Select(p => new PairState(
+            p.GetProperty("pair").GetString()!,
+            PartialNumbers.ReadArray(p.GetProperty("pearson")),
+            PartialNumbers.ReadArray(p.GetProperty("spearman")),
+            p.TryGetProperty("cells_w", out _) ? ReadCells(p, "cells_w", "cells_w2") : null)).ToList();
+        var joint = e.TryGetProperty("joint", out var j)
+            ? new JointState(j.GetProperty("seen").GetInt64(), PartialNumbers.ReadJagged(j.GetProperty("rows")))
+            : null;
+        return new AccumulationState(e.GetProperty("events").GetInt64(), e.GetProperty("negative_weight_events").GetInt64(),
+            PartialNumbers.ReadArray(e.GetProperty("sum_w")), PartialNumbers.ReadArray(e.GetProperty("sum_w2")), features, pairs, joint);
+    }
+
+    private static void WriteHistogram(Utf8JsonWriter w, ExactHistogramState h)
+    {
+        w.WriteStartObject();
+        w.WriteNumber("entries", h.Entries);
+        w.WriteNumber("nan_entries", h.NanEntries);
+        WriteCells(w, h.Cells, "sum_w", "sum_w2");
+        PartialNumbers.WriteArray(w, "nan_w", h.NanW);
+        PartialNumbers.WriteArray(w, "nan_w2", h.NanW2);
+        w.WriteEndObject();
+    }
+
+    private static ExactHistogramState ReadHistogram(JsonElement e) => new(
+        e.GetProperty("entries").GetInt64(), e.GetProperty("nan_entries").GetInt64(), ReadCells(e, "sum_w", "sum_w2"),
+        PartialNumbers.ReadArray(e.GetProperty("nan_w")), PartialNumbers.ReadArray(e.GetProperty("nan_w2")));
+
+    private static void WriteCells(Utf8JsonWriter w, ExactCellsState cells, string sumWName, string sumW2Name)
+    {
+        PartialNumbers.WriteJagged(w, sumWName, cells.SumW);
+        PartialNumbers.WriteJagged(w, sumW2Name, cells.SumW2);
+    }
+
+    private static ExactCellsState ReadCells(JsonElement e, string sumWName, string sumW2Name) =>
+        new(PartialNumbers.ReadJagged(e.GetProperty(sumWName)), PartialNumbers.ReadJagged(e.GetProperty(sumW2Name)));
+}

@@ -1,0 +1,69 @@
+using GateTasks.Engine.Accumulation;
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
+
+namespace GateTasks.Engine.References;
+
+/// <summary>
+/// The reference a contract is checked against, read once and matched to the contract's features (in contract
+/// order); refuses a reference built for other features, columns, kinds or binnings (GATE3001) or whose bins do not
+/// hold the reference (GATE2104, GATE2105).
+/// </summary>
+internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHistograms Reference, string ReferencePath, string ReferenceSha256,
+    IReadOnlyList<ReferenceFeature> Features)
+{
+    /// <summary>Per feature, what a sample's accumulation takes from the reference.</summary>
+    public IReadOnlyList<FeatureLayout> Layouts => Features.Select(f => f.Layout).ToList();
+
+    /// <summary>Reads the contract's reference and matches every feature to it.</summary>
+    public static MatchedReference Load(PrecisionContract contract)
+    {
+        var referencePath = contract.ReferenceFullPath;
+        var reference = ReferenceFile.Read(referencePath, contract.ReferenceLocation);
+        var references = contract.Features.Select(f => Match(reference, f, referencePath)).ToList();
+        // Again at check: a reference built before this rule, or a contract's regions changed since, is caught here.
+        for (var i = 0; i < references.Count; i++) BinCoverage.Verify(contract.Features[i], references[i]);
+        return new MatchedReference(contract, reference, referencePath, FileDigest.Sha256(referencePath), references);
+    }
+
+    private static ReferenceFeature Match(ReferenceHistograms reference, FeatureSpec feature, string referencePath)
+    {
+
+        var r = reference.Find(feature.Name)
+            ?? throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                $"The reference {Path.GetFileName(referencePath)} has no feature '{feature.Name}'{NearestName.Hint(feature.Name, reference.Features.Select(f => f.Name))}; " +
+                "rebuild it with 'gatetasks reference build'.", feature.Location);
+        if (r.Column != feature.Column || r.Kind != feature.Kind || r.BinningRequest != feature.ReferenceRequest)
+        {
+            // Said where the changed part of the definition is written: a feature's expression at the feature, not at
+            // the binning (which may be the defaults').
+            var (what, where) = r.Column != feature.Column ? ("column", feature.ColumnLocation)
+                : r.Kind != feature.Kind ? ("kind", feature.Location)
+                : ChangedPart(r.BinningRequest, feature);
+            throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                $"The reference for feature '{feature.Name}' was built with another {what} (column '{r.Column}', {r.Kind.ToString().ToLowerInvariant()}, binning {r.BinningRequest}); " +
+                $"the contract asks for column '{feature.Column}', {feature.Kind.ToString().ToLowerInvariant()}, binning {feature.ReferenceRequest}. " +
+                "Rebuild it with 'gatetasks reference build'.", where);
+        }
+        return r;
+    }
+
+    /// <summary>Which part of a feature's reference request (<see cref="FeatureSpec.ReferenceRequest"/>) differs from the stored one, and where the contract writes it.</summary>
+    private static (string What, SourceLocation Where) ChangedPart(string stored, FeatureSpec feature)
+    {
+        static string Part(string request, string marker)
+        {
+            var at = request.IndexOf(marker, StringComparison.Ordinal);
+            if (at < 0) return "";
+            var end = new[] { "|spike:", "|expression:", "|condition:" }.Select(m => request.IndexOf(m, at + marker.Length, StringComparison.Ordinal))
+                .Where(i => i > at).DefaultIfEmpty(request.Length).Min();
+            return request[at..end];
+        }
+        var wanted = feature.ReferenceRequest;
+        if (Part(stored, "|expression:") != Part(wanted, "|expression:")) return ("expression", feature.ColumnLocation);
+        if (Part(stored, "|condition:") != Part(wanted, "|condition:")) return ("condition", feature.Condition?.Location ?? feature.Location);
+        if (Part(stored, "|spike:") != Part(wanted, "|spike:")) return ("spike", feature.Location);
+        return ("binning", feature.Binning.Location);
+    }
+}
