@@ -14,154 +14,221 @@ internal sealed record SampleTotals(long Events, Statistics.ExactSum ExactSumW, 
 
 /// <summary>
 /// One streamed pass over a sample: reads each needed column once per batch, evaluates derived features
-/// column-wise, applies the selection, rejects non-finite weights, and hands
-/// every feature's values to the visitor, then the whole batch to the batch visitor. Buffers are reused across batches, so memory is bounded by the batch size.
+/// column-wise, applies the selection, rejects non-finite weights, and hands every feature's values to the visitor,
+/// then the whole batch to the batch visitor. Buffers are reused across batches, so memory is bounded by the batch size.
 /// </summary>
-internal static class SampleStream
+internal sealed class SampleStream
 {
     /// <summary>Batches with at least this many rows visit their features in parallel.</summary>
     private const int ParallelBatchRows = 8192;
 
-    /// <summary>A condition holds when it is non-zero and not NaN.</summary>
-    private static bool Passes(double condition) => condition != 0 && !double.IsNaN(condition);
+    private readonly Sample _sample;
+    private readonly FeatureInputs _inputs;
+    private readonly string? _weightColumn;
+    private readonly Dictionary<string, int> _index;
+    private readonly int _weightIndex;
+    private readonly int _n;
 
+    // Per feature: the derived values (expressions), the selected rows (with a selection), and the values in the view.
+    private readonly double[][] _derived;
+    private readonly double[][] _selected;
+    private readonly double[][] _view;
+    private readonly double[][]?[] _expressionInputs;
+    // Per feature with a condition of its own: its mask, and its values and weights compacted on their own.
+    private readonly double[]?[] _ownMask;
+    private readonly double[]?[] _ownValues;
+    private readonly double[]?[] _ownWeights;
+    private readonly int[] _ownRows;
+    private double[] _weights = [];
+    private double[] _mask = [];
+    private FeatureView _frame;
+
+    private long _events, _read;
+    private double _largestWeight;
+    // Per batch in doubles, then exactly: totals that do not depend on how batches are grouped.
+    private readonly Statistics.ExactSum _sumW = new();
+    private readonly Statistics.ExactSum _sumW2 = new();
+
+    private SampleStream(Sample sample, FeatureInputs inputs, string? weightColumn)
+    {
+        _sample = sample;
+        _inputs = inputs;
+        _weightColumn = weightColumn;
+        Columns = inputs.RequiredColumns.ToList();
+        if (weightColumn is not null && !Columns.Contains(weightColumn)) Columns.Add(weightColumn);
+        _index = Columns.Select((c, i) => (c, i)).ToDictionary(p => p.c, p => p.i, StringComparer.Ordinal);
+        _weightIndex = weightColumn is null ? -1 : _index[weightColumn];
+        _n = inputs.Count;
+        _derived = new double[_n][];
+        _selected = new double[_n][];
+        _view = new double[_n][];
+        _expressionInputs = inputs.Expressions.Select(e => e is null ? null : new double[e.Columns.Count][]).ToArray();
+        _ownMask = new double[]?[_n];
+        _ownValues = new double[]?[_n];
+        _ownWeights = new double[]?[_n];
+        _ownRows = new int[_n];
+        _frame = new FeatureView(_view, _weights, weightColumn is not null);
+    }
+
+    /// <summary>Every column the pass reads: the features', the expressions', the selection's and the weight.</summary>
+    private List<string> Columns { get; }
+
+    /// <summary>
+    /// Streams <paramref name="sample"/> once: each feature's values of each batch to <paramref name="visit"/> (features
+    /// may be visited side by side), then the whole batch to <paramref name="afterEachBatch"/>.
+    /// </summary>
     public static SampleTotals Run(Sample sample, FeatureInputs inputs, string? weightColumn, FeatureBatch visit, Action<FeatureView>? afterEachBatch = null)
     {
-        var columns = inputs.RequiredColumns.ToList();
-        if (weightColumn is not null && !columns.Contains(weightColumn)) columns.Add(weightColumn);
-        var index = columns.Select((c, i) => (c, i)).ToDictionary(p => p.c, p => p.i, StringComparer.Ordinal);
-        var weightIndex = weightColumn is null ? -1 : index[weightColumn];
-        var n = inputs.Count;
-
-        var derived = new double[n][];
-        var selected = new double[n][];
-        var view = new double[n][];
-        var weightBuffer = Array.Empty<double>();
-        var mask = Array.Empty<double>();
-        var frame = new FeatureView(view, weightBuffer, weightColumn is not null);
-        var expressionInputs = inputs.Expressions.Select(e => e is null ? null : new double[e.Columns.Count][]).ToArray();
-        var ownMask = new double[]?[n];
-        var ownValues = new double[]?[n];
-        var ownWeights = new double[]?[n];
-        var ownRows = new int[n];
-
-        long events = 0, read = 0;
-        var largestWeight = 0.0;
-        // Per batch in doubles, then exactly: totals that do not depend on how batches are grouped.
-        var sumW = new Statistics.ExactSum();
-        var sumW2 = new Statistics.ExactSum();
-        foreach (var batch in sample.ReadBatches(columns))
+        var pass = new SampleStream(sample, inputs, weightColumn);
+        foreach (var batch in sample.ReadBatches(pass.Columns))
         {
             var rows = batch.RowCount;
-            if (mask.Length < rows)
-            {
-                mask = new double[rows];
-                weightBuffer = new double[rows];
-                // Only what is used: a derived buffer per expression, a selected one per feature when there is a selection.
-                for (var i = 0; i < n; i++)
-                {
-                    derived[i] = inputs.Expressions[i] is null ? [] : new double[rows];
-                    selected[i] = inputs.Selection is null ? [] : new double[rows];
-                }
-                frame = new FeatureView(view, weightBuffer, weightColumn is not null);
-            }
-            var rawWeights = weightIndex >= 0 ? batch.Column(weightIndex) : ReadOnlySpan<double>.Empty;
-            for (var r = 0; r < rawWeights.Length; r++)
-            {
-                var w = rawWeights[r];
-                if (!double.IsFinite(w))
-                    throw BadWeight(sample.CurrentFile ?? sample.Files[0], batch, weightColumn!, weightIndex, r, read + r, w, "every event needs a finite weight");
-                largestWeight = Math.Max(largestWeight, Math.Abs(w));
-            }
-            read += rows;
-
-            // Derive: a column is used in place, an expression is evaluated over the whole batch.
-            for (var i = 0; i < n; i++)
-            {
-                if (inputs.Expressions[i] is { } e)
-                {
-                    var args = expressionInputs[i]!;
-                    for (var a = 0; a < args.Length; a++) args[a] = batch.ColumnBuffer(index[e.Columns[a]]);
-                    e.Evaluate(args, rows, derived[i].AsSpan(0, rows));
-                    view[i] = derived[i];
-                }
-                else view[i] = batch.ColumnBuffer(index[inputs.FeatureColumns[i]!]);
-            }
-            if (weightIndex >= 0) rawWeights.CopyTo(weightBuffer);
-
-            // Select: keep the rows whose condition is true (NaN counts as false), compacted into the same view.
-            var kept = rows;
-            if (inputs.Selection is { } selection)
-            {
-                var selectionArgs = selection.Columns.Select(c => batch.ColumnBuffer(index[c])).ToArray();
-                selection.Evaluate(selectionArgs, rows, mask.AsSpan(0, rows));
-            }
-            else mask.AsSpan(0, rows).Fill(1);
-
-            // A feature with a condition of its own (a category) keeps the rows that pass both; it is compacted on its own.
-            for (var i = 0; i < n; i++)
-            {
-                if (inputs.Conditions[i] is not { } condition) continue;
-                ownMask[i] ??= new double[mask.Length];
-                if (ownMask[i]!.Length < rows) ownMask[i] = new double[rows];
-                ownValues[i] ??= new double[mask.Length];
-                if (ownValues[i]!.Length < rows) { ownValues[i] = new double[rows]; ownWeights[i] = new double[rows]; }
-                ownWeights[i] ??= new double[ownValues[i]!.Length];
-                var conditionArgs = condition.Columns.Select(c => batch.ColumnBuffer(index[c])).ToArray();
-                condition.Evaluate(conditionArgs, rows, ownMask[i].AsSpan(0, rows));
-                var k = 0;
-                for (var r = 0; r < rows; r++)
-                {
-                    if (!Passes(mask[r]) || !Passes(ownMask[i]![r])) continue;
-                    ownValues[i]![k] = view[i][r];
-                    ownWeights[i]![k] = weightIndex >= 0 ? weightBuffer[r] : 1;
-                    k++;
-                }
-                ownRows[i] = k;
-            }
-
-            if (inputs.Selection is not null)
-            {
-                kept = 0;
-                for (var r = 0; r < rows; r++)
-                {
-                    if (!Passes(mask[r])) continue;
-                    for (var i = 0; i < n; i++) selected[i][kept] = view[i][r];
-                    weightBuffer[kept] = weightIndex >= 0 ? weightBuffer[r] : 1;
-                    kept++;
-                }
-                for (var i = 0; i < n; i++) view[i] = selected[i];
-            }
-            frame.Rows = kept;
-
-            var weights = frame.Weights;
-            double batchW = weights.IsEmpty ? kept : 0, batchW2 = weights.IsEmpty ? kept : 0;
-            foreach (var w in weights)
-            {
-                batchW += w;
-                batchW2 += w * w;
-            }
-            sumW.Add(batchW);
-            sumW2.Add(batchW2);
-            events += kept;
-            // Features are independent from here on (each touches only its visitor's state for that feature), so large
-            // batches spread them over the cores; the results do not depend on it.
-            void Visit(int i)
-            {
-                var values = inputs.Conditions[i] is null ? frame.Feature(i) : ownValues[i].AsSpan(0, ownRows[i]);
-                var featureWeights = inputs.Conditions[i] is null ? frame.Weights
-                    : weightIndex >= 0 ? ownWeights[i].AsSpan(0, ownRows[i]) : ReadOnlySpan<double>.Empty;
-                visit(i, values, featureWeights);
-            }
-            if (n > 1 && kept >= ParallelBatchRows && sample.Parallelism > 1)
-                Parallel.For(0, n, new ParallelOptions { MaxDegreeOfParallelism = sample.Parallelism }, Visit);
-            else for (var i = 0; i < n; i++) Visit(i);
-            afterEachBatch?.Invoke(frame);
+            pass.Reserve(rows);
+            pass.CheckWeights(batch);
+            pass.Derive(batch);
+            pass.SelectOwn(batch);
+            pass.Select(batch);
+            pass.Total();
+            pass.Visit(visit);
+            afterEachBatch?.Invoke(pass._frame);
         }
         if (weightColumn is not null)
-            SampleWeights.RequireRepresentableSquares(largestWeight, weightColumn, sample.Files, new SourceLocation(sample.Files[0]));
-        return new SampleTotals(events, sumW, sumW2);
+            SampleWeights.RequireRepresentableSquares(pass._largestWeight, weightColumn, sample.Files, new SourceLocation(sample.Files[0]));
+        return new SampleTotals(pass._events, pass._sumW, pass._sumW2);
     }
+
+    // Buffers grow to the largest batch, then are reused. Only what is used: a derived buffer per expression, a selected
+    // one per feature when there is a selection.
+    private void Reserve(int rows)
+    {
+        if (_mask.Length >= rows) return;
+        _mask = new double[rows];
+        _weights = new double[rows];
+        for (var i = 0; i < _n; i++)
+        {
+            _derived[i] = _inputs.Expressions[i] is null ? [] : new double[rows];
+            _selected[i] = _inputs.Selection is null ? [] : new double[rows];
+        }
+        _frame = new FeatureView(_view, _weights, _weightColumn is not null);
+    }
+
+    private void CheckWeights(SampleBatch batch)
+    {
+        var rawWeights = _weightIndex >= 0 ? batch.Column(_weightIndex) : ReadOnlySpan<double>.Empty;
+        for (var r = 0; r < rawWeights.Length; r++)
+        {
+            var w = rawWeights[r];
+            if (!double.IsFinite(w))
+                throw BadWeight(_sample.CurrentFile ?? _sample.Files[0], batch, _weightColumn!, _weightIndex, r, _read + r, w, "every event needs a finite weight");
+            _largestWeight = Math.Max(_largestWeight, Math.Abs(w));
+        }
+        _read += batch.RowCount;
+        if (_weightIndex >= 0) rawWeights.CopyTo(_weights);
+    }
+
+    // A column is used in place, an expression is evaluated over the whole batch.
+    private void Derive(SampleBatch batch)
+    {
+        var rows = batch.RowCount;
+        for (var i = 0; i < _n; i++)
+        {
+            if (_inputs.Expressions[i] is { } e)
+            {
+                var args = _expressionInputs[i]!;
+                for (var a = 0; a < args.Length; a++) args[a] = batch.ColumnBuffer(_index[e.Columns[a]]);
+                e.Evaluate(args, rows, _derived[i].AsSpan(0, rows));
+                _view[i] = _derived[i];
+            }
+            else _view[i] = batch.ColumnBuffer(_index[_inputs.FeatureColumns[i]!]);
+        }
+        // The selection's mask (NaN counts as false); all ones without a selection.
+        if (_inputs.Selection is { } selection)
+        {
+            var selectionArgs = selection.Columns.Select(c => batch.ColumnBuffer(_index[c])).ToArray();
+            selection.Evaluate(selectionArgs, rows, _mask.AsSpan(0, rows));
+        }
+        else _mask.AsSpan(0, rows).Fill(1);
+    }
+
+    // A feature with a condition of its own (a category) keeps the rows that pass both; it is compacted on its own.
+    private void SelectOwn(SampleBatch batch)
+    {
+        var rows = batch.RowCount;
+        for (var i = 0; i < _n; i++)
+        {
+            if (_inputs.Conditions[i] is not { } condition) continue;
+            _ownMask[i] ??= new double[_mask.Length];
+            if (_ownMask[i]!.Length < rows) _ownMask[i] = new double[rows];
+            _ownValues[i] ??= new double[_mask.Length];
+            if (_ownValues[i]!.Length < rows) { _ownValues[i] = new double[rows]; _ownWeights[i] = new double[rows]; }
+            _ownWeights[i] ??= new double[_ownValues[i]!.Length];
+            var conditionArgs = condition.Columns.Select(c => batch.ColumnBuffer(_index[c])).ToArray();
+            condition.Evaluate(conditionArgs, rows, _ownMask[i].AsSpan(0, rows));
+            var k = 0;
+            for (var r = 0; r < rows; r++)
+            {
+                if (!Passes(_mask[r]) || !Passes(_ownMask[i]![r])) continue;
+                _ownValues[i]![k] = _view[i][r];
+                _ownWeights[i]![k] = _weightIndex >= 0 ? _weights[r] : 1;
+                k++;
+            }
+            _ownRows[i] = k;
+        }
+    }
+
+    // Keeps the rows whose selection holds, compacted into the same view.
+    private void Select(SampleBatch batch)
+    {
+        var rows = batch.RowCount;
+        var kept = rows;
+        if (_inputs.Selection is not null)
+        {
+            kept = 0;
+            for (var r = 0; r < rows; r++)
+            {
+                if (!Passes(_mask[r])) continue;
+                for (var i = 0; i < _n; i++) _selected[i][kept] = _view[i][r];
+                _weights[kept] = _weightIndex >= 0 ? _weights[r] : 1;
+                kept++;
+            }
+            for (var i = 0; i < _n; i++) _view[i] = _selected[i];
+        }
+        _frame.Rows = kept;
+    }
+
+    private void Total()
+    {
+        var kept = _frame.Rows;
+        var weights = _frame.Weights;
+        double batchW = weights.IsEmpty ? kept : 0, batchW2 = weights.IsEmpty ? kept : 0;
+        foreach (var w in weights)
+        {
+            batchW += w;
+            batchW2 += w * w;
+        }
+        _sumW.Add(batchW);
+        _sumW2.Add(batchW2);
+        _events += kept;
+    }
+
+    // Features are independent from here on (each touches only its visitor's state for that feature), so large
+    // batches spread them over the cores; the results do not depend on it.
+    private void Visit(FeatureBatch visit)
+    {
+        void One(int i)
+        {
+            var values = _inputs.Conditions[i] is null ? _frame.Feature(i) : _ownValues[i].AsSpan(0, _ownRows[i]);
+            var featureWeights = _inputs.Conditions[i] is null ? _frame.Weights
+                : _weightIndex >= 0 ? _ownWeights[i].AsSpan(0, _ownRows[i]) : ReadOnlySpan<double>.Empty;
+            visit(i, values, featureWeights);
+        }
+        if (_n > 1 && _frame.Rows >= ParallelBatchRows && _sample.Parallelism > 1)
+            Parallel.For(0, _n, new ParallelOptions { MaxDegreeOfParallelism = _sample.Parallelism }, One);
+        else for (var i = 0; i < _n; i++) One(i);
+    }
+
+    /// <summary>A condition holds when it is non-zero and not NaN.</summary>
+    private static bool Passes(double condition) => condition != 0 && !double.IsNaN(condition);
 
     /// <summary>
     /// GATE2007 for a weight that is not finite, at its cell where the reader can say (a CSV line and column, a Parquet
