@@ -1,4 +1,5 @@
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Samples.Parquet;
 
 namespace GateTasks.Engine.Samples;
 

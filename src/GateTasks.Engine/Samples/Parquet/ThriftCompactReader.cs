@@ -1,4 +1,4 @@
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// Reads Apache Thrift's compact protocol (as Parquet stores its page headers) from a byte span: field headers,

@@ -1,6 +1,6 @@
 using System.Buffers.Binary;
 
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// Checks a Parquet file's frame (magic bytes, footer length) and that its footer is well-formed Thrift compact

@@ -2,7 +2,7 @@ using GateTasks.Engine.Diagnostics;
 using Parquet;
 using Parquet.Schema;
 
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// Reads a Parquet sample file with Parquet.Net a row group at a time, handed out in batches of at most

@@ -2,7 +2,7 @@ using System.Runtime.CompilerServices;
 using Parquet;
 using Parquet.Schema;
 
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// Reads one flat numeric Parquet column, row group by row group, in its stored type, and hands it out as
@@ -118,11 +118,11 @@ internal abstract class ParquetColumnDecoder
         // Parquet.Net 6.1 returns wrong values (or divides by zero) for RLE-encoded booleans, found by comparing
         // with files written by Apache Arrow's writer; refusing is better than a silently wrong histogram.
         // Booleans are PLAIN or RLE; levels are always RLE, so without page statistics "no PLAIN" means RLE values.
-        private static bool HasRleBooleanValues(Parquet.Meta.ColumnMetaData metadata) =>
+        private static bool HasRleBooleanValues(global::Parquet.Meta.ColumnMetaData metadata) =>
             metadata.EncodingStats is { Count: > 0 } pages
-                ? pages.Any(p => p.PageType is Parquet.Meta.PageType.DATA_PAGE or Parquet.Meta.PageType.DATA_PAGE_V2
-                                 && p.Encoding == Parquet.Meta.Encoding.RLE)
-                : !metadata.Encodings.Contains(Parquet.Meta.Encoding.PLAIN);
+                ? pages.Any(p => p.PageType is global::Parquet.Meta.PageType.DATA_PAGE or global::Parquet.Meta.PageType.DATA_PAGE_V2
+                                 && p.Encoding == global::Parquet.Meta.Encoding.RLE)
+                : !metadata.Encodings.Contains(global::Parquet.Meta.Encoding.PLAIN);
 
         // typeof(T) tests on a value type are constants to the JIT, so each instantiation keeps only its own branch.
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
