@@ -11,7 +11,9 @@ namespace GateTasks.Engine.Samples.Parquet;
 /// chunk to chunk and the file is read at positions, so reading allocates nothing per chunk and threads can share
 /// one file handle. Parquet.Net reads the same chunks (the format is parquet-format's), but copies every page into
 /// fresh arrays, which made the decoding memory-bound; anything this reader does not handle is declined and left to
-/// Parquet.Net.
+/// Parquet.Net (the rule is stated where it is applied, in <see cref="ParquetColumnDecoder"/>). It reads the chunk's
+/// bytes and page headers itself; what it knows of the chunk (offsets, codec, encodings) is the file metadata
+/// Parquet.Net parsed from the footer.
 /// </summary>
 internal sealed class PlainChunkReader
 {
