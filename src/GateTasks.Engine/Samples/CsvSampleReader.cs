@@ -50,6 +50,9 @@ internal sealed class CsvSampleReader : ISampleReader
     /// <inheritdoc />
     public long? RowCount => null;
 
+    /// <inheritdoc />
+    public long MetadataBytes => 0; // the header's names are all it keeps
+
     /// <summary>Opens <paramref name="path"/> and reads its header row.</summary>
     /// <param name="path">The CSV file.</param>
     /// <param name="blockRows">Rows per batch.</param>
@@ -65,7 +68,7 @@ internal sealed class CsvSampleReader : ISampleReader
     }
 
     /// <inheritdoc />
-    public IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns)
+    public IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns, int parallelism = 1)
     {
         var indices = SampleColumnLookup.IndicesOf(Path, Columns, columns);
         return Batches(indices);
@@ -80,6 +83,7 @@ internal sealed class CsvSampleReader : ISampleReader
     private IEnumerable<SampleBatch> Batches(int[] indices)
     {
         using var csv = CreateReader(Path);
+        RequireHeaderUnchanged(csv);
         var buffers = indices.Select(_ => new double[_blockRows]).ToArray();
         // The line each row was read from (one number a row, not a cell), so a bad value found later, such as a
         // weight that is not finite, is reported at its line and column.
@@ -98,6 +102,16 @@ internal sealed class CsvSampleReader : ISampleReader
             }
         }
         if (rows > 0) yield return new SampleBatch(buffers, rows) { Locate = Locate };
+    }
+
+    // The columns were named when the file was opened; a header changed since would put other columns under them.
+    private void RequireHeaderUnchanged(CsvReader csv)
+    {
+        var header = Guard(Path, () => csv.Headers.ToArray());
+        if (header.Length == Columns.Count && header.Select(h => h.Trim()).SequenceEqual(Columns.Select(c => c.Name), StringComparer.Ordinal))
+            return;
+        throw SampleInputErrors.Unreadable(Path,
+            "it changed after the sample was opened (its header row is no longer the one read then); a sample must not change while it is read");
     }
 
     // Reads the file again up to the record at <paramref name="line"/> (an error path only): where its field starts

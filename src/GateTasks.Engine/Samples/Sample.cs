@@ -3,21 +3,37 @@ using GateTasks.Engine.Diagnostics;
 namespace GateTasks.Engine.Samples;
 
 /// <summary>
-/// A sample made of one or more files, read as one stream of batches in file order. Opening reads only each file's
-/// schema; files are opened one at a time while reading, so neither memory nor open handles grow with the sample.
+/// A sample made of one or more files, read as one stream of batches in file order. Opening reads and checks each
+/// file's schema (a Parquet footer, a CSV header) once, and what it read is used again by every pass; files are
+/// opened one at a time while reading, so no file handles are held between reads.
 /// </summary>
+/// <remarks>
+/// What opening read is kept for files whose stored metadata adds up to at most <see cref="KeptMetadataBytes"/>;
+/// a later file keeps only its column names and is opened (its footer parsed) again when read, so memory does not
+/// grow with the sample however many files or row groups it has.
+/// </remarks>
 internal sealed class Sample
 {
+    /// <summary>
+    /// The stored footer bytes a sample keeps parsed between opening and reading: a file of 20 columns in one row group
+    /// has a footer of a few kilobytes, so thousands of such files are opened once.
+    /// </summary>
+    internal const long KeptMetadataBytes = 16L << 20;
+
     private readonly IReadOnlyList<SampleColumn>[] _fileColumns;
+
+    // The readers made when the sample was opened, one per file (null where one was not kept).
+    private readonly ISampleReader?[] _readers;
 
     private readonly Lazy<IReadOnlyList<ShardFile>> _shards;
 
-    private Sample(IReadOnlyList<string> files, IReadOnlyList<SampleColumn>[] fileColumns, long? totalRows)
+    private Sample(IReadOnlyList<string> files, IReadOnlyList<SampleColumn>[] fileColumns, ISampleReader?[] readers, long? totalRows)
     {
         Files = files;
         _shards = new Lazy<IReadOnlyList<ShardFile>>(() => ShardContent.Identify(files));
         TotalRows = totalRows;
         _fileColumns = fileColumns;
+        _readers = readers;
         Columns = CommonColumns(fileColumns);
     }
 
@@ -69,13 +85,18 @@ internal sealed class Sample
     /// count its events twice) and, when there are several, digests every file's content (GATE2204 two files alike: a
     /// copy under another name).
     /// </summary>
-    public static Sample Open(IReadOnlyList<string> files)
+    public static Sample Open(IReadOnlyList<string> files) => Open(files, KeptMetadataBytes);
+
+    /// <summary>As <see cref="Open(IReadOnlyList{string})"/>, keeping what opening read up to <paramref name="keptMetadataBytes"/>.</summary>
+    internal static Sample Open(IReadOnlyList<string> files, long keptMetadataBytes)
     {
         if (files.Count == 0)
             throw new GateInputException(ErrorCodes.SampleNotFound, "the sample has no files");
 
         var seen = new HashSet<string>(StringComparer.Ordinal);
         var columns = new IReadOnlyList<SampleColumn>[files.Count];
+        var readers = new ISampleReader?[files.Count];
+        long kept = 0;
         long? totalRows = 0;
         for (var i = 0; i < files.Count; i++)
         {
@@ -83,11 +104,17 @@ internal sealed class Sample
                 throw new GateInputException(ErrorCodes.Usage,
                     $"sample file '{files[i]}' is listed twice; its events would be counted twice",
                     new SourceLocation(files[i]));
-            using var reader = SampleReaderFactory.Open(files[i]);
+            var reader = SampleReaderFactory.Open(files[i]);
             columns[i] = reader.Columns;
             totalRows = totalRows is { } t && reader.RowCount is { } r ? t + r : null;
+            if (kept + reader.MetadataBytes <= keptMetadataBytes)
+            {
+                readers[i] = reader;
+                kept += reader.MetadataBytes;
+            }
+            else reader.Dispose();
         }
-        var sample = new Sample(files.ToArray(), columns, totalRows);
+        var sample = new Sample(files.ToArray(), columns, readers, totalRows);
         if (files.Count > 1) _ = sample.Shards;
         return sample;
     }
@@ -109,11 +136,13 @@ internal sealed class Sample
         RowsRead = 0;
         BatchesRead = 0;
         var clock = System.Diagnostics.Stopwatch.StartNew();
-        foreach (var file in Files)
+        for (var i = 0; i < Files.Count; i++)
         {
+            var file = Files[i];
             CurrentFile = file;
-            using var reader = SampleReaderFactory.Open(file, Parallelism);
-            foreach (var batch in reader.ReadBatches(columns))
+            using var reopened = _readers[i] is null ? SampleReaderFactory.Open(file) : null;
+            var reader = _readers[i] ?? reopened!;
+            foreach (var batch in reader.ReadBatches(columns, Parallelism))
             {
                 RowsRead += batch.RowCount;
                 BatchesRead++;

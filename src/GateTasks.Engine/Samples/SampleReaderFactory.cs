@@ -1,4 +1,5 @@
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Samples.Parquet;
 
 namespace GateTasks.Engine.Samples;
 
@@ -11,10 +12,9 @@ internal static class SampleReaderFactory
     /// <summary>
     /// Opens <paramref name="path"/>: <c>.parquet</c> and <c>.pq</c> as Parquet, <c>.csv</c> as CSV, any other
     /// extension as Parquet when it starts with the Parquet magic bytes. GATE2001 when the file does not exist,
-    /// GATE2002 when it is in no supported format. <paramref name="parallelism"/> bounds the threads a reader may
-    /// decode with (Parquet decodes a row group's columns side by side).
+    /// GATE2002 when it is in no supported format.
     /// </summary>
-    public static ISampleReader Open(string path, int parallelism = 1)
+    public static ISampleReader Open(string path)
     {
         if (!File.Exists(path))
         {
@@ -23,9 +23,9 @@ internal static class SampleReaderFactory
         }
 
         var extension = System.IO.Path.GetExtension(path);
-        if (IsParquetExtension(extension)) return ParquetSampleReader.Open(path, parallelism);
+        if (IsParquetExtension(extension)) return ParquetSampleReader.Open(path);
         if (IsCsvExtension(extension)) return CsvSampleReader.Open(path);
-        if (StartsWithParquetMagic(path)) return ParquetSampleReader.Open(path, parallelism);
+        if (StartsWithParquetMagic(path)) return ParquetSampleReader.Open(path);
         throw SampleInputErrors.Unreadable(
             path, "not a Parquet file (no PAR1 signature) and not named .csv; supported: .parquet, .pq, .csv");
     }

@@ -1,5 +1,6 @@
 using System.Text;
 using GateTasks.Engine.Samples;
+using GateTasks.Engine.Samples.Parquet;
 
 namespace GateTasks.Benchmarks.Harness;
 

@@ -1,6 +1,7 @@
 using BenchmarkDotNet.Attributes;
 using GateTasks.Benchmarks.Harness;
 using GateTasks.Engine.Samples;
+using GateTasks.Engine.Samples.Parquet;
 
 namespace GateTasks.Benchmarks.Kernels;
 

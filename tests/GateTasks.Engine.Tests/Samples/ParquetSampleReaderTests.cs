@@ -1,5 +1,6 @@
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Samples;
+using GateTasks.Engine.Samples.Parquet;
 using ParquetSharp;
 
 namespace GateTasks.Engine.Tests.Samples;
@@ -141,9 +142,9 @@ public sealed class ParquetSampleReaderTests : IDisposable
         var columns = MixedColumns(groups.Sum(), lowCardinality: false, seed: 77);
         ParquetFixture.Write(path, columns, groups, b => b.Compression(Compression.Snappy));
 
-        using var reader = ParquetSampleReader.Open(path, parallelism);
+        using var reader = ParquetSampleReader.Open(path);
         var names = columns.Select(c => c.Name).ToArray();
-        var (values, batchRows) = SampleAssert.ReadAll(reader.ReadBatches(names), names.Length);
+        var (values, batchRows) = SampleAssert.ReadAll(reader.ReadBatches(names, parallelism), names.Length);
 
         const int slice = ParquetSampleReader.SliceRows;
         Assert.Equal([slice, slice, 150_000 - 2 * slice, slice, 70_000 - slice], batchRows);

@@ -1,5 +1,6 @@
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Samples;
+using GateTasks.Engine.Samples.Parquet;
 
 namespace GateTasks.Engine.Tests.Samples;
 

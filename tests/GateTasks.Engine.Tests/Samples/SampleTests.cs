@@ -83,4 +83,68 @@ public sealed class SampleTests : IDisposable
         Assert.Equal(ErrorCodes.SampleUnreadable, error.Code);
         Assert.Equal(bad, error.Location?.File);
     }
+    // Two columns of equal size, written by ParquetSharp without dictionaries or compression, in the order given: swapping
+    // them moves no chunk, so only the footer tells which column a chunk belongs to.
+    private static void WriteTwoColumns(string path, bool swapped)
+    {
+        var a = new ParquetFixtureColumn<double>("a", [1, 2, 3], v => v);
+        var b = new ParquetFixtureColumn<double>("b", [10, 20, 30], v => v);
+        ParquetFixture.Write(path, swapped ? [b, a] : [a, b], [3],
+            builder => builder.Compression(ParquetSharp.Compression.Uncompressed).DisableDictionary());
+    }
+
+    [Fact]
+    public void AParquetFileRewrittenAfterOpeningIsRefusedNotReadWithTheFooterReadThen()
+    {
+        // The footer parsed when the sample is opened is used again to read it; a file rewritten in between (here with
+        // its two columns swapped, every chunk where it was) would have column 'b' read as 'a'. Documented behaviour:
+        // docs/error-codes.md, GATE2002.
+        var path = _folder.File("a.parquet");
+        WriteTwoColumns(path, swapped: false);
+        var sample = Sample.Open([path]);
+        WriteTwoColumns(path, swapped: true);
+
+        var error = Assert.Throws<GateInputException>(() => SampleAssert.ReadAll(sample.ReadBatches(["a"]), 1));
+
+        Assert.Equal(ErrorCodes.SampleUnreadable, error.Code);
+        Assert.Equal(path, error.Location?.File);
+        Assert.Contains("changed after the sample was opened", error.Message);
+    }
+
+    [Fact]
+    public void ACsvFileWhoseHeaderChangedAfterOpeningIsRefused()
+    {
+        // The header read when the sample is opened names the columns every pass reads (docs/error-codes.md, GATE2002).
+        var path = _folder.File("a.csv");
+        File.WriteAllText(path, "a,b\n1,10\n2,20\n");
+        var sample = Sample.Open([path]);
+        File.WriteAllText(path, "b,a\n10,1\n20,2\n");
+
+        var error = Assert.Throws<GateInputException>(() => SampleAssert.ReadAll(sample.ReadBatches(["a"]), 1));
+
+        Assert.Equal(ErrorCodes.SampleUnreadable, error.Code);
+        Assert.Contains("changed after the sample was opened", error.Message);
+    }
+
+    [Fact]
+    public void FilesBeyondTheKeptMetadataAreOpenedAgainWhenRead()
+    {
+        // Compares the program with itself: with no metadata kept, every file is opened again when read, so the same
+        // files give the same batches, and a file rewritten since opening is read as it is now (values written by
+        // ParquetSharp above).
+        var first = _folder.File("a.parquet");
+        WriteTwoColumns(first, swapped: false);
+        var second = _folder.File("b.parquet");
+        WriteTwoColumns(second, swapped: true);
+        var kept = SampleAssert.ReadAll(Sample.Open([first, second]).ReadBatches(["a", "b"]), 2);
+        var reopened = Sample.Open([first, second], keptMetadataBytes: 0);
+        WriteTwoColumns(first, swapped: true);
+
+        var (values, batchRows) = SampleAssert.ReadAll(reopened.ReadBatches(["a", "b"]), 2);
+
+        Assert.Equal(kept.BatchRows, batchRows);
+        SampleAssert.Identical(kept.Columns[0], values[0], "a");
+        SampleAssert.Identical(kept.Columns[1], values[1], "b");
+        SampleAssert.Identical([1, 2, 3, 1, 2, 3], values[0], "a");
+    }
 }

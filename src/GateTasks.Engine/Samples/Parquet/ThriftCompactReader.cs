@@ -1,21 +1,31 @@
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
-/// Reads Apache Thrift's compact protocol (as Parquet stores its page headers) from a byte span: field headers,
-/// zigzag varints, and skipping of whatever a reader does not need. Throws <see cref="InvalidDataException"/> on
-/// anything malformed or truncated; nesting is bounded, so hostile bytes cannot recurse without end.
+/// Reads Apache Thrift's compact protocol, as Parquet stores its footer and its page headers, from a byte span: field
+/// headers, zigzag varints, and skipping of whatever a reader does not need. The one hand-written reader of that
+/// encoding here: page headers are read with it (<see cref="ParquetPageHeader"/>), and the footer is walked with it
+/// (<see cref="ParquetFooterCheck"/>) before Parquet.Net builds the file metadata from it. Throws
+/// <see cref="InvalidDataException"/> on anything malformed or truncated (<see cref="OverflowException"/> for a
+/// size or field id beyond its type's range); a count longer than the bytes left cannot be real, and nesting is
+/// bounded, so hostile bytes can neither loop long nor recurse without end.
 /// </summary>
+/// <remarks>Encoding: Apache Thrift, doc/specs/thrift-compact-protocol.md.</remarks>
 internal ref struct ThriftCompactReader(ReadOnlySpan<byte> bytes)
 {
     /// <summary>Compact-protocol type codes.</summary>
     public const byte Stop = 0, BoolTrue = 1, BoolFalse = 2, Byte = 3, I16 = 4, I32 = 5, I64 = 6, Double = 7,
-        Binary = 8, List = 9, Set = 10, Map = 11, Struct = 12;
+        Binary = 8, List = 9, Set = 10, Map = 11, Struct = 12, Uuid = 13;
 
-    private const int MaxDepth = 32;
+    private const int MaxDepth = 64; // a Parquet footer nests about six deep, a page header three
     private readonly ReadOnlySpan<byte> _bytes = bytes;
 
     /// <summary>Bytes consumed so far.</summary>
     public int Position { get; private set; }
+
+    /// <summary>Whether every byte has been consumed.</summary>
+    public readonly bool AtEnd => Position == _bytes.Length;
+
+    private readonly int Remaining => _bytes.Length - Position;
 
     /// <summary>
     /// The next field of the current struct: its id and type, or type <see cref="Stop"/> at the struct's end.
@@ -46,29 +56,30 @@ internal ref struct ThriftCompactReader(ReadOnlySpan<byte> bytes)
         return (int)value;
     }
 
-    /// <summary>Skips a value of <paramref name="type"/>.</summary>
-    public void Skip(byte type) => Skip(type, 0);
+    /// <summary>Skips a field's value of <paramref name="type"/> (a boolean field's value lives in its header).</summary>
+    public void Skip(byte type) => Skip(type, 0, element: false);
 
-    private void Skip(byte type, int depth)
+    private void Skip(byte type, int depth, bool element)
     {
         if (depth > MaxDepth) throw new InvalidDataException("Thrift structures are nested too deeply");
         switch (type)
         {
-            case BoolTrue or BoolFalse: return; // a field's boolean lives in its header
+            case BoolTrue or BoolFalse:
+                if (element) Advance(1); // in a list, set or map a boolean takes a byte
+                return;
             case Byte: Advance(1); return;
             case I16 or I32 or I64: ReadVarint(); return;
             case Double: Advance(8); return;
             case Binary: Advance(checked((int)ReadVarint())); return;
+            case Uuid: Advance(16); return;
             case List or Set:
             {
                 var header = ReadByte();
                 var size = header >> 4 == 15 ? checked((int)ReadVarint()) : header >> 4;
-                var element = (byte)(header & 0x0F);
-                for (var i = 0; i < size; i++)
-                {
-                    if (element is BoolTrue or BoolFalse) Advance(1); // in a list a boolean takes a byte
-                    else Skip(element, depth + 1);
-                }
+                // Every element takes at least one byte, so a longer list cannot be real.
+                if (size > Remaining) throw new InvalidDataException("a Thrift structure is truncated");
+                var elementType = (byte)(header & 0x0F);
+                for (var i = 0; i < size; i++) Skip(elementType, depth + 1, element: true);
                 return;
             }
             case Map:
@@ -76,22 +87,23 @@ internal ref struct ThriftCompactReader(ReadOnlySpan<byte> bytes)
                 var size = checked((int)ReadVarint());
                 if (size == 0) return;
                 var types = ReadByte();
+                if (size > Remaining / 2) throw new InvalidDataException("a Thrift structure is truncated");
                 for (var i = 0; i < size; i++)
                 {
-                    Skip((byte)(types >> 4), depth + 1);
-                    Skip((byte)(types & 0x0F), depth + 1);
+                    Skip((byte)(types >> 4), depth + 1, element: true);
+                    Skip((byte)(types & 0x0F), depth + 1, element: true);
                 }
                 return;
             }
             case Struct:
             {
-                short last = 0;
                 while (true)
                 {
-                    var (id, fieldType) = ReadFieldHeader(last);
-                    if (fieldType == Stop) return;
-                    Skip(fieldType, depth + 1);
-                    last = id;
+                    // Only the type matters when skipping: an explicit field id is stepped over, not range-checked.
+                    var header = ReadByte();
+                    if (header == Stop) return;
+                    if (header >> 4 == 0) ReadVarint();
+                    Skip((byte)(header & 0x0F), depth + 1, element: false);
                 }
             }
             default: throw new InvalidDataException($"unknown Thrift type {type}");

@@ -1,4 +1,4 @@
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// Decodes Parquet's RLE / bit-packing hybrid encoding (parquet-format, "Run Length Encoding / Bit-Packing Hybrid"),

@@ -1,13 +1,18 @@
 using GateTasks.Engine.Diagnostics;
+using Microsoft.Win32.SafeHandles;
 using Parquet;
+using Parquet.Meta;
 using Parquet.Schema;
 
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
-/// Reads a Parquet sample file with Parquet.Net a row group at a time, handed out in batches of at most
-/// <see cref="SliceRows"/> rows. Only the footer is read on opening; data is read column chunk by column chunk as
-/// batches are requested.
+/// A Parquet sample file, opened once: its footer is checked and parsed (by Parquet.Net) and its schema described
+/// when it is opened, and that metadata is kept and used for every read, so a file is not parsed again however many
+/// passes read it. No file handle is held between reads: each read opens the file, makes sure it still ends in the
+/// footer read at opening (<see cref="ParquetFooterStamp"/>), and reads it a row group at a time, handed out in
+/// batches of at most <see cref="SliceRows"/> rows, column chunk by column chunk (which reader takes a chunk is
+/// decided in <see cref="ParquetColumnDecoder"/>).
 /// </summary>
 /// <remarks>
 /// Parquet.Net is asynchronous; its calls are awaited synchronously, which is safe for the console and MSBuild
@@ -21,16 +26,18 @@ internal sealed class ParquetSampleReader : ISampleReader
     /// </summary>
     internal const int SliceRows = 1 << 16;
 
-    private readonly ParquetReader _reader;
+    private readonly FileMetaData _metadata;
     private readonly DataField?[] _fields;
+    private readonly ParquetFooterStamp _footer;
 
-    private ParquetSampleReader(string path, ParquetReader reader, IReadOnlyList<SampleColumn> columns, DataField?[] fields, int parallelism)
+    private ParquetSampleReader(string path, FileMetaData metadata, IReadOnlyList<SampleColumn> columns, DataField?[] fields,
+        ParquetFooterStamp footer)
     {
         Path = path;
-        Parallelism = Math.Max(1, parallelism);
-        _reader = reader;
+        _metadata = metadata;
         Columns = columns;
         _fields = fields;
+        _footer = footer;
     }
 
     /// <inheritdoc />
@@ -40,70 +47,71 @@ internal sealed class ParquetSampleReader : ISampleReader
     public IReadOnlyList<SampleColumn> Columns { get; }
 
     /// <inheritdoc />
-    public long? RowCount => _reader.Metadata?.NumRows;
+    public long? RowCount => _metadata.NumRows;
 
-    /// <summary>How many columns of a row group are decoded side by side (each thread with its own reader).</summary>
-    public int Parallelism { get; }
+    /// <inheritdoc />
+    public long MetadataBytes => _footer.FooterLength;
+
+    private int RowGroupCount => _metadata.RowGroups?.Count ?? 0;
 
     /// <summary>
-    /// Opens <paramref name="path"/> and reads its schema; GATE2001/GATE2002 when it cannot. Up to
-    /// <paramref name="parallelism"/> columns of a row group are decoded side by side.
+    /// Opens <paramref name="path"/>, checks its frame, footer and chunk layout, and reads its schema; GATE2001/GATE2002
+    /// when it cannot. The file is closed again before this returns.
     /// </summary>
-    public static ParquetSampleReader Open(string path, int parallelism = 1)
+    public static ParquetSampleReader Open(string path)
     {
         var stream = SampleInputErrors.OpenRead(path, FileOptions.RandomAccess);
         ParquetReader? reader = null;
         try
         {
             if (ParquetFooterCheck.Problem(stream) is { } problem)
-            {
-                stream.Dispose();
                 throw SampleInputErrors.Unreadable(path, problem);
-            }
-            reader = ParquetReader.CreateAsync(stream, leaveStreamOpen: false).GetAwaiter().GetResult();
+            var footer = ParquetFooterStamp.Read(stream.SafeFileHandle);
+            reader = ParquetReader.CreateAsync(stream, leaveStreamOpen: true).GetAwaiter().GetResult();
             var (columns, fields) = DescribeSchema(path, reader.Schema);
-            if (reader.Metadata is { } metadata && ParquetChunkLayout.Problem(stream, metadata) is { } damage)
+            var metadata = reader.Metadata ?? throw new InvalidDataException("the footer holds no file metadata");
+            if (ParquetChunkLayout.Problem(stream, metadata) is { } damage)
                 throw SampleInputErrors.Unreadable(path, damage);
-            return new ParquetSampleReader(path, reader, columns, fields, parallelism);
-        }
-        catch (GateInputException)
-        {
-            reader?.DisposeAsync().AsTask().GetAwaiter().GetResult();
-            stream.Dispose();
-            throw;
+            return new ParquetSampleReader(path, metadata, columns, fields, footer);
         }
         catch (Exception ex) when (SampleInputErrors.IsReadFailure(ex))
         {
+            throw SampleInputErrors.Unreadable(path, "not a valid Parquet file (" + SampleInputErrors.Describe(ex) + ")", ex);
+        }
+        finally
+        {
             reader?.DisposeAsync().AsTask().GetAwaiter().GetResult();
             stream.Dispose();
-            throw SampleInputErrors.Unreadable(path, "not a valid Parquet file (" + SampleInputErrors.Describe(ex) + ")", ex);
         }
     }
 
     /// <inheritdoc />
-    public IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns)
+    public IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns, int parallelism = 1)
     {
         // Validate before the iterator starts, so a bad name fails at the call, not at the first MoveNext.
         var indices = SampleColumnLookup.IndicesOf(Path, Columns, columns);
         var rowGroupSizes = RowGroupSizes();
-        return Batches(indices, rowGroupSizes);
+        return Batches(indices, rowGroupSizes, Math.Max(1, parallelism));
     }
 
     /// <inheritdoc />
-    public void Dispose() => _reader.DisposeAsync().AsTask().GetAwaiter().GetResult();
+    public void Dispose()
+    {
+        // Each read opens its own file handle and closes it when enumeration ends; nothing is held between reads.
+    }
 
-    private IEnumerable<SampleBatch> Batches(int[] indices, int[] rowGroupSizes)
+    private IEnumerable<SampleBatch> Batches(int[] indices, int[] rowGroupSizes, int parallelism)
     {
         var largest = rowGroupSizes.Length == 0 ? 0 : Math.Min(rowGroupSizes.Max(), SliceRows);
         var decoders = indices.Select(i => ParquetColumnDecoder.Create(_fields[i]!, Columns[i].Type)).ToArray();
         var buffers = indices.Select(_ => new double[largest]).ToArray();
-        // One reader per decoding thread: a reader shares one stream between its columns, so it cannot be used by
-        // two threads at once. The first is the one opened with the schema; the others are opened when needed.
-        var readers = new ParquetReader?[Math.Clamp(Parallelism, 1, Math.Max(1, decoders.Length))];
-        readers[0] = _reader;
-        var plainReaders = readers.Select(_ => new PlainChunkReader()).ToArray(); // one per thread: they hold its byte buffers
+        var threads = Math.Clamp(parallelism, 1, Math.Max(1, decoders.Length));
+        // Parquet.Net's readers, one per decoding thread (a reader shares one stream between its columns, so it cannot
+        // be used by two threads at once), are opened only for a chunk the plain-chunk reader does not take.
+        var libraryReaders = new ParquetReader?[threads];
+        var plainReaders = libraryReaders.Select(_ => new PlainChunkReader()).ToArray(); // one per thread: they hold its byte buffers
         // Read at positions, so every decoding thread can share it.
-        using var file = OpenHandle();
+        using var file = OpenUnchanged();
         try
         {
             long groupStart = 0; // rows of the file before this row group
@@ -111,7 +119,7 @@ internal sealed class ParquetSampleReader : ISampleReader
             {
                 var rows = rowGroupSizes[group];
                 if (rows == 0) continue; // an empty row group carries no events; a batch of none would only confuse counts
-                DecodeRowGroup(group, rows, decoders, readers, plainReaders, file);
+                DecodeRowGroup(group, rows, decoders, libraryReaders, plainReaders, file);
                 for (var start = 0; start < rows; start += SliceRows)
                 {
                     var count = Math.Min(SliceRows, rows - start);
@@ -127,7 +135,7 @@ internal sealed class ParquetSampleReader : ISampleReader
         }
         finally
         {
-            for (var r = 1; r < readers.Length; r++) readers[r]?.DisposeAsync().AsTask().GetAwaiter().GetResult();
+            foreach (var reader in libraryReaders) reader?.DisposeAsync().AsTask().GetAwaiter().GetResult();
         }
     }
 
@@ -137,23 +145,24 @@ internal sealed class ParquetSampleReader : ISampleReader
             decoder.IsNull(rowInGroup) ? "a null (a missing value)" : InvariantNumber.Short(value));
 
     // Kept out of the iterator: C# forbids catch blocks around yield.
-    private void DecodeRowGroup(int group, int rows, ParquetColumnDecoder[] decoders, ParquetReader?[] readers, PlainChunkReader[] plainReaders, Microsoft.Win32.SafeHandles.SafeFileHandle file)
+    private void DecodeRowGroup(int group, int rows, ParquetColumnDecoder[] decoders, ParquetReader?[] libraryReaders, PlainChunkReader[] plainReaders, SafeFileHandle file)
     {
         // Each column lands in its own decoder's buffers, so decoding them side by side changes nothing but the time;
         // a failure is reported for the first failing column, as a sequential read would.
         var failures = new Exception?[decoders.Length];
         var next = -1;
+        var rowGroup = _metadata.RowGroups![group];
         void Work(int worker)
         {
-            ParquetRowGroupReader? rowGroup = null;
+            ParquetRowGroupReader? library = null;
+            ParquetRowGroupReader Library() => library ??= (libraryReaders[worker] ??= OpenLibraryReader()).OpenRowGroupReader(group);
             try
             {
                 for (var c = Interlocked.Increment(ref next); c < decoders.Length; c = Interlocked.Increment(ref next))
                 {
                     try
                     {
-                        rowGroup ??= (readers[worker] ??= OpenAnotherReader()).OpenRowGroupReader(group);
-                        decoders[c].Read(rowGroup, rows, file, plainReaders[worker]);
+                        decoders[c].Read(rowGroup, rows, file, plainReaders[worker], Library);
                     }
                     catch (Exception ex)
                     {
@@ -163,11 +172,11 @@ internal sealed class ParquetSampleReader : ISampleReader
             }
             finally
             {
-                rowGroup?.Dispose();
+                library?.Dispose();
             }
         }
-        if (readers.Length == 1 || decoders.Length < 2) Work(0);
-        else Parallel.For(0, readers.Length, new ParallelOptions { MaxDegreeOfParallelism = readers.Length }, Work);
+        if (libraryReaders.Length == 1 || decoders.Length < 2) Work(0);
+        else Parallel.For(0, libraryReaders.Length, new ParallelOptions { MaxDegreeOfParallelism = libraryReaders.Length }, Work);
 
         var failed = Array.FindIndex(failures, f => f is not null);
         if (failed < 0) return;
@@ -176,26 +185,42 @@ internal sealed class ParquetSampleReader : ISampleReader
         if (failure is NotSupportedException)
             // A valid file using something this reader cannot decode: say what, not "damaged".
             throw SampleInputErrors.Unreadable(
-                Path, $"row group {group + 1} of {_reader.RowGroupCount}: {SampleInputErrors.Describe(failure)}", failure);
+                Path, $"row group {group + 1} of {RowGroupCount}: {SampleInputErrors.Describe(failure)}", failure);
         if (SampleInputErrors.IsReadFailure(failure))
             throw SampleInputErrors.Unreadable(
-                Path, $"row group {group + 1} of {_reader.RowGroupCount}, column '{decoders[failed].Column}', is damaged ({SampleInputErrors.Describe(failure)})", failure);
+                Path, $"row group {group + 1} of {RowGroupCount}, column '{decoders[failed].Column}', is damaged ({SampleInputErrors.Describe(failure)})", failure);
         System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(failure);
     }
 
-    private Microsoft.Win32.SafeHandles.SafeFileHandle OpenHandle()
+    // Opens the file for reading at positions; the metadata kept from opening fits it only if its footer is unchanged.
+    private SafeFileHandle OpenUnchanged()
     {
+        SafeFileHandle file;
         try
         {
-            return File.OpenHandle(Path, FileMode.Open, FileAccess.Read, FileShare.Read, FileOptions.RandomAccess);
+            file = File.OpenHandle(Path, FileMode.Open, FileAccess.Read, FileShare.Read, FileOptions.RandomAccess);
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or NotSupportedException or ArgumentException)
         {
             throw SampleInputErrors.OpenFailure(Path, ex);
         }
+        try
+        {
+            if (ParquetFooterStamp.Read(file) == _footer) return file;
+        }
+        catch (IOException ex)
+        {
+            file.Dispose();
+            throw SampleInputErrors.Unreadable(Path, SampleInputErrors.Describe(ex), ex);
+        }
+        file.Dispose();
+        throw SampleInputErrors.Unreadable(Path,
+            "it changed after the sample was opened (it no longer ends in the footer read then); a sample must not change while it is read");
     }
 
-    private ParquetReader OpenAnotherReader()
+    // Parquet.Net parses the footer again for its own reader (it cannot be handed the metadata already parsed): only
+    // for a file with a chunk the plain-chunk reader does not take, and only after the footer was found unchanged.
+    private ParquetReader OpenLibraryReader()
     {
         var stream = SampleInputErrors.OpenRead(Path, FileOptions.RandomAccess);
         try
@@ -211,10 +236,10 @@ internal sealed class ParquetSampleReader : ISampleReader
 
     private int[] RowGroupSizes()
     {
-        var sizes = new int[_reader.RowGroupCount];
+        var sizes = new int[RowGroupCount];
         for (var g = 0; g < sizes.Length; g++)
         {
-            var rows = _reader.Metadata?.RowGroups[g].NumRows ?? -1;
+            var rows = _metadata.RowGroups![g].NumRows;
             if (rows < 0 || rows > Array.MaxLength)
                 throw SampleInputErrors.Unreadable(
                     Path, $"row group {g + 1} claims {rows} rows, which cannot be read in one piece");
@@ -247,7 +272,7 @@ internal sealed class ParquetSampleReader : ISampleReader
         return (columns, fields);
     }
 
-    private static SampleValueType TypeOf(Type clrType) =>
+    private static SampleValueType TypeOf(System.Type clrType) =>
         clrType == typeof(float) ? SampleValueType.Float32
         : clrType == typeof(double) ? SampleValueType.Float64
         : clrType == typeof(sbyte) ? SampleValueType.Int8

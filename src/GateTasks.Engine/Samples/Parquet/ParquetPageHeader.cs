@@ -1,4 +1,4 @@
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// What the plain-column reader needs of a Parquet page header (parquet-format's <c>PageHeader</c> with its data-page

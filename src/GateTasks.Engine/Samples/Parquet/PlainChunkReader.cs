@@ -3,7 +3,7 @@ using System.Runtime.InteropServices;
 using Microsoft.Win32.SafeHandles;
 using Parquet.Meta;
 
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// Reads a flat numeric column chunk stored PLAIN (no dictionary) straight from the file into the caller's buffers,
@@ -11,7 +11,9 @@ namespace GateTasks.Engine.Samples;
 /// chunk to chunk and the file is read at positions, so reading allocates nothing per chunk and threads can share
 /// one file handle. Parquet.Net reads the same chunks (the format is parquet-format's), but copies every page into
 /// fresh arrays, which made the decoding memory-bound; anything this reader does not handle is declined and left to
-/// Parquet.Net.
+/// Parquet.Net (the rule is stated where it is applied, in <see cref="ParquetColumnDecoder"/>). It reads the chunk's
+/// bytes and page headers itself; what it knows of the chunk (offsets, codec, encodings) is the file metadata
+/// Parquet.Net parsed from the footer.
 /// </summary>
 internal sealed class PlainChunkReader
 {
@@ -25,11 +27,11 @@ internal sealed class PlainChunkReader
     public static bool Supports<T>(ColumnMetaData metadata) where T : struct
     {
         if (!BitConverter.IsLittleEndian) return false; // PLAIN values are little-endian
-        var physical = typeof(T) == typeof(float) ? Parquet.Meta.Type.FLOAT
-            : typeof(T) == typeof(double) ? Parquet.Meta.Type.DOUBLE
-            : typeof(T) == typeof(int) ? Parquet.Meta.Type.INT32
-            : typeof(T) == typeof(long) ? Parquet.Meta.Type.INT64
-            : (Parquet.Meta.Type?)null;
+        var physical = typeof(T) == typeof(float) ? global::Parquet.Meta.Type.FLOAT
+            : typeof(T) == typeof(double) ? global::Parquet.Meta.Type.DOUBLE
+            : typeof(T) == typeof(int) ? global::Parquet.Meta.Type.INT32
+            : typeof(T) == typeof(long) ? global::Parquet.Meta.Type.INT64
+            : (global::Parquet.Meta.Type?)null;
         return physical == metadata.Type
                && metadata.DictionaryPageOffset is null or 0
                && metadata.Encodings.All(e => (int)e is PlainEncoding or RleEncoding or BitPackedEncoding)

@@ -1,8 +1,10 @@
 using System.Runtime.CompilerServices;
+using Microsoft.Win32.SafeHandles;
 using Parquet;
+using Parquet.Meta;
 using Parquet.Schema;
 
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// Reads one flat numeric Parquet column, row group by row group, in its stored type, and hands it out as
@@ -32,11 +34,13 @@ internal abstract class ParquetColumnDecoder
     public abstract string Column { get; }
 
     /// <summary>
-    /// Reads the column's chunk in <paramref name="rowGroup"/> (<paramref name="rows"/> rows) into the decoder's
-    /// buffers: through <paramref name="plain"/> (the calling thread's, reading <paramref name="file"/>) where it can,
-    /// else through Parquet.Net. Throws <see cref="InvalidDataException"/> when the chunk does not hold one value or null per row.
+    /// Reads the column's chunk in <paramref name="rowGroup"/> (<paramref name="rows"/> rows, as the metadata kept from
+    /// opening describes it) into the decoder's buffers: through <paramref name="plain"/> (the calling thread's, reading
+    /// <paramref name="file"/>) where it can, else through the calling thread's Parquet.Net row-group reader, opened by
+    /// <paramref name="library"/> when first needed. Throws <see cref="InvalidDataException"/> when the chunk does not
+    /// hold one value or null per row.
     /// </summary>
-    public abstract void Read(ParquetRowGroupReader rowGroup, int rows, Microsoft.Win32.SafeHandles.SafeFileHandle file, PlainChunkReader plain);
+    public abstract void Read(RowGroup rowGroup, int rows, SafeFileHandle file, PlainChunkReader plain, Func<ParquetRowGroupReader> library);
 
     /// <summary>
     /// Converts the next <paramref name="destination"/>.Length rows of the chunk last read into doubles; a null
@@ -56,9 +60,9 @@ internal abstract class ParquetColumnDecoder
 
         public override string Column => @field.Name;
 
-        public override void Read(ParquetRowGroupReader rowGroup, int rows, Microsoft.Win32.SafeHandles.SafeFileHandle file, PlainChunkReader plain)
+        public override void Read(RowGroup rowGroup, int rows, SafeFileHandle file, PlainChunkReader plain, Func<ParquetRowGroupReader> library)
         {
-            var metadata = rowGroup.GetMetadata(field)?.MetaData
+            var metadata = ChunkOf(rowGroup)?.MetaData
                 ?? throw new InvalidDataException($"column '{field.Name}' has no data in a row group");
             // A flat column stores one entry (value or null) per row; anything else is a damaged or nested file.
             if (metadata.NumValues != rows)
@@ -77,8 +81,12 @@ internal abstract class ParquetColumnDecoder
 
             _nextRow = 0;
             _nextValue = 0;
-            // The common case (float, double, int or long, stored PLAIN: what Supports accepts) is read without a copy
-            // per page; the rest by Parquet.Net.
+            // Who reads the chunk, decided here alone: the plain-chunk reader takes a chunk of float, double, int32 or
+            // int64 values whose metadata says it is stored PLAIN (no dictionary page; PLAIN values with RLE or
+            // bit-packed levels; uncompressed, Snappy, Zstandard or gzip: PlainChunkReader.Supports) and whose pages
+            // all say so too (TryRead declines at the first that does not). Every other chunk (dictionary-encoded,
+            // small or unsigned integers, booleans, other codecs, a page declined) is read by Parquet.Net, after the
+            // plain-chunk reader has verified its pages' checksums and value counts, which the library does not.
             if (PlainChunkReader.Supports<T>(metadata)
                 && plain.TryRead(file, metadata, field.MaxDefinitionLevel, rows, _values.AsSpan(0, rows), _definitionLevels.AsSpan(0, nullable ? rows : 0)))
                 return;
@@ -86,12 +94,23 @@ internal abstract class ParquetColumnDecoder
             plain.VerifyChecksums(file, metadata);
             // The raw read fills the values densely (nulls skipped) plus one definition level per row, into our
             // buffers; the library's nullable overload would allocate two temporary buffers per row group.
-            rowGroup.ReadRawAsync<T>(
+            library().ReadRawAsync<T>(
                     field,
                     _values.AsMemory(0, rows),
                     nullable ? _definitionLevels.AsMemory(0, rows) : (Memory<int>?)null, // a bare null would become an empty Memory
                     null)
                 .AsTask().GetAwaiter().GetResult();
+        }
+
+        // As Parquet.Net maps a row group's chunks to fields: by their path in the schema, a later chunk of one path
+        // taking the place of an earlier one.
+        private ColumnChunk? ChunkOf(RowGroup rowGroup)
+        {
+            ColumnChunk? found = null;
+            foreach (var chunk in rowGroup.Columns ?? [])
+                if (chunk.MetaData?.PathInSchema is { } path && field.Path.Equals(new FieldPath(path)))
+                    found = chunk;
+            return found;
         }
 
         public override bool IsNull(int row) => field.MaxDefinitionLevel > 0 && _definitionLevels[row] < field.MaxDefinitionLevel;
@@ -118,11 +137,11 @@ internal abstract class ParquetColumnDecoder
         // Parquet.Net 6.1 returns wrong values (or divides by zero) for RLE-encoded booleans, found by comparing
         // with files written by Apache Arrow's writer; refusing is better than a silently wrong histogram.
         // Booleans are PLAIN or RLE; levels are always RLE, so without page statistics "no PLAIN" means RLE values.
-        private static bool HasRleBooleanValues(Parquet.Meta.ColumnMetaData metadata) =>
+        private static bool HasRleBooleanValues(ColumnMetaData metadata) =>
             metadata.EncodingStats is { Count: > 0 } pages
-                ? pages.Any(p => p.PageType is Parquet.Meta.PageType.DATA_PAGE or Parquet.Meta.PageType.DATA_PAGE_V2
-                                 && p.Encoding == Parquet.Meta.Encoding.RLE)
-                : !metadata.Encodings.Contains(Parquet.Meta.Encoding.PLAIN);
+                ? pages.Any(p => p.PageType is global::Parquet.Meta.PageType.DATA_PAGE or global::Parquet.Meta.PageType.DATA_PAGE_V2
+                                 && p.Encoding == global::Parquet.Meta.Encoding.RLE)
+                : !metadata.Encodings.Contains(global::Parquet.Meta.Encoding.PLAIN);
 
         // typeof(T) tests on a value type are constants to the JIT, so each instantiation keeps only its own branch.
         [MethodImpl(MethodImplOptions.AggressiveInlining)]

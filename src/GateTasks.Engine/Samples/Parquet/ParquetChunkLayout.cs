@@ -1,7 +1,7 @@
 using System.Buffers.Binary;
 using Parquet.Meta;
 
-namespace GateTasks.Engine.Samples;
+namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// Checks where a Parquet footer places the column chunks against the file itself, from the footer alone: every
