@@ -263,6 +263,15 @@ public sealed class ContractCheckTests : IDisposable
         Write("surrogate.csv", sx, sy);
         var faithful = ContractCheck.Run(contract);
         Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+        // Each outcome names what it was made on, at its declaration in the contract above (the program against its own
+        // contract): the features, the pair (its entry, line 13), the joint block (its mapping, line 18).
+        Assert.Equal(["x", "y"], faithful.Outcomes.Where(o => o.Subject is FeatureSubject).Select(o => o.Subject.Name).Distinct());
+        var pairOutcomes = faithful.Outcomes.Where(o => o.Subject is PairSubject).ToList();
+        Assert.Equal([CheckKind.PearsonDifference, CheckKind.SpearmanDifference, CheckKind.ChiSquare2DTest], pairOutcomes.Select(o => o.Check.Kind));
+        Assert.All(pairOutcomes, o => Assert.Equal(("x~y", 13), (o.Subject.Name, o.Subject.Location.Line)));
+        var jointOutcome = Assert.Single(faithful.Outcomes, o => o.Subject is JointSubject);
+        Assert.Equal(CheckKind.EnergyTest, jointOutcome.Check.Kind);
+        Assert.Equal(("joint(x,y)", 18), (jointOutcome.Subject.Name, jointOutcome.Subject.Location.Line));
 
         // Same marginals, joint structure destroyed: y shuffled against x.
         var shuffled = sy.OrderBy(v => BitConverter.DoubleToInt64Bits(v) * 2654435761L).ToArray();
