@@ -156,10 +156,10 @@ internal static class CheckCommand
         stdout.Write(ResultTable.Format(report));
         stdout.WriteLine();
         foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Fail))
-            stderr.WriteLine($"{o.Check.Location}: error {CheckEvaluator.DriftCode(o.Check)}: feature '{o.Feature.Name}' {o.Check.Label}: {o.Summary}");
+            stderr.WriteLine($"{o.Check.Location}: error {CheckEvaluator.DriftCode(o.Check)}: feature '{o.Subject.Name}' {o.Check.Label}: {o.Summary}");
         var severity = report.Contract.Decision.InconclusiveFails ? "error" : "warning";
         foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive))
-            stderr.WriteLine($"{o.Check.Location}: {severity} {CheckEvaluator.InconclusiveCode}: feature '{o.Feature.Name}' {o.Check.Label} is inconclusive: {o.Summary}; " +
+            stderr.WriteLine($"{o.Check.Location}: {severity} {CheckEvaluator.InconclusiveCode}: feature '{o.Subject.Name}' {o.Check.Label} is inconclusive: {o.Summary}; " +
                              ResultTable.NeededText(o.Measured.EventsNeeded));
         foreach (var f in report.Acceptance)
             stderr.WriteLine($"{f.Location}: {(f.IsError ? "error" : "warning")} {f.Code}: {f.Message}");

@@ -31,7 +31,7 @@ internal static class CalibrationStudy
         Parallel.For(0, replicas, () => (Failed: 0, Inconclusive: 0), (r, _, local) =>
         {
             var rng = new Xoshiro256StarStar(unchecked(seed * 1_000_003 + r), threadSafe: false);
-            var measured = new List<(FeatureSpec, CheckSpec, Measurement)>();
+            var measured = new List<(CheckSubject, CheckSpec, Measurement)>();
             for (var i = 0; i < features.Count; i++)
                 measured.AddRange(features[i].Measure(probabilities[i], drifts[i], events, contract.Decision, rng));
             var outcomes = VerdictRule.Decide(measured, contract.Decision);

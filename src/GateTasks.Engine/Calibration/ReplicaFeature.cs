@@ -20,6 +20,7 @@ internal sealed class ReplicaFeature
     private ReplicaFeature(FeatureSpec spec, ReferenceFeature reference, IReadOnlyList<bool> core, long referenceEvents)
     {
         Spec = spec;
+        Subject = new FeatureSubject(spec);
         Reference = reference;
         Core = core;
         ReferenceEvents = referenceEvents;
@@ -27,6 +28,9 @@ internal sealed class ReplicaFeature
     }
 
     public FeatureSpec Spec { get; }
+
+    /// <summary>The feature as the subject of its checks' outcomes.</summary>
+    public CheckSubject Subject { get; }
     public ReferenceFeature Reference { get; }
     public IReadOnlyList<bool> Core { get; }
     public long ReferenceEvents { get; }
@@ -61,10 +65,10 @@ internal sealed class ReplicaFeature
     }
 
     /// <summary>Draws one replica (a fresh reference and a surrogate of <paramref name="events"/> events) and measures every check of the feature.</summary>
-    public IEnumerable<(FeatureSpec, CheckSpec, Measurement)> Measure(double[] surrogateProbabilities, Drift drift, long events, DecisionSettings decision, Random rng)
+    public IEnumerable<(CheckSubject, CheckSpec, Measurement)> Measure(double[] surrogateProbabilities, Drift drift, long events, DecisionSettings decision, Random rng)
     {
         var comparison = Draw(surrogateProbabilities, drift, events, rng);
-        return Spec.Checks.Select(check => (Spec, check, CheckEvaluator.Measure(comparison, check, decision)));
+        return Spec.Checks.Select(check => (Subject, check, CheckEvaluator.Measure(comparison, check, decision)));
     }
 
     /// <summary>One replica's comparison: both histograms drawn, spikes and far tails tallied apart as a check does.</summary>

@@ -15,7 +15,7 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class BinRatioCheck
 {
-    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    public static Measurement Evaluate(FeatureComparison c, RegionToleranceCheck spec, DecisionSettings decision)
     {
         var reference = c.Reference.Histogram;
         var surrogate = c.Surrogate;
@@ -23,7 +23,7 @@ internal static class BinRatioCheck
         var refTotal = reference.TotalSumW;
         var surTotal = surrogate.TotalSumW;
         var surEffective = KolmogorovSmirnovCheck.Kish(surTotal, surrogate.TotalSumW2);
-        var effect = new EffectIntersection(spec.Limit, decision, surrogate.Entries);
+        var effect = new EffectIntersection(spec.Tolerance, decision, surrogate.Entries);
 
         var worst = double.NaN;
         var worstBin = -1;
@@ -73,7 +73,7 @@ internal static class BinRatioCheck
         details.Add(new("worst_ratio_stat_error", InvariantNumber.Exact(worstSigma)));
         return effect.ToMeasurement(worst,
             $"max |ratio−1| {InvariantNumber.Short(worst)} in {spec.RegionName} (worst bin {range}: ratio {InvariantNumber.Short(worstRatio)} ± {InvariantNumber.Short(worstSigma)}), " +
-            $"upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+            $"upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}",
             details);
     }
 }

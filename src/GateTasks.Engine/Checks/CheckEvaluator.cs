@@ -22,22 +22,22 @@ internal static class CheckEvaluator
         }
     }
 
-    private static Measurement MeasureUnguarded(FeatureComparison comparison, CheckSpec spec, DecisionSettings decision) => spec.Kind switch
+    private static Measurement MeasureUnguarded(FeatureComparison comparison, CheckSpec spec, DecisionSettings decision) => spec switch
     {
-        CheckKind.KolmogorovSmirnov => KolmogorovSmirnovCheck.Evaluate(comparison, spec, decision),
-        CheckKind.Wasserstein => WassersteinCheck.Evaluate(comparison, spec, decision),
-        CheckKind.ChiSquareTest => ChiSquareCheck.Evaluate(comparison),
-        CheckKind.KolmogorovSmirnovTest => KolmogorovSmirnovTestCheck.Evaluate(comparison),
-        CheckKind.AndersonDarlingTest => AndersonDarlingTestCheck.Evaluate(comparison),
-        CheckKind.CramerVonMisesTest => CramerVonMisesTestCheck.Evaluate(comparison),
-        CheckKind.BinRatio => BinRatioCheck.Evaluate(comparison, spec, decision),
-        CheckKind.JensenShannon => JensenShannonCheck.Evaluate(comparison, spec, decision),
-        CheckKind.MeanShift => MomentShiftCheck.Mean(comparison, spec, decision),
-        CheckKind.WidthRatio => MomentShiftCheck.Width(comparison, spec, decision),
-        CheckKind.QuantileShift => QuantileShiftCheck.Evaluate(comparison, spec, decision),
-        CheckKind.InterquartileWidthRatio => InterquartileWidthCheck.Evaluate(comparison, spec, decision),
-        CheckKind.Fraction => FractionCheck.Evaluate(comparison, spec, decision),
-        CheckKind.FarTail => FarTailCheck.Evaluate(comparison, spec, decision),
+        GoodnessOfFitTest { Kind: CheckKind.ChiSquareTest } => ChiSquareCheck.Evaluate(comparison),
+        GoodnessOfFitTest { Kind: CheckKind.KolmogorovSmirnovTest } => KolmogorovSmirnovTestCheck.Evaluate(comparison),
+        GoodnessOfFitTest { Kind: CheckKind.AndersonDarlingTest } => AndersonDarlingTestCheck.Evaluate(comparison),
+        GoodnessOfFitTest { Kind: CheckKind.CramerVonMisesTest } => CramerVonMisesTestCheck.Evaluate(comparison),
+        RegionToleranceCheck { Kind: CheckKind.BinRatio } regional => BinRatioCheck.Evaluate(comparison, regional, decision),
+        ToleranceCheck { Kind: CheckKind.KolmogorovSmirnov } t => KolmogorovSmirnovCheck.Evaluate(comparison, t, decision),
+        ToleranceCheck { Kind: CheckKind.Wasserstein } t => WassersteinCheck.Evaluate(comparison, t, decision),
+        ToleranceCheck { Kind: CheckKind.JensenShannon } t => JensenShannonCheck.Evaluate(comparison, t, decision),
+        ToleranceCheck { Kind: CheckKind.MeanShift } t => MomentShiftCheck.Mean(comparison, t, decision),
+        ToleranceCheck { Kind: CheckKind.WidthRatio } t => MomentShiftCheck.Width(comparison, t, decision),
+        ToleranceCheck { Kind: CheckKind.QuantileShift } t => QuantileShiftCheck.Evaluate(comparison, t, decision),
+        ToleranceCheck { Kind: CheckKind.InterquartileWidthRatio } t => InterquartileWidthCheck.Evaluate(comparison, t, decision),
+        ToleranceCheck { Kind: CheckKind.Fraction } t => FractionCheck.Evaluate(comparison, t, decision),
+        ToleranceCheck { Kind: CheckKind.FarTail } t => FarTailCheck.Evaluate(comparison, t, decision),
         _ => throw new ArgumentOutOfRangeException(nameof(spec), spec.Kind, "Unknown check."),
     };
 
@@ -53,9 +53,9 @@ internal static class CheckEvaluator
         CheckKind.KolmogorovSmirnovTest => Diagnostics.ErrorCodes.DriftKolmogorovSmirnovTest,
         CheckKind.AndersonDarlingTest => Diagnostics.ErrorCodes.DriftAndersonDarlingTest,
         CheckKind.CramerVonMisesTest => Diagnostics.ErrorCodes.DriftCramerVonMisesTest,
-        CheckKind.BinRatio when spec.Region == Region.Tails => Diagnostics.ErrorCodes.DriftRatioTails,
-        CheckKind.BinRatio when spec.Region == Region.Core => Diagnostics.ErrorCodes.DriftRatioCore,
-        CheckKind.BinRatio when spec.Region == Region.Named => Diagnostics.ErrorCodes.DriftRatioNamed,
+        CheckKind.BinRatio when spec is RegionToleranceCheck { Region.Kind: Region.Tails } => Diagnostics.ErrorCodes.DriftRatioTails,
+        CheckKind.BinRatio when spec is RegionToleranceCheck { Region.Kind: Region.Core } => Diagnostics.ErrorCodes.DriftRatioCore,
+        CheckKind.BinRatio when spec is RegionToleranceCheck { Region.Kind: Region.Named } => Diagnostics.ErrorCodes.DriftRatioNamed,
         CheckKind.BinRatio => Diagnostics.ErrorCodes.DriftRatioAll,
         CheckKind.MeanShift => Diagnostics.ErrorCodes.DriftMeanShift,
         CheckKind.WidthRatio => Diagnostics.ErrorCodes.DriftWidthRatio,

@@ -3,11 +3,11 @@ using GateTasks.Engine.Contracts;
 namespace GateTasks.Engine.Checks;
 
 /// <summary>
-/// One check's verdict: its <see cref="Measurement"/>, its p-value after the contract-wide correction, and the
-/// level that p-value was compared with.
+/// One check's verdict: what it was made on (a feature, a pair or the joint block), its <see cref="Measurement"/>, its
+/// p-value after the contract-wide correction, and the level that p-value was compared with.
 /// </summary>
 internal sealed record CheckOutcome(
-    FeatureSpec Feature,
+    CheckSubject Subject,
     CheckSpec Check,
     Measurement Measured,
     Verdict Verdict,

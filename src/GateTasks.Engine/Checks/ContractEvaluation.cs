@@ -17,12 +17,11 @@ internal static class ContractEvaluation
         var (contract, reference, references) = (matched.Contract, matched.Reference, matched.Features);
         NonFiniteGuard.Verify(contract, sample);
         var cores = contract.Features.Select((f, i) => RegionBins.Core(references[i], f)).ToList();
-        var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         // Features are measured side by side (each reads only its own histogram and summary, and every bootstrap has
         // its own seed), then gathered in contract order: the same measurements whatever the thread count.
         var n = contract.Features.Count;
         var comparisonOf = new FeatureComparison[n];
-        var measuredOf = new (FeatureSpec, CheckSpec, Measurement)[n][];
+        var measuredOf = new (CheckSubject, CheckSpec, Measurement)[n][];
         var failures = new Exception?[n];
         Parallel.For(0, n, i =>
         {
@@ -32,7 +31,8 @@ internal static class ContractEvaluation
                 var comparison = new FeatureComparison(contract.Features[i], references[i], gathered.Histogram, gathered.Summary, cores[i],
                     gathered.Spike, gathered.FarTail);
                 comparisonOf[i] = comparison;
-                measuredOf[i] = contract.Features[i].Checks.Select(check => (contract.Features[i], check, CheckEvaluator.Measure(comparison, check, contract.Decision))).ToArray();
+                var feature = new FeatureSubject(contract.Features[i]);
+                measuredOf[i] = contract.Features[i].Checks.Select(check => ((CheckSubject)feature, check, CheckEvaluator.Measure(comparison, check, contract.Decision))).ToArray();
             }
             catch (Exception e)
             {
@@ -46,9 +46,7 @@ internal static class ContractEvaluation
             var stored = reference.FindPair(pair.Spec.First, pair.Spec.Second)
                 ?? throw new GateInputException(ErrorCodes.ReferenceMismatch,
                     $"The reference holds no correlation for {pair.Spec.Name}; rebuild it with 'gatetasks reference build'.", pair.Spec.Location);
-            var first = contract.Features[index[pair.Spec.First]];
-            // Pair checks are reported like a feature named after the pair, at the pair's entry in the contract.
-            var subject = first with { Name = pair.Spec.Name, Column = pair.Spec.Name, Checks = [], Location = pair.Spec.Location, ColumnLocation = pair.Spec.Location };
+            var subject = new PairSubject(pair.Spec);
             foreach (var check in new[] { pair.Spec.Pearson, pair.Spec.Spearman })
                 if (check is not null) measured.Add((subject, check, CorrelationCheck.Evaluate(stored, pair, check, contract.Decision, sample.Events)));
             if (pair.Spec.Chi2 is { } chi2)
@@ -67,8 +65,7 @@ internal static class ContractEvaluation
                 ? rj
                 : throw new GateInputException(ErrorCodes.ReferenceMismatch,
                     $"The reference holds no subsample of {jointSpec.Name}; rebuild it with 'gatetasks reference build'.", jointSpec.Location);
-            var first = contract.Features[index[jointSpec.Features[0]]];
-            var subject = first with { Name = jointSpec.Name, Column = jointSpec.Name, Checks = [], Location = jointSpec.Location, ColumnLocation = jointSpec.Location };
+            var subject = new JointSubject(jointSpec);
             var permutations = jointSpec.PermutationsFor(measured.Count + 1, contract.Decision.FalseAlarm);
             measured.Add((subject, jointSpec.Test, JointCheck.Evaluate(stored.Rows.ToArray(), sample.Joint!.Rows.ToArray(), jointSpec, permutations)));
         }

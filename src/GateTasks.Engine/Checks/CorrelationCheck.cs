@@ -13,18 +13,18 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class CorrelationCheck
 {
-    public static Measurement Evaluate(ReferenceCorrelation reference, AccumulatedPair sample, CheckSpec spec, DecisionSettings decision, long sampleEvents)
+    public static Measurement Evaluate(ReferenceCorrelation reference, AccumulatedPair sample, ToleranceCheck spec, DecisionSettings decision, long sampleEvents)
     {
         var spearman = spec.Kind == CheckKind.SpearmanDifference;
         var r = spearman ? reference.Spearman : reference.Pearson;
         var s = spearman ? sample.Spearman : sample.Pearson;
         if (double.IsNaN(s)) return Measurement.Impossible("the sample's correlation is undefined: one of the two features is constant or all NaN", []);
-        var effect = new EffectIntersection(spec.Limit, decision, sampleEvents);
+        var effect = new EffectIntersection(spec.Tolerance, decision, sampleEvents);
         var d = Math.Abs(s - r);
         effect.Add(d, WeightedCorrelation.StandardError(r, reference.EffectiveCount, spearman), WeightedCorrelation.StandardError(r, sample.EffectiveCount, spearman));
         var name = spearman ? "Spearman ρ" : "Pearson r";
         return effect.ToMeasurement(d,
-            $"{name} {InvariantNumber.Short(s)} vs {InvariantNumber.Short(r)}: |Δ| {InvariantNumber.Short(d)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+            $"{name} {InvariantNumber.Short(s)} vs {InvariantNumber.Short(r)}: |Δ| {InvariantNumber.Short(d)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}",
             [new("sample_coefficient", InvariantNumber.Exact(s)), new("reference_coefficient", InvariantNumber.Exact(r))]);
     }
 }

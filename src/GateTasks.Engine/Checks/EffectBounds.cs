@@ -9,10 +9,10 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class EffectBounds
 {
-    public static Measurement FromStandardError(double estimate, HistogramBootstrap.Errors se, CheckSpec spec, DecisionSettings decision,
+    public static Measurement FromStandardError(double estimate, HistogramBootstrap.Errors se, ToleranceCheck spec, DecisionSettings decision,
         long surrogateEvents, string what, IReadOnlyList<KeyValuePair<string, string>> details)
     {
-        var effect = new EffectIntersection(spec.Limit, decision, surrogateEvents);
+        var effect = new EffectIntersection(spec.Tolerance, decision, surrogateEvents);
         effect.Add(estimate, se.Reference, se.Surrogate);
         var all = details.Concat([
             new KeyValuePair<string, string>("standard_error", InvariantNumber.Exact(se.Total)),
@@ -20,6 +20,6 @@ internal static class EffectBounds
             new("standard_error_sample_part", InvariantNumber.Exact(se.Surrogate)),
         ]).ToList();
         return effect.ToMeasurement(estimate,
-            $"{what} ± {InvariantNumber.Short(se.Total)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}", all);
+            $"{what} ± {InvariantNumber.Short(se.Total)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}", all);
     }
 }

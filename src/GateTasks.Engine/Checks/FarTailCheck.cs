@@ -12,12 +12,12 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class FarTailCheck
 {
-    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    public static Measurement Evaluate(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
         if (c.Reference.FarTail is not { } r)
             return Measurement.Impossible("the reference holds no far-tail counts; rebuild it with 'gatetasks reference build'", []);
         if (c.SampleFarTail is not { } s) return Measurement.Impossible("the sample's far tails were not counted", []);
-        var effect = new EffectIntersection(spec.Limit, decision, c.Surrogate.Entries);
+        var effect = new EffectIntersection(spec.Tolerance, decision, c.Surrogate.Entries);
         var details = new List<KeyValuePair<string, string>>
         {
             new("low_threshold", InvariantNumber.Exact(r.Low)), new("high_threshold", InvariantNumber.Exact(r.High)),
@@ -35,7 +35,7 @@ internal static class FarTailCheck
             details.Add(new($"fraction_{side}_sample_cp95_upper", InvariantNumber.Exact(hi)));
         }
         return effect.ToMeasurement(worst,
-            $"far-tail fractions beyond the reference's 0.1%/99.9% quantiles: largest |Δ| {InvariantNumber.Short(worst)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+            $"far-tail fractions beyond the reference's 0.1%/99.9% quantiles: largest |Δ| {InvariantNumber.Short(worst)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}",
             details);
     }
 }

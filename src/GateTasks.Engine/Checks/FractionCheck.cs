@@ -12,11 +12,11 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class FractionCheck
 {
-    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    public static Measurement Evaluate(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
         var r = c.Reference.Histogram;
         var s = c.Surrogate;
-        var effect = new EffectIntersection(spec.Limit, decision, s.Entries);
+        var effect = new EffectIntersection(spec.Tolerance, decision, s.Entries);
         var details = new List<KeyValuePair<string, string>>();
         var worst = 0.0;
 
@@ -34,7 +34,7 @@ internal static class FractionCheck
             Part("spike", refSpike.SumW, refSpike.SumW + r.TotalSumW, refSpike.SumW2 + r.TotalSumW2,
                 sampleSpike.SumW, sampleSpike.SumW + s.TotalSumW, sampleSpike.SumW2 + s.TotalSumW2);
             return effect.ToMeasurement(worst,
-                $"spike fraction at {InvariantNumber.Short(refSpike.Value)}: |Δ| {InvariantNumber.Short(worst)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+                $"spike fraction at {InvariantNumber.Short(refSpike.Value)}: |Δ| {InvariantNumber.Short(worst)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}",
                 details);
         }
         if (c.Spec.Kind != FeatureKind.Discrete)
@@ -49,7 +49,7 @@ internal static class FractionCheck
         }
         if (effect.Parts == 0) return Measurement.Impossible("no category holds any event", details);
         return effect.ToMeasurement(worst,
-            $"largest category-fraction difference {InvariantNumber.Short(worst)} over {effect.Parts} categories, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+            $"largest category-fraction difference {InvariantNumber.Short(worst)} over {effect.Parts} categories, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}",
             details);
     }
 }

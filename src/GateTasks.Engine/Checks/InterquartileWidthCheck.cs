@@ -15,7 +15,7 @@ internal static class InterquartileWidthCheck
     /// <summary>The normal distribution's interquartile range in units of σ, 2Φ⁻¹(0.75).</summary>
     public const double NormalIqrPerSigma = 1.3489795003921634;
 
-    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    public static Measurement Evaluate(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
         const double p1 = 0.25, p3 = 0.75;
         var r = c.Reference.Histogram;
@@ -34,13 +34,13 @@ internal static class InterquartileWidthCheck
         var nSur = KolmogorovSmirnovCheck.Kish(s.TotalSumW, s.TotalSumW2);
         var seRef = ratio * relative / Math.Sqrt(nRef);
         var seSur = ratio * relative / Math.Sqrt(nSur);
-        var effect = new EffectIntersection(spec.Limit, decision, s.Entries);
+        var effect = new EffectIntersection(spec.Tolerance, decision, s.Entries);
         var deviation = Math.Abs(ratio - 1);
         effect.Add(deviation, seRef, seSur);
         var se = Math.Sqrt(seRef * seRef + seSur * seSur);
         return effect.ToMeasurement(deviation,
             $"interquartile width ratio {InvariantNumber.Short(ratio)} (IQR/1.349 {InvariantNumber.Short(iqrSample / NormalIqrPerSigma)} vs " +
-            $"{InvariantNumber.Short(iqrRef / NormalIqrPerSigma)}) ± {InvariantNumber.Short(se)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+            $"{InvariantNumber.Short(iqrRef / NormalIqrPerSigma)}) ± {InvariantNumber.Short(se)}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}",
             [
                 new("iqr_ratio", InvariantNumber.Exact(ratio)),
                 new("reference_iqr", InvariantNumber.Exact(iqrRef)),

@@ -7,7 +7,7 @@ namespace GateTasks.Engine.Checks;
 /// <summary>Jensen–Shannon divergence (Lin 1991, natural logarithm) of the normalised cell contents, flows included; uncertainty by <see cref="HistogramBootstrap"/>.</summary>
 internal static class JensenShannonCheck
 {
-    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    public static Measurement Evaluate(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
         var reference = Cells.Of(c.Reference.Histogram);
         var surrogate = Cells.Of(c.Surrogate);

@@ -12,7 +12,7 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class KolmogorovSmirnovCheck
 {
-    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    public static Measurement Evaluate(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
         var reference = c.Reference.Histogram;
         var d = KolmogorovSmirnov.BinnedDistance(reference.Storage.SumW, c.Surrogate.Storage.SumW);
@@ -22,17 +22,17 @@ internal static class KolmogorovSmirnovCheck
         var half = DkwBound.TwoSampleHalfWidth(n1, n2, alpha);
         // ε(α) = K·√ln(4/α) with K = (1/√n₁ + 1/√n₂)/√2, so "distance above tolerance" has p = 4·exp(−((D − tol)/K)²).
         var k = (1 / Math.Sqrt(n1) + 1 / Math.Sqrt(n2)) / Math.Sqrt(2);
-        var p = d > spec.Limit ? Math.Min(1, 4 * Math.Exp(-Math.Pow((d - spec.Limit) / k, 2))) : 1.0;
+        var p = d > spec.Tolerance ? Math.Min(1, 4 * Math.Exp(-Math.Pow((d - spec.Tolerance) / k, 2))) : 1.0;
         var upper = d + half;
         var needed = double.NaN;
-        if (upper >= spec.Limit && p > decision.FalseAlarm)
+        if (upper >= spec.Tolerance && p > decision.FalseAlarm)
         {
             // Events for the band to decide: √(ln(4/α)/2)·(1/√n₁ + 1/√n₂′) < |tol − D|.
-            var room = Math.Abs(spec.Limit - d) / Math.Sqrt(Math.Log(4 / alpha) / 2) - 1 / Math.Sqrt(n1);
+            var room = Math.Abs(spec.Tolerance - d) / Math.Sqrt(Math.Log(4 / alpha) / 2) - 1 / Math.Sqrt(n1);
             needed = room > 0 ? Math.Ceiling(1 / (room * room) * (c.Surrogate.Entries / Math.Max(n2, 1))) : double.PositiveInfinity;
         }
         return new Measurement(d, Math.Max(0, d - half), upper, p, needed,
-            $"KS distance {InvariantNumber.Short(d)}, {Percent(decision)} band [{InvariantNumber.Short(Math.Max(0, d - half))}, {InvariantNumber.Short(upper)}], tolerance {InvariantNumber.Short(spec.Limit)}",
+            $"KS distance {InvariantNumber.Short(d)}, {Percent(decision)} band [{InvariantNumber.Short(Math.Max(0, d - half))}, {InvariantNumber.Short(upper)}], tolerance {InvariantNumber.Short(spec.Tolerance)}",
             [new("distance", InvariantNumber.Exact(d)), new("band_half_width", InvariantNumber.Exact(half)),
              new("reference_effective_events", InvariantNumber.Exact(n1)), new("sample_effective_events", InvariantNumber.Exact(n2))]);
     }

@@ -17,8 +17,7 @@ internal readonly record struct Margin(double Value, double Noise)
     public static Margin Of(CheckOutcome o, DecisionSettings decision)
     {
         var m = o.Measured;
-        var t = o.Check.Limit;
-        if (double.IsFinite(t) && t > 0)
+        if (o.Check is ToleranceCheck { Tolerance: var t } && double.IsFinite(t) && t > 0)
         {
             if (!double.IsFinite(m.Upper) || !double.IsFinite(m.Estimate)) return new(double.NegativeInfinity, double.NaN);
             var z = Normal.InvCDF(0, 1, decision.Confidence);

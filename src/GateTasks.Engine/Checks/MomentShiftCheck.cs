@@ -12,7 +12,7 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class MomentShiftCheck
 {
-    public static Measurement Mean(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    public static Measurement Mean(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
         var r = c.Reference.Summary;
         var s = c.SurrogateSummary;
@@ -26,7 +26,7 @@ internal static class MomentShiftCheck
             [new("sample_mean", InvariantNumber.Exact(s.Mean)), new("reference_mean", InvariantNumber.Exact(r.Mean))]);
     }
 
-    public static Measurement Width(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    public static Measurement Width(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
         var r = c.Reference.Summary;
         var s = c.SurrogateSummary;
@@ -45,14 +45,14 @@ internal static class MomentShiftCheck
     }
 
     /// <summary>Bounds and p-value for a deviation that is roughly normal with the given error parts.</summary>
-    private static Measurement Folded(double deviation, double seRef, double seSur, CheckSpec spec, DecisionSettings decision, long events,
+    private static Measurement Folded(double deviation, double seRef, double seSur, ToleranceCheck spec, DecisionSettings decision, long events,
         string what, List<KeyValuePair<string, string>> details)
     {
-        var effect = new EffectIntersection(spec.Limit, decision, events);
+        var effect = new EffectIntersection(spec.Tolerance, decision, events);
         effect.Add(deviation, seRef, seSur);
         details.Add(new("standard_error", InvariantNumber.Exact(Math.Sqrt(seRef * seRef + seSur * seSur))));
         return effect.ToMeasurement(deviation,
-            $"{what} ± {InvariantNumber.Short(Math.Sqrt(seRef * seRef + seSur * seSur))}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}", details);
+            $"{what} ± {InvariantNumber.Short(Math.Sqrt(seRef * seRef + seSur * seSur))}, upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}", details);
     }
 
     /// <summary>μ₄/σ⁴ of the reference histogram at bin centres (at least 1, the smallest any distribution has).</summary>

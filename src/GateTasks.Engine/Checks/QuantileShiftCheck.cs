@@ -17,7 +17,7 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class QuantileShiftCheck
 {
-    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    public static Measurement Evaluate(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
         var sigma = c.Reference.Summary.StandardDeviation;
         if (!(sigma > 0)) return Measurement.Impossible("the reference's standard deviation is zero, so a quantile shift in its units is undefined", []);
@@ -25,7 +25,7 @@ internal static class QuantileShiftCheck
         var s = c.Surrogate;
         var nRef = KolmogorovSmirnovCheck.Kish(r.TotalSumW, r.TotalSumW2);
         var nSur = KolmogorovSmirnovCheck.Kish(s.TotalSumW, s.TotalSumW2);
-        var effect = new EffectIntersection(spec.Limit, decision, s.Entries);
+        var effect = new EffectIntersection(spec.Tolerance, decision, s.Entries);
         double[] probabilities = [c.Spec.Core.LowerQuantile, 0.5, c.Spec.Core.UpperQuantile];
 
         double worst = 0;
@@ -47,7 +47,7 @@ internal static class QuantileShiftCheck
             details.Add(new($"quantile_{key}_sample", InvariantNumber.Exact(qs)));
         }
         return effect.ToMeasurement(worst,
-            $"largest quantile shift {InvariantNumber.Short(worst)} σ_ref (core bounds and median), upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Limit)}",
+            $"largest quantile shift {InvariantNumber.Short(worst)} σ_ref (core bounds and median), upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}",
             details);
     }
 

@@ -48,13 +48,13 @@ internal static class RegionBins
     /// The regular bins a check's region covers: every bin, the core's, the tails' (every non-core bin), or a named
     /// region's (bin centre within its range).
     /// </summary>
-    public static bool[] Covered(FeatureComparison c, CheckSpec spec)
+    public static bool[] Covered(FeatureComparison c, RegionToleranceCheck spec)
     {
         var axis = c.Reference.Histogram.Axis;
         var (lower, upper) = NamedBounds(c, spec);
         var mask = new bool[axis.Count];
         for (var b = 0; b < mask.Length; b++)
-            mask[b] = spec.Region switch
+            mask[b] = spec.Region.Kind switch
             {
                 Region.Core => c.CoreBins[b],
                 Region.Tails => !c.CoreBins[b],
@@ -65,11 +65,11 @@ internal static class RegionBins
     }
 
     /// <summary>The value range of a named region: explicit, or between the reference histogram's quantiles.</summary>
-    private static (double Lower, double Upper) NamedBounds(FeatureComparison c, CheckSpec spec)
+    private static (double Lower, double Upper) NamedBounds(FeatureComparison c, RegionToleranceCheck spec)
     {
-        if (spec.Region != Region.Named) return (double.NaN, double.NaN);
-        var region = c.Spec.Regions?.FirstOrDefault(g => g.Name == spec.Named)
-            ?? throw new InvalidOperationException($"Region '{spec.Named}' was not declared; the contract loader should have refused it.");
+        if (spec.Region.Kind != Region.Named) return (double.NaN, double.NaN);
+        var region = c.Spec.Regions?.FirstOrDefault(g => g.Name == spec.Region.Name)
+            ?? throw new InvalidOperationException($"Region '{spec.Region.Name}' was not declared; the contract loader should have refused it.");
         return NamedRegionRange.Of(c.Reference.Histogram, region);
     }
 }

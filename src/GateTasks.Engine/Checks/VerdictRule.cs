@@ -12,7 +12,7 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class VerdictRule
 {
-    public static List<CheckOutcome> Decide(IReadOnlyList<(FeatureSpec Feature, CheckSpec Check, Measurement Measured)> items, DecisionSettings decision)
+    public static List<CheckOutcome> Decide(IReadOnlyList<(CheckSubject Subject, CheckSpec Check, Measurement Measured)> items, DecisionSettings decision)
     {
         var p = items.Select(i => double.IsNaN(i.Measured.PValue) ? 1.0 : Math.Clamp(i.Measured.PValue, 0, 1)).ToArray();
         var adjusted = p.Length == 0 ? [] : MultipleTesting.Adjust(p, decision.Correction);
@@ -20,12 +20,12 @@ internal static class VerdictRule
         var outcomes = new List<CheckOutcome>(items.Count);
         for (var i = 0; i < items.Count; i++)
         {
-            var (feature, check, m) = items[i];
+            var (subject, check, m) = items[i];
             Verdict verdict;
-            if (adjusted[i] <= decision.FalseAlarm || (!check.IsTest && double.IsNaN(m.Estimate))) verdict = Verdict.Fail;
-            else if (check.IsTest || m.Upper < check.Limit) verdict = Verdict.Pass;
+            if (adjusted[i] <= decision.FalseAlarm || (check is ToleranceCheck && double.IsNaN(m.Estimate))) verdict = Verdict.Fail;
+            else if (check is not ToleranceCheck bounded || m.Upper < bounded.Tolerance) verdict = Verdict.Pass;
             else verdict = Verdict.Inconclusive;
-            outcomes.Add(new CheckOutcome(feature, check, m, verdict, adjusted[i], levels[i]));
+            outcomes.Add(new CheckOutcome(subject, check, m, verdict, adjusted[i], levels[i]));
         }
         return outcomes;
     }

@@ -11,7 +11,7 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class WassersteinCheck
 {
-    public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
+    public static Measurement Evaluate(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
         var edges = c.Reference.Histogram.Axis.Edges.ToArray();
         var sigma = c.Reference.Summary.StandardDeviation;

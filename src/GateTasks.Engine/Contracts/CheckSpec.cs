@@ -3,30 +3,47 @@ using GateTasks.Engine.Diagnostics;
 namespace GateTasks.Engine.Contracts;
 
 /// <summary>
-/// One required check with its tolerance. <see cref="Limit"/> is the tolerance, an upper bound on the effect size;
-/// NaN for goodness-of-fit tests, which have none.
-/// <see cref="Location"/> points at the tolerance in the contract (a feature's own or a default).
+/// One required check as the contract states it, in one of three shapes that each carry only what that kind of check
+/// has: <see cref="ToleranceCheck"/> (an effect size bounded by a tolerance), <see cref="RegionToleranceCheck"/>
+/// (the same over one region of the distribution) and <see cref="GoodnessOfFitTest"/> (no tolerance, only a p-value
+/// in the contract's family). <see cref="Location"/> points at the tolerance (or the test's <c>on</c>) in the
+/// contract, a feature's own or a default.
 /// </summary>
-internal sealed record CheckSpec(CheckKind Kind, Region Region, double Limit, SourceLocation Location, string? Named = null)
+internal abstract record CheckSpec(CheckKind Kind, SourceLocation Location)
 {
-    /// <summary>Where a named region's key stands in the tolerance mapping (for "no such region" errors).</summary>
-    public SourceLocation? NamedKeyLocation { get; init; }
-
-    /// <summary>True for goodness-of-fit tests: no tolerance, only a p-value in the contract's family.</summary>
-    public bool IsTest => Kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest or CheckKind.AndersonDarlingTest or CheckKind.CramerVonMisesTest or CheckKind.EnergyTest or CheckKind.ChiSquare2DTest;
-
     /// <summary>The contract key that states this check.</summary>
     public string Key => ContractKeys.CheckKey(Kind);
 
-    /// <summary>Short label, e.g. <c>ratio-max[core]</c>.</summary>
-    public string Label => Region == Region.All ? Key : $"{Key}[{RegionName}]";
+    /// <summary>Lower-case name of the region the check looks at, as written in contracts: <c>all</c> unless it has a region.</summary>
+    public virtual string RegionName => CheckRegion.All.Name;
 
-    /// <summary>Lower-case region name as written in contracts.</summary>
-    public string RegionName => Region switch
-    {
-        Region.Core => "core",
-        Region.Tails => "tails",
-        Region.Named => Named ?? "named",
-        _ => "all",
-    };
+    /// <summary>Short label, e.g. <c>ratio-max[core]</c>; the key alone for a check over the whole distribution.</summary>
+    public virtual string Label => Key;
 }
+
+/// <summary>A check whose effect size must stay below <paramref name="Tolerance"/> (positive, finite) over the whole distribution.</summary>
+internal record ToleranceCheck(CheckKind Kind, double Tolerance, SourceLocation Location) : CheckSpec(Kind, Location);
+
+/// <summary>
+/// A tolerance check over one <paramref name="Region"/> of the distribution (<see cref="ContractKeys.HasRegions"/>).
+/// <paramref name="RegionLocation"/> is where the region is named in the contract: the key of a tolerance mapping, or
+/// the tolerance itself when it covers the whole distribution.
+/// </summary>
+internal sealed record RegionToleranceCheck(CheckKind Kind, CheckRegion Region, double Tolerance, SourceLocation Location, SourceLocation RegionLocation)
+    : ToleranceCheck(Kind, Tolerance, Location)
+{
+    /// <summary>A regional check whose region is named where its tolerance stands.</summary>
+    public RegionToleranceCheck(CheckKind kind, CheckRegion region, double tolerance, SourceLocation location)
+        : this(kind, region, tolerance, location, location)
+    {
+    }
+
+    /// <inheritdoc />
+    public override string RegionName => Region.Name;
+
+    /// <inheritdoc />
+    public override string Label => Region.Kind == Contracts.Region.All ? Key : $"{Key}[{Region.Name}]";
+}
+
+/// <summary>A goodness-of-fit test: no tolerance; it fails only when its p-value is significant at the contract's family-wise level.</summary>
+internal sealed record GoodnessOfFitTest(CheckKind Kind, SourceLocation Location) : CheckSpec(Kind, Location);

@@ -127,4 +127,9 @@ internal static class ContractKeys
 
     /// <summary>Checks whose tolerance can be split into core and tails.</summary>
     public static bool HasRegions(CheckKind kind) => kind == CheckKind.BinRatio;
+
+    /// <summary>Goodness-of-fit tests: switched on or off, without a tolerance.</summary>
+    public static bool IsTest(CheckKind kind) =>
+        kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest or CheckKind.AndersonDarlingTest or CheckKind.CramerVonMisesTest
+            or CheckKind.EnergyTest or CheckKind.ChiSquare2DTest;
 }

@@ -7,7 +7,7 @@ namespace GateTasks.Engine.Contracts;
 /// on bounded subsamples of reference and sample, so that a broken joint structure fails even when every marginal
 /// passes. <see cref="Test"/> is its entry in the contract's family of tests.
 /// </summary>
-internal sealed record JointSpec(IReadOnlyList<string> Features, int Subsample, int Permutations, CheckSpec Test, SourceLocation Location)
+internal sealed record JointSpec(IReadOnlyList<string> Features, int Subsample, int Permutations, GoodnessOfFitTest Test, SourceLocation Location)
 {
     public const int DefaultSubsample = 2000;
     /// <summary>Permutations when the contract states none: enough that the smallest p-value, 1/(B + 1), can still fail after the correction.</summary>

@@ -12,6 +12,6 @@ internal enum Region
     /// <summary>Everything outside the core, on both sides.</summary>
     Tails,
 
-    /// <summary>A region the feature declares by name (<see cref="CheckSpec.Named"/>).</summary>
+    /// <summary>A region the feature declares by name (<see cref="CheckRegion.Declared"/>).</summary>
     Named,
 }

@@ -83,4 +83,24 @@ internal sealed class YamlNodeReader(string file)
     }
 
     public static bool IsScalar(YamlNode node, string value) => node is YamlScalarNode s && s.Value == value;
+
+    /// <summary>A range written as two numbers, <c>[lower, upper]</c>, with upper &gt; lower.</summary>
+    public (double Lower, double Upper) Interval(YamlNode node, string what)
+    {
+        var seq = Sequence(node, what);
+        if (seq.Children.Count != 2) throw Error(ErrorCodes.ContractBadValue, node, $"{what} must be two numbers, [lower, upper].");
+        var lo = Number(seq.Children[0], $"The lower end of {what}");
+        var hi = Number(seq.Children[1], $"The upper end of {what}");
+        if (!(hi > lo)) throw Error(ErrorCodes.ContractBadValue, node, $"{what} must have upper > lower, got [{lo}, {hi}].");
+        return (lo, hi);
+    }
+
+    /// <summary>Where a text's (an expression's) first character is: one column further for a quoted scalar, so error carets land on the token.</summary>
+    public SourceLocation TextStart(YamlNode node)
+    {
+        var at = At(node);
+        return node is YamlScalarNode { Style: YamlDotNet.Core.ScalarStyle.DoubleQuoted or YamlDotNet.Core.ScalarStyle.SingleQuoted }
+            ? at with { Column = at.Column + 1 }
+            : at;
+    }
 }

@@ -29,18 +29,17 @@ internal sealed record AcceptedState(
         var definitions = contract.Features.Select(f => new KeyValuePair<string, string>(f.Name, Definition(f))).ToList();
         var margins = new Dictionary<string, Margin>(StringComparer.Ordinal);
         foreach (var o in outcomes ?? [])
-            margins[$"{o.Feature.Name} {o.Check.Label}"] = Margin.Of(o, d);
+            margins[$"{o.Subject.Name} {o.Check.Label}"] = Margin.Of(o, d);
         var limits = new List<AcceptedLimit>();
         void Add(string subject, CheckSpec check)
         {
             var m = margins.TryGetValue($"{subject} {check.Label}", out var found) ? found : new Margin(double.NaN, double.NaN);
-            limits.Add(new AcceptedLimit(subject, check.Label, check.IsTest ? double.NaN : check.Limit, m.Value, m.Noise, check.Location));
+            limits.Add(new AcceptedLimit(subject, check.Label, check is ToleranceCheck bounded ? bounded.Tolerance : double.NaN, m.Value, m.Noise, check.Location));
         }
         foreach (var f in contract.Features)
             foreach (var c in f.Checks) Add(f.Name, c);
         foreach (var p in contract.Pairs)
-            foreach (var c in new[] { p.Pearson, p.Spearman, p.Chi2 })
-                if (c is not null) Add(p.Name, c);
+            foreach (var c in p.Checks) Add(p.Name, c);
         if (contract.Joint is { } j) Add(j.Name, j.Test);
         return new AcceptedState(decision, contract.Selection?.Text, definitions, limits);
     }

@@ -111,7 +111,7 @@ internal static class LedgerGuard
         var zThen = Normal.InvCDF(0, 1, confidenceThen);
         foreach (var o in outcomes)
         {
-            if (!accepted.TryGetValue($"{o.Feature.Name} {o.Check.Label}", out var then) || then.IsTest || then.Tolerance != o.Check.Limit) continue;
+            if (o.Check is not ToleranceCheck bounded || !accepted.TryGetValue($"{o.Subject.Name} {o.Check.Label}", out var then) || then.IsTest || then.Tolerance != bounded.Tolerance) continue;
             var now = Margin.Of(o, contract.Decision);
             if (!double.IsFinite(then.Margin) || !double.IsFinite(then.Noise) || !double.IsFinite(now.Noise)) continue;
             var pointThen = then.Margin + zThen * then.Noise;
@@ -119,7 +119,7 @@ internal static class LedgerGuard
             var allowed = z * Math.Sqrt(now.Noise * now.Noise + then.Noise * then.Noise);
             if (pointNow < pointThen - allowed)
                 yield return new(ErrorCodes.RatchetDegraded, true,
-                    $"{o.Feature.Name} {o.Check.Label}: point margin 1 − estimate/tolerance is {Num(pointNow)} against {Num(pointThen)} accepted in {since}, " +
+                    $"{o.Subject.Name} {o.Check.Label}: point margin 1 − estimate/tolerance is {Num(pointNow)} against {Num(pointThen)} accepted in {since}, " +
                     $"worse by more than its noise allows ({Num(allowed)}); fidelity degraded although the check is " +
                     $"{(o.Verdict == Verdict.Pass ? "still within tolerance" : o.Verdict.ToString().ToLowerInvariant())}",
                     o.Check.Location);

@@ -29,7 +29,7 @@ internal static class PlanStudy
     {
         var features = ReplicaFeature.All(contract, reference);
         var target = contract.Decision.Confidence;
-        var all = features.SelectMany(f => f.Spec.Checks.Select(c => (f.Spec, Check: c))).ToList();
+        var all = features.SelectMany(f => f.Spec.Checks.Select(c => (f.Spec, f.Subject, Check: c))).ToList();
         var unsimulated = Unsimulated(contract);
 
         // Passing: per feature, the smallest grid step at which each of its checks passes at the target rate.
@@ -91,7 +91,7 @@ internal static class PlanStudy
                     if (size is { } s)
                     {
                         detection = At(s)[j];
-                        if (!check.IsTest)
+                        if (check is ToleranceCheck)
                         {
                             var drift = new Drift(kind, s, "");
                             effect = CheckEvaluator.Measure(f.Expected(f.Probabilities(drift), drift, nDetect), check, contract.Decision).Estimate;
@@ -121,7 +121,7 @@ internal static class PlanStudy
         CheckKind.FarTail => null,
         CheckKind.Fraction => DriftKind.SpikeFraction,
         _ when f.Spec.Kind == FeatureKind.Discrete => DriftKind.SpikeFraction,
-        CheckKind.BinRatio when check.Region == Region.Tails => DriftKind.TailDeficit,
+        CheckKind.BinRatio when check is RegionToleranceCheck { Region.Kind: Region.Tails } => DriftKind.TailDeficit,
         CheckKind.WidthRatio or CheckKind.InterquartileWidthRatio => DriftKind.Width,
         _ => DriftKind.Scale,
     };
@@ -137,11 +137,11 @@ internal static class PlanStudy
     };
 
     /// <summary>Per check of the feature, the share of replicas whose verdict was <paramref name="counted"/>.</summary>
-    private static double[] Rates(ReplicaFeature f, Drift drift, long events, IReadOnlyList<(FeatureSpec Spec, CheckSpec Check)> all,
-        IReadOnlyList<(FeatureSpec, CheckSpec, Measurement)> unsimulated, DecisionSettings decision, int replicas, int seed, Verdict counted)
+    private static double[] Rates(ReplicaFeature f, Drift drift, long events, IReadOnlyList<(FeatureSpec Spec, CheckSubject Subject, CheckSpec Check)> all,
+        IReadOnlyList<(CheckSubject, CheckSpec, Measurement)> unsimulated, DecisionSettings decision, int replicas, int seed, Verdict counted)
     {
         var probabilities = f.Probabilities(drift);
-        var others = all.Where(a => !ReferenceEquals(a.Spec, f.Spec)).Select(a => Perfect(a.Spec, a.Check)).Concat(unsimulated).ToList();
+        var others = all.Where(a => !ReferenceEquals(a.Spec, f.Spec)).Select(a => Perfect(a.Subject, a.Check)).Concat(unsimulated).ToList();
         var hits = new int[f.Spec.Checks.Count];
         for (var r = 0; r < replicas; r++)
         {
@@ -163,16 +163,16 @@ internal static class PlanStudy
     }
 
     // Pair and joint checks are not simulated, but they belong to the family the correction counts: as perfect.
-    private static List<(FeatureSpec, CheckSpec, Measurement)> Unsimulated(PrecisionContract contract) =>
-        contract.Pairs.SelectMany(p => new[] { p.Pearson, p.Spearman, p.Chi2 }).OfType<CheckSpec>()
-            .Concat(contract.Joint is { } j ? [j.Test] : Array.Empty<CheckSpec>())
-            .Select(c => Perfect(contract.Features[0], c)).ToList();
+    private static List<(CheckSubject, CheckSpec, Measurement)> Unsimulated(PrecisionContract contract) =>
+        contract.Pairs.SelectMany(p => p.Checks.Select(c => Perfect(new PairSubject(p), c)))
+            .Concat(contract.Joint is { } j ? [Perfect(new JointSubject(j), j.Test)] : [])
+            .ToList();
 
     /// <summary>A check taken as perfectly met: nothing to correct for, passing.</summary>
-    private static (FeatureSpec, CheckSpec, Measurement) Perfect(FeatureSpec feature, CheckSpec check) =>
-        (feature, check, new Measurement(0, 0, 0, 1, double.NaN, "", []));
+    private static (CheckSubject, CheckSpec, Measurement) Perfect(CheckSubject subject, CheckSpec check) =>
+        (subject, check, new Measurement(0, 0, 0, 1, double.NaN, "", []));
 
-    private static double ContractPassRate(IReadOnlyList<ReplicaFeature> features, IReadOnlyList<(FeatureSpec, CheckSpec, Measurement)> unsimulated,
+    private static double ContractPassRate(IReadOnlyList<ReplicaFeature> features, IReadOnlyList<(CheckSubject, CheckSpec, Measurement)> unsimulated,
         DecisionSettings decision, long events, int replicas, int seed)
     {
         var passed = 0;

@@ -35,7 +35,7 @@ internal sealed record CandidateResult(
     /// <summary>Keeps what ranking needs of a check report.</summary>
     public static CandidateResult FromReport(string candidate, CheckReport report) =>
         new(candidate, report.SampleFiles, report.Events,
-            report.Outcomes.Select(o => new CandidateCheck(o.Feature.Name, o.Check.Label, o.Verdict, Margin.Of(o, report.Contract.Decision))).ToList(),
+            report.Outcomes.Select(o => new CandidateCheck(o.Subject.Name, o.Check.Label, o.Verdict, Margin.Of(o, report.Contract.Decision))).ToList(),
             report.Passed);
 
     /// <summary>A candidate whose check stopped on bad input.</summary>

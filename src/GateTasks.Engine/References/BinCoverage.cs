@@ -40,7 +40,7 @@ internal static class BinCoverage
                 $"at least {Percent(MinimumShare)} must lie inside the bins, as the binned checks do not compare the flows. " +
                 $"The reference spans [{InvariantNumber.Short(reference.Summary.Min)}, {InvariantNumber.Short(reference.Summary.Max)}]: move or widen the bins.",
                 spec.Binning.Location);
-        foreach (var name in spec.Checks.Where(c => c.Region == Region.Named).Select(c => c.Named).Distinct())
+        foreach (var name in spec.Checks.OfType<RegionToleranceCheck>().Where(c => c.Region.Kind == Region.Named).Select(c => c.Region.Name).Distinct())
         {
             var region = spec.Regions?.FirstOrDefault(g => g.Name == name);
             if (region is null) continue; // the contract loader refuses an undeclared region

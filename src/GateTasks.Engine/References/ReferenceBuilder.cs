@@ -90,12 +90,12 @@ internal static class ReferenceBuilder
         {
             var f = features[i];
             if (f.Kind == FeatureKind.Continuous) grids[i] = new QuantileGrid(min[i], max[i]);
-            direct[i] = f.Binning.Mode switch
+            direct[i] = f.Binning switch
             {
-                BinningMode.Uniform => new Histogram(new RegularAxis(f.Binning.Bins, f.Binning.Lower, f.Binning.Upper)),
-                BinningMode.Edges => new Histogram(Axis.FromEdges(f.Binning.Edges)),
-                BinningMode.Categories => new Histogram(CategoryAxis(f, min[i], max[i])),
-                _ => null,
+                UniformBinning u => new Histogram(new RegularAxis(u.Bins, u.Lower, u.Upper)),
+                EdgeBinning e => new Histogram(Axis.FromEdges(e.Edges)),
+                CategoryBinning => new Histogram(CategoryAxis(f, min[i], max[i])),
+                _ => null, // quantile bins: rebinned from the fine grid once the reference is read
             };
         }
         SampleStream.Run(sample, columns, weightColumn, new SpikeSeparation(features).Around((i, values, weights) =>
@@ -109,8 +109,9 @@ internal static class ReferenceBuilder
         {
             var f = features[i];
             var grid = grids[i];
-            var histogram = direct[i]
-                ?? grid!.Rebin(new VariableAxis(grid.EqualProbabilityEdges(f.Binning.Bins)), totals.Events);
+            var histogram = f.Binning is QuantileBinning quantile
+                ? grid!.Rebin(new VariableAxis(grid.EqualProbabilityEdges(quantile.Bins)), totals.Events)
+                : direct[i]!;
             var probabilities = StandardProbabilities.Concat([f.Core.LowerQuantile, f.Core.UpperQuantile])
                 .Distinct().Order().ToList();
             var quantiles = grid is null

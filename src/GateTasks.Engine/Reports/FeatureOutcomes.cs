@@ -20,7 +20,7 @@ internal sealed record FeatureOutcomes(string Name, FeatureComparison? Compariso
     {
         var comparisons = report.Comparisons.ToDictionary(c => c.Spec.Name);
         return report.Outcomes
-            .GroupBy(o => o.Feature.Name)
+            .GroupBy(o => o.Subject.Name)
             .Select(g => new FeatureOutcomes(g.Key, comparisons.GetValueOrDefault(g.Key), g.ToList()))
             .OrderBy(f => Rank(f.Worst)) // stable: contract order within each verdict
             .ToList();

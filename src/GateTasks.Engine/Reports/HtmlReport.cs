@@ -152,11 +152,10 @@ internal static class HtmlReport
         sb.Append("</details>\n</section>\n");
     }
 
-    private static string NoPlotNote(FeatureOutcomes s) => s.Outcomes[0].Check.Kind switch
+    private static string NoPlotNote(FeatureOutcomes s) => s.Outcomes[0].Subject switch
     {
-        CheckKind.PearsonDifference or CheckKind.SpearmanDifference or CheckKind.ChiSquare2DTest =>
-            "A declared pair of features: its correlations (or 2-D histogram) are compared directly, with no 1-D plot.",
-        CheckKind.EnergyTest => "A multivariate test over a feature set, on unbinned subsamples: no 1-D plot.",
+        PairSubject => "A declared pair of features: its correlations (or 2-D histogram) are compared directly, with no 1-D plot.",
+        JointSubject => "A multivariate test over a feature set, on unbinned subsamples: no 1-D plot.",
         _ => "No histogram to plot.",
     };
 

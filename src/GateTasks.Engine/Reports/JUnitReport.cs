@@ -2,6 +2,7 @@ using System.Globalization;
 using System.Text;
 using System.Xml;
 using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.IO;
 using GateTasks.Engine.Runs;
@@ -74,7 +75,7 @@ internal static class JUnitReport
         {
             var where = o.Check.Location;
             w.WriteStartElement("testcase");
-            w.WriteAttributeString("classname", Clean($"{suite}.{o.Feature.Name}"));
+            w.WriteAttributeString("classname", Clean($"{suite}.{o.Subject.Name}"));
             w.WriteAttributeString("name", Clean(o.Check.Label));
             w.WriteAttributeString("time", Seconds(caseTime));
             w.WriteAttributeString("file", Clean(where.File));
@@ -82,15 +83,15 @@ internal static class JUnitReport
 
             var m = o.Measured;
             w.WriteStartElement("properties");
-            Property(w, "feature", o.Feature.Name);
+            Property(w, "feature", o.Subject.Name);
             Property(w, "check", o.Check.Key);
             Property(w, "region", o.Check.RegionName);
             Property(w, "estimate", InvariantNumber.Exact(m.Estimate));
-            if (!o.Check.IsTest)
+            if (o.Check is ToleranceCheck bounded)
             {
                 Property(w, "lower_bound", InvariantNumber.Exact(m.Lower));
                 Property(w, "upper_bound", InvariantNumber.Exact(m.Upper));
-                Property(w, "tolerance", InvariantNumber.Exact(o.Check.Limit));
+                Property(w, "tolerance", InvariantNumber.Exact(bounded.Tolerance));
             }
             Property(w, "p_value", InvariantNumber.Exact(m.PValue));
             Property(w, "adjusted_p_value", InvariantNumber.Exact(o.AdjustedPValue));
@@ -106,10 +107,10 @@ internal static class JUnitReport
                 var code = o.Verdict == Verdict.Fail ? CheckEvaluator.DriftCode(o.Check) : CheckEvaluator.InconclusiveCode;
                 var what = o.Verdict == Verdict.Fail ? o.Summary : $"inconclusive: {o.Summary}; {ResultTable.NeededText(m.EventsNeeded)}";
                 w.WriteStartElement("failure");
-                w.WriteAttributeString("message", Clean($"{o.Feature.Name} {o.Check.Label}: {what}"));
+                w.WriteAttributeString("message", Clean($"{o.Subject.Name} {o.Check.Label}: {what}"));
                 w.WriteAttributeString("type", code);
                 w.WriteString(Clean(
-                    $"{where}: error {code}: feature '{o.Feature.Name}', {o.Check.Label}: {what}\n" +
+                    $"{where}: error {code}: feature '{o.Subject.Name}', {o.Check.Label}: {what}\n" +
                     $"adjusted p-value {InvariantNumber.Exact(o.AdjustedPValue)} against the family-wise level {InvariantNumber.Exact(r.Contract.Decision.FalseAlarm)} ({r.Contract.Decision.CorrectionName})\n" +
                     $"tolerance stated at {where}"));
                 w.WriteEndElement();
@@ -117,7 +118,7 @@ internal static class JUnitReport
             else if (o.Verdict == Verdict.Inconclusive)
             {
                 w.WriteStartElement("skipped");
-                w.WriteAttributeString("message", Clean($"{o.Feature.Name} {o.Check.Label}: inconclusive, {ResultTable.NeededText(m.EventsNeeded)}"));
+                w.WriteAttributeString("message", Clean($"{o.Subject.Name} {o.Check.Label}: inconclusive, {ResultTable.NeededText(m.EventsNeeded)}"));
                 w.WriteEndElement();
             }
             w.WriteEndElement();

@@ -43,7 +43,7 @@ internal static class MarkdownSummary
             foreach (var o in open)
             {
                 var verdict = o.Verdict == Verdict.Fail ? "**FAIL**" : "inconclusive" + Needed(o.Measured.EventsNeeded);
-                Row(sb, Code(o.Feature.Name), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o), verdict);
+                Row(sb, Code(o.Subject.Name), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o), verdict);
             }
             sb.Append('\n');
         }
@@ -54,7 +54,7 @@ internal static class MarkdownSummary
             sb.Append("| feature | check | region | estimate | tolerance |\n");
             sb.Append("|---|---|---|---:|---:|\n");
             foreach (var o in passed)
-                Row(sb, Code(o.Feature.Name), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o));
+                Row(sb, Code(o.Subject.Name), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o));
             sb.Append("\n</details>\n\n");
         }
         sb.Append(Text(ResultTable.DecisionRule(report))).Append('\n');

@@ -24,7 +24,7 @@ internal static class PlanTable
             var events = c.EventsToPass is { } n ? Approximately(n) : "never: reference-limited";
             var detectable = c.Family is null ? "not simulated"
                 : c.DetectableDrift is { } s ? Percent(s) : $"none up to {Percent(c.DriftSearchedUpTo)}";
-            sb.AppendLine($"| {c.Feature.Name} | {c.Check.Label} | {(c.Check.IsTest ? "test" : Short(c.Check.Limit))} | {events} | " +
+            sb.AppendLine($"| {c.Feature.Name} | {c.Check.Label} | {(c.Check is ToleranceCheck bounded ? Short(bounded.Tolerance) : "test")} | {events} | " +
                           $"{Short(c.PassRate)} ± {Noise(c.PassRateNoise)} | {FamilyName(c.Family)} | {detectable} | {(c.EffectAtDrift is { } e ? Short(e) : "—")} |");
         }
         sb.AppendLine();

@@ -1,6 +1,7 @@
 using System.Globalization;
 using System.Text;
 using GateTasks.Engine.Checks;
+using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Runs;
 using GateTasks.Engine.References;
@@ -23,7 +24,7 @@ internal static class ResultTable
         {
             var m = o.Measured;
             rows.Add([
-                o.Feature.Name,
+                o.Subject.Name,
                 o.Check.Key,
                 o.Check.RegionName,
                 InvariantNumber.Short(m.Estimate),
@@ -73,10 +74,10 @@ internal static class ResultTable
 
     /// <summary>"[lower, upper]" of an effect's confidence interval; "—" for tests and impossible measurements.</summary>
     public static string IntervalText(CheckOutcome o) =>
-        o.Check.IsTest || double.IsNaN(o.Measured.Upper) ? "—" : $"[{InvariantNumber.Short(o.Measured.Lower)}, {InvariantNumber.Short(o.Measured.Upper)}]";
+        o.Check is GoodnessOfFitTest || double.IsNaN(o.Measured.Upper) ? "—" : $"[{InvariantNumber.Short(o.Measured.Lower)}, {InvariantNumber.Short(o.Measured.Upper)}]";
 
     /// <summary>"≤ 0.03" for an effect check; "—" for a test, which has no tolerance.</summary>
-    public static string ToleranceText(CheckOutcome o) => o.Check.IsTest ? "—" : "≤ " + InvariantNumber.Short(o.Check.Limit);
+    public static string ToleranceText(CheckOutcome o) => o.Check is ToleranceCheck bounded ? "≤ " + InvariantNumber.Short(bounded.Tolerance) : "—";
 
     /// <summary>One sentence stating how the verdicts were reached.</summary>
     public static string DecisionRule(CheckReport report)

@@ -14,9 +14,10 @@ internal sealed record ToleranceBand(string Region, Region Kind, double Toleranc
     {
         var axis = c.Reference.Histogram.Axis;
         var bands = new List<ToleranceBand>();
-        foreach (var o in outcomes.Where(o => o.Check.Kind == CheckKind.BinRatio && double.IsFinite(o.Check.Limit)))
+        foreach (var o in outcomes)
         {
-            var covered = RegionBins.Covered(c, o.Check);
+            if (o.Check is not RegionToleranceCheck { Kind: CheckKind.BinRatio } check) continue;
+            var covered = RegionBins.Covered(c, check);
             var spans = new List<(double, double)>();
             for (var b = 0; b < covered.Length; b++)
             {
@@ -25,7 +26,7 @@ internal sealed record ToleranceBand(string Region, Region Kind, double Toleranc
                 while (b + 1 < covered.Length && covered[b + 1]) b++;
                 spans.Add((axis.Lower(first), axis.Upper(b)));
             }
-            bands.Add(new ToleranceBand(o.Check.RegionName, o.Check.Region, o.Check.Limit, spans, o.Verdict));
+            bands.Add(new ToleranceBand(check.RegionName, check.Region.Kind, check.Tolerance, spans, o.Verdict));
         }
         return bands;
     }

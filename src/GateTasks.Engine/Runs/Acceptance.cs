@@ -45,7 +45,7 @@ internal static class Acceptance
     {
         var b = new StringBuilder();
         foreach (var o in report.Outcomes)
-            b.Append(new LedgerLine("result").Add(o.Feature.Name).Add(o.Check.Label).Add(o.Measured.Estimate).Add(o.Measured.Upper)
+            b.Append(new LedgerLine("result").Add(o.Subject.Name).Add(o.Check.Label).Add(o.Measured.Estimate).Add(o.Measured.Upper)
                 .Add(o.AdjustedPValue).Add(o.Verdict.ToString().ToLowerInvariant())).Append('\n');
         return b.ToString();
     }

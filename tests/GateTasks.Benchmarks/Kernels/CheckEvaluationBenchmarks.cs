@@ -37,7 +37,7 @@ public class CheckEvaluationBenchmarks
         var surrogate = new Histogram(axis);
         surrogate.Fill(Enumerable.Range(0, 100_000).Select(_ => Normal()).ToArray(), ReadOnlySpan<double>.Empty);
 
-        var spec = new FeatureSpec("x", "x", FeatureKind.Continuous, new BinningSpec(BinningMode.Quantile, 40, 0, 0, [], At),
+        var spec = new FeatureSpec("x", "x", FeatureKind.Continuous, new QuantileBinning(40, At),
             new CoreSpec(0.05, 0.95, At), [], At, At);
         var summary = new FeatureSummary(200_000, 200_000, 200_000, 0, 1, sorted[0], sorted[^1], 0);
         var referenceFeature = new ReferenceFeature("x", "x", FeatureKind.Continuous, "quantile:40", reference, summary,
@@ -46,10 +46,10 @@ public class CheckEvaluationBenchmarks
         _comparison = new FeatureComparison(spec, referenceFeature, surrogate, summary, core);
         _spec = Check switch
         {
-            "ks-max" => new CheckSpec(CheckKind.KolmogorovSmirnov, Region.All, 0.01, At),
-            "ks-test" => new CheckSpec(CheckKind.KolmogorovSmirnovTest, Region.All, double.NaN, At),
-            "chi2-test" => new CheckSpec(CheckKind.ChiSquareTest, Region.All, double.NaN, At),
-            _ => new CheckSpec(CheckKind.BinRatio, Region.Core, 0.03, At),
+            "ks-max" => new ToleranceCheck(CheckKind.KolmogorovSmirnov, 0.01, At),
+            "ks-test" => new GoodnessOfFitTest(CheckKind.KolmogorovSmirnovTest, At),
+            "chi2-test" => new GoodnessOfFitTest(CheckKind.ChiSquareTest, At),
+            _ => new RegionToleranceCheck(CheckKind.BinRatio, CheckRegion.Core, 0.03, At),
         };
     }
 

@@ -263,7 +263,16 @@ public sealed class ContractCheckTests : IDisposable
         var (sx, sy) = Draw(50_000, 2);
         Write("surrogate.csv", sx, sy);
         var faithful = ContractCheck.Run(contract);
-        Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+        Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+        // Each outcome names what it was made on, at its declaration in the contract above (the program against its own
+        // contract): the features, the pair (its entry, line 13), the joint block (its mapping, line 18).
+        Assert.Equal(["x", "y"], faithful.Outcomes.Where(o => o.Subject is FeatureSubject).Select(o => o.Subject.Name).Distinct());
+        var pairOutcomes = faithful.Outcomes.Where(o => o.Subject is PairSubject).ToList();
+        Assert.Equal([CheckKind.PearsonDifference, CheckKind.SpearmanDifference, CheckKind.ChiSquare2DTest], pairOutcomes.Select(o => o.Check.Kind));
+        Assert.All(pairOutcomes, o => Assert.Equal(("x~y", 13), (o.Subject.Name, o.Subject.Location.Line)));
+        var jointOutcome = Assert.Single(faithful.Outcomes, o => o.Subject is JointSubject);
+        Assert.Equal(CheckKind.EnergyTest, jointOutcome.Check.Kind);
+        Assert.Equal(("joint(x,y)", 18), (jointOutcome.Subject.Name, jointOutcome.Subject.Location.Line));
 
         // Same marginals, joint structure destroyed: y shuffled against x.
         var shuffled = sy.OrderBy(v => BitConverter.DoubleToInt64Bits(v) * 2654435761L).ToArray();
@@ -274,7 +283,7 @@ public sealed class ContractCheckTests : IDisposable
         foreach (var o in broken.Outcomes)
         {
             var joint = o.Check.Kind is CheckKind.PearsonDifference or CheckKind.SpearmanDifference or CheckKind.EnergyTest or CheckKind.ChiSquare2DTest;
-            Assert.True(joint ? o.Verdict == Verdict.Fail : o.Verdict == Verdict.Pass, $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}");
+            Assert.True(joint ? o.Verdict == Verdict.Fail : o.Verdict == Verdict.Pass, $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}");
         }
     }
 
@@ -319,7 +328,7 @@ public sealed class ContractCheckTests : IDisposable
 
         PairsCsv("surrogate.csv", 30_000, 2);
         var report = ContractCheck.Run(contract);
-        Assert.True(report.Passed, string.Join("\n", report.Outcomes.Select(o => $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+        Assert.True(report.Passed, string.Join("\n", report.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
 
         // A changed expression is a changed feature: the reference no longer fits.
         File.WriteAllText(contractPath, DerivedContract.Replace("cos(phi1 - phi2)", "cos(phi2 - phi1) * 1.0"));
@@ -407,18 +416,18 @@ public sealed class ContractCheckTests : IDisposable
 
         Write("surrogate.csv", 60_000, 2, 1.2, 0);
         var faithful = ContractCheck.Run(contract);
-        Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+        Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
 
         Write("surrogate.csv", 60_000, 3, 1.2, 0.3); // category 2 shifted by 0.3σ
         var shifted = ContractCheck.Run(contract);
         Assert.All(shifted.Outcomes, o => Assert.True(
-            o.Feature.Name == "x[category=2]" ? o.Verdict == Verdict.Fail : o.Verdict != Verdict.Fail || o.Feature.Name == "x",
-            $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}"));
-        Assert.Contains(shifted.Outcomes, o => o.Feature.Name == "x[category=2]" && o.Verdict == Verdict.Fail);
+            o.Subject.Name == "x[category=2]" ? o.Verdict == Verdict.Fail : o.Verdict != Verdict.Fail || o.Subject.Name == "x",
+            $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}"));
+        Assert.Contains(shifted.Outcomes, o => o.Subject.Name == "x[category=2]" && o.Verdict == Verdict.Fail);
 
         Write("surrogate.csv", 60_000, 4, 1.5, 0); // more objects per event: the category fractions move
         var fractions = ContractCheck.Run(contract);
-        Assert.Equal(Verdict.Fail, fractions.Outcomes.Single(o => o.Feature.Name == "x[category]").Verdict);
+        Assert.Equal(Verdict.Fail, fractions.Outcomes.Single(o => o.Subject.Name == "x[category]").Verdict);
     }
 
     [Fact]
@@ -461,15 +470,15 @@ public sealed class ContractCheckTests : IDisposable
 
         Write("surrogate.csv", 200_000, 2, 1.05); // 5% worse resolution in 75–100 GeV only
         var report = ContractCheck.Run(contract);
-        var failed = report.Outcomes.Where(o => o.Verdict == Verdict.Fail).Select(o => $"{o.Feature.Name} {o.Check.Label}").ToList();
+        var failed = report.Outcomes.Where(o => o.Verdict == Verdict.Fail).Select(o => $"{o.Subject.Name} {o.Check.Label}").ToList();
         Assert.Contains("response[category=3] width-ratio-max", failed);
         // The interquartile width sees the same 5% (it is robust, not blind), but with 37% of σ's efficiency it cannot
         // yet fail at 25 000 events per bin: inconclusive, never a pass.
-        var robust = report.Outcomes.Single(o => o.Feature.Name == "response[category=3]" && o.Check.Kind == CheckKind.InterquartileWidthRatio);
+        var robust = report.Outcomes.Single(o => o.Subject.Name == "response[category=3]" && o.Check.Kind == CheckKind.InterquartileWidthRatio);
         Assert.NotEqual(Verdict.Pass, robust.Verdict);
         Assert.InRange(robust.Measured.Estimate, 0.02, 0.08);
         Assert.All(failed, f => Assert.True(f.StartsWith("response[category=3]") || f.StartsWith("response "), f));
-        Assert.All(report.Outcomes.Where(o => o.Feature.Name.StartsWith("response[category=") && !o.Feature.Name.EndsWith("=3]")),
+        Assert.All(report.Outcomes.Where(o => o.Subject.Name.StartsWith("response[category=") && !o.Subject.Name.EndsWith("=3]")),
             o => Assert.NotEqual(Verdict.Fail, o.Verdict));
     }
 
@@ -515,13 +524,13 @@ public sealed class ContractCheckTests : IDisposable
 
         Write("unfolded.csv", 200_000, 2, 1);
         var closed = ContractCheck.Run(contract);
-        Assert.True(closed.Passed, string.Join("\n", closed.Outcomes.Select(o => $"{o.Feature.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+        Assert.True(closed.Passed, string.Join("\n", closed.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
 
         Write("unfolded.csv", 200_000, 3, 1.03); // 3% high in 40–60 GeV of reco p_T only
         var open = ContractCheck.Run(contract);
-        var failed = open.Outcomes.Where(o => o.Verdict == Verdict.Fail).Select(o => $"{o.Feature.Name} {o.Check.Label}").ToList();
+        var failed = open.Outcomes.Where(o => o.Verdict == Verdict.Fail).Select(o => $"{o.Subject.Name} {o.Check.Label}").ToList();
         Assert.Contains("pt_true[category=2] mean-shift-max", failed);
-        Assert.All(open.Outcomes.Where(o => o.Feature.Name.StartsWith("pt_true[category=") && !o.Feature.Name.EndsWith("=2]")),
+        Assert.All(open.Outcomes.Where(o => o.Subject.Name.StartsWith("pt_true[category=") && !o.Subject.Name.EndsWith("=2]")),
             o => Assert.NotEqual(Verdict.Fail, o.Verdict));
     }
 

@@ -51,17 +51,17 @@ public class InterquartileWidthCheckTests
             sample.Fill(ys[i] = rng.NextDouble() < 0.01 ? 10 * normal.Sample() : normal.Sample());
         }
         FeatureSummary Summary(double[] v) => new(n, n, n, v.Average(), MathNet.Numerics.Statistics.ArrayStatistics.PopulationStandardDeviation(v), v.Min(), v.Max(), 0);
-        var spec = new FeatureSpec("x", "x", FeatureKind.Continuous, new BinningSpec(BinningMode.Quantile, 40, 0, 0, [], At),
+        var spec = new FeatureSpec("x", "x", FeatureKind.Continuous, new QuantileBinning(40, At),
             new CoreSpec(0.05, 0.95, At), [], At, At);
         var rf = new ReferenceFeature("x", "x", FeatureKind.Continuous, "quantile:40", reference, Summary(xs), []);
         var c = new FeatureComparison(spec, rf, sample, Summary(ys), Enumerable.Repeat(true, 40).ToList());
 
-        var iqr = InterquartileWidthCheck.Evaluate(c, new CheckSpec(CheckKind.InterquartileWidthRatio, Region.All, 0.03, At), DecisionSettings.Default);
+        var iqr = InterquartileWidthCheck.Evaluate(c, new ToleranceCheck(CheckKind.InterquartileWidthRatio, 0.03, At), DecisionSettings.Default);
         var se = double.Parse(iqr.Details.Single(d => d.Key == "standard_error").Value, System.Globalization.CultureInfo.InvariantCulture);
         Assert.InRange(se, 0.0030, 0.0045); // 1.1664/√n per sample at n = 2·10⁵, both samples: ≈ 0.0037
         Assert.InRange(iqr.Estimate, 0.0105 - 3 * se, 0.0105 + 3 * se);
         Assert.True(iqr.Upper < 0.03, $"upper bound {iqr.Upper}");
-        var width = MomentShiftCheck.Width(c, new CheckSpec(CheckKind.WidthRatio, Region.All, 0.03, At), DecisionSettings.Default);
+        var width = MomentShiftCheck.Width(c, new ToleranceCheck(CheckKind.WidthRatio, 0.03, At), DecisionSettings.Default);
         Assert.True(width.Estimate > 0.3, $"width ratio deviation {width.Estimate}");
         Assert.True(width.PValue < 1e-6);
     }

@@ -13,7 +13,7 @@ public class MomentShiftCheckTests
 
     private static FeatureComparison Comparison(FeatureSummary reference, FeatureSummary sample, Histogram h)
     {
-        var spec = new FeatureSpec("x", "x", FeatureKind.Continuous, new BinningSpec(BinningMode.Quantile, 3, 0, 0, [], At),
+        var spec = new FeatureSpec("x", "x", FeatureKind.Continuous, new QuantileBinning(3, At),
             new CoreSpec(0.05, 0.95, At), [], At, At);
         var rf = new ReferenceFeature("x", "x", FeatureKind.Continuous, "quantile:3", h, reference, []);
         return new FeatureComparison(spec, rf, h, sample, [true, true, true]);
@@ -27,7 +27,7 @@ public class MomentShiftCheckTests
         // (z₀.₉₅ from the standard normal table).
         var h = new Histogram(new RegularAxis(3, -3, 3));
         var c = Comparison(new FeatureSummary(10_000, 1e4, 1e4, 0, 1, -4, 4, 0), new FeatureSummary(10_000, 1e4, 1e4, 0.05, 1, -4, 4, 0), h);
-        var m = MomentShiftCheck.Mean(c, new CheckSpec(CheckKind.MeanShift, Region.All, 0.1, At), DecisionSettings.Default);
+        var m = MomentShiftCheck.Mean(c, new ToleranceCheck(CheckKind.MeanShift, 0.1, At), DecisionSettings.Default);
         Assert.Equal(0.05, m.Estimate, 12);
         Assert.Equal(0.0732617, m.Upper, 6);
         Assert.True(m.PValue > 0.99); // far inside 0.1
@@ -41,7 +41,7 @@ public class MomentShiftCheckTests
         var axis = new VariableAxis([-1.5, -0.5, 0.5, 1.5]);
         var h = Histogram.FromCells(axis, [0, 50, 0, 50, 0], [0, 50, 0, 50, 0], 100, 0, 0, 0);
         var c = Comparison(new FeatureSummary(100, 100, 100, 0, 1, -1, 1, 0), new FeatureSummary(100, 100, 100, 0, 1.1, -1, 1, 0), h);
-        var m = MomentShiftCheck.Width(c, new CheckSpec(CheckKind.WidthRatio, Region.All, 0.05, At), DecisionSettings.Default);
+        var m = MomentShiftCheck.Width(c, new ToleranceCheck(CheckKind.WidthRatio, 0.05, At), DecisionSettings.Default);
         Assert.Equal(0.1, m.Estimate, 12);
         Assert.Equal(0.1, m.Upper, 12);
         Assert.Contains(m.Details, d => d.Key == "kurtosis_used" && d.Value == "1");

@@ -41,7 +41,7 @@ public sealed class ParallelismTests : IDisposable
             for (var i = 0; i < one.Outcomes.Count; i++)
             {
                 var (a, b) = (one.Outcomes[i], other.Outcomes[i]);
-                var what = $"{a.Feature.Name} {a.Check.Label}";
+                var what = $"{a.Subject.Name} {a.Check.Label}";
                 Assert.Equal(a.Verdict, b.Verdict);
                 Assert.True(a.Measured.Estimate.Equals(b.Measured.Estimate), $"{what}: estimate {a.Measured.Estimate:R} vs {b.Measured.Estimate:R}");
                 Assert.True(a.Measured.Lower.Equals(b.Measured.Lower), $"{what}: lower {a.Measured.Lower:R} vs {b.Measured.Lower:R}");

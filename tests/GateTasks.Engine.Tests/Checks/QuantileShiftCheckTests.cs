@@ -47,11 +47,11 @@ public class QuantileShiftCheckTests
         Assert.Equal(100.0 / 1050, QuantileShiftCheck.CoreSideDensity(sample, 9.0, 0.9), 12);
         Assert.Equal((150.0 / 1050 + 100.0 / 1050) / 2, QuantileShiftCheck.CoreSideDensity(sample, 1.0, 0.5), 12);
 
-        var spec = new FeatureSpec("x", "x", FeatureKind.Continuous, new BinningSpec(BinningMode.Uniform, 10, 0, 10, [], At),
+        var spec = new FeatureSpec("x", "x", FeatureKind.Continuous, new UniformBinning(10, 0, 10, At),
             new CoreSpec(0.05, 0.95, At), [], At, At);
         var rf = new ReferenceFeature("x", "x", FeatureKind.Continuous, "uniform:10", reference, new FeatureSummary(1000, 1000, 1000, 5, 1, 0, 10, 0), []);
         var c = new FeatureComparison(spec, rf, sample, new FeatureSummary(1050, 1050, 1050, 5, 1, 0, 10, 0), Enumerable.Repeat(true, 10).ToList());
-        var m = QuantileShiftCheck.Evaluate(c, new CheckSpec(CheckKind.QuantileShift, Region.All, 1, At), DecisionSettings.Default);
+        var m = QuantileShiftCheck.Evaluate(c, new ToleranceCheck(CheckKind.QuantileShift, 1, At), DecisionSettings.Default);
         Assert.Equal(0.2857143, double.Parse(m.Details.Single(d => d.Key == "quantile_0.05_sample").Value, CultureInfo.InvariantCulture), 6);
         // σ_r = 1, so that is a shift of 0.2142857 σ. The median: F_s(5) = 550/1050 = 0.5238095, reference density
         // 0.1 on both sides, q_s = 5 − 0.0238095/0.1 = 4.7619048, a shift of 0.2380952 σ — the largest of the three

@@ -55,8 +55,8 @@ public sealed class ShardMergeTests : IDisposable
         for (var i = 0; i < whole.Outcomes.Count; i++)
         {
             var (a, b) = (whole.Outcomes[i], fanned.Outcomes[i]);
-            var what = $"{a.Feature.Name} {a.Check.Label}";
-            Assert.Equal(what, $"{b.Feature.Name} {b.Check.Label}");
+            var what = $"{a.Subject.Name} {a.Check.Label}";
+            Assert.Equal(what, $"{b.Subject.Name} {b.Check.Label}");
             Assert.True(a.Verdict == b.Verdict, $"{what}: {a.Verdict} vs {b.Verdict}");
             switch (a.Check.Kind)
             {

@@ -30,6 +30,10 @@ public class ContractLoaderTests
     private static GateInputException Fails(string text) =>
         Assert.Throws<GateInputException>(() => ContractLoader.Parse(text, "c.yaml"));
 
+    /// <summary>A feature's ratio-max checks, one per region.</summary>
+    private static List<RegionToleranceCheck> Ratios(FeatureSpec feature) =>
+        feature.Checks.OfType<RegionToleranceCheck>().Where(k => k.Kind == CheckKind.BinRatio).ToList();
+
     [Fact]
     public void Nesting_deep_enough_to_overflow_the_stack_is_refused_where_it_starts()
     {
@@ -66,13 +70,12 @@ public class ContractLoaderTests
         Assert.Equal("m_gg > 65 and m_gg < 180", c.Selection!.Text);
         FeatureSpec F(string name) => c.Features.Single(f => f.Name == name);
         var mgg = F("m_gg");
-        Assert.Equal(BinningMode.Quantile, mgg.Binning.Mode);
-        Assert.Equal(30, mgg.Binning.Bins);
-        Assert.Equal(0.03, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Core).Limit);
-        Assert.Equal(0.08, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Tails).Limit);
-        Assert.Equal(0.06, mgg.Checks.Single(k => k.Kind == CheckKind.BinRatio && k.Region == Region.Named).Limit);
+        Assert.Equal(30, Assert.IsType<QuantileBinning>(mgg.Binning).Bins);
+        Assert.Equal(0.03, Ratios(mgg).Single(k => k.Region.Kind == Region.Core).Tolerance);
+        Assert.Equal(0.08, Ratios(mgg).Single(k => k.Region.Kind == Region.Tails).Tolerance);
+        Assert.Equal(0.06, Ratios(mgg).Single(k => k.Region.Kind == Region.Named).Tolerance);
         var pt = F("pt_gg");
-        Assert.Equal(10, pt.Binning.Bins);
+        Assert.Equal(10, Assert.IsType<QuantileBinning>(pt.Binning).Bins);
         Assert.Equal(0.05, pt.Core.LowerQuantile, 12);
         Assert.Equal(0.95, pt.Core.UpperQuantile, 12);
         // The category block: one feature per jet multiplicity, each under its condition, and their fractions.
@@ -98,13 +101,13 @@ public class ContractLoaderTests
         var y = c.Features[1];
         Assert.Equal("y_col", y.Column);
         Assert.DoesNotContain(y.Checks, k => k.Kind == CheckKind.KolmogorovSmirnov);
-        Assert.Equal(0.02, y.Checks.Single(k => k.Region == Region.Core).Limit);
-        var tails = y.Checks.Single(k => k.Region == Region.Tails);
-        Assert.Equal(0.2, tails.Limit);
+        Assert.Equal(0.02, Ratios(y).Single(k => k.Region.Kind == Region.Core).Tolerance);
+        var tails = Ratios(y).Single(k => k.Region.Kind == Region.Tails);
+        Assert.Equal(0.2, tails.Tolerance);
         Assert.Equal(new SourceLocation("c.yaml", 14, 27), tails.Location); // line 14: "      ratio-max: { tails: 0.2 }"
         var n = c.Features[2];
-        Assert.Equal(Region.All, n.Checks.Single(k => k.Kind == CheckKind.BinRatio).Region);
-        Assert.DoesNotContain(n.Checks, k => k.Region is Region.Core or Region.Tails);
+        Assert.Equal(Region.All, Ratios(n).Single().Region.Kind);
+        Assert.DoesNotContain(Ratios(n), k => k.Region.Kind is Region.Core or Region.Tails);
     }
 
     [Fact]
@@ -170,7 +173,7 @@ public class ContractLoaderTests
     public void Binning_forms_are_validated()
     {
         var edges = ContractLoader.Parse(Minimal.Replace("  - name: x", "  - name: x\n    binning: { edges: [0, 1, 3] }"), "c.yaml");
-        Assert.Equal(BinningMode.Edges, edges.Features[0].Binning.Mode);
+        Assert.IsType<EdgeBinning>(edges.Features[0].Binning);
         Assert.Equal("edges:0,1,3", edges.Features[0].Binning.Canonical);
         Assert.Equal(ErrorCodes.ContractBadValue,
             Fails(Minimal.Replace("  - name: x", "  - name: x\n    binning: { edges: [0, 2, 1] }")).Code);
@@ -187,9 +190,9 @@ public class ContractLoaderTests
         var x = ContractLoader.Parse(text, "c.yaml").Features[0];
         Assert.Equal(2, x.Regions!.Count);
         Assert.True(x.Regions[1].ByQuantile);
-        Assert.Equal(0.02, x.Checks.Single(c => c.Named == "peak").Limit);
-        Assert.Equal("ratio-max[top]", x.Checks.Single(c => c.Named == "top").Label);
-        Assert.Equal(0.02, x.Checks.Single(c => c.Region == Region.Core).Limit); // the default core stays
+        Assert.Equal(0.02, Ratios(x).Single(c => c.Region == CheckRegion.Declared("peak")).Tolerance);
+        Assert.Equal("ratio-max[top]", Ratios(x).Single(c => c.Region == CheckRegion.Declared("top")).Label);
+        Assert.Equal(0.02, Ratios(x).Single(c => c.Region.Kind == Region.Core).Tolerance); // the default core stays
 
         var e = Fails(text.Replace("peak: 0.02", "paek: 0.02"));
         Assert.Equal(ErrorCodes.ContractUnknownKey, e.Code);
@@ -214,7 +217,7 @@ public class ContractLoaderTests
                 pearson-max: 0.02
             """, "c.yaml");
         Assert.Equal(["y~x", "y~n", "x~n"], listed.Pairs.Select(p => p.Name));
-        Assert.All(listed.Pairs, p => Assert.Equal(0.02, p.Pearson!.Limit));
+        Assert.All(listed.Pairs, p => Assert.Equal(0.02, p.Pearson!.Tolerance));
         Assert.All(listed.Pairs, p => Assert.Null(p.Spearman));
 
         var all = ContractLoader.Parse(Minimal + "\n" + """

@@ -53,7 +53,7 @@ public sealed class ContractDrafterTests : IDisposable
         Assert.Equal(5 + 1 + 6, tolerances.Count); // x: ratio core and tails, ks, mean, width; n: fraction; z: those of x and the spike's fraction
         Assert.All(tolerances, l => Assert.Contains(" # 1/3 × ", l.Replace(" # 1 × ", " # 1/3 × ")));
         // x: the rule's values for 10⁴ data events and 20 bins (hand computation in PrecisionRuleTests).
-        var x = contract.Features[0].Checks.Select(c => c.Limit).ToList();
+        var x = contract.Features[0].Checks.OfType<ToleranceCheck>().Select(c => c.Tolerance).ToList();
         Assert.Contains(0.014, x);   // ratio-max core
         Assert.Contains(0.044, x);   // ratio-max tails
         Assert.Contains(0.0016, x);  // ks-max

@@ -25,12 +25,12 @@ public sealed class HtmlReportTests(ReportCase run) : IClassFixture<ReportCase>
     {
         var report = Shifted;
         var sections = Sections(HtmlReport.Render(report));
-        var subjects = report.Outcomes.Select(o => o.Feature.Name).Distinct().ToList();
+        var subjects = report.Outcomes.Select(o => o.Subject.Name).Distinct().ToList();
         Assert.Equal(subjects.OrderBy(s => s), sections.Select(s => s.Name).OrderBy(s => s));
         foreach (var (name, _, body) in sections)
         {
             var labels = Regex.Matches(body, "<tr class=\"[a-z]+\" data-check=\"([^\"]+)\"").Select(m => m.Groups[1].Value).ToList();
-            Assert.Equal(report.Outcomes.Where(o => o.Feature.Name == name).Select(o => o.Check.Label).OrderBy(l => l), labels.OrderBy(l => l));
+            Assert.Equal(report.Outcomes.Where(o => o.Subject.Name == name).Select(o => o.Check.Label).OrderBy(l => l), labels.OrderBy(l => l));
             var plotted = report.Comparisons.Any(c => c.Spec.Name == name);
             Assert.Equal(plotted ? 1 : 0, Regex.Matches(body, "<svg[ >]").Count);
         }

@@ -51,7 +51,7 @@ public sealed class MarkdownSummaryTests(ReportCase run) : IClassFixture<ReportC
         Assert.Equal(["feature", "check", "region", "estimate", "tolerance", "verdict"], Cells(tables[0][0]));
         var failing = tables[0].Skip(2).Select(Cells).ToList();
         Assert.Equal(report.Outcomes.Count(o => o.Verdict != Verdict.Pass), failing.Count);
-        var ks = report.Outcomes.Single(o => o.Feature.Name == "x" && o.Check.Kind == CheckKind.KolmogorovSmirnov);
+        var ks = report.Outcomes.Single(o => o.Subject.Name == "x" && o.Check.Kind == CheckKind.KolmogorovSmirnov);
         Assert.Equal(Verdict.Fail, ks.Verdict);
         Assert.Contains(failing, r => r[0] == "`x`" && r[1] == "ks-max" && r[2] == "all" && r[4] == "≤ 0.03" && r[5] == "**FAIL**");
         // The passing checks sit in a details block, after its summary line and a blank line.
@@ -65,7 +65,7 @@ public sealed class MarkdownSummaryTests(ReportCase run) : IClassFixture<ReportC
     public void A_passing_run_has_no_failure_table()
     {
         var report = run.Run(30_000, 2, 0);
-        Assert.True(report.Outcomes.All(o => o.Verdict == Verdict.Pass), string.Join("\n", report.Outcomes.Select(o => $"{o.Feature.Name} {o.Check.Label}: {o.Verdict} {o.Summary}")));
+        Assert.True(report.Outcomes.All(o => o.Verdict == Verdict.Pass), string.Join("\n", report.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label}: {o.Verdict} {o.Summary}")));
         var md = MarkdownSummary.Render(report);
         Assert.Equal("### GateTasks check PASSED: report-case", md.Split('\n')[0]);
         var table = Assert.Single(Tables(md));

@@ -15,7 +15,7 @@ public sealed class ToleranceBandTests(ReportCase run) : IClassFixture<ReportCas
     public void Core_and_tails_bands_tile_the_axis_and_a_named_band_covers_the_bins_centred_in_its_range()
     {
         var c = Report.Comparisons.Single(f => f.Spec.Name == "x");
-        var bands = ToleranceBand.For(c, Report.Outcomes.Where(o => o.Feature.Name == "x"));
+        var bands = ToleranceBand.For(c, Report.Outcomes.Where(o => o.Subject.Name == "x"));
         Assert.Equal(["core", "tails", "upper"], bands.Select(b => b.Region));
         var axis = c.Reference.Histogram.Axis;
         var core = bands.Single(b => b.Kind == Region.Core);
@@ -38,9 +38,9 @@ public sealed class ToleranceBandTests(ReportCase run) : IClassFixture<ReportCas
         foreach (var c in Report.Comparisons)
         {
             var bins = ComparedBin.Of(c);
-            foreach (var o in Report.Outcomes.Where(o => o.Feature.Name == c.Spec.Name && o.Check.Kind == CheckKind.BinRatio))
+            foreach (var o in Report.Outcomes.Where(o => o.Subject.Name == c.Spec.Name && o.Check.Kind == CheckKind.BinRatio))
             {
-                var covered = RegionBins.Covered(c, o.Check);
+                var covered = RegionBins.Covered(c, Assert.IsType<RegionToleranceCheck>(o.Check));
                 var worst = bins.Where((b, i) => covered[i] && b.Ratio is not null).Max(b => Math.Abs(b.Ratio!.Value.Ratio - 1));
                 Assert.Equal(o.Measured.Estimate, worst, 12);
             }
