@@ -2,6 +2,7 @@ using System.Globalization;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Histograms;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
@@ -22,7 +23,7 @@ internal static class BinRatioCheck
         var axis = reference.Axis;
         var refTotal = reference.TotalSumW;
         var surTotal = surrogate.TotalSumW;
-        var surEffective = KolmogorovSmirnovCheck.Kish(surTotal, surrogate.TotalSumW2);
+        var surEffective = KishCount.Of(surTotal, surrogate.TotalSumW2);
         var effect = new EffectIntersection(spec.Limit, decision, surrogate.Entries);
 
         var worst = double.NaN;

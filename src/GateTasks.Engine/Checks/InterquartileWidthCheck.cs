@@ -1,5 +1,6 @@
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
@@ -30,8 +31,8 @@ internal static class InterquartileWidthCheck
         var iqrSample = q3s - q1s;
         var ratio = iqrSample / iqrRef;
         var relative = Math.Sqrt(UnitVariance(p1, p3, f1, f3)) / iqrRef; // relative standard error × √n
-        var nRef = KolmogorovSmirnovCheck.Kish(r.TotalSumW, r.TotalSumW2);
-        var nSur = KolmogorovSmirnovCheck.Kish(s.TotalSumW, s.TotalSumW2);
+        var nRef = KishCount.Of(r.TotalSumW, r.TotalSumW2);
+        var nSur = KishCount.Of(s.TotalSumW, s.TotalSumW2);
         var seRef = ratio * relative / Math.Sqrt(nRef);
         var seSur = ratio * relative / Math.Sqrt(nSur);
         var effect = new EffectIntersection(spec.Limit, decision, s.Entries);

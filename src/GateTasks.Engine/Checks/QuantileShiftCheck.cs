@@ -2,6 +2,7 @@ using System.Globalization;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Histograms;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
@@ -23,8 +24,8 @@ internal static class QuantileShiftCheck
         if (!(sigma > 0)) return Measurement.Impossible("the reference's standard deviation is zero, so a quantile shift in its units is undefined", []);
         var r = c.Reference.Histogram;
         var s = c.Surrogate;
-        var nRef = KolmogorovSmirnovCheck.Kish(r.TotalSumW, r.TotalSumW2);
-        var nSur = KolmogorovSmirnovCheck.Kish(s.TotalSumW, s.TotalSumW2);
+        var nRef = KishCount.Of(r.TotalSumW, r.TotalSumW2);
+        var nSur = KishCount.Of(s.TotalSumW, s.TotalSumW2);
         var effect = new EffectIntersection(spec.Limit, decision, s.Entries);
         double[] probabilities = [c.Spec.Core.LowerQuantile, 0.5, c.Spec.Core.UpperQuantile];
 

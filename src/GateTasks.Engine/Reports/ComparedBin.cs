@@ -1,5 +1,6 @@
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Reports;
 
@@ -32,7 +33,7 @@ internal sealed record ComparedBin(
         var axis = reference.Axis;
         var refTotal = reference.TotalSumW;
         var surTotal = surrogate.TotalSumW;
-        var surEffective = KolmogorovSmirnovCheck.Kish(surTotal, surrogate.TotalSumW2);
+        var surEffective = KishCount.Of(surTotal, surrogate.TotalSumW2);
         var density = c.Spec.Kind != FeatureKind.Discrete;
         var bins = new ComparedBin[axis.Count];
         for (var b = 0; b < bins.Length; b++)
