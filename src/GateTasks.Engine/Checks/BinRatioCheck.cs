@@ -39,7 +39,7 @@ internal static class BinRatioCheck
             if (!covered[b]) continue;
             if (BinRatio.Of(reference, surrogate, b, refTotal, surTotal, surEffective) is not { } bin)
             {
-                var sw = surrogate.Storage.SumW[Histogram.Cell(b)];
+                var sw = surrogate.BinSumW(b);
                 if (sw != 0) { unreferenced++; unreferencedWeight += sw; }
                 continue;
             }

@@ -21,10 +21,10 @@ internal static class InterquartileWidthCheck
         const double p1 = 0.25, p3 = 0.75;
         var r = c.Reference.Histogram;
         var s = c.Surrogate;
-        var (q1r, f1) = QuantileShiftCheck.Quantile(r, p1);
-        var (q3r, f3) = QuantileShiftCheck.Quantile(r, p3);
-        var (q1s, _) = QuantileShiftCheck.Quantile(s, p1);
-        var (q3s, _) = QuantileShiftCheck.Quantile(s, p3);
+        var (q1r, f1) = r.Quantile(p1);
+        var (q3r, f3) = r.Quantile(p3);
+        var (q1s, _) = s.Quantile(p1);
+        var (q3s, _) = s.Quantile(p3);
         var iqrRef = q3r - q1r;
         if (!(iqrRef > 0) || !(f1 > 0) || !(f3 > 0))
             return Measurement.Impossible("the reference's interquartile range is zero or its quartiles fall where it has no density", []);

@@ -15,7 +15,7 @@ internal static class KolmogorovSmirnovCheck
     public static Measurement Evaluate(FeatureComparison c, CheckSpec spec, DecisionSettings decision)
     {
         var reference = c.Reference.Histogram;
-        var d = KolmogorovSmirnov.BinnedDistance(reference.Storage.SumW, c.Surrogate.Storage.SumW);
+        var d = KolmogorovSmirnov.BinnedDistance(reference.SumW, c.Surrogate.SumW);
         var n1 = KishCount.Of(reference.TotalSumW, reference.TotalSumW2);
         var n2 = KishCount.Of(c.Surrogate.TotalSumW, c.Surrogate.TotalSumW2);
         var alpha = 1 - decision.Confidence;

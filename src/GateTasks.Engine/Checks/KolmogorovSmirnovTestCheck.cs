@@ -12,7 +12,7 @@ internal static class KolmogorovSmirnovTestCheck
     public static Measurement Evaluate(FeatureComparison c)
     {
         var reference = c.Reference.Histogram;
-        var d = KolmogorovSmirnov.BinnedDistance(reference.Storage.SumW, c.Surrogate.Storage.SumW);
+        var d = KolmogorovSmirnov.BinnedDistance(reference.SumW, c.Surrogate.SumW);
         var p = KolmogorovSmirnov.BinnedPValue(d,
             KishCount.Of(reference.TotalSumW, reference.TotalSumW2),
             KishCount.Of(c.Surrogate.TotalSumW, c.Surrogate.TotalSumW2));

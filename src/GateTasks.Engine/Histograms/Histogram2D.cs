@@ -24,8 +24,9 @@ internal sealed class Histogram2D
     public void Fill(double x, double y, double w = 1.0)
     {
         if (double.IsNaN(x) || double.IsNaN(y)) { NanEntries++; return; }
-        var i = Histogram.Cell(X.Index(x));
-        var j = Histogram.Cell(Y.Index(y));
+        // Each axis's underflow is row/column 0, its overflow the last (axis index + 1), as in a 1-D histogram.
+        var i = X.Index(x) + 1;
+        var j = Y.Index(y) + 1;
         Storage.Add(i * (Y.Count + 2) + j, w);
     }
 

@@ -108,7 +108,7 @@ internal static class ReferenceBuilder
             var f = features[i];
             var grid = grids[i];
             var histogram = direct[i]
-                ?? grid!.Rebin(new VariableAxis(grid.EqualProbabilityEdges(f.Binning.Bins)), totals.Events);
+                ?? grid!.Fine.Rebinned(new VariableAxis(grid.EqualProbabilityEdges(f.Binning.Bins)), totals.Events);
             var probabilities = StandardProbabilities.Concat([f.Core.LowerQuantile, f.Core.UpperQuantile])
                 .Distinct().Order().ToList();
             var quantiles = grid is null

@@ -9,8 +9,8 @@ public class HistogramTests
     {
         var h = new Histogram(new RegularAxis(2, 0, 2));
         h.Fill([-1, 0.5, 0.5, 1.5, 2, double.NaN], [1, 2, 3, 4, 5, 6]);
-        Assert.Equal([1, 5, 4, 5], h.Storage.SumW.ToArray());
-        Assert.Equal([1, 13, 16, 25], h.Storage.SumW2.ToArray());
+        Assert.Equal([1, 5, 4, 5], h.SumW.ToArray());
+        Assert.Equal([1, 13, 16, 25], h.SumW2.ToArray());
         Assert.Equal(1, h.NanEntries);
         Assert.Equal(6, h.NanSumW);
         Assert.Equal(36, h.NanSumW2);
@@ -30,7 +30,7 @@ public class HistogramTests
         a.Fill(values.AsSpan(0, 400), []);
         b.Fill(values.AsSpan(400), []);
         b.Add(a);
-        Assert.Equal(whole.Storage.SumW.ToArray(), b.Storage.SumW.ToArray());
+        Assert.Equal(whole.SumW.ToArray(), b.SumW.ToArray());
         Assert.Equal(whole.Entries, b.Entries);
         Assert.Throws<ArgumentException>(() => b.Add(new Histogram(new RegularAxis(3, 0, 4))));
     }
@@ -72,8 +72,8 @@ public class HistogramTests
             sumW[bin + 1] += w;
             sumW2[bin + 1] += w * w;
         }
-        Assert.Equal(sumW, h.Storage.SumW.ToArray());
-        Assert.Equal(sumW2, h.Storage.SumW2.ToArray());
+        Assert.Equal(sumW, h.SumW.ToArray());
+        Assert.Equal(sumW2, h.SumW2.ToArray());
         Assert.Equal(values.Length, h.Entries);
         Assert.Equal(nan, h.NanEntries);
         Assert.Equal(nanW, h.NanSumW);

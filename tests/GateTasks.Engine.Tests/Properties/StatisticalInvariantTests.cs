@@ -19,7 +19,7 @@ public class StatisticalInvariantTests
 
     private static double[] Finite(double[] xs) => xs.Where(double.IsFinite).Select(x => Math.Clamp(x, -1e6, 1e6)).ToArray();
 
-    private static double[] Cells(Histogram h) => [.. h.Storage.SumW.ToArray(), h.NanEntries];
+    private static double[] Cells(Histogram h) => [.. h.SumW.ToArray(), h.NanEntries];
 
     [Property(Replay = Seed, MaxTest = 200)]
     public bool Filling_is_invariant_under_permutation(double[] values, int seed)
@@ -71,8 +71,8 @@ public class StatisticalInvariantTests
         middle.Add(Shard(0, third));
         right.Add(middle);
         var (l, r) = (left.ToHistogram(), right.ToHistogram());
-        return l.Storage.SumW.ToArray().SequenceEqual(r.Storage.SumW.ToArray())
-               && l.Storage.SumW2.ToArray().SequenceEqual(r.Storage.SumW2.ToArray());
+        return l.SumW.ToArray().SequenceEqual(r.SumW.ToArray())
+               && l.SumW2.ToArray().SequenceEqual(r.SumW2.ToArray());
     }
 
     [Property(Replay = Seed, MaxTest = 200)]
@@ -86,8 +86,8 @@ public class StatisticalInvariantTests
         var scaled = new Histogram(Binning);
         plain.Fill(x, w);
         scaled.Fill(x, w.Select(v => v * factor).ToArray());
-        return plain.Storage.SumW.ToArray().Select(v => v * factor).SequenceEqual(scaled.Storage.SumW.ToArray())
-               && plain.Storage.SumW2.ToArray().Select(v => v * factor * factor).SequenceEqual(scaled.Storage.SumW2.ToArray());
+        return plain.SumW.ToArray().Select(v => v * factor).SequenceEqual(scaled.SumW.ToArray())
+               && plain.SumW2.ToArray().Select(v => v * factor * factor).SequenceEqual(scaled.SumW2.ToArray());
     }
 
     [Property(Replay = Seed, MaxTest = 200)]
