@@ -26,9 +26,6 @@ internal sealed class Histogram
     /// <summary>Σw² of every cell in value order: the underflow, the regular bins, the overflow (NaN apart).</summary>
     public ReadOnlySpan<double> SumW2 => _storage.SumW2;
 
-    /// <summary>Σw of the regular bins only, bin 0 first.</summary>
-    public ReadOnlySpan<double> BinsSumW => _storage.SumW[1..^1];
-
     /// <summary>Σw of regular bin <paramref name="bin"/>.</summary>
     public double BinSumW(int bin) => _storage.SumW[bin + 1];
 

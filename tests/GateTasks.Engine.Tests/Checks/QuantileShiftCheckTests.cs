@@ -12,22 +12,6 @@ public class QuantileShiftCheckTests
     private static readonly SourceLocation At = new("c.yaml", 1, 1);
 
     [Fact]
-    public void Histogram_quantiles_interpolate_within_a_bin()
-    {
-        // Uniform on [0, 10) in 10 bins of 100 entries: the p-quantile is 10p and the density 0.1 (exact by construction).
-        var axis = new RegularAxis(10, 0, 10);
-        var cells = new double[12];
-        for (var i = 1; i <= 10; i++) cells[i] = 100;
-        var h = Histogram.FromCells(axis, cells, cells, 1000, 0, 0, 0);
-        foreach (var p in new[] { 0.05, 0.5, 0.95, 0.333 })
-        {
-            var (q, f) = h.Quantile(p);
-            Assert.Equal(10 * p, q, 12);
-            Assert.Equal(0.1, f, 12);
-        }
-    }
-
-    [Fact]
     public void The_sample_quantile_is_read_to_first_order_with_the_core_side_density()
     {
         // Reference uniform on [0, 10) in 10 bins of 100; the sample has 150 in the first bin (1050 in all).
