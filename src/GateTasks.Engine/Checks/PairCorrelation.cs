@@ -15,7 +15,7 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
     /// <summary>The pair's 2-D histogram, when its χ² test is asked for: a per-batch buffer, added exactly into the cells below.</summary>
     public Histogram2D? Joint { get; } = joint;
 
-    private readonly ExactCells? _cells = joint is null ? null : new ExactCells(joint.Storage.CellCount);
+    private readonly ExactCells? _cells = joint is null ? null : new ExactCells(joint.CellCount);
 
     /// <summary>The 2-D cells' Σw and Σw², each summed exactly and rounded once; null without a χ² test.</summary>
     public (double[] SumW, double[] SumW2)? JointCells => _cells is null ? null : (_cells.SumW(), _cells.SumW2());
@@ -38,7 +38,7 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
             _spearman.Add(firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
             Joint?.Fill(x[r], y[r], w);
         }
-        if (Joint is not null) _cells!.Absorb(Joint.Storage);
+        if (Joint is not null) Joint.MoveCellsInto(_cells!);
     }
 
     /// <summary>Writes the pair's state into a partial file.</summary>
