@@ -13,9 +13,8 @@ internal static class DriftedDistribution
     public static double[] CellProbabilities(ReferenceFeature feature, IReadOnlyList<bool> coreBins, Drift drift)
     {
         var h = feature.Histogram;
-        var w = h.SumW.ToArray();
-        var total = w.Sum();
-        var p = w.Select(x => Math.Max(0, x) / total).ToArray();
+        var total = h.TotalSumW;
+        var p = h.SumW.ToArray().Select(x => Math.Max(0, x) / total).ToArray();
         switch (drift.Kind)
         {
             case DriftKind.Scale:
