@@ -77,8 +77,8 @@ public sealed class GateRun : Task, ICancelableTask
     public ITaskItem[] Inputs { get; private set; } = [];
 
     /// <summary>
-    /// Check: the reports written. Inputs: every report file the check will write (see ReportNames), whether or not
-    /// it exists yet. Each has <c>Kind</c> and <c>Contract</c> metadata.
+    /// Inputs only: every report file the check will write (see ReportNames), whether or not it exists yet. Each has
+    /// <c>Kind</c> and <c>Contract</c> metadata.
     /// </summary>
     [Output]
     public ITaskItem[] Reports { get; private set; } = [];
@@ -114,13 +114,12 @@ public sealed class GateRun : Task, ICancelableTask
             return false;
         }
         var inputs = new List<ITaskItem>();
-        var reports = new List<ITaskItem>();
         var allPassed = true;
         for (var i = 0; i < contracts.Count; i++)
         {
             if (_cancelled) return false;
             _driftLogged = _inputErrorLogged = false;
-            var ok = listing ? ListInputs(contracts[i], inputs) : Check(contracts[i], reportBases[i], reports);
+            var ok = listing ? ListInputs(contracts[i], inputs) : Check(contracts[i], reportBases[i]);
             allPassed &= ok;
         }
         Inputs = inputs.ToArray();
@@ -129,7 +128,6 @@ public sealed class GateRun : Task, ICancelableTask
             Listed = allPassed && !_cancelled;
             return true;
         }
-        Reports = reports.ToArray();
         Passed = allPassed && !Log.HasLoggedErrors;
         return !Log.HasLoggedErrors;
     }
@@ -174,7 +172,7 @@ public sealed class GateRun : Task, ICancelableTask
         return ok;
     }
 
-    private bool Check(string contract, string reportBase, List<ITaskItem> reports)
+    private bool Check(string contract, string reportBase)
     {
         var planned = ReportItems(contract, reportBase).ToList();
         string PathOf(string kind) => planned.First(r => r.GetMetadata("Kind") == kind).ItemSpec;
@@ -190,7 +188,6 @@ public sealed class GateRun : Task, ICancelableTask
             TaskUnfinishedReport.Write(planned, contract, why.Code, why.Message);
             _unfinished = null;
         }
-        reports.AddRange(planned.Where(r => File.Exists(r.ItemSpec)));
         return ok;
     }
 

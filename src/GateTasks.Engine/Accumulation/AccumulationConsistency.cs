@@ -58,11 +58,11 @@ internal static class AccumulationConsistency
                 return $"{name}: its moments count {summary.Count + summary.NonFiniteCount} values, its histogram {h.Entries}";
 
             double sumW = 0, sumW2 = 0;
-            for (var c = 0; c < h.Storage.CellCount; c++)
+            for (var c = 0; c < h.SumW.Length; c++)
             {
-                if (Cell(h.Storage.SumW[c], h.Storage.SumW2[c], unit, positive) is { } problem) return $"{name}, cell {c}: {problem}";
-                sumW += h.Storage.SumW[c];
-                sumW2 += h.Storage.SumW2[c];
+                if (Cell(h.SumW[c], h.SumW2[c], unit, positive) is { } problem) return $"{name}, cell {c}: {problem}";
+                sumW += h.SumW[c];
+                sumW2 += h.SumW2[c];
             }
             if (Cell(h.NanSumW, h.NanSumW2, unit, positive) is { } nanProblem) return $"{name}, NaN values: {nanProblem}";
             if (unit && h.NanSumW != h.NanEntries) return $"{name}: {h.NanEntries} NaN values weigh {N(h.NanSumW)} with unit weights";

@@ -26,5 +26,5 @@ internal sealed record FeatureSummary(
     public long NonFiniteCount => NanCount + PositiveInfinityCount + NegativeInfinityCount;
 
     /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>
-    public double EffectiveCount => SumW2 > 0 ? SumW * SumW / SumW2 : 0;
+    public double EffectiveCount => Statistics.KishCount.Of(SumW, SumW2);
 }

@@ -15,7 +15,7 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
     /// <summary>The pair's 2-D histogram, when its χ² test is asked for: a per-batch buffer, added exactly into the cells below.</summary>
     public Histogram2D? Joint { get; } = joint;
 
-    private readonly ExactCells? _cells = joint is null ? null : new ExactCells(joint.Storage.CellCount);
+    private readonly ExactCells? _cells = joint is null ? null : new ExactCells(joint.CellCount);
 
     private readonly WeightedCorrelation _pearson = new();
     private readonly WeightedCorrelation _spearman = new();
@@ -35,7 +35,7 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
             _spearman.Add(firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
             Joint?.Fill(x[r], y[r], w);
         }
-        if (Joint is not null) _cells!.Absorb(Joint.Storage);
+        if (Joint is not null) Joint.MoveCellsInto(_cells!);
     }
 
     /// <summary>The pair's state as plain numbers.</summary>

@@ -11,18 +11,18 @@ internal static class BinnedSummary
     {
         var axis = h.Axis;
         double w = 0, w2 = 0, m1 = 0;
-        for (var c = 0; c < h.Storage.CellCount; c++)
+        for (var c = 0; c < h.SumW.Length; c++)
         {
-            w += h.Storage.SumW[c];
-            w2 += h.Storage.SumW2[c];
-            m1 += h.Storage.SumW[c] * Position(axis, c);
+            w += h.SumW[c];
+            w2 += h.SumW2[c];
+            m1 += h.SumW[c] * Position(axis, c);
         }
         var mean = w > 0 ? m1 / w : double.NaN;
         double m2 = 0;
-        for (var c = 0; c < h.Storage.CellCount; c++)
+        for (var c = 0; c < h.SumW.Length; c++)
         {
             var d = Position(axis, c) - mean;
-            m2 += h.Storage.SumW[c] * d * d;
+            m2 += h.SumW[c] * d * d;
         }
         return new FeatureSummary(h.Entries, w, w2, mean, w > 0 ? Math.Sqrt(m2 / w) : double.NaN, axis.Edges[0], axis.Edges[^1], 0);
     }

@@ -13,9 +13,8 @@ internal static class DriftedDistribution
     public static double[] CellProbabilities(ReferenceFeature feature, IReadOnlyList<bool> coreBins, Drift drift)
     {
         var h = feature.Histogram;
-        var w = h.Storage.SumW.ToArray();
-        var total = w.Sum();
-        var p = w.Select(x => Math.Max(0, x) / total).ToArray();
+        var total = h.TotalSumW;
+        var p = h.SumW.ToArray().Select(x => Math.Max(0, x) / total).ToArray();
         switch (drift.Kind)
         {
             case DriftKind.Scale:
@@ -45,18 +44,8 @@ internal static class DriftedDistribution
     private static double[] Mapped(Axis axis, double[] p, Func<double, double> inverse)
     {
         var edges = axis.Edges.ToArray();
-        double Cdf(double x)
-        {
-            // Underflow mass sits at the lower edge, overflow mass at the upper edge.
-            if (x < edges[0]) return 0;
-            var c = p[0];
-            for (var b = 0; b < edges.Length - 1; b++)
-            {
-                if (x < edges[b + 1]) return c + p[b + 1] * (x - edges[b]) / (edges[b + 1] - edges[b]);
-                c += p[b + 1];
-            }
-            return c;
-        }
+        // Underflow mass sits at the lower edge, overflow mass at the upper edge.
+        double Cdf(double x) => CellCdf.At(edges, p, x);
         var q = new double[p.Length];
         q[0] = Cdf(inverse(edges[0]));
         for (var b = 0; b < edges.Length - 1; b++) q[b + 1] = Cdf(inverse(edges[b + 1])) - Cdf(inverse(edges[b]));

@@ -17,15 +17,14 @@ internal readonly record struct BinRatio(double Ratio, double SigmaReference, do
     /// </summary>
     public static BinRatio? Of(Histogram reference, Histogram surrogate, int bin, double refTotal, double surTotal, double surEffective)
     {
-        var cell = Histogram.Cell(bin);
-        var rw = reference.Storage.SumW[cell];
+        var rw = reference.BinSumW(bin);
         if (rw <= 0) return null;
-        var sw = surrogate.Storage.SumW[cell];
+        var sw = surrogate.BinSumW(bin);
         var fraction = rw / refTotal;
         var ratio = surTotal > 0 ? sw / surTotal / fraction : 0;
         // Relative variances of the two normalised contents; an empty surrogate bin takes the variance expected from the reference.
-        var relRef = reference.Storage.SumW2[cell] / (rw * rw);
-        var relSur = sw > 0 ? surrogate.Storage.SumW2[cell] / (sw * sw) : 1 / Math.Max(fraction * surEffective, 1e-300);
+        var relRef = reference.BinSumW2(bin) / (rw * rw);
+        var relSur = sw > 0 ? surrogate.BinSumW2(bin) / (sw * sw) : 1 / Math.Max(fraction * surEffective, 1e-300);
         return new BinRatio(ratio, Math.Max(ratio, 1e-12) * Math.Sqrt(relRef), Math.Max(ratio, 1e-12) * Math.Sqrt(relSur));
     }
 }

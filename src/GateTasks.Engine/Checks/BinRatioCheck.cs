@@ -2,6 +2,7 @@ using System.Globalization;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Histograms;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
@@ -22,7 +23,7 @@ internal static class BinRatioCheck
         var axis = reference.Axis;
         var refTotal = reference.TotalSumW;
         var surTotal = surrogate.TotalSumW;
-        var surEffective = KolmogorovSmirnovCheck.Kish(surTotal, surrogate.TotalSumW2);
+        var surEffective = KishCount.Of(surTotal, surrogate.TotalSumW2);
         var effect = new EffectIntersection(spec.Tolerance, decision, surrogate.Entries);
 
         var worst = double.NaN;
@@ -38,7 +39,7 @@ internal static class BinRatioCheck
             if (!covered[b]) continue;
             if (BinRatio.Of(reference, surrogate, b, refTotal, surTotal, surEffective) is not { } bin)
             {
-                var sw = surrogate.Storage.SumW[Histogram.Cell(b)];
+                var sw = surrogate.BinSumW(b);
                 if (sw != 0) { unreferenced++; unreferencedWeight += sw; }
                 continue;
             }

@@ -1,3 +1,5 @@
+using GateTasks.Engine.Statistics;
+
 namespace GateTasks.Engine.Checks;
 
 /// <summary>
@@ -23,7 +25,7 @@ internal static class CellMerger
             accA += a.SumW[i]; accA2 += a.SumW2[i];
             accB += b.SumW[i]; accB2 += b.SumW2[i];
             open = true;
-            if (Effective(accA, accA2) >= MinimumEffectiveEntries && Effective(accB, accB2) >= MinimumEffectiveEntries)
+            if (KishCount.Of(accA, accA2) >= MinimumEffectiveEntries && KishCount.Of(accB, accB2) >= MinimumEffectiveEntries)
             {
                 aw.Add(accA); aw2.Add(accA2); bw.Add(accB); bw2.Add(accB2);
                 accA = accA2 = accB = accB2 = 0;
@@ -41,6 +43,4 @@ internal static class CellMerger
         }
         return (new CellContents(aw.ToArray(), aw2.ToArray()), new CellContents(bw.ToArray(), bw2.ToArray()), merged);
     }
-
-    private static double Effective(double w, double w2) => w2 > 0 ? w * w / w2 : 0;
 }

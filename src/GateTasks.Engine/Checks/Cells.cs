@@ -5,5 +5,5 @@ namespace GateTasks.Engine.Checks;
 /// <summary>Copies of a histogram's cells (flows included), for computations that perturb them.</summary>
 internal static class Cells
 {
-    public static CellContents Of(Histogram h) => new(h.Storage.SumW.ToArray(), h.Storage.SumW2.ToArray());
+    public static CellContents Of(Histogram h) => new(h.SumW.ToArray(), h.SumW2.ToArray());
 }

@@ -1,5 +1,5 @@
 using GateTasks.Engine.Contracts;
-
+using GateTasks.Engine.Statistics;
 using MathNet.Numerics.Distributions;
 
 namespace GateTasks.Engine.Checks;
@@ -43,8 +43,8 @@ internal sealed class EffectIntersection(double tolerance, DecisionSettings deci
     {
         var fr = referenceTotalW > 0 ? referenceW / referenceTotalW : 0;
         var fs = sampleTotalW > 0 ? sampleW / sampleTotalW : 0;
-        var nr = referenceTotalW2 > 0 ? referenceTotalW * referenceTotalW / referenceTotalW2 : 0;
-        var ns = sampleTotalW2 > 0 ? sampleTotalW * sampleTotalW / sampleTotalW2 : 0;
+        var nr = KishCount.Of(referenceTotalW, referenceTotalW2);
+        var ns = KishCount.Of(sampleTotalW, sampleTotalW2);
         Add(Math.Abs(fs - fr), nr > 0 ? Math.Sqrt(fr * (1 - fr) / nr) : 0, ns > 0 ? Math.Sqrt(fr * (1 - fr) / ns) : 0);
         return (fr, fs, ns);
     }

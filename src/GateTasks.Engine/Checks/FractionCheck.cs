@@ -43,9 +43,9 @@ internal static class FractionCheck
         double refTotalW = r.TotalSumW, refTotalW2 = r.TotalSumW2, sampleTotalW = s.TotalSumW, sampleTotalW2 = s.TotalSumW2;
         for (var b = 0; b < r.Axis.Count; b++)
         {
-            if (r.Storage.SumW[b + 1] <= 0 && s.Storage.SumW[b + 1] <= 0) continue;
+            if (r.BinSumW(b) <= 0 && s.BinSumW(b) <= 0) continue;
             var category = Math.Round(r.Axis.Centre(b)).ToString(CultureInfo.InvariantCulture);
-            Part(category, r.Storage.SumW[b + 1], refTotalW, refTotalW2, s.Storage.SumW[b + 1], sampleTotalW, sampleTotalW2);
+            Part(category, r.BinSumW(b), refTotalW, refTotalW2, s.BinSumW(b), sampleTotalW, sampleTotalW2);
         }
         if (effect.Parts == 0) return Measurement.Impossible("no category holds any event", details);
         return effect.ToMeasurement(worst,

@@ -1,5 +1,6 @@
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
@@ -20,18 +21,18 @@ internal static class InterquartileWidthCheck
         const double p1 = 0.25, p3 = 0.75;
         var r = c.Reference.Histogram;
         var s = c.Surrogate;
-        var (q1r, f1) = QuantileShiftCheck.Quantile(r, p1);
-        var (q3r, f3) = QuantileShiftCheck.Quantile(r, p3);
-        var (q1s, _) = QuantileShiftCheck.Quantile(s, p1);
-        var (q3s, _) = QuantileShiftCheck.Quantile(s, p3);
+        var (q1r, f1) = r.Quantile(p1);
+        var (q3r, f3) = r.Quantile(p3);
+        var (q1s, _) = s.Quantile(p1);
+        var (q3s, _) = s.Quantile(p3);
         var iqrRef = q3r - q1r;
         if (!(iqrRef > 0) || !(f1 > 0) || !(f3 > 0))
             return Measurement.Impossible("the reference's interquartile range is zero or its quartiles fall where it has no density", []);
         var iqrSample = q3s - q1s;
         var ratio = iqrSample / iqrRef;
         var relative = Math.Sqrt(UnitVariance(p1, p3, f1, f3)) / iqrRef; // relative standard error × √n
-        var nRef = KolmogorovSmirnovCheck.Kish(r.TotalSumW, r.TotalSumW2);
-        var nSur = KolmogorovSmirnovCheck.Kish(s.TotalSumW, s.TotalSumW2);
+        var nRef = KishCount.Of(r.TotalSumW, r.TotalSumW2);
+        var nSur = KishCount.Of(s.TotalSumW, s.TotalSumW2);
         var seRef = ratio * relative / Math.Sqrt(nRef);
         var seSur = ratio * relative / Math.Sqrt(nSur);
         var effect = new EffectIntersection(spec.Tolerance, decision, s.Entries);

@@ -15,9 +15,9 @@ internal static class KolmogorovSmirnovCheck
     public static Measurement Evaluate(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
         var reference = c.Reference.Histogram;
-        var d = KolmogorovSmirnov.BinnedDistance(reference.Storage.SumW, c.Surrogate.Storage.SumW);
-        var n1 = Kish(reference.TotalSumW, reference.TotalSumW2);
-        var n2 = Kish(c.Surrogate.TotalSumW, c.Surrogate.TotalSumW2);
+        var d = KolmogorovSmirnov.BinnedDistance(reference.SumW, c.Surrogate.SumW);
+        var n1 = KishCount.Of(reference.TotalSumW, reference.TotalSumW2);
+        var n2 = KishCount.Of(c.Surrogate.TotalSumW, c.Surrogate.TotalSumW2);
         var alpha = 1 - decision.Confidence;
         var half = DkwBound.TwoSampleHalfWidth(n1, n2, alpha);
         // ε(α) = K·√ln(4/α) with K = (1/√n₁ + 1/√n₂)/√2, so "distance above tolerance" has p = 4·exp(−((D − tol)/K)²).
@@ -36,8 +36,6 @@ internal static class KolmogorovSmirnovCheck
             [new("distance", InvariantNumber.Exact(d)), new("band_half_width", InvariantNumber.Exact(half)),
              new("reference_effective_events", InvariantNumber.Exact(n1)), new("sample_effective_events", InvariantNumber.Exact(n2))]);
     }
-
-    internal static double Kish(double sumW, double sumW2) => sumW2 > 0 ? sumW * sumW / sumW2 : 0;
 
     internal static string Percent(DecisionSettings d) => (d.Confidence * 100).ToString("0.#", System.Globalization.CultureInfo.InvariantCulture) + "%";
 }

@@ -12,10 +12,10 @@ internal static class KolmogorovSmirnovTestCheck
     public static Measurement Evaluate(FeatureComparison c)
     {
         var reference = c.Reference.Histogram;
-        var d = KolmogorovSmirnov.BinnedDistance(reference.Storage.SumW, c.Surrogate.Storage.SumW);
+        var d = KolmogorovSmirnov.BinnedDistance(reference.SumW, c.Surrogate.SumW);
         var p = KolmogorovSmirnov.BinnedPValue(d,
-            KolmogorovSmirnovCheck.Kish(reference.TotalSumW, reference.TotalSumW2),
-            KolmogorovSmirnovCheck.Kish(c.Surrogate.TotalSumW, c.Surrogate.TotalSumW2));
+            KishCount.Of(reference.TotalSumW, reference.TotalSumW2),
+            KishCount.Of(c.Surrogate.TotalSumW, c.Surrogate.TotalSumW2));
         return new Measurement(d, double.NaN, double.NaN, p, double.NaN,
             $"KS distance {InvariantNumber.Short(d)}, p-value {InvariantNumber.Short(p)}",
             [new("distance", InvariantNumber.Exact(d))]);

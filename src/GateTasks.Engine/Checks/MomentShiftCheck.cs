@@ -60,15 +60,15 @@ internal static class MomentShiftCheck
     {
         var h = c.Reference.Histogram;
         double w = 0, m1 = 0;
-        for (var b = 0; b < h.Axis.Count; b++) { w += h.Storage.SumW[b + 1]; m1 += h.Storage.SumW[b + 1] * h.Axis.Centre(b); }
+        for (var b = 0; b < h.Axis.Count; b++) { w += h.BinSumW(b); m1 += h.BinSumW(b) * h.Axis.Centre(b); }
         if (!(w > 0)) return 3;
         m1 /= w;
         double m2 = 0, m4 = 0;
         for (var b = 0; b < h.Axis.Count; b++)
         {
             var d = h.Axis.Centre(b) - m1;
-            m2 += h.Storage.SumW[b + 1] * d * d;
-            m4 += h.Storage.SumW[b + 1] * d * d * d * d;
+            m2 += h.BinSumW(b) * d * d;
+            m4 += h.BinSumW(b) * d * d * d * d;
         }
         m2 /= w;
         m4 /= w;

@@ -2,6 +2,7 @@ using System.Globalization;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Histograms;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
@@ -23,8 +24,8 @@ internal static class QuantileShiftCheck
         if (!(sigma > 0)) return Measurement.Impossible("the reference's standard deviation is zero, so a quantile shift in its units is undefined", []);
         var r = c.Reference.Histogram;
         var s = c.Surrogate;
-        var nRef = KolmogorovSmirnovCheck.Kish(r.TotalSumW, r.TotalSumW2);
-        var nSur = KolmogorovSmirnovCheck.Kish(s.TotalSumW, s.TotalSumW2);
+        var nRef = KishCount.Of(r.TotalSumW, r.TotalSumW2);
+        var nSur = KishCount.Of(s.TotalSumW, s.TotalSumW2);
         var effect = new EffectIntersection(spec.Tolerance, decision, s.Entries);
         double[] probabilities = [c.Spec.Core.LowerQuantile, 0.5, c.Spec.Core.UpperQuantile];
 
@@ -32,10 +33,10 @@ internal static class QuantileShiftCheck
         var details = new List<KeyValuePair<string, string>>();
         foreach (var p in probabilities)
         {
-            var (qr, _) = Quantile(r, p);
+            var (qr, _) = r.Quantile(p);
             var density = CoreSideDensity(r, qr, p);
             if (!(density > 0)) return Measurement.Impossible($"the reference histogram has no density at its {p} quantile", details);
-            var qs = qr - (Cdf(s, qr) - p) / density;
+            var qs = qr - (s.Cdf(qr) - p) / density;
             var shift = Math.Abs(qs - qr) / sigma;
             var unit = Math.Sqrt(p * (1 - p)) / density / sigma;
             var seRef = unit / Math.Sqrt(nRef);
@@ -51,23 +52,6 @@ internal static class QuantileShiftCheck
             details);
     }
 
-    /// <summary>The histogram's normalised cumulative distribution at x (linear within a bin; underflow counted below the axis).</summary>
-    internal static double Cdf(Histogram h, double x)
-    {
-        var w = h.Storage.SumW;
-        var total = h.TotalSumW;
-        if (!(total > 0)) return double.NaN;
-        var edges = h.Axis.Edges;
-        var cumulative = w[0];
-        if (x < edges[0]) return 0;
-        for (var b = 0; b < h.Axis.Count; b++)
-        {
-            if (x < edges[b + 1]) return (cumulative + w[b + 1] * (x - edges[b]) / (edges[b + 1] - edges[b])) / total;
-            cumulative += w[b + 1];
-        }
-        return cumulative / total;
-    }
-
     /// <summary>
     /// The reference density at its p-quantile q, from the bin on the core's side: above q for p &lt; ½, below for
     /// p &gt; ½, the mean of both for the median; an outermost bin (which runs to the extreme value) only when no
@@ -76,7 +60,7 @@ internal static class QuantileShiftCheck
     internal static double CoreSideDensity(Histogram h, double q, double p)
     {
         var count = h.Axis.Count;
-        double Density(int b) => b >= 0 && b < count ? h.Storage.SumW[b + 1] / h.TotalSumW / (h.Axis.Upper(b) - h.Axis.Lower(b)) : 0;
+        double Density(int b) => b >= 0 && b < count ? h.BinSumW(b) / h.TotalSumW / (h.Axis.Upper(b) - h.Axis.Lower(b)) : 0;
         var k = h.Axis.Edges.BinarySearch(q);
         if (k < 0)
         {
@@ -92,7 +76,4 @@ internal static class QuantileShiftCheck
         var above = Density(k);
         return below > 0 && above > 0 ? (below + above) / 2 : Math.Max(below, above);
     }
-
-    /// <summary>The p-quantile of a histogram and the density there (<see cref="Histogram.Quantile"/>).</summary>
-    internal static (double Value, double Density) Quantile(Histogram h, double p) => h.Quantile(p);
 }

@@ -19,14 +19,14 @@ internal static class RegionBins
         if (spec.Kind == FeatureKind.Discrete)
         {
             var total = 0.0;
-            for (var b = 0; b < mask.Length; b++) total += h.Storage.SumW[b + 1];
-            var order = Enumerable.Range(0, mask.Length).OrderByDescending(b => h.Storage.SumW[b + 1]).ThenBy(b => b);
+            for (var b = 0; b < mask.Length; b++) total += h.BinSumW(b);
+            var order = Enumerable.Range(0, mask.Length).OrderByDescending(b => h.BinSumW(b)).ThenBy(b => b);
             var held = 0.0;
             foreach (var b in order)
             {
-                if (held >= spec.Core.Fraction * total || h.Storage.SumW[b + 1] <= 0) break;
+                if (held >= spec.Core.Fraction * total || h.BinSumW(b) <= 0) break;
                 mask[b] = true;
-                held += h.Storage.SumW[b + 1];
+                held += h.BinSumW(b);
             }
             return mask;
         }

@@ -16,13 +16,14 @@ internal static class VerdictRule
     {
         var p = items.Select(i => double.IsNaN(i.Measured.PValue) ? 1.0 : Math.Clamp(i.Measured.PValue, 0, 1)).ToArray();
         var adjusted = p.Length == 0 ? [] : MultipleTesting.Adjust(p, decision.Correction);
+        var rejected = p.Length == 0 ? [] : MultipleTesting.Reject(p, decision.FalseAlarm, decision.Correction);
         var levels = p.Length == 0 ? [] : MultipleTesting.PerTestLevels(p, decision.FalseAlarm, decision.Correction);
         var outcomes = new List<CheckOutcome>(items.Count);
         for (var i = 0; i < items.Count; i++)
         {
             var (subject, check, m) = items[i];
             Verdict verdict;
-            if (adjusted[i] <= decision.FalseAlarm || (check is ToleranceCheck && double.IsNaN(m.Estimate))) verdict = Verdict.Fail;
+            if (rejected[i] || (check is ToleranceCheck && double.IsNaN(m.Estimate))) verdict = Verdict.Fail;
             else if (check is not ToleranceCheck bounded || m.Upper < bounded.Tolerance) verdict = Verdict.Pass;
             else verdict = Verdict.Inconclusive;
             outcomes.Add(new CheckOutcome(subject, check, m, verdict, adjusted[i], levels[i]));

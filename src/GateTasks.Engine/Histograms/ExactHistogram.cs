@@ -26,7 +26,7 @@ internal sealed class ExactHistogram
     /// <summary>Adds a batch's histogram (same binning) exactly and clears it for the next batch.</summary>
     public void Absorb(Histogram batch)
     {
-        _cells.Absorb(batch.Storage);
+        batch.MoveCellsInto(_cells);
         if (batch.NanEntries > 0)
         {
             _nanW.Add(batch.NanSumW);

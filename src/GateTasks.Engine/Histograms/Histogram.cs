@@ -1,8 +1,9 @@
 namespace GateTasks.Engine.Histograms;
 
 /// <summary>
-/// A one-dimensional weighted histogram: an <see cref="Axis"/> plus one <see cref="WeightedStorage"/>.
-/// NaN values are counted apart from the bins, never in a flow cell.
+/// A one-dimensional weighted histogram: an <see cref="Axis"/> plus Σw and Σw² per cell. NaN values are counted apart
+/// from the bins, never in a flow cell. How the cells are stored is the histogram's own business: callers ask for the
+/// regular bins, the underflow, the overflow or NaN by name, or for every cell in value order.
 /// </summary>
 internal sealed class Histogram
 {
@@ -10,14 +11,32 @@ internal sealed class Histogram
     public Histogram(Axis axis)
     {
         Axis = axis;
-        Storage = new WeightedStorage(axis.Count);
+        _storage = new WeightedStorage(axis.Count);
     }
+
+    // Cell 0 the underflow, cells 1..Count the regular bins, cell Count + 1 the overflow (see Axis.Cells).
+    private readonly WeightedStorage _storage;
 
     /// <summary>The binning.</summary>
     public Axis Axis { get; }
 
-    /// <summary>Σw and Σw² per cell (underflow, bins, overflow).</summary>
-    public WeightedStorage Storage { get; }
+    /// <summary>Σw of every cell in value order: the underflow, the regular bins, the overflow (NaN apart).</summary>
+    public ReadOnlySpan<double> SumW => _storage.SumW;
+
+    /// <summary>Σw² of every cell in value order: the underflow, the regular bins, the overflow (NaN apart).</summary>
+    public ReadOnlySpan<double> SumW2 => _storage.SumW2;
+
+    /// <summary>Σw of regular bin <paramref name="bin"/>.</summary>
+    public double BinSumW(int bin) => _storage.SumW[bin + 1];
+
+    /// <summary>Σw² of regular bin <paramref name="bin"/>.</summary>
+    public double BinSumW2(int bin) => _storage.SumW2[bin + 1];
+
+    /// <summary>Σw below the first edge.</summary>
+    public double UnderflowSumW => _storage.SumW[0];
+
+    /// <summary>Σw at or above the last edge.</summary>
+    public double OverflowSumW => _storage.SumW[^1];
 
     /// <summary>Number of fills, NaN included.</summary>
     public long Entries { get; private set; }
@@ -37,7 +56,7 @@ internal sealed class Histogram
         get
         {
             double s = 0;
-            foreach (var w in Storage.SumW) s += w;
+            foreach (var w in _storage.SumW) s += w;
             return s;
         }
     }
@@ -48,13 +67,65 @@ internal sealed class Histogram
         get
         {
             double s = 0;
-            foreach (var w in Storage.SumW2) s += w;
+            foreach (var w in _storage.SumW2) s += w;
             return s;
         }
     }
 
-    /// <summary>Storage cell for a regular bin index or a flow index of the axis.</summary>
-    public static int Cell(int axisIndex) => axisIndex + 1;
+    /// <summary>
+    /// The normalised cumulative distribution at <paramref name="x"/>, linear within a bin, the underflow counted below
+    /// the axis (see <see cref="CellCdf"/>); NaN when the histogram holds no weight.
+    /// </summary>
+    public double Cdf(double x)
+    {
+        var total = TotalSumW;
+        if (!(total > 0)) return double.NaN;
+        return CellCdf.At(Axis.Edges, _storage.SumW, x) / total;
+    }
+
+    /// <summary>
+    /// The p-quantile (linear within its bin) and the normalised density there; the flows sit at the axis ends, so a
+    /// quantile that falls in one is the end's edge, with density 0.
+    /// </summary>
+    public (double Value, double Density) Quantile(double p)
+    {
+        ReadOnlySpan<double> w = _storage.SumW;
+        var total = TotalSumW;
+        var target = p * total;
+        var cumulative = w[0];
+        var edges = Axis.Edges;
+        if (cumulative >= target) return (edges[0], 0);
+        for (var b = 0; b < Axis.Count; b++)
+        {
+            var content = w[b + 1];
+            if (cumulative + content >= target && content > 0)
+            {
+                var width = edges[b + 1] - edges[b];
+                return (edges[b] + (target - cumulative) / content * width, content / total / width);
+            }
+            cumulative += content;
+        }
+        return (edges[^1], 0);
+    }
+
+    /// <summary>
+    /// Sums the cells into a histogram over <paramref name="coarse"/>, whose edges must all be edges of this axis; the
+    /// flows stay flows and NaN stays NaN. <paramref name="entries"/> is the new histogram's fill count.
+    /// </summary>
+    public Histogram Rebinned(Axis coarse, long entries)
+    {
+        var sumW = new double[coarse.Count + 2];
+        var sumW2 = new double[coarse.Count + 2];
+        var edges = Axis.Edges;
+        var last = _storage.CellCount - 1;
+        for (var c = 0; c <= last; c++)
+        {
+            var target = c == 0 ? 0 : c == last ? coarse.Count + 1 : coarse.Index(edges[c - 1]) + 1;
+            sumW[target] += _storage.SumW[c];
+            sumW2[target] += _storage.SumW2[c];
+        }
+        return FromCells(coarse, sumW, sumW2, entries, NanEntries, NanSumW, NanSumW2);
+    }
 
     /// <summary>Fills one value with a weight.</summary>
     public void Fill(double value, double weight = 1.0)
@@ -67,7 +138,7 @@ internal sealed class Histogram
             NanSumW2 += weight * weight;
             return;
         }
-        Storage.Add(Cell(Axis.Index(value)), weight);
+        _storage.Add(Axis.Index(value) + 1, weight);
     }
 
     /// <summary>Fills many values, each with weight one or with the matching weight.</summary>
@@ -77,10 +148,10 @@ internal sealed class Histogram
             throw new ArgumentException("Values and weights differ in length.", nameof(weights));
         // The same sums as filling value by value: cells are found a block at a time, and unit weights are counted
         // and added once per cell (a sum of ones is exact, so Σw and Σw² come out identical).
-        var nanCell = Storage.CellCount;
+        var nanCell = _storage.CellCount;
         Span<int> cells = stackalloc int[Math.Min(values.Length, FillBlock)];
-        var sumW = Storage.SumW;
-        var sumW2 = Storage.SumW2;
+        var sumW = _storage.SumW;
+        var sumW2 = _storage.SumW2;
         if (weights.IsEmpty)
         {
             if (_counts is null || _counts.Length != nanCell + 1) _counts = new long[nanCell + 1];
@@ -140,7 +211,7 @@ internal sealed class Histogram
     public void Add(Histogram other)
     {
         if (!Axis.SameBinning(other.Axis)) throw new ArgumentException("Histograms differ in binning.", nameof(other));
-        Storage.Add(other.Storage);
+        _storage.Add(other._storage);
         Entries += other.Entries;
         NanEntries += other.NanEntries;
         NanSumW += other.NanSumW;
@@ -150,49 +221,33 @@ internal sealed class Histogram
     /// <summary>Empties every cell and count, keeping the binning (for reuse as a per-batch buffer).</summary>
     public void Clear()
     {
-        Storage.SumW.Clear();
-        Storage.SumW2.Clear();
+        _storage.SumW.Clear();
+        _storage.SumW2.Clear();
         Entries = 0;
         NanEntries = 0;
         NanSumW = 0;
         NanSumW2 = 0;
     }
 
-    /// <summary>Restores a histogram from stored cells (for reading reference files).</summary>
+    /// <summary>
+    /// Adds this histogram's cells exactly into <paramref name="cells"/> and clears them (not the counts; see
+    /// <see cref="Clear"/>).
+    /// </summary>
+    public void MoveCellsInto(ExactCells cells) => cells.Absorb(_storage);
+
+    /// <summary>Restores a histogram from its cells in value order, as <see cref="SumW"/> gives them (for reading stored state).</summary>
     public static Histogram FromCells(Axis axis, ReadOnlySpan<double> sumW, ReadOnlySpan<double> sumW2,
         long entries, long nanEntries, double nanSumW, double nanSumW2)
     {
         var h = new Histogram(axis);
-        if (sumW.Length != h.Storage.CellCount || sumW2.Length != h.Storage.CellCount)
+        if (sumW.Length != h._storage.CellCount || sumW2.Length != h._storage.CellCount)
             throw new ArgumentException("Cell count does not match the axis.");
-        sumW.CopyTo(h.Storage.SumW);
-        sumW2.CopyTo(h.Storage.SumW2);
+        sumW.CopyTo(h._storage.SumW);
+        sumW2.CopyTo(h._storage.SumW2);
         h.Entries = entries;
         h.NanEntries = nanEntries;
         h.NanSumW = nanSumW;
         h.NanSumW2 = nanSumW2;
         return h;
-    }
-
-    /// <summary>The p-quantile of a histogram (linear within its bin) and the density there; flows sit at the axis ends.</summary>
-    public (double Value, double Density) Quantile(double p)
-    {
-        var w = Storage.SumW;
-        var total = TotalSumW;
-        var target = p * total;
-        var cumulative = w[0];
-        var edges = Axis.Edges;
-        if (cumulative >= target) return (edges[0], 0);
-        for (var b = 0; b < Axis.Count; b++)
-        {
-            var content = w[b + 1];
-            if (cumulative + content >= target && content > 0)
-            {
-                var width = edges[b + 1] - edges[b];
-                return (edges[b] + (target - cumulative) / content * width, content / total / width);
-            }
-            cumulative += content;
-        }
-        return (edges[^1], 0);
     }
 }

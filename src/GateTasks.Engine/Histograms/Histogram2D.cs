@@ -10,32 +10,29 @@ internal sealed class Histogram2D
     {
         X = x;
         Y = y;
-        Storage = WeightedStorage.OfCells((x.Count + 2) * (y.Count + 2));
+        _storage = WeightedStorage.OfCells((x.Count + 2) * (y.Count + 2));
     }
+
+    // Σw and Σw² per cell; cell (i, j) of the flow-extended axes is i·(n_y + 2) + j.
+    private readonly WeightedStorage _storage;
 
     public Axis X { get; }
     public Axis Y { get; }
 
-    /// <summary>Σw and Σw² per cell; cell (i, j) of the flow-extended axes is i·(n_y + 2) + j.</summary>
-    public WeightedStorage Storage { get; }
+    /// <summary>Number of cells, (n_x + 2) × (n_y + 2), flows included.</summary>
+    public int CellCount => _storage.CellCount;
+
+    /// <summary>Adds the cells exactly into <paramref name="cells"/> (of <see cref="CellCount"/> cells) and clears them.</summary>
+    public void MoveCellsInto(ExactCells cells) => cells.Absorb(_storage);
 
     public long NanEntries { get; private set; }
 
     public void Fill(double x, double y, double w = 1.0)
     {
         if (double.IsNaN(x) || double.IsNaN(y)) { NanEntries++; return; }
-        var i = Histogram.Cell(X.Index(x));
-        var j = Histogram.Cell(Y.Index(y));
-        Storage.Add(i * (Y.Count + 2) + j, w);
-    }
-
-    /// <summary>Restores a histogram from stored cells.</summary>
-    public static Histogram2D FromCells(Axis x, Axis y, ReadOnlySpan<double> sumW, ReadOnlySpan<double> sumW2)
-    {
-        var h = new Histogram2D(x, y);
-        if (sumW.Length != h.Storage.CellCount) throw new ArgumentException("Cell count does not match the axes.");
-        sumW.CopyTo(h.Storage.SumW);
-        sumW2.CopyTo(h.Storage.SumW2);
-        return h;
+        // Each axis's underflow is row/column 0, its overflow the last (axis index + 1), as in a 1-D histogram.
+        var i = X.Index(x) + 1;
+        var j = Y.Index(y) + 1;
+        _storage.Add(i * (Y.Count + 2) + j, w);
     }
 }

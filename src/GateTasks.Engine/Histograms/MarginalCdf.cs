@@ -13,7 +13,7 @@ internal sealed class MarginalCdf
     public MarginalCdf(Histogram h)
     {
         _edges = h.Axis.Edges.ToArray();
-        var w = h.Storage.SumW;
+        var w = h.SumW;
         var total = h.TotalSumW;
         _below = new double[_edges.Length];
         var c = w[0];

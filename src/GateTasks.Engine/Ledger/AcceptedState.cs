@@ -56,7 +56,4 @@ internal sealed record AcceptedState(
                // Allowing NaN and ±∞ lets through what failed before: a change a reviewer must accept. Unset, nothing is added.
                (f.AllowNonFinite ? "|non-finite:allow" : "");
     }
-
-    /// <summary>Where a subject's check stands in the contract, for messages; null when the contract has no such check.</summary>
-    public SourceLocation? LocationOf(string id) => Limits.FirstOrDefault(l => l.Id == id)?.Location;
 }

@@ -133,7 +133,7 @@ internal static class PlanStudy
         DriftKind.TailDeficit => 0.99,
         // All of the spike's share (or the top category's) at the most.
         _ => f.Reference.Spike is not null ? f.SpikeShare
-            : f.Reference.Histogram.Storage.SumW.ToArray().Max() / f.Reference.Histogram.TotalSumW,
+            : f.Reference.Histogram.SumW.ToArray().Max() / f.Reference.Histogram.TotalSumW,
     };
 
     /// <summary>Per check of the feature, the share of replicas whose verdict was <paramref name="counted"/>.</summary>

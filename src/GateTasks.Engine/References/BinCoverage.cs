@@ -20,8 +20,8 @@ internal static class BinCoverage
     {
         var total = h.TotalSumW;
         if (!(total > 0)) return (double.NaN, double.NaN, double.NaN);
-        var below = h.Storage.SumW[0] / total;
-        var above = h.Storage.SumW[h.Storage.CellCount - 1] / total;
+        var below = h.UnderflowSumW / total;
+        var above = h.OverflowSumW / total;
         return (below, 1 - below - above, above);
     }
 
@@ -52,7 +52,7 @@ internal static class BinCoverage
                 var centre = h.Axis.Centre(b);
                 if (centre < lower || centre > upper) continue;
                 bins++;
-                weight += h.Storage.SumW[b + 1];
+                weight += h.BinSumW(b);
             }
             if (!(weight > 0))
                 throw new GateInputException(ErrorCodes.ReferenceRegionEmpty,

@@ -34,9 +34,8 @@ internal sealed class QuantileGrid
     /// <summary>The value below which a fraction <paramref name="p"/> of the weight lies.</summary>
     public double Quantile(double p)
     {
-        var w = Fine.Storage.SumW;
-        var total = 0.0;
-        foreach (var x in w) total += x;
+        var w = Fine.SumW;
+        var total = Fine.TotalSumW;
         var target = p * total;
         var edges = Fine.Axis.Edges;
         var cumulative = 0.0;
@@ -59,9 +58,8 @@ internal sealed class QuantileGrid
     /// </summary>
     public double[] EqualProbabilityEdges(int bins)
     {
-        var w = Fine.Storage.SumW;
-        var total = 0.0;
-        foreach (var x in w) total += x;
+        var w = Fine.SumW;
+        var total = Fine.TotalSumW;
         var edges = Fine.Axis.Edges;
         var result = new List<double> { edges[0] };
         var cumulative = 0.0;
@@ -77,20 +75,5 @@ internal sealed class QuantileGrid
         }
         if (edges[^1] > result[^1]) result.Add(edges[^1]);
         return result.ToArray();
-    }
-
-    /// <summary>Sums the fine cells into a coarser histogram whose edges are all fine-cell edges.</summary>
-    public Histogram Rebin(Axis coarse, long entries)
-    {
-        var sumW = new double[coarse.Count + 2];
-        var sumW2 = new double[coarse.Count + 2];
-        var fineEdges = Fine.Axis.Edges;
-        for (var c = 0; c < Fine.Storage.CellCount; c++)
-        {
-            var target = c == 0 ? 0 : c == Fine.Storage.CellCount - 1 ? coarse.Count + 1 : Histogram.Cell(coarse.Index(fineEdges[c - 1]));
-            sumW[target] += Fine.Storage.SumW[c];
-            sumW2[target] += Fine.Storage.SumW2[c];
-        }
-        return Histogram.FromCells(coarse, sumW, sumW2, entries, Fine.NanEntries, Fine.NanSumW, Fine.NanSumW2);
     }
 }

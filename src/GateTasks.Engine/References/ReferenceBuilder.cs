@@ -110,7 +110,7 @@ internal static class ReferenceBuilder
             var f = features[i];
             var grid = grids[i];
             var histogram = f.Binning is QuantileBinning quantile
-                ? grid!.Rebin(new VariableAxis(grid.EqualProbabilityEdges(quantile.Bins)), totals.Events)
+                ? grid!.Fine.Rebinned(new VariableAxis(grid.EqualProbabilityEdges(quantile.Bins)), totals.Events)
                 : direct[i]!;
             var probabilities = StandardProbabilities.Concat([f.Core.LowerQuantile, f.Core.UpperQuantile])
                 .Distinct().Order().ToList();

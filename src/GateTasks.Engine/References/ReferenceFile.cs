@@ -44,14 +44,14 @@ internal static class ReferenceFile
         {
             var h = f.Histogram;
             var edges = h.Axis.Edges;
-            for (var c = 0; c < h.Storage.CellCount; c++)
+            for (var c = 0; c < h.SumW.Length; c++)
             {
                 features.Add(f.Name);
                 cells.Add(c);
                 lower.Add(c == 0 ? double.NegativeInfinity : edges[c - 1]);
-                upper.Add(c == h.Storage.CellCount - 1 ? double.PositiveInfinity : edges[c]);
-                sumW.Add(h.Storage.SumW[c]);
-                sumW2.Add(h.Storage.SumW2[c]);
+                upper.Add(c == h.SumW.Length - 1 ? double.PositiveInfinity : edges[c]);
+                sumW.Add(h.SumW[c]);
+                sumW2.Add(h.SumW2[c]);
             }
         }
 

@@ -18,7 +18,7 @@ internal sealed record ReferenceHistograms(
     ReferenceJointSample? Joint = null)
 {
     /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>
-    public double EffectiveEvents => SumW2 > 0 ? SumW * SumW / SumW2 : 0;
+    public double EffectiveEvents => Statistics.KishCount.Of(SumW, SumW2);
 
     /// <summary>The stored correlation of a pair, or null.</summary>
     public ReferenceCorrelation? FindPair(string first, string second) =>

@@ -1,5 +1,6 @@
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Reports;
 
@@ -32,17 +33,16 @@ internal sealed record ComparedBin(
         var axis = reference.Axis;
         var refTotal = reference.TotalSumW;
         var surTotal = surrogate.TotalSumW;
-        var surEffective = KolmogorovSmirnovCheck.Kish(surTotal, surrogate.TotalSumW2);
+        var surEffective = KishCount.Of(surTotal, surrogate.TotalSumW2);
         var density = c.Spec.Kind != FeatureKind.Discrete;
         var bins = new ComparedBin[axis.Count];
         for (var b = 0; b < bins.Length; b++)
         {
-            var cell = Histograms.Histogram.Cell(b);
             var width = axis.Upper(b) - axis.Lower(b);
             bins[b] = new ComparedBin(
                 axis.Lower(b), axis.Upper(b),
-                Fraction(reference.Storage.SumW[cell], refTotal), Error(reference.Storage.SumW2[cell], refTotal),
-                Fraction(surrogate.Storage.SumW[cell], surTotal), Error(surrogate.Storage.SumW2[cell], surTotal),
+                Fraction(reference.BinSumW(b), refTotal), Error(reference.BinSumW2(b), refTotal),
+                Fraction(surrogate.BinSumW(b), surTotal), Error(surrogate.BinSumW2(b), surTotal),
                 BinRatio.Of(reference, surrogate, b, refTotal, surTotal, surEffective),
                 c.CoreBins[b])
             {

@@ -23,13 +23,13 @@ internal static class ReferenceDescription
             sb.AppendLine($"feature {f.Name} (column {f.Column}, {f.Kind.ToString().ToLowerInvariant()})");
             sb.AppendLine($"  binning   {f.BinningRequest} → {h.Axis.Count} bins over [{InvariantNumber.Short(h.Axis.Edges[0])}, {InvariantNumber.Short(h.Axis.Edges[^1])})");
             sb.AppendLine($"  values    {InvariantNumber.Count(s.Count)} finite, {InvariantNumber.Count(s.NanCount)} NaN; mean {InvariantNumber.Short(s.Mean)}, std {InvariantNumber.Short(s.StandardDeviation)}, min {InvariantNumber.Short(s.Min)}, max {InvariantNumber.Short(s.Max)}");
-            sb.AppendLine($"  flows     underflow Σw {InvariantNumber.Short(h.Storage.SumW[0])}, overflow Σw {InvariantNumber.Short(h.Storage.SumW[^1])}");
+            sb.AppendLine($"  flows     underflow Σw {InvariantNumber.Short(h.UnderflowSumW)}, overflow Σw {InvariantNumber.Short(h.OverflowSumW)}");
             if (f.Quantiles.Count > 0)
                 sb.AppendLine("  quantiles " + string.Join("  ", f.Quantiles.Select(q => $"{InvariantNumber.Short(q.Probability)}:{InvariantNumber.Short(q.Value)}")));
             if (!withBins) continue;
             sb.AppendLine("  bin  lower       upper       Σw          Σw²");
             for (var b = 0; b < h.Axis.Count; b++)
-                sb.AppendLine($"  {b,3}  {InvariantNumber.Short(h.Axis.Lower(b)),-10}  {InvariantNumber.Short(h.Axis.Upper(b)),-10}  {InvariantNumber.Short(h.Storage.SumW[b + 1]),-10}  {InvariantNumber.Short(h.Storage.SumW2[b + 1])}");
+                sb.AppendLine($"  {b,3}  {InvariantNumber.Short(h.Axis.Lower(b)),-10}  {InvariantNumber.Short(h.Axis.Upper(b)),-10}  {InvariantNumber.Short(h.BinSumW(b)),-10}  {InvariantNumber.Short(h.BinSumW2(b))}");
         }
         return sb.ToString();
     }

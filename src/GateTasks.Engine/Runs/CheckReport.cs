@@ -28,7 +28,7 @@ internal sealed record CheckReport(
     public bool AcceptanceHolds => !Acceptance.Any(f => f.IsError);
 
     /// <summary>Kish (1965) effective number of surrogate events.</summary>
-    public double EffectiveEvents => SumW2 > 0 ? SumW * SumW / SumW2 : 0;
+    public double EffectiveEvents => Statistics.KishCount.Of(SumW, SumW2);
 
     /// <summary>Number of failed checks.</summary>
     public int Failures => Outcomes.Count(o => o.Verdict == Verdict.Fail);

@@ -3,52 +3,11 @@ using MathNet.Numerics;
 namespace GateTasks.Engine.Statistics;
 
 /// <summary>
-/// k-sample Anderson–Darling test (Scholz &amp; Stephens 1987, JASA 82:918), statistics from their eqs. 6–7
-/// and the tie-adjusted version, variance σ_N² from their eq. 4, p-values by their interpolation of Table 1.
+/// k-sample Anderson–Darling test on binned data (Scholz &amp; Stephens 1987, JASA 82:918): the tie-adjusted
+/// statistic (their eq. 7 adjusted for ties), variance σ_N² from their eq. 4, p-values by their interpolation of Table 1.
 /// </summary>
 internal static class AndersonDarling
 {
-    /// <summary>Computes both statistics, σ_N, standardised T and asymptotic p-values.</summary>
-    internal static AndersonDarlingResult KSample(IReadOnlyList<double[]> samples)
-    {
-        ArgumentNullException.ThrowIfNull(samples);
-        int k = samples.Count;
-        if (k < 2)
-            throw new ArgumentException("The k-sample Anderson–Darling test needs at least two samples.", nameof(samples));
-        var sizes = new int[k];
-        int bigN = 0;
-        for (int i = 0; i < k; i++)
-        {
-            double[] s = samples[i] ?? throw new ArgumentException($"Sample {i} is null.", nameof(samples));
-            SampleChecks.RequireNonEmpty(s, $"samples[{i}]");
-            SampleChecks.RequireFinite(s, $"samples[{i}]");
-            sizes[i] = s.Length;
-            bigN += s.Length;
-        }
-        if (bigN < 4)
-            throw new ArgumentException("The variance σ_N² needs at least four observations in total.", nameof(samples));
-
-        var pooled = new double[bigN];
-        var owner = new int[bigN];
-        for (int i = 0, at = 0; i < k; i++)
-        {
-            samples[i].CopyTo(pooled, at);
-            owner.AsSpan(at, sizes[i]).Fill(i);
-            at += sizes[i];
-        }
-        Array.Sort(pooled, owner);
-        if (pooled[0] == pooled[^1])
-            throw new ArgumentException("All observations are equal; the Anderson–Darling statistic is undefined.", nameof(samples));
-
-        (double a2kN, double a2akN) = BothStatistics(pooled, owner, sizes);
-        double sigma = Math.Sqrt(Variance(sizes, bigN));
-        int m = k - 1;
-        double tkN = (a2kN - m) / sigma, takN = (a2akN - m) / sigma;
-        (double pkN, bool exkN) = PValue(tkN, m);
-        (double pakN, bool exakN) = PValue(takN, m);
-        return new AndersonDarlingResult(a2kN, a2akN, sigma, tkN, takN, pkN, pakN, exkN, exakN);
-    }
-
     /// <summary>
     /// The tie-adjusted statistic A²akN, σ_N, T and its p-value from binned data: <paramref name="counts"/>[i][j] is
     /// the number of events of sample i in bin j, bins in increasing order — each bin one distinct value of the
@@ -138,54 +97,6 @@ internal static class AndersonDarling
         new[] { 2.719, 2.576, 2.493, 2.438, 2.365, 2.318, 2.284, 1.960 },
         new[] { 3.752, 3.414, 3.246, 3.139, 3.005, 2.920, 2.862, 2.326 },
     };
-
-    /// <summary>
-    /// One pass over the distinct pooled values Z*_j (tie counts l_j, cumulative B_j) with per-sample
-    /// counts f_ij and cumulative M_ij:
-    /// A²kN = (1/N) Σ_i (1/n_i) Σ_{j&lt;L} l_j (N M_ij − n_i B_j)² / (B_j (N − B_j));
-    /// A²akN = ((N−1)/N²) Σ_i (1/n_i) Σ_j l_j (N M_aij − n_i B_aj)² / (B_aj (N − B_aj) − N l_j/4),
-    /// with M_aij = M_ij − f_ij/2 and B_aj = B_j − l_j/2.
-    /// </summary>
-    private static (double A2kN, double A2akN) BothStatistics(double[] pooled, int[] owner, int[] sizes)
-    {
-        int k = sizes.Length, bigN = pooled.Length;
-        double n = bigN;
-        var cumulative = new long[k];
-        var inGroup = new long[k];
-        double sumK = 0, sumAk = 0;
-        long b = 0;
-        int start = 0;
-        while (start < bigN)
-        {
-            int end = start;
-            while (end + 1 < bigN && pooled[end + 1] == pooled[start]) end++;
-            Array.Clear(inGroup);
-            for (int p = start; p <= end; p++) inGroup[owner[p]]++;
-            long l = end - start + 1;
-            b += l;
-            double ba = b - l / 2.0;
-            double denomA = ba * (n - ba) - n * l / 4.0;
-            bool last = end == bigN - 1;
-            for (int i = 0; i < k; i++)
-            {
-                cumulative[i] += inGroup[i];
-                double ni = sizes[i];
-                if (!last)
-                {
-                    double r = n * cumulative[i] - ni * b;
-                    sumK += l * r * r / (b * (n - b)) / ni;
-                }
-                if (denomA > 0)
-                {
-                    double ma = cumulative[i] - inGroup[i] / 2.0;
-                    double r = n * ma - ni * ba;
-                    sumAk += l * r * r / denomA / ni;
-                }
-            }
-            start = end + 1;
-        }
-        return (sumK / n, sumAk * (n - 1) / (n * n));
-    }
 
     /// <summary>σ_N² of A²kN under the null (Scholz &amp; Stephens 1987, eq. 4).</summary>
     private static double Variance(int[] sizes, int bigN)

@@ -3,94 +3,12 @@ using MathNet.Numerics;
 namespace GateTasks.Engine.Statistics;
 
 /// <summary>
-/// Two-sample Cramér–von Mises test (Anderson 1962, Ann. Math. Stat. 33:1148).
-/// U = m Σ(r_i − i)² + n Σ(s_j − j)² with r, s the pooled (mid)ranks of the sorted samples;
-/// T = U/(mn(m+n)) − (4mn − 1)/(6(m+n)). Exact p-value from the permutation distribution of U for small
-/// samples; otherwise T is standardised with its exact mean and variance (Anderson 1962) and referred to
-/// the limiting one-sample Cramér–von Mises distribution (Anderson &amp; Darling 1952).
+/// Two-sample Cramér–von Mises test on binned data (Anderson 1962, Ann. Math. Stat. 33:1148): T is
+/// standardised with its exact mean and variance (Anderson 1962) and referred to the limiting one-sample
+/// Cramér–von Mises distribution (Anderson &amp; Darling 1952).
 /// </summary>
 internal static class CramerVonMises
 {
-    /// <summary><see cref="TwoSample"/> is exact when both samples have at most this many values.</summary>
-    internal const int ExactMaxSize = 20;
-
-    internal const string ExactMethod = "exact";
-    internal const string AsymptoticMethod = "asymptotic";
-
-    /// <summary>
-    /// Two-sample test. Ties get midranks; the exact p-value is then that of the continuous null.
-    /// </summary>
-    internal static CramerVonMisesResult TwoSample(ReadOnlySpan<double> x, ReadOnlySpan<double> y)
-    {
-        (double u, double t) = Statistic(x, y);
-        int m = x.Length, n = y.Length;
-        if (m <= ExactMaxSize && n <= ExactMaxSize)
-            return new CramerVonMisesResult(u, t, ExactUpperTail(m, n, u), ExactMethod);
-        return new CramerVonMisesResult(u, t, AsymptoticPValue(t, m, n), AsymptoticMethod);
-    }
-
-    /// <summary>Two-sample test with the asymptotic p-value whatever the sample sizes.</summary>
-    internal static CramerVonMisesResult TwoSampleAsymptotic(ReadOnlySpan<double> x, ReadOnlySpan<double> y)
-    {
-        (double u, double t) = Statistic(x, y);
-        return new CramerVonMisesResult(u, t, AsymptoticPValue(t, x.Length, y.Length), AsymptoticMethod);
-    }
-
-    /// <summary>
-    /// Exact P(U ≥ u) over all C(m+n, m) equally likely arrangements. A lattice path taking an x-step after
-    /// j y's adds m·j² to U and a y-step after i x's adds n·i², so U is accumulated along the path by
-    /// dynamic programming with a table of (U value → path count) per lattice point. Both sizes must be at
-    /// most <see cref="ExactMaxSize"/> (counts then fit a long).
-    /// </summary>
-    internal static double ExactUpperTail(int m, int n, double u)
-    {
-        if (m <= 0 || n <= 0)
-            throw new ArgumentOutOfRangeException(nameof(m), "Sample sizes must be positive.");
-        if (m > ExactMaxSize || n > ExactMaxSize)
-            throw new ArgumentOutOfRangeException(nameof(m),
-                $"Exact Cramér–von Mises p-value is limited to samples of at most {ExactMaxSize}; use the asymptotic one.");
-        if (double.IsNaN(u))
-            throw new ArgumentException("U is NaN.", nameof(u));
-
-        // row[j] is the distribution of U over paths to (i, j); row i is built from row i − 1 in place.
-        var row = new Dictionary<long, long>[n + 1];
-        row[0] = new Dictionary<long, long> { [0] = 1 };
-        for (int j = 1; j <= n; j++)
-            row[j] = new Dictionary<long, long> { [0] = 1 }; // along i = 0 every y-step adds n·0² = 0
-        for (int i = 1; i <= m; i++)
-        {
-            long yStep = (long)n * i * i;
-            for (int j = 0; j <= n; j++)
-            {
-                long xStep = (long)m * j * j;
-                var next = new Dictionary<long, long>(row[j].Count + (j > 0 ? row[j - 1].Count : 0));
-                foreach (var (value, count) in row[j])
-                    Accumulate(next, value + xStep, count);
-                if (j > 0)
-                {
-                    foreach (var (value, count) in row[j - 1])
-                        Accumulate(next, value + yStep, count);
-                }
-                row[j] = next;
-            }
-        }
-
-        // U from data with midranks may be fractional; lattice U values are integers.
-        long threshold = (long)Math.Ceiling(u - 1e-9 * Math.Max(1.0, Math.Abs(u)));
-        long hits = 0, total = 0;
-        foreach (var (value, count) in row[n])
-        {
-            total += count;
-            if (value >= threshold)
-                hits += count;
-        }
-        return (double)hits / total;
-    }
-
-    /// <summary>
-    /// P-value of T from the limiting distribution after Anderson's (1962) standardisation:
-    /// E[T] = (1 + 1/N)/6, Var[T] = (N+1)(4mnN − 3(m² + n²) − 2mn)/(180 mn N²), T* = 1/6 + (T − E[T])/√(45 Var[T]).
-    /// </summary>
     /// <summary>
     /// T and its asymptotic p-value from binned data: <paramref name="a"/> and <paramref name="b"/> hold each sample's
     /// count per bin (bins in increasing order; effective counts for weighted samples, an approximation).
@@ -118,6 +36,10 @@ internal static class CramerVonMises
         return (t, p);
     }
 
+    /// <summary>
+    /// P-value of T from the limiting distribution after Anderson's (1962) standardisation:
+    /// E[T] = (1 + 1/N)/6, Var[T] = (N+1)(4mnN − 3(m² + n²) − 2mn)/(180 mn N²), T* = 1/6 + (T − E[T])/√(45 Var[T]).
+    /// </summary>
     internal static double AsymptoticPValue(double t, int m, int n)
     {
         double mm = m, nn = n, k = mm * nn, bigN = mm + nn;
@@ -153,47 +75,5 @@ internal static class CramerVonMises
                 break;
         }
         return Math.Clamp(sum, 0.0, 1.0);
-    }
-
-    /// <summary>(U, T) for two samples, midranks for ties.</summary>
-    internal static (double U, double T) Statistic(ReadOnlySpan<double> x, ReadOnlySpan<double> y)
-    {
-        SampleChecks.RequireNonEmpty(x, nameof(x));
-        SampleChecks.RequireNonEmpty(y, nameof(y));
-        SampleChecks.RequireFinite(x, nameof(x));
-        SampleChecks.RequireFinite(y, nameof(y));
-        int m = x.Length, n = y.Length, total = m + n;
-        var values = new double[total];
-        var fromX = new bool[total];
-        x.CopyTo(values);
-        y.CopyTo(values.AsSpan(m));
-        for (int i = 0; i < m; i++) fromX[i] = true;
-        Array.Sort(values, fromX);
-
-        // Walk tie groups; within a group every member gets the midrank, and the i-th x (in sorted order)
-        // is compared with its index i, so only the group's midrank and the running counts matter.
-        double sumX = 0, sumY = 0;
-        int seenX = 0, seenY = 0, start = 0;
-        while (start < total)
-        {
-            int end = start;
-            while (end + 1 < total && values[end + 1] == values[start]) end++;
-            double midrank = (start + end + 2) / 2.0;
-            for (int p = start; p <= end; p++)
-            {
-                if (fromX[p]) { seenX++; double d = midrank - seenX; sumX += d * d; }
-                else { seenY++; double d = midrank - seenY; sumY += d * d; }
-            }
-            start = end + 1;
-        }
-        double u = m * sumX + n * sumY;
-        double mn = (double)m * n;
-        double t = u / (mn * total) - (4 * mn - 1) / (6.0 * total);
-        return (u, t);
-    }
-
-    private static void Accumulate(Dictionary<long, long> table, long value, long count)
-    {
-        table[value] = table.TryGetValue(value, out long existing) ? existing + count : count;
     }
 }

@@ -6,9 +6,10 @@ using MathNet.Numerics.Random;
 namespace GateTasks.Engine.Statistics;
 
 /// <summary>
-/// Energy distance between two distributions (Székely &amp; Rizzo 2004, "Testing for equal distributions in
-/// high dimension"; Székely &amp; Rizzo 2013, "Energy statistics"): E = 2E|X−Y| − E|X−X′| − E|Y−Y′|, which is
-/// zero exactly when the distributions agree.
+/// Two-sample energy test of equal multivariate distributions (Székely &amp; Rizzo 2004, "Testing for equal
+/// distributions in high dimension"): E = 2E|X−Y| − E|X−X′| − E|Y−Y′|, which is zero exactly when the
+/// distributions agree, in V-statistic form (every mean over all ordered pairs, i = j included), Euclidean
+/// distance between rows of d features.
 /// </summary>
 internal static class EnergyDistance
 {
@@ -18,59 +19,8 @@ internal static class EnergyDistance
     /// </summary>
     internal const int MaxPooledRows = 5_000;
 
-    /// <summary>
-    /// One-dimensional energy distance √(2E|X−Y| − E|X−X′| − E|Y−Y′|) between two weighted samples, computed
-    /// as √2 times the L2 distance between the empirical CDFs (Székely &amp; Rizzo 2013, eq. for d = 1); same
-    /// convention as scipy.stats.energy_distance. Empty weight spans mean unit weights; weights are
-    /// normalised per sample. O((n+m) log(n+m)).
-    /// </summary>
-    internal static double Univariate(ReadOnlySpan<double> x, ReadOnlySpan<double> y,
-        ReadOnlySpan<double> xw = default, ReadOnlySpan<double> yw = default)
-    {
-        (double[] xs, double[] xws, double wx) = SampleChecks.SortedWithWeights(x, xw, nameof(x));
-        (double[] ys, double[] yws, double wy) = SampleChecks.SortedWithWeights(y, yw, nameof(y));
-        int i = 0, j = 0;
-        double cx = 0, cy = 0, area = 0;
-        double previous = Math.Min(xs[0], ys[0]);
-        while (i < xs.Length || j < ys.Length)
-        {
-            double v = i < xs.Length && (j >= ys.Length || xs[i] <= ys[j]) ? xs[i] : ys[j];
-            double d = cx / wx - cy / wy;
-            area += d * d * (v - previous);
-            while (i < xs.Length && xs[i] == v) cx += xws[i++];
-            while (j < ys.Length && ys[j] == v) cy += yws[j++];
-            previous = v;
-        }
-        return Math.Sqrt(2 * area);
-    }
-
-    /// <summary>
-    /// Multivariate E-statistic between the rows of <paramref name="x"/> and <paramref name="y"/> (each row
-    /// one point of d features, Euclidean distance), in V-statistic form: every mean runs over all ordered
-    /// pairs, i = j included, so E = 2/(nm)·Σ|xᵢ−yⱼ| − 1/n²·Σ|xᵢ−xₖ| − 1/m²·Σ|yⱼ−yₗ| (Székely &amp; Rizzo 2004).
-    /// Multiply by nm/(n+m) (see <see cref="TestStatistic"/>) for the test statistic T. O((n+m)² d) time,
-    /// O(1) extra memory: meant for bounded subsamples of a few thousand rows. Features on different scales
-    /// should be standardised first (<see cref="Standardise"/>).
-    /// </summary>
-    internal static double Multivariate(double[][] x, double[][] y)
-    {
-        int d = RequireRows(x, nameof(x), -1);
-        RequireRows(y, nameof(y), d);
-        double sxy = 0, sxx = 0, syy = 0;
-        for (int i = 0; i < x.Length; i++)
-        {
-            for (int j = 0; j < y.Length; j++) sxy += Euclidean(x[i], y[j]);
-            for (int k = i + 1; k < x.Length; k++) sxx += Euclidean(x[i], x[k]);
-        }
-        for (int j = 0; j < y.Length; j++)
-        {
-            for (int l = j + 1; l < y.Length; l++) syy += Euclidean(y[j], y[l]);
-        }
-        return EStatistic(sxy, sxx, syy, x.Length, y.Length);
-    }
-
     /// <summary>The scaled two-sample energy test statistic T = nm/(n+m)·E (Székely &amp; Rizzo 2004).</summary>
-    internal static double TestStatistic(double eStatistic, int n, int m) => (double)n * m / ((double)n + m) * eStatistic;
+    private static double TestStatistic(double eStatistic, int n, int m) => (double)n * m / ((double)n + m) * eStatistic;
 
     /// <summary>
     /// Two-sample energy test of equal distributions with a permutation p-value (Székely &amp; Rizzo 2004):

@@ -11,7 +11,7 @@ internal sealed class ExactSum
 {
     private readonly List<double> _partials = [];
 
-    /// <summary>The partial sums, smallest magnitude first (for storing; <see cref="FromPartials"/> reads them back).</summary>
+    /// <summary>The partial sums, smallest magnitude first (for storing; adding them to a new sum reads them back).</summary>
     public IReadOnlyList<double> Partials => _partials;
 
     public void Add(double x)
@@ -66,12 +66,5 @@ internal sealed class ExactSum
             }
             return hi;
         }
-    }
-
-    public static ExactSum FromPartials(IEnumerable<double> partials)
-    {
-        var s = new ExactSum();
-        foreach (var p in partials) s.Add(p);
-        return s;
     }
 }

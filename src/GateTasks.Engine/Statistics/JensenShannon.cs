@@ -29,8 +29,4 @@ internal static class JensenShannon
         // Rounding can leave a tiny negative value for identical inputs.
         return Math.Max(0.0, 0.5 * sum / Math.Log(logBase));
     }
-
-    /// <summary>Jensen–Shannon distance √JSD (the quantity scipy's <c>jensenshannon</c> returns).</summary>
-    internal static double Distance(ReadOnlySpan<double> p, ReadOnlySpan<double> q, double logBase = Math.E) =>
-        Math.Sqrt(Divergence(p, q, logBase));
 }

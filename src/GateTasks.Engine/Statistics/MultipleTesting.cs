@@ -19,9 +19,6 @@ internal static class MultipleTesting
         var adjusted = new double[m];
         switch (method)
         {
-            case MultipleTestingMethod.None:
-                pValues.CopyTo(adjusted);
-                break;
             case MultipleTestingMethod.Bonferroni:
                 for (int i = 0; i < m; i++)
                     adjusted[i] = Math.Min(1.0, m * pValues[i]);
@@ -69,7 +66,7 @@ internal static class MultipleTesting
 
     /// <summary>
     /// The threshold each raw p-value stands against in the procedure, for reports: Holm level/(m − rank + 1),
-    /// Benjamini–Hochberg rank·level/m, Bonferroni level/m, none level (rank 1 = smallest p). Tied p-values
+    /// Benjamini–Hochberg rank·level/m, Bonferroni level/m (rank 1 = smallest p). Tied p-values
     /// share the rank that decides them together: the first of the tie for Holm (step-down stops there), the
     /// last for Benjamini–Hochberg (step-up starts there). The decision itself is <see cref="Reject"/>'s: a step
     /// procedure can reject a test above its own threshold (step-up) or keep one below it (step-down).
@@ -82,9 +79,6 @@ internal static class MultipleTesting
         var levels = new double[m];
         switch (method)
         {
-            case MultipleTestingMethod.None:
-                Array.Fill(levels, level);
-                break;
             case MultipleTestingMethod.Bonferroni:
                 Array.Fill(levels, level / m);
                 break;

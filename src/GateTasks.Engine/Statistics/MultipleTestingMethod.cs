@@ -11,7 +11,4 @@ internal enum MultipleTestingMethod
 
     /// <summary>Bonferroni: each p-value times the number of tests; family-wise error rate, more conservative than Holm.</summary>
     Bonferroni,
-
-    /// <summary>No correction: each test at the nominal level.</summary>
-    None,
 }

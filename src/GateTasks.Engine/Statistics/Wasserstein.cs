@@ -2,33 +2,10 @@ namespace GateTasks.Engine.Statistics;
 
 /// <summary>
 /// Wasserstein-1 (earth mover's) distance between two one-dimensional distributions,
-/// W₁ = ∫ |F(t) − G(t)| dt (Vallender 1974 for the CDF form). Weights are normalised per distribution.
+/// W₁ = ∫ |F(t) − G(t)| dt (Vallender 1974 for the CDF form), between two histograms on the same edges.
 /// </summary>
 internal static class Wasserstein
 {
-    /// <summary>
-    /// W₁ between two weighted samples (empirical CDFs, each point carrying its weight over the sample's
-    /// total). Empty weight spans mean unit weights. O((m+n) log(m+n)).
-    /// </summary>
-    internal static double Samples(ReadOnlySpan<double> x, ReadOnlySpan<double> y,
-        ReadOnlySpan<double> xWeights = default, ReadOnlySpan<double> yWeights = default)
-    {
-        (double[] xs, double[] xw, double wx) = SampleChecks.SortedWithWeights(x, xWeights, nameof(x));
-        (double[] ys, double[] yw, double wy) = SampleChecks.SortedWithWeights(y, yWeights, nameof(y));
-        int i = 0, j = 0;
-        double cx = 0, cy = 0, area = 0;
-        double previous = Math.Min(xs[0], ys[0]);
-        while (i < xs.Length || j < ys.Length)
-        {
-            double v = i < xs.Length && (j >= ys.Length || xs[i] <= ys[j]) ? xs[i] : ys[j];
-            area += Math.Abs(cx / wx - cy / wy) * (v - previous);
-            while (i < xs.Length && xs[i] == v) cx += xw[i++];
-            while (j < ys.Length && ys[j] == v) cy += yw[j++];
-            previous = v;
-        }
-        return area;
-    }
-
     /// <summary>
     /// W₁ between two histograms on the same bin edges, taking each bin's content as spread uniformly over
     /// the bin: both CDFs are then piecewise linear through the edges and |F − G| is integrated exactly over
@@ -59,14 +36,6 @@ internal static class Wasserstein
             area += width * LinearAbsMean(d0, d1);
         }
         return area;
-    }
-
-    /// <summary>W₁ between masses a and b placed at the same positions (e.g. bin centres).</summary>
-    internal static double PointMasses(ReadOnlySpan<double> positions, ReadOnlySpan<double> a, ReadOnlySpan<double> b)
-    {
-        SampleChecks.RequireSameLength(positions.Length, a.Length, nameof(positions), nameof(a));
-        SampleChecks.RequireSameLength(a.Length, b.Length, nameof(a), nameof(b));
-        return Samples(positions, positions, a, b);
     }
 
     /// <summary>Mean of |d(t)| for d linear from d0 to d1 on [0, 1], splitting at the sign change.</summary>

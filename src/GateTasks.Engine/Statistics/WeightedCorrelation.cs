@@ -10,7 +10,7 @@ internal sealed class WeightedCorrelation
 
     public long Count { get; private set; }
     public double SumOfWeights => _sumW;
-    public double EffectiveCount => _sumW2 > 0 ? _sumW * _sumW / _sumW2 : 0;
+    public double EffectiveCount => KishCount.Of(_sumW, _sumW2);
 
     public void Add(double x, double y, double w = 1.0)
     {

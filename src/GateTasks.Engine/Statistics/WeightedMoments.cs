@@ -34,7 +34,7 @@ internal sealed class WeightedMoments
     internal double StandardDeviation => Math.Sqrt(Variance);
 
     /// <summary>Kish effective count (Σw)²/Σw²; 0 when nothing with non-zero weight was added.</summary>
-    internal double EffectiveCount => SumOfSquaredWeights > 0 ? SumOfWeights * SumOfWeights / SumOfSquaredWeights : 0.0;
+    internal double EffectiveCount => KishCount.Of(SumOfWeights, SumOfSquaredWeights);
 
     /// <summary>Adds one entry with weight <paramref name="w"/>.</summary>
     internal void Add(double x, double w = 1.0)

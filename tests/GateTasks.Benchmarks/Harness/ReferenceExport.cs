@@ -28,7 +28,7 @@ internal static class ReferenceExport
             foreach (var e in histogram.Axis.Edges) json.WriteNumberValue(e);
             json.WriteEndArray();
             json.WriteStartArray("cells");
-            foreach (var w in histogram.Storage.SumW) json.WriteNumberValue(w);
+            foreach (var w in histogram.SumW) json.WriteNumberValue(w);
             json.WriteEndArray();
             json.WriteEndObject();
         }

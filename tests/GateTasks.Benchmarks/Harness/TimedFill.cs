@@ -48,7 +48,7 @@ internal static class TimedFill
         for (var c = 0; c < histograms.Length; c++)
         {
             json.WriteStartArray(reference.Features[c].Name);
-            foreach (var w in histograms[c].Storage.SumW) json.WriteNumberValue((long)w);
+            foreach (var w in histograms[c].SumW) json.WriteNumberValue((long)w);
             json.WriteEndArray();
         }
         json.WriteEndObject();

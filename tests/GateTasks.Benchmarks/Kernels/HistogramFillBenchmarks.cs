@@ -40,7 +40,7 @@ public class HistogramFillBenchmarks
     {
         var histogram = new Histogram(_axis);
         histogram.Fill(_values, Weighted ? _weights : ReadOnlySpan<double>.Empty);
-        return histogram.Storage.SumW[1];
+        return histogram.SumW[1];
     }
 
     // Edges at the sample's own quantiles, as a reference's quantile binning lays them.

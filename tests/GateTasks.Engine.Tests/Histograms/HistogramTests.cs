@@ -9,13 +9,51 @@ public class HistogramTests
     {
         var h = new Histogram(new RegularAxis(2, 0, 2));
         h.Fill([-1, 0.5, 0.5, 1.5, 2, double.NaN], [1, 2, 3, 4, 5, 6]);
-        Assert.Equal([1, 5, 4, 5], h.Storage.SumW.ToArray());
-        Assert.Equal([1, 13, 16, 25], h.Storage.SumW2.ToArray());
+        Assert.Equal([1, 5, 4, 5], h.SumW.ToArray());
+        Assert.Equal([1, 13, 16, 25], h.SumW2.ToArray());
         Assert.Equal(1, h.NanEntries);
         Assert.Equal(6, h.NanSumW);
         Assert.Equal(36, h.NanSumW2);
         Assert.Equal(6, h.Entries);
         Assert.Equal(15, h.TotalSumW); // NaN never lands in a flow cell or the total
+        // The same cells by name [by hand from the fills above].
+        Assert.Equal(1, h.UnderflowSumW);
+        Assert.Equal(5, h.BinSumW(0));
+        Assert.Equal(13, h.BinSumW2(0));
+        Assert.Equal(4, h.BinSumW(1));
+        Assert.Equal(16, h.BinSumW2(1));
+        Assert.Equal(5, h.OverflowSumW);
+    }
+
+    [Fact]
+    public void Rebinning_sums_whole_bins_and_keeps_flows_and_NaN_apart()
+    {
+        // By hand: bins [0,1) [1,2) [2,3) [3,4) hold 1, 2, 3, 4 (unit weights); on edges 0, 2, 4 they become 3 and 7,
+        // and the underflow (one value), the overflow (two) and NaN (one) stay where they were.
+        var h = new Histogram(new RegularAxis(4, 0, 4));
+        h.Fill([-1, 0.5, 1.5, 1.5, 2.5, 2.5, 2.5, 3.5, 3.5, 3.5, 3.5, 4, 9, double.NaN], []);
+        var coarse = h.Rebinned(new VariableAxis([0, 2, 4]), h.Entries);
+        Assert.Equal([1, 3, 7, 2], coarse.SumW.ToArray());
+        Assert.Equal([1, 3, 7, 2], coarse.SumW2.ToArray());
+        Assert.Equal(1, coarse.NanEntries);
+        Assert.Equal(1, coarse.NanSumW);
+        Assert.Equal(14, coarse.Entries);
+    }
+
+    [Fact]
+    public void Quantiles_interpolate_within_a_bin()
+    {
+        // Uniform on [0, 10) in 10 bins of 100 entries: the p-quantile is 10p and the density 0.1 (exact by construction).
+        var axis = new RegularAxis(10, 0, 10);
+        var cells = new double[12];
+        for (var i = 1; i <= 10; i++) cells[i] = 100;
+        var h = Histogram.FromCells(axis, cells, cells, 1000, 0, 0, 0);
+        foreach (var p in new[] { 0.05, 0.5, 0.95, 0.333 })
+        {
+            var (q, f) = h.Quantile(p);
+            Assert.Equal(10 * p, q, 12);
+            Assert.Equal(0.1, f, 12);
+        }
     }
 
     [Fact]
@@ -30,7 +68,7 @@ public class HistogramTests
         a.Fill(values.AsSpan(0, 400), []);
         b.Fill(values.AsSpan(400), []);
         b.Add(a);
-        Assert.Equal(whole.Storage.SumW.ToArray(), b.Storage.SumW.ToArray());
+        Assert.Equal(whole.SumW.ToArray(), b.SumW.ToArray());
         Assert.Equal(whole.Entries, b.Entries);
         Assert.Throws<ArgumentException>(() => b.Add(new Histogram(new RegularAxis(3, 0, 4))));
     }
@@ -72,8 +110,8 @@ public class HistogramTests
             sumW[bin + 1] += w;
             sumW2[bin + 1] += w * w;
         }
-        Assert.Equal(sumW, h.Storage.SumW.ToArray());
-        Assert.Equal(sumW2, h.Storage.SumW2.ToArray());
+        Assert.Equal(sumW, h.SumW.ToArray());
+        Assert.Equal(sumW2, h.SumW2.ToArray());
         Assert.Equal(values.Length, h.Entries);
         Assert.Equal(nan, h.NanEntries);
         Assert.Equal(nanW, h.NanSumW);

@@ -27,12 +27,12 @@ public class QuantileGridTests
         var edges = grid.EqualProbabilityEdges(10);
         Assert.True(edges.Length - 1 < 10, "the spike swallows several equal-probability bins");
         Assert.Equal(0, edges[0]);
-        var h = grid.Rebin(new VariableAxis(edges), values.Length);
-        Assert.Equal(6000, h.Storage.SumW[1]); // the whole spike in the first bin
+        var h = grid.Fine.Rebinned(new VariableAxis(edges), values.Length);
+        Assert.Equal(6000, h.SumW[1]); // the whole spike in the first bin
         Assert.Equal(10_000, h.TotalSumW);
         var direct = new Histogram(new VariableAxis(edges));
         direct.Fill(values, []);
-        Assert.Equal(direct.Storage.SumW.ToArray(), h.Storage.SumW.ToArray());
+        Assert.Equal(direct.SumW.ToArray(), h.SumW.ToArray());
     }
 
     [Fact]

@@ -48,19 +48,19 @@ public sealed class ReferenceBuilderTests : IDisposable
 
         var x = r.Find("x")!;
         Assert.Equal(10, x.Histogram.Axis.Count);
-        for (var b = 1; b <= 10; b++) Assert.InRange(x.Histogram.Storage.SumW[b], 99, 101); // equal-probability
+        for (var b = 1; b <= 10; b++) Assert.InRange(x.Histogram.SumW[b], 99, 101); // equal-probability
         // Population mean and standard deviation of 0..999, exact: 499.5 and sqrt((1000²−1)/12).
         Assert.Equal(499.5, x.Summary.Mean, 9);
         Assert.Equal(Math.Sqrt((1000.0 * 1000 - 1) / 12), x.Summary.StandardDeviation, 9);
         Assert.InRange(x.Quantile(0.5)!.Value, 498, 501);
 
         var u = r.Find("u")!;
-        Assert.Equal([0, 100, 100, 100, 100, 100, 500], u.Histogram.Storage.SumW.ToArray());
+        Assert.Equal([0, 100, 100, 100, 100, 100, 500], u.Histogram.SumW.ToArray());
 
         var k = r.Find("k")!;
         Assert.Equal(4, k.Histogram.Axis.Count);
         Assert.Equal(-0.5, k.Histogram.Axis.Edges[0]);
-        Assert.Equal([0, 250, 250, 250, 250, 0], k.Histogram.Storage.SumW.ToArray());
+        Assert.Equal([0, 250, 250, 250, 250, 0], k.Histogram.SumW.ToArray());
 
         var file = Path.Combine(_dir, "ref.parquet");
         ReferenceFile.Write(file, r);
@@ -71,8 +71,8 @@ public sealed class ReferenceBuilderTests : IDisposable
         {
             var g = back.Find(f.Name)!;
             Assert.Equal(f.Histogram.Axis.Edges.ToArray(), g.Histogram.Axis.Edges.ToArray());
-            Assert.Equal(f.Histogram.Storage.SumW.ToArray(), g.Histogram.Storage.SumW.ToArray());
-            Assert.Equal(f.Histogram.Storage.SumW2.ToArray(), g.Histogram.Storage.SumW2.ToArray());
+            Assert.Equal(f.Histogram.SumW.ToArray(), g.Histogram.SumW.ToArray());
+            Assert.Equal(f.Histogram.SumW2.ToArray(), g.Histogram.SumW2.ToArray());
             Assert.Equal(f.Summary, g.Summary);
             Assert.Equal(f.Quantiles, g.Quantiles);
             Assert.Equal(f.BinningRequest, g.BinningRequest);

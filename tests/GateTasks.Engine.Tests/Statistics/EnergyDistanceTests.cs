@@ -27,50 +27,19 @@ public class EnergyDistanceTests
         Assert.Equal("1.24.2", Fixture.Value.RootElement.GetProperty("numpy").GetString());
     }
 
-    [Fact]
-    public void ScipyDocumentationExamples()
-    {
-        // scipy 1.10 documentation, energy_distance examples [published]
-        Near(2.0, EnergyDistance.Univariate(new double[] { 0 }, new double[] { 2 }), 1e-15);
-        Near(1.0, EnergyDistance.Univariate(new double[] { 0, 8 }, new double[] { 0, 8 }, new double[] { 3, 1 }, new double[] { 2, 2 }), 1e-15);
-        Near(0.88003340976158217, EnergyDistance.Univariate(new[] { 0.7, 7.4, 2.4, 6.8 }, new[] { 1.4, 8.0 },
-            new[] { 2.1, 4.2, 7.4, 8.0 }, new[] { 7.6, 8.8 }), 1e-14);
-    }
-
-    [Fact]
-    public void HistogramAsPointMassesAtBinCentres()
-    {
-        // scipy 1.10.1 energy_distance(centres, centres, h1, h2) = 0.35355339059327384 [scipy]
-        double[] centres = { 0.5, 1.5, 2.5, 3.5, 4.5 };
-        Near(0.35355339059327384, EnergyDistance.Univariate(centres, centres, new double[] { 3, 7, 10, 6, 2 }, new double[] { 1, 5, 9, 9, 4 }), 1e-14);
-    }
-
-    [Theory]
-    [InlineData("normal_500_700")]
-    [InlineData("weighted_exponential_400_300")]
-    [InlineData("ties_300_250")]
-    public void UnivariateMatchesScipy(string name)
-    {
-        // scipy 1.10.1 stats.energy_distance(u, v[, u_weights, v_weights]), fixture energy_univariate/<name>
-        var c = EnergyCase("energy_univariate", name);
-        double e = c.TryGetProperty("u_weights", out _)
-            ? EnergyDistance.Univariate(c.Doubles("u"), c.Doubles("v"), c.Doubles("u_weights"), c.Doubles("v_weights"))
-            : EnergyDistance.Univariate(c.Doubles("u"), c.Doubles("v"));
-        Near(c.Double("distance"), e, 1e-12);
-    }
-
     [Theory]
     [InlineData("normal_shift_60_45_d3")]
     [InlineData("correlated_vs_shuffled_80_70_d2")]
     [InlineData("univariate_rows_50_40_d1")]
-    public void MultivariateMatchesDirectNumpyDefinition(string name)
+    public void PermutationTestReportsTheSameStatisticAsTheDirectSum(string name)
     {
         // numpy 1.24.2 direct O(N²) computation of the V-statistic definition (call in fixture), energy_multivariate/<name>
         var c = EnergyCase("energy_multivariate", name);
-        double[][] x = Rows(c, "x"), y = Rows(c, "y");
-        double e = EnergyDistance.Multivariate(x, y);
-        Near(c.Double("e_statistic"), e, 1e-12);
-        Near(c.Double("test_statistic"), EnergyDistance.TestStatistic(e, x.Length, y.Length), 1e-12);
+        EnergyDistanceResult r = EnergyDistance.PermutationTest(Rows(c, "x"), Rows(c, "y"), 99, 1);
+        Near(c.Double("e_statistic"), r.EStatistic, 1e-11);
+        Near(c.Double("test_statistic"), r.TestStatistic, 1e-11);
+        Assert.Equal(99, r.Permutations);
+        Assert.InRange(r.PValue, 0.01, 1.0);
     }
 
     [Fact]
@@ -78,22 +47,7 @@ public class EnergyDistanceTests
     {
         // scipy 1.10.1 stats.energy_distance(x[:,0], y[:,0]) ** 2, fixture energy_multivariate/univariate_rows_50_40_d1
         var c = EnergyCase("energy_multivariate", "univariate_rows_50_40_d1");
-        double[][] x = Rows(c, "x"), y = Rows(c, "y");
-        Near(c.Double("scipy_energy_distance_squared"), EnergyDistance.Multivariate(x, y), 1e-12);
-        double u = EnergyDistance.Univariate(x.Select(r => r[0]).ToArray(), y.Select(r => r[0]).ToArray());
-        Near(c.Double("scipy_energy_distance_squared"), u * u, 1e-12);
-    }
-
-    [Fact]
-    public void PermutationTestReportsTheSameStatisticAsTheDirectSum()
-    {
-        // numpy 1.24.2 direct definition, fixture energy_multivariate/normal_shift_60_45_d3
-        var c = EnergyCase("energy_multivariate", "normal_shift_60_45_d3");
-        EnergyDistanceResult r = EnergyDistance.PermutationTest(Rows(c, "x"), Rows(c, "y"), 99, 1);
-        Near(c.Double("e_statistic"), r.EStatistic, 1e-11);
-        Near(c.Double("test_statistic"), r.TestStatistic, 1e-11);
-        Assert.Equal(99, r.Permutations);
-        Assert.InRange(r.PValue, 0.01, 1.0);
+        Near(c.Double("scipy_energy_distance_squared"), EnergyDistance.PermutationTest(Rows(c, "x"), Rows(c, "y"), 1, 1).EStatistic, 1e-11);
     }
 
     [Fact]
@@ -177,18 +131,17 @@ public class EnergyDistanceTests
     public void IdenticalSamplesHaveZeroStatistic()
     {
         double[][] x = CorrelatedNormal(40, 0.3, 9);
-        Near(0.0, EnergyDistance.Multivariate(x, x), 0, 1e-13);
-        Assert.Equal(0.0, EnergyDistance.Univariate(new double[] { 1, 2, 2, 5 }, new double[] { 1, 2, 2, 5 }));
+        Near(0.0, EnergyDistance.PermutationTest(x, x, 1, 1).EStatistic, 0, 1e-13);
     }
 
     [Fact]
     public void BadInputIsReported()
     {
         double[][] ok = { new double[] { 1, 2 } };
-        var empty = Assert.Throws<GateInputException>(() => EnergyDistance.Multivariate(Array.Empty<double[]>(), ok));
+        var empty = Assert.Throws<GateInputException>(() => EnergyDistance.PermutationTest(Array.Empty<double[]>(), ok, 9, 1));
         Assert.Equal(ErrorCodes.SampleEmpty, empty.Code);
-        Assert.Throws<ArgumentException>(() => EnergyDistance.Multivariate(ok, new[] { new double[] { 1, 2, 3 } }));
-        Assert.Throws<ArgumentException>(() => EnergyDistance.Multivariate(ok, new[] { new[] { 1, double.NaN } }));
+        Assert.Throws<ArgumentException>(() => EnergyDistance.PermutationTest(ok, new[] { new double[] { 1, 2, 3 } }, 9, 1));
+        Assert.Throws<ArgumentException>(() => EnergyDistance.PermutationTest(ok, new[] { new[] { 1, double.NaN } }, 9, 1));
         double[][] many = Enumerable.Range(0, EnergyDistance.MaxPooledRows).Select(i => new double[] { i, 0 }).ToArray();
         var tooMany = Assert.Throws<ArgumentException>(() => EnergyDistance.PermutationTest(many, ok, 9, 1));
         Assert.Contains("5000", tooMany.Message);

@@ -75,21 +75,10 @@ public class MultipleTestingTests
         Assert.All(adjusted.Skip(9), a => Assert.Equal(1.0, a));
     }
 
-    [Fact]
-    public void NoneReturnsACopy()
-    {
-        double[] input = (double[])BenjaminiHochbergExample.Clone();
-        double[] adjusted = MultipleTesting.Adjust(input, MultipleTestingMethod.None);
-        // No correction by definition: adjusted = raw [exact].
-        Assert.Equal(input, adjusted);
-        Assert.NotSame(input, adjusted);
-    }
-
     [Theory]
     [InlineData(nameof(MultipleTestingMethod.Holm))]
     [InlineData(nameof(MultipleTestingMethod.BenjaminiHochberg))]
     [InlineData(nameof(MultipleTestingMethod.Bonferroni))]
-    [InlineData(nameof(MultipleTestingMethod.None))]
     public void PermutingTheInputPermutesTheOutput(string methodName)
     {
         var method = Enum.Parse<MultipleTestingMethod>(methodName);
@@ -111,7 +100,6 @@ public class MultipleTestingTests
     [InlineData(nameof(MultipleTestingMethod.Holm))]
     [InlineData(nameof(MultipleTestingMethod.BenjaminiHochberg))]
     [InlineData(nameof(MultipleTestingMethod.Bonferroni))]
-    [InlineData(nameof(MultipleTestingMethod.None))]
     public void ASingleTestIsUncorrected(string methodName)
     {
         var method = Enum.Parse<MultipleTestingMethod>(methodName);
@@ -155,9 +143,8 @@ public class MultipleTestingTests
         // BH rank·α/m, tie at its last rank: 0.01 → 2·0.05/4; 0.03 → 3·0.05/4; 0.04 → 0.05.
         AssertSequence(new[] { 0.05, 0.025, 0.025, 0.0375 },
             MultipleTesting.PerTestLevels(p, 0.05, MultipleTestingMethod.BenjaminiHochberg));
-        // Bonferroni α/m; none α.
+        // Bonferroni α/m.
         AssertSequence(new[] { 0.0125, 0.0125, 0.0125, 0.0125 }, MultipleTesting.PerTestLevels(p, 0.05, MultipleTestingMethod.Bonferroni));
-        AssertSequence(new[] { 0.05, 0.05, 0.05, 0.05 }, MultipleTesting.PerTestLevels(p, 0.05, MultipleTestingMethod.None));
     }
 
     [Fact]
