@@ -55,8 +55,8 @@ internal sealed class SampleAccumulation
     public double SumW => _sumW.Value;
     public double SumW2 => _sumW2.Value;
 
-    /// <summary>Streams a sample (one pass, batch by batch) into the accumulation.</summary>
-    public void Read(Sample sample, FeatureInputs inputs)
+    /// <summary>Streams a sample (one pass, batch by batch, as <paramref name="pass"/> says) into the accumulation.</summary>
+    public void Read(Sample sample, FeatureInputs inputs, ReadPass pass)
     {
         var totals = SampleStream.Run(sample, inputs, Contract.Sample.Weight, _spikes.Around((i, values, weights) =>
         {
@@ -71,7 +71,7 @@ internal sealed class SampleAccumulation
                 if (w < 0) NegativeWeightEvents++;
             foreach (var p in _pairs) p.Add(view);
             _joint?.Add(view);
-        });
+        }, pass);
         Events += totals.Events;
         _sumW.Add(totals.ExactSumW);
         _sumW2.Add(totals.ExactSumW2);

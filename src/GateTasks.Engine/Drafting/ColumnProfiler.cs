@@ -30,17 +30,16 @@ internal static class ColumnProfiler
         public bool Integral = true;
     }
 
-    public static IReadOnlyList<ColumnProfile> Profile(Sample sample, string? weightColumn, out long events)
+    public static IReadOnlyList<ColumnProfile> Profile(Sample sample, string? weightColumn, IProgress<ReadProgress>? progress, out long events)
     {
         var columns = sample.Columns.Where(c => c.Type != SampleValueType.Unsupported && c.Name != weightColumn)
             .Select(c => new Column(c.Name, c.Type)).ToList();
         var names = columns.Select(c => c.Name).ToList();
         if (weightColumn is not null) names.Add(weightColumn);
 
-        sample.Phase = "draft pass 1 (moments, categories, frequent values)";
         events = 0;
         var unit = Array.Empty<double>();
-        foreach (var batch in sample.ReadBatches(names))
+        foreach (var batch in sample.ReadBatches(names, new ReadPass("draft pass 1 (moments, categories, frequent values)", progress)))
         {
             var weightArray = Weights(batch, columns.Count, weightColumn, ref unit, sample.CurrentFile);
             events += batch.RowCount;
@@ -68,10 +67,9 @@ internal static class ColumnProfiler
         foreach (var c in recount) c.CandidateWeights = c.Hitters.Candidates.ToDictionary(v => v, _ => 0.0);
         if (recount.Count > 0)
         {
-            sample.Phase = "draft pass 2 (frequent values weighed)";
             var recountNames = recount.Select(c => c.Name).ToList();
             if (weightColumn is not null) recountNames.Add(weightColumn);
-            foreach (var batch in sample.ReadBatches(recountNames))
+            foreach (var batch in sample.ReadBatches(recountNames, new ReadPass("draft pass 2 (frequent values weighed)", progress)))
             {
                 var weightArray = Weights(batch, recount.Count, weightColumn, ref unit, sample.CurrentFile);
                 Parallel.For(0, recount.Count, i =>

@@ -10,12 +10,11 @@ internal static class ContractDrafter
         IProgress<ReadProgress>? progress = null)
     {
         var sample = Sample.Open(files);
-        sample.Progress = progress;
         if (weight is not null && !sample.ColumnNamesInAnyFile.Contains(weight))
             throw new Diagnostics.GateInputException(Diagnostics.ErrorCodes.SampleColumnMissing,
                 $"The weight column '{weight}' is not in the trusted sample{Diagnostics.NearestName.Hint(weight, sample.ColumnNamesInAnyFile)}.",
                 new Diagnostics.SourceLocation(files[0]));
-        var profiles = ColumnProfiler.Profile(sample, weight, out var events);
+        var profiles = ColumnProfiler.Profile(sample, weight, progress, out var events);
         if (events == 0)
             throw new Diagnostics.GateInputException(Diagnostics.ErrorCodes.SampleEmpty,
                 $"The trusted sample has no events ({string.Join(", ", files.Select(Path.GetFileName))}).", new Diagnostics.SourceLocation(files[0]));

@@ -30,8 +30,7 @@ internal static class ReferenceBuilder
     {
         var features = contract.Features;
         var sample = Sample.Open(files);
-        sample.Progress = progress;
-        sample.Phase = "reference pass 1 (ranges and moments)";
+        var pass = new ReadPass("reference pass 1 (ranges and moments)", progress);
         VerifyColumns(contract, sample, weightColumn);
         var columns = FeatureInputs.Compile(contract, sample.ColumnNamesInAnyFile);
         var n = features.Count;
@@ -42,7 +41,7 @@ internal static class ReferenceBuilder
         var joint = contract.Joint is { } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
         // Each pass puts the declared spikes apart; the first one's tallies are the reference's.
         var spikes = new SpikeSeparation(features);
-        var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)), view => joint?.Add(view));
+        var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)), view => joint?.Add(view), pass);
         if (totals.Events == 0 && contract.Selection is { } selection && sample.RowsRead > 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
                 $"The selection '{selection.Text}' keeps none of the {InvariantNumber.Count(sample.RowsRead)} events of the reference sample " +
@@ -83,7 +82,6 @@ internal static class ReferenceBuilder
         }
 
         // Pass 2: fine quantile grids and directly binned histograms.
-        sample.Phase = "reference pass 2 (quantile grids)";
         var grids = new QuantileGrid?[n];
         var direct = new Histogram?[n];
         for (var i = 0; i < n; i++)
@@ -102,7 +100,7 @@ internal static class ReferenceBuilder
         {
             grids[i]?.Fine.Fill(values, weights);
             direct[i]?.Fill(values, weights);
-        }));
+        }), settings: pass.For("reference pass 2 (quantile grids)"));
 
         var result = new List<ReferenceFeature>();
         for (var i = 0; i < n; i++)
@@ -131,11 +129,10 @@ internal static class ReferenceBuilder
             var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
                 new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram),
                 p.Chi2 is null ? null : new Histogram2D(result[index[p.First]].Histogram.Axis, result[index[p.Second]].Histogram.Axis))).ToList();
-            sample.Phase = "reference pass 3 (correlations and far tails)";
             SampleStream.Run(sample, columns, weightColumn, new SpikeSeparation(features).Around((i, values, weights) => farTail[i]?.Add(values, weights)), view =>
             {
                 foreach (var p in pairs) p.Add(view);
-            });
+            }, pass.For("reference pass 3 (correlations and far tails)"));
             foreach (var p in pairs.Select(p => p.Finish()))
             {
                 if (double.IsNaN(p.Pearson) || double.IsNaN(p.Spearman))

@@ -26,8 +26,7 @@ internal static class ContractCheck
         var clock = Stopwatch.StartNew();
         var files = ContractInputs.SampleFiles(contract, samplePath);
         // The sample's columns are checked before the reference is read: a misspelt column is best answered with the sample's own names.
-        var sample = OpenSample(contract, files, progress);
-        if (parallelism is { } threads) sample.Sample.Parallelism = Math.Max(1, threads);
+        var sample = OpenSample(contract, files, new ReadPass("checking the sample", progress, parallelism));
         var setup = MatchedReference.Load(contract);
         var accumulation = Accumulate(setup, sample).Finish();
         if (accumulation.Events == 0 && contract.Selection is { } selection && sample.Sample.RowsRead > 0)
@@ -71,7 +70,7 @@ internal static class ContractCheck
     public static long Fill(PrecisionContract contract, string samplePath, string output, IProgress<ReadProgress>? progress = null)
     {
         var files = ContractInputs.SampleFiles(contract, samplePath);
-        var opened = OpenSample(contract, files, progress);
+        var opened = OpenSample(contract, files, new ReadPass("checking the sample", progress));
         var setup = MatchedReference.Load(contract);
         var accumulation = Accumulate(setup, opened);
         // Each file is recorded by the digest of its content (its identity when partials are merged) and its path (for messages).
@@ -89,24 +88,22 @@ internal static class ContractCheck
         return accumulation.Events;
     }
 
-    /// <summary>A sample opened for a contract: its files' schemas read, its columns checked, the expressions compiled.</summary>
-    internal sealed record OpenedSample(Sample Sample, FeatureInputs Inputs);
+    /// <summary>A sample opened for a contract: its files' schemas read, its columns checked, the expressions compiled; how it is to be read.</summary>
+    internal sealed record OpenedSample(Sample Sample, FeatureInputs Inputs, ReadPass Pass);
 
     /// <summary>Opens a sample and checks it against the contract (columns, then expressions) before anything is read.</summary>
-    internal static OpenedSample OpenSample(PrecisionContract contract, IReadOnlyList<string> files, IProgress<ReadProgress>? progress = null)
+    internal static OpenedSample OpenSample(PrecisionContract contract, IReadOnlyList<string> files, ReadPass? pass = null)
     {
         var sample = Sample.Open(files);
-        sample.Progress = progress;
-        sample.Phase = "checking the sample";
         ValidateColumns(contract, sample);
-        return new OpenedSample(sample, FeatureInputs.Compile(contract, sample.ColumnNamesInAnyFile));
+        return new OpenedSample(sample, FeatureInputs.Compile(contract, sample.ColumnNamesInAnyFile), pass ?? new ReadPass("checking the sample"));
     }
 
     /// <summary>Streams one sample (or one shard of it) into a new accumulation.</summary>
     internal static SampleAccumulation Accumulate(MatchedReference setup, OpenedSample opened)
     {
         var accumulation = new SampleAccumulation(setup.Contract, setup.Layouts);
-        accumulation.Read(opened.Sample, opened.Inputs);
+        accumulation.Read(opened.Sample, opened.Inputs, opened.Pass);
         return accumulation;
     }
 

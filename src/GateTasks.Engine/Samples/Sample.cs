@@ -59,18 +59,6 @@ internal sealed class Sample
     /// <summary>Rows in all files, when every file states its count.</summary>
     public long? TotalRows { get; }
 
-    /// <summary>Told after every batch how far a pass has got (and once at its end); null for silence.</summary>
-    public IProgress<ReadProgress>? Progress { get; set; }
-
-    /// <summary>
-    /// Threads a pass may use (decoding columns, visiting features); the machine's processor count unless set. The
-    /// results do not depend on it. <c>DOTNET_PROCESSOR_COUNT</c> lowers the default for a whole process.
-    /// </summary>
-    public int Parallelism { get; set; } = Environment.ProcessorCount;
-
-    /// <summary>What the next pass is for, as progress reports name it.</summary>
-    public string Phase { get; set; } = "reading the sample";
-
     /// <summary>Rows read by the last (or current) <see cref="ReadBatches"/> enumeration.</summary>
     public long RowsRead { get; private set; }
 
@@ -122,16 +110,17 @@ internal sealed class Sample
     /// <summary>
     /// Reads <paramref name="columns"/> from every file in order. Every file must have every column as a numeric
     /// column; this is checked for all files before any data is read, so a mismatch in the last file fails at once.
-    /// Batches and their buffers are only valid until the next one is requested.
+    /// Batches and their buffers are only valid until the next one is requested. <paramref name="pass"/> says what the
+    /// pass is for, who is told its progress and how many threads it may use (default: <see cref="ReadPass.Default"/>).
     /// </summary>
-    public IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns)
+    public IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns, ReadPass? pass = null)
     {
         for (var i = 0; i < Files.Count; i++)
             SampleColumnLookup.IndicesOf(Files[i], _fileColumns[i], columns, PresenceNote(columns, i));
-        return Batches(columns);
+        return Batches(columns, pass ?? ReadPass.Default);
     }
 
-    private IEnumerable<SampleBatch> Batches(IReadOnlyList<string> columns)
+    private IEnumerable<SampleBatch> Batches(IReadOnlyList<string> columns, ReadPass pass)
     {
         RowsRead = 0;
         BatchesRead = 0;
@@ -142,15 +131,15 @@ internal sealed class Sample
             CurrentFile = file;
             using var reopened = _readers[i] is null ? SampleReaderFactory.Open(file) : null;
             var reader = _readers[i] ?? reopened!;
-            foreach (var batch in reader.ReadBatches(columns, Parallelism))
+            foreach (var batch in reader.ReadBatches(columns, pass.Parallelism))
             {
                 RowsRead += batch.RowCount;
                 BatchesRead++;
                 yield return batch;
-                Progress?.Report(new ReadProgress(Phase, RowsRead, TotalRows, clock.Elapsed, false));
+                pass.Progress?.Report(new ReadProgress(pass.Phase, RowsRead, TotalRows, clock.Elapsed, false));
             }
         }
-        Progress?.Report(new ReadProgress(Phase, RowsRead, TotalRows, clock.Elapsed, true));
+        pass.Progress?.Report(new ReadProgress(pass.Phase, RowsRead, TotalRows, clock.Elapsed, true));
     }
 
     // For a column missing from one file: say how many of the others have it, since that usually means a stray file.

@@ -23,6 +23,7 @@ internal sealed class SampleStream
     private const int ParallelBatchRows = 8192;
 
     private readonly Sample _sample;
+    private readonly ReadPass _pass;
     private readonly FeatureInputs _inputs;
     private readonly string? _weightColumn;
     private readonly Dictionary<string, int> _index;
@@ -49,9 +50,10 @@ internal sealed class SampleStream
     private readonly Statistics.ExactSum _sumW = new();
     private readonly Statistics.ExactSum _sumW2 = new();
 
-    private SampleStream(Sample sample, FeatureInputs inputs, string? weightColumn)
+    private SampleStream(Sample sample, FeatureInputs inputs, string? weightColumn, ReadPass pass)
     {
         _sample = sample;
+        _pass = pass;
         _inputs = inputs;
         _weightColumn = weightColumn;
         Columns = inputs.RequiredColumns.ToList();
@@ -75,12 +77,14 @@ internal sealed class SampleStream
 
     /// <summary>
     /// Streams <paramref name="sample"/> once: each feature's values of each batch to <paramref name="visit"/> (features
-    /// may be visited side by side), then the whole batch to <paramref name="afterEachBatch"/>.
+    /// may be visited side by side), then the whole batch to <paramref name="afterEachBatch"/>; <paramref name="settings"/>
+    /// names the pass, its progress and its threads.
     /// </summary>
-    public static SampleTotals Run(Sample sample, FeatureInputs inputs, string? weightColumn, FeatureBatch visit, Action<FeatureView>? afterEachBatch = null)
+    public static SampleTotals Run(Sample sample, FeatureInputs inputs, string? weightColumn, FeatureBatch visit, Action<FeatureView>? afterEachBatch = null,
+        ReadPass? settings = null)
     {
-        var pass = new SampleStream(sample, inputs, weightColumn);
-        foreach (var batch in sample.ReadBatches(pass.Columns))
+        var pass = new SampleStream(sample, inputs, weightColumn, settings ?? ReadPass.Default);
+        foreach (var batch in sample.ReadBatches(pass.Columns, pass._pass))
         {
             var rows = batch.RowCount;
             pass.Reserve(rows);
@@ -222,8 +226,8 @@ internal sealed class SampleStream
                 : _weightIndex >= 0 ? _ownWeights[i].AsSpan(0, _ownRows[i]) : ReadOnlySpan<double>.Empty;
             visit(i, values, featureWeights);
         }
-        if (_n > 1 && _frame.Rows >= ParallelBatchRows && _sample.Parallelism > 1)
-            Parallel.For(0, _n, new ParallelOptions { MaxDegreeOfParallelism = _sample.Parallelism }, One);
+        if (_n > 1 && _frame.Rows >= ParallelBatchRows && _pass.Parallelism > 1)
+            Parallel.For(0, _n, new ParallelOptions { MaxDegreeOfParallelism = _pass.Parallelism }, One);
         else for (var i = 0; i < _n; i++) One(i);
     }
 

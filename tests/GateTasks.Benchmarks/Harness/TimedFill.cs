@@ -27,7 +27,7 @@ internal static class TimedFill
         foreach (var batch in sample.ReadBatches(columns))
         {
             // As a check fills them: the features of a batch side by side on the sample's threads.
-            Parallel.For(0, histograms.Length, new ParallelOptions { MaxDegreeOfParallelism = sample.Parallelism },
+            Parallel.For(0, histograms.Length, new ParallelOptions { MaxDegreeOfParallelism = ReadPass.Default.Parallelism },
                 c => histograms[c].Fill(batch.Column(c), ReadOnlySpan<double>.Empty));
             events += batch.RowCount;
         }

@@ -81,9 +81,8 @@ public sealed class InputFuzzTests : IDisposable
             try
             {
                 var sample = Sample.Open([mutant]);
-                sample.Parallelism = 1 + i % 2;
                 var names = sample.Columns.Where(c => c.Type != SampleValueType.Unsupported).Select(c => c.Name).ToList();
-                foreach (var _ in sample.ReadBatches(names)) { }
+                foreach (var _ in sample.ReadBatches(names, new ReadPass("fuzz", Threads: 1 + i % 2))) { }
             }
             catch (GateInputException e)
             {

@@ -26,9 +26,7 @@ public sealed class SampleProgressTests : IDisposable
         var sample = Sample.Open([a, b]);
         Assert.Equal(50_000, sample.TotalRows);
         var recorder = new Recorder();
-        sample.Progress = recorder;
-        sample.Phase = "test pass";
-        foreach (var _ in sample.ReadBatches([DemoColumns.MassGg])) { }
+        foreach (var _ in sample.ReadBatches([DemoColumns.MassGg], new ReadPass("test pass", recorder))) { }
         Assert.Equal([10_000L, 20_000, 25_000, 35_000, 45_000, 50_000, 50_000], recorder.Reports.Select(r => r.RowsRead));
         Assert.All(recorder.Reports, r => Assert.Equal(50_000, r.RowsTotal));
         Assert.All(recorder.Reports, r => Assert.Equal("test pass", r.Phase));
