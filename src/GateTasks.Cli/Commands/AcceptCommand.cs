@@ -34,7 +34,7 @@ internal static class AcceptCommand
             var history = SharedOptions.CheckHistory(loaded, parse.GetValue(baseRevision));
             stdout.WriteLine(history.Note);
             if (history.Finding is { } finding) throw new GateInputException(finding.Code, "Not accepted: " + finding.Message, finding.Location);
-            var report = ContractCheck.Run(loaded, parse.GetValue(sample), ProgressDisplay.For(stdout, stderr));
+            var report = ContractRun.Run(loaded, parse.GetValue(sample), ProgressDisplay.For(stdout, stderr));
             var entry = Acceptance.Accept(report, who, parse.GetValue(reason)!, DateTimeOffset.UtcNow);
             stdout.WriteLine($"accepted as entry {entry.Number} of {loaded.LedgerFullPath}");
             stdout.WriteLine($"  by   {entry.By}");

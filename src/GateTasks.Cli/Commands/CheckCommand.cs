@@ -125,8 +125,8 @@ internal static class CheckCommand
         var history = SharedOptions.CheckHistory(loaded, baseRevision);
         stdout.WriteLine(history.Note);
         var report = partials is { Length: > 0 }
-            ? ContractCheck.RunFromPartials(loaded, ShardCommands.Expand(partials))
-            : ContractCheck.Run(loaded, samplePath, ProgressDisplay.For(stdout, stderr));
+            ? ContractRun.RunFromPartials(loaded, ShardCommands.Expand(partials))
+            : ContractRun.Run(loaded, samplePath, ProgressDisplay.For(stdout, stderr));
         if (history.Finding is { } finding) report = report with { Acceptance = [finding, .. report.Acceptance] };
         if (reports.Text is { } textPath)
             AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
@@ -147,7 +147,7 @@ internal static class CheckCommand
     }
 
     /// <summary>Prints the table, one diagnostic line per failed check, the summary; writes the JUnit report.</summary>
-    public static int Print(CheckReport report, string? junitPath, TextWriter stdout, TextWriter stderr)
+    public static int Print(RunResult report, string? junitPath, TextWriter stdout, TextWriter stderr)
     {
         stdout.WriteLine($"contract  {report.Contract.FilePath}");
         stdout.WriteLine($"reference {report.ReferencePath} (sha256 {report.ReferenceSha256[..12]}…)");

@@ -26,7 +26,7 @@ internal static class ShardCommands
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             new RunPaths().Contract(loaded).Read(ContractInputs.SampleFiles(loaded, parse.GetValue(sample)!), "a sample file")
                 .Write(parse.GetValue(output)!, "--output").Verify();
-            var events = ContractCheck.Fill(loaded, parse.GetValue(sample)!, parse.GetValue(output)!, ProgressDisplay.For(stdout, stderr));
+            var events = ContractRun.Fill(loaded, parse.GetValue(sample)!, parse.GetValue(output)!, ProgressDisplay.For(stdout, stderr));
             stdout.WriteLine($"partial written: {Path.GetFullPath(parse.GetValue(output)!)} ({events} events)");
             return ExitCodes.Success;
         }));
@@ -47,7 +47,7 @@ internal static class ShardCommands
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             var paths = Expand(parse.GetValue(partials)!);
             new RunPaths().Contract(loaded).Read(paths, "a partial file").Write(parse.GetValue(output)!, "--output").Verify();
-            var events = ContractCheck.Merge(loaded, paths, parse.GetValue(output)!);
+            var events = ContractRun.Merge(loaded, paths, parse.GetValue(output)!);
             stdout.WriteLine($"merged {paths.Count} partial files into {Path.GetFullPath(parse.GetValue(output)!)} ({events} events)");
             return ExitCodes.Success;
         }));

@@ -25,7 +25,7 @@ internal sealed class FarTailCounter(double low, double high)
     }
 
     /// <summary>The six exact sums (below Σw, Σw²; above Σw, Σw²; total Σw, Σw²), each as its exact terms.</summary>
-    public IReadOnlyList<IReadOnlyList<double>> State() => _sums.Select(x => x.Partials).ToList();
+    public IReadOnlyList<IReadOnlyList<double>> State() => _sums.Select(x => x.Terms).ToList();
 
     /// <summary>Adds sums in the form <see cref="State"/> gives them (another shard's).</summary>
     public void AddState(IReadOnlyList<IReadOnlyList<double>> state)

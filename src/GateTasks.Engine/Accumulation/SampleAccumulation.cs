@@ -56,7 +56,7 @@ internal sealed class SampleAccumulation
     public double SumW2 => _sumW2.Value;
 
     /// <summary>Streams a sample (one pass, batch by batch, as <paramref name="pass"/> says) into the accumulation.</summary>
-    public void Read(Sample sample, FeatureInputs inputs, ReadPass pass)
+    public void Read(Sample sample, FeatureSources inputs, ReadPass pass)
     {
         var totals = SampleStream.Run(sample, inputs, Contract.Sample.Weight, _spikes.Around((i, values, weights) =>
         {
@@ -96,7 +96,7 @@ internal sealed class SampleAccumulation
     }
 
     /// <summary>The whole accumulation as plain numbers (every exact sum as its terms), for a partial file.</summary>
-    public AccumulationState State() => new(Events, NegativeWeightEvents, _sumW.Partials, _sumW2.Partials,
+    public AccumulationState State() => new(Events, NegativeWeightEvents, _sumW.Terms, _sumW2.Terms,
         _histograms.Select((h, i) => new FeatureState(Contract.Features[i].Name, h.State(), _stats[i].State(),
             _spikes.Filters[i]?.State(), _farTail[i]?.State())).ToList(),
         _pairs.Select(p => p.State()).ToList(),

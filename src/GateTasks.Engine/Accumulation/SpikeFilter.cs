@@ -18,7 +18,7 @@ internal sealed class SpikeFilter(double value)
     public SpikeTally Tally => new(value, _entries, _sumW.Value, _sumW2.Value);
 
     /// <summary>The tally's state: entries, then the exact terms of Σw and of Σw².</summary>
-    public SpikeState State() => new(_entries, _sumW.Partials, _sumW2.Partials);
+    public SpikeState State() => new(_entries, _sumW.Terms, _sumW2.Terms);
 
     /// <summary>Adds a tally in the form <see cref="State"/> gives it (another shard's).</summary>
     public void AddState(SpikeState state)

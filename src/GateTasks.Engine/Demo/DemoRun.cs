@@ -47,7 +47,7 @@ internal sealed class DemoRun(string folder, DemoKind kind = DemoKind.Generator)
     /// Records the faithful sample's run as the accepted state, as an analysis team would once it had reviewed the
     /// tolerances, and returns the report with the ledger checked again.
     /// </summary>
-    public CheckReport Accept(CheckReport faithful)
+    public RunResult Accept(RunResult faithful)
     {
         Runs.Acceptance.Accept(faithful, "GateTasks demo", "the demo analysis's tolerances, met by the faithful surrogate", DateTimeOffset.UtcNow);
         return faithful with { Acceptance = Ledger.LedgerGuard.Verify(faithful.Contract, faithful.ReferenceSha256, faithful.Outcomes) };
@@ -69,10 +69,10 @@ internal sealed class DemoRun(string folder, DemoKind kind = DemoKind.Generator)
     /// Checks one surrogate sample (accepting its state into the ledger when <paramref name="accept"/>) and writes its
     /// reports: JUnit XML, HTML and Markdown, named after <paramref name="reportName"/>.
     /// </summary>
-    public (CheckReport Report, string JUnitPath) Check(string samplePath, string reportName, bool accept = false)
+    public (RunResult Report, string JUnitPath) Check(string samplePath, string reportName, bool accept = false)
     {
         var contract = ContractLoader.Load(ContractPath);
-        var report = ContractCheck.Run(contract, samplePath);
+        var report = ContractRun.Run(contract, samplePath);
         if (accept) report = Accept(report);
         var junit = Path.Combine(ReportFolder, reportName + ".junit.xml");
         JUnitReport.Write(junit, [report]);

@@ -50,7 +50,7 @@ internal sealed class ExactCells
     public double[] SumW2() => _sumW2.Select(s => s.Value).ToArray();
 
     /// <summary>Every cell's exact sums as their terms.</summary>
-    public ExactCellsState State() => new(_sumW.Select(c => c.Partials).ToList(), _sumW2.Select(c => c.Partials).ToList());
+    public ExactCellsState State() => new(_sumW.Select(c => c.Terms).ToList(), _sumW2.Select(c => c.Terms).ToList());
 
     /// <summary>Adds cells in the form <see cref="State"/> gives them; false when their count differs.</summary>
     public bool AddState(ExactCellsState state)

@@ -49,7 +49,7 @@ internal sealed class ExactHistogram
     }
 
     /// <summary>The whole exact state as plain numbers.</summary>
-    public ExactHistogramState State() => new(Entries, NanEntries, _cells.State(), _nanW.Partials, _nanW2.Partials);
+    public ExactHistogramState State() => new(Entries, NanEntries, _cells.State(), _nanW.Terms, _nanW2.Terms);
 
     /// <summary>Adds a state in the form <see cref="State"/> gives it (for this axis); false when the cell count differs.</summary>
     public bool AddState(ExactHistogramState state)

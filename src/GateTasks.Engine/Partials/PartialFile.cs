@@ -14,7 +14,7 @@ namespace GateTasks.Engine.Partials;
 /// decided elsewhere. JSON: the format and version, a seal, and the sealed content — a fingerprint of what the
 /// contract asks to be gathered, the reference's SHA-256, the sample files counted (path and XXH128 of their
 /// content, so no shard is counted twice whatever its name), the SHA-256 of merged inputs, and the accumulation itself
-/// with every exact sum as its partials.
+/// with every exact sum as its terms.
 /// </summary>
 /// <remarks>
 /// The seal is the SHA-256 of <c>gatetasks.partial\n2\n</c> followed by the content object written compactly (as

@@ -33,7 +33,7 @@ internal sealed record CandidateResult(
     public static double RankValue(Margin m) => double.IsNaN(m.Value) ? double.NegativeInfinity : m.Value;
 
     /// <summary>Keeps what ranking needs of a check report.</summary>
-    public static CandidateResult FromReport(string candidate, CheckReport report) =>
+    public static CandidateResult FromReport(string candidate, RunResult report) =>
         new(candidate, report.SampleFiles, report.Events,
             report.Outcomes.Select(o => new CandidateCheck(o.Subject.Name, o.Check.Label, o.Verdict, Margin.Of(o, report.Contract.Decision))).ToList(),
             report.Passed);

@@ -26,7 +26,7 @@ internal static class RankingRun
             CandidateResult result;
             try
             {
-                result = CandidateResult.FromReport(candidates[i], ContractCheck.Run(contract, candidates[i]));
+                result = CandidateResult.FromReport(candidates[i], ContractRun.Run(contract, candidates[i]));
             }
             catch (GateInputException e) when (!IsCommonToAll(e.Code))
             {

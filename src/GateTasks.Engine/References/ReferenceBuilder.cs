@@ -32,7 +32,7 @@ internal static class ReferenceBuilder
         var sample = Sample.Open(files);
         var pass = new ReadPass("reference pass 1 (ranges and moments)", progress);
         VerifyColumns(contract, sample, weightColumn);
-        var columns = FeatureInputs.Compile(contract, sample.ColumnNamesInAnyFile);
+        var columns = FeatureSources.Compile(contract, sample.ColumnNamesInAnyFile);
         var n = features.Count;
 
         // Pass 1: ranges and moments.

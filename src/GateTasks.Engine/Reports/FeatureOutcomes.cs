@@ -16,7 +16,7 @@ internal sealed record FeatureOutcomes(string Name, FeatureComparison? Compariso
         : Verdict.Pass;
 
     /// <summary>Subjects in report order: failing first, then inconclusive, then passing; contract order within each.</summary>
-    public static IReadOnlyList<FeatureOutcomes> Group(CheckReport report)
+    public static IReadOnlyList<FeatureOutcomes> Group(RunResult report)
     {
         var comparisons = report.Comparisons.ToDictionary(c => c.Spec.Name);
         return report.Outcomes

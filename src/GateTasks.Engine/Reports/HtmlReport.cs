@@ -18,9 +18,9 @@ namespace GateTasks.Engine.Reports;
 /// </summary>
 internal static class HtmlReport
 {
-    public static void Write(string path, CheckReport report) => AtomicFile.WriteText(path, Render(report));
+    public static void Write(string path, RunResult report) => AtomicFile.WriteText(path, Render(report));
 
-    public static string Render(CheckReport report)
+    public static string Render(RunResult report)
     {
         var subjects = FeatureOutcomes.Group(report);
         var ids = Ids(subjects);
@@ -44,7 +44,7 @@ internal static class HtmlReport
         return sb.ToString();
     }
 
-    private static void Header(StringBuilder sb, CheckReport r)
+    private static void Header(StringBuilder sb, RunResult r)
     {
         var passed = r.Outcomes.Count(o => o.Verdict == Verdict.Pass);
         var css = r.Outcome == RunOutcome.Passed ? "pass" : "fail";
@@ -108,7 +108,7 @@ internal static class HtmlReport
         _ => "Passing",
     };
 
-    private static void Section(StringBuilder sb, CheckReport report, FeatureOutcomes s, string id)
+    private static void Section(StringBuilder sb, RunResult report, FeatureOutcomes s, string id)
     {
         var css = Css(s.Worst);
         sb.Append("<section class=\"subject ").Append(css).Append("\" id=\"").Append(id).Append("\" data-verdict=\"").Append(css)
@@ -159,7 +159,7 @@ internal static class HtmlReport
         _ => "No histogram to plot.",
     };
 
-    private static void SpikeNote(StringBuilder sb, CheckReport report, Accumulation.SpikeTally sample, Accumulation.SpikeTally reference)
+    private static void SpikeNote(StringBuilder sb, RunResult report, Accumulation.SpikeTally sample, Accumulation.SpikeTally reference)
     {
         var refShare = report.Reference.SumW > 0 ? reference.SumW / report.Reference.SumW : double.NaN;
         var sampleShare = report.SumW > 0 ? sample.SumW / report.SumW : double.NaN;
@@ -169,7 +169,7 @@ internal static class HtmlReport
 
     private static string Share(double x) => double.IsNaN(x) ? "—" : (100 * x).ToString("0.###", CultureInfo.InvariantCulture) + "%";
 
-    private static void ChecksTable(StringBuilder sb, CheckReport report, FeatureOutcomes s)
+    private static void ChecksTable(StringBuilder sb, RunResult report, FeatureOutcomes s)
     {
         sb.Append("<table class=\"checks\">\n<thead><tr><th>check</th><th>region</th><th class=\"num\">estimate</th><th class=\"num\">")
           .Append(E(ResultTable.IntervalHeader(report))).Append("</th><th class=\"num\">tolerance</th><th class=\"num\">adj. p</th><th>verdict</th><th class=\"num\">events needed</th></tr></thead>\n<tbody>\n");

@@ -16,10 +16,10 @@ namespace GateTasks.Engine.Reports;
 /// </summary>
 internal static class JUnitReport
 {
-    public static void Write(string path, IReadOnlyList<CheckReport> reports) =>
+    public static void Write(string path, IReadOnlyList<RunResult> reports) =>
         AtomicFile.WriteText(path, Render(reports));
 
-    public static string Render(IReadOnlyList<CheckReport> reports)
+    public static string Render(IReadOnlyList<RunResult> reports)
     {
         var settings = new XmlWriterSettings { Indent = true, Encoding = new UTF8Encoding(false), CheckCharacters = true };
         var sb = new StringBuilder();
@@ -41,7 +41,7 @@ internal static class JUnitReport
         return sb.ToString();
     }
 
-    private static void WriteSuite(XmlWriter w, CheckReport r)
+    private static void WriteSuite(XmlWriter w, RunResult r)
     {
         var suite = Clean(r.Contract.DisplayName);
         var contractPath = r.Contract.FilePath;
@@ -160,10 +160,10 @@ internal static class JUnitReport
         w.WriteEndElement();
     }
 
-    private static int Failed(CheckReport r) =>
+    private static int Failed(RunResult r) =>
         r.Failures + (r.Contract.Decision.InconclusiveFails ? r.Inconclusive : 0) + r.Acceptance.Count(f => f.IsError);
 
-    private static int Skipped(CheckReport r) => r.Contract.Decision.InconclusiveFails ? 0 : r.Inconclusive;
+    private static int Skipped(RunResult r) => r.Contract.Decision.InconclusiveFails ? 0 : r.Inconclusive;
 
     private static void Property(XmlWriter w, string name, string value)
     {

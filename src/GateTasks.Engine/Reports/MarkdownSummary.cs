@@ -13,9 +13,9 @@ namespace GateTasks.Engine.Reports;
 /// </summary>
 internal static class MarkdownSummary
 {
-    public static void Write(string path, CheckReport report) => AtomicFile.WriteText(path, Render(report));
+    public static void Write(string path, RunResult report) => AtomicFile.WriteText(path, Render(report));
 
-    public static string Render(CheckReport report)
+    public static string Render(RunResult report)
     {
         var sb = new StringBuilder();
         var passed = report.Outcomes.Where(o => o.Verdict == Verdict.Pass).ToList();

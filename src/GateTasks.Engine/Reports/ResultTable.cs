@@ -15,7 +15,7 @@ namespace GateTasks.Engine.Reports;
 /// </summary>
 internal static class ResultTable
 {
-    public static string Format(CheckReport report)
+    public static string Format(RunResult report)
     {
         var confidence = IntervalHeader(report);
         string[] header = ["feature", "check", "region", "estimate", confidence, "tolerance", "adj. p", "verdict", "events needed"];
@@ -51,7 +51,7 @@ internal static class ResultTable
     /// Each feature's share of weight outside its bins (the flow cells), in reference and sample: the binned checks
     /// do not compare it, so it is shown.
     /// </summary>
-    private static void Flows(StringBuilder sb, CheckReport report)
+    private static void Flows(StringBuilder sb, RunResult report)
     {
         if (report.Comparisons.Count == 0) return;
         string[] header = ["outside the bins", "reference below", "above", "sample below", "above"];
@@ -69,7 +69,7 @@ internal static class ResultTable
     }
 
     /// <summary>"95% interval": the column heading of the confidence intervals at the contract's confidence.</summary>
-    public static string IntervalHeader(CheckReport report) =>
+    public static string IntervalHeader(RunResult report) =>
         (report.Contract.Decision.Confidence * 100).ToString("0.#", CultureInfo.InvariantCulture) + "% interval";
 
     /// <summary>"[lower, upper]" of an effect's confidence interval; "—" for tests and impossible measurements.</summary>
@@ -80,7 +80,7 @@ internal static class ResultTable
     public static string ToleranceText(CheckOutcome o) => o.Check is ToleranceCheck bounded ? "≤ " + InvariantNumber.Short(bounded.Tolerance) : "—";
 
     /// <summary>One sentence stating how the verdicts were reached.</summary>
-    public static string DecisionRule(CheckReport report)
+    public static string DecisionRule(RunResult report)
     {
         var d = report.Contract.Decision;
         return $"Fail when the {d.CorrectionName}-adjusted p-value ≤ {InvariantNumber.Short(d.FalseAlarm)} (family of {report.Outcomes.Count} checks); " +
@@ -114,7 +114,7 @@ internal static class ResultTable
         : $"{EventsText(events)} surrogate events needed to decide";
 
     /// <summary>One line saying what was checked and how it went.</summary>
-    public static string Summary(CheckReport report)
+    public static string Summary(RunResult report)
     {
         var verdict = report.Outcome.Word();
         var passed = report.Outcomes.Count(o => o.Verdict == Verdict.Pass);

@@ -14,7 +14,7 @@ namespace GateTasks.Engine.Runs;
 /// </summary>
 internal static class Acceptance
 {
-    public static LedgerEntry Accept(CheckReport report, string by, string why, DateTimeOffset now)
+    public static LedgerEntry Accept(RunResult report, string by, string why, DateTimeOffset now)
     {
         var contract = report.Contract;
         if (string.IsNullOrWhiteSpace(why) || why.Any(char.IsControl))
@@ -41,7 +41,7 @@ internal static class Acceptance
     }
 
     /// <summary>One line per check: subject, check, estimate, upper bound, adjusted p-value, verdict (round-trip numbers).</summary>
-    internal static string ResultsText(CheckReport report)
+    internal static string ResultsText(RunResult report)
     {
         var b = new StringBuilder();
         foreach (var o in report.Outcomes)

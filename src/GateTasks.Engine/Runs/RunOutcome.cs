@@ -1,7 +1,7 @@
 namespace GateTasks.Engine.Runs;
 
 /// <summary>
-/// How one run of a contract ended, decided in one place (<see cref="CheckReport.Outcome"/>) so that the console, every
+/// How one run of a contract ended, decided in one place (<see cref="RunResult.Outcome"/>) so that the console, every
 /// report and the exit code say the same: a run whose checks pass while the ledger does not hold is not a pass.
 /// </summary>
 internal enum RunOutcome

@@ -24,7 +24,7 @@ internal sealed class SampleStream
 
     private readonly Sample _sample;
     private readonly ReadPass _pass;
-    private readonly FeatureInputs _inputs;
+    private readonly FeatureSources _inputs;
     private readonly string? _weightColumn;
     private readonly Dictionary<string, int> _index;
     private readonly int _weightIndex;
@@ -50,7 +50,7 @@ internal sealed class SampleStream
     private readonly Statistics.ExactSum _sumW = new();
     private readonly Statistics.ExactSum _sumW2 = new();
 
-    private SampleStream(Sample sample, FeatureInputs inputs, string? weightColumn, ReadPass pass)
+    private SampleStream(Sample sample, FeatureSources inputs, string? weightColumn, ReadPass pass)
     {
         _sample = sample;
         _pass = pass;
@@ -80,7 +80,7 @@ internal sealed class SampleStream
     /// may be visited side by side), then the whole batch to <paramref name="afterEachBatch"/>; <paramref name="settings"/>
     /// names the pass, its progress and its threads.
     /// </summary>
-    public static SampleTotals Run(Sample sample, FeatureInputs inputs, string? weightColumn, FeatureBatch visit, Action<FeatureView>? afterEachBatch = null,
+    public static SampleTotals Run(Sample sample, FeatureSources inputs, string? weightColumn, FeatureBatch visit, Action<FeatureView>? afterEachBatch = null,
         ReadPass? settings = null)
     {
         var pass = new SampleStream(sample, inputs, weightColumn, settings ?? ReadPass.Default);

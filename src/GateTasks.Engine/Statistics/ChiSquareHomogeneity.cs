@@ -13,9 +13,9 @@ internal static class ChiSquareHomogeneity
     /// <summary>Two unweighted histograms: X² = (1/(MN)) Σ (M n_i − N m_i)²/(n_i + m_i).</summary>
     internal static ChiSquareResult Unweighted(ReadOnlySpan<double> n, ReadOnlySpan<double> m)
     {
-        SampleChecks.RequireSameLength(n.Length, m.Length, nameof(n), nameof(m));
-        double bigN = SampleChecks.RequireContents(n, nameof(n));
-        double bigM = SampleChecks.RequireContents(m, nameof(m));
+        KernelPreconditions.RequireSameLength(n.Length, m.Length, nameof(n), nameof(m));
+        double bigN = KernelPreconditions.RequireContents(n, nameof(n));
+        double bigM = KernelPreconditions.RequireContents(m, nameof(m));
         double sum = 0;
         int used = 0;
         for (int i = 0; i < n.Length; i++)
@@ -37,11 +37,11 @@ internal static class ChiSquareHomogeneity
     internal static ChiSquareResult Weighted(ReadOnlySpan<double> w1, ReadOnlySpan<double> s1Sq,
         ReadOnlySpan<double> w2, ReadOnlySpan<double> s2Sq)
     {
-        SampleChecks.RequireSameLength(w1.Length, s1Sq.Length, nameof(w1), nameof(s1Sq));
-        SampleChecks.RequireSameLength(w1.Length, w2.Length, nameof(w1), nameof(w2));
-        SampleChecks.RequireSameLength(w2.Length, s2Sq.Length, nameof(w2), nameof(s2Sq));
-        double bigW1 = SampleChecks.RequireContents(w1, nameof(w1));
-        double bigW2 = SampleChecks.RequireContents(w2, nameof(w2));
+        KernelPreconditions.RequireSameLength(w1.Length, s1Sq.Length, nameof(w1), nameof(s1Sq));
+        KernelPreconditions.RequireSameLength(w1.Length, w2.Length, nameof(w1), nameof(w2));
+        KernelPreconditions.RequireSameLength(w2.Length, s2Sq.Length, nameof(w2), nameof(s2Sq));
+        double bigW1 = KernelPreconditions.RequireContents(w1, nameof(w1));
+        double bigW2 = KernelPreconditions.RequireContents(w2, nameof(w2));
         RequireVariances(s1Sq, nameof(s1Sq));
         RequireVariances(s2Sq, nameof(s2Sq));
         double sum = 0;
@@ -70,10 +70,10 @@ internal static class ChiSquareHomogeneity
     /// </summary>
     internal static ChiSquareResult UnweightedWeighted(ReadOnlySpan<double> n, ReadOnlySpan<double> w, ReadOnlySpan<double> sSq)
     {
-        SampleChecks.RequireSameLength(n.Length, w.Length, nameof(n), nameof(w));
-        SampleChecks.RequireSameLength(w.Length, sSq.Length, nameof(w), nameof(sSq));
-        double bigN = SampleChecks.RequireContents(n, nameof(n));
-        double bigW = SampleChecks.RequireContents(w, nameof(w));
+        KernelPreconditions.RequireSameLength(n.Length, w.Length, nameof(n), nameof(w));
+        KernelPreconditions.RequireSameLength(w.Length, sSq.Length, nameof(w), nameof(sSq));
+        double bigN = KernelPreconditions.RequireContents(n, nameof(n));
+        double bigW = KernelPreconditions.RequireContents(w, nameof(w));
         RequireVariances(sSq, nameof(sSq));
         double totalVariance = 0;
         foreach (double v in sSq) totalVariance += v;

@@ -187,7 +187,7 @@ internal static class EnergyDistance
             double[] row = rows[i] ?? throw new ArgumentException($"{what}[{i}] is null.", what);
             if (row.Length != width)
                 throw new ArgumentException($"{what}[{i}] has {row.Length} features; expected {width}.", what);
-            SampleChecks.RequireFinite(row, $"{what}[{i}]");
+            KernelPreconditions.RequireFinite(row, $"{what}[{i}]");
         }
         return width;
     }

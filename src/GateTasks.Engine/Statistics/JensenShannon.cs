@@ -13,11 +13,11 @@ internal static class JensenShannon
     /// </summary>
     internal static double Divergence(ReadOnlySpan<double> p, ReadOnlySpan<double> q, double logBase = Math.E)
     {
-        SampleChecks.RequireSameLength(p.Length, q.Length, nameof(p), nameof(q));
+        KernelPreconditions.RequireSameLength(p.Length, q.Length, nameof(p), nameof(q));
         if (!(logBase > 0) || logBase == 1 || double.IsInfinity(logBase))
             throw new ArgumentOutOfRangeException(nameof(logBase), "The log base must be positive, finite and not 1.");
-        double tp = SampleChecks.RequireContents(p, nameof(p));
-        double tq = SampleChecks.RequireContents(q, nameof(q));
+        double tp = KernelPreconditions.RequireContents(p, nameof(p));
+        double tq = KernelPreconditions.RequireContents(q, nameof(q));
         double sum = 0;
         for (int i = 0; i < p.Length; i++)
         {

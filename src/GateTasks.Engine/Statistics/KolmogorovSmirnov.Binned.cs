@@ -13,9 +13,9 @@ internal static partial class KolmogorovSmirnov
     /// </summary>
     internal static double BinnedDistance(ReadOnlySpan<double> sumW1, ReadOnlySpan<double> sumW2)
     {
-        SampleChecks.RequireSameLength(sumW1.Length, sumW2.Length, nameof(sumW1), nameof(sumW2));
-        double t1 = SampleChecks.RequireContents(sumW1, nameof(sumW1));
-        double t2 = SampleChecks.RequireContents(sumW2, nameof(sumW2));
+        KernelPreconditions.RequireSameLength(sumW1.Length, sumW2.Length, nameof(sumW1), nameof(sumW2));
+        double t1 = KernelPreconditions.RequireContents(sumW1, nameof(sumW1));
+        double t2 = KernelPreconditions.RequireContents(sumW2, nameof(sumW2));
         double c1 = 0, c2 = 0, d = 0;
         for (int i = 0; i < sumW1.Length; i++)
         {

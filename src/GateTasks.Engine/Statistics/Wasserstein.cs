@@ -14,17 +14,17 @@ internal static class Wasserstein
     /// </summary>
     internal static double Histograms(ReadOnlySpan<double> edges, ReadOnlySpan<double> a, ReadOnlySpan<double> b)
     {
-        SampleChecks.RequireSameLength(a.Length, b.Length, nameof(a), nameof(b));
+        KernelPreconditions.RequireSameLength(a.Length, b.Length, nameof(a), nameof(b));
         if (edges.Length != a.Length + 1)
             throw new ArgumentException($"{a.Length} bins need {a.Length + 1} edges, got {edges.Length}.", nameof(edges));
-        SampleChecks.RequireFinite(edges, nameof(edges));
+        KernelPreconditions.RequireFinite(edges, nameof(edges));
         for (int i = 1; i < edges.Length; i++)
         {
             if (!(edges[i] > edges[i - 1]))
                 throw new ArgumentException($"Bin edges must increase strictly (edges[{i}]).", nameof(edges));
         }
-        double ta = SampleChecks.RequireContents(a, nameof(a));
-        double tb = SampleChecks.RequireContents(b, nameof(b));
+        double ta = KernelPreconditions.RequireContents(a, nameof(a));
+        double tb = KernelPreconditions.RequireContents(b, nameof(b));
         double ca = 0, cb = 0, area = 0;
         for (int i = 0; i < a.Length; i++)
         {

@@ -60,7 +60,7 @@ public sealed class ContractCheckTests : IDisposable
         var sample = WriteCsv("surrogate.csv", 20_000, 2, 0);
         AppendRows(sample, "nan", "inf", "-inf", "inf");
 
-        var error = Assert.Throws<GateInputException>(() => ContractCheck.Run(contract));
+        var error = Assert.Throws<GateInputException>(() => ContractRun.Run(contract));
 
         Assert.Equal(ErrorCodes.SampleNonFinite, error.Code);
         Assert.Equal(contract.Features[0].Location, error.Location); // the feature's name in the contract
@@ -78,7 +78,7 @@ public sealed class ContractCheckTests : IDisposable
         var sample = WriteCsv("surrogate.csv", 20_000, 2, 0);
         AppendRows(sample, "nan", "inf", "-inf");
 
-        var report = ContractCheck.Run(contract);
+        var report = ContractRun.Run(contract);
 
         Assert.True(report.Passed, string.Join("\n", report.Outcomes.Select(o => o.Summary)));
         var summary = report.Comparisons[0].SurrogateSummary;
@@ -105,14 +105,14 @@ public sealed class ContractCheckTests : IDisposable
     {
         var contract = Setup();
         WriteCsv("surrogate.csv", 20_000, 2, 0);
-        var pass = ContractCheck.Run(contract);
+        var pass = ContractRun.Run(contract);
         Assert.True(pass.Passed, string.Join("\n", pass.Outcomes.Select(o => o.Summary)));
         Assert.Equal(20_000, pass.Events);
         Assert.Equal(4, pass.Outcomes.Count);
 
         // A shift of 0.2σ moves about 8% of the probability across the median: far outside 3% KS distance.
         var shifted = WriteCsv("shifted.csv", 20_000, 3, 0.2);
-        var fail = ContractCheck.Run(contract, shifted);
+        var fail = ContractRun.Run(contract, shifted);
         Assert.False(fail.Passed);
         var ks = fail.Outcomes.Single(o => o.Check.Kind == CheckKind.KolmogorovSmirnov);
         Assert.Equal(Verdict.Fail, ks.Verdict);
@@ -125,7 +125,7 @@ public sealed class ContractCheckTests : IDisposable
     {
         var contract = Setup();
         var small = WriteCsv("small.csv", 2000, 4, 0);
-        var report = ContractCheck.Run(contract, small);
+        var report = ContractRun.Run(contract, small);
         Assert.Equal(0, report.Failures);
         Assert.False(report.Passed); // inconclusive fails by default
         var undecided = report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive).ToList();
@@ -140,7 +140,7 @@ public sealed class ContractCheckTests : IDisposable
         if (ks is not null)
         {
             var bigger = WriteCsv("bigger.csv", (int)Math.Min(2 * ks.Measured.EventsNeeded, 400_000), 5, 0);
-            var again = ContractCheck.Run(contract, bigger);
+            var again = ContractRun.Run(contract, bigger);
             Assert.Equal(Verdict.Pass, again.Outcomes.Single(o => o.Check.Kind == CheckKind.KolmogorovSmirnov).Verdict);
         }
     }
@@ -149,7 +149,7 @@ public sealed class ContractCheckTests : IDisposable
     public void Inconclusive_can_be_set_to_warn()
     {
         var contract = Setup(ContractText.Replace("defaults:", "decision: { inconclusive: warn }\ndefaults:"));
-        var report = ContractCheck.Run(contract, WriteCsv("small.csv", 2000, 4, 0));
+        var report = ContractRun.Run(contract, WriteCsv("small.csv", 2000, 4, 0));
         Assert.True(report.Inconclusive > 0);
         Assert.True(report.Passed);
     }
@@ -163,7 +163,7 @@ public sealed class ContractCheckTests : IDisposable
         var normal = new Normal(0, 1, new Xoshiro256StarStar(8));
         File.WriteAllLines(Path.Combine(_dir, "surrogate.csv"), new[] { "x,w" }.Concat(Enumerable.Range(0, 20_000)
             .Select(i => string.Create(CultureInfo.InvariantCulture, $"{normal.Sample():R},{(i % 10 == 0 ? -0.2 : 1.0)}"))));
-        var report = ContractCheck.Run(contract);
+        var report = ContractRun.Run(contract);
         // Kish (1965): n_eff = (Σw)²/Σw² = (18000 − 400)²/(18000 + 80) = 17132.7 (hand-computed).
         Assert.Equal(17132.7, report.EffectiveEvents, 1);
         Assert.All(report.Outcomes.Where(o => o.Check.Kind != CheckKind.JensenShannon), o => Assert.True(double.IsFinite(o.Value), o.Summary));
@@ -204,12 +204,12 @@ public sealed class ContractCheckTests : IDisposable
         Assert.Equal(reference.Find("x")!.Spike, ReferenceFile.Read(contract.ReferenceFullPath).Find("x")!.Spike);
 
         Csv("surrogate.csv", 60_000, 2, 0.35); // 5 points too many zeros, the non-zero part faithful
-        var report = ContractCheck.Run(contract);
+        var report = ContractRun.Run(contract);
         Assert.Equal(Verdict.Fail, report.Outcomes.Single(o => o.Check.Kind == CheckKind.Fraction).Verdict);
         Assert.All(report.Outcomes.Where(o => o.Check.Kind != CheckKind.Fraction), o => Assert.Equal(Verdict.Pass, o.Verdict));
 
         Csv("surrogate.csv", 60_000, 3, 0.30);
-        Assert.True(ContractCheck.Run(contract).Passed);
+        Assert.True(ContractRun.Run(contract).Passed);
     }
 
     [Fact]
@@ -262,7 +262,7 @@ public sealed class ContractCheckTests : IDisposable
 
         var (sx, sy) = Draw(50_000, 2);
         Write("surrogate.csv", sx, sy);
-        var faithful = ContractCheck.Run(contract);
+        var faithful = ContractRun.Run(contract);
         Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
         // Each outcome names what it was made on, at its declaration in the contract above (the program against its own
         // contract): the features, the pair (its entry, line 13), the joint block (its mapping, line 18).
@@ -277,7 +277,7 @@ public sealed class ContractCheckTests : IDisposable
         // Same marginals, joint structure destroyed: y shuffled against x.
         var shuffled = sy.OrderBy(v => BitConverter.DoubleToInt64Bits(v) * 2654435761L).ToArray();
         Write("surrogate.csv", sx, shuffled);
-        var broken = ContractCheck.Run(contract);
+        var broken = ContractRun.Run(contract);
         Assert.Contains(broken.Outcomes, o => o.Check.Kind == CheckKind.EnergyTest);
         Assert.Contains(broken.Outcomes, o => o.Check.Kind == CheckKind.ChiSquare2DTest);
         foreach (var o in broken.Outcomes)
@@ -327,12 +327,12 @@ public sealed class ContractCheckTests : IDisposable
         ReferenceFile.Write(contract.ReferenceFullPath, reference);
 
         PairsCsv("surrogate.csv", 30_000, 2);
-        var report = ContractCheck.Run(contract);
+        var report = ContractRun.Run(contract);
         Assert.True(report.Passed, string.Join("\n", report.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
 
         // A changed expression is a changed feature: the reference no longer fits.
         File.WriteAllText(contractPath, DerivedContract.Replace("cos(phi1 - phi2)", "cos(phi2 - phi1) * 1.0"));
-        Assert.Equal(ErrorCodes.ReferenceMismatch, Assert.Throws<GateInputException>(() => ContractCheck.Run(ContractLoader.Load(contractPath))).Code);
+        Assert.Equal(ErrorCodes.ReferenceMismatch, Assert.Throws<GateInputException>(() => ContractRun.Run(ContractLoader.Load(contractPath))).Code);
     }
 
     [Fact]
@@ -341,14 +341,14 @@ public sealed class ContractCheckTests : IDisposable
         var contractPath = Path.Combine(_dir, "precision-contract.yaml");
         File.WriteAllText(contractPath, DerivedContract.Replace("sqrt(2*pt1", "sqrtt(2*pt1"));
         PairsCsv("surrogate.csv", 100, 2);
-        var e = Assert.Throws<GateInputException>(() => ContractCheck.Run(ContractLoader.Load(contractPath)));
+        var e = Assert.Throws<GateInputException>(() => ContractRun.Run(ContractLoader.Load(contractPath)));
         Assert.Equal(ErrorCodes.ContractExpression, e.Code);
         Assert.Equal(10, e.Location!.Line);
         Assert.Equal(17, e.Location.Column); // "    expression: " is 16 characters; the unknown function starts right after
         Assert.Contains("sqrt", e.Message);
 
         File.WriteAllText(contractPath, DerivedContract.Replace("\"n >= 1\"", "\"n >= 1 and ptt > 3\""));
-        var c = Assert.Throws<GateInputException>(() => ContractCheck.Run(ContractLoader.Load(contractPath)));
+        var c = Assert.Throws<GateInputException>(() => ContractRun.Run(ContractLoader.Load(contractPath)));
         Assert.Equal(ErrorCodes.ContractExpression, c.Code);
         Assert.Equal(new SourceLocation(contractPath, 4, 24), c.Location); // 'selection: "' is 12 characters, 'n >= 1 and ' 11 more
         Assert.Contains("pt1", c.Message);
@@ -361,13 +361,13 @@ public sealed class ContractCheckTests : IDisposable
         Assert.NotNull(ReferenceFile.Read(contract.ReferenceFullPath).Find("x")!.FarTail);
         // 40 000 reference events: 40 ± 6 beyond each 0.1% quantile (binomial, by construction).
         WriteCsv("surrogate.csv", 40_000, 2, 0);
-        Assert.Equal(Verdict.Pass, ContractCheck.Run(contract).Outcomes.Single(o => o.Check.Kind == CheckKind.FarTail).Verdict);
+        Assert.Equal(Verdict.Pass, ContractRun.Run(contract).Outcomes.Single(o => o.Check.Kind == CheckKind.FarTail).Verdict);
 
         // The same sample with 0.4% of its events moved far out (x → 5): four times the reference's upper far tail.
         var lines = File.ReadAllLines(Path.Combine(_dir, "surrogate.csv"));
         for (var i = 1; i < lines.Length; i += 250) lines[i] = "5";
         File.WriteAllLines(Path.Combine(_dir, "surrogate.csv"), lines);
-        var far = ContractCheck.Run(contract).Outcomes.Single(o => o.Check.Kind == CheckKind.FarTail);
+        var far = ContractRun.Run(contract).Outcomes.Single(o => o.Check.Kind == CheckKind.FarTail);
         Assert.Equal(Verdict.Fail, far.Verdict);
         Assert.True(far.Value > 0.002, far.Summary);
     }
@@ -415,18 +415,18 @@ public sealed class ContractCheckTests : IDisposable
         Assert.Equal(0.2169, reference.Find("x[category=2]")!.Histogram.TotalSumW / reference.Events, 2);
 
         Write("surrogate.csv", 60_000, 2, 1.2, 0);
-        var faithful = ContractCheck.Run(contract);
+        var faithful = ContractRun.Run(contract);
         Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
 
         Write("surrogate.csv", 60_000, 3, 1.2, 0.3); // category 2 shifted by 0.3σ
-        var shifted = ContractCheck.Run(contract);
+        var shifted = ContractRun.Run(contract);
         Assert.All(shifted.Outcomes, o => Assert.True(
             o.Subject.Name == "x[category=2]" ? o.Verdict == Verdict.Fail : o.Verdict != Verdict.Fail || o.Subject.Name == "x",
             $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}"));
         Assert.Contains(shifted.Outcomes, o => o.Subject.Name == "x[category=2]" && o.Verdict == Verdict.Fail);
 
         Write("surrogate.csv", 60_000, 4, 1.5, 0); // more objects per event: the category fractions move
-        var fractions = ContractCheck.Run(contract);
+        var fractions = ContractRun.Run(contract);
         Assert.Equal(Verdict.Fail, fractions.Outcomes.Single(o => o.Subject.Name == "x[category]").Verdict);
     }
 
@@ -469,7 +469,7 @@ public sealed class ContractCheckTests : IDisposable
         ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [Path.Combine(_dir, "full.csv")], null, "test"));
 
         Write("surrogate.csv", 200_000, 2, 1.05); // 5% worse resolution in 75–100 GeV only
-        var report = ContractCheck.Run(contract);
+        var report = ContractRun.Run(contract);
         var failed = report.Outcomes.Where(o => o.Verdict == Verdict.Fail).Select(o => $"{o.Subject.Name} {o.Check.Label}").ToList();
         Assert.Contains("response[category=3] width-ratio-max", failed);
         // The interquartile width sees the same 5% (it is robust, not blind), but with 37% of σ's efficiency it cannot
@@ -523,11 +523,11 @@ public sealed class ContractCheckTests : IDisposable
         ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [Path.Combine(_dir, "truth.csv")], null, "test"));
 
         Write("unfolded.csv", 200_000, 2, 1);
-        var closed = ContractCheck.Run(contract);
+        var closed = ContractRun.Run(contract);
         Assert.True(closed.Passed, string.Join("\n", closed.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
 
         Write("unfolded.csv", 200_000, 3, 1.03); // 3% high in 40–60 GeV of reco p_T only
-        var open = ContractCheck.Run(contract);
+        var open = ContractRun.Run(contract);
         var failed = open.Outcomes.Where(o => o.Verdict == Verdict.Fail).Select(o => $"{o.Subject.Name} {o.Check.Label}").ToList();
         Assert.Contains("pt_true[category=2] mean-shift-max", failed);
         Assert.All(open.Outcomes.Where(o => o.Subject.Name.StartsWith("pt_true[category=") && !o.Subject.Name.EndsWith("=2]")),
@@ -540,7 +540,7 @@ public sealed class ContractCheckTests : IDisposable
         var contract = Setup(ContractText.Replace("sample: surrogate.csv", "sample: { path: surrogate.csv, weight: w }"));
         File.WriteAllLines(Path.Combine(_dir, "surrogate.csv"), new[] { "x,w" }.Concat(Enumerable.Range(0, 100)
             .Select(i => string.Create(CultureInfo.InvariantCulture, $"{i * 0.01:R},1e200"))));
-        var e = Assert.Throws<GateInputException>(() => ContractCheck.Run(contract));
+        var e = Assert.Throws<GateInputException>(() => ContractRun.Run(contract));
         Assert.Equal(ErrorCodes.SampleBadWeight, e.Code);
         Assert.Contains("rescale", e.Message);
     }
@@ -549,7 +549,7 @@ public sealed class ContractCheckTests : IDisposable
     public void A_missing_sample_is_reported_at_the_contract_line_that_names_it()
     {
         var contract = Setup();
-        var e = Assert.Throws<GateInputException>(() => ContractCheck.Run(contract));
+        var e = Assert.Throws<GateInputException>(() => ContractRun.Run(contract));
         Assert.Equal(ErrorCodes.SampleNotFound, e.Code);
         Assert.Equal(new SourceLocation(contract.FilePath, 3, 9), e.Location);
     }
@@ -561,7 +561,7 @@ public sealed class ContractCheckTests : IDisposable
         WriteCsv("surrogate.csv", 1000, 2, 0);
         var path = Path.Combine(_dir, "precision-contract.yaml");
         File.WriteAllText(path, ContractText.Replace("bins: 10", "bins: 12"));
-        var e = Assert.Throws<GateInputException>(() => ContractCheck.Run(ContractLoader.Load(path)));
+        var e = Assert.Throws<GateInputException>(() => ContractRun.Run(ContractLoader.Load(path)));
         Assert.Equal(ErrorCodes.ReferenceMismatch, e.Code);
         Assert.Equal(6, e.Location!.Line);
         Assert.Contains("quantile:10", e.Message);
@@ -573,7 +573,7 @@ public sealed class ContractCheckTests : IDisposable
         var contract = Setup();
         WriteCsv("surrogate.csv", 1000, 2, 0);
         File.Delete(contract.ReferenceFullPath);
-        var e = Assert.Throws<GateInputException>(() => ContractCheck.Run(contract));
+        var e = Assert.Throws<GateInputException>(() => ContractRun.Run(contract));
         Assert.Equal(ErrorCodes.ReferenceNotFound, e.Code);
         Assert.Equal(new SourceLocation(contract.FilePath, 4, 12), e.Location);
     }

@@ -29,7 +29,7 @@ public sealed class ParallelismTests : IDisposable
         // Row groups of 90 000 rows: each is handed on in two batches, the second one partial.
         DemoSampleWriter.Write(Path.Combine(_dir, "surrogate.parquet"), DemoScenarioParameters.Drifted, 200_000, 22, 90_000);
 
-        var reports = new[] { 1, 2, 3 }.Select(t => ContractCheck.Run(contract, parallelism: t)).ToList();
+        var reports = new[] { 1, 2, 3 }.Select(t => ContractRun.Run(contract, parallelism: t)).ToList();
 
         var one = reports[0];
         Assert.True(one.Failures > 0); // the drifted sample: failures and passes both take part

@@ -38,13 +38,13 @@ public sealed class ShardMergeTests : IDisposable
             return path;
         }).ToList();
 
-        var whole = ContractCheck.Run(contract);
+        var whole = ContractRun.Run(contract);
 
         var setup = MatchedReference.Load(contract);
-        var parts = shards.Select(s => ContractCheck.Accumulate(setup, ContractCheck.OpenSample(contract, [s]))).ToList();
+        var parts = shards.Select(s => ContractRun.Accumulate(setup, ContractRun.OpenSample(contract, [s]))).ToList();
         var merged = parts[2];
         foreach (var k in new[] { 0, 3, 1 }) merged.Merge(parts[k]);
-        var fanned = ContractCheck.Decide(setup, merged.Finish(), shards, DateTimeOffset.UtcNow, Stopwatch.StartNew());
+        var fanned = ContractRun.Decide(setup, merged.Finish(), shards, DateTimeOffset.UtcNow, Stopwatch.StartNew());
 
         Assert.Equal(whole.Events, fanned.Events);
         Assert.Equal(whole.SumW, fanned.SumW); // exact sums: the same bits

@@ -59,15 +59,15 @@ public sealed class LedgerGuardTests : IDisposable
     }
 
     /// <summary>The accepted starting point: contract, reference, a faithful sample and entry 1.</summary>
-    private CheckReport Start(string text = ContractText)
+    private RunResult Start(string text = ContractText)
     {
         Contract(text);
         BuildReference(1);
         WriteCsv("surrogate.csv", 20_000, 2, 0);
-        var report = ContractCheck.Run(ContractLoader.Load(ContractPath));
+        var report = ContractRun.Run(ContractLoader.Load(ContractPath));
         Assert.True(report.Passed);
         Acceptance.Accept(report, "Ada Analyst <ada@example.org>", "first accepted tolerances", When);
-        return ContractCheck.Run(ContractLoader.Load(ContractPath));
+        return ContractRun.Run(ContractLoader.Load(ContractPath));
     }
 
     [Fact]
@@ -76,14 +76,14 @@ public sealed class LedgerGuardTests : IDisposable
         Contract(ContractText);
         BuildReference(1);
         WriteCsv("surrogate.csv", 20_000, 2, 0);
-        var f = Assert.Single(ContractCheck.Run(ContractLoader.Load(ContractPath)).Acceptance);
+        var f = Assert.Single(ContractRun.Run(ContractLoader.Load(ContractPath)).Acceptance);
         Assert.Equal(ErrorCodes.LedgerMissing, f.Code);
         Assert.False(f.IsError);
         Assert.Contains("gatetasks accept --contract", f.Message);
 
         var required = ContractText.Replace("defaults:", "acceptance: { required: on }\ndefaults:");
         Contract(required);
-        Assert.True(Assert.Single(ContractCheck.Run(ContractLoader.Load(ContractPath)).Acceptance).IsError);
+        Assert.True(Assert.Single(ContractRun.Run(ContractLoader.Load(ContractPath)).Acceptance).IsError);
     }
 
     [Fact]
@@ -101,7 +101,7 @@ public sealed class LedgerGuardTests : IDisposable
         Assert.Equal(LedgerFile.FirstAfter, e.After);
 
         Contract(ContractText.Replace("ks-max: 0.03", "ks-max: 0.05"));
-        var loosened = ContractCheck.Run(ContractLoader.Load(ContractPath));
+        var loosened = ContractRun.Run(ContractLoader.Load(ContractPath));
         Assert.True(loosened.Passed);
         var f = Assert.Single(loosened.Acceptance);
         Assert.Equal(ErrorCodes.LedgerUnrecordedLoosening, f.Code);
@@ -110,7 +110,7 @@ public sealed class LedgerGuardTests : IDisposable
         Assert.Contains($"gatetasks accept --contract {ContractPath} --reason", f.Message);
 
         Acceptance.Accept(loosened, "Ada Analyst <ada@example.org>", "KS loosened after review", When.AddDays(1));
-        Assert.True(ContractCheck.Run(ContractLoader.Load(ContractPath)).AcceptanceHolds);
+        Assert.True(ContractRun.Run(ContractLoader.Load(ContractPath)).AcceptanceHolds);
         Assert.Equal(2, LedgerFile.Read(LedgerPath).Count);
     }
 
@@ -119,16 +119,16 @@ public sealed class LedgerGuardTests : IDisposable
     {
         Start();
         Contract(ContractText.Replace("ks-max: 0.03", "ks-max: 0.025"));
-        Assert.Empty(ContractCheck.Run(ContractLoader.Load(ContractPath)).Acceptance);
+        Assert.Empty(ContractRun.Run(ContractLoader.Load(ContractPath)).Acceptance);
 
         Start(ContractText.Replace("defaults:", "acceptance: { tightening: record }\ndefaults:"));
         Contract(ContractText.Replace("defaults:", "acceptance: { tightening: record }\ndefaults:").Replace("ks-max: 0.03", "ks-max: 0.025"));
-        Assert.Equal(ErrorCodes.LedgerUnrecordedTightening, Assert.Single(ContractCheck.Run(ContractLoader.Load(ContractPath)).Acceptance).Code);
+        Assert.Equal(ErrorCodes.LedgerUnrecordedTightening, Assert.Single(ContractRun.Run(ContractLoader.Load(ContractPath)).Acceptance).Code);
 
         File.Delete(LedgerPath);
         Start();
         Contract(ContractText.Replace("      chi2-test: on", "      chi2-test: off"));
-        var removed = Assert.Single(ContractCheck.Run(ContractLoader.Load(ContractPath)).Acceptance);
+        var removed = Assert.Single(ContractRun.Run(ContractLoader.Load(ContractPath)).Acceptance);
         Assert.Equal(ErrorCodes.LedgerUnrecordedLoosening, removed.Code);
         Assert.Contains("x chi2-test (was on) was removed", removed.Message);
         Assert.Equal(LedgerPath, removed.Location!.File); // the removed check is shown where it was accepted
@@ -139,13 +139,13 @@ public sealed class LedgerGuardTests : IDisposable
     {
         Start();
         Contract(ContractText.Replace("defaults:", "decision: { confidence: 0.9 }\ndefaults:"));
-        var f = Assert.Single(ContractCheck.Run(ContractLoader.Load(ContractPath)).Acceptance);
+        var f = Assert.Single(ContractRun.Run(ContractLoader.Load(ContractPath)).Acceptance);
         Assert.Equal(ErrorCodes.LedgerUnrecordedLoosening, f.Code);
         Assert.Contains("decision confidence changed from 0.95 to 0.9", f.Message);
 
         Contract(ContractText);
         BuildReference(7); // another full-simulation sample: another reference
-        var r = Assert.Single(ContractCheck.Run(ContractLoader.Load(ContractPath)).Acceptance);
+        var r = Assert.Single(ContractRun.Run(ContractLoader.Load(ContractPath)).Acceptance);
         Assert.Equal(ErrorCodes.LedgerUnrecordedReference, r.Code);
         Assert.Equal(4, r.Location!.Line); // the contract's reference line
     }
@@ -159,7 +159,7 @@ public sealed class LedgerGuardTests : IDisposable
         LedgerFinding Tampered(string[] lines)
         {
             File.WriteAllLines(LedgerPath, lines);
-            var f = Assert.Single(ContractCheck.Run(ContractLoader.Load(ContractPath)).Acceptance);
+            var f = Assert.Single(ContractRun.Run(ContractLoader.Load(ContractPath)).Acceptance);
             Assert.Equal(ErrorCodes.LedgerTampered, f.Code);
             Assert.True(f.IsError);
             return f;
@@ -177,7 +177,7 @@ public sealed class LedgerGuardTests : IDisposable
         Assert.Contains("reordered", Tampered([.. header, .. entry2, "", .. entry1]).Message);
 
         File.WriteAllLines(LedgerPath, original);
-        Assert.Empty(ContractCheck.Run(ContractLoader.Load(ContractPath)).Acceptance);
+        Assert.Empty(ContractRun.Run(ContractLoader.Load(ContractPath)).Acceptance);
     }
 
     [Fact]
@@ -186,7 +186,7 @@ public sealed class LedgerGuardTests : IDisposable
         Contract(ContractText);
         BuildReference(1);
         WriteCsv("surrogate.csv", 20_000, 2, 0.3);
-        var report = ContractCheck.Run(ContractLoader.Load(ContractPath));
+        var report = ContractRun.Run(ContractLoader.Load(ContractPath));
         Assert.False(report.Passed);
         var e = Assert.Throws<GateInputException>(() => Acceptance.Accept(report, "Ada", "try", When));
         Assert.Equal(ErrorCodes.AcceptRefused, e.Code);
@@ -202,14 +202,14 @@ public sealed class LedgerGuardTests : IDisposable
         // 2·10⁵ events) but its point margin falls by about 0.6, against an allowance of
         // 1.645·√(0.174² + 0.11²) ≈ 0.34 (σ of the shift √(1/40000 + 1/n) over the tolerance, by hand).
         WriteCsv("surrogate.csv", 200_000, 3, 0.035);
-        var degraded = ContractCheck.Run(ContractLoader.Load(ContractPath));
+        var degraded = ContractRun.Run(ContractLoader.Load(ContractPath));
         // The mean shift itself still passes (the χ² test of course sees a shift at 2·10⁵ events).
         Assert.Equal(Verdict.Pass, degraded.Outcomes.Single(o => o.Check.Kind == CheckKind.MeanShift).Verdict);
         var ratchet = degraded.Acceptance.Where(f => f.Code == ErrorCodes.RatchetDegraded).ToList();
         Assert.Contains(ratchet, f => f.Message.StartsWith("x mean-shift-max: point margin"));
 
         WriteCsv("surrogate.csv", 20_000, 4, 0);
-        Assert.DoesNotContain(ContractCheck.Run(ContractLoader.Load(ContractPath)).Acceptance, f => f.Code == ErrorCodes.RatchetDegraded);
+        Assert.DoesNotContain(ContractRun.Run(ContractLoader.Load(ContractPath)).Acceptance, f => f.Code == ErrorCodes.RatchetDegraded);
     }
 
     [Fact]

@@ -74,7 +74,7 @@ public sealed class PlanStudyTests : IDisposable
             var (contract, _) = Setup($"{name}-{t}", 1000 + t);
             var sample = Path.Combine(contract.Directory, "sample.csv");
             Draw(sample, 5000 + t, n, scale);
-            results[t] = ContractCheck.Run(contract, sample).Outcomes;
+            results[t] = ContractRun.Run(contract, sample).Outcomes;
         });
         return [.. results];
     }

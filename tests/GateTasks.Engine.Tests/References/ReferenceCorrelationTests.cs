@@ -67,7 +67,7 @@ public sealed class ReferenceCorrelationTests : IDisposable
 
         // The sample side streams the same way: the same data as sample gives no difference at all.
         ReferenceFile.Write(contract.ReferenceFullPath, reference);
-        var report = ContractCheck.Run(contract);
+        var report = ContractRun.Run(contract);
         Assert.All(report.Outcomes.Where(o => o.Check.Kind is CheckKind.PearsonDifference or CheckKind.SpearmanDifference),
             o => Assert.Equal(0, o.Measured.Estimate, 12));
     }

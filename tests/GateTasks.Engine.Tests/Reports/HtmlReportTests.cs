@@ -14,8 +14,8 @@ public sealed class HtmlReportTests(ReportCase run) : IClassFixture<ReportCase>
         "<section class=\"subject [a-z]+\" id=\"(?<id>[^\"]+)\" data-verdict=\"(?<verdict>[a-z]+)\" data-feature=\"(?<name>[^\"]+)\">(?<body>.*?)</section>",
         RegexOptions.Singleline);
 
-    private CheckReport Shifted => _shifted ??= run.Run(30_000, 3, 0.3);
-    private CheckReport? _shifted;
+    private RunResult Shifted => _shifted ??= run.Run(30_000, 3, 0.3);
+    private RunResult? _shifted;
 
     private static List<(string Name, string Verdict, string Body)> Sections(string html) =>
         SectionPattern.Matches(html).Select(m => (System.Net.WebUtility.HtmlDecode(m.Groups["name"].Value), m.Groups["verdict"].Value, m.Groups["body"].Value)).ToList();

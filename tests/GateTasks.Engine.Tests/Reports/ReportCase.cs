@@ -54,8 +54,8 @@ public sealed class ReportCase : IDisposable
     public string Folder => _dir;
 
     /// <summary>Checks a sample of <paramref name="rows"/> events whose x is shifted by <paramref name="shift"/> (in σ).</summary>
-    internal CheckReport Run(int rows, int seed, double shift) =>
-        ContractCheck.Run(Contract, Write($"sample-{seed}-{shift.ToString(CultureInfo.InvariantCulture)}.csv", rows, seed, shift));
+    internal RunResult Run(int rows, int seed, double shift) =>
+        ContractRun.Run(Contract, Write($"sample-{seed}-{shift.ToString(CultureInfo.InvariantCulture)}.csv", rows, seed, shift));
 
     private string Write(string name, int rows, int seed, double shift)
     {

@@ -8,8 +8,8 @@ namespace GateTasks.Engine.Tests.Reports;
 /// <summary>Bands and plotted bins agree with what the ratio check decided on.</summary>
 public sealed class ToleranceBandTests(ReportCase run) : IClassFixture<ReportCase>
 {
-    private CheckReport Report => _report ??= run.Run(30_000, 2, 0);
-    private CheckReport? _report;
+    private RunResult Report => _report ??= run.Run(30_000, 2, 0);
+    private RunResult? _report;
 
     [Fact]
     public void Core_and_tails_bands_tile_the_axis_and_a_named_band_covers_the_bins_centred_in_its_range()

@@ -39,7 +39,7 @@ public class ExactSumTests
         Assert.Equal(fsum, merged.Value);
         // Read back from its partials as a shard file stores them.
         var restored = new ExactSum();
-        foreach (var partial in merged.Partials) restored.Add(partial);
+        foreach (var partial in merged.Terms) restored.Add(partial);
         Assert.Equal(fsum, restored.Value);
     }
 

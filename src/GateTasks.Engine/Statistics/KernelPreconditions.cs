@@ -7,7 +7,7 @@ namespace GateTasks.Engine.Statistics;
 /// (<see cref="GateInputException"/>); a non-finite value means the caller did not validate its data and is
 /// reported as <see cref="ArgumentException"/>.
 /// </summary>
-internal static class SampleChecks
+internal static class KernelPreconditions
 {
     internal static void RequireFinite(ReadOnlySpan<double> values, string what)
     {

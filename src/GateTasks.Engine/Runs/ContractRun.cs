@@ -13,14 +13,14 @@ namespace GateTasks.Engine.Runs;
 /// fit together, streams the sample once (batch by batch) into histograms with the reference's binning,
 /// and evaluates every check.
 /// </summary>
-internal static class ContractCheck
+internal static class ContractRun
 {
     /// <summary>
     /// Runs the contract. <paramref name="samplePath"/> overrides the contract's sample (relative to the working
     /// directory); <paramref name="parallelism"/> bounds the threads (default: the processor count), which changes
     /// the time, never the results.
     /// </summary>
-    public static CheckReport Run(PrecisionContract contract, string? samplePath = null, IProgress<ReadProgress>? progress = null, int? parallelism = null)
+    public static RunResult Run(PrecisionContract contract, string? samplePath = null, IProgress<ReadProgress>? progress = null, int? parallelism = null)
     {
         var started = DateTimeOffset.UtcNow;
         var clock = Stopwatch.StartNew();
@@ -44,7 +44,7 @@ internal static class ContractCheck
     /// Decides from partial files (from 'gatetasks fill' on shards of the sample, or 'gatetasks merge'): they are merged,
     /// then every check runs as on one pass over the whole sample.
     /// </summary>
-    public static CheckReport RunFromPartials(PrecisionContract contract, IReadOnlyList<string> partials)
+    public static RunResult RunFromPartials(PrecisionContract contract, IReadOnlyList<string> partials)
     {
         var started = DateTimeOffset.UtcNow;
         var clock = Stopwatch.StartNew();
@@ -89,14 +89,14 @@ internal static class ContractCheck
     }
 
     /// <summary>A sample opened for a contract: its files' schemas read, its columns checked, the expressions compiled; how it is to be read.</summary>
-    internal sealed record OpenedSample(Sample Sample, FeatureInputs Inputs, ReadPass Pass);
+    internal sealed record OpenedSample(Sample Sample, FeatureSources Inputs, ReadPass Pass);
 
     /// <summary>Opens a sample and checks it against the contract (columns, then expressions) before anything is read.</summary>
     internal static OpenedSample OpenSample(PrecisionContract contract, IReadOnlyList<string> files, ReadPass? pass = null)
     {
         var sample = Sample.Open(files);
         ValidateColumns(contract, sample);
-        return new OpenedSample(sample, FeatureInputs.Compile(contract, sample.ColumnNamesInAnyFile), pass ?? new ReadPass("checking the sample"));
+        return new OpenedSample(sample, FeatureSources.Compile(contract, sample.ColumnNamesInAnyFile), pass ?? new ReadPass("checking the sample"));
     }
 
     /// <summary>Streams one sample (or one shard of it) into a new accumulation.</summary>
@@ -108,10 +108,10 @@ internal static class ContractCheck
     }
 
     /// <summary>Evaluates every check on what was gathered from the sample (in one pass, or merged from shards), then the ledger.</summary>
-    internal static CheckReport Decide(MatchedReference setup, AccumulatedSample accumulation, IReadOnlyList<string> files, DateTimeOffset started, Stopwatch clock)
+    internal static RunResult Decide(MatchedReference setup, AccumulatedSample accumulation, IReadOnlyList<string> files, DateTimeOffset started, Stopwatch clock)
     {
         var evaluated = ContractEvaluation.Evaluate(setup, accumulation);
-        return new CheckReport(setup.Contract, setup.ReferencePath, setup.ReferenceSha256, setup.Reference, files, accumulation.Events, accumulation.SumW,
+        return new RunResult(setup.Contract, setup.ReferencePath, setup.ReferenceSha256, setup.Reference, files, accumulation.Events, accumulation.SumW,
             accumulation.SumW2, evaluated.Outcomes, started, clock.Elapsed)
         {
             Comparisons = evaluated.Comparisons,

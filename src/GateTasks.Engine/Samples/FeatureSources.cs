@@ -8,9 +8,9 @@ namespace GateTasks.Engine.Samples;
 /// Where each feature's values come from — a column, or a derived-feature expression over columns — and the
 /// contract's selection, compiled against the columns a sample has. Expressions are compiled once per pass.
 /// </summary>
-internal sealed class FeatureInputs
+internal sealed class FeatureSources
 {
-    private FeatureInputs(IReadOnlyList<string?> columns, IReadOnlyList<CompiledExpression?> expressions, CompiledExpression? selection,
+    private FeatureSources(IReadOnlyList<string?> columns, IReadOnlyList<CompiledExpression?> expressions, CompiledExpression? selection,
         IReadOnlyList<CompiledExpression?> conditions)
     {
         FeatureColumns = columns;
@@ -41,7 +41,7 @@ internal sealed class FeatureInputs
             .Concat(Conditions.Where(c => c is not null).SelectMany(c => c!.Columns))
             .Distinct(StringComparer.Ordinal).ToList();
 
-    public static FeatureInputs Compile(PrecisionContract contract, IReadOnlyCollection<string> available)
+    public static FeatureSources Compile(PrecisionContract contract, IReadOnlyCollection<string> available)
     {
         var columns = new List<string?>();
         var expressions = new List<CompiledExpression?>();
@@ -72,6 +72,6 @@ internal sealed class FeatureInputs
                 throw new GateInputException(ErrorCodes.ContractExpression,
                     "The selection must be a condition (a comparison, 'and', 'or', 'not' or isnan), not a number.", s.Location);
         }
-        return new FeatureInputs(columns, expressions, selection, conditions);
+        return new FeatureSources(columns, expressions, selection, conditions);
     }
 }

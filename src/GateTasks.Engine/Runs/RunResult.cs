@@ -5,7 +5,7 @@ using GateTasks.Engine.Checks;
 namespace GateTasks.Engine.Runs;
 
 /// <summary>Everything one run of a contract produced: what was compared and each check's outcome.</summary>
-internal sealed record CheckReport(
+internal sealed record RunResult(
     PrecisionContract Contract,
     string ReferencePath,
     string ReferenceSha256,
