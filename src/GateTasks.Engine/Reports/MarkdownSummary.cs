@@ -3,6 +3,7 @@ using System.Text;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.IO;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Reports;
 
