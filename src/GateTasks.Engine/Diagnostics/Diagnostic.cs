@@ -11,7 +11,23 @@ namespace GateTasks.Engine.Diagnostics;
 internal sealed record Diagnostic(string Code, DiagnosticSeverity Severity, SourceLocation? Location, string Text)
 {
     /// <summary>What it is about, from its code.</summary>
-    public DiagnosticKind Kind => DiagnosticKinds.Of(Code);
+    public DiagnosticKind Kind => KindOf(Code);
+
+    /// <summary>The one rule from a code (<c>GATE</c> and four digits) to its kind; <see cref="DiagnosticKind.Setup"/> for any other text.</summary>
+    public static DiagnosticKind KindOf(string code)
+    {
+        if (code.Length != 8 || !code.StartsWith("GATE", StringComparison.Ordinal)) return DiagnosticKind.Setup;
+        if (code == ErrorCodes.Inconclusive) return DiagnosticKind.Inconclusive;
+        if (code == ErrorCodes.RatchetDegraded) return DiagnosticKind.Ratchet;
+        return code[4] switch
+        {
+            '1' => DiagnosticKind.Contract,
+            '2' => DiagnosticKind.Sample,
+            '3' => DiagnosticKind.Drift,
+            '4' => DiagnosticKind.Acceptance,
+            _ => DiagnosticKind.Setup,
+        };
+    }
 
     /// <summary>An error.</summary>
     public static Diagnostic Error(string code, string text, SourceLocation? location = null) => new(code, DiagnosticSeverity.Error, location, text);

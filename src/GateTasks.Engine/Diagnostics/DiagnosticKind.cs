@@ -1,7 +1,7 @@
 namespace GateTasks.Engine.Diagnostics;
 
 /// <summary>
-/// What a coded message is about, decided from its code in one place (<see cref="DiagnosticKinds.Of"/>): the build
+/// What a coded message is about, decided from its code in one place (<c>Diagnostic.KindOf</c>): the build
 /// step shows fidelity failures (drift, inconclusive, ratchet) as warnings in warn-only mode, and everything else as
 /// it is.
 /// </summary>
@@ -29,31 +29,21 @@ internal enum DiagnosticKind
     Acceptance,
 }
 
-/// <summary>The one rule from a code to its kind, and the tokens kinds and severities are written with.</summary>
-internal static class DiagnosticKinds
+/// <summary>The tokens kinds are written with, and what a kind means to the build step.</summary>
+/// <remarks>Dependency-free: the build step's task compiles this file too.</remarks>
+internal static class DiagnosticKindTokens
 {
-    /// <summary>The kind of <paramref name="code"/> (<c>GATE</c> and four digits); <see cref="DiagnosticKind.Setup"/> for any other text.</summary>
-    public static DiagnosticKind Of(string code)
-    {
-        if (code.Length != 8 || !code.StartsWith("GATE", System.StringComparison.Ordinal)) return DiagnosticKind.Setup;
-        if (code == ErrorCodes.Inconclusive) return DiagnosticKind.Inconclusive;
-        if (code == ErrorCodes.RatchetDegraded) return DiagnosticKind.Ratchet;
-        return code[4] switch
-        {
-            '1' => DiagnosticKind.Contract,
-            '2' => DiagnosticKind.Sample,
-            '3' => DiagnosticKind.Drift,
-            '4' => DiagnosticKind.Acceptance,
-            _ => DiagnosticKind.Setup,
-        };
-    }
-
     /// <summary>True for the kinds that say the surrogate is not (shown) faithful, rather than that the run is set up wrong.</summary>
     public static bool IsFidelity(this DiagnosticKind kind) => kind is DiagnosticKind.Drift or DiagnosticKind.Inconclusive or DiagnosticKind.Ratchet;
 
     /// <summary>The lower-case token a kind is written with in the build step's record stream.</summary>
     public static string Token(this DiagnosticKind kind) => kind.ToString().ToLowerInvariant();
 
-    /// <summary><c>error</c> or <c>warning</c>, as the coded line says it.</summary>
-    public static string Token(this DiagnosticSeverity severity) => severity == DiagnosticSeverity.Error ? "error" : "warning";
+    /// <summary>The kind a <see cref="Token"/> names; null for any other text.</summary>
+    public static DiagnosticKind? FromToken(string? token)
+    {
+        foreach (DiagnosticKind k in System.Enum.GetValues(typeof(DiagnosticKind)))
+            if (string.Equals(k.Token(), token, System.StringComparison.Ordinal)) return k;
+        return null;
+    }
 }

@@ -26,7 +26,7 @@ internal sealed class RunRecord
     /// <summary>The environment variable naming the file the command line writes the stream to.</summary>
     public const string EnvironmentVariable = "GATETASKS_RECORDS";
 
-    /// <summary>A coded message (<see cref="Diagnostic"/>).</summary>
+    /// <summary>A coded message (<c>Diagnostic</c>).</summary>
     public const string DiagnosticType = "diagnostic";
     /// <summary>How the run ended (<see cref="Outcome"/> holds the token of <c>Runs.RunOutcome</c>).</summary>
     public const string OutcomeType = "outcome";
