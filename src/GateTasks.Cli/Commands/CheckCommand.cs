@@ -55,7 +55,7 @@ internal static class CheckCommand
         var finished = false;
         try
         {
-            var exit = Prepare(contractPath, samplePath, partials, baseRevision, reports, output);
+            var exit = Execute(contractPath, samplePath, partials, baseRevision, reports, output);
             finished = true;
             return exit;
         }
@@ -74,7 +74,7 @@ internal static class CheckCommand
             if (path is not null && File.Exists(path)) output.Report(kind, path);
     }
 
-    private static int Prepare(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
+    private static int Execute(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
         CommandOutput output)
     {
         var started = DateTimeOffset.UtcNow;
