@@ -28,7 +28,7 @@ internal sealed class RunRecord
 
     /// <summary>A coded message (<c>Diagnostic</c>).</summary>
     public const string DiagnosticType = "diagnostic";
-    /// <summary>How the run ended (<see cref="Outcome"/> holds the token of <c>Runs.RunOutcome</c>).</summary>
+    /// <summary>How the run ended (<see cref="Outcome"/> holds the outcome's token: passed, failed, undecided, not-accepted, did-not-finish).</summary>
     public const string OutcomeType = "outcome";
     /// <summary>A report the run wrote (<see cref="Kind"/>: junit, text, html, markdown; <see cref="Path"/>).</summary>
     public const string ReportType = "report";
