@@ -10,15 +10,32 @@ namespace GateTasks.Cli;
 /// </summary>
 internal static class CliApp
 {
+    /// <summary>Runs the command line; the build step's record stream too when the environment names its file.</summary>
     public static int Run(string[] args, TextWriter stdout, TextWriter stderr)
     {
+        RecordFile? records;
+        try
+        {
+            records = RecordFile.FromEnvironment();
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException or ArgumentException or NotSupportedException)
+        {
+            stderr.WriteLine(Diagnostic.Error(ErrorCodes.OutputNotWritable, $"Cannot write the record stream named by {RunRecord.EnvironmentVariable}: {e.Message}").Line);
+            return ExitCodes.InputError;
+        }
+        using (records) return Run(args, new CommandOutput(stdout, stderr, records));
+    }
+
+    private static int Run(string[] args, CommandOutput output)
+    {
+        var (stdout, stderr) = (output.Out, output.Error);
         var root = new RootCommand("GateTasks: holds a generative surrogate's sample to the tolerances of a precision contract, against full-simulation reference histograms.");
-        root.Subcommands.Add(CheckCommand.Create(stdout, stderr));
+        root.Subcommands.Add(CheckCommand.Create(output));
         root.Subcommands.Add(AcceptCommand.Create(stdout, stderr));
         root.Subcommands.Add(HistoryCommand.Create(stdout, stderr));
         root.Subcommands.Add(ReferenceCommand.Create(stdout, stderr));
         root.Subcommands.Add(DemoCommand.Create(stdout, stderr));
-        root.Subcommands.Add(InputsCommand.Create(stdout, stderr));
+        root.Subcommands.Add(InputsCommand.Create(output));
         root.Subcommands.Add(CalibrateCommand.Create(stdout, stderr));
         root.Subcommands.Add(DraftCommand.Create(stdout, stderr));
         root.Subcommands.Add(PlanCommand.Create(stdout, stderr));
@@ -30,15 +47,18 @@ internal static class CliApp
         var parse = root.Parse(args);
         if (parse.Errors.Count > 0)
         {
-            foreach (var e in parse.Errors) stderr.WriteLine($"error {ErrorCodes.Usage}: {e.Message}");
-            stderr.WriteLine("Run 'gatetasks --help' for usage.");
+            foreach (var e in parse.Errors) output.Diagnostic(Diagnostic.Error(ErrorCodes.Usage, e.Message));
+            output.ErrorDetail("Run 'gatetasks --help' for usage.");
             return ExitCodes.InputError;
         }
         return parse.Invoke(new InvocationConfiguration { Output = stdout, Error = stderr, EnableDefaultExceptionHandler = false });
     }
 
     /// <summary>Runs a command body, turning input errors into one diagnostic line and exit code 2.</summary>
-    public static int Guard(TextWriter stderr, Func<int> body)
+    public static int Guard(TextWriter stderr, Func<int> body) => Guard(new CommandOutput(TextWriter.Null, stderr), body);
+
+    /// <summary>Runs a command body, turning input errors into one diagnostic (line and record) and exit code 2.</summary>
+    public static int Guard(CommandOutput output, Func<int> body)
     {
         try
         {
@@ -46,15 +66,15 @@ internal static class CliApp
         }
         catch (GateInputException e)
         {
-            stderr.WriteLine(e.ToDiagnosticLine());
+            output.Diagnostic(Diagnostic.From(e));
             return ExitCodes.InputError;
         }
         catch (Exception e) when (e is not OutOfMemoryException)
         {
             // A bug, not bad input: say so in one line; the trace only on request.
-            stderr.WriteLine($"internal error: {e.GetType().Name}: {e.Message}");
-            if (Environment.GetEnvironmentVariable("GATETASKS_TRACE") == "1") stderr.WriteLine(e);
-            else stderr.WriteLine("Set GATETASKS_TRACE=1 for details and please report it.");
+            output.ErrorDetail($"internal error: {e.GetType().Name}: {e.Message}");
+            if (Environment.GetEnvironmentVariable("GATETASKS_TRACE") == "1") output.Error.WriteLine(e);
+            else output.ErrorDetail("Set GATETASKS_TRACE=1 for details and please report it.");
             return ExitCodes.InternalError;
         }
     }

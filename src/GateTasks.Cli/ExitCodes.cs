@@ -3,7 +3,7 @@ namespace GateTasks.Cli;
 /// <summary>Process exit codes; documented in docs/cli.md.</summary>
 internal static class ExitCodes
 {
-    /// <summary>Every check passed (or the command succeeded).</summary>
+    /// <summary>Every check passed: every tolerance was shown met (or the command succeeded).</summary>
     public const int Success = 0;
 
     /// <summary>At least one check failed: the surrogate drifted outside its tolerances.</summary>
@@ -20,4 +20,10 @@ internal static class ExitCodes
 
     /// <summary>An internal error (a bug in GateTasks); nothing was judged.</summary>
     public const int InternalError = 3;
+
+    /// <summary>
+    /// Undecided: no check failed, but some were inconclusive and the contract lets that only warn, so not every
+    /// tolerance was shown met. Not 0, which says every tolerance was shown met; not 1, which says one was missed.
+    /// </summary>
+    public const int Undecided = 5;
 }

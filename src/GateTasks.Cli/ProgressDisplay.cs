@@ -16,7 +16,7 @@ internal sealed class ProgressDisplay : IProgress<ReadProgress>
     /// <summary>How often plain lines are written during a long pass.</summary>
     public static readonly TimeSpan PlainInterval = TimeSpan.FromSeconds(10);
 
-    private readonly TextWriter _stdout;
+    private readonly Action<string> _plainLine;
     private readonly TextWriter _stderr;
     private readonly bool _live;
     private readonly TimeSpan _plainInterval;
@@ -25,21 +25,26 @@ internal sealed class ProgressDisplay : IProgress<ReadProgress>
     private bool _shownThisPass;
     private int _lastWidth;
 
-    internal ProgressDisplay(TextWriter stdout, TextWriter stderr, bool live, TimeSpan plainInterval)
+    internal ProgressDisplay(TextWriter stdout, TextWriter stderr, bool live, TimeSpan plainInterval, Action<string>? plainLine = null)
     {
-        _stdout = stdout;
+        _plainLine = plainLine ?? stdout.WriteLine;
         _stderr = stderr;
         _live = live;
         _plainInterval = plainInterval;
     }
 
     /// <summary>A display for these writers: live only when they are the process's own console and no CI is running.</summary>
-    public static ProgressDisplay For(TextWriter stdout, TextWriter stderr)
+    public static ProgressDisplay For(TextWriter stdout, TextWriter stderr) => new(stdout, stderr, Live(stderr), PlainInterval);
+
+    /// <summary>A display whose plain lines are notes of <paramref name="output"/> (so the build step shows them too).</summary>
+    public static ProgressDisplay For(CommandOutput output) => new(output.Out, output.Error, Live(output.Error), PlainInterval, output.Note);
+
+    private static bool Live(TextWriter stderr)
     {
         var console = ReferenceEquals(stderr, Console.Error) && !Console.IsErrorRedirected;
         var ci = Environment.GetEnvironmentVariable("CI") is { Length: > 0 } v && v != "false" && v != "0";
         var dumb = Environment.GetEnvironmentVariable("TERM") == "dumb";
-        return new ProgressDisplay(stdout, stderr, console && !ci && !dumb, PlainInterval);
+        return console && !ci && !dumb;
     }
 
     public void Report(ReadProgress p)
@@ -69,7 +74,7 @@ internal sealed class ProgressDisplay : IProgress<ReadProgress>
         // Plain lines: one per interval in a long pass, and a closing one for a pass that printed any.
         if (p.Finished ? _shownThisPass : _sinceShown.Elapsed >= _plainInterval)
         {
-            _stdout.WriteLine("progress: " + Describe(p));
+            _plainLine("progress: " + Describe(p));
             _shownThisPass = !p.Finished;
             _sinceShown.Restart();
         }

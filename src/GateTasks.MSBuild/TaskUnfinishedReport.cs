@@ -2,6 +2,7 @@ using System;
 using System.Collections.Generic;
 using System.IO;
 using System.Text;
+using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Reports;
 using Microsoft.Build.Framework;
 
@@ -29,7 +30,7 @@ internal static class TaskUnfinishedReport
                 {
                     Directory.CreateDirectory(Path.GetDirectoryName(path)!);
                     var temporary = path + "." + Guid.NewGuid().ToString("N") + ".tmp";
-                    File.WriteAllText(temporary, UnfinishedJUnit.Render(contract, DateTimeOffset.UtcNow, code, message, $"error {code}: {message}"), new UTF8Encoding(false));
+                    File.WriteAllText(temporary, UnfinishedJUnit.Render(contract, DateTimeOffset.UtcNow, code, message, DiagnosticLine.Format(null, 0, 0, "error", code, message)), new UTF8Encoding(false));
                     if (File.Exists(path)) File.Replace(temporary, path, null);
                     else File.Move(temporary, path);
                 }

@@ -57,6 +57,8 @@ public class BenchmarkScriptTests
         // exported to .npy) are independent implementations; the script compares their cells with the engine's and
         // says "DIFFERENT" (and exits 1) on any mismatch.
         Assert.Contains("Histograms: identical cells for all 20 features in the engine, DuckDB and numpy.", stdout);
-        Assert.Contains(lines, l => l.StartsWith("Check verdict at 10^5: PASSED", StringComparison.Ordinal));
+        // The benchmark's contract lets inconclusive checks warn, and 10^5 events leave some undecided: UNDECIDED since
+        // that outcome exists (docs/cli.md); it said PASSED before, although not every tolerance was shown met.
+        Assert.Contains(lines, l => l.StartsWith("Check verdict at 10^5: UNDECIDED: ", StringComparison.Ordinal));
     }
 }

@@ -70,7 +70,7 @@ public sealed class UnfinishedReportTests : IDisposable
         var error = root.Descendants("error").Single();
         Assert.Equal("GATE2001", error.Attribute("type")!.Value);
         Assert.Contains("no-such-sample.parquet", error.Attribute("message")!.Value);
-        Assert.StartsWith("NOT FINISHED: ", File.ReadAllText(text));
+        Assert.StartsWith("DID NOT FINISH: ", File.ReadAllText(text)); // the outcome's word, as in the Markdown heading (docs/reports.md)
         Assert.StartsWith("### GateTasks check DID NOT FINISH", File.ReadAllText(markdown));
         Assert.Contains("did not finish", File.ReadAllText(html));
         foreach (var f in new[] { text, markdown, html }) Assert.DoesNotContain("PASSED", File.ReadAllText(f));

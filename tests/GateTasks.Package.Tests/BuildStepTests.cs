@@ -288,6 +288,37 @@ public class BuildStepTests(PackageFeed feed)
     }
 
     [Fact]
+    public void An_undecided_run_warns_says_UNDECIDED_never_PASSED_and_is_checked_again()
+    {
+        // The demo's contract with inconclusive checks that only warn (and no ledger: a warning), over a faithful sample
+        // of 3 000 events: too few to decide every check, none drifted.
+        var p = GateProject.Create(feed, "UndecidedGate");
+        var contract = Path.Combine(p.Directory, "precision-contract.yaml");
+        File.WriteAllText(contract, File.ReadAllText(contract).Replace("inconclusive: fail", "inconclusive: warn"));
+        File.Delete(Path.Combine(p.Directory, "precision-contract.ledger"));
+        GateTasks.Engine.Demo.DemoSampleWriter.Write(Path.Combine(p.Directory, "small.parquet"), GateTasks.Engine.Demo.DemoScenarioParameters.FullSimulation,
+            3_000, 32, 1_000);
+        var stamp = Path.Combine(p.Directory, "obj", "gate", "passed.stamp");
+
+        // docs/msbuild.md: an undecided run is a warning per inconclusive check at its line; the build goes on, its
+        // verdict line says UNDECIDED, and it leaves no passed stamp, so the next build checks again.
+        var (code, output) = p.Build("-p:GateSample=small.parquet");
+        Assert.True(code == 0, output);
+        Assert.Matches(@"precision-contract\.yaml\(\d+,\d+\): warning GATE3100: ", output);
+        Assert.DoesNotContain("error GATE", output);
+        Assert.Matches(new Regex(@"^\s*UNDECIDED: \d+ of 92 checks within tolerance, 0 failed", RegexOptions.Multiline), output);
+        Assert.DoesNotMatch(new Regex(@"^\s*PASSED:", RegexOptions.Multiline), output);
+        Assert.StartsWith("### GateTasks check UNDECIDED", File.ReadAllText(Path.Combine(p.ReportDirectory, "precision-contract.md")));
+        Assert.Contains("data-verdict=\"undecided\"", File.ReadAllText(Path.Combine(p.ReportDirectory, "precision-contract.html")));
+        Assert.False(File.Exists(stamp), output);
+
+        var (again, second) = p.Build("-p:GateSample=small.parquet");
+        Assert.True(again == 0, second);
+        Assert.DoesNotContain("up to date, the check is skipped", second);
+        Assert.Matches(new Regex(@"^\s*UNDECIDED: ", RegexOptions.Multiline), second);
+    }
+
+    [Fact]
     public void A_multi_targeted_project_checks_once()
     {
         var p = GateProject.Create(feed, "MultiGate");

@@ -101,12 +101,12 @@ cores=$(nproc)
 if [ "$cores" -ge 2 ]; then two=(taskset -c 0,1) one=(taskset -c 0); else two=() one=(taskset -c 0); fi
 
 # timed NAME COMMAND…: runs the command under GNU time (wall, user, sys seconds and peak RSS in KB) into times/NAME.
-# A check may exit 1 (a failed or inconclusive check is still a finished run); anything else stops the benchmark.
+# A check may exit 1 or 5 (a failed or undecided check is still a finished run); anything else stops the benchmark.
 timed() {
   local name=$1 status=0
   shift
   /usr/bin/time -f '%e %U %S %M' -o "$work/times/$name" "$@" >"$work/logs/$name.out" 2>"$work/logs/$name.err" || status=$?
-  if [ "$status" -ne 0 ] && ! { [ "$status" -eq 1 ] && [[ $name == check-* ]]; }; then
+  if [ "$status" -ne 0 ] && ! { { [ "$status" -eq 1 ] || [ "$status" -eq 5 ]; } && [[ $name == check-* ]]; }; then
     say "$name exited $status:"
     tail -n 20 "$work/logs/$name.err" >&2
     exit 1

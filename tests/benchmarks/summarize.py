@@ -102,7 +102,8 @@ def main(work, out_path=None):
     agree = not mismatches
 
     with open(os.path.join(work, "out", "check-full.txt"), encoding="utf-8") as f:
-        verdict = [line.strip() for line in f if line.startswith(("PASSED", "FAILED"))]
+        # The summary line opens with the run's outcome (docs/cli.md, exit codes).
+        verdict = [line.strip() for line in f if line.startswith(("PASSED:", "FAILED:", "UNDECIDED:", "NOT ACCEPTED:"))]
     model, ram = machine()
     mb = lambda b: b / 1e6  # noqa: E731  (MB = 10^6 bytes, the unit of the memory target)
 

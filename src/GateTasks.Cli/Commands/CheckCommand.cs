@@ -11,7 +11,7 @@ namespace GateTasks.Cli.Commands;
 /// <summary><c>gatetasks check</c>: judges a surrogate sample against the contract's reference.</summary>
 internal static class CheckCommand
 {
-    public static Command Create(TextWriter stdout, TextWriter stderr)
+    public static Command Create(CommandOutput output)
     {
         var contract = SharedOptions.Contract();
         var sample = SharedOptions.Sample();
@@ -37,19 +37,45 @@ internal static class CheckCommand
             AllowMultipleArgumentsPerToken = true,
         }.NotEmpty();
         var baseRevision = SharedOptions.BaseRevision();
-        var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed (or was inconclusive, if the contract says so); 2: input error; 4: the checks pass but the contract or reference in use is not the accepted one (see the ledger errors).")
+        var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed (or was inconclusive, if the contract says so); 2: input error; 4: the checks pass but the contract or reference in use is not the accepted one (see the ledger errors); 5: undecided (no check failed, some were inconclusive and the contract lets that warn).")
         {
             contract, sample, junit, text, html, markdown, partials, baseRevision,
         };
-        command.SetAction(parse => CliApp.Guard(stderr, () =>
+        command.SetAction(parse => CliApp.Guard(output, () =>
             Run(parse.GetValue(contract)!, parse.GetValue(sample), parse.GetValue(partials), parse.GetValue(baseRevision),
                 new UnfinishedReport.Paths(parse.GetValue(junit), parse.GetValue(text), parse.GetValue(html), parse.GetValue(markdown)),
-                stdout, stderr)));
+                output)));
         return command;
     }
 
     private static int Run(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
-        TextWriter stdout, TextWriter stderr)
+        CommandOutput output)
+    {
+        // A run that reaches no verdict says so on the record stream; the console says it with the error line alone.
+        var finished = false;
+        try
+        {
+            var exit = Execute(contractPath, samplePath, partials, baseRevision, reports, output);
+            finished = true;
+            return exit;
+        }
+        finally
+        {
+            if (!finished) output.Outcome(RunOutcome.DidNotFinish);
+            Announce(reports, output);
+        }
+    }
+
+    // The reports a run leaves (its own, or the "did not finish" form), each a record for the build step.
+    private static void Announce(UnfinishedReport.Paths reports, CommandOutput output)
+    {
+        (string Kind, string? Path)[] all = [("junit", reports.JUnit), ("text", reports.Text), ("html", reports.Html), ("markdown", reports.Markdown)];
+        foreach (var (kind, path) in all)
+            if (path is not null && File.Exists(path)) output.Report(kind, path);
+    }
+
+    private static int Execute(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
+        CommandOutput output)
     {
         var started = DateTimeOffset.UtcNow;
         // Every file the check reads, found without reading any at length; an input error here is held until the
@@ -103,7 +129,7 @@ internal static class CheckCommand
             UnfinishedReport.MarkRunning(reports, contractPath, started);
             if (pending is not null) throw pending;
             paths.VerifyInputs();
-            return Check(loaded!, samplePath, partials, baseRevision, reports, stdout, stderr);
+            return Check(loaded!, samplePath, partials, baseRevision, reports, output);
         }
         catch (GateInputException e)
         {
@@ -119,14 +145,14 @@ internal static class CheckCommand
     }
 
     private static int Check(PrecisionContract loaded, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
-        TextWriter stdout, TextWriter stderr)
+        CommandOutput output)
     {
         // Before the sample is read: an unknown base revision stops the run at once.
         var history = SharedOptions.CheckHistory(loaded, baseRevision);
-        stdout.WriteLine(history.Note);
+        output.Note(history.Note);
         var report = partials is { Length: > 0 }
             ? ContractRun.RunFromPartials(loaded, ShardCommands.Expand(partials))
-            : ContractRun.Run(loaded, samplePath, ProgressDisplay.For(stdout, stderr));
+            : ContractRun.Run(loaded, samplePath, ProgressDisplay.For(output));
         if (history.Finding is { } finding) report = report with { Acceptance = [finding, .. report.Acceptance] };
         if (reports.Text is { } textPath)
             AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine);
@@ -141,45 +167,44 @@ internal static class CheckCommand
             MarkdownSummary.Write(markdownPath, report);
             written.Add($"Markdown summary: {Path.GetFullPath(markdownPath)}");
         }
-        var exit = Print(report, reports.JUnit, stdout, stderr);
-        foreach (var line in written) stdout.WriteLine(line);
+        var exit = Print(report, reports.JUnit, output);
+        foreach (var line in written) output.Detail(line);
         return exit;
     }
 
     /// <summary>Prints the table, one diagnostic line per failed check, the summary; writes the JUnit report.</summary>
-    public static int Print(RunResult report, string? junitPath, TextWriter stdout, TextWriter stderr)
+    public static int Print(RunResult report, string? junitPath, CommandOutput output)
     {
-        stdout.WriteLine($"contract  {report.Contract.FilePath}");
-        stdout.WriteLine($"reference {report.ReferencePath} (sha256 {report.ReferenceSha256[..12]}…)");
-        stdout.WriteLine($"sample    {string.Join(", ", report.SampleFiles)}");
-        stdout.WriteLine();
-        stdout.Write(ResultTable.Format(report));
-        stdout.WriteLine();
-        foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Fail))
-            stderr.WriteLine($"{o.Check.Location}: error {CheckEvaluator.DriftCode(o.Check)}: feature '{o.Subject.Name}' {o.Check.Label}: {o.Summary}");
-        var severity = report.Contract.Decision.InconclusiveFails ? "error" : "warning";
-        foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive))
-            stderr.WriteLine($"{o.Check.Location}: {severity} {CheckEvaluator.InconclusiveCode}: feature '{o.Subject.Name}' {o.Check.Label} is inconclusive: {o.Summary}; " +
-                             ResultTable.NeededText(o.Measured.EventsNeeded));
-        foreach (var f in report.Acceptance)
-            stderr.WriteLine($"{f.Location}: {(f.IsError ? "error" : "warning")} {f.Code}: {f.Message}");
+        output.Detail($"contract  {report.Contract.FilePath}");
+        output.Detail($"reference {report.ReferencePath} (sha256 {report.ReferenceSha256[..12]}…)");
+        output.Detail($"sample    {string.Join(", ", report.SampleFiles)}");
+        output.Out.WriteLine();
+        output.DetailBlock(ResultTable.Format(report));
+        output.Out.WriteLine();
+        foreach (var d in RunDiagnostics.Of(report)) output.Diagnostic(d);
         // NaN and ±∞ the contract allows are still counted, and said.
         foreach (var c in report.Comparisons.Where(c => c.SurrogateSummary.NonFiniteCount > 0))
-            stdout.WriteLine($"note: feature '{c.Spec.Name}' has {c.SurrogateSummary.NanCount} NaN, {c.SurrogateSummary.PositiveInfinityCount} +∞ and " +
-                             $"{c.SurrogateSummary.NegativeInfinityCount} −∞ in the surrogate sample, counted apart (non-finite: allow).");
+            output.Detail($"note: feature '{c.Spec.Name}' has {c.SurrogateSummary.NanCount} NaN, {c.SurrogateSummary.PositiveInfinityCount} +∞ and " +
+                          $"{c.SurrogateSummary.NegativeInfinityCount} −∞ in the surrogate sample, counted apart (non-finite: allow).");
         if (junitPath is not null)
         {
             JUnitReport.Write(junitPath, [report]);
-            stdout.WriteLine($"JUnit report: {Path.GetFullPath(junitPath)}");
+            output.Detail($"JUnit report: {Path.GetFullPath(junitPath)}");
         }
-        stdout.WriteLine(ResultTable.Summary(report));
+        output.Summary(ResultTable.Summary(report));
         if (!report.AcceptanceHolds)
-            stdout.WriteLine($"NOT ACCEPTED: {report.Acceptance.Count(f => f.IsError)} ledger error(s) above; the contract or reference in use is not the accepted one.");
-        return report.Outcome switch
-        {
-            RunOutcome.Passed => ExitCodes.Success,
-            RunOutcome.Failed => ExitCodes.ChecksFailed,
-            _ => ExitCodes.Unaccepted,
-        };
+            output.Summary($"NOT ACCEPTED: {report.Acceptance.Count(f => f.IsError)} ledger error(s) above; the contract or reference in use is not the accepted one.");
+        output.Outcome(report.Outcome);
+        return ExitCode(report.Outcome);
     }
+
+    /// <summary>The exit code of a finished run's outcome (docs/cli.md).</summary>
+    public static int ExitCode(RunOutcome outcome) => outcome switch
+    {
+        RunOutcome.Passed => ExitCodes.Success,
+        RunOutcome.Failed => ExitCodes.ChecksFailed,
+        RunOutcome.Undecided => ExitCodes.Undecided,
+        RunOutcome.NotAccepted => ExitCodes.Unaccepted,
+        _ => ExitCodes.InternalError,
+    };
 }

@@ -49,7 +49,7 @@ internal static class DemoCommand
         stdout.WriteLine();
         stdout.WriteLine("3. Checking the faithful surrogate (same model, another seed) and accepting its state into the ledger:");
         var (faithful, faithfulJunit) = demo.Check(demo.FaithfulPath, "faithful", accept: true);
-        CheckCommand.Print(faithful, null, stdout, stderr);
+        CheckCommand.Print(faithful, null, new CommandOutput(stdout, stderr));
         Reports(faithfulJunit, stdout);
 
         stdout.WriteLine();
@@ -57,7 +57,7 @@ internal static class DemoCommand
             ? "4. Checking the drifted response (resolution 5% worse for photons of true energy 50–75 GeV):"
             : "4. Checking the drifted surrogate (larger constant term, thinned high-mass tail):");
         var (drifted, driftedJunit) = demo.Check(demo.DriftedPath, "drifted");
-        CheckCommand.Print(drifted, null, stdout, stderr);
+        CheckCommand.Print(drifted, null, new CommandOutput(stdout, stderr));
         Reports(driftedJunit, stdout);
 
         stdout.WriteLine();

@@ -11,7 +11,7 @@ namespace GateTasks.Cli.Commands;
 /// </summary>
 internal static class InputsCommand
 {
-    public static Command Create(TextWriter stdout, TextWriter stderr)
+    public static Command Create(CommandOutput output)
     {
         var contract = SharedOptions.Contract();
         var sample = SharedOptions.Sample();
@@ -20,14 +20,14 @@ internal static class InputsCommand
             Description = "Also list, each after 'depends ', the files and folders whose state decides the list (for caching it).",
         };
         var command = new Command("inputs", "List the files a check reads (contract, reference, sample files), one per line.") { contract, sample, dependencies };
-        command.SetAction(parse => CliApp.Guard(stderr, () =>
+        command.SetAction(parse => CliApp.Guard(output, () =>
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             foreach (var path in ContractInputs.All(loaded, parse.GetValue(sample)))
-                stdout.WriteLine(path);
+                output.Input(path);
             if (parse.GetValue(dependencies))
                 foreach (var path in ContractInputs.Dependencies(loaded, parse.GetValue(sample)))
-                    stdout.WriteLine("depends " + path);
+                    output.Dependency(path);
             return ExitCodes.Success;
         }));
         return command;

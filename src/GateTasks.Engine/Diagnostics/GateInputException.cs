@@ -22,6 +22,5 @@ public sealed class GateInputException : Exception
     public SourceLocation? Location { get; }
 
     /// <summary><c>file(line,col): error CODE: message</c>.</summary>
-    public string ToDiagnosticLine() =>
-        Location is null ? $"error {Code}: {Message}" : $"{Location}: error {Code}: {Message}";
+    public string ToDiagnosticLine() => Diagnostic.From(this).Line;
 }

@@ -4,6 +4,5 @@ namespace GateTasks.Engine.Diagnostics;
 public sealed record SourceLocation(string File, int Line = 0, int Column = 0)
 {
     /// <summary>Formats as <c>file(line,col)</c>, the shape compilers and MSBuild use.</summary>
-    public override string ToString() =>
-        Line > 0 ? $"{File}({Line},{Math.Max(Column, 1)})" : File;
+    public override string ToString() => DiagnosticLine.Place(File, Line, Column);
 }

@@ -8,5 +8,5 @@ internal sealed record CandidateError(string Code, string Message, SourceLocatio
     public static CandidateError From(GateInputException e) => new(e.Code, e.Message, e.Location);
 
     /// <summary><c>file(line,col): error CODE: message</c>, as the check command prints it.</summary>
-    public string DiagnosticLine => Location is null ? $"error {Code}: {Message}" : $"{Location}: error {Code}: {Message}";
+    public string DiagnosticLine => Diagnostic.Error(Code, Message, Location).Line;
 }

@@ -47,7 +47,7 @@ internal static class HtmlReport
     private static void Header(StringBuilder sb, RunResult r)
     {
         var passed = r.Outcomes.Count(o => o.Verdict == Verdict.Pass);
-        var css = r.Outcome == RunOutcome.Passed ? "pass" : "fail";
+        var css = r.Outcome switch { RunOutcome.Passed => "pass", RunOutcome.Undecided => "inconclusive", _ => "fail" };
         var stamp = r.Outcome.Word();
         sb.Append("<header class=\"run ").Append(css).Append("\">\n")
           .Append("<div class=\"headline\"><span class=\"stamp ").Append(css).Append("\" id=\"overall\">").Append(stamp).Append("</span>")
@@ -269,11 +269,11 @@ internal static class HtmlReport
         body{margin:0;background:var(--page);color:var(--ink);font:15px/1.45 system-ui,-apple-system,"Segoe UI","DejaVu Sans",Helvetica,Arial,sans-serif}
         code,.sha,.where{font-family:ui-monospace,"DejaVu Sans Mono",Menlo,Consolas,monospace;font-size:.88em}
         header.run{background:var(--paper);border-top:8px solid var(--pass);padding:18px 28px 10px;box-shadow:0 1px 3px #0002}
-        header.run.fail{border-top-color:var(--fail)}
+        header.run.fail{border-top-color:var(--fail)}header.run.inconclusive{border-top-color:var(--inconclusive)}
         .headline{display:flex;align-items:center;gap:16px;flex-wrap:wrap}
         h1{margin:0;font-size:1.6em;font-weight:650}
         .stamp{font-weight:800;letter-spacing:.08em;color:#fff;padding:4px 14px;border-radius:4px;font-size:1.15em}
-        .stamp.pass{background:var(--pass)}.stamp.fail{background:var(--fail)}
+        .stamp.pass{background:var(--pass)}.stamp.fail{background:var(--fail)}.stamp.inconclusive{background:var(--inconclusive)}
         .counts{margin:10px 0 8px;display:flex;gap:18px;flex-wrap:wrap;align-items:baseline}
         .count b{font-size:1.5em}.count.fail{color:var(--fail)}.count.inconclusive{color:var(--inconclusive)}.count.pass{color:var(--pass)}.count.zero{color:var(--muted)}
         .total{color:var(--muted)}

@@ -56,6 +56,7 @@ internal static class JUnitReport
         w.WriteAttributeString("file", Clean(contractPath));
 
         w.WriteStartElement("properties");
+        Property(w, "gatetasks.outcome", r.Outcome.Token());
         Property(w, "gatetasks.contract", contractPath);
         Property(w, "gatetasks.reference", r.ReferencePath);
         Property(w, "gatetasks.reference.sha256", r.ReferenceSha256);
@@ -110,7 +111,7 @@ internal static class JUnitReport
                 w.WriteAttributeString("message", Clean($"{o.Subject.Name} {o.Check.Label}: {what}"));
                 w.WriteAttributeString("type", code);
                 w.WriteString(Clean(
-                    $"{where}: error {code}: feature '{o.Subject.Name}', {o.Check.Label}: {what}\n" +
+                    Diagnostic.Error(code, $"feature '{o.Subject.Name}', {o.Check.Label}: {what}", where).Line + "\n" +
                     $"adjusted p-value {InvariantNumber.Exact(o.AdjustedPValue)} against the family-wise level {InvariantNumber.Exact(r.Contract.Decision.FalseAlarm)} ({r.Contract.Decision.CorrectionName})\n" +
                     $"tolerance stated at {where}"));
                 w.WriteEndElement();
@@ -142,13 +143,13 @@ internal static class JUnitReport
                 w.WriteStartElement("failure");
                 w.WriteAttributeString("message", Clean(f.Message));
                 w.WriteAttributeString("type", f.Code);
-                w.WriteString(Clean($"{f.Location}: error {f.Code}: {f.Message}"));
+                w.WriteString(Clean(f.Diagnostic.Line));
                 w.WriteEndElement();
             }
             else
             {
                 w.WriteStartElement("system-out");
-                w.WriteString(Clean($"{f.Location}: warning {f.Code}: {f.Message}"));
+                w.WriteString(Clean(f.Diagnostic.Line));
                 w.WriteEndElement();
             }
             w.WriteEndElement();

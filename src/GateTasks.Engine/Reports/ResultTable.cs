@@ -113,13 +113,30 @@ internal static class ResultTable
         : double.IsNaN(events) ? "more surrogate events needed to decide"
         : $"{EventsText(events)} surrogate events needed to decide";
 
-    /// <summary>One line saying what was checked and how it went.</summary>
+    /// <summary>One line saying what was checked and how it went; for an undecided run, also what would decide it.</summary>
     public static string Summary(RunResult report)
     {
         var verdict = report.Outcome.Word();
         var passed = report.Outcomes.Count(o => o.Verdict == Verdict.Pass);
-        return $"{verdict}: {passed} of {report.Outcomes.Count} checks within tolerance, {report.Failures} failed, {report.Inconclusive} inconclusive " +
-               $"({report.Contract.Features.Count} features, {InvariantNumber.Count(report.Events)} surrogate events, " +
-               $"effective {report.EffectiveEvents.ToString("0", CultureInfo.InvariantCulture)}; reference {InvariantNumber.Count(report.Reference.Events)} events).";
+        var line = $"{verdict}: {passed} of {report.Outcomes.Count} checks within tolerance, {report.Failures} failed, {report.Inconclusive} inconclusive " +
+                   $"({report.Contract.Features.Count} features, {InvariantNumber.Count(report.Events)} surrogate events, " +
+                   $"effective {report.EffectiveEvents.ToString("0", CultureInfo.InvariantCulture)}; reference {InvariantNumber.Count(report.Reference.Events)} events).";
+        return report.Outcome == RunOutcome.Undecided ? line + " " + UndecidedNote(report) : line;
+    }
+
+    /// <summary>
+    /// Why a run is undecided and what would decide it: the inconclusive checks, which only warn under the contract,
+    /// and the surrogate events the most demanding of them needs (each check's own number is in the table).
+    /// </summary>
+    public static string UndecidedNote(RunResult report)
+    {
+        var open = report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive).ToList();
+        var needed = open.Select(o => o.Measured.EventsNeeded).ToList();
+        // The largest number decides them all; a check that no sample size decides (the reference limits it) says so.
+        var most = needed.Any(double.IsPositiveInfinity) ? double.PositiveInfinity
+            : needed.Where(double.IsFinite).DefaultIfEmpty(double.NaN).Max();
+        var names = string.Join(", ", open.Take(3).Select(o => $"{o.Subject.Name} {o.Check.Label}")) + (open.Count > 3 ? $" and {open.Count - 3} more" : "");
+        return $"Not every tolerance was shown met: {open.Count} inconclusive check{(open.Count == 1 ? "" : "s")} ({names}) only warn under this contract; " +
+               NeededText(most) + ".";
     }
 }

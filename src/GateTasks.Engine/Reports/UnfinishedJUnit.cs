@@ -2,6 +2,7 @@ using System;
 using System.IO;
 using System.Text;
 using System.Xml;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Reports;
 
@@ -28,6 +29,13 @@ internal static class UnfinishedJUnit
             w.WriteAttributeString("name", JUnitText.Clean(Path.GetFileName(contractPath)));
             foreach (var (name, value) in counts) w.WriteAttributeString(name, value);
             w.WriteAttributeString("timestamp", JUnitText.Timestamp(started));
+            // The run's outcome, as a finished report states it too (gatetasks.outcome).
+            w.WriteStartElement("properties");
+            w.WriteStartElement("property");
+            w.WriteAttributeString("name", "gatetasks.outcome");
+            w.WriteAttributeString("value", RunOutcome.DidNotFinish.Token());
+            w.WriteEndElement();
+            w.WriteEndElement();
             w.WriteStartElement("testcase");
             w.WriteAttributeString("classname", "gatetasks");
             w.WriteAttributeString("name", "check");

@@ -4,6 +4,7 @@ using System.Text;
 using System.Xml;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.IO;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Reports;
 
@@ -54,14 +55,14 @@ internal static class UnfinishedReport
 
     /// <summary>Replaces every requested report with one saying the check stopped on <paramref name="error"/>.</summary>
     public static void MarkFailed(Paths paths, string contractPath, DateTimeOffset started, GateInputException error) =>
-        MarkStopped(paths, contractPath, started, error.Code, error.Message, error.Location?.ToString());
+        MarkStopped(paths, contractPath, started, error.Code, error.Message, error.Location);
 
     /// <summary>
     /// Replaces every requested report with one saying the check stopped (<paramref name="code"/>,
     /// <paramref name="message"/>); a report that cannot be written (a full disk) is deleted instead. Never throws for a
     /// report: the error that stopped the check is the one to show.
     /// </summary>
-    public static void MarkStopped(Paths paths, string contractPath, DateTimeOffset started, string code, string message, string? location)
+    public static void MarkStopped(Paths paths, string contractPath, DateTimeOffset started, string code, string message, SourceLocation? location)
     {
         var writers = Writers(paths, contractPath, started, code, message, location);
         var requested = paths.All.ToList();
@@ -80,19 +81,20 @@ internal static class UnfinishedReport
     }
 
     // One writer per requested report, in the order of Paths.All.
-    private static List<Action> Writers(Paths paths, string contractPath, DateTimeOffset started, string code, string message, string? location)
+    private static List<Action> Writers(Paths paths, string contractPath, DateTimeOffset started, string code, string message, SourceLocation? location)
     {
-        var where = location is null ? "" : location + ": ";
-        var line = $"{where}error {code}: {message}";
+        var line = Diagnostic.Error(code, message, location).Line;
+        var word = RunOutcome.DidNotFinish.Word();
         var writers = new List<Action>();
         if (paths.JUnit is { } junit) writers.Add(() => AtomicFile.WriteText(junit, UnfinishedJUnit.Render(contractPath, started, code, message, line)));
-        if (paths.Text is { } text) writers.Add(() => AtomicFile.WriteText(text, "NOT FINISHED: " + line + Environment.NewLine));
+        if (paths.Text is { } text) writers.Add(() => AtomicFile.WriteText(text, word + ": " + line + Environment.NewLine));
         if (paths.Html is { } html)
-            writers.Add(() => AtomicFile.WriteText(html, "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>GateTasks check did not finish</title></head>\n" +
-                $"<body><h1>GateTasks check did not finish</h1><p><code>{WebUtility.HtmlEncode(contractPath)}</code></p><p>{WebUtility.HtmlEncode(line)}</p></body></html>\n"));
+            writers.Add(() => AtomicFile.WriteText(html, "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">" +
+                $"<title>{word} · {WebUtility.HtmlEncode(Path.GetFileName(contractPath))} · GateTasks check</title></head>\n" +
+                $"<body data-verdict=\"{RunOutcome.DidNotFinish.Token()}\"><h1>GateTasks check did not finish</h1><p><code>{WebUtility.HtmlEncode(contractPath)}</code></p><p>{WebUtility.HtmlEncode(line)}</p></body></html>\n"));
         if (paths.Markdown is { } markdown)
             // The message may quote a sample's cell: escaped, so a pull-request comment shows it as text.
-            writers.Add(() => AtomicFile.WriteText(markdown, $"### GateTasks check DID NOT FINISH\n\n`{contractPath.Replace("`", "'")}`\n\n{MarkdownText.Escape(line)}\n"));
+            writers.Add(() => AtomicFile.WriteText(markdown, $"### GateTasks check {word}\n\n`{contractPath.Replace("`", "'")}`\n\n{MarkdownText.Escape(line)}\n"));
         return writers;
     }
 }

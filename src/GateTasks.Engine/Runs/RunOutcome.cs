@@ -1,9 +1,13 @@
+using System;
+
 namespace GateTasks.Engine.Runs;
 
 /// <summary>
-/// How one run of a contract ended, decided in one place (<see cref="RunResult.Outcome"/>) so that the console, every
-/// report and the exit code say the same: a run whose checks pass while the ledger does not hold is not a pass.
+/// How one run of a contract ended, decided in one place (<see cref="RunOutcomes.Decide"/>) so that the console, every
+/// report, the exit code and the build step say the same. PASSED means every tolerance was shown met: a run that no
+/// check failed but some could not decide is UNDECIDED, never PASSED.
 /// </summary>
+/// <remarks>Dependency-free: the build step's task compiles this file too.</remarks>
 internal enum RunOutcome
 {
     /// <summary>Every check passed and the contract and reference in use are the accepted ones.</summary>
@@ -12,26 +16,58 @@ internal enum RunOutcome
     /// <summary>A check failed (or was inconclusive, where the contract counts that as failing).</summary>
     Failed,
 
-    /// <summary>The checks passed, but the acceptance ledger does not hold (an unrecorded change, a broken ledger).</summary>
+    /// <summary>
+    /// No check failed, at least one was inconclusive, and the contract lets inconclusive checks only warn: no
+    /// tolerance was shown missed, but not every one was shown met.
+    /// </summary>
+    Undecided,
+
+    /// <summary>The checks did not fail, but the acceptance ledger does not hold (an unrecorded change, a broken ledger).</summary>
     NotAccepted,
+
+    /// <summary>The run stopped before a verdict: bad input, an internal error, or a process that was stopped.</summary>
+    DidNotFinish,
 }
 
-/// <summary>The words a run's outcome is shown with.</summary>
-internal static class RunOutcomeText
+/// <summary>The rule that decides a run's outcome, and the words it is shown with.</summary>
+internal static class RunOutcomes
 {
-    /// <summary>The stamp for titles and summary lines: PASSED, FAILED or NOT ACCEPTED.</summary>
+    /// <summary>
+    /// The outcome of a finished run: failed checks (and inconclusive ones where the contract says they fail) fail it;
+    /// a broken ledger makes the rest NOT ACCEPTED; inconclusive checks that only warn make it UNDECIDED.
+    /// </summary>
+    public static RunOutcome Decide(int failures, int inconclusive, bool inconclusiveFails, bool acceptanceHolds)
+    {
+        if (failures > 0 || (inconclusive > 0 && inconclusiveFails)) return RunOutcome.Failed;
+        if (!acceptanceHolds) return RunOutcome.NotAccepted;
+        return inconclusive > 0 ? RunOutcome.Undecided : RunOutcome.Passed;
+    }
+
+    /// <summary>The stamp for titles and summary lines: PASSED, FAILED, UNDECIDED, NOT ACCEPTED, DID NOT FINISH.</summary>
     public static string Word(this RunOutcome outcome) => outcome switch
     {
         RunOutcome.Passed => "PASSED",
         RunOutcome.Failed => "FAILED",
-        _ => "NOT ACCEPTED",
+        RunOutcome.Undecided => "UNDECIDED",
+        RunOutcome.NotAccepted => "NOT ACCEPTED",
+        _ => "DID NOT FINISH",
     };
 
-    /// <summary>The lower-case token for machine-read attributes: passed, failed, not-accepted.</summary>
+    /// <summary>The lower-case token for machine-read attributes and records: passed, failed, undecided, not-accepted, did-not-finish.</summary>
     public static string Token(this RunOutcome outcome) => outcome switch
     {
         RunOutcome.Passed => "passed",
         RunOutcome.Failed => "failed",
-        _ => "not-accepted",
+        RunOutcome.Undecided => "undecided",
+        RunOutcome.NotAccepted => "not-accepted",
+        _ => "did-not-finish",
     };
+
+    /// <summary>The outcome a <see cref="Token"/> names; null for any other text.</summary>
+    public static RunOutcome? FromToken(string? token)
+    {
+        foreach (RunOutcome o in Enum.GetValues(typeof(RunOutcome)))
+            if (string.Equals(o.Token(), token, StringComparison.Ordinal)) return o;
+        return null;
+    }
 }
