@@ -5,6 +5,7 @@ using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Demo;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.IO;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Cli.Commands;
 
@@ -61,10 +62,10 @@ internal static class DemoCommand
         Reports(driftedJunit, stdout);
 
         stdout.WriteLine();
-        var asExpected = faithful.Passed && faithful.AcceptanceHolds && !drifted.Passed;
+        var asExpected = faithful.Outcome == RunOutcome.Passed && drifted.Outcome == RunOutcome.Failed;
         stdout.WriteLine(asExpected
             ? $"Demo finished in {clock.Elapsed.TotalSeconds:0.0} s: the faithful surrogate passed and the drifted one failed, as it should."
-            : $"Demo finished in {clock.Elapsed.TotalSeconds:0.0} s, but NOT as expected: faithful {(faithful.Passed ? "passed" : "failed")}, drifted {(drifted.Passed ? "passed" : "failed")}.");
+            : $"Demo finished in {clock.Elapsed.TotalSeconds:0.0} s, but NOT as expected: faithful {faithful.Outcome.Word()}, drifted {drifted.Outcome.Word()}.");
         stdout.WriteLine($"Open {Path.Combine(demo.ReportFolder, "drifted.html")} in a browser to see each feature's distributions and ratios.");
         stdout.WriteLine($"Try it yourself: cd {demo.Folder} && gatetasks check --sample {Path.GetFileName(demo.DriftedPath)} --junit drifted.xml --html drifted.html");
         return asExpected ? ExitCodes.Success : ExitCodes.ChecksFailed;

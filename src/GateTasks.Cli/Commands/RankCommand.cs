@@ -2,6 +2,7 @@ using System.CommandLine;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Ranking;
 using GateTasks.Engine.Samples;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Cli.Commands;
 
@@ -30,7 +31,7 @@ internal static class RankCommand
                 .Write(parse.GetValue(csv), "--csv").Write(parse.GetValue(json), "--json").Verify();
             var report = RankingRun.Run(loaded, paths, (i, r) => stdout.WriteLine(
                 $"checked {i + 1}/{paths.Count} {r.Candidate}: " +
-                (r.Error is not null ? $"not checked ({r.Error.Code})" : $"{(r.Passed ? "pass" : "FAIL")}, {r.Failed} failed, {r.Inconclusive} inconclusive")));
+                (r.Error is not null ? $"not checked ({r.Error.Code})" : $"{(r.Outcome == RunOutcome.Failed ? "FAIL" : r.Outcome == RunOutcome.Undecided ? "undecided" : "pass")}, {r.Failed} failed, {r.Inconclusive} inconclusive")));
             stdout.WriteLine();
             stdout.WriteLine($"contract  {loaded.FilePath}");
             stdout.WriteLine($"reference {report.ReferencePath}");

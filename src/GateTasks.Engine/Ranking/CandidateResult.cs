@@ -14,9 +14,12 @@ internal sealed record CandidateResult(
     IReadOnlyList<string> SampleFiles,
     long Events,
     IReadOnlyList<CandidateCheck> Checks,
-    bool Passed,
+    RunOutcome Outcome,
     CandidateError? Error = null)
 {
+    /// <summary>True when every check passed (the ledger aside: ranking compares fidelity).</summary>
+    public bool Passed => Outcome == RunOutcome.Passed;
+
     /// <summary>Number of failed checks.</summary>
     public int Failed => Checks.Count(c => c.Verdict == Verdict.Fail);
 
@@ -36,9 +39,9 @@ internal sealed record CandidateResult(
     public static CandidateResult FromReport(string candidate, RunResult report) =>
         new(candidate, report.SampleFiles, report.Events,
             report.Outcomes.Select(o => new CandidateCheck(o.Subject.Name, o.Check.Label, o.Verdict, Margin.Of(o, report.Contract.Decision))).ToList(),
-            report.Passed);
+            report.ChecksOutcome);
 
     /// <summary>A candidate whose check stopped on bad input.</summary>
     public static CandidateResult Unchecked(string candidate, GateInputException e) =>
-        new(candidate, [], 0, [], false, CandidateError.From(e));
+        new(candidate, [], 0, [], RunOutcome.DidNotFinish, CandidateError.From(e));
 }

@@ -1,3 +1,4 @@
+using GateTasks.Engine.Runs;
 namespace GateTasks.Engine.Ranking;
 
 /// <summary>
@@ -9,8 +10,13 @@ internal sealed record RankedCandidate(int? Rank, CandidateResult Result, RankDe
     /// <summary>True when it shares its rank with the candidate above.</summary>
     public bool TiedWithPrevious => DecidedBy is RankDecision.Tie or RankDecision.TieWithinNoise;
 
-    /// <summary>"pass", "fail" or "error" (not checked).</summary>
-    public string Status => Result.Error is not null ? "error" : Result.Passed ? "pass" : "fail";
+    /// <summary>"pass", "undecided", "fail" or "error" (not checked).</summary>
+    public string Status => Result.Error is not null ? "error" : Result.Outcome switch
+    {
+        RunOutcome.Passed => "pass",
+        RunOutcome.Undecided => "undecided",
+        _ => "fail",
+    };
 
     /// <summary>The <see cref="DecidedBy"/> key as written in the CSV and JSON reports.</summary>
     public string DecidedByKey => DecidedBy switch

@@ -16,7 +16,7 @@ internal static class RankingTable
             var r = c.Result;
             rows.Add(r.Error is not null
                 ? ["—", r.Candidate, "error", "", "", "", "", c.Reason]
-                : [InvariantNumber.Count(c.Rank!.Value), r.Candidate, r.Passed ? "pass" : "FAIL", InvariantNumber.Count(r.Failed),
+                : [InvariantNumber.Count(c.Rank!.Value), r.Candidate, c.Status == "fail" ? "FAIL" : c.Status, InvariantNumber.Count(r.Failed),
                    InvariantNumber.Count(r.Inconclusive), MarginText(r.WorstMargin), r.Worst?.Label ?? "—", c.Reason]);
         }
         var widths = Enumerable.Range(0, header.Length).Select(col => rows.Max(row => row[col].Length)).ToArray();

@@ -21,9 +21,9 @@ internal static class Acceptance
             throw new GateInputException(ErrorCodes.Usage, "--reason needs a one-line reason saying why this state is accepted.");
         if (string.IsNullOrWhiteSpace(by) || by.Any(char.IsControl))
             throw new GateInputException(ErrorCodes.Usage, "Say who accepts, on one line: --by \"Name <email>\".");
-        if (!report.Passed)
+        if (report.ChecksOutcome != RunOutcome.Passed)
             throw new GateInputException(ErrorCodes.AcceptRefused,
-                $"Not accepted: the check does not pass ({report.Failures} failed, {report.Inconclusive} inconclusive). An entry records a state that passes; fix the surrogate or the contract first.",
+                $"Not accepted: the check {(report.Failures > 0 ? "does not pass" : "is undecided")} ({report.Failures} failed, {report.Inconclusive} inconclusive). An entry records a state whose every tolerance is shown met; fix the surrogate or the contract, or use a larger sample, first.",
                 new SourceLocation(contract.FilePath, 1, 1));
         var path = contract.LedgerFullPath;
         LedgerGuard.RefuseDirectory(contract);

@@ -36,11 +36,8 @@ internal sealed record RunResult(
     /// <summary>Number of checks the sample could not decide.</summary>
     public int Inconclusive => Outcomes.Count(o => o.Verdict == Verdict.Inconclusive);
 
-    /// <summary>
-    /// True when no check fails the run: none failed and, where the contract says inconclusive fails, none is
-    /// inconclusive. A run with inconclusive checks that only warn counts, though its <see cref="Outcome"/> is UNDECIDED.
-    /// </summary>
-    public bool Passed => Failures == 0 && (Inconclusive == 0 || !Contract.Decision.InconclusiveFails);
+    /// <summary>How the checks alone ended, the ledger aside (what ranking compares and what an acceptance needs).</summary>
+    public RunOutcome ChecksOutcome => RunOutcomes.Decide(Failures, Inconclusive, Contract.Decision.InconclusiveFails, acceptanceHolds: true);
 
     /// <summary>How the run ended: the one verdict every report, the console and the exit code show.</summary>
     public RunOutcome Outcome => RunOutcomes.Decide(Failures, Inconclusive, Contract.Decision.InconclusiveFails, AcceptanceHolds);

@@ -80,7 +80,7 @@ public sealed class ContractCheckTests : IDisposable
 
         var report = ContractRun.Run(contract);
 
-        Assert.True(report.Passed, string.Join("\n", report.Outcomes.Select(o => o.Summary)));
+        Assert.True(report.NoCheckFailed(), string.Join("\n", report.Outcomes.Select(o => o.Summary)));
         var summary = report.Comparisons[0].SurrogateSummary;
         Assert.Equal((1, 1, 1), (summary.NanCount, summary.PositiveInfinityCount, summary.NegativeInfinityCount));
         Assert.Equal(20_000, summary.Count);
@@ -106,14 +106,14 @@ public sealed class ContractCheckTests : IDisposable
         var contract = Setup();
         WriteCsv("surrogate.csv", 20_000, 2, 0);
         var pass = ContractRun.Run(contract);
-        Assert.True(pass.Passed, string.Join("\n", pass.Outcomes.Select(o => o.Summary)));
+        Assert.True(pass.NoCheckFailed(), string.Join("\n", pass.Outcomes.Select(o => o.Summary)));
         Assert.Equal(20_000, pass.Events);
         Assert.Equal(4, pass.Outcomes.Count);
 
         // A shift of 0.2σ moves about 8% of the probability across the median: far outside 3% KS distance.
         var shifted = WriteCsv("shifted.csv", 20_000, 3, 0.2);
         var fail = ContractRun.Run(contract, shifted);
-        Assert.False(fail.Passed);
+        Assert.False(fail.NoCheckFailed());
         var ks = fail.Outcomes.Single(o => o.Check.Kind == CheckKind.KolmogorovSmirnov);
         Assert.Equal(Verdict.Fail, ks.Verdict);
         Assert.InRange(ks.Value, 0.05, 0.11); // Φ(0.1) − Φ(−0.1) ≈ 0.0797 (standard normal table), binned and noisy
@@ -127,7 +127,7 @@ public sealed class ContractCheckTests : IDisposable
         var small = WriteCsv("small.csv", 2000, 4, 0);
         var report = ContractRun.Run(contract, small);
         Assert.Equal(0, report.Failures);
-        Assert.False(report.Passed); // inconclusive fails by default
+        Assert.False(report.NoCheckFailed()); // inconclusive fails by default
         var undecided = report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive).ToList();
         Assert.NotEmpty(undecided);
         foreach (var o in undecided)
@@ -151,7 +151,7 @@ public sealed class ContractCheckTests : IDisposable
         var contract = Setup(ContractText.Replace("defaults:", "decision: { inconclusive: warn }\ndefaults:"));
         var report = ContractRun.Run(contract, WriteCsv("small.csv", 2000, 4, 0));
         Assert.True(report.Inconclusive > 0);
-        Assert.True(report.Passed);
+        Assert.True(report.NoCheckFailed());
     }
 
     [Fact]
@@ -209,7 +209,7 @@ public sealed class ContractCheckTests : IDisposable
         Assert.All(report.Outcomes.Where(o => o.Check.Kind != CheckKind.Fraction), o => Assert.Equal(Verdict.Pass, o.Verdict));
 
         Csv("surrogate.csv", 60_000, 3, 0.30);
-        Assert.True(ContractRun.Run(contract).Passed);
+        Assert.True(ContractRun.Run(contract).NoCheckFailed());
     }
 
     [Fact]
@@ -263,7 +263,7 @@ public sealed class ContractCheckTests : IDisposable
         var (sx, sy) = Draw(50_000, 2);
         Write("surrogate.csv", sx, sy);
         var faithful = ContractRun.Run(contract);
-        Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+        Assert.True(faithful.NoCheckFailed(), string.Join("\n", faithful.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
         // Each outcome names what it was made on, at its declaration in the contract above (the program against its own
         // contract): the features, the pair (its entry, line 13), the joint block (its mapping, line 18).
         Assert.Equal(["x", "y"], faithful.Outcomes.Where(o => o.Subject is FeatureSubject).Select(o => o.Subject.Name).Distinct());
@@ -328,7 +328,7 @@ public sealed class ContractCheckTests : IDisposable
 
         PairsCsv("surrogate.csv", 30_000, 2);
         var report = ContractRun.Run(contract);
-        Assert.True(report.Passed, string.Join("\n", report.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+        Assert.True(report.NoCheckFailed(), string.Join("\n", report.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
 
         // A changed expression is a changed feature: the reference no longer fits.
         File.WriteAllText(contractPath, DerivedContract.Replace("cos(phi1 - phi2)", "cos(phi2 - phi1) * 1.0"));
@@ -416,7 +416,7 @@ public sealed class ContractCheckTests : IDisposable
 
         Write("surrogate.csv", 60_000, 2, 1.2, 0);
         var faithful = ContractRun.Run(contract);
-        Assert.True(faithful.Passed, string.Join("\n", faithful.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+        Assert.True(faithful.NoCheckFailed(), string.Join("\n", faithful.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
 
         Write("surrogate.csv", 60_000, 3, 1.2, 0.3); // category 2 shifted by 0.3σ
         var shifted = ContractRun.Run(contract);
@@ -524,7 +524,7 @@ public sealed class ContractCheckTests : IDisposable
 
         Write("unfolded.csv", 200_000, 2, 1);
         var closed = ContractRun.Run(contract);
-        Assert.True(closed.Passed, string.Join("\n", closed.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
+        Assert.True(closed.NoCheckFailed(), string.Join("\n", closed.Outcomes.Select(o => $"{o.Subject.Name} {o.Check.Label} {o.Verdict}: {o.Summary}")));
 
         Write("unfolded.csv", 200_000, 3, 1.03); // 3% high in 40–60 GeV of reco p_T only
         var open = ContractRun.Run(contract);

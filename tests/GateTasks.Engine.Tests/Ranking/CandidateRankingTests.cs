@@ -1,6 +1,7 @@
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Ranking;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Ranking;
 
@@ -14,7 +15,7 @@ public class CandidateRankingTests
         new("x", name, verdict, new Margin(margin, noise));
 
     private static CandidateResult Result(string name, params CandidateCheck[] checks) =>
-        new(name, [name], 1000, checks, checks.All(c => c.Verdict == Verdict.Pass));
+        new(name, [name], 1000, checks, checks.All(c => c.Verdict == Verdict.Pass) ? RunOutcome.Passed : RunOutcome.Failed);
 
     [Fact]
     public void Failed_checks_decide_first_then_inconclusive_checks_then_the_worst_margin()

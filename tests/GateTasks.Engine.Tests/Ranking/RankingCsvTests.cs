@@ -4,6 +4,7 @@ using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Ranking;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Ranking;
 
@@ -27,8 +28,8 @@ public class RankingCsvTests
         var odd = "dir, with \"quotes\"/epoch-1.parquet";
         var results = new[]
         {
-            new CandidateResult(odd, [odd], 1234, [new CandidateCheck("m_gg", "ratio-max[core]", Verdict.Pass, new Margin(0.125, 0.03))], true),
-            new CandidateResult("impossible", ["impossible"], 10, [new CandidateCheck("m_gg", "ks-max", Verdict.Fail, new Margin(double.NegativeInfinity, double.NaN))], false),
+            new CandidateResult(odd, [odd], 1234, [new CandidateCheck("m_gg", "ratio-max[core]", Verdict.Pass, new Margin(0.125, 0.03))], RunOutcome.Passed),
+            new CandidateResult("impossible", ["impossible"], 10, [new CandidateCheck("m_gg", "ks-max", Verdict.Fail, new Margin(double.NegativeInfinity, double.NaN))], RunOutcome.Failed),
             CandidateResult.Unchecked("broken", new GateInputException(ErrorCodes.SampleUnreadable, "line one,\nline \"two\"")),
         };
         var report = new RankingReport(contract, "r.parquet", CandidateRanking.Rank(results));

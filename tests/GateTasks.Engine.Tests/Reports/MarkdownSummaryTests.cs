@@ -2,6 +2,7 @@ using System.Text.RegularExpressions;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Reports;
+using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Tests.Reports;
 
@@ -81,7 +82,7 @@ public sealed class MarkdownSummaryTests(ReportCase run) : IClassFixture<ReportC
             Acceptance = [new GateTasks.Engine.Ledger.LedgerFinding(GateTasks.Engine.Diagnostics.ErrorCodes.LedgerUnrecordedLoosening, true,
                 "x ks-max changed from 0.03 to 0.05 since entry 1", new GateTasks.Engine.Diagnostics.SourceLocation("c.yaml", 8, 13))],
         };
-        Assert.True(report.Passed);
+        Assert.True(report.NoCheckFailed());
         var md = MarkdownSummary.Render(report).Split('\n');
         Assert.Equal("### GateTasks check NOT ACCEPTED: report-case", md[0]);
         Assert.Equal("- **GATE4003** x ks-max changed from 0.03 to 0.05 since entry 1", md[2]);
