@@ -132,4 +132,26 @@ public sealed class UndecidedRunTests : IDisposable
             .Single(p => p.Attribute("name")!.Value == "gatetasks.outcome").Attribute("value")!.Value);
         Assert.Equal(4, records.Count(r => Str(r, "type") == "report"));
     }
+
+    [Fact]
+    public void An_undecided_run_is_not_accepted_into_the_ledger_and_ranks_as_undecided_not_pass()
+    {
+        var contract = Setup("warn");
+        var ledger = Path.Combine(_dir, "precision-contract.ledger");
+        var (exit, stdout, stderr) = GatetasksProcess.Run(["accept", "--contract", contract, "--reason", "try", "--by", "Tester"], _dir);
+
+        Assert.True(exit == 2, $"exit {exit}\n{stdout}\n{stderr}"); // docs/error-codes.md: GATE4007, exit 2
+        Assert.Contains("GATE4007", stderr);
+        Assert.Contains("is undecided", stderr);
+        Assert.False(File.Exists(ledger) && File.ReadAllText(ledger).Contains("result", StringComparison.Ordinal), "nothing may be recorded");
+
+        var json = Path.Combine(_dir, "rank.json");
+        (exit, stdout, stderr) = GatetasksProcess.Run(["rank", "--contract", contract, "surrogate.parquet", "--json", json], _dir);
+        // docs/cli.md: status is pass, undecided, fail or error; no candidate passes, so rank exits 1.
+        Assert.True(exit == 1, $"exit {exit}\n{stdout}\n{stderr}");
+        using var doc = JsonDocument.Parse(File.ReadAllText(json));
+        var candidate = doc.RootElement.GetProperty("candidates").EnumerateArray().Single();
+        Assert.Equal("undecided", candidate.GetProperty("status").GetString());
+        Assert.False(doc.RootElement.GetProperty("any_passed").GetBoolean());
+    }
 }

@@ -9,6 +9,7 @@ namespace GateTasks.Engine.Tests.Checks;
 /// <summary>
 /// Threads change the time of a check, never its content: the demo contract (every kind of check) on a sample whose
 /// row groups are larger than one batch gives the same bits for every number with one, two or three threads.
+/// These tests compare the program with itself (thread counts); they have no outside source.
 /// </summary>
 public sealed class ParallelismTests : IDisposable
 {

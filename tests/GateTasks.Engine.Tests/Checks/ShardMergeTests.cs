@@ -10,6 +10,7 @@ namespace GateTasks.Engine.Tests.Checks;
 /// <summary>
 /// Fan-out: four shards of a sample accumulated apart and merged give what one pass over the whole sample gives —
 /// the same bits for every binned check, the same values to rounding for moments and coefficients, the same verdicts.
+/// These tests compare the program with itself (one pass against merged shards); they have no outside source.
 /// </summary>
 public sealed class ShardMergeTests : IDisposable
 {
