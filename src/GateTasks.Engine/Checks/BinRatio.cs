@@ -87,7 +87,7 @@ internal readonly record struct BinRatio(double Ratio, double SigmaReference, do
     {
         var (sr, ss) = SigmaAt(rho);
         var s = Math.Sqrt(sr * sr + ss * ss);
-        return s > 0 ? 1 - Normal.CDF(0, 1, distance / s) : 0;
+        return s > 0 ? Normal.CDF(0, 1, -distance / s) : 0;
     }
 
     /// <summary>

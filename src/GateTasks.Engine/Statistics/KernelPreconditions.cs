@@ -27,7 +27,8 @@ internal static class KernelPreconditions
 
     /// <summary>
     /// Signed histogram contents (cells may hold negative sums of weights): finite with a positive total; returns the
-    /// total. A total of zero or less leaves nothing to normalise by.
+    /// total. A total of zero or less leaves nothing to normalise by: the sample is empty as a distribution (a sample's
+    /// total weight ≤ 0 is refused when it is read, GATE2010, so this guards direct callers).
     /// </summary>
     internal static double RequireSignedContents(ReadOnlySpan<double> contents, string what)
     {
@@ -40,7 +41,8 @@ internal static class KernelPreconditions
             sum += c;
         }
         if (!(sum > 0))
-            throw new ArgumentException($"{what} has total weight {sum.ToString(System.Globalization.CultureInfo.InvariantCulture)}; a distribution needs a positive total.", what);
+            throw new GateInputException(ErrorCodes.SampleEmpty,
+                $"{what} has total weight {sum.ToString(System.Globalization.CultureInfo.InvariantCulture)}; a distribution needs a positive total.");
         return sum;
     }
 
