@@ -122,6 +122,32 @@ public class BinRatioCheckTests
     }
 
     [Fact]
+    public void A_common_event_weight_changes_nothing()
+    {
+        // Compares the program with itself: every event of both samples weighted 2.5 (Σw = 2.5·n, Σw² = 6.25·n) has the
+        // same Kish effective counts as unit weights, so the exact (small bins) and score (large bins) forms must give the
+        // same bounds and p-values.
+        var unit = Comparison([20, 3_000, 5], [0, 1_480, 4], [false, true, false]);
+        var weighted = unit with
+        {
+            Reference = unit.Reference with { Histogram = Scaled(unit.Reference.Histogram, 2.5) },
+            Surrogate = Scaled(unit.Surrogate, 2.5),
+        };
+        var spec = new RegionToleranceCheck(CheckKind.BinRatio, CheckRegion.All, 0.3, At);
+        var a = BinRatioCheck.Evaluate(unit, spec, Decision);
+        var b = BinRatioCheck.Evaluate(weighted, spec, Decision);
+        Assert.Equal(a.Upper, b.Upper, 9);
+        Assert.Equal(a.PValue, b.PValue, 9);
+    }
+
+    private static Histogram Scaled(Histogram h, double w)
+    {
+        var sumW = h.SumW.ToArray().Select(x => x * w).ToArray();
+        var sumW2 = h.SumW2.ToArray().Select(x => x * w * w).ToArray();
+        return Histogram.FromCells(h.Axis, sumW, sumW2, h.Entries, 0, 0, 0);
+    }
+
+    [Fact]
     public void Bins_empty_in_the_reference_are_counted_apart()
     {
         var c = Comparison([100, 0, 100], [50, 7, 50], [true, true, true]);
