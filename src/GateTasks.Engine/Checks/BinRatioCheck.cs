@@ -8,8 +8,9 @@ namespace GateTasks.Engine.Checks;
 
 /// <summary>
 /// Bin-by-bin ratio of the normalised contents, surrogate over reference, in one region; the effect is the largest
-/// |ratio − 1|. Each ratio's standard error comes from Σw² of both histograms (delta method). Pass: every bin's
-/// upper bound |r − 1| + z·σ lies below the tolerance — an intersection–union test, valid at the stated confidence
+/// |ratio − 1|. Each ratio's interval and p-value come from the count expected under the ratio judged, with both
+/// samples' errors, and from the exact conditional binomial for small counts (<see cref="BinRatio"/>). Pass: every
+/// bin's upper bound of |ρ − 1| lies below the tolerance — an intersection–union test, valid at the stated confidence
 /// without a multiplicity correction (Berger 1982). Fail: the smallest per-bin p-value of "|r − 1| ≤ tolerance",
 /// Bonferroni-corrected over the region's bins, enters the contract's family. Bins empty in the reference cannot
 /// form a ratio and are counted apart (the χ² and KS checks see them).
@@ -21,9 +22,6 @@ internal static class BinRatioCheck
         var reference = c.Reference.Histogram;
         var surrogate = c.Surrogate;
         var axis = reference.Axis;
-        var refTotal = reference.TotalSumW;
-        var surTotal = surrogate.TotalSumW;
-        var surEffective = KishCount.Of(surTotal, surrogate.TotalSumW2);
         var effect = new EffectIntersection(spec.Tolerance, decision, surrogate.Entries);
 
         var worst = double.NaN;
@@ -37,17 +35,21 @@ internal static class BinRatioCheck
         for (var b = 0; b < axis.Count; b++)
         {
             if (!covered[b]) continue;
-            if (BinRatio.Of(reference, surrogate, b, refTotal, surTotal, surEffective) is not { } bin)
+            if (BinRatio.Of(reference, surrogate, b) is not { } bin)
             {
                 var sw = surrogate.BinSumW(b);
                 if (sw != 0) { unreferenced++; unreferencedWeight += sw; }
                 continue;
             }
             compared++;
-            var (ratio, sigmaRef, sigmaSur) = bin;
-            var sigma = bin.Sigma;
+            var ratio = bin.Ratio;
             var deviation = Math.Abs(ratio - 1);
-            effect.Add(deviation, sigmaRef, sigmaSur);
+            var (lo, hi) = bin.Bounds(decision.Confidence);
+            var lowerDeviation = lo > 1 ? lo - 1 : hi < 1 ? 1 - hi : 0;
+            // The error parts at the ratio nearest the observed one that the tolerance allows, for the events needed.
+            var (sigmaRef, sigmaSur) = bin.SigmaAt(Math.Clamp(ratio, Math.Max(1 - spec.Tolerance, 0), 1 + spec.Tolerance));
+            var sigma = bin.Sigma;
+            effect.AddBounded(deviation, lowerDeviation, Math.Max(hi - 1, 1 - lo), bin.PValueWithin(spec.Tolerance), sigmaRef, sigmaSur);
             if (!(deviation <= worst))
             {
                 worst = deviation;

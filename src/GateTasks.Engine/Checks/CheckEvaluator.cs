@@ -6,8 +6,9 @@ namespace GateTasks.Engine.Checks;
 internal static class CheckEvaluator
 {
     /// <summary>
-    /// Measures, turning a kernel's refusal (negative cell contents from negative event weights, a cell with content
-    /// but no variance) into a failed measurement that says why, rather than a crash.
+    /// Measures, turning a kernel's refusal (e.g. negative cell contents a probability-based check cannot use, a cell
+    /// with content but no variance) into an uncomputable measurement that says why — undecided, never a fail — rather
+    /// than a crash.
     /// </summary>
     public static Measurement Measure(FeatureComparison comparison, CheckSpec spec, DecisionSettings decision)
     {
@@ -17,8 +18,8 @@ internal static class CheckEvaluator
         }
         catch (ArgumentException e)
         {
-            return Measurement.Impossible($"{spec.Key} cannot be computed on these histograms: {e.Message} " +
-                                          "(negative event weights leave cells a probability-based check cannot use; ratio-max, ks-max and mean-shift-max accept them)", []);
+            return Measurement.Impossible($"{spec.Key} on these histograms: {e.Message} " +
+                                          "(negative event weights can leave cells a probability-based check cannot use; ratio-max, ks-max, ks-test and mean-shift-max accept them)", []);
         }
     }
 

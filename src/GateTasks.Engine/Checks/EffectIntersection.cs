@@ -34,6 +34,21 @@ internal sealed class EffectIntersection(double tolerance, DecisionSettings deci
     }
 
     /// <summary>
+    /// Adds one part judged by its own bounds and p-value (from an exact or score interval rather than estimate ± z·σ):
+    /// the lower and upper confidence bounds of its deviation, the p-value of "within tolerance", and the reference
+    /// and sample parts of its standard error, from which the events needed are estimated.
+    /// </summary>
+    public void AddBounded(double deviation, double lowerDeviation, double upperDeviation, double pValue, double seReference, double seSample)
+    {
+        Parts++;
+        Upper = Math.Max(Upper, upperDeviation);
+        Lower = Math.Max(Lower, lowerDeviation);
+        _smallestP = Math.Min(_smallestP, pValue);
+        if (upperDeviation >= tolerance)
+            _needed = Math.Max(_needed, Measurement.EventsFor(Math.Abs(tolerance - deviation), _z, seReference, seSample, sampleEvents));
+    }
+
+    /// <summary>
     /// Adds a fraction difference as a part: the weight share of a subset in each sample, with the binomial error
     /// √(f(1−f)/n) at Kish (1965) effective counts — the reference's fraction, the better-measured one under the null,
     /// standing in for both. Returns the two fractions and the sample's effective count.

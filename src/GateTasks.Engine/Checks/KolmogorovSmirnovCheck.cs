@@ -8,7 +8,9 @@ namespace GateTasks.Engine.Checks;
 /// Kolmogorov–Smirnov distance of the binned distributions (Kolmogorov 1933, Smirnov 1939) as an effect size, with
 /// a confidence band from the Dvoretzky–Kiefer–Wolfowitz inequality with Massart's (1990) constant: each empirical
 /// CDF is within ε(α) = √(ln(2/α)/2n) of its truth with probability 1 − α, so the true distance is within
-/// ε₁ + ε₂ of the observed one (α split evenly; Kish effective counts for weighted samples, an approximation).
+/// ε₁ + ε₂ of the observed one (α split evenly). Weighted samples, negative weights included, enter at the effective
+/// count of their CDF (<see cref="KolmogorovSmirnov.CdfEffectiveCount"/>: each boundary's variance from the cells'
+/// Σw², delta method), an approximation: DKW is proven for unit weights.
 /// </summary>
 internal static class KolmogorovSmirnovCheck
 {
@@ -16,8 +18,8 @@ internal static class KolmogorovSmirnovCheck
     {
         var reference = c.Reference.Histogram;
         var d = KolmogorovSmirnov.BinnedDistance(reference.SumW, c.Surrogate.SumW);
-        var n1 = KishCount.Of(reference.TotalSumW, reference.TotalSumW2);
-        var n2 = KishCount.Of(c.Surrogate.TotalSumW, c.Surrogate.TotalSumW2);
+        var n1 = KolmogorovSmirnov.CdfEffectiveCount(reference.SumW, reference.SumW2);
+        var n2 = KolmogorovSmirnov.CdfEffectiveCount(c.Surrogate.SumW, c.Surrogate.SumW2);
         var alpha = 1 - decision.Confidence;
         var half = DkwBound.TwoSampleHalfWidth(n1, n2, alpha);
         // ε(α) = K·√ln(4/α) with K = (1/√n₁ + 1/√n₂)/√2, so "distance above tolerance" has p = 4·exp(−((D − tol)/K)²).

@@ -14,9 +14,15 @@ internal sealed record Measurement(
     string Summary,
     IReadOnlyList<KeyValuePair<string, string>> Details)
 {
-    /// <summary>A measurement that cannot be made (e.g. an empty region): it fails with its reason.</summary>
+    /// <summary>
+    /// True when the effect could not be computed from these histograms: nothing was measured, so nothing can be
+    /// decided — the check is inconclusive with its reason as the summary, and its p-value (NaN) carries no evidence.
+    /// </summary>
+    public bool Uncomputable { get; init; }
+
+    /// <summary>A measurement that cannot be made (e.g. an empty region): undecided, with its reason; never a p-value of 0.</summary>
     public static Measurement Impossible(string why, IReadOnlyList<KeyValuePair<string, string>> details) =>
-        new(double.NaN, double.NaN, double.NaN, 0, double.NaN, why, details);
+        new(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, "cannot be computed: " + why, details) { Uncomputable = true };
 
     /// <summary>
     /// Surrogate events needed for an interval of half-width z·σ to fit in <paramref name="gap"/>, when

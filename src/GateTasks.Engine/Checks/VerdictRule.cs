@@ -8,7 +8,7 @@ namespace GateTasks.Engine.Checks;
 /// of the contract (Holm 1979 by default), is at most the family-wise false-alarm level — so a faithful surrogate
 /// fails a build with at most that probability however many checks the contract has. Pass: the effect's upper
 /// confidence bound is below the tolerance (an equivalence test, Schuirmann 1987; tests: not significant).
-/// Otherwise inconclusive.
+/// Otherwise inconclusive — as is a check whose effect could not be computed (<see cref="Measurement.Uncomputable"/>).
 /// </summary>
 internal static class VerdictRule
 {
@@ -23,7 +23,10 @@ internal static class VerdictRule
         {
             var (subject, check, m) = items[i];
             Verdict verdict;
-            if (rejected[i] || (check is ToleranceCheck && double.IsNaN(m.Estimate))) verdict = Verdict.Fail;
+            // Nothing measured is nothing decided: an uncomputable effect is inconclusive, never a fail (its p-value of
+            // NaN entered the family as 1, so it cannot be rejected) nor a pass.
+            if (m.Uncomputable || (check is ToleranceCheck && double.IsNaN(m.Estimate))) verdict = Verdict.Inconclusive;
+            else if (rejected[i]) verdict = Verdict.Fail;
             else if (check is not ToleranceCheck bounded || m.Upper < bounded.Tolerance) verdict = Verdict.Pass;
             else verdict = Verdict.Inconclusive;
             outcomes.Add(new CheckOutcome(subject, check, m, verdict, adjusted[i], levels[i]));

@@ -33,7 +33,6 @@ internal sealed record ComparedBin(
         var axis = reference.Axis;
         var refTotal = reference.TotalSumW;
         var surTotal = surrogate.TotalSumW;
-        var surEffective = KishCount.Of(surTotal, surrogate.TotalSumW2);
         var density = c.Spec.Kind != FeatureKind.Discrete;
         var bins = new ComparedBin[axis.Count];
         for (var b = 0; b < bins.Length; b++)
@@ -43,7 +42,7 @@ internal sealed record ComparedBin(
                 axis.Lower(b), axis.Upper(b),
                 Fraction(reference.BinSumW(b), refTotal), Error(reference.BinSumW2(b), refTotal),
                 Fraction(surrogate.BinSumW(b), surTotal), Error(surrogate.BinSumW2(b), surTotal),
-                BinRatio.Of(reference, surrogate, b, refTotal, surTotal, surEffective),
+                BinRatio.Of(reference, surrogate, b),
                 c.CoreBins[b])
             {
                 Scale = density && width > 0 ? width : 1,

@@ -106,7 +106,7 @@ internal static class JUnitReport
             if (counted)
             {
                 var code = o.Verdict == Verdict.Fail ? CheckEvaluator.DriftCode(o.Check) : CheckEvaluator.InconclusiveCode;
-                var what = o.Verdict == Verdict.Fail ? o.Summary : $"inconclusive: {o.Summary}; {ResultTable.NeededText(m.EventsNeeded)}";
+                var what = o.Verdict == Verdict.Fail ? o.Summary : $"inconclusive: {o.Summary}; {UndecidedReason.Of(m)}";
                 w.WriteStartElement("failure");
                 w.WriteAttributeString("message", Clean($"{o.Subject.Name} {o.Check.Label}: {what}"));
                 w.WriteAttributeString("type", code);
@@ -119,7 +119,7 @@ internal static class JUnitReport
             else if (o.Verdict == Verdict.Inconclusive)
             {
                 w.WriteStartElement("skipped");
-                w.WriteAttributeString("message", Clean($"{o.Subject.Name} {o.Check.Label}: inconclusive, {ResultTable.NeededText(m.EventsNeeded)}"));
+                w.WriteAttributeString("message", Clean($"{o.Subject.Name} {o.Check.Label}: inconclusive, {(m.Uncomputable ? o.Summary : UndecidedReason.Of(m))}"));
                 w.WriteEndElement();
             }
             w.WriteEndElement();

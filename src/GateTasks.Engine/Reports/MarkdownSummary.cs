@@ -42,7 +42,7 @@ internal static class MarkdownSummary
             sb.Append("|---|---|---|---:|---:|---|\n");
             foreach (var o in open)
             {
-                var verdict = o.Verdict == Verdict.Fail ? "**FAIL**" : "inconclusive" + Needed(o.Measured.EventsNeeded);
+                var verdict = o.Verdict == Verdict.Fail ? "**FAIL**" : o.Measured.Uncomputable ? "inconclusive (" + o.Summary + ")" : "inconclusive" + Needed(o.Measured.EventsNeeded);
                 Row(sb, Code(o.Subject.Name), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o), verdict);
             }
             sb.Append('\n');

@@ -32,7 +32,7 @@ internal static class ResultTable
                 ToleranceText(o),
                 InvariantNumber.Short(o.AdjustedPValue),
                 VerdictText(o.Verdict),
-                o.Verdict == Verdict.Inconclusive ? EventsText(m.EventsNeeded) : "",
+                o.Verdict == Verdict.Inconclusive ? UndecidedReason.Cell(m) : "",
             ]);
         }
         var widths = Enumerable.Range(0, header.Length).Select(c => rows.Max(r => r[c].Length)).ToArray();

@@ -25,6 +25,27 @@ internal static class KernelPreconditions
                 $"{whatA} has {a} bins but {whatB} has {b}; the histograms must share their binning.");
     }
 
+    /// <summary>
+    /// Signed histogram contents (cells may hold negative sums of weights): finite with a positive total; returns the
+    /// total. A total of zero or less leaves nothing to normalise by: the sample is empty as a distribution (a sample's
+    /// total weight ≤ 0 is refused when it is read, GATE2010, so this guards direct callers).
+    /// </summary>
+    internal static double RequireSignedContents(ReadOnlySpan<double> contents, string what)
+    {
+        double sum = 0;
+        for (int i = 0; i < contents.Length; i++)
+        {
+            double c = contents[i];
+            if (!double.IsFinite(c))
+                throw new ArgumentException($"{what}[{i}] is {c.ToString(System.Globalization.CultureInfo.InvariantCulture)}; bin contents must be finite.", what);
+            sum += c;
+        }
+        if (!(sum > 0))
+            throw new GateInputException(ErrorCodes.SampleEmpty,
+                $"{what} has total weight {sum.ToString(System.Globalization.CultureInfo.InvariantCulture)}; a distribution needs a positive total.");
+        return sum;
+    }
+
     /// <summary>Histogram contents: finite and non-negative with a positive total; returns the total.</summary>
     internal static double RequireContents(ReadOnlySpan<double> contents, string what)
     {

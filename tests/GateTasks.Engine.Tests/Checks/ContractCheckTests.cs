@@ -170,6 +170,32 @@ public sealed class ContractCheckTests : IDisposable
     }
 
     [Fact]
+    public void A_check_that_cannot_be_computed_is_undecided_with_its_reason_in_every_report()
+    {
+        // docs/contract.md: an effect that cannot be computed (here a divergence of probabilities over cells with negative
+        // sums of weights) is inconclusive with its reason, never a p-value of 0; the other checks are measured.
+        var contract = Setup(ContractText.Replace("sample: surrogate.csv", "sample: { path: surrogate.csv, weight: w }")
+            .Replace("ks-max: 0.03", "ks-max: 0.03\n    jsd-max: 0.01").Replace("defaults:", "decision: { inconclusive: warn }\ndefaults:"));
+        var normal = new Normal(0, 1, new Xoshiro256StarStar(8));
+        // Every event beyond ±1.5 carries weight −1: the outer cells hold negative sums.
+        File.WriteAllLines(Path.Combine(_dir, "surrogate.csv"), new[] { "x,w" }.Concat(Enumerable.Range(0, 20_000)
+            .Select(_ => normal.Sample()).Select(x => string.Create(CultureInfo.InvariantCulture, $"{x:R},{(Math.Abs(x) > 1.5 ? -1.0 : 1.0)}"))));
+        var report = ContractRun.Run(contract);
+        var jsd = report.Outcomes.Single(o => o.Check.Kind == CheckKind.JensenShannon);
+        Assert.True(jsd.Measured.Uncomputable, jsd.Summary);
+        Assert.Equal(Verdict.Inconclusive, jsd.Verdict);
+        Assert.NotEqual(0, jsd.AdjustedPValue);
+        Assert.All(report.Outcomes.Where(o => o.Check.Kind is CheckKind.KolmogorovSmirnov or CheckKind.BinRatio),
+            o => Assert.False(o.Measured.Uncomputable, o.Summary));
+        const string reason = "cannot be computed:";
+        Assert.Contains(reason, GateTasks.Engine.Reports.JUnitReport.Render([report]));
+        Assert.Contains(reason, GateTasks.Engine.Reports.HtmlReport.Render(report));
+        Assert.Contains(reason, GateTasks.Engine.Reports.MarkdownSummary.Render(report));
+        Assert.Contains("not computable", GateTasks.Engine.Reports.ResultTable.Format(report));
+        Assert.Contains(GateTasks.Engine.Reports.RunDiagnostics.Of(report), d => d.Text.Contains(reason) && d.Text.Contains("not computable"));
+    }
+
+    [Fact]
     public void A_wrong_zero_spike_fraction_fails_the_spike_check_while_the_rest_passes()
     {
         const string spiky = """
