@@ -21,9 +21,11 @@ internal sealed record AccumulatedFeature(Histogram Histogram, FeatureSummary Su
 
 /// <summary>
 /// One declared pair, finished: Pearson's r, Spearman's ρ (the Pearson correlation of the reference-CDF ranks), the
-/// Kish effective count of the pairs used, and the 2-D cells when its χ² test is asked for.
+/// Kish effective count of the pairs used, each coefficient's asymptotic variance n·Var
+/// (<see cref="Statistics.WeightedCorrelation.AsymptoticVariance"/>), and the 2-D cells when its χ² test is asked for.
 /// </summary>
-internal sealed record AccumulatedPair(CorrelationSpec Spec, double Pearson, double Spearman, double EffectiveCount, CellSums? Cells);
+internal sealed record AccumulatedPair(CorrelationSpec Spec, double Pearson, double Spearman, double EffectiveCount,
+    double PearsonVariance, double SpearmanVariance, CellSums? Cells);
 
 /// <summary>Σw and Σw² of a histogram's cells, each rounded once from its exact sum.</summary>
 internal sealed record CellSums(double[] SumW, double[] SumW2);

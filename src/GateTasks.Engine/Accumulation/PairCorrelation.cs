@@ -45,14 +45,14 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
     public bool SetState(PairState state)
     {
         if (state.Name != Spec.Name) return false;
-        _pearson.Restore(state.Pearson.ToArray());
-        _spearman.Restore(state.Spearman.ToArray());
+        if (!_pearson.Restore(state.Pearson.ToArray()) || !_spearman.Restore(state.Spearman.ToArray())) return false;
         if (_cells is null) return state.Cells is null;
         return state.Cells is { } cells && _cells.AddState(cells);
     }
 
     /// <summary>The pair, finished.</summary>
-    public AccumulatedPair Finish() => new(Spec, Pearson, Spearman, EffectiveCount, _cells is null ? null : new CellSums(_cells.SumW(), _cells.SumW2()));
+    public AccumulatedPair Finish() => new(Spec, Pearson, Spearman, EffectiveCount,
+        _pearson.AsymptoticVariance, _spearman.AsymptoticVariance, _cells is null ? null : new CellSums(_cells.SumW(), _cells.SumW2()));
 
     /// <summary>Adds another accumulation of the same pair (coefficients to rounding, 2-D cells exactly).</summary>
     public void Merge(PairCorrelation other)

@@ -139,7 +139,7 @@ internal static class ReferenceBuilder
                     throw new GateInputException(ErrorCodes.ContractBadValue,
                         $"The correlation of {p.Spec.Name} is undefined in the reference sample: one of the two is constant (or all NaN).", p.Spec.Location);
                 correlations.Add(new ReferenceCorrelation(p.Spec.First, p.Spec.Second, p.Pearson, p.Spearman, p.EffectiveCount,
-                    p.Cells?.SumW, p.Cells?.SumW2));
+                    p.PearsonVariance, p.SpearmanVariance, p.Cells?.SumW, p.Cells?.SumW2));
             }
             for (var i = 0; i < n; i++)
                 if (farTail[i] is { } counter) result[i] = result[i] with { FarTail = counter.Counts };

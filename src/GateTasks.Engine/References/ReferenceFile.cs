@@ -12,15 +12,15 @@ using GateTasks.Engine.Accumulation;
 namespace GateTasks.Engine.References;
 
 /// <summary>
-/// The reference file format, version 2 (docs/reference-format.md): a Parquet file whose rows are histogram
+/// The reference file format, version 3 (docs/reference-format.md): a Parquet file whose rows are histogram
 /// cells (feature, cell, lower, upper, sum_w, sum_w2) and whose key/value metadata entry
 /// <c>gatetasks.reference</c> holds a JSON header with provenance, per-feature statistics and the SHA-256 of the
-/// whole content (<see cref="ReferenceDigest"/>), verified on every read. Version 1 had no digest and is refused
-/// with the command that rebuilds it.
+/// whole content (<see cref="ReferenceDigest"/>), verified on every read. Version 1 had no digest, version 2 no
+/// fourth-moment variance of its correlations; both are refused with the command that rebuilds them.
 /// </summary>
 internal static class ReferenceFile
 {
-    public const int FormatVersion = 2;
+    public const int FormatVersion = 3;
     public const string MetadataKey = "gatetasks.reference";
     public const string FormatKey = "gatetasks.reference.format";
 
@@ -116,7 +116,10 @@ internal static class ReferenceFile
                 throw Unreadable(path, "it is a Parquet file but not a GateTasks reference (no header metadata)");
             if (fmt == "1")
                 throw Unreadable(path, "it is in reference format 1, which carries no checksum of its content, so an edit to it cannot be detected; " +
-                    "rebuild it with 'gatetasks reference build' (format 2), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+                    "rebuild it with 'gatetasks reference build' (format 3), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+            if (fmt == "2")
+                throw Unreadable(path, "it is in reference format 2, which stores no large-sample variance of its correlations (fourth moments), so a Pearson or Spearman check would rest on the normal-law error; " +
+                    "rebuild it with 'gatetasks reference build' (format 3), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt != FormatVersion.ToString(CultureInfo.InvariantCulture))
                 throw Unreadable(path, $"reference format version {fmt} is not supported; this GateTasks reads version {FormatVersion}");
             var header = JsonNode.Parse(json)!.AsObject();
@@ -244,6 +247,7 @@ internal static class ReferenceFile
             ["correlations"] = new JsonArray((r.Correlations ?? []).Select(c => (JsonNode)new JsonObject
             {
                 ["first"] = c.First, ["second"] = c.Second, ["pearson"] = c.Pearson, ["spearman"] = c.Spearman, ["effective_count"] = c.EffectiveCount,
+                ["pearson_variance"] = c.PearsonVariance, ["spearman_variance"] = c.SpearmanVariance,
                 ["cells_2d_sum_w"] = c.Cells2DSumW is null ? null : new JsonArray(c.Cells2DSumW.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray()),
                 ["cells_2d_sum_w2"] = c.Cells2DSumW2 is null ? null : new JsonArray(c.Cells2DSumW2.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray()),
             }).ToArray()),
@@ -299,6 +303,7 @@ internal static class ReferenceFile
             features,
             Correlations: h["correlations"] is JsonArray pairs
                 ? pairs.Select(c => new ReferenceCorrelation((string)c!["first"]!, (string)c["second"]!, (double)c["pearson"]!, (double)c["spearman"]!, (double)c["effective_count"]!,
+                    (double)c["pearson_variance"]!, (double)c["spearman_variance"]!,
                     (c["cells_2d_sum_w"] as JsonArray)?.Select(v => (double)v!).ToArray(), (c["cells_2d_sum_w2"] as JsonArray)?.Select(v => (double)v!).ToArray())).ToList()
                 : [],
             Joint: h["joint"] is JsonObject joint

@@ -64,6 +64,8 @@ public sealed class ShardMergeTests : IDisposable
                 case CheckKind.MeanShift or CheckKind.WidthRatio or CheckKind.PearsonDifference or CheckKind.SpearmanDifference:
                     // Unbinned moments and coefficients merge by Chan et al.'s update: equal to rounding.
                     Assert.True(Math.Abs(a.Measured.Estimate - b.Measured.Estimate) <= 1e-9 * Math.Max(1e-3, Math.Abs(a.Measured.Estimate)), $"{what}: {a.Measured.Estimate} vs {b.Measured.Estimate}");
+                    // The upper bound rests on the merged variance (for the coefficients, the fourth co-moments): to rounding too.
+                    Assert.True(Math.Abs(a.Measured.Upper - b.Measured.Upper) <= 1e-9 * Math.Max(1e-3, Math.Abs(a.Measured.Upper)), $"{what}: upper {a.Measured.Upper} vs {b.Measured.Upper}");
                     break;
                 case CheckKind.EnergyTest:
                     break; // a merged reservoir is a valid subsample of the union, not the same one: the verdict is compared above

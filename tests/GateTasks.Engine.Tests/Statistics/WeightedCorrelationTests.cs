@@ -1,9 +1,28 @@
+using System.Text.Json;
 using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Tests.Statistics;
 
 public class WeightedCorrelationTests
 {
+    private static readonly JsonElement VarianceCases =
+        JsonDocument.Parse(File.ReadAllText(Path.Combine(AppContext.BaseDirectory, "fixtures", "scipy", "correlation_variance.json")))
+            .RootElement.GetProperty("cases");
+
+    private static double[] Numbers(JsonElement c, string name) => c.GetProperty(name).EnumerateArray().Select(v => v.GetDouble()).ToArray();
+
+    private static JsonElement Case(string name) => VarianceCases.EnumerateArray().Single(c => c.GetProperty("name").GetString() == name);
+
+    private static WeightedCorrelation Fill(JsonElement c)
+    {
+        var x = Numbers(c, "x");
+        var y = Numbers(c, "y");
+        var w = c.TryGetProperty("w", out _) ? Numbers(c, "w") : null;
+        var acc = new WeightedCorrelation();
+        for (var i = 0; i < x.Length; i++) acc.Add(x[i], y[i], w?[i] ?? 1.0);
+        return acc;
+    }
+
     [Fact]
     public void Pearson_matches_scipy()
     {
@@ -28,13 +47,77 @@ public class WeightedCorrelationTests
             for (var k = 0; k < w[i]; k++) repeated.Add(x[i], y[i]);
         }
         Assert.Equal(repeated.Pearson, weighted.Pearson, 12);
+        Assert.Equal(repeated.AsymptoticVariance, weighted.AsymptoticVariance, 12);
+    }
+
+    [Theory]
+    [InlineData("lognormal_energy_response")]
+    [InlineData("bivariate_normal_0.6")]
+    [InlineData("weighted_lognormal")]
+    public void Asymptotic_variance_matches_numpy(string name)
+    {
+        var c = Case(name);
+        var acc = Fill(c);
+        // numpy 1.24.2: n·Var(r) as numpy.average((zx*zy - r/2*(zx**2 + zy**2))**2, weights=w), the influence-function
+        // form, evaluated independently of the streamed fourth moments (tests/fixtures/scipy/correlation_variance.json).
+        Assert.Equal(c.GetProperty("pearson").GetDouble(), acc.Pearson, 10);
+        Assert.Equal(c.GetProperty("n_var").GetDouble(), acc.AsymptoticVariance, 1e-9 * c.GetProperty("n_var").GetDouble());
+    }
+
+    [Theory]
+    [InlineData("lognormal_energy_response")]
+    [InlineData("bivariate_normal_0.6")]
+    public void Standard_error_agrees_with_scipy_bootstrap(string name)
+    {
+        var c = Case(name);
+        var acc = Fill(c);
+        var se = WeightedCorrelation.StandardError(acc.AsymptoticVariance, acc.EffectiveCount);
+        // scipy 1.10.1: scipy.stats.bootstrap((x, y), pearson, paired=True, n_resamples=4000, method='percentile',
+        // random_state=default_rng(7)).standard_error; 4000 resamples of n = 3000 leave a few percent of noise.
+        Assert.InRange(se / c.GetProperty("bootstrap_se").GetDouble(), 0.93, 1.07);
     }
 
     [Fact]
-    public void Standard_error_is_fishers_large_sample_form()
+    public void Heavy_tails_widen_the_error_well_beyond_the_normal_law()
     {
-        // (1 − r²)/√(n − 3): r = 0.5, n = 103 → 0.75/10 = 0.075 [exact, hand-computed].
-        Assert.Equal(0.075, WeightedCorrelation.StandardError(0.5, 103, spearman: false), 12);
-        Assert.Equal(0.075 * Math.Sqrt(1.06), WeightedCorrelation.StandardError(0.5, 103, spearman: true), 12);
+        // The same fixture: the bootstrap standard error is about 4× the bivariate-normal (1 − r²)/√(n − 3) (scipy 1.10.1).
+        var c = Case("lognormal_energy_response");
+        var acc = Fill(c);
+        Assert.True(WeightedCorrelation.StandardError(acc.AsymptoticVariance, acc.EffectiveCount) > 3 * c.GetProperty("normal_se").GetDouble());
+    }
+
+    [Fact]
+    public void Normal_law_gives_fishers_large_sample_form()
+    {
+        // For a bivariate normal μ40 = μ04 = 3, μ22 = 1 + 2ρ², μ31 = μ13 = 3ρ, and the fourth-moment form reduces to
+        // (1 − ρ²)² [textbook identity, Anderson 2003 §4.2.3]; the fixture's normal case is within sampling noise of it.
+        var c = Case("bivariate_normal_0.6");
+        var acc = Fill(c);
+        var r = acc.Pearson;
+        Assert.InRange(acc.AsymptoticVariance / ((1 - r * r) * (1 - r * r)), 0.9, 1.1);
+        // √(n·Var / n_eff): r = 0.5 under the normal law gives n·Var = 0.75² = 0.5625, over 100 events 0.075 [hand-computed].
+        Assert.Equal(0.075, WeightedCorrelation.StandardError(0.5625, 100), 12);
+    }
+
+    [Fact]
+    public void Merged_shards_equal_one_pass()
+    {
+        // Compares the program with itself: shards merged pairwise against one streamed pass, to rounding.
+        var c = Case("weighted_lognormal");
+        var x = Numbers(c, "x");
+        var y = Numbers(c, "y");
+        var w = Numbers(c, "w");
+        var one = Fill(c);
+        var parts = new[] { new WeightedCorrelation(), new WeightedCorrelation(), new WeightedCorrelation() };
+        for (var i = 0; i < x.Length; i++) parts[i < 37 ? 0 : i < 250 ? 1 : 2].Add(x[i], y[i], w[i]);
+        var restored = new WeightedCorrelation();
+        Assert.True(restored.Restore(parts[1].State()));
+        parts[0].Merge(restored);
+        parts[0].Merge(parts[2]);
+        Assert.Equal(one.Count, parts[0].Count);
+        Assert.Equal(one.Pearson, parts[0].Pearson, 12);
+        Assert.Equal(one.AsymptoticVariance, parts[0].AsymptoticVariance, 1e-10 * one.AsymptoticVariance);
+        Assert.Equal(one.EffectiveCount, parts[0].EffectiveCount, 9);
+        Assert.False(new WeightedCorrelation().Restore(new double[8])); // the eight numbers of an older partial
     }
 }
