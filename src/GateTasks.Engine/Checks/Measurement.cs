@@ -14,6 +14,15 @@ internal sealed record Measurement(
     string Summary,
     IReadOnlyList<KeyValuePair<string, string>> Details)
 {
+    /// <summary>
+    /// The effect's parts with their standard errors (effect checks built on <see cref="EffectIntersection"/>); empty
+    /// for the rest. <see cref="NeededEvents"/> solves the events needed to decide from them.
+    /// </summary>
+    public IReadOnlyList<EffectPart> Parts { get; init; } = [];
+
+    /// <summary>The events the sample parts of <see cref="Parts"/>' errors were measured on (a category's own events for a category feature).</summary>
+    public long PartsEvents { get; init; }
+
     /// <summary>A measurement that cannot be made (e.g. an empty region): it fails with its reason.</summary>
     public static Measurement Impossible(string why, IReadOnlyList<KeyValuePair<string, string>> details) =>
         new(double.NaN, double.NaN, double.NaN, 0, double.NaN, why, details);
