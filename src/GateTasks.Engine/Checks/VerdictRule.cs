@@ -15,9 +15,12 @@ internal static class VerdictRule
 {
     /// <param name="items">Every check of the contract with what it measured.</param>
     /// <param name="decision">The contract's decision settings.</param>
-    /// <param name="sampleEvents">The whole sample's events, to carry a category's events needed over to the sample's (0: not known).</param>
+    /// <param name="sampleEvents">
+    /// The whole sample's events, to carry a category's events needed over to the sample's (0: not known); null when
+    /// no report will show the events needed (the simulated replicas of plan and calibrate), which are then not solved.
+    /// </param>
     public static List<CheckOutcome> Decide(IReadOnlyList<(CheckSubject Subject, CheckSpec Check, Measurement Measured)> items, DecisionSettings decision,
-        long sampleEvents = 0)
+        long? sampleEvents = null)
     {
         var p = items.Select(i => double.IsNaN(i.Measured.PValue) ? 1.0 : Math.Clamp(i.Measured.PValue, 0, 1)).ToArray();
         var adjusted = p.Length == 0 ? [] : MultipleTesting.Adjust(p, decision.Correction);
@@ -33,7 +36,7 @@ internal static class VerdictRule
             else verdict = Verdict.Inconclusive;
             outcomes.Add(new CheckOutcome(subject, check, m, verdict, adjusted[i], levels[i])
             {
-                Needed = verdict == Verdict.Inconclusive ? NeededEvents.For(subject, check, m, decision, items.Count, sampleEvents) : null,
+                Needed = verdict == Verdict.Inconclusive && sampleEvents is { } events ? NeededEvents.For(subject, check, m, decision, items.Count, events) : null,
             });
         }
         return outcomes;
