@@ -129,7 +129,10 @@ def main():
                 continue
             needed = float(props.get("events_needed", "nan"))
             if not math.isfinite(needed):
-                rows.append({"pilot": pilot, "check": "/".join(key), "events_needed": props.get("events_needed"), "replicas": 0, "decided": 0})
+                # +inf: "more reference events" (no surrogate size decides at the estimated effect); NaN: no figure at all.
+                rows.append({"pilot": pilot, "check": "/".join(key), "events_needed": props.get("events_needed"), "replicas": 0, "decided": 0,
+                             "more_reference": needed == math.inf})
+                print(f"pilot {pilot} {'/'.join(key):40s} needed {props.get('events_needed')}: not drawn", flush=True)
                 continue
             size = int(math.ceil(needed))
             if size > a.max_events:
@@ -153,7 +156,8 @@ def main():
     decided = sum(r["decided"] for r in rows)
     lo, hi = clopper_pearson(decided, total) if total else (float("nan"), float("nan"))
     summary = {"replicas": total, "decided": decided, "rate": decided / total if total else float("nan"),
-               "ci95": [lo, hi], "checks": rows, "undecided_without_figure": sum(1 for r in rows if r["replicas"] == 0 and not r.get("too_large")),
+               "ci95": [lo, hi], "checks": rows, "undecided_without_figure": sum(1 for r in rows if r["replicas"] == 0 and not r.get("too_large") and not r.get("more_reference")),
+               "more_reference_events": sum(1 for r in rows if r.get("more_reference")),
                "above_max_events": sum(1 for r in rows if r.get("too_large")),
                "numpy": np.__version__, "seed": a.seed}
     print(f"decided {decided} of {total} replicas at the stated size: {summary['rate']:.3f} [95% CI {lo:.3f}, {hi:.3f}]")

@@ -122,14 +122,14 @@ internal static class ResultTable
     /// What would decide an inconclusive check, in words: "≈1200000 surrogate events needed to decide (a 90% chance
     /// to pass if the effect is as estimated)"; for a category, its own events and the whole sample's at its share;
     /// when the reference caps the chance, that size with the cap said; when no surrogate size decides, "more reference
-    /// events needed to decide: no surrogate sample size is enough".
+    /// events needed to decide: at the effect as estimated, no surrogate sample size is enough".
     /// </summary>
     public static string NeededText(CheckOutcome o) => NeededText(o.Needed ?? NeededEvents.Unknown);
 
     /// <inheritdoc cref="NeededText(CheckOutcome)"/>
     public static string NeededText(NeededEvents n)
     {
-        if (n.ReferenceLimits) return "more reference events needed to decide: no surrogate sample size is enough";
+        if (n.ReferenceLimits) return "more reference events needed to decide: at the effect as estimated, no surrogate sample size is enough";
         if (double.IsNaN(n.Events)) return "more surrogate events needed to decide";
         var size = double.IsNaN(n.CategoryEvents)
             ? $"{Rounded(n.Events)} surrogate events needed to decide"

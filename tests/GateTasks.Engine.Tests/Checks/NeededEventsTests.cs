@@ -98,6 +98,6 @@ public class NeededEventsTests
         // σ_ref 0.013 > 0.02/1.645: the reference alone leaves no room on either side.
         var limited = NeededEvents.For(x, MeanShift, OnePart(0.01, 0.013, 0.01), DecisionSettings.Default, 20, 1000);
         Assert.True(limited.ReferenceLimits);
-        Assert.Equal("more reference events needed to decide: no surrogate sample size is enough", ResultTable.NeededText(limited));
+        Assert.Equal("more reference events needed to decide: at the effect as estimated, no surrogate sample size is enough", ResultTable.NeededText(limited));
     }
 }
