@@ -9,7 +9,8 @@ namespace GateTasks.Cli.Tests;
 /// <summary>
 /// A run that no check failed but some could not decide, under a contract whose inconclusive checks only warn, is
 /// UNDECIDED — in the console, every report, the record stream and the exit code (5) — never PASSED; under a contract
-/// whose inconclusive checks fail it is FAILED, as before. The expectations are the documented behaviour (docs/cli.md,
+/// whose inconclusive checks fail it is UNDECIDED too (never FAILED, which means a tolerance was exceeded), with exit
+/// code 5 and its GATE3100 messages as errors. The expectations are the documented behaviour (docs/cli.md,
 /// docs/reports.md, docs/msbuild.md); the record stream is read with System.Text.Json, a parser independent of the
 /// engine's own. Through the real gatetasks program, in a process of its own.
 /// </summary>
@@ -101,16 +102,45 @@ public sealed class UndecidedRunTests : IDisposable
     }
 
     [Fact]
-    public void Under_a_contract_whose_inconclusive_checks_fail_the_same_run_fails_as_before()
+    public void Under_a_contract_whose_inconclusive_checks_fail_the_run_is_undecided_not_failed_and_exits_non_zero()
     {
         var contract = Setup("fail");
         var (exit, stdout, stderr, records) = Check(contract);
 
-        Assert.True(exit == 1, $"exit {exit}\n{stdout}\n{stderr}"); // docs/cli.md: 1 a check failed, or was inconclusive with inconclusive: fail
-        Assert.Contains("FAILED: ", stdout);
+        Assert.True(exit == 5, $"exit {exit}\n{stdout}\n{stderr}"); // docs/cli.md: 5 undecided, whatever the inconclusive policy
+        Assert.DoesNotContain("FAILED", stdout);
+        Assert.DoesNotContain("PASSED", stdout);
+        var summary = stdout.Split('\n').Single(l => l.StartsWith("UNDECIDED: ", StringComparison.Ordinal));
+        Assert.Contains(" 0 failed, ", summary);
+        Assert.Contains("fail the build under this contract", summary);
         Assert.Contains("error GATE3100", stderr);
-        Assert.Equal("failed", Str(records.Single(r => Str(r, "type") == "outcome"), "outcome"));
-        Assert.All(records.Where(r => Str(r, "type") == "diagnostic" && Str(r, "code") == "GATE3100"), d => Assert.Equal("error", Str(d, "severity")));
+        Assert.DoesNotContain("warning GATE3100", stderr);
+
+        // Every report states the same outcome.
+        var text = File.ReadAllText(Report(".txt"));
+        Assert.Contains("UNDECIDED: ", text);
+        Assert.DoesNotContain("FAILED", text);
+        var html = File.ReadAllText(Report(".html"));
+        Assert.Contains("<title>UNDECIDED ", html);
+        Assert.Contains("<body data-verdict=\"undecided\">", html);
+        Assert.Contains("<span class=\"stamp inconclusive\" id=\"overall\">UNDECIDED</span>", html);
+        Assert.DoesNotContain("FAILED", html);
+        var markdown = File.ReadAllText(Report(".md"));
+        Assert.StartsWith("### GateTasks check UNDECIDED", markdown);
+        Assert.Contains("(inconclusive checks fail the build under this contract)", markdown);
+        var junit = XDocument.Load(Report(".junit.xml")).Root!;
+        Assert.Equal("undecided", junit.Descendants("property").Single(p => p.Attribute("name")!.Value == "gatetasks.outcome").Attribute("value")!.Value);
+        // docs/reports.md: with inconclusive: fail each inconclusive check is a JUnit failure of type GATE3100 (CI shows
+        // it red), none of a drift code.
+        var failures = junit.Descendants("failure").ToList();
+        Assert.NotEmpty(failures);
+        Assert.All(failures, f => Assert.Equal("GATE3100", f.Attribute("type")!.Value));
+
+        Assert.Equal("undecided", Str(records.Single(r => Str(r, "type") == "outcome"), "outcome"));
+        var inconclusive = records.Where(r => Str(r, "type") == "diagnostic" && Str(r, "code") == "GATE3100").ToList();
+        Assert.NotEmpty(inconclusive);
+        Assert.All(inconclusive, d => Assert.Equal("error", Str(d, "severity")));
+        Assert.Equal(summary.TrimEnd('\r'), Str(records.Single(r => Str(r, "type") == "text" && Str(r, "level") == "summary"), "text"));
     }
 
     [Fact]

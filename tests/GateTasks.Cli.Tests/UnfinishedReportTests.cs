@@ -120,7 +120,7 @@ public sealed class UnfinishedReportTests : IDisposable
             using var timeout = new CancellationTokenSource(TimeSpan.FromMinutes(2));
             await process.WaitForExitAsync(timeout.Token);
             var said = await output + await error;
-            Assert.True(process.ExitCode is 0 or 1 or 4, $"exit {process.ExitCode}: {said}");
+            Assert.True(process.ExitCode is 0 or 1 or 4 or 5, $"exit {process.ExitCode}: {said}"); // docs/cli.md: a finished run (5: undecided)
             process.Dispose();
         }
 

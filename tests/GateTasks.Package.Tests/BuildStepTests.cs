@@ -319,6 +319,31 @@ public class BuildStepTests(PackageFeed feed)
     }
 
     [Fact]
+    public void An_undecided_run_under_inconclusive_fail_fails_the_build_and_says_UNDECIDED_never_FAILED()
+    {
+        // The demo's contract as shipped (inconclusive: fail; no ledger: a warning) over a faithful sample of 3 000
+        // events: too few to decide every check, none drifted.
+        var p = GateProject.Create(feed, "UndecidedFailGate");
+        File.Delete(Path.Combine(p.Directory, "precision-contract.ledger"));
+        GateTasks.Engine.Demo.DemoSampleWriter.Write(Path.Combine(p.Directory, "small.parquet"), GateTasks.Engine.Demo.DemoScenarioParameters.FullSimulation,
+            3_000, 32, 1_000);
+        var stamp = Path.Combine(p.Directory, "obj", "gate", "passed.stamp");
+
+        // docs/msbuild.md: with inconclusive: fail each inconclusive check is an error at its line and the build fails,
+        // but the run is UNDECIDED (the engine's exit code 5), not FAILED: no tolerance was shown exceeded.
+        var (code, output) = p.Build("-p:GateSample=small.parquet");
+        Assert.True(code != 0, output);
+        Assert.Matches(@"precision-contract\.yaml\(\d+,\d+\): error GATE3100: ", output);
+        Assert.DoesNotMatch(@"error GATE30\d\d", output);
+        Assert.Matches(new Regex(@"^\s*UNDECIDED: \d+ of 92 checks within tolerance, 0 failed", RegexOptions.Multiline), output);
+        Assert.DoesNotMatch(new Regex(@"^\s*(PASSED|FAILED):", RegexOptions.Multiline), output);
+        Assert.StartsWith("### GateTasks check UNDECIDED", File.ReadAllText(Path.Combine(p.ReportDirectory, "precision-contract.md")));
+        Assert.Contains("data-verdict=\"undecided\"", File.ReadAllText(Path.Combine(p.ReportDirectory, "precision-contract.html")));
+        Assert.Contains("name=\"gatetasks.outcome\" value=\"undecided\"", File.ReadAllText(p.JUnitReport));
+        Assert.False(File.Exists(stamp), output);
+    }
+
+    [Fact]
     public void A_multi_targeted_project_checks_once()
     {
         var p = GateProject.Create(feed, "MultiGate");

@@ -14,6 +14,9 @@ internal sealed record CheckOutcome(
     double AdjustedPValue,
     double Level)
 {
+    /// <summary>For an inconclusive check, the surrogate events that would decide it (<see cref="NeededEvents"/>); else null.</summary>
+    public NeededEvents? Needed { get; init; }
+
     /// <summary>The estimate (effect checks) or statistic (tests).</summary>
     public double Value => Measured.Estimate;
 

@@ -69,6 +69,6 @@ internal static class ContractEvaluation
             var permutations = jointSpec.PermutationsFor(measured.Count + 1, contract.Decision.FalseAlarm);
             measured.Add((subject, jointSpec.Test, JointCheck.Evaluate(stored.Rows.ToArray(), sample.Joint!.Rows.ToArray(), jointSpec, permutations)));
         }
-        return new EvaluatedChecks(comparisonOf, VerdictRule.Decide(measured, contract.Decision));
+        return new EvaluatedChecks(comparisonOf, VerdictRule.Decide(measured, contract.Decision, sample.Events));
     }
 }

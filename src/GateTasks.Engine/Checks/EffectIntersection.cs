@@ -16,6 +16,7 @@ internal sealed class EffectIntersection(double tolerance, DecisionSettings deci
     private readonly double _z = Normal.InvCDF(0, 1, decision.Confidence);
     private double _smallestP = 1;
     private double _needed;
+    private readonly List<EffectPart> _parts = [];
 
     public int Parts { get; private set; }
     public double Upper { get; private set; } = double.NegativeInfinity;
@@ -26,6 +27,7 @@ internal sealed class EffectIntersection(double tolerance, DecisionSettings deci
     {
         var se = Math.Sqrt(seReference * seReference + seSample * seSample);
         Parts++;
+        _parts.Add(new EffectPart(deviation, seReference, seSample));
         Upper = Math.Max(Upper, deviation + _z * se);
         Lower = Math.Max(Lower, deviation - _z * se);
         _smallestP = Math.Min(_smallestP, se > 0 ? 1 - Normal.CDF(0, 1, (deviation - tolerance) / se) : deviation > tolerance ? 0 : 1);
@@ -67,9 +69,13 @@ internal sealed class EffectIntersection(double tolerance, DecisionSettings deci
     /// <summary>P-value of "the effect is within tolerance".</summary>
     public double PValue => Math.Min(1, Parts * _smallestP);
 
-    /// <summary>Surrogate events to decide, or NaN when already decided.</summary>
+    /// <summary>
+    /// Surrogate events for every part's interval to clear the tolerance at today's deviations, or NaN when already
+    /// decided: the check's own first figure; the one reports show is <see cref="NeededEvents"/>', solved after the
+    /// contract-wide decision.
+    /// </summary>
     public double EventsNeeded => Upper < tolerance || PValue <= decision.FalseAlarm ? double.NaN : _needed;
 
     public Measurement ToMeasurement(double estimate, string summary, IReadOnlyList<KeyValuePair<string, string>> details) =>
-        new(estimate, Math.Max(0, Lower), Upper, PValue, EventsNeeded, summary, details);
+        new(estimate, Math.Max(0, Lower), Upper, PValue, EventsNeeded, summary, details) { Parts = _parts.ToArray(), PartsEvents = sampleEvents };
 }

@@ -15,6 +15,15 @@ internal sealed record Measurement(
     IReadOnlyList<KeyValuePair<string, string>> Details)
 {
     /// <summary>
+    /// The effect's parts with their standard errors (effect checks built on <see cref="EffectIntersection"/>); empty
+    /// for the rest. <see cref="NeededEvents"/> solves the events needed to decide from them.
+    /// </summary>
+    public IReadOnlyList<EffectPart> Parts { get; init; } = [];
+
+    /// <summary>The events the sample parts of <see cref="Parts"/>' errors were measured on (a category's own events for a category feature).</summary>
+    public long PartsEvents { get; init; }
+
+    /// <summary>
     /// True when the effect could not be computed from these histograms: nothing was measured, so nothing can be
     /// decided — the check is inconclusive with its reason as the summary, and its p-value (NaN) carries no evidence.
     /// </summary>

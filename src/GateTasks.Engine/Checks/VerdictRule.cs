@@ -8,11 +8,19 @@ namespace GateTasks.Engine.Checks;
 /// of the contract (Holm 1979 by default), is at most the family-wise false-alarm level — so a faithful surrogate
 /// fails a build with at most that probability however many checks the contract has. Pass: the effect's upper
 /// confidence bound is below the tolerance (an equivalence test, Schuirmann 1987; tests: not significant).
-/// Otherwise inconclusive — as is a check whose effect could not be computed (<see cref="Measurement.Uncomputable"/>).
+/// Otherwise inconclusive (as is a check whose effect could not be computed, <see cref="Measurement.Uncomputable"/>), with the surrogate events that would decide it (<see cref="NeededEvents"/>, which needs the
+/// family's size: the fail side is solved at its strictest level).
 /// </summary>
 internal static class VerdictRule
 {
-    public static List<CheckOutcome> Decide(IReadOnlyList<(CheckSubject Subject, CheckSpec Check, Measurement Measured)> items, DecisionSettings decision)
+    /// <param name="items">Every check of the contract with what it measured.</param>
+    /// <param name="decision">The contract's decision settings.</param>
+    /// <param name="sampleEvents">
+    /// The whole sample's events, to carry a category's events needed over to the sample's (0: not known); null when
+    /// no report will show the events needed (the simulated replicas of plan and calibrate), which are then not solved.
+    /// </param>
+    public static List<CheckOutcome> Decide(IReadOnlyList<(CheckSubject Subject, CheckSpec Check, Measurement Measured)> items, DecisionSettings decision,
+        long? sampleEvents = null)
     {
         var p = items.Select(i => double.IsNaN(i.Measured.PValue) ? 1.0 : Math.Clamp(i.Measured.PValue, 0, 1)).ToArray();
         var adjusted = p.Length == 0 ? [] : MultipleTesting.Adjust(p, decision.Correction);
@@ -29,7 +37,10 @@ internal static class VerdictRule
             else if (rejected[i]) verdict = Verdict.Fail;
             else if (check is not ToleranceCheck bounded || m.Upper < bounded.Tolerance) verdict = Verdict.Pass;
             else verdict = Verdict.Inconclusive;
-            outcomes.Add(new CheckOutcome(subject, check, m, verdict, adjusted[i], levels[i]));
+            outcomes.Add(new CheckOutcome(subject, check, m, verdict, adjusted[i], levels[i])
+            {
+                Needed = verdict == Verdict.Inconclusive && !m.Uncomputable && sampleEvents is { } events ? NeededEvents.For(subject, check, m, decision, items.Count, events) : null,
+            });
         }
         return outcomes;
     }

@@ -185,11 +185,11 @@ internal static class HtmlReport
               .Append("<td class=\"num\">").Append(E(ResultTable.ToleranceText(o))).Append("</td>")
               .Append("<td class=\"num\">").Append(E(InvariantNumber.Short(o.AdjustedPValue))).Append("</td>")
               .Append("<td><span class=\"badge ").Append(css).Append("\">").Append(ResultTable.VerdictText(o.Verdict)).Append("</span></td>")
-              .Append("<td class=\"num\">").Append(E(o.Verdict == Verdict.Inconclusive ? UndecidedReason.Cell(o.Measured) : "")).Append("</td>")
+              .Append("<td class=\"num\">").Append(E(o.Verdict == Verdict.Inconclusive ? UndecidedReason.Cell(o) : "")).Append("</td>")
               .Append("</tr>\n");
             if (o.Verdict != Verdict.Pass)
                 sb.Append("<tr class=\"why ").Append(css).Append("\"><td colspan=\"8\">").Append(E(o.Summary))
-                  .Append(o.Verdict == Verdict.Inconclusive ? E("; " + UndecidedReason.Of(o.Measured)) : "")
+                  .Append(o.Verdict == Verdict.Inconclusive ? E("; " + UndecidedReason.Of(o)) : "")
                   .Append(" <span class=\"where\">").Append(E(o.Check.Location.ToString())).Append("</span></td></tr>\n");
         }
         sb.Append("</tbody>\n</table>\n");

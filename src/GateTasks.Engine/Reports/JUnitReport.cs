@@ -98,7 +98,16 @@ internal static class JUnitReport
             Property(w, "adjusted_p_value", InvariantNumber.Exact(o.AdjustedPValue));
             Property(w, "level", InvariantNumber.Exact(o.Level));
             Property(w, "verdict", ResultTable.VerdictText(o.Verdict).ToLowerInvariant());
-            if (o.Verdict == Verdict.Inconclusive) Property(w, "events_needed", InvariantNumber.Exact(m.EventsNeeded));
+            if (o.Needed is { } needed)
+            {
+                Property(w, "events_needed", InvariantNumber.Exact(needed.Events));
+                if (!double.IsNaN(needed.CategoryEvents)) Property(w, "events_needed_in_category", InvariantNumber.Exact(needed.CategoryEvents));
+                if (!needed.ReferenceLimits && !double.IsNaN(needed.Chance))
+                {
+                    Property(w, "events_needed_decides", needed.Side == DecidingSide.Pass ? "pass" : "fail");
+                    Property(w, "events_needed_chance", InvariantNumber.Exact(needed.Chance));
+                }
+            }
             foreach (var (k, v) in o.Details) Property(w, k, v);
             w.WriteEndElement();
 
@@ -106,7 +115,7 @@ internal static class JUnitReport
             if (counted)
             {
                 var code = o.Verdict == Verdict.Fail ? CheckEvaluator.DriftCode(o.Check) : CheckEvaluator.InconclusiveCode;
-                var what = o.Verdict == Verdict.Fail ? o.Summary : $"inconclusive: {o.Summary}; {UndecidedReason.Of(m)}";
+                var what = o.Verdict == Verdict.Fail ? o.Summary : $"inconclusive: {o.Summary}; {UndecidedReason.Of(o)}";
                 w.WriteStartElement("failure");
                 w.WriteAttributeString("message", Clean($"{o.Subject.Name} {o.Check.Label}: {what}"));
                 w.WriteAttributeString("type", code);
@@ -119,7 +128,7 @@ internal static class JUnitReport
             else if (o.Verdict == Verdict.Inconclusive)
             {
                 w.WriteStartElement("skipped");
-                w.WriteAttributeString("message", Clean($"{o.Subject.Name} {o.Check.Label}: inconclusive, {(m.Uncomputable ? o.Summary : UndecidedReason.Of(m))}"));
+                w.WriteAttributeString("message", Clean($"{o.Subject.Name} {o.Check.Label}: inconclusive, {(m.Uncomputable ? o.Summary : UndecidedReason.Of(o))}"));
                 w.WriteEndElement();
             }
             w.WriteEndElement();

@@ -29,7 +29,9 @@ internal static class MarkdownSummary
         if (report.Acceptance.Any(f => f.IsError)) sb.Append('\n');
         sb.Append($"**{report.Failures} failed**, **{report.Inconclusive} inconclusive**, {passed.Count} passed of {report.Outcomes.Count} checks " +
                   $"on {report.Contract.Features.Count} features")
-          .Append(report.Inconclusive > 0 && !report.Contract.Decision.InconclusiveFails ? " (inconclusive checks only warn under this contract)" : "")
+          .Append(report.Inconclusive == 0 ? ""
+              : report.Contract.Decision.InconclusiveFails ? " (inconclusive checks fail the build under this contract)"
+              : " (inconclusive checks only warn under this contract)")
           .Append(".\n\n");
         sb.Append("Sample ").Append(string.Join(", ", report.SampleFiles.Take(3).Select(f => Code(Path.GetFileName(f)))))
           .Append(report.SampleFiles.Count > 3 ? $" and {report.SampleFiles.Count - 3} more" : "")
@@ -42,7 +44,7 @@ internal static class MarkdownSummary
             sb.Append("|---|---|---|---:|---:|---|\n");
             foreach (var o in open)
             {
-                var verdict = o.Verdict == Verdict.Fail ? "**FAIL**" : o.Measured.Uncomputable ? "inconclusive (" + o.Summary + ")" : "inconclusive" + Needed(o.Measured.EventsNeeded);
+                var verdict = o.Verdict == Verdict.Fail ? "**FAIL**" : o.Measured.Uncomputable ? "inconclusive (" + o.Summary + ")" : "inconclusive" + Needed(o);
                 Row(sb, Code(o.Subject.Name), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o), verdict);
             }
             sb.Append('\n');
@@ -61,10 +63,10 @@ internal static class MarkdownSummary
         return sb.ToString();
     }
 
-    private static string Needed(double events) =>
-        double.IsPositiveInfinity(events) ? " (needs more reference events)"
-        : double.IsNaN(events) ? ""
-        : $" ({ResultTable.EventsText(events)} events needed)";
+    private static string Needed(CheckOutcome o) =>
+        o.Needed is not { } n || double.IsNaN(n.Events) ? ""
+        : n.ReferenceLimits ? " (needs more reference events)"
+        : $" ({ResultTable.EventsText(o)} events needed)";
 
     private static void Row(StringBuilder sb, params string[] cells) =>
         sb.Append("| ").Append(string.Join(" | ", cells.Select(c => c.Replace("|", "\\|")))).Append(" |\n");

@@ -32,7 +32,7 @@ internal static class ResultTable
                 ToleranceText(o),
                 InvariantNumber.Short(o.AdjustedPValue),
                 VerdictText(o.Verdict),
-                o.Verdict == Verdict.Inconclusive ? UndecidedReason.Cell(m) : "",
+                o.Verdict == Verdict.Inconclusive ? UndecidedReason.Cell(o) : "",
             ]);
         }
         var widths = Enumerable.Range(0, header.Length).Select(c => rows.Max(r => r[c].Length)).ToArray();
@@ -94,10 +94,24 @@ internal static class ResultTable
         _ => "inconclusive",
     };
 
-    /// <summary>"1.2e+06", or "more reference events" when the reference's own statistics limit the decision.</summary>
-    public static string EventsText(double events)
+    /// <summary>
+    /// The table's "events needed" cell of an inconclusive check: "≈1200000" surrogate events, for a category also
+    /// its own ("≈1200000 (≈4000 in category)"), a trailing "?" when the reference caps the chance at even, or "more
+    /// reference events" when no surrogate size decides it; empty for a decided check.
+    /// </summary>
+    public static string EventsText(CheckOutcome o)
     {
-        if (double.IsPositiveInfinity(events)) return "more reference events";
+        if (o.Needed is not { } n) return "";
+        if (n.ReferenceLimits) return "more reference events";
+        if (double.IsNaN(n.Events)) return "";
+        var text = Rounded(n.Events) + (double.IsNaN(n.CategoryEvents) ? "" : $" ({Rounded(n.CategoryEvents)} in category)");
+        return n.Chance < NeededEvents.Power ? text + "?" : text;
+    }
+
+    /// <summary>"≈1200000": three significant digits, rounded up.</summary>
+    public static string Rounded(double events)
+    {
+        if (double.IsPositiveInfinity(events)) return "∞";
         if (double.IsNaN(events)) return "";
         // Three significant digits: the estimate assumes the observed deviations persist, no more precision is meant.
         var magnitude = Math.Pow(10, Math.Max(0, Math.Floor(Math.Log10(Math.Max(events, 1))) - 2));
@@ -105,13 +119,30 @@ internal static class ResultTable
     }
 
     /// <summary>
-    /// "≈1200000 surrogate events needed to decide", or, when the reference's own statistics limit the decision,
-    /// "more reference events needed to decide: no surrogate sample size is enough".
+    /// What would decide an inconclusive check, in words: "≈1200000 surrogate events needed to decide (a 90% chance
+    /// to pass if the effect is as estimated)"; for a category, its own events and the whole sample's at its share;
+    /// when the reference caps the chance, that size with the cap said; when no surrogate size decides, "more reference
+    /// events needed to decide: at the effect as estimated, no surrogate sample size is enough".
     /// </summary>
-    public static string NeededText(double events) =>
-        double.IsPositiveInfinity(events) ? "more reference events needed to decide: no surrogate sample size is enough"
-        : double.IsNaN(events) ? "more surrogate events needed to decide"
-        : $"{EventsText(events)} surrogate events needed to decide";
+    public static string NeededText(CheckOutcome o) => NeededText(o.Needed ?? NeededEvents.Unknown);
+
+    /// <inheritdoc cref="NeededText(CheckOutcome)"/>
+    public static string NeededText(NeededEvents n)
+    {
+        if (n.ReferenceLimits) return "more reference events needed to decide: at the effect as estimated, no surrogate sample size is enough";
+        if (double.IsNaN(n.Events)) return "more surrogate events needed to decide";
+        var size = double.IsNaN(n.CategoryEvents)
+            ? $"{Rounded(n.Events)} surrogate events needed to decide"
+            : $"{Rounded(n.CategoryEvents)} events in this category needed to decide, {Rounded(n.Events)} surrogate events at its share of " +
+              (n.Share * 100).ToString("0.###", CultureInfo.InvariantCulture) + "%";
+        if (double.IsNaN(n.Chance)) return size;
+        var way = n.Side == DecidingSide.Pass ? "pass" : "fail";
+        return n.Chance >= NeededEvents.Power
+            ? $"{size} (a {Percent(n.Chance)} chance to {way} if the effect is as estimated)"
+            : $"{size} (only an even chance to {way} if the effect is as estimated: the reference's own uncertainty leaves no more; more reference events would help)";
+    }
+
+    private static string Percent(double p) => (p * 100).ToString("0", CultureInfo.InvariantCulture) + "%";
 
     /// <summary>One line saying what was checked and how it went; for an undecided run, also what would decide it.</summary>
     public static string Summary(RunResult report)
@@ -125,18 +156,22 @@ internal static class ResultTable
     }
 
     /// <summary>
-    /// Why a run is undecided and what would decide it: the inconclusive checks, which only warn under the contract,
-    /// and the surrogate events the most demanding of them needs (each check's own number is in the table).
+    /// Why a run is undecided and what would decide it: the inconclusive checks (which fail the build or only warn, as
+    /// the contract says) and the surrogate events the most demanding of them needs (each check's own number is in the
+    /// table).
     /// </summary>
     public static string UndecidedNote(RunResult report)
     {
         var open = report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive).ToList();
-        var needed = open.Select(o => o.Measured.EventsNeeded).ToList();
+        var needed = open.Select(o => o.Needed ?? NeededEvents.Unknown).ToList();
         // The largest number decides them all; a check that no sample size decides (the reference limits it) says so.
-        var most = needed.Any(double.IsPositiveInfinity) ? double.PositiveInfinity
-            : needed.Where(double.IsFinite).DefaultIfEmpty(double.NaN).Max();
+        var most = needed.FirstOrDefault(n => n.ReferenceLimits)
+            ?? needed.Where(n => double.IsFinite(n.Events)).MaxBy(n => n.Events) ?? NeededEvents.Unknown;
+        // The sample is generated whole: the most demanding check's whole-sample figure is what to generate.
+        if (!double.IsNaN(most.CategoryEvents)) most = most with { CategoryEvents = double.NaN, Share = 1 };
         var names = string.Join(", ", open.Take(3).Select(o => $"{o.Subject.Name} {o.Check.Label}")) + (open.Count > 3 ? $" and {open.Count - 3} more" : "");
-        return $"Not every tolerance was shown met: {open.Count} inconclusive check{(open.Count == 1 ? "" : "s")} ({names}) only warn under this contract; " +
+        return $"Not every tolerance was shown met: {open.Count} inconclusive check{(open.Count == 1 ? "" : "s")} ({names}) " +
+               (report.Contract.Decision.InconclusiveFails ? "fail the build under this contract (decision.inconclusive: fail); " : "only warn under this contract; ") +
                NeededText(most) + ".";
     }
 }

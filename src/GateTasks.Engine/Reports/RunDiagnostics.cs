@@ -18,7 +18,7 @@ internal static class RunDiagnostics
         var severity = report.Contract.Decision.InconclusiveFails ? DiagnosticSeverity.Error : DiagnosticSeverity.Warning;
         foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive))
             yield return new Diagnostic(CheckEvaluator.InconclusiveCode, severity, o.Check.Location,
-                $"feature '{o.Subject.Name}' {o.Check.Label} is inconclusive: {o.Summary}; " + UndecidedReason.Of(o.Measured));
+                $"feature '{o.Subject.Name}' {o.Check.Label} is inconclusive: {o.Summary}; " + UndecidedReason.Of(o));
         foreach (var f in report.Acceptance) yield return f.Diagnostic;
     }
 }

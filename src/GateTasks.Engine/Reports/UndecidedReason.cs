@@ -8,9 +8,9 @@ namespace GateTasks.Engine.Reports;
 /// </summary>
 internal static class UndecidedReason
 {
-    public static string Of(Measurement m) =>
-        m.Uncomputable ? "not computable on these histograms: more events do not decide it as it stands" : ResultTable.NeededText(m.EventsNeeded);
+    public static string Of(CheckOutcome o) =>
+        o.Measured.Uncomputable ? "not computable on these histograms: more events do not decide it as it stands" : ResultTable.NeededText(o);
 
     /// <summary>The short form for a table cell.</summary>
-    public static string Cell(Measurement m) => m.Uncomputable ? "not computable" : ResultTable.EventsText(m.EventsNeeded);
+    public static string Cell(CheckOutcome o) => o.Measured.Uncomputable ? "not computable" : ResultTable.EventsText(o);
 }

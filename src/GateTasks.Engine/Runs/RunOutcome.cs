@@ -4,8 +4,9 @@ namespace GateTasks.Engine.Runs;
 
 /// <summary>
 /// How one run of a contract ended, decided in one place (<see cref="RunOutcomes.Decide"/>) so that the console, every
-/// report, the exit code and the build step say the same. PASSED means every tolerance was shown met: a run that no
-/// check failed but some could not decide is UNDECIDED, never PASSED.
+/// report, the exit code and the build step say the same. PASSED means every tolerance was shown met and FAILED that one
+/// was shown exceeded: a run that no check failed but some could not decide is UNDECIDED, never PASSED nor FAILED,
+/// whatever the contract's inconclusive policy (which decides only whether an undecided run fails the build).
 /// </summary>
 /// <remarks>Dependency-free: the build step's task compiles this file too.</remarks>
 internal enum RunOutcome
@@ -13,12 +14,13 @@ internal enum RunOutcome
     /// <summary>Every check passed and the contract and reference in use are the accepted ones.</summary>
     Passed,
 
-    /// <summary>A check failed (or was inconclusive, where the contract counts that as failing).</summary>
+    /// <summary>A check failed: a tolerance was shown exceeded.</summary>
     Failed,
 
     /// <summary>
-    /// No check failed, at least one was inconclusive, and the contract lets inconclusive checks only warn: no
-    /// tolerance was shown missed, but not every one was shown met.
+    /// No check failed and at least one was inconclusive: no tolerance was shown missed, but not every one was shown
+    /// met. Under <c>decision.inconclusive: fail</c> it fails the build (its GATE3100 messages are errors), under
+    /// <c>warn</c> it only warns; the outcome is the same word either way.
     /// </summary>
     Undecided,
 
@@ -33,12 +35,13 @@ internal enum RunOutcome
 internal static class RunOutcomes
 {
     /// <summary>
-    /// The outcome of a finished run: failed checks (and inconclusive ones where the contract says they fail) fail it;
-    /// a broken ledger makes the rest NOT ACCEPTED; inconclusive checks that only warn make it UNDECIDED.
+    /// The outcome of a finished run: a failed check fails it; a broken ledger makes the rest NOT ACCEPTED; inconclusive
+    /// checks make it UNDECIDED (the contract's inconclusive policy says only whether that fails the build, not what
+    /// the run is called: FAILED always means a tolerance was exceeded).
     /// </summary>
-    public static RunOutcome Decide(int failures, int inconclusive, bool inconclusiveFails, bool acceptanceHolds)
+    public static RunOutcome Decide(int failures, int inconclusive, bool acceptanceHolds)
     {
-        if (failures > 0 || (inconclusive > 0 && inconclusiveFails)) return RunOutcome.Failed;
+        if (failures > 0) return RunOutcome.Failed;
         if (!acceptanceHolds) return RunOutcome.NotAccepted;
         return inconclusive > 0 ? RunOutcome.Undecided : RunOutcome.Passed;
     }

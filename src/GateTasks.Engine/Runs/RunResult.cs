@@ -37,8 +37,8 @@ internal sealed record RunResult(
     public int Inconclusive => Outcomes.Count(o => o.Verdict == Verdict.Inconclusive);
 
     /// <summary>How the checks alone ended, the ledger aside (what ranking compares and what an acceptance needs).</summary>
-    public RunOutcome ChecksOutcome => RunOutcomes.Decide(Failures, Inconclusive, Contract.Decision.InconclusiveFails, acceptanceHolds: true);
+    public RunOutcome ChecksOutcome => RunOutcomes.Decide(Failures, Inconclusive, acceptanceHolds: true);
 
     /// <summary>How the run ended: the one verdict every report, the console and the exit code show.</summary>
-    public RunOutcome Outcome => RunOutcomes.Decide(Failures, Inconclusive, Contract.Decision.InconclusiveFails, AcceptanceHolds);
+    public RunOutcome Outcome => RunOutcomes.Decide(Failures, Inconclusive, AcceptanceHolds);
 }

@@ -127,13 +127,18 @@ public sealed class ContractCheckTests : IDisposable
         var small = WriteCsv("small.csv", 2000, 4, 0);
         var report = ContractRun.Run(contract, small);
         Assert.Equal(0, report.Failures);
-        Assert.False(report.NoCheckFailed()); // inconclusive fails by default
+        // docs/cli.md: undecided, not failed — no tolerance was shown exceeded (it still fails the build by default).
+        Assert.Equal(GateTasks.Engine.Runs.RunOutcome.Undecided, report.ChecksOutcome);
         var undecided = report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive).ToList();
         Assert.NotEmpty(undecided);
         foreach (var o in undecided)
         {
             // More events than it has, and a finite number: the reference (40 000 events) is precise enough.
             Assert.True(o.Measured.EventsNeeded > 2000 && double.IsFinite(o.Measured.EventsNeeded), $"{o.Check.Label}: {o.Measured.EventsNeeded}");
+            // The figure reports show (docs/cli.md, events needed): more than it has, or "more reference events" where a
+            // part's estimate sits so near the tolerance that the reference's own error leaves no room on either side
+            // (a ratio-max bin estimated just beyond 0.15 with σ_ref ≈ 0.016 of 4 000 reference events per bin).
+            Assert.True(o.Needed is { } n && (n.ReferenceLimits || (double.IsFinite(n.Events) && n.Events > 2000)), $"{o.Check.Label}: {o.Needed}");
         }
         // Drawing the number of events it asked for decides the KS check (within a factor for noise).
         var ks = undecided.FirstOrDefault(o => o.Check.Kind == CheckKind.KolmogorovSmirnov);
