@@ -8,7 +8,8 @@ namespace GateTasks.Cli.Commands;
 
 /// <summary>
 /// <c>gatetasks draft</c>: writes a starter contract from a trusted sample, every tolerance derived from the analysis's
-/// expected number of data events and the share of their statistical uncertainty the surrogate's bias may take.
+/// expected number of data events and the share of their statistical uncertainty the surrogate's bias may take, and
+/// raised to what a perfect surrogate can pass against a reference built from the same sample.
 /// </summary>
 internal static class DraftCommand
 {
@@ -38,14 +39,14 @@ internal static class DraftCommand
         {
             Description = "Leave out the columns whose names match this glob (* any run, ? one character; repeatable). Nothing is left out by default; " +
                           $"columns named like generator-level truth ({string.Join(", ", GeneratorLevelNames.Globs)}) are flagged in the draft for review.",
-            AllowMultipleArgumentsPerToken = false,
+            HelpName = "glob",
         };
         var weight = new Option<string?>("--weight") { Description = "Weight column of the trusted sample (also written as the contract's sample weight)." };
         var sample = new Option<string>("--sample-path") { Description = "The surrogate sample path written into the contract.", DefaultValueFactory = _ => "surrogate/*.parquet" }.NotEmpty();
         var reference = new Option<string?>("--reference-path") { Description = "The reference path written into the contract (default: reference/<trusted sample>-reference.parquet)." }.NotEmpty();
         var output = new Option<string>("--output", "-o") { Description = "Where to write the draft.", DefaultValueFactory = _ => Engine.Contracts.PrecisionContract.DefaultFileName }.NotEmpty();
         var force = new Option<bool>("--force") { Description = "Replace the output file if it exists." };
-        var command = new Command("draft", "Draft a starter contract from a trusted sample: kinds inferred per column, tolerances derived from the analysis's expected data size.")
+        var command = new Command("draft", "Draft a starter contract from a trusted sample: kinds inferred per column, tolerances derived from the analysis's expected data size and raised where a reference built from the same sample could not resolve them.")
         {
             from, dataEvents, coreShare, tailShare, bins, core, categories, spikeShare, exclude, weight, sample, reference, output, force,
         };
