@@ -23,7 +23,8 @@ namespace GateTasks.Engine.Drafting;
 /// 1 − β (Dvoretzky, Kiefer &amp; Wolfowitz 1956 with Massart's 1990 constant), so the floor is ε(n, α/2) + ε(n, β).</item>
 /// </list>
 /// Bins are taken as equal-probability (share 1/B of the histogram's events, a spike's events apart); weighted
-/// references use Kish effective counts throughout, as the checks do.
+/// references use Kish effective counts throughout, as the checks do. The floors restate the checks' reference
+/// errors: when a check's uncertainty changes, its floor here changes with it.
 /// </summary>
 internal sealed class ReferenceNoiseFloor(double confidence, int checks)
 {
