@@ -8,7 +8,8 @@ namespace GateTasks.Cli.Commands;
 
 /// <summary>
 /// <c>gatetasks draft</c>: writes a starter contract from a trusted sample, every tolerance derived from the analysis's
-/// expected number of data events and the share of their statistical uncertainty the surrogate's bias may take.
+/// expected number of data events and the share of their statistical uncertainty the surrogate's bias may take, and
+/// raised to what a perfect surrogate can pass against a reference built from the same sample.
 /// </summary>
 internal static class DraftCommand
 {
@@ -32,16 +33,22 @@ internal static class DraftCommand
         };
         var bins = new Option<int>("--bins") { Description = "Equal-probability bins per continuous feature.", DefaultValueFactory = _ => 20 };
         var core = new Option<double>("--core") { Description = "Central fraction of each continuous feature that takes the core tolerance.", DefaultValueFactory = _ => 0.90 };
-        var categories = new Option<int>("--max-categories") { Description = "A whole-number column with at most this many distinct values is discrete.", DefaultValueFactory = _ => 20 };
+        var categories = new Option<int>("--max-categories") { Description = "A whole-number column with at most this many distinct values is discrete (one category per value, no spike).", DefaultValueFactory = _ => DraftOptions.DefaultMaxCategories };
         var spikeShare = new Option<double>("--spike-share") { Description = "A value holding at least this share of a continuous column's events becomes a declared spike.", DefaultValueFactory = _ => 0.05 };
+        var exclude = new Option<string[]>("--exclude")
+        {
+            Description = "Leave out the columns whose names match this glob (* any run, ? one character; repeatable). Nothing is left out by default; " +
+                          $"columns named like generator-level truth ({string.Join(", ", GeneratorLevelNames.Globs)}) are flagged in the draft for review.",
+            HelpName = "glob",
+        };
         var weight = new Option<string?>("--weight") { Description = "Weight column of the trusted sample (also written as the contract's sample weight)." };
         var sample = new Option<string>("--sample-path") { Description = "The surrogate sample path written into the contract.", DefaultValueFactory = _ => "surrogate/*.parquet" }.NotEmpty();
         var reference = new Option<string?>("--reference-path") { Description = "The reference path written into the contract (default: reference/<trusted sample>-reference.parquet)." }.NotEmpty();
         var output = new Option<string>("--output", "-o") { Description = "Where to write the draft.", DefaultValueFactory = _ => Engine.Contracts.PrecisionContract.DefaultFileName }.NotEmpty();
         var force = new Option<bool>("--force") { Description = "Replace the output file if it exists." };
-        var command = new Command("draft", "Draft a starter contract from a trusted sample: kinds inferred per column, tolerances derived from the analysis's expected data size.")
+        var command = new Command("draft", "Draft a starter contract from a trusted sample: kinds inferred per column, tolerances derived from the analysis's expected data size and raised where a reference built from the same sample could not resolve them.")
         {
-            from, dataEvents, coreShare, tailShare, bins, core, categories, spikeShare, weight, sample, reference, output, force,
+            from, dataEvents, coreShare, tailShare, bins, core, categories, spikeShare, exclude, weight, sample, reference, output, force,
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
@@ -59,7 +66,8 @@ internal static class DraftCommand
             var files = SampleFiles.Resolve(parse.GetValue(from)!, Directory.GetCurrentDirectory());
             new RunPaths().Read(files, "a trusted sample file").Write(target, "--output").Verify();
             var referencePath = parse.GetValue(reference) ?? $"reference/{Path.GetFileNameWithoutExtension(files[0])}-reference.parquet";
-            var text = ContractDrafter.Draft(files, parse.GetValue(weight), options, parse.GetValue(sample)!, referencePath, ProgressDisplay.For(stdout, stderr));
+            var text = ContractDrafter.Draft(files, parse.GetValue(weight), options, parse.GetValue(sample)!, referencePath, ProgressDisplay.For(stdout, stderr),
+                parse.GetValue(exclude) ?? []);
             AtomicFile.WriteText(target, text);
             stdout.WriteLine($"Draft written: {target}");
             stdout.WriteLine("Next: build its reference (gatetasks reference build), plan the surrogate sample size (gatetasks plan), review every value.");

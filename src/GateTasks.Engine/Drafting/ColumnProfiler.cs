@@ -7,15 +7,12 @@ namespace GateTasks.Engine.Drafting;
 
 /// <summary>
 /// Profiles every numeric column of a trusted sample in two streamed passes (memory does not grow with the sample):
-/// the first gathers moments, whether values are whole, the distinct values while there are at most
-/// <see cref="DistinctCap"/>, and heavy-hitter candidates; the second weighs the candidates exactly, for columns with
-/// more distinct values than the cap.
+/// the first gathers moments, whether values are whole, the distinct values while there are at most a cap (the
+/// draft's largest number of categories), and heavy-hitter candidates; the second weighs the candidates exactly, for
+/// columns with more distinct values than the cap.
 /// </summary>
 internal static class ColumnProfiler
 {
-    /// <summary>Distinct values tracked exactly per column; a column with more is not a category candidate.</summary>
-    public const int DistinctCap = 64;
-
     // Any value holding more than 1/(k+1) ≈ 1% of the events is a candidate.
     private const int HeavyHitterCounters = 99;
 
@@ -30,9 +27,14 @@ internal static class ColumnProfiler
         public bool Integral = true;
     }
 
-    public static IReadOnlyList<ColumnProfile> Profile(Sample sample, string? weightColumn, IProgress<ReadProgress>? progress, out long events)
+    /// <summary>
+    /// The profiles of the sample's numeric columns other than the weight and those <paramref name="excluded"/> says to
+    /// leave out, tracking up to <paramref name="distinctCap"/> distinct values per column.
+    /// </summary>
+    public static IReadOnlyList<ColumnProfile> Profile(Sample sample, string? weightColumn, Func<string, bool> excluded, int distinctCap,
+        IProgress<ReadProgress>? progress, out long events)
     {
-        var columns = sample.Columns.Where(c => c.Type != SampleValueType.Unsupported && c.Name != weightColumn)
+        var columns = sample.Columns.Where(c => c.Type != SampleValueType.Unsupported && c.Name != weightColumn && !excluded(c.Name))
             .Select(c => new Column(c.Name, c.Type)).ToList();
         var names = columns.Select(c => c.Name).ToList();
         if (weightColumn is not null) names.Add(weightColumn);
@@ -57,7 +59,7 @@ internal static class ColumnProfiler
                     c.Hitters.Add(v);
                     if (c.Distinct is null) continue;
                     c.Distinct[v] = c.Distinct.GetValueOrDefault(v) + weights[r];
-                    if (c.Distinct.Count > DistinctCap) c.Distinct = null;
+                    if (c.Distinct.Count > distinctCap) c.Distinct = null;
                 }
             });
         }

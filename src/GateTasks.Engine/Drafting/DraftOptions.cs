@@ -11,9 +11,15 @@ internal sealed record DraftOptions(
     double TailFraction = DraftOptions.DefaultTailFraction,
     int Bins = 20,
     double Core = 0.90,
-    int MaxCategories = 20,
+    int MaxCategories = DraftOptions.DefaultMaxCategories,
     double SpikeShare = 0.05)
 {
+    /// <summary>
+    /// A whole-number column with at most this many distinct values is discrete: a multiplicity (jets, tracks, hits)
+    /// rarely has more, and one category per value costs the reference nothing at that size. Our choice.
+    /// </summary>
+    public const int DefaultMaxCategories = 100;
+
     /// <summary>A third of the data's uncertainty in the core: common practice, no single source.</summary>
     public const double DefaultCoreFraction = 1.0 / 3;
 

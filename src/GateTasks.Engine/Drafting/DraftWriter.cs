@@ -24,8 +24,10 @@ internal static class DraftWriter
         Comment(e, $"Drafted by 'gatetasks draft' from {source.Description} ({InvariantNumber.Count(source.Events)} events)");
         Comment(e, $"for an analysis expecting {InvariantNumber.Count(o.DataEvents)} data events: every tolerance keeps the surrogate's bias");
         Comment(e, $"below {PrecisionRule.FractionText(o.CoreFraction)} of the data's statistical uncertainty in the core and {(o.TailFraction == 1 ? "all" : PrecisionRule.FractionText(o.TailFraction))} of it in the tails");
-        Comment(e, "(docs/drafting.md). A draft, not a decision: review every value, tighten it where the analysis fits,");
-        Comment(e, "check the sample size with 'gatetasks plan', and record the contract with 'gatetasks accept'.");
+        Comment(e, "(docs/drafting.md), and at least what a perfect surrogate of unlimited size passes against a reference built");
+        Comment(e, "from this same sample, every check together with probability >= 95% (a widened tolerance says so).");
+        Comment(e, "A draft, not a decision: review every value, tighten it where the analysis fits, check the");
+        Comment(e, "sample size with 'gatetasks plan', and record the contract with 'gatetasks accept'.");
         e.Emit(new MappingStart());
         Scalar(e, ContractKeys.Version); Scalar(e, "1");
         Comment(e, "the contract format this GateTasks reads", inline: true);
@@ -104,6 +106,8 @@ internal static class DraftWriter
         var skipped = features.Where(f => f.SkipReason is not null).ToList();
         if (skipped.Count > 0)
             text.Write("# Columns left out:\n" + string.Concat(skipped.Select(f => $"#   {f.Column}: {f.SkipReason}\n")));
+        var dropped = features.SelectMany(f => (f.Dropped ?? []).Select(d => $"#   {f.Column} {d}\n")).ToList();
+        if (dropped.Count > 0) text.Write("# Checks left out:\n" + string.Concat(dropped));
         text.Write("# Derived features (expressions) are not guessed: add the ones the analysis uses.\n");
         return text.ToString();
     }

@@ -5,7 +5,8 @@ namespace GateTasks.Engine.Drafting;
 
 /// <summary>
 /// Infers a column's kind and tolerances from its profile: a whole-number column with at most
-/// <see cref="DraftOptions.MaxCategories"/> distinct values is discrete; a value holding at least
+/// <see cref="DraftOptions.MaxCategories"/> distinct values (and a span the reference can bin one category per value)
+/// is discrete, whatever share its mode holds; a value holding at least
 /// <see cref="DraftOptions.SpikeShare"/> of a continuous column's events is a declared spike; every other column is
 /// continuous with equal-probability bins. Tolerances follow <see cref="PrecisionRule"/>.
 /// </summary>
@@ -18,7 +19,9 @@ internal static class FeatureDrafter
         if (s.Min == s.Max) return Skipped(p, $"takes the single value {InvariantNumber.Short(s.Min)}: nothing to compare");
 
         var rule = new PrecisionRule(o.DataEvents);
-        if (p.Integral && p.DistinctWeights is { } distinct && distinct.Count <= o.MaxCategories)
+        // One category per whole number between the extremes is how a discrete reference is binned, so the span must fit too.
+        if (p.Integral && p.DistinctWeights is { } distinct && distinct.Count <= o.MaxCategories
+            && s.Max - s.Min + 1 <= References.ReferenceBuilder.MaxCategories)
         {
             // Categories holding under 1% are left out of the strictest-category rule, or one rare value would set it.
             var shares = distinct.Values.Select(w => w / p.FiniteSumW).ToList();
@@ -41,8 +44,9 @@ internal static class FeatureDrafter
             spikeReason = $"{InvariantNumber.Short(100 * p.TopShare)}% of the events hold exactly {InvariantNumber.Short(top)} (a spike from {InvariantNumber.Short(100 * o.SpikeShare)}%)";
             tolerances.Add((CheckKind.Fraction, null, rule.Fraction(o.CoreFraction, p.TopShare, "the spike's share")));
         }
-        var why = p.Integral ? $"continuous: whole numbers but {(p.DistinctWeights is null ? $"more than {ColumnProfiler.DistinctCap}" : p.DistinctWeights.Count.ToString(System.Globalization.CultureInfo.InvariantCulture))} distinct values"
-            : "continuous: fractional values";
+        var why = !p.Integral ? "continuous: fractional values"
+            : p.DistinctWeights is null ? $"continuous: whole numbers but more than {o.MaxCategories} distinct values"
+            : $"continuous: whole numbers, {p.DistinctWeights.Count} distinct values, but spanning {InvariantNumber.Short(s.Max - s.Min + 1)} (one category each is too many)";
         tolerances.Add((CheckKind.BinRatio, ContractKeys.Core, rule.BinRatio(o.CoreFraction, o.Bins)));
         tolerances.Add((CheckKind.BinRatio, ContractKeys.Tails, rule.BinRatio(o.TailFraction, o.Bins)));
         tolerances.Add((CheckKind.KolmogorovSmirnov, null, rule.CdfDistance(o.CoreFraction)));
