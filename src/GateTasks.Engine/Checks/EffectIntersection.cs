@@ -43,6 +43,8 @@ internal sealed class EffectIntersection(double tolerance, DecisionSettings deci
     public void AddBounded(double deviation, double lowerDeviation, double upperDeviation, double pValue, double seReference, double seSample)
     {
         Parts++;
+        // Sized in the normal approximation, as every part: the events needed are an estimate in any case.
+        _parts.Add(new EffectPart(deviation, seReference, seSample));
         Upper = Math.Max(Upper, upperDeviation);
         Lower = Math.Max(Lower, lowerDeviation);
         _smallestP = Math.Min(_smallestP, pValue);
