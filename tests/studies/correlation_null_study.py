@@ -95,7 +95,7 @@ def main():
         if b.returncode != 0:
             sys.exit(f"replica {i}: reference build exited {b.returncode}\n{b.stdout}{b.stderr}")
         c = run(a.gatetasks, ["check", "--contract", "contract.yaml"], work)
-        if c.returncode not in (0, 1, 3) and "GATE30" not in c.stdout + c.stderr:
+        if c.returncode not in (0, 1, 5):  # passed, failed, undecided (docs/cli.md)
             sys.exit(f"replica {i}: check exited {c.returncode}\n{c.stdout}{c.stderr}")
         lines = [m.group(1) for m in re.finditer(r"contract\.yaml\((\d+),\d+\): error GATE3015", c.stdout + c.stderr)]
         pf = str(PEARSON_LINE) in lines
