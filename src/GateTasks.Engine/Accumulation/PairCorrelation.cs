@@ -22,19 +22,27 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
 
     public CorrelationSpec Spec { get; } = spec;
 
+    // Per-batch buffers of the pairs without NaN: values, their reference-CDF ranks, weights.
+    private double[] _x = [], _y = [], _u = [], _v = [], _w = [];
+
     public void Add(Samples.FeatureView view)
     {
         var x = view.Feature(first);
         var y = view.Feature(second);
         var weights = view.Weights;
+        if (_x.Length < x.Length) (_x, _y, _u, _v, _w) = (new double[x.Length], new double[x.Length], new double[x.Length], new double[x.Length], new double[x.Length]);
+        var kept = 0;
         for (var r = 0; r < x.Length; r++)
         {
             if (double.IsNaN(x[r]) || double.IsNaN(y[r])) continue;
             var w = weights.IsEmpty ? 1.0 : weights[r];
-            _pearson.Add(x[r], y[r], w);
-            _spearman.Add(firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
+            (_x[kept], _y[kept], _u[kept], _v[kept], _w[kept]) = (x[r], y[r], firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
+            kept++;
             Joint?.Fill(x[r], y[r], w);
         }
+        var ws = weights.IsEmpty ? ReadOnlySpan<double>.Empty : _w.AsSpan(0, kept);
+        _pearson.AddBatch(_x.AsSpan(0, kept), _y.AsSpan(0, kept), ws);
+        _spearman.AddBatch(_u.AsSpan(0, kept), _v.AsSpan(0, kept), ws);
         if (Joint is not null) Joint.MoveCellsInto(_cells!);
     }
 

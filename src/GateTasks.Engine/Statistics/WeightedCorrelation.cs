@@ -43,6 +43,68 @@ internal sealed class WeightedCorrelation
         Combine(w, x - _meanX, y - _meanY, null);
     }
 
+    /// <summary>
+    /// Adds a batch of pairs (weights empty: unit weights; zero weights are skipped as in <see cref="Add"/>): the batch's
+    /// own weighted means, then its central co-moments about them in a second pass over the batch, joined to the
+    /// running ones once by the pairwise update. The same moments as pair-by-pair updates to rounding, at a few
+    /// multiplications per pair instead of a full update.
+    /// </summary>
+    public void AddBatch(ReadOnlySpan<double> x, ReadOnlySpan<double> y, ReadOnlySpan<double> weights)
+    {
+        double sw = 0, sx = 0, sy = 0, sw2 = 0;
+        long n = 0;
+        for (var i = 0; i < x.Length; i++)
+        {
+            var w = weights.IsEmpty ? 1.0 : weights[i];
+            if (w == 0) continue;
+            n++;
+            sw += w;
+            sw2 += w * w;
+            sx += w * x[i];
+            sy += w * y[i];
+        }
+        if (n == 0) return;
+        if (sw == 0)
+        {
+            // Signed weights that cancel: no mean to centre on, so pair by pair.
+            for (var i = 0; i < x.Length; i++) Add(x[i], y[i], weights.IsEmpty ? 1.0 : weights[i]);
+            return;
+        }
+        var mx = sx / sw;
+        var my = sy / sw;
+        Span<double> batch = stackalloc double[Order * Order];
+        for (var i = 0; i < x.Length; i++)
+        {
+            var w = weights.IsEmpty ? 1.0 : weights[i];
+            if (w == 0) continue;
+            var dx = x[i] - mx;
+            var dy = y[i] - my;
+            double dx2 = dx * dx, dy2 = dy * dy, dxy = dx * dy;
+            batch[2 * Order + 0] += w * dx2;
+            batch[1 * Order + 1] += w * dxy;
+            batch[0 * Order + 2] += w * dy2;
+            batch[3 * Order + 0] += w * dx2 * dx;
+            batch[2 * Order + 1] += w * dx2 * dy;
+            batch[1 * Order + 2] += w * dxy * dy;
+            batch[0 * Order + 3] += w * dy2 * dy;
+            batch[4 * Order + 0] += w * dx2 * dx2;
+            batch[3 * Order + 1] += w * dx2 * dxy;
+            batch[2 * Order + 2] += w * dx2 * dy2;
+            batch[1 * Order + 3] += w * dxy * dy2;
+            batch[0 * Order + 4] += w * dy2 * dy2;
+        }
+        batch[0] = sw;
+        Count += n;
+        _sumW2 += sw2;
+        if (_m[0] == 0)
+        {
+            batch.CopyTo(_m);
+            (_meanX, _meanY) = (mx, my);
+            return;
+        }
+        Combine(sw, mx - _meanX, my - _meanY, batch.ToArray());
+    }
+
     /// <summary>Adds another accumulation; agrees with one pass to rounding.</summary>
     public void Merge(WeightedCorrelation other)
     {
