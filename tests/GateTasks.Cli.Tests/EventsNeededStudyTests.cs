@@ -1,5 +1,5 @@
-using System.Diagnostics;
 using System.Text.Json;
+using GateTasks.Tests.Shared;
 
 namespace GateTasks.Cli.Tests;
 
@@ -24,21 +24,14 @@ public sealed class EventsNeededStudyTests : IDisposable
     public void A_surrogate_of_the_stated_size_decides_most_undecided_checks()
     {
         var json = Path.Combine(_dir, "study.json");
-        var psi = new ProcessStartInfo(ExternalPython.Interpreter) { RedirectStandardOutput = true, RedirectStandardError = true };
-        foreach (var a in new[]
-                 {
-                     Path.Combine(GateTasks.Tests.Shared.RepositoryRoot.Path, "tests", "studies", "events_needed_study.py"),
-                     "--gatetasks", typeof(GateTasks.Cli.CliApp).Assembly.Location, "--pilots", "1", "--replicas", "8", "--seed", "7",
-                     "--max-events", "400000", "--work", Path.Combine(_dir, "work"), "--json", json,
-                 })
-            psi.ArgumentList.Add(a);
-        using (var p = Process.Start(psi)!)
-        {
-            var stdout = p.StandardOutput.ReadToEndAsync();
-            var stderr = p.StandardError.ReadToEndAsync();
-            Assert.True(p.WaitForExit(TimeSpan.FromMinutes(10)), "the study did not finish in 10 minutes");
-            Assert.True(p.ExitCode == 0, stdout.Result + stderr.Result);
-        }
+        // The shared runner: the tool must not inherit CI markers or a pull request's base from the test's environment.
+        var (exit, stdout, stderr) = ProcessRunner.Run(ExternalPython.Interpreter,
+            [
+                Path.Combine(RepositoryRoot.Path, "tests", "studies", "events_needed_study.py"),
+                "--gatetasks", typeof(GateTasks.Cli.CliApp).Assembly.Location, "--pilots", "1", "--replicas", "8", "--seed", "7",
+                "--max-events", "400000", "--work", Path.Combine(_dir, "work"), "--json", json,
+            ], _dir, timeoutSeconds: 600);
+        Assert.True(exit == 0, stdout + stderr);
         using var doc = JsonDocument.Parse(File.ReadAllText(json));
         var root = doc.RootElement;
         var checks = root.GetProperty("checks").EnumerateArray().ToList();
