@@ -49,14 +49,14 @@ internal sealed record NeededEvents(double Events, double CategoryEvents, double
     /// <summary>
     /// The events needed to decide an inconclusive check of a family of <paramref name="familySize"/> checks;
     /// <paramref name="sampleEvents"/> is the whole sample's event count (0: unknown, figures stay in the check's own events).
-    /// A check measured without parts (a goodness-of-fit test, ks-max) keeps its own figure.
+    /// A check measured neither by parts nor by a band (a goodness-of-fit test) gets no figure.
     /// </summary>
     public static NeededEvents For(CheckSubject subject, CheckSpec check, Measurement m, DecisionSettings decision, int familySize, long sampleEvents)
     {
+        if (check is ToleranceCheck { Tolerance: var bandTolerance } && m.Band is { } band && m.PartsEvents > 0)
+            return ForBand(subject, band, bandTolerance, decision, familySize, m.PartsEvents, sampleEvents);
         if (check is not ToleranceCheck { Tolerance: var tolerance } || m.Parts.Count == 0 || m.PartsEvents <= 0)
-            return double.IsPositiveInfinity(m.EventsNeeded) ? MoreReference
-                : double.IsNaN(m.EventsNeeded) ? Unknown
-                : new(m.EventsNeeded, double.NaN, 1, DecidingSide.Pass, double.NaN, false);
+            return Unknown;
 
         var zPass = Normal.InvCDF(0, 1, decision.Confidence);
         var zFail = Normal.InvCDF(0, 1, 1 - decision.FalseAlarm / (Math.Max(1, familySize) * (double)m.Parts.Count));
@@ -72,13 +72,40 @@ internal sealed record NeededEvents(double Events, double CategoryEvents, double
             break;
         }
         if (own is not { } inOwn) return MoreReference;
+        return InSample(subject, inOwn, m.PartsEvents, sampleEvents, side, chance);
+    }
 
+    /// <summary>
+    /// A ks-max check's events needed, in closed form from its band (DKW with Massart's 1990 constant) at the distance
+    /// as estimated: the pass side needs √(ln(4/α)/2)·(1/√n₁ + 1/√n₂′) &lt; tol − D at the contract's confidence; the fail
+    /// side needs 4·exp(−2(D − tol)²/(1/√n₁ + 1/√n₂′)²) ≤ α/m, the strictest level of a family of m checks. The band is
+    /// a worst-case bound, not a normal interval, so no chance is attached to the figure.
+    /// </summary>
+    private static NeededEvents ForBand(CheckSubject subject, KsBand band, double tolerance, DecisionSettings decision, int familySize, long events, long sampleEvents)
+    {
+        if (!(band.SampleEffective > 0) || !(band.ReferenceEffective > 0) || band.Distance == tolerance) return Unknown;
+        var passing = band.Distance < tolerance;
+        // The largest allowed 1/√n₁ + 1/√n₂′ on the deciding side.
+        var room = passing
+            ? (tolerance - band.Distance) / Math.Sqrt(Math.Log(4 / (1 - decision.Confidence)) / 2)
+            : Math.Sqrt(2) * (band.Distance - tolerance) / Math.Sqrt(Math.Log(4 * Math.Max(1, familySize) / decision.FalseAlarm));
+        var left = room - 1 / Math.Sqrt(band.ReferenceEffective);
+        if (!(left > 0)) return MoreReference;
+        // Effective count needed, carried to events at the effective share this sample had.
+        var inOwn = Math.Ceiling(events / (left * left * band.SampleEffective));
+        return InSample(subject, inOwn, events, sampleEvents, passing ? DecidingSide.Pass : DecidingSide.Fail, double.NaN);
+    }
+
+    /// <summary>
+    /// Carries a figure in the check's own events over to the whole sample's: the check's errors scale with its own
+    /// events (a category's, or a feature's non-NaN entries), and the sample is generated whole, so the figure is
+    /// carried over at the share those events had in this sample.
+    /// </summary>
+    private static NeededEvents InSample(CheckSubject subject, double inOwn, long ownEvents, long sampleEvents, DecidingSide side, double chance)
+    {
         var category = subject is FeatureSubject { Feature.Condition: not null };
-        // The check's errors scale with its own events (a category's, or a feature's non-NaN entries); the sample is
-        // generated whole, so the figure is carried over at the share those events had in this sample.
-        var share = sampleEvents > 0 ? Math.Min(1, m.PartsEvents / (double)sampleEvents) : 1;
-        var whole = Math.Ceiling(inOwn / share);
-        return new(whole, category ? inOwn : double.NaN, share, side, chance, false);
+        var share = sampleEvents > 0 ? Math.Min(1, ownEvents / (double)sampleEvents) : 1;
+        return new(Math.Ceiling(inOwn / share), category ? inOwn : double.NaN, share, side, chance, false);
     }
 
     /// <summary>
