@@ -76,24 +76,34 @@ internal sealed record NeededEvents(double Events, double CategoryEvents, double
     }
 
     /// <summary>
-    /// A ks-max check's events needed, in closed form from its band (DKW with Massart's 1990 constant) at the distance
-    /// as estimated: the pass side needs √(ln(4/α)/2)·(1/√n₁ + 1/√n₂′) &lt; tol − D at the contract's confidence; the fail
-    /// side needs 4·exp(−2(D − tol)²/(1/√n₁ + 1/√n₂′)²) ≤ α/m, the strictest level of a family of m checks. The band is
-    /// a worst-case bound, not a normal interval, so no chance is attached to the figure.
+    /// A ks-max check's events needed, from its band (DKW with Massart's 1990 constant, c(α) = √(ln(4/α)/2)): the pass
+    /// side needs D̂ + c(1 − confidence)·(1/√n₁ + 1/√n₂′) below the tolerance, the fail side needs D̂ at least
+    /// tol + c(α/m)·(1/√n₁ + 1/√n₂′), the strictest level of a family of m checks. D̂ is taken normal about today's
+    /// distance D with the variance of the difference of two empirical CDFs at the maximising point,
+    /// F(1 − F)·(1/n₁ + 1/n₂′) (Raghavachari 1973, for a distance above zero), at its largest F(1 − F) = 1/4, so
+    /// the figure errs on the large side; then solved for <see cref="Power"/> as the parts are.
     /// </summary>
     private static NeededEvents ForBand(CheckSubject subject, KsBand band, double tolerance, DecisionSettings decision, int familySize, long events, long sampleEvents)
     {
-        if (!(band.SampleEffective > 0) || !(band.ReferenceEffective > 0) || band.Distance == tolerance) return Unknown;
-        var passing = band.Distance < tolerance;
-        // The largest allowed 1/√n₁ + 1/√n₂′ on the deciding side.
-        var room = passing
-            ? (tolerance - band.Distance) / Math.Sqrt(Math.Log(4 / (1 - decision.Confidence)) / 2)
-            : Math.Sqrt(2) * (band.Distance - tolerance) / Math.Sqrt(Math.Log(4 * Math.Max(1, familySize) / decision.FalseAlarm));
-        var left = room - 1 / Math.Sqrt(band.ReferenceEffective);
-        if (!(left > 0)) return MoreReference;
-        // Effective count needed, carried to events at the effective share this sample had.
-        var inOwn = Math.Ceiling(events / (left * left * band.SampleEffective));
-        return InSample(subject, inOwn, events, sampleEvents, passing ? DecidingSide.Pass : DecidingSide.Fail, double.NaN);
+        if (!(band.SampleEffective > 0) || !(band.ReferenceEffective > 0)) return Unknown;
+        double a = 1 / Math.Sqrt(band.ReferenceEffective), b = 1 / Math.Sqrt(band.SampleEffective);
+        var cPass = Math.Sqrt(Math.Log(4 / (1 - decision.Confidence)) / 2);
+        var cFail = Math.Sqrt(Math.Log(4 * Math.Max(1, familySize) / decision.FalseAlarm) / 2);
+        // x = n/n′ scales the sample's 1/n_eff; the reference's part stays.
+        double Width(double x) => a + b * Math.Sqrt(x);
+        double Spread(double x) => 0.5 * Math.Sqrt(a * a + b * b * x);
+        double PassChance(double x) => Normal.CDF(0, 1, Standardised(tolerance - band.Distance - cPass * Width(x), Spread(x)));
+        double FailChance(double x) => Normal.CDF(0, 1, Standardised(band.Distance - tolerance - cFail * Width(x), Spread(x)));
+        foreach (var target in new[] { Power, 0.5 })
+        {
+            var pass = Solve(events, PassChance, target);
+            var fail = Solve(events, FailChance, target);
+            if (double.IsPositiveInfinity(pass) && double.IsPositiveInfinity(fail)) continue;
+            return fail < pass
+                ? InSample(subject, fail, events, sampleEvents, DecidingSide.Fail, target)
+                : InSample(subject, pass, events, sampleEvents, DecidingSide.Pass, target);
+        }
+        return MoreReference;
     }
 
     /// <summary>
