@@ -15,7 +15,7 @@ internal static class AndersonDarlingTestCheck
         var reference = EffectiveCounts.Of(Cells.Of(c.Reference.Histogram));
         var sample = EffectiveCounts.Of(Cells.Of(c.Surrogate));
         var (a2, sigma, t, p) = AndersonDarling.TieAdjustedFromCounts([reference, sample]);
-        return new Measurement(t, double.NaN, double.NaN, p, double.NaN,
+        return new Measurement(t, double.NaN, double.NaN, p,
             $"Anderson–Darling A²akN {InvariantNumber.Short(a2)}, T {InvariantNumber.Short(t)}, p-value {InvariantNumber.Short(p)}",
             [new("a2akn", InvariantNumber.Exact(a2)), new("sigma_n", InvariantNumber.Exact(sigma))]);
     }

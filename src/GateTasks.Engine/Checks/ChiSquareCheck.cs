@@ -27,7 +27,7 @@ internal static class ChiSquareCheck
             (false, true) => ("unweighted-weighted", ChiSquareHomogeneity.UnweightedWeighted(s.SumW, r.SumW, r.SumW2)),
             _ => ("weighted", ChiSquareHomogeneity.Weighted(r.SumW, r.SumW2, s.SumW, s.SumW2)),
         };
-        return new Measurement(result.ChiSquare, double.NaN, double.NaN, result.PValue, double.NaN,
+        return new Measurement(result.ChiSquare, double.NaN, double.NaN, result.PValue,
             $"χ² {InvariantNumber.Short(result.ChiSquare)} for {result.DegreesOfFreedom} degrees of freedom, p-value {InvariantNumber.Short(result.PValue)}",
             [new("chi2", InvariantNumber.Exact(result.ChiSquare)), new("ndf", result.DegreesOfFreedom.ToString(CultureInfo.InvariantCulture)),
              new("form", form), new("cells_merged", merged.ToString(CultureInfo.InvariantCulture))]);

@@ -13,7 +13,7 @@ internal static class CramerVonMisesTestCheck
     public static Measurement Evaluate(FeatureComparison c)
     {
         var (t, p) = CramerVonMises.FromCounts(EffectiveCounts.Of(Cells.Of(c.Reference.Histogram)), EffectiveCounts.Of(Cells.Of(c.Surrogate)));
-        return new Measurement(t, double.NaN, double.NaN, p, double.NaN,
+        return new Measurement(t, double.NaN, double.NaN, p,
             $"Cramér–von Mises T {InvariantNumber.Short(t)}, p-value {InvariantNumber.Short(p)}", [new("t", InvariantNumber.Exact(t))]);
     }
 }

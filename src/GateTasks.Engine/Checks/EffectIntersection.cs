@@ -8,14 +8,13 @@ namespace GateTasks.Engine.Checks;
 /// The decision quantities of an effect made of one or more parts (bins of a region, quantiles, a single moment),
 /// each an estimate with a normal standard error split into its reference and sample parts. The effect is within
 /// tolerance when every part's upper bound is (an intersection–union test, Berger 1982: no multiplicity correction
-/// needed); the p-value of "outside tolerance" is the smallest part's, Bonferroni-corrected over the parts; the
-/// events needed are those that would let every undecided part's interval clear the tolerance.
+/// needed); the p-value of "outside tolerance" is the smallest part's, Bonferroni-corrected over the parts. The parts are kept
+/// for <see cref="NeededEvents"/>, which sizes an undecided effect after the contract-wide decision.
 /// </summary>
 internal sealed class EffectIntersection(double tolerance, DecisionSettings decision, long sampleEvents)
 {
     private readonly double _z = Normal.InvCDF(0, 1, decision.Confidence);
     private double _smallestP = 1;
-    private double _needed;
     private readonly List<EffectPart> _parts = [];
 
     public int Parts { get; private set; }
@@ -31,8 +30,6 @@ internal sealed class EffectIntersection(double tolerance, DecisionSettings deci
         Upper = Math.Max(Upper, deviation + _z * se);
         Lower = Math.Max(Lower, deviation - _z * se);
         _smallestP = Math.Min(_smallestP, se > 0 ? 1 - Normal.CDF(0, 1, (deviation - tolerance) / se) : deviation > tolerance ? 0 : 1);
-        if (deviation + _z * se >= tolerance)
-            _needed = Math.Max(_needed, Measurement.EventsFor(Math.Abs(tolerance - deviation), _z, seReference, seSample, sampleEvents));
     }
 
     /// <summary>
@@ -48,8 +45,6 @@ internal sealed class EffectIntersection(double tolerance, DecisionSettings deci
         Upper = Math.Max(Upper, upperDeviation);
         Lower = Math.Max(Lower, lowerDeviation);
         _smallestP = Math.Min(_smallestP, pValue);
-        if (upperDeviation >= tolerance)
-            _needed = Math.Max(_needed, Measurement.EventsFor(Math.Abs(tolerance - deviation), _z, seReference, seSample, sampleEvents));
     }
 
     /// <summary>
@@ -71,13 +66,6 @@ internal sealed class EffectIntersection(double tolerance, DecisionSettings deci
     /// <summary>P-value of "the effect is within tolerance".</summary>
     public double PValue => Math.Min(1, Parts * _smallestP);
 
-    /// <summary>
-    /// Surrogate events for every part's interval to clear the tolerance at today's deviations, or NaN when already
-    /// decided: the check's own first figure; the one reports show is <see cref="NeededEvents"/>', solved after the
-    /// contract-wide decision.
-    /// </summary>
-    public double EventsNeeded => Upper < tolerance || PValue <= decision.FalseAlarm ? double.NaN : _needed;
-
     public Measurement ToMeasurement(double estimate, string summary, IReadOnlyList<KeyValuePair<string, string>> details) =>
-        new(estimate, Math.Max(0, Lower), Upper, PValue, EventsNeeded, summary, details) { Parts = _parts.ToArray(), PartsEvents = sampleEvents };
+        new(estimate, Math.Max(0, Lower), Upper, PValue, summary, details) { Parts = _parts.ToArray(), PartsEvents = sampleEvents };
 }

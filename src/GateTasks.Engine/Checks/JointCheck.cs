@@ -33,7 +33,7 @@ internal static class JointCheck
         var result = EnergyDistance.PermutationTest(
             EnergyDistance.Standardise(reference, means, sds), EnergyDistance.Standardise(sample, means, sds),
             permutations, HistogramBootstrap.Seed(spec.Name, spec.Test.Key), StopAfterExceedances);
-        return new Measurement(result.TestStatistic, double.NaN, double.NaN, result.PValue, double.NaN,
+        return new Measurement(result.TestStatistic, double.NaN, double.NaN, result.PValue,
             $"energy statistic T {InvariantNumber.Short(result.TestStatistic)} on {reference.Length} + {sample.Length} rows, permutation p-value {InvariantNumber.Short(result.PValue)} ({result.Permutations} permutations)",
             [new("e_statistic", InvariantNumber.Exact(result.EStatistic)), new("reference_rows", reference.Length.ToString(System.Globalization.CultureInfo.InvariantCulture)),
              new("sample_rows", sample.Length.ToString(System.Globalization.CultureInfo.InvariantCulture))]);

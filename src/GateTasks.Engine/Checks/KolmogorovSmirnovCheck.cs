@@ -26,17 +26,14 @@ internal static class KolmogorovSmirnovCheck
         var k = (1 / Math.Sqrt(n1) + 1 / Math.Sqrt(n2)) / Math.Sqrt(2);
         var p = d > spec.Tolerance ? Math.Min(1, 4 * Math.Exp(-Math.Pow((d - spec.Tolerance) / k, 2))) : 1.0;
         var upper = d + half;
-        var needed = double.NaN;
-        if (upper >= spec.Tolerance && p > decision.FalseAlarm)
-        {
-            // Events for the band to decide: √(ln(4/α)/2)·(1/√n₁ + 1/√n₂′) < |tol − D|.
-            var room = Math.Abs(spec.Tolerance - d) / Math.Sqrt(Math.Log(4 / alpha) / 2) - 1 / Math.Sqrt(n1);
-            needed = room > 0 ? Math.Ceiling(1 / (room * room) * (c.Surrogate.Entries / Math.Max(n2, 1))) : double.PositiveInfinity;
-        }
-        return new Measurement(d, Math.Max(0, d - half), upper, p, needed,
+        return new Measurement(d, Math.Max(0, d - half), upper, p,
             $"KS distance {InvariantNumber.Short(d)}, {Percent(decision)} band [{InvariantNumber.Short(Math.Max(0, d - half))}, {InvariantNumber.Short(upper)}], tolerance {InvariantNumber.Short(spec.Tolerance)}",
             [new("distance", InvariantNumber.Exact(d)), new("band_half_width", InvariantNumber.Exact(half)),
-             new("reference_effective_events", InvariantNumber.Exact(n1)), new("sample_effective_events", InvariantNumber.Exact(n2))]);
+             new("reference_effective_events", InvariantNumber.Exact(n1)), new("sample_effective_events", InvariantNumber.Exact(n2))])
+        {
+            Band = new KsBand(d, n1, n2),
+            PartsEvents = c.Surrogate.Entries,
+        };
     }
 
     internal static string Percent(DecisionSettings d) => (d.Confidence * 100).ToString("0.#", System.Globalization.CultureInfo.InvariantCulture) + "%";

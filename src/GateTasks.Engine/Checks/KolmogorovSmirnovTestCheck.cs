@@ -17,7 +17,7 @@ internal static class KolmogorovSmirnovTestCheck
         var p = KolmogorovSmirnov.BinnedPValue(d,
             KolmogorovSmirnov.CdfEffectiveCount(reference.SumW, reference.SumW2),
             KolmogorovSmirnov.CdfEffectiveCount(c.Surrogate.SumW, c.Surrogate.SumW2));
-        return new Measurement(d, double.NaN, double.NaN, p, double.NaN,
+        return new Measurement(d, double.NaN, double.NaN, p,
             $"KS distance {InvariantNumber.Short(d)}, p-value {InvariantNumber.Short(p)}",
             [new("distance", InvariantNumber.Exact(d))]);
     }

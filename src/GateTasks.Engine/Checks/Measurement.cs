@@ -10,7 +10,6 @@ internal sealed record Measurement(
     double Lower,
     double Upper,
     double PValue,
-    double EventsNeeded,
     string Summary,
     IReadOnlyList<KeyValuePair<string, string>> Details)
 {
@@ -20,7 +19,10 @@ internal sealed record Measurement(
     /// </summary>
     public IReadOnlyList<EffectPart> Parts { get; init; } = [];
 
-    /// <summary>The events the sample parts of <see cref="Parts"/>' errors were measured on (a category's own events for a category feature).</summary>
+    /// <summary>For a ks-max check, its band's make-up (<see cref="NeededEvents"/> sizes it in closed form); else null.</summary>
+    public KsBand? Band { get; init; }
+
+    /// <summary>The events the sample parts of <see cref="Parts"/>' errors (or of <see cref="Band"/>) were measured on (a category's own events for a category feature).</summary>
     public long PartsEvents { get; init; }
 
     /// <summary>
@@ -31,17 +33,5 @@ internal sealed record Measurement(
 
     /// <summary>A measurement that cannot be made (e.g. an empty region): undecided, with its reason; never a p-value of 0.</summary>
     public static Measurement Impossible(string why, IReadOnlyList<KeyValuePair<string, string>> details) =>
-        new(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, "cannot be computed: " + why, details) { Uncomputable = true };
-
-    /// <summary>
-    /// Surrogate events needed for an interval of half-width z·σ to fit in <paramref name="gap"/>, when
-    /// σ² = σ_ref² + σ_sur²·(n/n′) with the surrogate's part shrinking as 1/n′; +∞ when the reference's part alone
-    /// is too wide (more reference events are needed), NaN when nothing needs deciding.
-    /// </summary>
-    public static double EventsFor(double gap, double z, double sigmaReference, double sigmaSurrogate, double events)
-    {
-        if (!(gap > 0) || !(sigmaSurrogate > 0)) return double.PositiveInfinity;
-        var room = (gap / z) * (gap / z) - sigmaReference * sigmaReference;
-        return room > 0 ? Math.Ceiling(events * sigmaSurrogate * sigmaSurrogate / room) : double.PositiveInfinity;
-    }
+        new(double.NaN, double.NaN, double.NaN, double.NaN, "cannot be computed: " + why, details) { Uncomputable = true };
 }

@@ -49,14 +49,14 @@ internal sealed record NeededEvents(double Events, double CategoryEvents, double
     /// <summary>
     /// The events needed to decide an inconclusive check of a family of <paramref name="familySize"/> checks;
     /// <paramref name="sampleEvents"/> is the whole sample's event count (0: unknown, figures stay in the check's own events).
-    /// A check measured without parts (a goodness-of-fit test, ks-max) keeps its own figure.
+    /// A check measured neither by parts nor by a band (a goodness-of-fit test) gets no figure.
     /// </summary>
     public static NeededEvents For(CheckSubject subject, CheckSpec check, Measurement m, DecisionSettings decision, int familySize, long sampleEvents)
     {
+        if (check is ToleranceCheck { Tolerance: var bandTolerance } && m.Band is { } band && m.PartsEvents > 0)
+            return ForBand(subject, band, bandTolerance, decision, familySize, m.PartsEvents, sampleEvents);
         if (check is not ToleranceCheck { Tolerance: var tolerance } || m.Parts.Count == 0 || m.PartsEvents <= 0)
-            return double.IsPositiveInfinity(m.EventsNeeded) ? MoreReference
-                : double.IsNaN(m.EventsNeeded) ? Unknown
-                : new(m.EventsNeeded, double.NaN, 1, DecidingSide.Pass, double.NaN, false);
+            return Unknown;
 
         var zPass = Normal.InvCDF(0, 1, decision.Confidence);
         var zFail = Normal.InvCDF(0, 1, 1 - decision.FalseAlarm / (Math.Max(1, familySize) * (double)m.Parts.Count));
@@ -72,13 +72,50 @@ internal sealed record NeededEvents(double Events, double CategoryEvents, double
             break;
         }
         if (own is not { } inOwn) return MoreReference;
+        return InSample(subject, inOwn, m.PartsEvents, sampleEvents, side, chance);
+    }
 
+    /// <summary>
+    /// A ks-max check's events needed, from its band (DKW with Massart's 1990 constant, c(α) = √(ln(4/α)/2)): the pass
+    /// side needs D̂ + c(1 − confidence)·(1/√n₁ + 1/√n₂′) below the tolerance, the fail side needs D̂ at least
+    /// tol + c(α/m)·(1/√n₁ + 1/√n₂′), the strictest level of a family of m checks. D̂ is taken normal about today's
+    /// distance D with the variance of the difference of two empirical CDFs at the maximising point,
+    /// F(1 − F)·(1/n₁ + 1/n₂′) (Raghavachari 1973, for a distance above zero), at its largest F(1 − F) = 1/4, so
+    /// the figure errs on the large side; then solved for <see cref="Power"/> as the parts are.
+    /// </summary>
+    private static NeededEvents ForBand(CheckSubject subject, KsBand band, double tolerance, DecisionSettings decision, int familySize, long events, long sampleEvents)
+    {
+        if (!(band.SampleEffective > 0) || !(band.ReferenceEffective > 0)) return Unknown;
+        double a = 1 / Math.Sqrt(band.ReferenceEffective), b = 1 / Math.Sqrt(band.SampleEffective);
+        var cPass = Math.Sqrt(Math.Log(4 / (1 - decision.Confidence)) / 2);
+        var cFail = Math.Sqrt(Math.Log(4 * Math.Max(1, familySize) / decision.FalseAlarm) / 2);
+        // x = n/n′ scales the sample's 1/n_eff; the reference's part stays.
+        double Width(double x) => a + b * Math.Sqrt(x);
+        double Spread(double x) => 0.5 * Math.Sqrt(a * a + b * b * x);
+        double PassChance(double x) => Normal.CDF(0, 1, Standardised(tolerance - band.Distance - cPass * Width(x), Spread(x)));
+        double FailChance(double x) => Normal.CDF(0, 1, Standardised(band.Distance - tolerance - cFail * Width(x), Spread(x)));
+        foreach (var target in new[] { Power, 0.5 })
+        {
+            var pass = Solve(events, PassChance, target);
+            var fail = Solve(events, FailChance, target);
+            if (double.IsPositiveInfinity(pass) && double.IsPositiveInfinity(fail)) continue;
+            return fail < pass
+                ? InSample(subject, fail, events, sampleEvents, DecidingSide.Fail, target)
+                : InSample(subject, pass, events, sampleEvents, DecidingSide.Pass, target);
+        }
+        return MoreReference;
+    }
+
+    /// <summary>
+    /// Carries a figure in the check's own events over to the whole sample's: the check's errors scale with its own
+    /// events (a category's, or a feature's non-NaN entries), and the sample is generated whole, so the figure is
+    /// carried over at the share those events had in this sample.
+    /// </summary>
+    private static NeededEvents InSample(CheckSubject subject, double inOwn, long ownEvents, long sampleEvents, DecidingSide side, double chance)
+    {
         var category = subject is FeatureSubject { Feature.Condition: not null };
-        // The check's errors scale with its own events (a category's, or a feature's non-NaN entries); the sample is
-        // generated whole, so the figure is carried over at the share those events had in this sample.
-        var share = sampleEvents > 0 ? Math.Min(1, m.PartsEvents / (double)sampleEvents) : 1;
-        var whole = Math.Ceiling(inOwn / share);
-        return new(whole, category ? inOwn : double.NaN, share, side, chance, false);
+        var share = sampleEvents > 0 ? Math.Min(1, ownEvents / (double)sampleEvents) : 1;
+        return new(Math.Ceiling(inOwn / share), category ? inOwn : double.NaN, share, side, chance, false);
     }
 
     /// <summary>

@@ -170,7 +170,7 @@ internal static class PlanStudy
 
     /// <summary>A check taken as perfectly met: nothing to correct for, passing.</summary>
     private static (CheckSubject, CheckSpec, Measurement) Perfect(CheckSubject subject, CheckSpec check) =>
-        (subject, check, new Measurement(0, 0, 0, 1, double.NaN, "", []));
+        (subject, check, new Measurement(0, 0, 0, 1, "", []));
 
     private static double ContractPassRate(IReadOnlyList<ReplicaFeature> features, IReadOnlyList<(CheckSubject, CheckSpec, Measurement)> unsimulated,
         DecisionSettings decision, long events, int replicas, int seed)

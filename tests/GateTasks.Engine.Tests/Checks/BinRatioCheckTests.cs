@@ -52,7 +52,8 @@ public class BinRatioCheckTests
         // Too few events to decide against 11%: neither shown within nor outside, and more events would tell.
         Assert.True(tails.Upper > 0.11);
         Assert.True(tails.PValue > 0.5);
-        Assert.True(tails.EventsNeeded > 200);
+        var needed = NeededEvents.For(new FeatureSubject(c.Spec), new RegionToleranceCheck(CheckKind.BinRatio, CheckRegion.Tails, 0.11, At), tails, Decision, 1, 0);
+        Assert.True(needed.Events > 200, $"{needed}");
     }
 
     [Fact]

@@ -17,7 +17,7 @@ public class MarginTests
         // tolerance 0.02: margin 1 − 0.0132897/0.02 = 0.3355146, noise 0.002/0.02 = 0.1 (by hand).
         var upper = 0.01 + 1.6448536269514722 * 0.002;
         var o = new CheckOutcome(Subject, new ToleranceCheck(CheckKind.KolmogorovSmirnov, 0.02, At),
-            new Measurement(0.01, 0.01 - 1.6448536269514722 * 0.002, upper, 1, double.NaN, "", []), Verdict.Pass, 1, 0.01);
+            new Measurement(0.01, 0.01 - 1.6448536269514722 * 0.002, upper, 1, "", []), Verdict.Pass, 1, 0.01);
         var m = Margin.Of(o, DecisionSettings.Default);
         Assert.Equal(0.3355146, m.Value, 6);
         Assert.Equal(0.1, m.Noise, 9);
@@ -27,7 +27,7 @@ public class MarginTests
     public void A_test_margin_is_zero_at_its_level_and_an_impossible_measurement_is_minus_infinity()
     {
         var test = new GoodnessOfFitTest(CheckKind.ChiSquareTest, At);
-        var atLevel = new CheckOutcome(Subject, test, new Measurement(30, double.NaN, double.NaN, 0.0001, double.NaN, "", []), Verdict.Fail, 0.01, 0.01);
+        var atLevel = new CheckOutcome(Subject, test, new Measurement(30, double.NaN, double.NaN, 0.0001, "", []), Verdict.Fail, 0.01, 0.01);
         Assert.Equal(0, Margin.Of(atLevel, DecisionSettings.Default).Value, 12);
         var far = atLevel with { AdjustedPValue = 1 };
         Assert.Equal(0.99, Margin.Of(far, DecisionSettings.Default).Value, 12);
