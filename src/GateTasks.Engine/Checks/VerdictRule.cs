@@ -56,7 +56,7 @@ internal static class VerdictRule
             else if (rejected[k]) verdict = Verdict.Fail;
             else if (check is ToleranceCheck bounded && m.Upper < bounded.Tolerance) verdict = Verdict.Pass;
             else verdict = Verdict.Inconclusive;
-            outcomes.Add(new CheckOutcome(subject, check, m, verdict, adjusted[i], levels[i])
+            outcomes.Add(new CheckOutcome(subject, check, m, verdict, adjusted[k], levels[k])
             {
                 Needed = verdict == Verdict.Inconclusive && !m.Uncomputable && sampleEvents is { } events ? NeededEvents.For(subject, check, m, decision, p.Length, events) : null,
             });
