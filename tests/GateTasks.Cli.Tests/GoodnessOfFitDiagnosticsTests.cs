@@ -93,7 +93,9 @@ public sealed class GoodnessOfFitDiagnosticsTests : IDisposable
         Assert.Matches("^(not-)?distinguishable$", Property(junit, "gatetasks.diagnostic.x.ks-test"));
 
         Assert.Equal("undecided", Str(records.Single(r => Str(r, "type") == "outcome"), "outcome"));
-        Assert.Equal("warning", Str(records.Single(r => Str(r, "type") == "diagnostic" && Str(r, "code") == "GATE3021"), "severity"));
+        var uncovered = records.Single(r => Str(r, "type") == "diagnostic" && Str(r, "code") == "GATE3021");
+        Assert.Equal("warning", Str(uncovered, "severity"));
+        Assert.Equal("inconclusive", Str(uncovered, "kind")); // docs/msbuild.md: undecided, not a drift
         Assert.DoesNotContain(records, r => Str(r, "type") == "diagnostic" && Str(r, "code") is "GATE3003" or "GATE3008" or "GATE3011" or "GATE3012");
     }
 
@@ -153,6 +155,26 @@ public sealed class GoodnessOfFitDiagnosticsTests : IDisposable
         Assert.Equal("passed", Str(records.Single(r => Str(r, "type") == "outcome"), "outcome"));
         Assert.Contains("distinguishable at this size", File.ReadAllText(Report(".md")));
         Assert.Contains("<tr data-reading=\"distinguishable\"", File.ReadAllText(Report(".html")));
+    }
+
+    [Fact]
+    public void A_run_of_tests_alone_is_not_accepted_into_the_ledger_and_ranks_undecided()
+    {
+        Write("reference.csv", Normal(20261210, 0, 20_000));
+        Write("sample.csv", Normal(20261211, 0.3, 100));
+        File.WriteAllText(Path.Combine(_dir, "contract.yaml"), TestsOnly);
+        Assert.Equal(0, GatetasksProcess.Run(["reference", "build", "--contract", "contract.yaml", "--from", "reference.csv"], _dir).Exit);
+
+        var (exit, stdout, stderr) = GatetasksProcess.Run(["accept", "--contract", "contract.yaml", "--reason", "try", "--by", "Tester"], _dir);
+        Assert.True(exit == 2, $"exit {exit}\n{stdout}\n{stderr}"); // docs/error-codes.md: GATE4007, exit 2
+        Assert.Contains("GATE4007", stderr);
+
+        var json = Path.Combine(_dir, "rank.json");
+        (exit, stdout, stderr) = GatetasksProcess.Run(["rank", "--contract", "contract.yaml", "sample.csv", "--json", json], _dir);
+        Assert.True(exit == 1, $"exit {exit}\n{stdout}\n{stderr}"); // docs/cli.md: no candidate passes
+        using var doc = JsonDocument.Parse(File.ReadAllText(json));
+        var candidate = doc.RootElement.GetProperty("candidates").EnumerateArray().Single();
+        Assert.Equal("undecided", candidate.GetProperty("status").GetString());
     }
 
     private (int Exit, string Stdout, string Stderr, List<JsonElement> Records) Check()

@@ -8,7 +8,7 @@ namespace GateTasks.Engine.Checks;
 /// within the contract's tests alone (<see cref="TestReadingRule"/>), the level that was compared with, and what
 /// that says (<see cref="Distinguishability"/>). A reading does not change the run's outcome, the exit code or the
 /// build result, and it does not cover its subject: a subject with readings and no tolerance check is not shown
-/// within any tolerance (<see cref="Runs.RunResult.UncoveredSubjects"/>).
+/// within any tolerance (the run result lists it as uncovered).
 /// </summary>
 internal sealed record TestReading(
     CheckSubject Subject,
