@@ -45,12 +45,16 @@ public class TestReadingRuleTests
     public void A_test_handed_to_the_verdict_rule_is_outside_the_family_and_cannot_fail()
     {
         // The simulated replicas of plan and calibrate hand every measurement to the verdict rule: a test there is
-        // left out of the correction (the tolerance check keeps p = 0.006, not 0.012) and cannot fail.
+        // left out of the correction and cannot fail. With a test of p = 0.5 in the family, Holm would give the
+        // tolerance check 2 × 0.006 = 0.012 (by hand), above 0.01; alone it keeps 0.006 and fails.
         var tolerance = new ToleranceCheck(CheckKind.KolmogorovSmirnov, 0.02, At);
         var chi2 = new GoodnessOfFitTest(CheckKind.ChiSquareTest, At);
-        var outcomes = VerdictRule.Decide([(Subject, tolerance, Effect(0.006, 0.05)), (Subject, chi2, Test(1e-12))], DecisionSettings.Default);
+        var outcomes = VerdictRule.Decide([(Subject, tolerance, Effect(0.006, 0.05)), (Subject, chi2, Test(0.5))], DecisionSettings.Default);
         Assert.Equal(0.006, outcomes[0].AdjustedPValue, 12);
         Assert.Equal(Verdict.Fail, outcomes[0].Verdict);
+        // A test however significant does not fail.
+        outcomes = VerdictRule.Decide([(Subject, tolerance, Effect(0.5, 0.01)), (Subject, chi2, Test(1e-12))], DecisionSettings.Default);
+        Assert.Equal(Verdict.Pass, outcomes[0].Verdict);
         Assert.NotEqual(Verdict.Fail, outcomes[1].Verdict);
     }
 
