@@ -71,7 +71,7 @@ internal static class HtmlReport
         // Subjects only tests cover: nothing shows them within a tolerance, which is why such a run is not PASSED.
         if (r.UncoveredSubjects.Count > 0)
             Fact(sb, "no tolerance check", string.Join("<br>", r.UncoveredSubjects.Select(s =>
-                $"<span class=\"ledger inconclusive\">{E(ErrorCodes.SubjectWithoutTolerance)}</span> {Code(s.Name)} {E(RunDiagnostics.UncoveredText(s))}")));
+                $"<span class=\"ledger inconclusive\">{E(ErrorCodes.SubjectWithoutTolerance)}</span> {E(RunDiagnostics.UncoveredText(s))}")));
         if (r.Readings.Count > 0)
             Fact(sb, "goodness-of-fit diagnostics", $"<a href=\"#diagnostics\">{E(DiagnosticsCount(r))}</a>");
         Fact(sb, "checked", E($"{r.StartedUtc.UtcDateTime.ToString("yyyy-MM-dd HH:mm:ss", CultureInfo.InvariantCulture)} UTC in {r.Elapsed.TotalSeconds.ToString("0.0", CultureInfo.InvariantCulture)} s"));

@@ -30,8 +30,7 @@ internal static class MarkdownSummary
         if (report.Acceptance.Any(f => f.IsError)) sb.Append('\n');
         // Subjects that only tests cover hold the run back from PASSED: said before the counts.
         foreach (var subject in report.UncoveredSubjects)
-            sb.Append("- **").Append(ErrorCodes.SubjectWithoutTolerance).Append("** ").Append(Code(subject.Name)).Append(' ')
-              .Append(Text(RunDiagnostics.UncoveredText(subject))).Append('\n');
+            sb.Append("- **").Append(ErrorCodes.SubjectWithoutTolerance).Append("** ").Append(Text(RunDiagnostics.UncoveredText(subject))).Append('\n');
         if (report.UncoveredSubjects.Count > 0) sb.Append('\n');
         sb.Append($"**{report.Failures} failed**, **{report.Inconclusive} inconclusive**, {passed.Count} passed of {report.Outcomes.Count} checks " +
                   $"on {report.Contract.Features.Count} features")
