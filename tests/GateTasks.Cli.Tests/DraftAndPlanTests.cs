@@ -31,6 +31,10 @@ public sealed class DraftAndPlanTests(DemoFixture demo) : IClassFixture<DemoFixt
         var loaded = ContractLoader.Load(contract);
         Assert.Equal(FeatureKind.Discrete, loaded.Features.Single(f => f.Name == DemoColumns.JetCount).Kind);
         Assert.Equal(0, loaded.Features.Single(f => f.Name == DemoColumns.LeadJetPt).Spike); // no jet: pT exactly 0
+        // docs/contract.md: a draft holds effect checks only, no goodness-of-fit test (a diagnostic, which decides nothing).
+        Assert.All(loaded.Features, f => Assert.All(f.Checks, c => Assert.IsNotType<GoodnessOfFitTest>(c)));
+        Assert.DoesNotContain(loaded.Pairs, p => p.Chi2 is not null);
+        Assert.Null(loaded.Joint);
 
         // A second draft never replaces the first unless told to.
         (code, _, stderr) = Cli.Run("draft", "--from", fullsim, "--data-events", "300", "--output", contract);

@@ -8,7 +8,7 @@ namespace GateTasks.Engine.Checks;
 /// <summary>
 /// Decides every check of a contract from what was gathered from the sample (in one pass, or merged from shards) and
 /// the matched reference: measures each feature's, pair's and joint block's checks, then applies the contract's
-/// decision rule across all of them.
+/// decision rule across its tolerance checks and reads its goodness-of-fit tests as a family of their own.
 /// </summary>
 internal static class ContractEvaluation
 {
@@ -66,9 +66,16 @@ internal static class ContractEvaluation
                 : throw new GateInputException(ErrorCodes.ReferenceMismatch,
                     $"The reference holds no subsample of {jointSpec.Name}; rebuild it with 'gatetasks reference build'.", jointSpec.Location);
             var subject = new JointSubject(jointSpec);
-            var permutations = jointSpec.PermutationsFor(measured.Count + 1, contract.Decision.FalseAlarm);
+            // Its family is the contract's tests (the energy test among them), read apart from the tolerance checks.
+            var permutations = jointSpec.PermutationsFor(measured.Count(m => m.Item2 is GoodnessOfFitTest) + 1, contract.Decision.FalseAlarm);
             measured.Add((subject, jointSpec.Test, JointCheck.Evaluate(stored.Rows.ToArray(), sample.Joint!.Rows.ToArray(), jointSpec, permutations)));
         }
-        return new EvaluatedChecks(comparisonOf, VerdictRule.Decide(measured, contract.Decision, sample.Events));
+        // Two families: the tolerance checks decide the run; the goodness-of-fit tests are read apart, beside it.
+        var tolerances = measured.Where(m => m.Item2 is not GoodnessOfFitTest).ToList();
+        var tests = measured.Where(m => m.Item2 is GoodnessOfFitTest).Select(m => (m.Item1, (GoodnessOfFitTest)m.Item2, m.Item3)).ToList();
+        return new EvaluatedChecks(comparisonOf, VerdictRule.Decide(tolerances, contract.Decision, sample.Events))
+        {
+            Readings = TestReadingRule.Read(tests, contract.Decision),
+        };
     }
 }

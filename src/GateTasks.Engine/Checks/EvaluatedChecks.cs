@@ -1,4 +1,11 @@
 namespace GateTasks.Engine.Checks;
 
-/// <summary>Every check of a contract decided: per feature what was compared (for plots), and each check's outcome in contract order.</summary>
-internal sealed record EvaluatedChecks(IReadOnlyList<FeatureComparison> Comparisons, IReadOnlyList<CheckOutcome> Outcomes);
+/// <summary>
+/// Every check of a contract decided: per feature what was compared (for plots), each tolerance check's outcome in
+/// contract order, and each goodness-of-fit test's reading (beside the verdict, not part of it), in contract order.
+/// </summary>
+internal sealed record EvaluatedChecks(IReadOnlyList<FeatureComparison> Comparisons, IReadOnlyList<CheckOutcome> Outcomes)
+{
+    /// <summary>The goodness-of-fit tests' readings (<see cref="TestReadingRule"/>).</summary>
+    public IReadOnlyList<TestReading> Readings { get; init; } = [];
+}

@@ -5,8 +5,8 @@ namespace GateTasks.Engine.Contracts;
 /// <summary>
 /// One required check as the contract states it, in one of three shapes that each carry only what that kind of check
 /// has: <see cref="ToleranceCheck"/> (an effect size bounded by a tolerance), <see cref="RegionToleranceCheck"/>
-/// (the same over one region of the distribution) and <see cref="GoodnessOfFitTest"/> (no tolerance, only a p-value
-/// in the contract's family). <see cref="Location"/> points at the tolerance (or the test's <c>on</c>) in the
+/// (the same over one region of the distribution) and <see cref="GoodnessOfFitTest"/> (no tolerance, only a p-value:
+/// a diagnostic beside the verdict, never part of it). <see cref="Location"/> points at the tolerance (or the test's <c>on</c>) in the
 /// contract, a feature's own or a default.
 /// </summary>
 internal abstract record CheckSpec(CheckKind Kind, SourceLocation Location)
@@ -45,5 +45,9 @@ internal sealed record RegionToleranceCheck(CheckKind Kind, CheckRegion Region, 
     public override string Label => Region.Kind == Contracts.Region.All ? Key : $"{Key}[{Region.Name}]";
 }
 
-/// <summary>A goodness-of-fit test: no tolerance; it fails only when its p-value is significant at the contract's family-wise level.</summary>
+/// <summary>
+/// A goodness-of-fit test: no tolerance, so it is no check of the verdict. A run reads it beside the verdict as
+/// "distinguishable at this size" or not (its p-value adjusted over the contract's tests alone); it never passes or
+/// fails anything, and a subject it alone covers leaves the run undecided.
+/// </summary>
 internal sealed record GoodnessOfFitTest(CheckKind Kind, SourceLocation Location) : CheckSpec(Kind, Location);

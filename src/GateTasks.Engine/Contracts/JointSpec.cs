@@ -5,7 +5,7 @@ namespace GateTasks.Engine.Contracts;
 /// <summary>
 /// A multivariate check over a declared feature set: the energy-distance two-sample test (Székely &amp; Rizzo 2004)
 /// on bounded subsamples of reference and sample, so that a broken joint structure fails even when every marginal
-/// passes. <see cref="Test"/> is its entry in the contract's family of tests.
+/// passes. <see cref="Test"/> is its entry in the contract's family of tests, read beside the verdict as a diagnostic.
 /// </summary>
 internal sealed record JointSpec(IReadOnlyList<string> Features, int Subsample, int Permutations, GoodnessOfFitTest Test, SourceLocation Location)
 {

@@ -17,7 +17,8 @@ internal sealed record Diagnostic(string Code, DiagnosticSeverity Severity, Sour
     public static DiagnosticKind KindOf(string code)
     {
         if (code.Length != 8 || !code.StartsWith("GATE", StringComparison.Ordinal)) return DiagnosticKind.Setup;
-        if (code == ErrorCodes.Inconclusive) return DiagnosticKind.Inconclusive;
+        // A subject that only goodness-of-fit tests cover is undecided, as an inconclusive check is: not a drift.
+        if (code is ErrorCodes.Inconclusive or ErrorCodes.SubjectWithoutTolerance) return DiagnosticKind.Inconclusive;
         if (code == ErrorCodes.RatchetDegraded) return DiagnosticKind.Ratchet;
         return code[4] switch
         {

@@ -16,10 +16,10 @@ internal enum DiagnosticKind
     /// <summary>GATE2xxx: a sample, a reference or a partial file.</summary>
     Sample,
 
-    /// <summary>GATE3xxx but GATE3100: a check failed, the surrogate drifted outside its tolerance.</summary>
+    /// <summary>GATE3xxx but GATE3021 and GATE3100: a check failed, the surrogate drifted outside its tolerance.</summary>
     Drift,
 
-    /// <summary>GATE3100: the sample could not decide a check.</summary>
+    /// <summary>GATE3100: the sample could not decide a check; GATE3021: a subject only goodness-of-fit tests cover, which no tolerance check decides.</summary>
     Inconclusive,
 
     /// <summary>GATE4010: the ratchet caught a margin worse than the accepted one.</summary>

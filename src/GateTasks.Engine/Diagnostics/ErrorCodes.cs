@@ -132,6 +132,11 @@ public static class ErrorCodes
     public const string DriftChiSquare2D = "GATE3019";
     /// <summary>Interquartile width ratio shown outside tolerance.</summary>
     public const string DriftInterquartileWidth = "GATE3020";
+    /// <summary>
+    /// A subject (feature, category, pair, joint block) has goodness-of-fit tests and no tolerance check: nothing shows
+    /// it within a tolerance, so the run is UNDECIDED (an error with <c>decision.inconclusive: fail</c>, else a warning).
+    /// </summary>
+    public const string SubjectWithoutTolerance = "GATE3021";
     /// <summary>The contract has no acceptance ledger (a warning, an error with <c>acceptance.required: on</c>).</summary>
     public const string LedgerMissing = "GATE4001";
     /// <summary>An accepted entry of the ledger was edited, removed or reordered.</summary>

@@ -13,7 +13,8 @@ namespace GateTasks.Engine.Reports;
 /// <summary>
 /// A self-contained single-file HTML report of one check run: the run's facts and verdict at the top, an overview
 /// of every feature by verdict, then one section per feature — failing first — with its plot (inline SVG from
-/// <see cref="FeaturePlot"/>) and a row per check. Style and script are inline; it loads nothing, so it works
+/// <see cref="FeaturePlot"/>) and a row per check, and the goodness-of-fit tests' readings in a section of their own
+/// (diagnostics beside the verdict, worded "distinguishable at this size" or not, never pass or fail). Style and script are inline; it loads nothing, so it works
 /// offline and as a CI artefact. Passing features start collapsed.
 /// </summary>
 internal static class HtmlReport
@@ -36,6 +37,7 @@ internal static class HtmlReport
         Overview(sb, subjects, ids);
         sb.Append("<main>\n");
         foreach (var s in subjects) Section(sb, report, s, ids[s.Name]);
+        Readings(sb, report);
         sb.Append("</main>\n");
         sb.Append("<footer>").Append(E(ResultTable.DecisionRule(report)))
           .Append(" Error bars and ratio uncertainties are ±1σ from Σw² of both histograms; bands are 1 ± each ratio-max tolerance over its region's bins.")
@@ -66,8 +68,35 @@ internal static class HtmlReport
         if (r.Acceptance.Count > 0)
             Fact(sb, "acceptance ledger", string.Join("<br>", r.Acceptance.Select(f =>
                 $"<span class=\"ledger {(f.IsError ? "fail" : "inconclusive")}\">{E(f.IsError ? "error" : "warning")} {E(f.Code)}</span> {E(f.Message)}")));
+        // Subjects only tests cover: nothing shows them within a tolerance, which is why such a run is not PASSED.
+        if (r.UncoveredSubjects.Count > 0)
+            Fact(sb, "no tolerance check", string.Join("<br>", r.UncoveredSubjects.Select(s =>
+                $"<span class=\"ledger inconclusive\">{E(ErrorCodes.SubjectWithoutTolerance)}</span> {E(RunDiagnostics.UncoveredText(s))}")));
+        if (r.Readings.Count > 0)
+            Fact(sb, "goodness-of-fit diagnostics", $"<a href=\"#diagnostics\">{E(DiagnosticsCount(r))}</a>");
         Fact(sb, "checked", E($"{r.StartedUtc.UtcDateTime.ToString("yyyy-MM-dd HH:mm:ss", CultureInfo.InvariantCulture)} UTC in {r.Elapsed.TotalSeconds.ToString("0.0", CultureInfo.InvariantCulture)} s"));
         sb.Append("</dl>\n</header>\n");
+    }
+
+    private static string DiagnosticsCount(RunResult r) =>
+        $"{r.Readings.Count} test{(r.Readings.Count == 1 ? "" : "s")} beside the verdict, " +
+        $"{r.Readings.Count(x => x.Finding == Distinguishability.Distinguishable)} distinguishable at this size";
+
+    /// <summary>The readings of the goodness-of-fit tests: a table apart from the verdicts, with no verdict badge.</summary>
+    private static void Readings(StringBuilder sb, RunResult r)
+    {
+        if (r.Readings.Count == 0) return;
+        sb.Append("<section class=\"diagnostics\" id=\"diagnostics\">\n<h2>Goodness-of-fit diagnostics <small>not verdicts</small></h2>\n")
+          .Append("<table class=\"readings\">\n<thead><tr><th>subject</th><th>test</th><th class=\"num\">statistic</th><th class=\"num\">p-value</th>")
+          .Append("<th class=\"num\">adjusted p</th><th>reading</th></tr></thead>\n<tbody>\n");
+        foreach (var x in r.Readings)
+            sb.Append("<tr data-reading=\"").Append(x.Finding.Token()).Append("\" data-subject=\"").Append(E(x.Subject.Name)).Append("\" title=\"").Append(E(x.Measured.Summary)).Append("\">")
+              .Append("<td>").Append(E(x.Subject.Name)).Append("</td><td>").Append(E(x.Test.Label)).Append("</td>")
+              .Append("<td class=\"num\">").Append(E(InvariantNumber.Short(x.Statistic))).Append("</td>")
+              .Append("<td class=\"num\">").Append(E(InvariantNumber.Short(x.Measured.PValue))).Append("</td>")
+              .Append("<td class=\"num\">").Append(E(InvariantNumber.Short(x.AdjustedPValue))).Append("</td>")
+              .Append("<td class=\"reading\">").Append(E(x.Finding == Distinguishability.NotMeasured ? x.Text : x.Finding.Words())).Append("</td></tr>\n");
+        sb.Append("</tbody>\n</table>\n<p class=\"note\">").Append(E(ResultTable.ReadingRule(r))).Append("</p>\n</section>\n");
     }
 
     private static string Count(string css, int n, string word) =>

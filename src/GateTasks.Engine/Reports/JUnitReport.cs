@@ -12,7 +12,10 @@ namespace GateTasks.Engine.Reports;
 /// <summary>
 /// Writes a check run as JUnit-style XML, the common subset CI systems read: one flat testsuite per contract,
 /// one testcase per feature × check × region, a failure element stating measured against tolerance, and
-/// properties carrying the numbers. Written atomically.
+/// properties carrying the numbers. Goodness-of-fit tests are diagnostics, not test cases: each is a suite property
+/// (<c>gatetasks.diagnostic.…</c>) and a line of the suite's output, so it can neither fail nor add a pass. A subject
+/// covered only by such tests is a test case of its own that does not pass (failed under <c>inconclusive: fail</c>,
+/// else skipped). Written atomically.
 /// </summary>
 internal static class JUnitReport
 {
@@ -28,7 +31,7 @@ internal static class JUnitReport
             w.WriteStartDocument();
             w.WriteStartElement("testsuites");
             w.WriteAttributeString("name", "gatetasks");
-            w.WriteAttributeString("tests", Count(reports.Sum(r => r.Outcomes.Count + r.Acceptance.Count)));
+            w.WriteAttributeString("tests", Count(reports.Sum(Cases)));
             w.WriteAttributeString("failures", Count(reports.Sum(Failed)));
             w.WriteAttributeString("errors", "0");
             w.WriteAttributeString("skipped", Count(reports.Sum(Skipped)));
@@ -47,7 +50,7 @@ internal static class JUnitReport
         var contractPath = r.Contract.FilePath;
         w.WriteStartElement("testsuite");
         w.WriteAttributeString("name", suite);
-        w.WriteAttributeString("tests", Count(r.Outcomes.Count + r.Acceptance.Count));
+        w.WriteAttributeString("tests", Count(Cases(r)));
         w.WriteAttributeString("failures", Count(Failed(r)));
         w.WriteAttributeString("errors", "0");
         w.WriteAttributeString("skipped", Count(Skipped(r)));
@@ -69,6 +72,14 @@ internal static class JUnitReport
         Property(w, "gatetasks.decision.false_alarm", InvariantNumber.Exact(r.Contract.Decision.FalseAlarm));
         Property(w, "gatetasks.decision.correction", r.Contract.Decision.CorrectionName);
         Property(w, "gatetasks.decision.inconclusive", r.Contract.Decision.InconclusiveFails ? "fail" : "warn");
+        foreach (var reading in r.Readings)
+        {
+            var key = $"gatetasks.diagnostic.{reading.Subject.Name}.{reading.Test.Label}";
+            Property(w, key, reading.Finding.Token());
+            Property(w, key + ".statistic", InvariantNumber.Exact(reading.Statistic));
+            Property(w, key + ".p_value", InvariantNumber.Exact(reading.Measured.PValue));
+            Property(w, key + ".adjusted_p_value", InvariantNumber.Exact(reading.AdjustedPValue));
+        }
         w.WriteEndElement();
 
         var caseTime = r.Outcomes.Count > 0 ? r.Elapsed.TotalSeconds / r.Outcomes.Count : 0;
@@ -134,6 +145,34 @@ internal static class JUnitReport
             w.WriteEndElement();
         }
 
+        // A subject that only tests cover is not shown within any tolerance: a case that does not pass, never a green one.
+        foreach (var subject in r.UncoveredSubjects)
+        {
+            w.WriteStartElement("testcase");
+            w.WriteAttributeString("classname", Clean($"{suite}.{subject.Name}"));
+            w.WriteAttributeString("name", "tolerance coverage");
+            w.WriteAttributeString("time", Seconds(0));
+            w.WriteAttributeString("file", Clean(subject.Location.File));
+            if (subject.Location.Line > 0) w.WriteAttributeString("line", Count(subject.Location.Line));
+            var text = RunDiagnostics.UncoveredText(subject);
+            if (r.Contract.Decision.InconclusiveFails)
+            {
+                w.WriteStartElement("failure");
+                w.WriteAttributeString("message", Clean($"{subject.Name}: {text}"));
+                w.WriteAttributeString("type", ErrorCodes.SubjectWithoutTolerance);
+                w.WriteString(Clean(Diagnostic.Error(ErrorCodes.SubjectWithoutTolerance, text, subject.Location).Line + "\n" +
+                    $"declared at {subject.Location}"));
+                w.WriteEndElement();
+            }
+            else
+            {
+                w.WriteStartElement("skipped");
+                w.WriteAttributeString("message", Clean($"{subject.Name}: {text}"));
+                w.WriteEndElement();
+            }
+            w.WriteEndElement();
+        }
+
         // The ledger's findings are test cases too, so a run whose tolerances were changed unseen never reads as green.
         for (var i = 0; i < r.Acceptance.Count; i++)
         {
@@ -170,10 +209,12 @@ internal static class JUnitReport
         w.WriteEndElement();
     }
 
-    private static int Failed(RunResult r) =>
-        r.Failures + (r.Contract.Decision.InconclusiveFails ? r.Inconclusive : 0) + r.Acceptance.Count(f => f.IsError);
+    private static int Cases(RunResult r) => r.Outcomes.Count + r.UncoveredSubjects.Count + r.Acceptance.Count;
 
-    private static int Skipped(RunResult r) => r.Contract.Decision.InconclusiveFails ? 0 : r.Inconclusive;
+    private static int Failed(RunResult r) =>
+        r.Failures + (r.Contract.Decision.InconclusiveFails ? r.Inconclusive + r.UncoveredSubjects.Count : 0) + r.Acceptance.Count(f => f.IsError);
+
+    private static int Skipped(RunResult r) => r.Contract.Decision.InconclusiveFails ? 0 : r.Inconclusive + r.UncoveredSubjects.Count;
 
     private static void Property(XmlWriter w, string name, string value)
     {

@@ -9,7 +9,8 @@ namespace GateTasks.Engine.Reports;
 
 /// <summary>
 /// A check run in GitHub-flavoured Markdown, for a pull-request comment or a CI job summary: a verdict line, a
-/// table of the failing and inconclusive checks, the counts, and the passing checks folded into a details block.
+/// table of the failing and inconclusive checks, the counts, the passing checks folded into a details block, and the
+/// goodness-of-fit tests' readings in a table of their own (diagnostics beside the verdict, never pass or fail).
 /// </summary>
 internal static class MarkdownSummary
 {
@@ -27,6 +28,10 @@ internal static class MarkdownSummary
         foreach (var f in report.Acceptance.Where(f => f.IsError))
             sb.Append("- **").Append(f.Code).Append("** ").Append(Text(f.Message)).Append('\n');
         if (report.Acceptance.Any(f => f.IsError)) sb.Append('\n');
+        // Subjects that only tests cover hold the run back from PASSED: said before the counts.
+        foreach (var subject in report.UncoveredSubjects)
+            sb.Append("- **").Append(ErrorCodes.SubjectWithoutTolerance).Append("** ").Append(Text(RunDiagnostics.UncoveredText(subject))).Append('\n');
+        if (report.UncoveredSubjects.Count > 0) sb.Append('\n');
         sb.Append($"**{report.Failures} failed**, **{report.Inconclusive} inconclusive**, {passed.Count} passed of {report.Outcomes.Count} checks " +
                   $"on {report.Contract.Features.Count} features")
           .Append(report.Inconclusive == 0 ? ""
@@ -60,6 +65,16 @@ internal static class MarkdownSummary
             sb.Append("\n</details>\n\n");
         }
         sb.Append(Text(ResultTable.DecisionRule(report))).Append('\n');
+        if (report.Readings.Count > 0)
+        {
+            sb.Append("\n#### Goodness-of-fit diagnostics (not verdicts)\n\n");
+            sb.Append("| subject | test | statistic | p-value | adjusted p | reading |\n");
+            sb.Append("|---|---|---:|---:|---:|---|\n");
+            foreach (var r in report.Readings)
+                Row(sb, Code(r.Subject.Name), r.Test.Label, InvariantNumber.Short(r.Statistic), InvariantNumber.Short(r.Measured.PValue),
+                    InvariantNumber.Short(r.AdjustedPValue), Text(r.Finding == Distinguishability.NotMeasured ? r.Text : r.Finding.Words()));
+            sb.Append('\n').Append(Text(ResultTable.ReadingRule(report))).Append('\n');
+        }
         return sb.ToString();
     }
 

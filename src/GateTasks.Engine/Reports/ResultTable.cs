@@ -43,8 +43,49 @@ internal static class ResultTable
             if (i == 0) sb.AppendLine(string.Join("  ", widths.Select(w => new string('-', w))));
         }
         sb.AppendLine(DecisionRule(report));
+        Readings(sb, report);
         Flows(sb, report);
         return sb.ToString();
+    }
+
+    /// <summary>
+    /// The goodness-of-fit tests' readings, in a table of their own under the verdicts: diagnostics beside the verdict,
+    /// worded "distinguishable at this size" or not, never pass or fail.
+    /// </summary>
+    private static void Readings(StringBuilder sb, RunResult report)
+    {
+        if (report.Readings.Count == 0) return;
+        string[] header = ["diagnostic (not a verdict)", "test", "statistic", "p-value", "adj. p", "reading"];
+        var rows = new List<string[]> { header };
+        foreach (var r in report.Readings)
+            rows.Add([r.Subject.Name, r.Test.Label, InvariantNumber.Short(r.Statistic), InvariantNumber.Short(r.Measured.PValue),
+                InvariantNumber.Short(r.AdjustedPValue), r.Finding == Distinguishability.NotMeasured ? r.Text : r.Finding.Words()]);
+        var widths = Enumerable.Range(0, header.Length).Select(c => rows.Max(r => r[c].Length)).ToArray();
+        sb.AppendLine();
+        for (var i = 0; i < rows.Count; i++)
+        {
+            sb.AppendLine(string.Join("  ", rows[i].Select((cell, c) => c is 2 or 3 or 4 ? cell.PadLeft(widths[c]) : cell.PadRight(widths[c]))).TrimEnd());
+            if (i == 0) sb.AppendLine(string.Join("  ", widths.Select(w => new string('-', w))));
+        }
+        sb.AppendLine(ReadingRule(report));
+    }
+
+    /// <summary>One sentence stating how the readings were made and that they do not decide anything.</summary>
+    public static string ReadingRule(RunResult report)
+    {
+        var d = report.Contract.Decision;
+        return $"Goodness-of-fit tests are diagnostics beside the verdict: \"distinguishable at this size\" when the {d.CorrectionName}-adjusted p-value " +
+               $"≤ {InvariantNumber.Short(d.FalseAlarm)} (family of the {report.Readings.Count} test{(report.Readings.Count == 1 ? "" : "s")} alone); " +
+               "they do not change the outcome, the exit code or the build.";
+    }
+
+    /// <summary>"; 3 goodness-of-fit diagnostics beside the verdict (1 distinguishable at this size)", or empty without tests.</summary>
+    public static string ReadingsClause(RunResult report)
+    {
+        if (report.Readings.Count == 0) return "";
+        var distinguishable = report.Readings.Count(r => r.Finding == Distinguishability.Distinguishable);
+        return $" {report.Readings.Count} goodness-of-fit diagnostic{(report.Readings.Count == 1 ? "" : "s")} beside the verdict " +
+               $"({distinguishable} distinguishable at this size).";
     }
 
     /// <summary>
@@ -83,7 +124,7 @@ internal static class ResultTable
     public static string DecisionRule(RunResult report)
     {
         var d = report.Contract.Decision;
-        return $"Fail when the {d.CorrectionName}-adjusted p-value ≤ {InvariantNumber.Short(d.FalseAlarm)} (family of {report.Outcomes.Count} checks); " +
+        return $"Fail when the {d.CorrectionName}-adjusted p-value ≤ {InvariantNumber.Short(d.FalseAlarm)} (family of {report.Outcomes.Count} tolerance checks); " +
                $"pass when the upper bound of the {IntervalHeader(report)} is below the tolerance; inconclusive {(d.InconclusiveFails ? "fails" : "warns")}.";
     }
 
@@ -152,17 +193,25 @@ internal static class ResultTable
         var line = $"{verdict}: {passed} of {report.Outcomes.Count} checks within tolerance, {report.Failures} failed, {report.Inconclusive} inconclusive " +
                    $"({report.Contract.Features.Count} features, {InvariantNumber.Count(report.Events)} surrogate events, " +
                    $"effective {report.EffectiveEvents.ToString("0", CultureInfo.InvariantCulture)}; reference {InvariantNumber.Count(report.Reference.Events)} events).";
+        line += ReadingsClause(report);
         return report.Outcome == RunOutcome.Undecided ? line + " " + UndecidedNote(report) : line;
     }
 
     /// <summary>
     /// Why a run is undecided and what would decide it: the inconclusive checks (which fail the build or only warn, as
     /// the contract says) and the surrogate events the most demanding of them needs (each check's own number is in the
-    /// table).
+    /// table), and the subjects covered only by goodness-of-fit tests, which nothing shows within a tolerance.
     /// </summary>
     public static string UndecidedNote(RunResult report)
     {
+        var uncovered = report.UncoveredSubjects;
         var open = report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive).ToList();
+        var uncoveredText = uncovered.Count == 0 ? "" :
+            $"{uncovered.Count} subject{(uncovered.Count == 1 ? " has" : "s have")} goodness-of-fit tests and no tolerance check " +
+            $"({string.Join(", ", uncovered.Take(5).Select(s => s.Name))}{(uncovered.Count > 5 ? $" and {uncovered.Count - 5} more" : "")}): " +
+            "a test does not show a tolerance met, so nothing shows " + (uncovered.Count == 1 ? "it" : "them") + " within one; " +
+            (report.Contract.Decision.InconclusiveFails ? "this fails the build under this contract (decision.inconclusive: fail)." : "this only warns under this contract.");
+        if (open.Count == 0) return "Not everything was shown within a tolerance: " + uncoveredText;
         var needed = open.Select(o => o.Needed ?? NeededEvents.Unknown).ToList();
         // The largest number decides them all; a check that no sample size decides (the reference limits it) says so.
         var most = needed.FirstOrDefault(n => n.ReferenceLimits)
@@ -172,6 +221,6 @@ internal static class ResultTable
         var names = string.Join(", ", open.Take(3).Select(o => $"{o.Subject.Name} {o.Check.Label}")) + (open.Count > 3 ? $" and {open.Count - 3} more" : "");
         return $"Not every tolerance was shown met: {open.Count} inconclusive check{(open.Count == 1 ? "" : "s")} ({names}) " +
                (report.Contract.Decision.InconclusiveFails ? "fail the build under this contract (decision.inconclusive: fail); " : "only warn under this contract; ") +
-               NeededText(most) + ".";
+               NeededText(most) + "." + (uncoveredText.Length > 0 ? " Also " + uncoveredText : "");
     }
 }

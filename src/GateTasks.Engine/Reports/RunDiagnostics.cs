@@ -9,7 +9,9 @@ internal static class RunDiagnostics
 {
     /// <summary>
     /// One per failed check (its drift code), one per inconclusive check (GATE3100: an error where the contract says
-    /// inconclusive fails, else a warning, with the events that would decide it), then the ledger's findings.
+    /// inconclusive fails, else a warning, with the events that would decide it), one per subject covered only by
+    /// goodness-of-fit tests (GATE3021, the same severity: the run is undecided), then the ledger's findings. A test's
+    /// reading is no coded message: it is a diagnostic beside the verdict, in the tables.
     /// </summary>
     public static IEnumerable<Diagnostic> Of(RunResult report)
     {
@@ -19,6 +21,13 @@ internal static class RunDiagnostics
         foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive))
             yield return new Diagnostic(CheckEvaluator.InconclusiveCode, severity, o.Check.Location,
                 $"feature '{o.Subject.Name}' {o.Check.Label} is inconclusive: {o.Summary}; " + UndecidedReason.Of(o));
+        foreach (var s in report.UncoveredSubjects)
+            yield return new Diagnostic(ErrorCodes.SubjectWithoutTolerance, severity, s.Location, UncoveredText(s));
         foreach (var f in report.Acceptance) yield return f.Diagnostic;
     }
+
+    /// <summary>Why a subject covered only by goodness-of-fit tests leaves the run undecided.</summary>
+    public static string UncoveredText(Contracts.CheckSubject s) =>
+        $"'{s.Name}' has goodness-of-fit tests and no tolerance check: a test says only whether the samples are distinguishable " +
+        "at this size, not whether they agree within a tolerance, so nothing shows it within one and the run is undecided; add a tolerance check";
 }

@@ -4,22 +4,23 @@ namespace GateTasks.Engine.Runs;
 
 /// <summary>
 /// How one run of a contract ended, decided in one place (<see cref="RunOutcomes.Decide"/>) so that the console, every
-/// report, the exit code and the build step say the same. PASSED means every tolerance was shown met and FAILED that one
-/// was shown exceeded: a run that no check failed but some could not decide is UNDECIDED, never PASSED nor FAILED,
-/// whatever the contract's inconclusive policy (which decides only whether an undecided run fails the build).
+/// report, the exit code and the build step say the same. PASSED means every tolerance was shown met and every subject
+/// had one, and FAILED that one was shown exceeded: a run that no check failed but some could not decide, or with a
+/// subject covered only by goodness-of-fit tests, is UNDECIDED, never PASSED nor FAILED, whatever the contract's
+/// inconclusive policy (which decides only whether an undecided run fails the build).
 /// </summary>
 /// <remarks>Dependency-free: the build step's task compiles this file too.</remarks>
 internal enum RunOutcome
 {
-    /// <summary>Every check passed and the contract and reference in use are the accepted ones.</summary>
+    /// <summary>Every check passed, every subject had a tolerance check, and the contract and reference in use are the accepted ones.</summary>
     Passed,
 
     /// <summary>A check failed: a tolerance was shown exceeded.</summary>
     Failed,
 
     /// <summary>
-    /// No check failed and at least one was inconclusive: no tolerance was shown missed, but not every one was shown
-    /// met. Under <c>decision.inconclusive: fail</c> it fails the build (its GATE3100 messages are errors), under
+    /// No check failed and at least one was inconclusive, or a subject (feature, pair, joint block) had goodness-of-fit
+    /// tests and no tolerance check: no tolerance was shown missed, but not everything was shown within one. Under <c>decision.inconclusive: fail</c> it fails the build (its GATE3100 messages are errors), under
     /// <c>warn</c> it only warns; the outcome is the same word either way.
     /// </summary>
     Undecided,
@@ -36,14 +37,15 @@ internal static class RunOutcomes
 {
     /// <summary>
     /// The outcome of a finished run: a failed check fails it; a broken ledger makes the rest NOT ACCEPTED; inconclusive
-    /// checks make it UNDECIDED (the contract's inconclusive policy says only whether that fails the build, not what
-    /// the run is called: FAILED always means a tolerance was exceeded).
+    /// checks, or subjects covered only by goodness-of-fit tests (<paramref name="uncovered"/>: their readings are
+    /// diagnostics, which neither pass nor fail anything), make it UNDECIDED (the contract's inconclusive policy says
+    /// only whether that fails the build, not what the run is called: FAILED always means a tolerance was exceeded).
     /// </summary>
-    public static RunOutcome Decide(int failures, int inconclusive, bool acceptanceHolds)
+    public static RunOutcome Decide(int failures, int inconclusive, bool acceptanceHolds, int uncovered = 0)
     {
         if (failures > 0) return RunOutcome.Failed;
         if (!acceptanceHolds) return RunOutcome.NotAccepted;
-        return inconclusive > 0 ? RunOutcome.Undecided : RunOutcome.Passed;
+        return inconclusive > 0 || uncovered > 0 ? RunOutcome.Undecided : RunOutcome.Passed;
     }
 
     /// <summary>The stamp for titles and summary lines: PASSED, FAILED, UNDECIDED, NOT ACCEPTED, DID NOT FINISH.</summary>

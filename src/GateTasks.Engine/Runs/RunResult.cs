@@ -4,7 +4,10 @@ using GateTasks.Engine.Checks;
 
 namespace GateTasks.Engine.Runs;
 
-/// <summary>Everything one run of a contract produced: what was compared and each check's outcome.</summary>
+/// <summary>
+/// Everything one run of a contract produced: what was compared, each tolerance check's outcome, and each
+/// goodness-of-fit test's reading (beside the verdict, never part of it).
+/// </summary>
 internal sealed record RunResult(
     PrecisionContract Contract,
     string ReferencePath,
@@ -20,6 +23,23 @@ internal sealed record RunResult(
 {
     /// <summary>Per feature, in contract order: the reference and the sample's histograms as they were compared (for plots).</summary>
     public IReadOnlyList<FeatureComparison> Comparisons { get; init; } = [];
+
+    /// <summary>The goodness-of-fit tests' readings, in contract order: diagnostics reported beside the verdict (<see cref="TestReading"/>).</summary>
+    public IReadOnlyList<TestReading> Readings { get; init; } = [];
+
+    /// <summary>
+    /// The subjects (features, categories, pairs, the joint block) that have goodness-of-fit tests and no tolerance
+    /// check, in contract order: nothing shows them within a tolerance, so the run cannot be PASSED.
+    /// </summary>
+    public IReadOnlyList<CheckSubject> UncoveredSubjects
+    {
+        get
+        {
+            var covered = Outcomes.Select(o => o.Subject.Name).ToHashSet(StringComparer.Ordinal);
+            var seen = new HashSet<string>(StringComparer.Ordinal);
+            return Readings.Select(r => r.Subject).Where(s => !covered.Contains(s.Name) && seen.Add(s.Name)).ToList();
+        }
+    }
 
     /// <summary>What the acceptance ledger check found (see <see cref="Ledger.LedgerGuard"/>): errors fail the run.</summary>
     public IReadOnlyList<Ledger.LedgerFinding> Acceptance { get; init; } = [];
@@ -37,8 +57,8 @@ internal sealed record RunResult(
     public int Inconclusive => Outcomes.Count(o => o.Verdict == Verdict.Inconclusive);
 
     /// <summary>How the checks alone ended, the ledger aside (what ranking compares and what an acceptance needs).</summary>
-    public RunOutcome ChecksOutcome => RunOutcomes.Decide(Failures, Inconclusive, acceptanceHolds: true);
+    public RunOutcome ChecksOutcome => RunOutcomes.Decide(Failures, Inconclusive, acceptanceHolds: true, UncoveredSubjects.Count);
 
     /// <summary>How the run ended: the one verdict every report, the console and the exit code show.</summary>
-    public RunOutcome Outcome => RunOutcomes.Decide(Failures, Inconclusive, AcceptanceHolds);
+    public RunOutcome Outcome => RunOutcomes.Decide(Failures, Inconclusive, AcceptanceHolds, UncoveredSubjects.Count);
 }

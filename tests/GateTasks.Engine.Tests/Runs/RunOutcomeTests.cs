@@ -19,6 +19,14 @@ public class RunOutcomeTests
     public void A_run_is_decided_in_one_place(int failures, int inconclusive, bool acceptanceHolds, string expected) =>
         Assert.Equal(Enum.Parse<RunOutcome>(expected), RunOutcomes.Decide(failures, inconclusive, acceptanceHolds));
 
+    [Theory]
+    [InlineData(0, 0, true, 1, "Undecided")] // a subject covered only by goodness-of-fit tests: nothing shows it within a tolerance
+    [InlineData(1, 0, true, 1, "Failed")]
+    [InlineData(0, 0, false, 1, "NotAccepted")]
+    [InlineData(0, 0, true, 0, "Passed")]
+    public void A_subject_covered_only_by_tests_keeps_a_run_from_passing(int failures, int inconclusive, bool acceptanceHolds, int uncovered, string expected) =>
+        Assert.Equal(Enum.Parse<RunOutcome>(expected), RunOutcomes.Decide(failures, inconclusive, acceptanceHolds, uncovered));
+
     [Fact]
     public void Every_outcome_has_its_word_and_a_token_that_reads_back()
     {
