@@ -15,9 +15,9 @@ public class TestReadingRuleTests
     private static readonly CheckSubject Subject = new FeatureSubject(new("x", "x", FeatureKind.Continuous, new QuantileBinning(3, At),
         new CoreSpec(0.05, 0.95, At), [], At, At));
 
-    private static Measurement Effect(double p, double upper) => new(0.01, 0, upper, p, double.NaN, "", []);
+    private static Measurement Effect(double p, double upper) => new(0.01, 0, upper, p, "", []);
 
-    private static Measurement Test(double p) => new(30, double.NaN, double.NaN, p, double.NaN, "", []);
+    private static Measurement Test(double p) => new(30, double.NaN, double.NaN, p, "", []);
 
     [Fact]
     public void Tests_are_read_in_their_own_family_and_leave_the_tolerance_checks_alone()
