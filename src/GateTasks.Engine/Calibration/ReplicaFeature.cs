@@ -86,6 +86,9 @@ internal sealed class ReplicaFeature
     public IEnumerable<(CheckSubject, CheckSpec, Measurement)> Measure(double[] surrogateProbabilities, Drift drift, long events, DecisionSettings decision, Random rng)
     {
         var comparison = Draw(surrogateProbabilities, drift, events, rng);
+        // A small category can draw no events at a small size: a check refuses such a sample, so it does not pass.
+        if (!(comparison.Surrogate.TotalSumW > 0))
+            return Spec.Checks.Select(check => (Subject, check, Measurement.Impossible("the replica holds no events of this feature", [])));
         return Spec.Checks.Select(check => (Subject, check, CheckEvaluator.Measure(comparison, check, decision)));
     }
 
