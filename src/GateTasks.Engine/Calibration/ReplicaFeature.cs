@@ -46,6 +46,8 @@ internal sealed class ReplicaFeature
     public static IReadOnlyList<ReplicaFeature> All(PrecisionContract contract, ReferenceHistograms reference)
     {
         var referenceEvents = (long)Math.Round(reference.EffectiveEvents);
+        // Each category judged against the tolerance a check applies to it (scaled with its share where the block says so).
+        contract = CategoryTolerances.Resolve(contract, reference);
         return contract.Features.Select(f =>
         {
             var r = reference.Find(f.Name) ?? throw new GateInputException(ErrorCodes.ReferenceMismatch,

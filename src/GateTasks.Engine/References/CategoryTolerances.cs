@@ -34,7 +34,8 @@ internal static class CategoryTolerances
         var checks = f.Checks.Select(c => c is ToleranceCheck t && !scaling.Own.Contains(c.Label)
             ? t with { Tolerance = Math.Min(t.Tolerance * factor, Ceiling(c.Kind)) }
             : c).ToList();
-        return f with { Checks = checks };
+        // Resolved once: the feature no longer carries the rule, so resolving again changes nothing.
+        return f with { Checks = checks, ShareScaling = null };
     }
 
     /// <summary>The largest tolerance a check's effect can have a meaning below (a KS distance is at most 1, a JSD ln 2, a fraction 1).</summary>
