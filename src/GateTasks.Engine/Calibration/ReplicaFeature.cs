@@ -11,7 +11,9 @@ namespace GateTasks.Engine.Calibration;
 /// One contract feature as the simulation studies see it (calibration and planning): its reference histogram taken as
 /// the truth, and replicas drawn from it — a fresh reference of the reference's effective size and a surrogate sample
 /// of a given size, each measured by the checks' own code. A drift distorts the surrogate's truth; a spike-fraction
-/// drift of a feature with a declared spike moves the spike's share.
+/// drift of a feature with a declared spike moves the spike's share. A category of a category block holds its share of
+/// a replica's events (its fresh reference the category's own), and moments are drawn about the reference's unbinned
+/// ones (<see cref="ReplicaSummary"/>), as a check streams them.
 /// </summary>
 internal sealed class ReplicaFeature
 {
