@@ -11,14 +11,17 @@ namespace GateTasks.Engine.Calibration;
 /// One contract feature as the simulation studies see it (calibration and planning): its reference histogram taken as
 /// the truth, and replicas drawn from it — a fresh reference of the reference's effective size and a surrogate sample
 /// of a given size, each measured by the checks' own code. A drift distorts the surrogate's truth; a spike-fraction
-/// drift of a feature with a declared spike moves the spike's share.
+/// drift of a feature with a declared spike moves the spike's share. A category of a category block holds its share of
+/// a replica's events (its fresh reference the category's own), and moments are drawn about the reference's unbinned
+/// ones (<see cref="ReplicaSummary"/>), as a check streams them.
 /// </summary>
 internal sealed class ReplicaFeature
 {
     private readonly double[] _truth;
 
-    private ReplicaFeature(FeatureSpec spec, ReferenceFeature reference, IReadOnlyList<bool> core, long referenceEvents)
+    private ReplicaFeature(FeatureSpec spec, ReferenceFeature reference, IReadOnlyList<bool> core, long referenceEvents, double share = 1)
     {
+        Share = share;
         Spec = spec;
         Subject = new FeatureSubject(spec);
         Reference = reference;
@@ -35,17 +38,36 @@ internal sealed class ReplicaFeature
     public IReadOnlyList<bool> Core { get; }
     public long ReferenceEvents { get; }
 
+    /// <summary>
+    /// The feature's share of the whole sample's events: 1, or for a category of a category block the share of the
+    /// reference's weight in that category. A replica of n events holds a binomial n·share of them in the category.
+    /// </summary>
+    public double Share { get; }
+
     /// <summary>Every feature of the contract, matched to the reference.</summary>
     public static IReadOnlyList<ReplicaFeature> All(PrecisionContract contract, ReferenceHistograms reference)
     {
         var referenceEvents = (long)Math.Round(reference.EffectiveEvents);
+        // Each category judged against the tolerance a check applies to it (scaled with its share where the block says so).
+        contract = CategoryTolerances.Resolve(contract, reference);
         return contract.Features.Select(f =>
         {
             var r = reference.Find(f.Name) ?? throw new GateInputException(ErrorCodes.ReferenceMismatch,
                 $"The reference has no feature '{f.Name}'; rebuild it with 'gatetasks reference build'.", f.Location);
-            return new ReplicaFeature(f, r, RegionBins.Core(r, f), referenceEvents);
+            return f.Condition is null ? new ReplicaFeature(f, r, RegionBins.Core(r, f), referenceEvents) : Category(f, r, reference);
         }).ToList();
     }
+
+    /// <summary>A category's feature: its fresh references hold the category's own effective events, its surrogates its share.</summary>
+    private static ReplicaFeature Category(FeatureSpec f, ReferenceFeature r, ReferenceHistograms reference)
+    {
+        var (w, w2) = (r.Summary.SumW + (r.Spike?.SumW ?? 0), r.Summary.SumW2 + (r.Spike?.SumW2 ?? 0));
+        var share = CategoryTolerances.Share(r, reference);
+        return new ReplicaFeature(f, r, RegionBins.Core(r, f), Math.Max(1, (long)Math.Round(Statistics.KishCount.Of(w, w2))), share);
+    }
+
+    /// <summary>The events of a whole-sample replica of <paramref name="events"/> that fall in this feature (all, or the category's binomial share).</summary>
+    private long EventsIn(long events, Random rng) => Share >= 1 ? events : ReplicaSampler.Binomial(rng, Share, events);
 
     /// <summary>The surrogate's cell probabilities under <paramref name="drift"/> (the truth's for the null drift).</summary>
     public double[] Probabilities(Drift drift) =>
@@ -68,6 +90,9 @@ internal sealed class ReplicaFeature
     public IEnumerable<(CheckSubject, CheckSpec, Measurement)> Measure(double[] surrogateProbabilities, Drift drift, long events, DecisionSettings decision, Random rng)
     {
         var comparison = Draw(surrogateProbabilities, drift, events, rng);
+        // A small category can draw no events at a small size: a check refuses such a sample, so it does not pass.
+        if (!(comparison.Surrogate.TotalSumW > 0))
+            return Spec.Checks.Select(check => (Subject, check, Measurement.Impossible("the replica holds no events of this feature", [])));
         return Spec.Checks.Select(check => (Subject, check, CheckEvaluator.Measure(comparison, check, decision)));
     }
 
@@ -77,15 +102,17 @@ internal sealed class ReplicaFeature
         var axis = Reference.Histogram.Axis;
         var (truthShare, driftedShare) = SpikeShares(drift);
         var (refSpike, refBinned) = DrawSpike(truthShare, ReferenceEvents, rng);
-        var (sampleSpike, sampleBinned) = DrawSpike(driftedShare, events, rng);
+        var (sampleSpike, sampleBinned) = DrawSpike(driftedShare, EventsIn(events, rng), rng);
         var refHistogram = ReplicaSampler.Draw(axis, _truth, refBinned, rng);
         var sample = ReplicaSampler.Draw(axis, surrogateProbabilities, sampleBinned, rng);
-        // Moments of both replicas come from their bins alike, so binning cannot bias their comparison.
+        // Moments as a check streams them: unbinned, about the reference's unbinned ones.
+        var moments = ReplicaSummary.Truth(Reference.Summary, axis, _truth, surrogateProbabilities, drift);
         var refReplica = Reference with
         {
-            Histogram = refHistogram, Summary = BinnedSummary.Of(refHistogram), Spike = refSpike, FarTail = DrawFarTail(refBinned, rng),
+            Histogram = refHistogram, Summary = ReplicaSummary.Draw(Reference.Summary, (Reference.Summary.Mean, Reference.Summary.StandardDeviation), refBinned, rng),
+            Spike = refSpike, FarTail = DrawFarTail(refBinned, rng),
         };
-        return new FeatureComparison(Spec, refReplica, sample, BinnedSummary.Of(sample), Core, sampleSpike, DrawFarTail(sampleBinned, rng));
+        return new FeatureComparison(Spec, refReplica, sample, ReplicaSummary.Draw(Reference.Summary, moments, sampleBinned, rng), Core, sampleSpike, DrawFarTail(sampleBinned, rng));
     }
 
     /// <summary>
@@ -102,10 +129,17 @@ internal sealed class ReplicaFeature
             return Histogram.FromCells(axis, cells, cells, (long)Math.Round(n), 0, 0, 0);
         }
         SpikeTally? Spike(double share, long n) => Reference.Spike is { } s ? new SpikeTally(s.Value, (long)Math.Round(share * n), share * n, share * n) : null;
+        var inFeature = (long)Math.Round(events * Share);
         var refHistogram = Fill(_truth, ReferenceEvents * (1 - truthShare));
-        var sample = Fill(surrogateProbabilities, events * (1 - driftedShare));
-        var refReplica = Reference with { Histogram = refHistogram, Summary = BinnedSummary.Of(refHistogram), Spike = Spike(truthShare, ReferenceEvents) };
-        return new FeatureComparison(Spec, refReplica, sample, BinnedSummary.Of(sample), Core, Spike(driftedShare, events), Reference.FarTail);
+        var sample = Fill(surrogateProbabilities, inFeature * (1 - driftedShare));
+        var moments = ReplicaSummary.Truth(Reference.Summary, axis, _truth, surrogateProbabilities, drift);
+        var refReplica = Reference with
+        {
+            Histogram = refHistogram, Summary = ReplicaSummary.Expected(Reference.Summary, (Reference.Summary.Mean, Reference.Summary.StandardDeviation), ReferenceEvents * (1 - truthShare)),
+            Spike = Spike(truthShare, ReferenceEvents),
+        };
+        return new FeatureComparison(Spec, refReplica, sample, ReplicaSummary.Expected(Reference.Summary, moments, inFeature * (1 - driftedShare)), Core,
+            Spike(driftedShare, inFeature), Reference.FarTail);
     }
 
     /// <summary>The spike tally of a replica of n events (binomial at the spike's share) and the events left to bin.</summary>

@@ -80,7 +80,15 @@ internal static class ContractKeys
     public static readonly string[] SampleKeys = [Path, Weight];
     public static readonly string[] DefaultsKeys = [Binning, Core, Regions, Checks, NonFinite];
     public static readonly string[] FeatureKeys = [Name, Column, Expression, Kind, Binning, Core, Regions, Spike, Categories, Checks, NonFinite];
-    public static readonly string[] CategoryKeys = [By, Values, "fraction-max"];
+    public const string PerCategory = "per-category";
+    public const string ShareScaling = "share-scaling";
+    public const string Rule = "rule";
+    public const string FullShare = "full-share";
+    public const string AtMost = "at-most";
+    public static readonly string[] CategoryKeys = [By, Values, "fraction-max", PerCategory, ShareScaling];
+    public static readonly string[] ShareScalingKeys = [Rule, FullShare, AtMost];
+    /// <summary>The rules <c>share-scaling</c> knows: the tolerance widened as 1/√share.</summary>
+    public static readonly string[] ShareScalingRules = ["inverse-sqrt"];
     public static readonly string[] BinningKeys = [Bins, Spacing, Range, Edges];
     public static readonly string[] NamedRegionKeys = [Range, Quantiles];
     public static readonly string[] Kinds = ["continuous", "discrete"];

@@ -32,6 +32,12 @@ internal sealed record FeatureSpec(
     public SourceLocation? NonFiniteLocation { get; init; }
 
     /// <summary>
+    /// For a category of a category block with <c>share-scaling</c>: how its inherited tolerances widen with its share
+    /// of the events (applied once the reference is read, <c>References/CategoryTolerances</c>); null otherwise.
+    /// </summary>
+    public ShareScaling? ShareScaling { get; init; }
+
+    /// <summary>
     /// What the reference must have been built for: the binning request and, when declared, the spike value. A
     /// check refuses a reference built for anything else.
     /// </summary>

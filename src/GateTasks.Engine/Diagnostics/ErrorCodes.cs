@@ -42,6 +42,16 @@ public static class ErrorCodes
     public const string ContractExpression = "GATE1009";
     /// <summary>The reference or acceptance ledger lies outside the repository that holds the contract.</summary>
     public const string ContractPathOutsideRepository = "GATE1010";
+    /// <summary>A category block's <c>per-category</c> names a category that is not a number of its <c>values</c>.</summary>
+    public const string CategoryNotListed = "GATE1011";
+    /// <summary>A category's own checks name a check (or region) the block's feature does not have.</summary>
+    public const string CategoryCheckNotInherited = "GATE1012";
+    /// <summary>Two entries of <c>per-category</c> name the same category.</summary>
+    public const string CategoryRepeated = "GATE1013";
+    /// <summary>A category block's <c>share-scaling</c> names a rule that does not exist.</summary>
+    public const string ShareScalingRule = "GATE1014";
+    /// <summary>A category block's <c>share-scaling</c> bound out of range (<c>full-share</c> outside (0, 1], <c>at-most</c> below 1).</summary>
+    public const string ShareScalingBound = "GATE1015";
 
     /// <summary>No sample file matches, or a sample file does not exist.</summary>
     public const string SampleNotFound = "GATE2001";

@@ -27,6 +27,8 @@ internal static class PlanStudy
 
     public static SampleSizePlan Run(PrecisionContract contract, ReferenceHistograms reference, long? detectionEvents, int replicas, int seed, double power = 0.95)
     {
+        // Judged against the tolerances a check applies: a category's scaled with its share of the reference.
+        contract = CategoryTolerances.Resolve(contract, reference);
         var features = ReplicaFeature.All(contract, reference);
         var target = contract.Decision.Confidence;
         var all = features.SelectMany(f => f.Spec.Checks.Select(c => (f.Spec, f.Subject, Check: c))).ToList();
@@ -159,6 +161,7 @@ internal static class PlanStudy
     /// <summary>The share of replicas in which a perfect surrogate of <paramref name="events"/> events passes every check of the contract.</summary>
     public static double PassRate(PrecisionContract contract, ReferenceHistograms reference, long events, int replicas, int seed)
     {
+        contract = CategoryTolerances.Resolve(contract, reference);
         return ContractPassRate(ReplicaFeature.All(contract, reference), Unsimulated(contract), contract.Decision, events, replicas, seed);
     }
 

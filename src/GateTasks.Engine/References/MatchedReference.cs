@@ -21,6 +21,8 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
     {
         var referencePath = contract.ReferenceFullPath;
         var reference = ReferenceFile.Read(referencePath, contract.ReferenceLocation);
+        // A category's tolerances may scale with its share of the reference's events: resolved here, before anything is judged.
+        contract = CategoryTolerances.Resolve(contract, reference);
         var references = contract.Features.Select(f => Match(reference, f, referencePath)).ToList();
         // Again at check: a reference built before this rule, or a contract's regions changed since, is caught here.
         for (var i = 0; i < references.Count; i++) BinCoverage.Verify(contract.Features[i], references[i]);

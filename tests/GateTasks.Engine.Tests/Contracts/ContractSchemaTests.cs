@@ -1,3 +1,4 @@
+using GateTasks.Engine.Diagnostics;
 using System.Text.Json.Nodes;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Demo;
@@ -37,6 +38,33 @@ public class ContractSchemaTests
         Assert.ThrowsAny<Exception>(() => ContractLoader.Parse(broken, "c.yaml"));
     }
 
+    [Theory]
+    [InlineData("rule: inverse-sqrt, full-share: 0.25", "3: { ks-max: 0.05, mean-shift-max: off }", true)]
+    [InlineData("rule: sqrt", "3: { ks-max: 0.05 }", false)]
+    [InlineData("rule: inverse-sqrt, full-share: 1.5", "3: { ks-max: 0.05 }", false)]
+    [InlineData("rule: inverse-sqrt, at-most: 0.5", "3: { ks-max: 0.05 }", false)]
+    [InlineData("rule: inverse-sqrt", "top: { ks-max: 0.05 }", false)]
+    public void Schema_and_loader_agree_on_per_category_tolerances(string scaling, string perCategory, bool valid)
+    {
+        var text = $$"""
+            contract-version: 1
+            sample: s.csv
+            reference: r.parquet
+            features:
+              - name: e
+                checks: { ks-max: 0.01, mean-shift-max: 0.02 }
+                categories:
+                  by: e_bin
+                  values: [0, 1, 2, 3]
+                  share-scaling: { {{scaling}} }
+                  per-category:
+                    {{perCategory}}
+            """;
+        Assert.Equal(valid, Valid(text));
+        if (valid) ContractLoader.Parse(text, "c.yaml");
+        else Assert.ThrowsAny<GateInputException>(() => ContractLoader.Parse(text, "c.yaml"));
+    }
+
     [Fact]
     public void Schema_lists_exactly_the_loaders_keys()
     {
@@ -50,6 +78,8 @@ public class ContractSchemaTests
         Assert.Equal(ContractKeys.CorrelationKeys.Order(), Keys(root["properties"]!["correlations"]!["items"]));
         Assert.Equal(ContractKeys.JointKeys.Order(), Keys(root["properties"]!["joint"]));
         Assert.Equal(ContractKeys.FeatureKeys.Order(), Keys(defs["feature"]));
+        Assert.Equal(ContractKeys.CategoryKeys.Order(), Keys(defs["feature"]!["properties"]!["categories"]));
+        Assert.Equal(ContractKeys.ShareScalingKeys.Order(), Keys(defs["feature"]!["properties"]!["categories"]!["properties"]!["share-scaling"]));
         Assert.Equal(ContractKeys.BinningKeys.Order(), Keys(defs["binning"]));
         Assert.Equal(ContractKeys.CheckKeys.Order(), Keys(defs["checks"]));
         Assert.Equal(ContractKeys.SampleKeys.Order(), Keys(root["properties"]!["sample"]!["oneOf"]![1]));
