@@ -67,7 +67,7 @@ internal static class ContractEvaluation
                     $"The reference holds no subsample of {jointSpec.Name}; rebuild it with 'gatetasks reference build'.", jointSpec.Location);
             var subject = new JointSubject(jointSpec);
             var permutations = jointSpec.PermutationsFor(measured.Count + 1, contract.Decision.FalseAlarm);
-            measured.Add((subject, jointSpec.Test, JointCheck.Evaluate(stored.Rows.ToArray(), sample.Joint!.Rows.ToArray(), jointSpec, permutations)));
+            measured.Add((subject, jointSpec.Test, JointCheck.Evaluate(stored.Rows.ToArray(), stored.Weights, sample.Joint!.Rows.ToArray(), sample.Joint.Weights.ToArray(), jointSpec, permutations)));
         }
         return new EvaluatedChecks(comparisonOf, VerdictRule.Decide(measured, contract.Decision, sample.Events));
     }
