@@ -30,5 +30,5 @@ internal sealed record AccumulatedPair(CorrelationSpec Spec, double Pearson, dou
 /// <summary>Σw and Σw² of a histogram's cells, each rounded once from its exact sum.</summary>
 internal sealed record CellSums(double[] SumW, double[] SumW2);
 
-/// <summary>The joint subsample, finished: rows offered (without NaN) and the rows kept.</summary>
-internal sealed record AccumulatedJoint(long Seen, IReadOnlyList<double[]> Rows);
+/// <summary>The joint subsample, finished: rows offered (without NaN), the rows kept and their event weights.</summary>
+internal sealed record AccumulatedJoint(long Seen, IReadOnlyList<double[]> Rows, IReadOnlyList<double> Weights);

@@ -147,5 +147,5 @@ internal sealed class SampleAccumulation
     public AccumulatedSample Finish() => new(Events, NegativeWeightEvents, SumW, SumW2,
         _histograms.Select((h, i) => new AccumulatedFeature(h.ToHistogram(), _stats[i].Summary(), _spikes.Filters[i]?.Tally, _farTail[i]?.Counts)).ToList(),
         _pairs.Select(p => p.Finish()).ToList(),
-        _joint is null ? null : new AccumulatedJoint(_joint.Seen, _joint.Rows));
+        _joint is null ? null : new AccumulatedJoint(_joint.Seen, _joint.Rows, _joint.Weights));
 }

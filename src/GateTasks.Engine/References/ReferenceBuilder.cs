@@ -148,7 +148,7 @@ internal static class ReferenceBuilder
         var inputs = files.Select(p => new ReferenceInput(Path.GetFileName(p), new FileInfo(p).Length, FileDigest.Sha256(p))).ToList();
         return new ReferenceHistograms(ReferenceFile.FormatVersion, DateTimeOffset.UtcNow, toolVersion, inputs,
             weightColumn, totals.Events, totals.SumW, totals.SumW2, result, correlations,
-            joint is null ? null : new ReferenceJointSample(contract.Joint!.Features, joint.Rows));
+            joint is null ? null : new ReferenceJointSample(contract.Joint!.Features, joint.Rows, joint.Weights));
     }
 
     /// <summary>

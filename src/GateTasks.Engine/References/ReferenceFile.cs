@@ -16,11 +16,12 @@ namespace GateTasks.Engine.References;
 /// cells (feature, cell, lower, upper, sum_w, sum_w2) and whose key/value metadata entry
 /// <c>gatetasks.reference</c> holds a JSON header with provenance, per-feature statistics and the SHA-256 of the
 /// whole content (<see cref="ReferenceDigest"/>), verified on every read. Version 1 had no digest, version 2 no
-/// fourth-moment variance of its correlations; both are refused with the command that rebuilds them.
+/// fourth-moment variance of its correlations, version 3 no event weights of its joint subsample; each is refused with
+/// the command that rebuilds it.
 /// </summary>
 internal static class ReferenceFile
 {
-    public const int FormatVersion = 3;
+    public const int FormatVersion = 5; // 5: the joint subsample's rows carry their event weights (JointWeightsEntry)
     public const string MetadataKey = "gatetasks.reference";
     public const string FormatKey = "gatetasks.reference.format";
 
@@ -116,10 +117,11 @@ internal static class ReferenceFile
                 throw Unreadable(path, "it is a Parquet file but not a GateTasks reference (no header metadata)");
             if (fmt == "1")
                 throw Unreadable(path, "it is in reference format 1, which carries no checksum of its content, so an edit to it cannot be detected; " +
-                    "rebuild it with 'gatetasks reference build' (format 3), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+                    $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt == "2")
                 throw Unreadable(path, "it is in reference format 2, which stores no large-sample variance of its correlations (fourth moments), so a Pearson or Spearman check would rest on the normal-law error; " +
-                    "rebuild it with 'gatetasks reference build' (format 3), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+                    $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+            RefuseWithoutJointWeights(path, fmt);
             if (fmt != FormatVersion.ToString(CultureInfo.InvariantCulture))
                 throw Unreadable(path, $"reference format version {fmt} is not supported; this GateTasks reads version {FormatVersion}");
             var header = JsonNode.Parse(json)!.AsObject();
@@ -242,6 +244,7 @@ internal static class ReferenceFile
                 {
                     ["features"] = new JsonArray(j.Features.Select(f => (JsonNode)JsonValue.Create(f)!).ToArray()),
                     ["rows"] = new JsonArray(j.Rows.Select(row => (JsonNode)new JsonArray(row.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray())).ToArray()),
+                    [JointWeightsKey] = JointWeightsEntry(j),
                 }
                 : null,
             ["correlations"] = new JsonArray((r.Correlations ?? []).Select(c => (JsonNode)new JsonObject
@@ -307,8 +310,31 @@ internal static class ReferenceFile
                     (c["cells_2d_sum_w"] as JsonArray)?.Select(v => (double)v!).ToArray(), (c["cells_2d_sum_w2"] as JsonArray)?.Select(v => (double)v!).ToArray())).ToList()
                 : [],
             Joint: h["joint"] is JsonObject joint
-                ? new ReferenceJointSample(joint["features"]!.AsArray().Select(f => (string)f!).ToList(),
-                    joint["rows"]!.AsArray().Select(row => row!.AsArray().Select(v => (double)v!).ToArray()).ToArray())
+                ? ReadJointSample(joint)
                 : null);
+    }
+
+    private const string JointWeightsKey = "weights";
+
+    /// <summary>The joint subsample's row weights (format 5 on): one per stored row, in row order.</summary>
+    private static JsonArray JointWeightsEntry(ReferenceJointSample joint) =>
+        new(joint.Weights.Select(w => (JsonNode)JsonValue.Create(w)!).ToArray());
+
+    /// <summary>The stored joint subsample with its row weights; a weight list that does not match the rows is damage.</summary>
+    private static ReferenceJointSample ReadJointSample(JsonObject joint)
+    {
+        var rows = joint["rows"]!.AsArray().Select(row => row!.AsArray().Select(v => (double)v!).ToArray()).ToArray();
+        var weights = joint[JointWeightsKey]!.AsArray().Select(v => (double)v!).ToArray();
+        if (weights.Length != rows.Length)
+            throw new FormatException($"the joint subsample has {rows.Length} rows but {weights.Length} weights");
+        return new ReferenceJointSample(joint["features"]!.AsArray().Select(f => (string)f!).ToList(), rows, weights);
+    }
+
+    /// <summary>Formats 3 and 4 store the joint subsample without event weights, so a weighted reference's energy test would weigh every row alike.</summary>
+    private static void RefuseWithoutJointWeights(string path, string format)
+    {
+        if (format is "3" or "4")
+            throw Unreadable(path, $"it is in reference format {format}, which stores no event weights with its joint subsample, so the energy test would treat a weighted reference as unweighted; " +
+                $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
     }
 }

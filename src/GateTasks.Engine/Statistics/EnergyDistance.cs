@@ -9,7 +9,10 @@ namespace GateTasks.Engine.Statistics;
 /// Two-sample energy test of equal multivariate distributions (Székely &amp; Rizzo 2004, "Testing for equal
 /// distributions in high dimension"): E = 2E|X−Y| − E|X−X′| − E|Y−Y′|, which is zero exactly when the
 /// distributions agree, in V-statistic form (every mean over all ordered pairs, i = j included), Euclidean
-/// distance between rows of d features.
+/// distance between rows of d features. Rows may carry weights (event weights, signed allowed): every mean is then
+/// the weighted one with each sample's weights normalised to sum to one, E = 2ΣᵢΣⱼ aᵢbⱼ|xᵢ−yⱼ| − Σᵢₖ aᵢaₖ|xᵢ−xₖ| −
+/// Σⱼₗ bⱼbₗ|yⱼ−yₗ|, aᵢ = wᵢ/Σw (the energy distance of the two weighted empirical laws, Székely &amp; Rizzo 2013,
+/// "Energy statistics", J. Stat. Plan. Inference 143:1249), with all weights 1 the unweighted statistic exactly.
 /// </summary>
 internal static class EnergyDistance
 {
@@ -19,8 +22,8 @@ internal static class EnergyDistance
     /// </summary>
     internal const int MaxPooledRows = 5_000;
 
-    /// <summary>The scaled two-sample energy test statistic T = nm/(n+m)·E (Székely &amp; Rizzo 2004).</summary>
-    private static double TestStatistic(double eStatistic, int n, int m) => (double)n * m / ((double)n + m) * eStatistic;
+    /// <summary>The scaled two-sample energy test statistic T = nm/(n+m)·E (Székely &amp; Rizzo 2004), n and m Kish (1965) effective counts when weighted.</summary>
+    private static double TestStatistic(double eStatistic, double n, double m) => n * m / (n + m) * eStatistic;
 
     /// <summary>
     /// Two-sample energy test of equal distributions with a permutation p-value (Székely &amp; Rizzo 2004):
@@ -31,11 +34,18 @@ internal static class EnergyDistance
     /// relabelling stops at the h-th permutation as extreme as the observed one and p = h/L, L the permutations
     /// done: the sequential Monte Carlo p-value of Besag &amp; Clifford (1991, Biometrika 78:301), valid like the
     /// full one, so samples far from significance cost a few dozen permutations instead of thousands.
+    /// With <paramref name="xWeights"/> and <paramref name="yWeights"/> (null: every weight 1) the statistic is the
+    /// weighted one and each row keeps its weight when relabelled (rows and their weights are exchangeable under equal
+    /// laws); the scaled T then uses Kish effective counts. A labelling whose weights sum to zero or less on a side has
+    /// no statistic and counts as extreme (conservative).
     /// </summary>
-    internal static EnergyDistanceResult PermutationTest(double[][] x, double[][] y, int permutations, int seed, int stopAfter = int.MaxValue)
+    internal static EnergyDistanceResult PermutationTest(double[][] x, double[][] y, int permutations, int seed, int stopAfter = int.MaxValue,
+        double[]? xWeights = null, double[]? yWeights = null)
     {
         int d = RequireRows(x, nameof(x), -1);
         RequireRows(y, nameof(y), d);
+        RequireWeights(xWeights, x.Length, nameof(xWeights));
+        RequireWeights(yWeights, y.Length, nameof(yWeights));
         if (permutations < 1)
             throw new ArgumentOutOfRangeException(nameof(permutations), permutations, "At least one permutation is needed.");
         int n = x.Length, m = y.Length, total = n + m;
@@ -48,7 +58,10 @@ internal static class EnergyDistance
         double[][] pooled = new double[total][];
         x.CopyTo(pooled, 0);
         y.CopyTo(pooled, n);
+        var weights = new double[total];
+        for (int i = 0; i < total; i++) weights[i] = i < n ? xWeights?[i] ?? 1.0 : yWeights?[i - n] ?? 1.0;
         var packed = new double[(long)total * (total - 1) / 2];
+        // Row sums and the total weighted by the partner's weight: Rᵢ = Σₖ wₖ|zᵢ−zₖ|, S = Σ_{i<k} wᵢwₖ|zᵢ−zₖ|.
         var rowSums = new double[total];
         double all = 0;
         long at = 0;
@@ -58,31 +71,49 @@ internal static class EnergyDistance
             {
                 double dist = Euclidean(pooled[i], pooled[j]);
                 packed[at++] = dist;
-                rowSums[i] += dist;
-                rowSums[j] += dist;
-                all += dist;
+                rowSums[i] += weights[j] * dist;
+                rowSums[j] += weights[i] * dist;
+                all += weights[i] * weights[j] * dist;
             }
         }
 
         // inX[i] = 1 when pooled row i is labelled as belonging to x; the observed labelling comes first.
         var inX = new double[total];
         Array.Fill(inX, 1.0, 0, n);
-        double observed = LabelledStatistic(packed, rowSums, all, inX, n, m);
+        var xMarks = new double[total];
+        double observed = LabelledStatistic(packed, rowSums, all, weights, inX, xMarks);
+        if (!double.IsFinite(observed))
+            throw new ArgumentException("A sample's weights sum to zero or less; the weighted energy statistic is undefined.", nameof(xWeights));
         var rng = new Xoshiro256StarStar(seed, threadSafe: false);
         int asExtreme = 0;
         for (int b = 0; b < permutations; b++)
         {
-            // Fisher–Yates shuffle of the labels (Knuth 1969, Algorithm P).
+            // Fisher–Yates shuffle of the labels (Knuth 1969, Algorithm P); each row keeps its weight.
             for (int i = total - 1; i > 0; i--)
             {
                 int k = rng.Next(i + 1);
                 (inX[i], inX[k]) = (inX[k], inX[i]);
             }
-            if (LabelledStatistic(packed, rowSums, all, inX, n, m) >= observed && ++asExtreme >= stopAfter)
-                return new EnergyDistanceResult(observed / ((double)n * m / total), observed, (double)asExtreme / (b + 1), b + 1);
+            double permuted = LabelledStatistic(packed, rowSums, all, weights, inX, xMarks);
+            if (!(permuted < observed) && ++asExtreme >= stopAfter)
+                return Result(observed, (double)asExtreme / (b + 1), b + 1);
         }
-        double e = observed / ((double)n * m / total);
-        return new EnergyDistanceResult(e, observed, (1.0 + asExtreme) / (1.0 + permutations), permutations);
+        return Result(observed, (1.0 + asExtreme) / (1.0 + permutations), permutations);
+
+        EnergyDistanceResult Result(double e, double p, int done)
+        {
+            double nx = xWeights is null ? n : KishCount.Of(xWeights.Sum(), xWeights.Sum(w => w * w));
+            double ny = yWeights is null ? m : KishCount.Of(yWeights.Sum(), yWeights.Sum(w => w * w));
+            return new EnergyDistanceResult(e, TestStatistic(e, nx, ny), p, done);
+        }
+    }
+
+    private static void RequireWeights(double[]? weights, int rows, string what)
+    {
+        if (weights is null) return;
+        if (weights.Length != rows)
+            throw new ArgumentException($"{what} has {weights.Length} weights for {rows} rows.", what);
+        KernelPreconditions.RequireFinite(weights, what);
     }
 
     /// <summary>
@@ -117,13 +148,21 @@ internal static class EnergyDistance
     }
 
     /// <summary>
-    /// T for a labelling given as a 0/1 mask. Only the within-x pair sum needs the matrix: with Rᵢ the full
-    /// row sums and S the sum over all pairs, the within-y sum is S − Σᵢ aᵢRᵢ + Sxx and the cross sum follows.
-    /// The pairs are visited in the same order for every labelling, so equal labellings give equal values.
+    /// E for a labelling given as a 0/1 mask, each row weighted by its weight. Only the within-x pair sum needs the
+    /// matrix: with vᵢ = wᵢ on x's rows and 0 elsewhere, Rᵢ the weighted row sums and S the weighted sum over all
+    /// pairs, the within-y sum is S − Σᵢ vᵢRᵢ + Sxx and the cross sum follows. The pairs are visited in the same order
+    /// for every labelling, so equal labellings give equal values; NaN when a side's weights sum to zero or less.
     /// </summary>
-    private static double LabelledStatistic(double[] packed, double[] rowSums, double all, double[] inX, int n, int m)
+    private static double LabelledStatistic(double[] packed, double[] rowSums, double all, double[] weights, double[] inX, double[] xMarks)
     {
         int total = inX.Length;
+        double wx = 0, wy = 0;
+        for (int i = 0; i < total; i++)
+        {
+            xMarks[i] = inX[i] * weights[i];
+            if (inX[i] != 0) wx += weights[i]; else wy += weights[i];
+        }
+        if (!(wx > 0) || !(wy > 0)) return double.NaN;
         double sxx = 0, xRowSums = 0;
         long at = 0;
         for (int i = 0; i < total; i++)
@@ -131,16 +170,16 @@ internal static class EnergyDistance
             int length = total - i - 1;
             if (inX[i] != 0)
             {
-                xRowSums += rowSums[i];
+                xRowSums += weights[i] * rowSums[i];
                 ReadOnlySpan<double> row = packed.AsSpan((int)at, length);
-                ReadOnlySpan<double> mask = inX.AsSpan(i + 1, length);
-                sxx += Dot(row, mask);
+                ReadOnlySpan<double> mask = xMarks.AsSpan(i + 1, length);
+                sxx += weights[i] * Dot(row, mask);
             }
             at += length;
         }
         double syy = all - xRowSums + sxx;
         double sxy = all - sxx - syy;
-        return TestStatistic(EStatistic(sxy, sxx, syy, n, m), n, m);
+        return EStatistic(sxy, sxx, syy, wx, wy);
     }
 
     /// <summary>SIMD dot product; the permutation loop spends its time here.</summary>
@@ -155,10 +194,9 @@ internal static class EnergyDistance
         return s;
     }
 
-    /// <summary>E from pair sums: cross sum over all (i, j), within sums over unordered pairs i &lt; k.</summary>
-    private static double EStatistic(double sxy, double sxx, double syy, int n, int m)
+    /// <summary>E from (weighted) pair sums: cross sum over all (i, j), within sums over unordered pairs i &lt; k; n and m the samples' total weights.</summary>
+    private static double EStatistic(double sxy, double sxx, double syy, double nn, double mm)
     {
-        double nn = n, mm = m;
         return 2 * sxy / (nn * mm) - 2 * sxx / (nn * nn) - 2 * syy / (mm * mm);
     }
 

@@ -160,6 +160,78 @@ public class EnergyDistanceTests
         Assert.Throws<ArgumentException>(() => EnergyDistance.Standardise(rows, new double[] { 0 }, new double[] { 1 }));
     }
 
+    [Theory]
+    [InlineData("weighted_univariate_rows_60_50_d1")]
+    [InlineData("signed_weights_70_60_d2")]
+    public void WeightedRowsGiveTheWeightedVStatistic(string name)
+    {
+        // numpy 1.24.2 direct weighted V-statistic with normalised weights (call in fixture), energy_weighted/<name>
+        var c = EnergyCase("energy_weighted", name);
+        var r = EnergyDistance.PermutationTest(Rows(c, "x"), Rows(c, "y"), 1, 1, xWeights: c.Doubles("x_weights"), yWeights: c.Doubles("y_weights"));
+        Near(c.Double("e_statistic"), r.EStatistic, 1e-11);
+    }
+
+    [Fact]
+    public void PositivelyWeightedOneFeatureRowsGiveTheSquareOfScipysWeightedEnergyDistance()
+    {
+        // scipy 1.10.1 stats.energy_distance(x[:,0], y[:,0], wx, wy) ** 2, fixture energy_weighted/weighted_univariate_rows_60_50_d1
+        var c = EnergyCase("energy_weighted", "weighted_univariate_rows_60_50_d1");
+        var r = EnergyDistance.PermutationTest(Rows(c, "x"), Rows(c, "y"), 1, 1, xWeights: c.Doubles("x_weights"), yWeights: c.Doubles("y_weights"));
+        Near(c.Double("scipy_energy_distance_squared"), r.EStatistic, 1e-11);
+    }
+
+    [Fact]
+    public void UnitWeightsGiveTheUnweightedResult()
+    {
+        // Compares the program with itself: weights of 1 must be the unweighted test, statistic and permutations alike.
+        double[][] x = CorrelatedNormal(200, 0.8, 31), y = CorrelatedNormal(150, 0.6, 32);
+        var plain = EnergyDistance.PermutationTest(x, y, 99, 17);
+        var unit = EnergyDistance.PermutationTest(x, y, 99, 17, xWeights: Enumerable.Repeat(1.0, 200).ToArray(), yWeights: Enumerable.Repeat(1.0, 150).ToArray());
+        Assert.Equal(plain, unit);
+    }
+
+    [Fact]
+    public void A_weighted_sample_of_one_law_is_not_told_apart_from_an_unweighted_sample_of_it()
+    {
+        // Importance weighting (common practice): rows of the bivariate normal (correlation 0.5) shifted by (0.5, 0.25),
+        // weighted by φ(x)/φ(x − 0.5) (the conditional of the second feature given x is the same in both laws), describe
+        // the unshifted law the unweighted sample is drawn from. The weighted test keeps its level, the
+        // test that ignores the weights sees the shift. Over 20 replicas at the 5% level: Binomial(20, 0.05) gives
+        // P(X ≥ 4) = 0.016 (scipy 1.10.1: scipy.stats.binom.sf(3, 20, 0.05)), so at most 3 rejections are allowed.
+        int weightedRejects = 0, unweightedRejects = 0;
+        for (var k = 0; k < 20; k++)
+        {
+            var reference = CorrelatedNormal(300, 0.5, 500 + 2 * k);
+            var weights = new double[reference.Length];
+            for (var i = 0; i < reference.Length; i++)
+            {
+                reference[i][0] += 0.5;
+                reference[i][1] += 0.25;
+                weights[i] = Math.Exp(-0.5 * reference[i][0] * reference[i][0] + 0.5 * (reference[i][0] - 0.5) * (reference[i][0] - 0.5));
+            }
+            var sample = CorrelatedNormal(300, 0.5, 501 + 2 * k);
+            var ones = Enumerable.Repeat(1.0, sample.Length).ToArray();
+            if (EnergyDistance.PermutationTest(reference, sample, 99, k, xWeights: weights, yWeights: ones).PValue <= 0.05) weightedRejects++;
+            if (EnergyDistance.PermutationTest(reference, sample, 99, k).PValue <= 0.05) unweightedRejects++;
+        }
+        Assert.True(weightedRejects <= 3, $"{weightedRejects} of 20 weighted tests rejected one law");
+        // The shift of 0.5σ at 300 + 300 rows is seen by the unweighted test nearly always (the premise of the case).
+        Assert.True(unweightedRejects >= 15, $"only {unweightedRejects} of 20 unweighted tests saw the shift");
+    }
+
+    [Fact]
+    public void A_weighted_test_still_sees_a_broken_correlation()
+    {
+        // The weighted reference (signed weights: 5% of rows at −0.5) of a correlated pair against a sample whose
+        // pair is independent: the energy test is consistent against any difference of laws (Székely & Rizzo 2004).
+        var rng = new Xoshiro256StarStar(77, threadSafe: false);
+        var reference = CorrelatedNormal(500, 0.8, 71);
+        var weights = reference.Select(_ => rng.NextDouble() < 0.05 ? -0.5 : 1.0).ToArray();
+        var sample = CorrelatedNormal(500, 0.0, 72);
+        var r = EnergyDistance.PermutationTest(reference, sample, 199, 3, xWeights: weights, yWeights: Enumerable.Repeat(1.0, 500).ToArray());
+        Assert.True(r.PValue <= 0.01, $"p = {r.PValue}");
+    }
+
     /// <summary>Rows of a standard bivariate normal with correlation rho, seeded.</summary>
     private static double[][] CorrelatedNormal(int rows, double rho, int seed)
     {
