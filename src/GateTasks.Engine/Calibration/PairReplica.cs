@@ -125,7 +125,7 @@ internal sealed class PairReplica
     }
 
     /// <summary>The accumulation of n events of weight ±1 sitting on the points with summed weights w (see the class remarks).</summary>
-    private static WeightedCorrelation Events(double[] x, double[] y, double[] w, long n)
+    internal static WeightedCorrelation Events(double[] x, double[] y, double[] w, long n)
     {
         var points = new WeightedCorrelation();
         points.AddBatch(x, y, w);
