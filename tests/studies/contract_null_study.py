@@ -99,7 +99,7 @@ def write_csv(path, energy, response, k, x, w):
     np.savetxt(path, np.column_stack(columns), delimiter=",", header=header, comments="", fmt="%.17g")
 
 
-def study(cli, mode, replicas, reference_events, sample_events, seed, work):
+def study(cli, mode, replicas, reference_events, sample_events, seed, work, first=0):
     weighted = mode == "weighted"
     folder = os.path.join(work, mode)
     os.makedirs(os.path.join(folder, ".git"), exist_ok=True)
@@ -107,7 +107,7 @@ def study(cli, mode, replicas, reference_events, sample_events, seed, work):
         fh.write(CONTRACT.format(alpha=FALSE_ALARM, weight="  weight: weight\n" if weighted else ""))
     failing = undecided = 0
     by_check = {}
-    for r in range(replicas):
+    for r in range(first, first + replicas):
         rng = np.random.default_rng([seed, 1 if weighted else 0, r])
         write_csv(os.path.join(folder, "trusted.csv"), *draw(rng, reference_events, weighted))
         write_csv(os.path.join(folder, "surrogate.csv"), *draw(rng, sample_events, weighted))
@@ -130,7 +130,7 @@ def study(cli, mode, replicas, reference_events, sample_events, seed, work):
             undecided += 1
         print(f"{mode} replica {r}: exit {c.returncode}", flush=True)
     lo, hi = sparse.clopper_pearson(failing, replicas)
-    print(f"{mode}: replicas {replicas}, reference events {reference_events}, sample events {sample_events}, seed {seed}")
+    print(f"{mode}: replicas {first}..{first + replicas - 1}, reference events {reference_events}, sample events {sample_events}, seed {seed}")
     print(f"{mode}: failing replicas {failing} ({failing / replicas:.4f}), 95% Clopper-Pearson [{lo:.4f}, {hi:.4f}]; "
           f"stated family-wise false-alarm level {FALSE_ALARM}; undecided replicas {undecided}")
     for name, n in sorted(by_check.items()):
@@ -147,6 +147,8 @@ def main():
     ap.add_argument("--reference-events", type=int, default=20000)
     ap.add_argument("--sample-events", type=int, default=20000)
     ap.add_argument("--seed", type=int, default=1)
+    ap.add_argument("--first-replica", type=int, default=0,
+                    help="number of the first replica (its seed), to split a study over several processes")
     ap.add_argument("--work", default=None, help="folder for the replicas' files (default: a temporary one)")
     a = ap.parse_args()
     # Paths in the command are taken from here: the replicas run in their own folder.
@@ -155,7 +157,7 @@ def main():
     for mode in a.modes.split(","):
         if mode not in ("unweighted", "weighted"):
             ap.error(f"unknown mode '{mode}'")
-        study(cli, mode, a.replicas, a.reference_events, a.sample_events, a.seed, work)
+        study(cli, mode, a.replicas, a.reference_events, a.sample_events, a.seed, work, a.first_replica)
 
 
 if __name__ == "__main__":

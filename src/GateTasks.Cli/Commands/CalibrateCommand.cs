@@ -34,6 +34,8 @@ internal static class CalibrateCommand
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
+            var f = parse.GetValue(negative);
+            if (!(f >= 0 && f < 0.5)) throw new Engine.Diagnostics.GateInputException(Engine.Diagnostics.ErrorCodes.Usage, "--negative-fraction must be at least 0 and below 0.5.");
             var c = ContractLoader.Load(parse.GetValue(contract)!);
             new RunPaths().Contract(c).Write(parse.GetValue(markdown), "--markdown").Verify();
             var reference = ReferenceFile.Read(c.ReferenceFullPath, c.ReferenceLocation);
@@ -43,8 +45,6 @@ internal static class CalibrateCommand
                 .ToList();
             var n = parse.GetValue(replicas);
             if (n < 1) throw new Engine.Diagnostics.GateInputException(Engine.Diagnostics.ErrorCodes.Usage, "--replicas must be at least 1.");
-            var f = parse.GetValue(negative);
-            if (!(f >= 0 && f < 0.5)) throw new Engine.Diagnostics.GateInputException(Engine.Diagnostics.ErrorCodes.Usage, "--negative-fraction must be at least 0 and below 0.5.");
             var results = new List<CalibrationResult>();
             foreach (var size in sizes)
             {
