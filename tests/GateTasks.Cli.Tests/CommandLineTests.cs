@@ -19,6 +19,18 @@ public class CommandLineTests
         Assert.Contains("/nonexistent/precision-contract.yaml", stderr);
     }
 
+    [Theory]
+    [InlineData("0.5")]
+    [InlineData("-0.1")]
+    public void Calibrate_refuses_a_negative_fraction_outside_its_range(string fraction)
+    {
+        // docs/cli.md: `--negative-fraction` outside [0, 0.5) is a usage error, exit 2.
+        var (code, _, stderr) = Cli.Run("calibrate", "--negative-fraction", fraction, "--contract", "/nonexistent/precision-contract.yaml");
+        Assert.Equal(2, code);
+        Assert.Contains("GATE0001", stderr);
+        Assert.Contains("--negative-fraction", stderr);
+    }
+
     [Fact]
     public void Help_lists_the_commands()
     {

@@ -10,7 +10,8 @@ namespace GateTasks.Cli.Commands;
 
 /// <summary>
 /// <c>gatetasks calibrate</c>: measures the contract's false-alarm rate on null replicas and its detection rate on
-/// injected drifts, by simulation from the reference. Exit 0 when the null false-alarm rate is consistent with the
+/// injected drifts, by simulation from the reference (per-feature, pair and joint checks alike), and again on null
+/// replicas whose surrogate events carry signed weights. Exit 0 when the null false-alarm rate is consistent with the
 /// contract's level, 1 when it is not.
 /// </summary>
 internal static class CalibrateCommand
@@ -22,13 +23,19 @@ internal static class CalibrateCommand
         var events = new Option<string>("--events") { Description = "Surrogate sample sizes, comma-separated.", DefaultValueFactory = _ => "100000,1000000" };
         var feature = new Option<string?>("--feature") { Description = "Feature to drift (default: the first continuous one; the first discrete one for the spike-fraction drift)." };
         var seed = new Option<int>("--seed") { Description = "Seed of the study.", DefaultValueFactory = _ => 1 };
+        var negative = new Option<double>("--negative-fraction")
+        {
+            Description = "Share of surrogate events weighing -1 (the rest +1) in the extra weighted null rows; 0: none.", DefaultValueFactory = _ => 0.1,
+        };
         var markdown = new Option<string?>("--markdown") { Description = "Also write the table to this Markdown file." }.NotEmpty();
         var command = new Command("calibrate", "Measure the contract's false-alarm rate (null replicas) and detection rate (injected drifts) by simulation from the reference.")
         {
-            contract, replicas, events, feature, seed, markdown,
+            contract, replicas, events, feature, seed, negative, markdown,
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
+            var f = parse.GetValue(negative);
+            if (!(f >= 0 && f < 0.5)) throw new Engine.Diagnostics.GateInputException(Engine.Diagnostics.ErrorCodes.Usage, "--negative-fraction must be at least 0 and below 0.5.");
             var c = ContractLoader.Load(parse.GetValue(contract)!);
             new RunPaths().Contract(c).Write(parse.GetValue(markdown), "--markdown").Verify();
             var reference = ReferenceFile.Read(c.ReferenceFullPath, c.ReferenceLocation);
@@ -47,6 +54,12 @@ internal static class CalibrateCommand
                     var target = drift.Kind == DriftKind.SpikeFraction ? null : parse.GetValue(feature);
                     results.Add(CalibrationStudy.Run(c, reference, drift, target, size, n, parse.GetValue(seed)));
                     stderr.WriteLine($"  {drift.Label} at {size} events: done");
+                }
+                if (f > 0)
+                {
+                    var law = new WeightLaw(f);
+                    results.Add(CalibrationStudy.Run(c, reference, Drift.Null, null, size, n, parse.GetValue(seed), law));
+                    stderr.WriteLine($"  {Drift.Null.Label}, weights {law.Label}, at {size} events: done");
                 }
             }
             var table = CalibrationTable.Format(c, results);

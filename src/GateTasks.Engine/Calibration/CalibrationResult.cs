@@ -13,4 +13,10 @@ internal sealed record CalibrationResult(Drift Drift, string? Feature, long Even
 
     /// <summary>Share of replicas with no failure but at least one inconclusive check.</summary>
     public double InconclusiveRate => Replicas > 0 ? (double)Inconclusive / Replicas : double.NaN;
+
+    /// <summary>The surrogate's event weights in these replicas.</summary>
+    public WeightLaw Weights { get; init; } = WeightLaw.Unit;
+
+    /// <summary>Every check's own rates, in the contract's order (features, pairs, the joint block).</summary>
+    public IReadOnlyList<CheckTally> Checks { get; init; } = [];
 }

@@ -6,23 +6,47 @@ using GateTasks.Engine.Diagnostics;
 
 namespace GateTasks.Engine.Reports;
 
-/// <summary>The calibration study as a Markdown table (readable as plain text too).</summary>
+/// <summary>
+/// The calibration study as Markdown tables (readable as plain text too): the contract's rates per row, then every
+/// check's own rates on the null rows.
+/// </summary>
 internal static class CalibrationTable
 {
     public static string Format(PrecisionContract contract, IReadOnlyList<CalibrationResult> results)
     {
         var sb = new StringBuilder();
         var d = contract.Decision;
-        sb.AppendLine($"Contract {contract.DisplayName}: {contract.Features.Sum(f => f.Checks.Count)} checks, false-alarm level {InvariantNumber.Short(d.FalseAlarm)} ({d.CorrectionName}), confidence {InvariantNumber.Short(d.Confidence)}.");
+        var checks = contract.Features.Sum(f => f.Checks.Count);
+        var pairChecks = contract.Pairs.Sum(p => p.Checks.Count());
+        var joint = contract.Joint is null ? 0 : 1;
+        sb.AppendLine($"Contract {contract.DisplayName}: {checks + pairChecks + joint} checks ({checks} per feature, {pairChecks} on pairs, {joint} joint), " +
+                      $"false-alarm level {InvariantNumber.Short(d.FalseAlarm)} ({d.CorrectionName}), confidence {InvariantNumber.Short(d.Confidence)}.");
         sb.AppendLine();
-        sb.AppendLine("| drift | feature | surrogate events | replicas | contract failed | rate [95% CI] | inconclusive |");
-        sb.AppendLine("|---|---|---:|---:|---:|---|---:|");
+        sb.AppendLine("| drift | feature | surrogate weights | surrogate events | replicas | contract failed | rate [95% CI] | inconclusive |");
+        sb.AppendLine("|---|---|---|---:|---:|---:|---|---:|");
         foreach (var r in results)
         {
             var (lo, hi) = r.FailRateInterval;
-            sb.AppendLine($"| {r.Drift.Label} | {r.Feature ?? "—"} | {InvariantNumber.Count(r.Events)} | {r.Replicas} | {r.Failed} | " +
+            sb.AppendLine($"| {r.Drift.Label} | {r.Feature ?? "—"} | {r.Weights.Label} | {InvariantNumber.Count(r.Events)} | {r.Replicas} | {r.Failed} | " +
                           $"{Pct(r.FailRate)} [{Pct(lo)}, {Pct(hi)}] | {Pct(r.InconclusiveRate)} |");
         }
+        var nulls = results.Where(r => r.Drift.Kind == DriftKind.None && r.Checks.Count > 0).ToList();
+        if (nulls.Count == 0) return sb.ToString();
+        sb.AppendLine();
+        sb.AppendLine("Each check on the null replicas: how often it failed after the contract-wide correction, and for a goodness-of-fit test how often");
+        sb.AppendLine($"its own p-value was at most {InvariantNumber.Short(d.FalseAlarm)} (\"significant\"), with 95% Clopper–Pearson intervals.");
+        sb.AppendLine();
+        sb.AppendLine("| subject | check | surrogate weights | surrogate events | failed | fail rate [95% CI] | inconclusive | significant rate [95% CI] |");
+        sb.AppendLine("|---|---|---|---:|---:|---|---:|---|");
+        foreach (var r in nulls)
+            foreach (var c in r.Checks)
+            {
+                var (lo, hi) = c.FailRateInterval;
+                var (slo, shi) = c.SignificantRateInterval;
+                var significant = c.IsTest ? $"{Pct(c.SignificantRate)} [{Pct(slo)}, {Pct(shi)}]" : "—";
+                sb.AppendLine($"| {c.Subject} | {c.Check} | {r.Weights.Label} | {InvariantNumber.Count(r.Events)} | {c.Failed} | " +
+                              $"{Pct(c.FailRate)} [{Pct(lo)}, {Pct(hi)}] | {Pct((double)c.Inconclusive / c.Replicas)} | {significant} |");
+            }
         return sb.ToString();
     }
 

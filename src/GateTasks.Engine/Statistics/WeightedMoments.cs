@@ -6,7 +6,8 @@ namespace GateTasks.Engine.Statistics;
 /// Streaming weighted mean and variance (West 1979, Comm. ACM 22:532), mergeable by the pairwise update of
 /// Chan, Golub &amp; LeVeque (1979), with Σw and Σw² for the Kish (1965) effective count (Σw)²/Σw².
 /// Memory is constant whatever the number of entries. Weights may be negative (event generators produce
-/// them); mean and variance are NaN while Σw is zero. The running mean is kept relative to the first value
+/// them); mean and variance are NaN while Σw is zero, and defined again once it is not (sums about the pivot are kept
+/// for that). The running mean is kept relative to the first value
 /// seen, so a large common offset does not cost precision in the deviations.
 /// </summary>
 internal sealed class WeightedMoments
@@ -14,6 +15,10 @@ internal sealed class WeightedMoments
     private double _pivot = double.NaN;
     private double _meanFromPivot;
     private double _sumSquaredDeviations;
+
+    // Σw(x − pivot) and Σw(x − pivot)², kept beside the running update so that a running Σw that passes through zero
+    // (signed weights, e.g. two −0.5 events before a +1) loses nothing: the update restarts from them once Σw is not zero.
+    private double _rawFirst, _rawSecond;
 
     /// <summary>Number of entries added (including zero-weight ones).</summary>
     internal long Count { get; private set; }
@@ -51,12 +56,23 @@ internal sealed class WeightedMoments
             _pivot = x;
         double total = SumOfWeights + w;
         SumOfSquaredWeights += w * w;
+        double d = x - _pivot;
+        _rawFirst += w * d;
+        _rawSecond += w * d * d;
         if (total == 0)
         {
-            // Σw returned to zero: the mean is undefined, and nothing that follows can recover it.
+            // Σw is zero for now: the mean is undefined until later entries move Σw away from zero.
             SumOfWeights = 0;
             _meanFromPivot = double.NaN;
             _sumSquaredDeviations = double.NaN;
+            return;
+        }
+        if (SumOfWeights == 0 && double.IsNaN(_meanFromPivot))
+        {
+            // Leaving a zero Σw: restart the running update from the sums about the pivot.
+            _meanFromPivot = _rawFirst / total;
+            _sumSquaredDeviations = _rawSecond - _rawFirst * _meanFromPivot;
+            SumOfWeights = total;
             return;
         }
         double delta = (x - _pivot) - _meanFromPivot;
@@ -84,6 +100,14 @@ internal sealed class WeightedMoments
     internal void Restore(ReadOnlySpan<double> s)
     {
         (Count, SumOfWeights, SumOfSquaredWeights, _pivot, _meanFromPivot, _sumSquaredDeviations) = ((long)s[0], s[1], s[2], s[3], s[4], s[5]);
+        SyncRawSums();
+    }
+
+    /// <summary>The sums about the pivot from the running state (after a merge or a restore).</summary>
+    private void SyncRawSums()
+    {
+        _rawFirst = SumOfWeights * _meanFromPivot;
+        _rawSecond = _sumSquaredDeviations + SumOfWeights * _meanFromPivot * _meanFromPivot;
     }
 
     /// <summary>Adds everything accumulated in <paramref name="other"/> (which is left unchanged).</summary>
@@ -100,6 +124,7 @@ internal sealed class WeightedMoments
             _pivot = other._pivot;
             _meanFromPivot = other._meanFromPivot;
             _sumSquaredDeviations = other._sumSquaredDeviations;
+            SyncRawSums();
             return;
         }
         double total = SumOfWeights + other.SumOfWeights;
@@ -114,5 +139,6 @@ internal sealed class WeightedMoments
         _meanFromPivot += delta * other.SumOfWeights / total;
         _sumSquaredDeviations += other._sumSquaredDeviations + delta * delta * SumOfWeights * other.SumOfWeights / total;
         SumOfWeights = total;
+        SyncRawSums();
     }
 }

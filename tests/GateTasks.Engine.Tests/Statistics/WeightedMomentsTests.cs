@@ -52,6 +52,18 @@ public class WeightedMomentsTests
     }
 
     [Fact]
+    public void RunningSumOfWeightsThroughZeroLosesNothing()
+    {
+        // Two −0.5 events before a +1 bring Σw to zero on the way; the whole sample's moments are still defined.
+        // numpy 1.24.2: average(x, weights=w) = 1.2375000000000003, average((x − mean)², weights=w) = 0.4423437500000001.
+        double[] x = [1.2, 1.3, 1.0, 1.6, 0.5, 2.2, 0.9], w = [-0.5, -0.5, 1, 1, 1, 1, 1];
+        var acc = new WeightedMoments();
+        for (int i = 0; i < x.Length; i++) acc.Add(x[i], w[i]);
+        Near(1.2375000000000003, acc.Mean, 1e-13);
+        Near(0.4423437500000001, acc.Variance, 1e-12);
+    }
+
+    [Fact]
     public void EmptyAccumulatorHasNoMean()
     {
         var acc = new WeightedMoments();
