@@ -19,8 +19,8 @@ internal static class HistogramBootstrap
 
     public static Errors StandardErrors(CellContents reference, CellContents surrogate, Func<double[], double[], double> distance, int seed)
     {
-        var refOnly = Spread(reference, surrogate, distance, seed, perturbReference: true, perturbSurrogate: false);
-        var surOnly = Spread(reference, surrogate, distance, seed + 1, perturbReference: false, perturbSurrogate: true);
+        var refOnly = Spread(reference, surrogate, distance, seed, perturbReference: true, perturbSurrogate: false).Sd;
+        var surOnly = Spread(reference, surrogate, distance, seed + 1, perturbReference: false, perturbSurrogate: true).Sd;
         // The two samples are independent, so their parts add in quadrature.
         return new Errors(Math.Sqrt(refOnly * refOnly + surOnly * surOnly), refOnly, surOnly);
     }
@@ -38,7 +38,86 @@ internal static class HistogramBootstrap
         return (int)(h & 0x7fffffff);
     }
 
-    private static double Spread(CellContents reference, CellContents surrogate, Func<double[], double[], double> distance, int seed,
+    /// <summary>
+    /// The bootstrap estimate of a distance's bias, the mean of replicas with both samples redrawn less the estimate
+    /// (Efron &amp; Tibshirani 1993, An Introduction to the Bootstrap, ch. 10); the bias-corrected estimate is the
+    /// estimate less this. A distance is positive even between two samples of one law, and the correction removes
+    /// most of that floor.
+    /// </summary>
+    public static double Bias(CellContents reference, CellContents surrogate, Func<double[], double[], double> distance, double estimate, int seed) =>
+        Spread(reference, surrogate, distance, seed + 2, perturbReference: true, perturbSurrogate: true).Mean - estimate;
+
+    /// <summary>
+    /// The distance between two samples drawn from one law — the reference's cells, each sample at its own size and
+    /// weights — in <see cref="Replicas"/> replicas: its law at zero true distance, against which the fail side is
+    /// judged (<see cref="TailProbability"/>). Each cell of a sample is a scaled Poisson count, κ·Poisson(μ/κ), with μ
+    /// the reference's share of that sample's Σw and κ = Σw²/Σw its mean weight (exact for unit weights; the
+    /// compound-Poisson scaling of Kish 1965's effective count otherwise), so sparse cells keep their skew and never
+    /// go negative. Cells where the reference is not positive are held at their expectation.
+    /// </summary>
+    public static double[] NullReplicas(CellContents reference, double sampleSumW, double sampleSumW2, Func<double[], double[], double> distance, int seed)
+    {
+        double refW = 0, refW2 = 0;
+        for (var i = 0; i < reference.SumW.Length; i++)
+        {
+            refW += reference.SumW[i];
+            refW2 += reference.SumW2[i];
+        }
+        var rng = new Xoshiro256StarStar(seed + 3, threadSafe: false);
+        var a = new double[reference.SumW.Length];
+        var b = new double[reference.SumW.Length];
+        var result = new double[Replicas];
+        if (!(refW > 0) || !(sampleSumW > 0)) return result;
+        var kappaRef = refW2 > 0 ? refW2 / refW : 1;
+        var kappaSample = sampleSumW2 > 0 ? sampleSumW2 / sampleSumW : 1;
+        for (var r = 0; r < Replicas; r++)
+        {
+            for (var i = 0; i < a.Length; i++)
+            {
+                var share = reference.SumW[i] / refW;
+                a[i] = ScaledPoisson(share * refW, kappaRef, rng);
+                b[i] = ScaledPoisson(share * sampleSumW, kappaSample, rng);
+            }
+            result[r] = a.Sum() > 0 && b.Sum() > 0 ? distance(a, b) : 0;
+        }
+        return result;
+    }
+
+    private static double ScaledPoisson(double mean, double kappa, Random rng) =>
+        mean > 0 ? kappa * MathNet.Numerics.Distributions.Poisson.Sample(rng, mean / kappa) : mean;
+
+    /// <summary>
+    /// P(D ≥ <paramref name="excess"/>) for the law of <paramref name="replicas"/>, from the gamma law of the same mean
+    /// and variance (the two-moment scaled-χ² approximation of Satterthwaite 1946 / Welch 1938, exact in shape for a
+    /// divergence of two samples of one law, a weighted sum of χ²₁ terms), which reaches the small p-values a
+    /// multiplicity correction asks for where 200 replicas cannot. 1 for a non-positive excess.
+    /// </summary>
+    public static double TailProbability(IReadOnlyList<double> replicas, double excess)
+    {
+        if (!(excess > 0)) return 1;
+        var (mean, variance) = Moments(replicas);
+        if (!(mean > 0) || !(variance > 0)) return excess > mean ? 0 : 1;
+        return 1 - MathNet.Numerics.Distributions.Gamma.CDF(mean * mean / variance, mean / variance, excess);
+    }
+
+    /// <summary>The <paramref name="probability"/> quantile of the same gamma law (0 when the replicas do not vary).</summary>
+    public static double Quantile(IReadOnlyList<double> replicas, double probability)
+    {
+        var (mean, variance) = Moments(replicas);
+        if (!(mean > 0) || !(variance > 0)) return Math.Max(0, mean);
+        return MathNet.Numerics.Distributions.Gamma.InvCDF(mean * mean / variance, mean / variance, probability);
+    }
+
+    private static (double Mean, double Variance) Moments(IReadOnlyList<double> values)
+    {
+        double sum = 0, sumSq = 0;
+        foreach (var v in values) sum += v;
+        var mean = sum / values.Count;
+        foreach (var v in values) sumSq += (v - mean) * (v - mean);
+        return (mean, values.Count > 1 ? sumSq / (values.Count - 1) : 0);
+    }
+
+    private static (double Sd, double Mean) Spread(CellContents reference, CellContents surrogate, Func<double[], double[], double> distance, int seed,
         bool perturbReference, bool perturbSurrogate)
     {
         var rng = new Xoshiro256StarStar(seed, threadSafe: false);
@@ -54,7 +133,7 @@ internal static class HistogramBootstrap
             sumSq += v * v;
         }
         var mean = sum / Replicas;
-        return Math.Sqrt(Math.Max(0, sumSq / Replicas - mean * mean) * Replicas / (Replicas - 1));
+        return (Math.Sqrt(Math.Max(0, sumSq / Replicas - mean * mean) * Replicas / (Replicas - 1)), mean);
     }
 
     private static void Draw(CellContents cells, double[] into, Random rng, bool perturb)
@@ -66,7 +145,9 @@ internal static class HistogramBootstrap
                 into[i] = cells.SumW[i];
                 continue;
             }
-            into[i] = Math.Max(0, cells.SumW[i] + Math.Sqrt(cells.SumW2[i]) * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1));
+            // A cell of signed weights (possible on a fine grid) may stay negative; a non-negative one may not turn negative.
+            var drawn = cells.SumW[i] + Math.Sqrt(cells.SumW2[i]) * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1);
+            into[i] = cells.SumW[i] < 0 ? drawn : Math.Max(0, drawn);
         }
     }
 }

@@ -17,7 +17,7 @@ namespace GateTasks.Engine.Partials;
 /// with every exact sum as its terms.
 /// </summary>
 /// <remarks>
-/// The seal is the SHA-256 of <c>gatetasks.partial\n3\n</c> followed by the content object written compactly (as
+/// The seal is the SHA-256 of <c>gatetasks.partial\n4\n</c> followed by the content object written compactly (as
 /// System.Text.Json writes a parsed element: no white space outside strings). It catches a damaged file or a
 /// number edited by hand; it is not a signature (anyone can compute it again), which is why the content is also
 /// checked for consistency on reading.
@@ -25,7 +25,7 @@ namespace GateTasks.Engine.Partials;
 internal static class PartialFile
 {
     public const string Format = "gatetasks.partial";
-    public const int Version = 3;
+    public const int Version = 4;
 
     /// <summary>A sample file counted in a partial: its path where it was filled (for messages) and the XXH128 of its bytes (its identity).</summary>
     internal sealed record CountedFile(string Path, string Xxh128);
@@ -35,14 +35,15 @@ internal static class PartialFile
 
     /// <summary>
     /// SHA-256 of everything that decides what a check gathers: each feature's name and definition, whether its far tails
-    /// are counted, the pairs and whether their 2-D cells are, the joint set and its subsample size.
+    /// are counted and whether its fine grid is, the pairs and whether their 2-D cells are, the joint set and its subsample size.
     /// </summary>
     public static string Fingerprint(PrecisionContract contract)
     {
         var b = new StringBuilder();
         foreach (var f in contract.Features)
             b.Append("feature ").Append(f.Name).Append('|').Append(f.Column).Append('|').Append(f.ReferenceRequest)
-             .Append(f.Checks.Any(c => c.Kind == CheckKind.FarTail) ? "|far-tail" : "").Append('\n');
+             .Append(f.Checks.Any(c => c.Kind == CheckKind.FarTail) ? "|far-tail" : "")
+             .Append(f.Checks.Any(c => c.Kind == CheckKind.Wasserstein) ? "|fine-grid" : "").Append('\n');
         foreach (var p in contract.Pairs) b.Append("pair ").Append(p.Name).Append(p.Chi2 is null ? "" : "|2d").Append('\n');
         if (contract.Joint is { } j) b.Append("joint ").Append(j.Name).Append('|').Append(j.Subsample).Append('\n');
         b.Append("selection ").Append(contract.Selection?.Text ?? "").Append('\n');
@@ -141,7 +142,7 @@ internal static class PartialFile
                 var version = root.GetProperty("version").GetInt32();
                 if (version != Version)
                     throw new GateInputException(ErrorCodes.PartialUnreadable,
-                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files and the fourth moments of each correlation pair); fill it again.", at);
+                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair and the fine-grid cells of each Wasserstein check); fill it again.", at);
                 var content = root.GetProperty("content");
                 var stated = root.GetProperty("seal_sha256").GetString();
                 var seal = Seal(content);

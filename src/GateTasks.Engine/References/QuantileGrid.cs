@@ -53,6 +53,36 @@ internal sealed class QuantileGrid
     }
 
     /// <summary>
+    /// The edges of a Wasserstein check's fine grid: the sample's lowest value, the cell edges at probabilities
+    /// j/<paramref name="bins"/> (j = 1 … bins − 1) and, further into each tail, at 2^−k/bins and 1 − 2^−k/bins
+    /// (k = 1 … <paramref name="tailLevels"/>), and the axis's upper end, coinciding edges merged. The outermost edges
+    /// hold the whole reference, so beyond them only the other sample has weight and its tail moments integrate |F − G|
+    /// there exactly.
+    /// </summary>
+    public double[] FineEdges(int bins, int tailLevels)
+    {
+        var probabilities = new List<double>();
+        for (var k = tailLevels; k >= 1; k--) probabilities.Add(Math.Pow(2, -k) / bins);
+        for (var j = 1; j < bins; j++) probabilities.Add((double)j / bins);
+        for (var k = 1; k <= tailLevels; k++) probabilities.Add(1 - Math.Pow(2, -k) / bins);
+        var w = Fine.SumW;
+        var total = Fine.TotalSumW;
+        var edges = Fine.Axis.Edges;
+        var result = new List<double> { edges[0] };
+        var cumulative = 0.0;
+        var next = 0;
+        for (var c = 1; c <= Cells && next < probabilities.Count; c++)
+        {
+            cumulative += w[c];
+            if (cumulative < probabilities[next] * total) continue;
+            if (edges[c] > result[^1] && c < Cells) result.Add(edges[c]);
+            while (next < probabilities.Count && cumulative >= probabilities[next] * total) next++;
+        }
+        if (edges[^1] > result[^1]) result.Add(edges[^1]);
+        return result.ToArray();
+    }
+
+    /// <summary>
     /// Edges of at most <paramref name="bins"/> bins of about equal weight, on cell edges. Where one value holds
     /// more than a bin's share (a spike), neighbouring edges coincide and are merged, so fewer bins result.
     /// </summary>

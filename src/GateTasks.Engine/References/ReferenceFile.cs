@@ -12,15 +12,16 @@ using GateTasks.Engine.Accumulation;
 namespace GateTasks.Engine.References;
 
 /// <summary>
-/// The reference file format, version 3 (docs/reference-format.md): a Parquet file whose rows are histogram
+/// The reference file format, version 4 (docs/reference-format.md): a Parquet file whose rows are histogram
 /// cells (feature, cell, lower, upper, sum_w, sum_w2) and whose key/value metadata entry
 /// <c>gatetasks.reference</c> holds a JSON header with provenance, per-feature statistics and the SHA-256 of the
 /// whole content (<see cref="ReferenceDigest"/>), verified on every read. Version 1 had no digest, version 2 no
-/// fourth-moment variance of its correlations; both are refused with the command that rebuilds them.
+/// fourth-moment variance of its correlations, version 3 no fine grid for a Wasserstein check; all are refused with
+/// the command that rebuilds them.
 /// </summary>
 internal static class ReferenceFile
 {
-    public const int FormatVersion = 3;
+    public const int FormatVersion = 4;
     public const string MetadataKey = "gatetasks.reference";
     public const string FormatKey = "gatetasks.reference.format";
 
@@ -116,10 +117,13 @@ internal static class ReferenceFile
                 throw Unreadable(path, "it is a Parquet file but not a GateTasks reference (no header metadata)");
             if (fmt == "1")
                 throw Unreadable(path, "it is in reference format 1, which carries no checksum of its content, so an edit to it cannot be detected; " +
-                    "rebuild it with 'gatetasks reference build' (format 3), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+                    $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt == "2")
                 throw Unreadable(path, "it is in reference format 2, which stores no large-sample variance of its correlations (fourth moments), so a Pearson or Spearman check would rest on the normal-law error; " +
-                    "rebuild it with 'gatetasks reference build' (format 3), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+                    $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+            if (fmt == "3")
+                throw Unreadable(path, "it is in reference format 3, which keeps no fine quantile grid, so a Wasserstein check would integrate the coarse bins (whose outermost ones can span a long tail); " +
+                    $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt != FormatVersion.ToString(CultureInfo.InvariantCulture))
                 throw Unreadable(path, $"reference format version {fmt} is not supported; this GateTasks reads version {FormatVersion}");
             var header = JsonNode.Parse(json)!.AsObject();
@@ -220,6 +224,7 @@ internal static class ReferenceFile
                 ["spike"] = f.Spike is { } sp
                     ? new JsonObject { ["value"] = sp.Value, ["entries"] = sp.Entries, ["sum_w"] = sp.SumW, ["sum_w2"] = sp.SumW2 }
                     : null,
+                ["fine_grid"] = FineGridJson(f.FineGrid),
             });
         }
         var inputs = new JsonArray();
@@ -287,7 +292,8 @@ internal static class ReferenceFile
                 f["far_tail"] is JsonObject ft
                     ? new FarTailCounts((double)ft["low"]!, (double)ft["high"]!, (double)ft["below_w"]!, (double)ft["below_w2"]!,
                         (double)ft["above_w"]!, (double)ft["above_w2"]!, (double)ft["total_w"]!, (double)ft["total_w2"]!)
-                    : null));
+                    : null,
+                FineGridFromJson(path, name, f["fine_grid"])));
         }
         var inputs = h["inputs"]!.AsArray()
             .Select(i => new ReferenceInput((string)i!["path"]!, (long)i["bytes"]!, (string)i["sha256"]!)).ToList();
@@ -310,5 +316,29 @@ internal static class ReferenceFile
                 ? new ReferenceJointSample(joint["features"]!.AsArray().Select(f => (string)f!).ToList(),
                     joint["rows"]!.AsArray().Select(row => row!.AsArray().Select(v => (double)v!).ToArray()).ToArray())
                 : null);
+    }
+
+    /// <summary>A feature's fine grid in the header: its edges, cells (flows first and last) and the four tail moments.</summary>
+    private static JsonObject? FineGridJson(FineGridCells? g) => g is null ? null : new JsonObject
+    {
+        ["edges"] = Numbers(g.Edges),
+        ["sum_w"] = Numbers(g.SumW),
+        ["sum_w2"] = Numbers(g.SumW2),
+        ["below_moment"] = g.BelowMoment, ["below_moment2"] = g.BelowMoment2,
+        ["above_moment"] = g.AboveMoment, ["above_moment2"] = g.AboveMoment2,
+    };
+
+    private static JsonArray Numbers(double[] values) => new(values.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray());
+
+    private static FineGridCells? FineGridFromJson(string path, string feature, JsonNode? node)
+    {
+        if (node is not JsonObject g) return null;
+        static double[] Read(JsonNode? a) => a!.AsArray().Select(v => (double)v!).ToArray();
+        var edges = Read(g["edges"]);
+        var sumW = Read(g["sum_w"]);
+        var sumW2 = Read(g["sum_w2"]);
+        if (edges.Length < 2 || sumW.Length != edges.Length + 1 || sumW2.Length != sumW.Length || edges.Zip(edges.Skip(1)).Any(p => !(p.Second > p.First)))
+            throw Unreadable(path, $"feature '{feature}' has a fine grid of {edges.Length} edges and {sumW.Length} cells, which do not fit each other");
+        return new FineGridCells(edges, sumW, sumW2, (double)g["below_moment"]!, (double)g["below_moment2"]!, (double)g["above_moment"]!, (double)g["above_moment2"]!);
     }
 }
