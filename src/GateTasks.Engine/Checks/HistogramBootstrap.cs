@@ -48,64 +48,84 @@ internal static class HistogramBootstrap
         Spread(reference, surrogate, distance, seed + 2, perturbReference: true, perturbSurrogate: true).Mean - estimate;
 
     /// <summary>
-    /// The distance between two samples drawn from one law — the reference's cells, each sample at its own size and
-    /// weights — in <see cref="Replicas"/> replicas: its law at zero true distance, against which the fail side is
-    /// judged (<see cref="TailProbability"/>). Each cell of a sample is a scaled Poisson count, κ·Poisson(μ/κ), with μ
-    /// the reference's share of that sample's Σw and κ = Σw²/Σw its mean weight (exact for unit weights; the
-    /// compound-Poisson scaling of Kish 1965's effective count otherwise), so sparse cells keep their skew and never
-    /// go negative. Cells where the reference is not positive are held at their expectation.
+    /// The distance in <see cref="Replicas"/> replicas drawn from a pair of laws exactly at the tolerance: the
+    /// reference's cells, and the mixture (1 − λ)·reference + λ·sample (each normalised) with λ chosen so that the two
+    /// are <paramref name="tolerance"/> apart — the point of "within tolerance" nearest to what was observed, along the
+    /// observed difference. Drawing from a law that obeys the null is the bootstrap test of Efron &amp; Tibshirani
+    /// (1993, ch. 16) and the first guideline of Hall &amp; Wilson (1991, Biometrics 47:757); the p-value of "within
+    /// tolerance" is then P(D* ≥ observed) (<see cref="TailProbability"/>). Each cell is a scaled Poisson count,
+    /// κ·Poisson(μ/κ), with κ = Σw²/Σw of that cell (mixed like the means on the sample's side): exact for unit weights,
+    /// the compound-Poisson scaling of Kish (1965)'s effective count otherwise, so sparse cells keep their skew and
+    /// never go negative. Cells with a mean or variance that is not positive are held at their mean. Null when the
+    /// observed distance is within the tolerance.
     /// </summary>
-    public static double[] NullReplicas(CellContents reference, double sampleSumW, double sampleSumW2, Func<double[], double[], double> distance, int seed)
+    public static double[]? BoundaryReplicas(CellContents reference, CellContents sample, Func<double[], double[], double> distance,
+        double estimate, double tolerance, int seed)
     {
-        double refW = 0, refW2 = 0;
+        if (!(estimate > tolerance)) return null;
+        double ta = 0, ta2 = 0, tb = 0, tb2 = 0;
         for (var i = 0; i < reference.SumW.Length; i++)
         {
-            refW += reference.SumW[i];
-            refW2 += reference.SumW2[i];
+            ta += reference.SumW[i];
+            ta2 += reference.SumW2[i];
+            tb += sample.SumW[i];
+            tb2 += sample.SumW2[i];
         }
+        if (!(ta > 0) || !(tb > 0)) return null;
+        var n = reference.SumW.Length;
+        var mixed = new double[n];
+        void Mix(double lambda)
+        {
+            for (var i = 0; i < n; i++) mixed[i] = tb * ((1 - lambda) * reference.SumW[i] / ta + lambda * sample.SumW[i] / tb);
+        }
+        // The distance along the line from the reference to the sample grows from 0 to the estimate (W₁ linearly, JSD
+        // convexly), so bisection finds the λ at the tolerance.
+        double lo = 0, hi = 1;
+        for (var k = 0; k < 50; k++)
+        {
+            var mid = (lo + hi) / 2;
+            Mix(mid);
+            if (distance(reference.SumW, mixed) > tolerance) hi = mid;
+            else lo = mid;
+        }
+        var lambdaAtTolerance = (lo + hi) / 2;
+        Mix(lambdaAtTolerance);
+        // The boundary sample's Σw² per cell: the reference's shape at the sample's mean weight, and the sample's own.
+        var sampleKappa = tb2 > 0 ? tb2 / tb : 1;
+        var referenceKappa = ta2 > 0 ? ta2 / ta : 1;
+        var mixedW2 = new double[n];
+        for (var i = 0; i < n; i++)
+            mixedW2[i] = (1 - lambdaAtTolerance) * reference.SumW2[i] * (tb / ta) * (sampleKappa / referenceKappa) + lambdaAtTolerance * sample.SumW2[i];
         var rng = new Xoshiro256StarStar(seed + 3, threadSafe: false);
-        var a = new double[reference.SumW.Length];
-        var b = new double[reference.SumW.Length];
+        var a = new double[n];
+        var b = new double[n];
         var result = new double[Replicas];
-        if (!(refW > 0) || !(sampleSumW > 0)) return result;
-        var kappaRef = refW2 > 0 ? refW2 / refW : 1;
-        var kappaSample = sampleSumW2 > 0 ? sampleSumW2 / sampleSumW : 1;
         for (var r = 0; r < Replicas; r++)
         {
-            for (var i = 0; i < a.Length; i++)
+            for (var i = 0; i < n; i++)
             {
-                var share = reference.SumW[i] / refW;
-                a[i] = ScaledPoisson(share * refW, kappaRef, rng);
-                b[i] = ScaledPoisson(share * sampleSumW, kappaSample, rng);
+                a[i] = ScaledPoisson(reference.SumW[i], reference.SumW2[i], rng);
+                b[i] = ScaledPoisson(mixed[i], mixedW2[i], rng);
             }
-            result[r] = a.Sum() > 0 && b.Sum() > 0 ? distance(a, b) : 0;
+            result[r] = distance(a, b);
         }
         return result;
     }
 
-    private static double ScaledPoisson(double mean, double kappa, Random rng) =>
-        mean > 0 ? kappa * MathNet.Numerics.Distributions.Poisson.Sample(rng, mean / kappa) : mean;
+    private static double ScaledPoisson(double mean, double sumW2, Random rng) =>
+        mean > 0 && sumW2 > 0 ? sumW2 / mean * MathNet.Numerics.Distributions.Poisson.Sample(rng, mean * mean / sumW2) : mean;
 
     /// <summary>
-    /// P(D ≥ <paramref name="excess"/>) for the law of <paramref name="replicas"/>, from the gamma law of the same mean
-    /// and variance (the two-moment scaled-χ² approximation of Satterthwaite 1946 / Welch 1938, exact in shape for a
-    /// divergence of two samples of one law, a weighted sum of χ²₁ terms), which reaches the small p-values a
-    /// multiplicity correction asks for where 200 replicas cannot. 1 for a non-positive excess.
+    /// P(D ≥ <paramref name="value"/>) for the law of <paramref name="replicas"/>, from the gamma law of the same mean
+    /// and variance (the two-moment scaled-χ² approximation of Satterthwaite 1946, the shape of a divergence, a weighted
+    /// sum of noncentral χ²₁ terms), which reaches the small p-values a multiplicity correction asks for where 200
+    /// replicas cannot.
     /// </summary>
-    public static double TailProbability(IReadOnlyList<double> replicas, double excess)
-    {
-        if (!(excess > 0)) return 1;
-        var (mean, variance) = Moments(replicas);
-        if (!(mean > 0) || !(variance > 0)) return excess > mean ? 0 : 1;
-        return 1 - MathNet.Numerics.Distributions.Gamma.CDF(mean * mean / variance, mean / variance, excess);
-    }
-
-    /// <summary>The <paramref name="probability"/> quantile of the same gamma law (0 when the replicas do not vary).</summary>
-    public static double Quantile(IReadOnlyList<double> replicas, double probability)
+    public static double TailProbability(IReadOnlyList<double> replicas, double value)
     {
         var (mean, variance) = Moments(replicas);
-        if (!(mean > 0) || !(variance > 0)) return Math.Max(0, mean);
-        return MathNet.Numerics.Distributions.Gamma.InvCDF(mean * mean / variance, mean / variance, probability);
+        if (!(mean > 0) || !(variance > 0)) return value > mean ? 0 : 1;
+        return 1 - MathNet.Numerics.Distributions.Gamma.CDF(mean * mean / variance, mean / variance, value);
     }
 
     private static (double Mean, double Variance) Moments(IReadOnlyList<double> values)

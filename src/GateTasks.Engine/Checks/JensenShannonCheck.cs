@@ -21,8 +21,8 @@ internal static class JensenShannonCheck
         var seed = HistogramBootstrap.Seed(c.Spec.Name, spec.Key);
         var se = HistogramBootstrap.StandardErrors(reference, surrogate, Distance, seed);
         var bias = HistogramBootstrap.Bias(reference, surrogate, Distance, value, seed);
-        var noise = HistogramBootstrap.NullReplicas(reference, surrogate.SumW.Sum(), surrogate.SumW2.Sum(), Distance, seed);
-        return DistanceDecision.Measure(value, bias, se, noise, squaredMetric: true, spec, decision, c.Surrogate.Entries,
+        var boundary = HistogramBootstrap.BoundaryReplicas(reference, surrogate, Distance, value, spec.Tolerance, seed);
+        return DistanceDecision.Measure(value, bias, se, boundary, spec, decision, c.Surrogate.Entries,
             $"JS divergence {InvariantNumber.Short(Math.Max(0, value - bias))} nats", [new("divergence_nats", InvariantNumber.Exact(value))]);
     }
 }

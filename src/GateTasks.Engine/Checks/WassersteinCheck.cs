@@ -50,8 +50,8 @@ internal static class WassersteinCheck
         var seed = HistogramBootstrap.Seed(c.Spec.Name, spec.Key);
         var se = HistogramBootstrap.StandardErrors(reference, surrogate, distance, seed);
         var bias = HistogramBootstrap.Bias(reference, surrogate, distance, value, seed);
-        var noise = HistogramBootstrap.NullReplicas(reference, surrogate.SumW.Sum(), surrogate.SumW2.Sum(), distance, seed);
-        return DistanceDecision.Measure(value, bias, se, noise, squaredMetric: false, spec, decision, c.Surrogate.Entries,
+        var boundary = HistogramBootstrap.BoundaryReplicas(reference, surrogate, distance, value, spec.Tolerance, seed);
+        return DistanceDecision.Measure(value, bias, se, boundary, spec, decision, c.Surrogate.Entries,
             $"W1/σ_ref {InvariantNumber.Short(Math.Max(0, value - bias))}",
             [new("w1", InvariantNumber.Exact(value * sigma)), new("reference_std", InvariantNumber.Exact(sigma)), new("w1_grid", grid)]);
     }

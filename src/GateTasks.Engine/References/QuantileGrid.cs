@@ -53,11 +53,13 @@ internal sealed class QuantileGrid
     }
 
     /// <summary>
-    /// The edges of a Wasserstein check's fine grid: the sample's lowest value, the cell edges at probabilities
+    /// The edges of a Wasserstein check's fine grid: the sample's lowest value, its quantiles at probabilities
     /// j/<paramref name="bins"/> (j = 1 … bins − 1) and, further into each tail, at 2^−k/bins and 1 − 2^−k/bins
-    /// (k = 1 … <paramref name="tailLevels"/>), and the axis's upper end, coinciding edges merged. The outermost edges
-    /// hold the whole reference, so beyond them only the other sample has weight and its tail moments integrate |F − G|
-    /// there exactly.
+    /// (k = 1 … <paramref name="tailLevels"/>), and the axis's upper end, coinciding edges merged. A quantile is
+    /// interpolated inside its cell (as <see cref="Quantile"/> does), not snapped to a cell edge: on a long-tailed
+    /// feature one of the 2^16 regular cells can hold many of the grid's quantiles near the mode. The outermost edges
+    /// hold the whole reference, so beyond them only the other sample has weight and its tail moments integrate
+    /// |F − G| there exactly.
     /// </summary>
     public double[] FineEdges(int bins, int tailLevels)
     {
@@ -70,15 +72,21 @@ internal sealed class QuantileGrid
         var edges = Fine.Axis.Edges;
         var result = new List<double> { edges[0] };
         var cumulative = 0.0;
-        var next = 0;
-        for (var c = 1; c <= Cells && next < probabilities.Count; c++)
+        var c = 1;
+        foreach (var p in probabilities)
         {
-            cumulative += w[c];
-            if (cumulative < probabilities[next] * total) continue;
-            if (edges[c] > result[^1] && c < Cells) result.Add(edges[c]);
-            while (next < probabilities.Count && cumulative >= probabilities[next] * total) next++;
+            var target = p * total;
+            while (c <= Cells && !(cumulative + w[c] >= target && w[c] > 0))
+            {
+                cumulative += w[c];
+                c++;
+            }
+            if (c > Cells) break;
+            var fraction = Math.Clamp((target - cumulative) / w[c], 0, 1);
+            var value = edges[c - 1] + fraction * (edges[c] - edges[c - 1]);
+            if (value > result[^1] && value < edges[^1]) result.Add(value);
         }
-        if (edges[^1] > result[^1]) result.Add(edges[^1]);
+        result.Add(edges[^1]);
         return result.ToArray();
     }
 
