@@ -24,7 +24,32 @@ internal sealed class FineGridCounter
         _cells = new ExactHistogram(axis);
     }
 
+    /// <summary>
+    /// Adds a batch. Values that are not finite are left out: NaN and ±∞ are counted apart by the feature's statistics
+    /// (and refused or set aside there), and an infinite value has no distance to integrate.
+    /// </summary>
     public void Add(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
+    {
+        var finite = true;
+        foreach (var x in values)
+            if (!double.IsFinite(x)) { finite = false; break; }
+        if (!finite)
+        {
+            var v = new List<double>(values.Length);
+            var w = new List<double>(weights.Length);
+            for (var i = 0; i < values.Length; i++)
+            {
+                if (!double.IsFinite(values[i])) continue;
+                v.Add(values[i]);
+                if (!weights.IsEmpty) w.Add(weights[i]);
+            }
+            AddFinite(v.ToArray(), w.ToArray());
+            return;
+        }
+        AddFinite(values, weights);
+    }
+
+    private void AddFinite(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
     {
         _batch.Fill(values, weights);
         _cells.Absorb(_batch);
