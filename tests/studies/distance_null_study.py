@@ -3,14 +3,14 @@
 
 Per replica, numpy draws a fresh reference sample and a fresh surrogate sample of a long-tailed energy-like feature
 (energy ~ lognormal(3, 1)); the surrogate is the same law scaled by --scale (1: a perfect surrogate). gatetasks builds
-the reference and checks the surrogate under a contract with `wasserstein-max` and `jsd-max` (20 equal-probability
-bins, Holm over the two checks, false-alarm 1%). With --scale 1 every FAIL is a false alarm: the tolerances default to
+the reference and checks the surrogate under a contract with `wasserstein-max` and `jsd-max` (--bins equal-probability
+bins, default 20, Holm over the two checks, false-alarm 1%). With --scale 1 every FAIL is a false alarm: the tolerances default to
 values at or below each estimator's noise floor (the mean distance between two samples of one law at these sizes), where
 an estimate taken for unbiased fails most perfect surrogates. With --scale above 1 the study measures power; it prints
-the true W1/σ of the scaled law (|s − 1|·E[X]/σ) and its true JSD on the law's 20 equal-probability bins.
+the true W1/σ of the scaled law (|s − 1|·E[X]/σ) and its true JSD on the law's equal-probability bins (--bins, 20).
 
     /usr/bin/python3 tests/studies/distance_null_study.py --gatetasks src/GateTasks.Cli/bin/Release/net8.0/gatetasks.dll \
-        --replicas 200 [--reference-events 40000] [--events 20000] [--seed 1] [--scale 1.0] \
+        --replicas 200 [--reference-events 40000] [--events 20000] [--bins 20] [--seed 1] [--scale 1.0] \
         [--w1-tolerance 0.006] [--jsd-tolerance 0.0001] [--work DIR]
 
 Needs Debian's python3-numpy and python3-scipy. One line per replica, then a summary; exit code 0 whatever the rates
@@ -30,7 +30,7 @@ import xml.etree.ElementTree as ET
 import numpy as np
 from scipy import stats
 
-MU, SIGMA, BINS = 3.0, 1.0, 20
+MU, SIGMA = 3.0, 1.0
 
 CONTRACT = """contract-version: 1
 sample: sample.csv
@@ -58,12 +58,12 @@ def clopper_pearson(k, n, level=0.95):
     return lo, hi
 
 
-def true_distances(scale):
+def true_distances(scale, bins):
     """W1/σ and JSD (nats, on the law's equal-probability bins) between lognormal(MU, SIGMA) and its scaled copy."""
     mean = math.exp(MU + SIGMA ** 2 / 2)
     sd = mean * math.sqrt(math.exp(SIGMA ** 2) - 1)
     w1 = abs(scale - 1) * mean / sd
-    z = stats.norm.ppf(np.arange(1, BINS) / BINS)
+    z = stats.norm.ppf(np.arange(1, bins) / bins)
     p = np.diff(np.concatenate([[0.0], stats.norm.cdf(z), [1.0]]))
     q = np.diff(np.concatenate([[0.0], stats.norm.cdf(z - math.log(scale) / SIGMA), [1.0]]))
     m = (p + q) / 2
@@ -101,6 +101,7 @@ def main():
     p.add_argument("--reference-events", type=int, default=40000)
     p.add_argument("--events", type=int, default=20000, help="surrogate events")
     p.add_argument("--seed", type=int, default=1)
+    p.add_argument("--bins", type=int, default=20, help="equal-probability bins of the feature")
     p.add_argument("--scale", type=float, default=1.0, help="the surrogate's scale factor (1: perfect)")
     p.add_argument("--w1-tolerance", type=float, default=0.006)
     p.add_argument("--jsd-tolerance", type=float, default=0.0001)
@@ -109,8 +110,8 @@ def main():
     work = a.work or tempfile.mkdtemp(prefix="gatetasks-distance-study-")
     os.makedirs(os.path.join(work, ".git"), exist_ok=True)
     with open(os.path.join(work, "contract.yaml"), "w", encoding="utf-8") as fh:
-        fh.write(CONTRACT.format(bins=BINS, w1=a.w1_tolerance, jsd=a.jsd_tolerance))
-    tw, tj = true_distances(a.scale)
+        fh.write(CONTRACT.format(bins=a.bins, w1=a.w1_tolerance, jsd=a.jsd_tolerance))
+    tw, tj = true_distances(a.scale, a.bins)
     print(f"truth: W1/sigma {tw:.6g} (tolerance {a.w1_tolerance}), JSD {tj:.6g} nats (tolerance {a.jsd_tolerance})", flush=True)
     w1_failed = jsd_failed = any_failed = 0
     w1_values, jsd_values = [], []

@@ -49,7 +49,7 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
         // A Wasserstein check integrates the reference's fine grid, kept only for features that had one when it was built.
         if (r.FineGrid is null && feature.Kind == FeatureKind.Continuous && feature.Checks.FirstOrDefault(c => c.Kind == CheckKind.Wasserstein) is { } w1)
             throw new GateInputException(ErrorCodes.ReferenceMismatch,
-                $"The reference {Path.GetFileName(referencePath)} keeps no fine grid for feature '{feature.Name}', which its w1-max check needs " +
+                $"The reference {Path.GetFileName(referencePath)} keeps no fine grid for feature '{feature.Name}', which its wasserstein-max check needs " +
                 "(the reference was built for a contract without that check); rebuild it with 'gatetasks reference build'.", w1.Location);
         return r;
     }

@@ -20,7 +20,7 @@ internal static class ReferenceBuilder
     /// <summary>
     /// Equal-probability bins of the fine grid kept for a feature with a Wasserstein check, and the dyadic levels
     /// added in each tail beyond them (<see cref="QuantileGrid.FineEdges"/>): enough that W1 from the grid agrees with
-    /// the unbinned value within a few percent on long-tailed features, at about 100 kB per such feature.
+    /// the unbinned value within a few percent on long-tailed features, at about 100–200 kB of reference header per such feature.
     /// </summary>
     public const int FineGridBins = 4096, FineGridTailLevels = 4;
 
