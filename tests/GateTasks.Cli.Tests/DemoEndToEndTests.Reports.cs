@@ -75,8 +75,10 @@ public partial class DemoEndToEndTests
         var rows = stdout.Split('\n', StringSplitOptions.RemoveEmptyEntries).Select(r => r.Split('\t')).ToList();
         Assert.Equal(["feature", "check", "region", "estimate", "tolerance", "verdict"], rows[0]);
         Assert.All(rows, r => Assert.Equal(6, r.Length));
-        // 17 failed and 6 inconclusive checks (as the drifted demo's JUnit report and build-step test count them).
-        Assert.Equal(23, rows.Count - 1);
+        // 17 failed and 5 inconclusive checks (as the drifted demo's JUnit report and build-step test count them).
+        // delta_phi's wasserstein-max, inconclusive at W1/σ 0.0197 on the coarse bins, reads 0.0143 on the reference's
+        // fine grid and passes its tolerance of 0.02 since W1 is no longer integrated over coarse quantile bins.
+        Assert.Equal(22, rows.Count - 1);
         Assert.Contains(rows, r => r[0] == "m_gg" && r[1] == "ratio-max" && r[2] == "core" && r[4] == "≤ 0.03" && r[5] == "FAIL*");
         Assert.Contains(rows, r => r[0] == "m_gg~pt_gg" && r[1] == "chi2-2d-test" && r[5] == "FAIL*");
         Assert.Contains(rows, r => r[0] == "et_ratio" && r[2] == "core" && r[5].StartsWith("inconclusive", StringComparison.Ordinal));
