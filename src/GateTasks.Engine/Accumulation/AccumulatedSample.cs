@@ -16,8 +16,12 @@ internal sealed record AccumulatedSample(
     IReadOnlyList<AccumulatedPair> Pairs,
     AccumulatedJoint? Joint);
 
-/// <summary>One feature, finished: its histogram on the reference's axis, unbinned summary, spike tally and far-tail counts.</summary>
-internal sealed record AccumulatedFeature(Histogram Histogram, FeatureSummary Summary, SpikeTally? Spike, FarTailCounts? FarTail);
+/// <summary>
+/// One feature, finished: its histogram on the reference's axis, unbinned summary, spike tally, far-tail counts, and
+/// its weight on the reference's fine grid (for a Wasserstein check).
+/// </summary>
+internal sealed record AccumulatedFeature(Histogram Histogram, FeatureSummary Summary, SpikeTally? Spike, FarTailCounts? FarTail,
+    FineGridCells? FineGrid = null);
 
 /// <summary>
 /// One declared pair, finished: Pearson's r, Spearman's ρ (the Pearson correlation of the reference-CDF ranks), the

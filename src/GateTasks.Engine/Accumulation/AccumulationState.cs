@@ -15,9 +15,12 @@ internal sealed record AccumulationState(
     IReadOnlyList<PairState> Pairs,
     JointState? Joint);
 
-/// <summary>One feature's state: its exact histogram, its statistics (<see cref="FeatureStatistics.State"/>), spike tally and far-tail sums.</summary>
+/// <summary>
+/// One feature's state: its exact histogram, its statistics (<see cref="FeatureStatistics.State"/>), spike tally,
+/// far-tail sums and fine-grid cells.
+/// </summary>
 internal sealed record FeatureState(string Name, ExactHistogramState Histogram, IReadOnlyList<double> Statistics, SpikeState? Spike,
-    IReadOnlyList<IReadOnlyList<double>>? FarTail);
+    IReadOnlyList<IReadOnlyList<double>>? FarTail, FineGridState? FineGrid = null);
 
 /// <summary>A spike tally's state: entries, and Σw and Σw² as their exact terms.</summary>
 internal sealed record SpikeState(long Entries, IReadOnlyList<double> SumW, IReadOnlyList<double> SumW2);

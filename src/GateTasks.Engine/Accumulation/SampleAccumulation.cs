@@ -21,6 +21,7 @@ internal sealed class SampleAccumulation
     private readonly ExactHistogram[] _histograms;
     private readonly FeatureStatistics[] _stats; // replaced when a state is set
     private readonly FarTailCounter?[] _farTail;
+    private readonly FineGridCounter?[] _fine;
     private readonly SpikeSeparation _spikes;
     private readonly JointSubsample? _joint;
     private readonly IReadOnlyList<PairCorrelation> _pairs;
@@ -39,6 +40,7 @@ internal sealed class SampleAccumulation
         _stats = contract.Features.Select(_ => new FeatureStatistics()).ToArray();
         _farTail = contract.Features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && layouts[i].FarTail is { } t
             ? new FarTailCounter(t.Low, t.High) : null).ToArray();
+        _fine = layouts.Select(l => l.FineEdges is { } e ? new FineGridCounter(e) : null).ToArray();
         _spikes = new SpikeSeparation(contract.Features);
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         _joint = contract.Joint is { } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, JointSeed) : null;
@@ -65,6 +67,7 @@ internal sealed class SampleAccumulation
             _histograms[i].Absorb(_batch[i]);
             _stats[i].Add(values, weights);
             _farTail[i]?.Add(values, weights);
+            _fine[i]?.Add(values, weights);
         }), view =>
         {
             foreach (var w in view.Weights)
@@ -85,6 +88,7 @@ internal sealed class SampleAccumulation
             _histograms[i].Add(other._histograms[i]);
             _stats[i].Merge(other._stats[i]);
             if (_farTail[i] is { } f) f.Merge(other._farTail[i]!);
+            if (_fine[i] is { } g) g.Merge(other._fine[i]!);
             if (_spikes.Filters[i] is { } s) s.Merge(other._spikes.Filters[i]!);
         }
         for (var p = 0; p < _pairs.Count; p++) _pairs[p].Merge(other._pairs[p]);
@@ -98,7 +102,7 @@ internal sealed class SampleAccumulation
     /// <summary>The whole accumulation as plain numbers (every exact sum as its terms), for a partial file.</summary>
     public AccumulationState State() => new(Events, NegativeWeightEvents, _sumW.Terms, _sumW2.Terms,
         _histograms.Select((h, i) => new FeatureState(Contract.Features[i].Name, h.State(), _stats[i].State(),
-            _spikes.Filters[i]?.State(), _farTail[i]?.State())).ToList(),
+            _spikes.Filters[i]?.State(), _farTail[i]?.State(), _fine[i]?.State())).ToList(),
         _pairs.Select(p => p.State()).ToList(),
         _joint?.State());
 
@@ -127,6 +131,12 @@ internal sealed class SampleAccumulation
                 if (f.FarTail is not { } ft) return $"feature '{name}' has no far-tail counts";
                 tail.AddState(ft);
             }
+            if (_fine[i] is { } fine)
+            {
+                if (f.FineGrid is not { } g) return $"feature '{name}' has no fine-grid cells";
+                if (!fine.AddState(g)) return $"feature '{name}' has another fine grid";
+            }
+            else if (f.FineGrid is not null) return $"feature '{name}' has fine-grid cells this reference does not keep";
         }
         if (state.Pairs.Count != _pairs.Count) return $"{state.Pairs.Count} correlation pairs, the contract has {_pairs.Count}";
         for (var p = 0; p < _pairs.Count; p++)
@@ -145,7 +155,8 @@ internal sealed class SampleAccumulation
 
     /// <summary>What was gathered, finished: each exact sum rounded once, nothing shared with this accumulation.</summary>
     public AccumulatedSample Finish() => new(Events, NegativeWeightEvents, SumW, SumW2,
-        _histograms.Select((h, i) => new AccumulatedFeature(h.ToHistogram(), _stats[i].Summary(), _spikes.Filters[i]?.Tally, _farTail[i]?.Counts)).ToList(),
+        _histograms.Select((h, i) => new AccumulatedFeature(h.ToHistogram(), _stats[i].Summary(), _spikes.Filters[i]?.Tally, _farTail[i]?.Counts,
+            _fine[i]?.Finish())).ToList(),
         _pairs.Select(p => p.Finish()).ToList(),
         _joint is null ? null : new AccumulatedJoint(_joint.Seen, _joint.Rows, _joint.Weights));
 }

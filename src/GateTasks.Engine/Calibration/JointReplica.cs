@@ -32,8 +32,11 @@ internal sealed class JointReplica(JointSpec spec, double[][] rows)
     {
         var reference = Resample(rows.Length, rng);
         var sample = Resample((int)Math.Min(events, Spec.Subsample), rng);
-        return (Subject, Spec.Test, JointCheck.Evaluate(reference, sample, Spec, Spec.PermutationsFor(familySize, decision.FalseAlarm)));
+        return (Subject, Spec.Test, JointCheck.Evaluate(reference, Ones(reference.Length), sample, Ones(sample.Length), Spec, Spec.PermutationsFor(familySize, decision.FalseAlarm)));
     }
+
+    /// <summary>Unit weights: the replicas resample rows as events of the law, each counting once.</summary>
+    private static double[] Ones(int n) => Enumerable.Repeat(1.0, n).ToArray();
 
     private double[][] Resample(int n, Random rng)
     {

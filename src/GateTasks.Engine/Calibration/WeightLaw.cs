@@ -51,6 +51,6 @@ internal sealed record WeightLaw(double NegativeFraction)
             var (wBelow, wAbove) = (SignedSum(below, rng), SignedSum(above, rng));
             tail = t with { BelowW = wBelow, AboveW = wAbove, TotalW = wBelow + wAbove + SignedSum(total - below - above, rng) };
         }
-        return c with { Surrogate = h, SurrogateSummary = BinnedSummary.Of(h), SampleSpike = spike, SampleFarTail = tail };
+        return c with { Surrogate = h, SurrogateSummary = c.SurrogateSummary with { SumW = h.TotalSumW, SumW2 = h.TotalSumW2 }, SampleSpike = spike, SampleFarTail = tail };
     }
 }

@@ -29,7 +29,7 @@ internal static class ContractEvaluation
             {
                 var gathered = sample.Features[i];
                 var comparison = new FeatureComparison(contract.Features[i], references[i], gathered.Histogram, gathered.Summary, cores[i],
-                    gathered.Spike, gathered.FarTail);
+                    gathered.Spike, gathered.FarTail, gathered.FineGrid);
                 comparisonOf[i] = comparison;
                 var feature = new FeatureSubject(contract.Features[i]);
                 measuredOf[i] = contract.Features[i].Checks.Select(check => ((CheckSubject)feature, check, CheckEvaluator.Measure(comparison, check, contract.Decision))).ToArray();

@@ -5,7 +5,10 @@ using GateTasks.Engine.Accumulation;
 
 namespace GateTasks.Engine.Checks;
 
-/// <summary>Everything the checks of one feature compare: the reference, the surrogate's histogram with the same binning, and the core mask.</summary>
+/// <summary>
+/// Everything the checks of one feature compare: the reference, the surrogate's histogram with the same binning, the
+/// core mask, and the surrogate's tallies (spike, far tails, the reference's fine grid).
+/// </summary>
 internal sealed record FeatureComparison(
     FeatureSpec Spec,
     ReferenceFeature Reference,
@@ -13,7 +16,8 @@ internal sealed record FeatureComparison(
     FeatureSummary SurrogateSummary,
     IReadOnlyList<bool> CoreBins,
     SpikeTally? SampleSpike = null,
-    FarTailCounts? SampleFarTail = null)
+    FarTailCounts? SampleFarTail = null,
+    FineGridCells? SampleFineGrid = null)
 {
     /// <summary>True when every cell's Σw² equals its Σw, i.e. all weights are one and the counts are plain counts.</summary>
     public static bool IsUnweighted(CellContents cells)

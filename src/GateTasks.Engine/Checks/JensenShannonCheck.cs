@@ -4,7 +4,10 @@ using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
-/// <summary>Jensen–Shannon divergence (Lin 1991, natural logarithm) of the normalised cell contents, flows included; uncertainty by <see cref="HistogramBootstrap"/>.</summary>
+/// <summary>
+/// Jensen–Shannon divergence (Lin 1991, natural logarithm) of the normalised cell contents, flows included: bias-corrected
+/// and judged against its own noise at the tolerance (<see cref="DistanceDecision"/>), errors by <see cref="HistogramBootstrap"/>.
+/// </summary>
 internal static class JensenShannonCheck
 {
     public static Measurement Evaluate(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
@@ -15,8 +18,11 @@ internal static class JensenShannonCheck
             return Measurement.Impossible("a cell has a negative sum of weights, where a divergence of probabilities is undefined; use ratio-max or ks-max", []);
         static double Distance(double[] a, double[] b) => JensenShannon.Divergence(a, b);
         var value = Distance(reference.SumW, surrogate.SumW);
-        var se = HistogramBootstrap.StandardErrors(reference, surrogate, Distance, HistogramBootstrap.Seed(c.Spec.Name, spec.Key));
-        return EffectBounds.FromStandardError(value, se, spec, decision, c.Surrogate.Entries,
-            $"JS divergence {InvariantNumber.Short(value)} nats", [new("divergence_nats", InvariantNumber.Exact(value))]);
+        var seed = HistogramBootstrap.Seed(c.Spec.Name, spec.Key);
+        var se = HistogramBootstrap.StandardErrors(reference, surrogate, Distance, seed);
+        var bias = HistogramBootstrap.Bias(reference, surrogate, Distance, value, seed);
+        var boundary = HistogramBootstrap.BoundaryReplicas(reference, surrogate, Distance, value, spec.Tolerance, seed);
+        return DistanceDecision.Measure(value, bias, se, boundary, spec, decision, c.Surrogate.Entries,
+            $"JS divergence {InvariantNumber.Short(Math.Max(0, value - bias))} nats", [new("divergence_nats", InvariantNumber.Exact(value))]);
     }
 }

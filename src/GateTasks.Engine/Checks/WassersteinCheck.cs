@@ -1,3 +1,4 @@
+using GateTasks.Engine.Accumulation;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Statistics;
@@ -5,26 +6,54 @@ using GateTasks.Engine.Statistics;
 namespace GateTasks.Engine.Checks;
 
 /// <summary>
-/// Wasserstein-1 distance between the two histograms (density uniform within each bin; under- and overflow counted
-/// at the axis ends), divided by the reference's unbinned standard deviation so one tolerance reads the same for
-/// every feature. Its uncertainty comes from <see cref="HistogramBootstrap"/>.
+/// Wasserstein-1 distance between reference and sample, divided by the reference's unbinned standard deviation so
+/// one tolerance reads the same for every feature. Integrated on the reference's fine equal-probability grid with the
+/// tails' exact first moments (<see cref="Wasserstein.FineGrid"/>), so a long tail is not smeared over a coarse bin;
+/// where no fine grid is at hand (a calibration's replicas) on the coarse bins, flows counted at the axis ends.
+/// Bias-corrected and judged against its own noise at the tolerance (<see cref="DistanceDecision"/>); errors by
+/// <see cref="HistogramBootstrap"/>.
 /// </summary>
 internal static class WassersteinCheck
 {
     public static Measurement Evaluate(FeatureComparison c, ToleranceCheck spec, DecisionSettings decision)
     {
-        var edges = c.Reference.Histogram.Axis.Edges.ToArray();
         var sigma = c.Reference.Summary.StandardDeviation;
         if (!(sigma > 0))
             return Measurement.Impossible("the reference's standard deviation is zero, so W1/σ is undefined; use ratio-max or ks-max for this feature", []);
+        if (c.Reference.FineGrid is { } rg && c.SampleFineGrid is { } sg)
+            return OnFineGrid(c, rg, sg, sigma, spec, decision);
+        var edges = c.Reference.Histogram.Axis.Edges.ToArray();
         double Distance(double[] a, double[] b) => Wasserstein.Histograms(edges, Folded(a), Folded(b)) / sigma;
-        var reference = Cells.Of(c.Reference.Histogram);
-        var surrogate = Cells.Of(c.Surrogate);
-        var value = Distance(reference.SumW, surrogate.SumW);
-        var se = HistogramBootstrap.StandardErrors(reference, surrogate, Distance, HistogramBootstrap.Seed(c.Spec.Name, spec.Key));
-        return EffectBounds.FromStandardError(value, se, spec, decision, c.Surrogate.Entries,
-            $"W1/σ_ref {InvariantNumber.Short(value)}",
-            [new("w1", InvariantNumber.Exact(value * sigma)), new("reference_std", InvariantNumber.Exact(sigma))]);
+        return Decide(c, Cells.Of(c.Reference.Histogram), Cells.Of(c.Surrogate), Distance, sigma, "coarse bins", spec, decision);
+    }
+
+    private static Measurement OnFineGrid(FeatureComparison c, FineGridCells reference, FineGridCells sample, double sigma, ToleranceCheck spec, DecisionSettings decision)
+    {
+        if (reference.Edges.Length != sample.Edges.Length || !reference.Edges.AsSpan().SequenceEqual(sample.Edges))
+            throw new InvalidOperationException("The sample's fine grid is not the reference's.");
+        if (!(reference.TotalSumW > 0) || !(sample.TotalSumW > 0))
+            return Measurement.Impossible("a sample's total weight on the fine grid is not positive, so its CDF is undefined", []);
+        var edges = reference.Edges;
+        // Packed as [tail moment below, cells (flows included), tail moment above], so the bootstrap redraws all of it.
+        double Distance(double[] a, double[] b) =>
+            Wasserstein.FineGrid(edges, a.AsSpan(1, a.Length - 2), a[0], a[^1], b.AsSpan(1, b.Length - 2), b[0], b[^1]) / sigma;
+        return Decide(c, Packed(reference), Packed(sample), Distance, sigma, $"fine grid of {edges.Length - 1} cells", spec, decision);
+    }
+
+    private static CellContents Packed(FineGridCells g) =>
+        new([g.BelowMoment, .. g.SumW, g.AboveMoment], [g.BelowMoment2, .. g.SumW2, g.AboveMoment2]);
+
+    private static Measurement Decide(FeatureComparison c, CellContents reference, CellContents surrogate, Func<double[], double[], double> distance,
+        double sigma, string grid, ToleranceCheck spec, DecisionSettings decision)
+    {
+        var value = distance(reference.SumW, surrogate.SumW);
+        var seed = HistogramBootstrap.Seed(c.Spec.Name, spec.Key);
+        var se = HistogramBootstrap.StandardErrors(reference, surrogate, distance, seed);
+        var bias = HistogramBootstrap.Bias(reference, surrogate, distance, value, seed);
+        var boundary = HistogramBootstrap.BoundaryReplicas(reference, surrogate, distance, value, spec.Tolerance, seed);
+        return DistanceDecision.Measure(value, bias, se, boundary, spec, decision, c.Surrogate.Entries,
+            $"W1/σ_ref {InvariantNumber.Short(Math.Max(0, value - bias))}",
+            [new("w1", InvariantNumber.Exact(value * sigma)), new("reference_std", InvariantNumber.Exact(sigma)), new("w1_grid", grid)]);
     }
 
     /// <summary>Regular bins with the underflow added to the first and the overflow to the last.</summary>

@@ -33,6 +33,7 @@ internal static class AccumulationJson
                 PartialNumbers.WriteArray(w, "spike_w2", spike.SumW2);
             }
             if (f.FarTail is { } tail) PartialNumbers.WriteJagged(w, "far_tail", tail);
+            if (f.FineGrid is { } fine) WriteFineGrid(w, fine);
             w.WriteEndObject();
         }
         w.WriteEndArray();
@@ -68,7 +69,8 @@ internal static class AccumulationJson
             f.TryGetProperty("spike_entries", out var se)
                 ? new SpikeState(se.GetInt64(), PartialNumbers.ReadArray(f.GetProperty("spike_w")), PartialNumbers.ReadArray(f.GetProperty("spike_w2")))
                 : null,
-            f.TryGetProperty("far_tail", out var ft) ? PartialNumbers.ReadJagged(ft) : null)).ToList();
+            f.TryGetProperty("far_tail", out var ft) ? PartialNumbers.ReadJagged(ft) : null,
+            ReadFineGrid(f))).ToList();
         var pairs = e.GetProperty("pairs").EnumerateArray().Select(p => new PairState(
             p.GetProperty("pair").GetString()!,
             PartialNumbers.ReadArray(p.GetProperty("pearson")),
@@ -80,6 +82,21 @@ internal static class AccumulationJson
         return new AccumulationState(e.GetProperty("events").GetInt64(), e.GetProperty("negative_weight_events").GetInt64(),
             PartialNumbers.ReadArray(e.GetProperty("sum_w")), PartialNumbers.ReadArray(e.GetProperty("sum_w2")), features, pairs, joint);
     }
+
+    /// <summary>A feature's fine-grid cells (kept for a Wasserstein check) and its four tail moments, as exact terms.</summary>
+    private static void WriteFineGrid(Utf8JsonWriter w, FineGridState fine)
+    {
+        w.WriteStartObject("fine_grid");
+        w.WritePropertyName("cells");
+        WriteHistogram(w, fine.Histogram);
+        PartialNumbers.WriteJagged(w, "tail_moments", fine.Tails);
+        w.WriteEndObject();
+    }
+
+    private static FineGridState? ReadFineGrid(JsonElement feature) =>
+        feature.TryGetProperty("fine_grid", out var g)
+            ? new FineGridState(ReadHistogram(g.GetProperty("cells")), PartialNumbers.ReadJagged(g.GetProperty("tail_moments")))
+            : null;
 
     private static void WriteHistogram(Utf8JsonWriter w, ExactHistogramState h)
     {

@@ -25,7 +25,7 @@ namespace GateTasks.Engine.Partials;
 internal static class PartialFile
 {
     public const string Format = "gatetasks.partial";
-    public const int Version = 5; // 5: the joint subsample's rows carry their event weights (AccumulationJson.WriteJointWeights)
+    public const int Version = 5; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights
 
     /// <summary>A sample file counted in a partial: its path where it was filled (for messages) and the XXH128 of its bytes (its identity).</summary>
     internal sealed record CountedFile(string Path, string Xxh128);
@@ -35,14 +35,15 @@ internal static class PartialFile
 
     /// <summary>
     /// SHA-256 of everything that decides what a check gathers: each feature's name and definition, whether its far tails
-    /// are counted, the pairs and whether their 2-D cells are, the joint set and its subsample size.
+    /// are counted and whether its fine grid is, the pairs and whether their 2-D cells are, the joint set and its subsample size.
     /// </summary>
     public static string Fingerprint(PrecisionContract contract)
     {
         var b = new StringBuilder();
         foreach (var f in contract.Features)
             b.Append("feature ").Append(f.Name).Append('|').Append(f.Column).Append('|').Append(f.ReferenceRequest)
-             .Append(f.Checks.Any(c => c.Kind == CheckKind.FarTail) ? "|far-tail" : "").Append('\n');
+             .Append(f.Checks.Any(c => c.Kind == CheckKind.FarTail) ? "|far-tail" : "")
+             .Append(f.Checks.Any(c => c.Kind == CheckKind.Wasserstein) ? "|fine-grid" : "").Append('\n');
         foreach (var p in contract.Pairs) b.Append("pair ").Append(p.Name).Append(p.Chi2 is null ? "" : "|2d").Append('\n');
         if (contract.Joint is { } j) b.Append("joint ").Append(j.Name).Append('|').Append(j.Subsample).Append('\n');
         b.Append("selection ").Append(contract.Selection?.Text ?? "").Append('\n');
@@ -141,7 +142,7 @@ internal static class PartialFile
                 var version = root.GetProperty("version").GetInt32();
                 if (version != Version)
                     throw new GateInputException(ErrorCodes.PartialUnreadable,
-                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair and the joint subsample's event weights); fill it again.", at);
+                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights); fill it again.", at);
                 var content = root.GetProperty("content");
                 var stated = root.GetProperty("seal_sha256").GetString();
                 var seal = Seal(content);

@@ -53,6 +53,44 @@ internal sealed class QuantileGrid
     }
 
     /// <summary>
+    /// The edges of a Wasserstein check's fine grid: the sample's lowest value, its quantiles at probabilities
+    /// j/<paramref name="bins"/> (j = 1 … bins − 1) and, further into each tail, at 2^−k/bins and 1 − 2^−k/bins
+    /// (k = 1 … <paramref name="tailLevels"/>), and the axis's upper end, coinciding edges merged. A quantile is
+    /// interpolated inside its cell (as <see cref="Quantile"/> does), not snapped to a cell edge: on a long-tailed
+    /// feature one of the 2^16 regular cells can hold many of the grid's quantiles near the mode. The outermost edges
+    /// hold the whole reference, so beyond them only the other sample has weight and its tail moments integrate
+    /// |F − G| there exactly.
+    /// </summary>
+    public double[] FineEdges(int bins, int tailLevels)
+    {
+        var probabilities = new List<double>();
+        for (var k = tailLevels; k >= 1; k--) probabilities.Add(Math.Pow(2, -k) / bins);
+        for (var j = 1; j < bins; j++) probabilities.Add((double)j / bins);
+        for (var k = 1; k <= tailLevels; k++) probabilities.Add(1 - Math.Pow(2, -k) / bins);
+        var w = Fine.SumW;
+        var total = Fine.TotalSumW;
+        var edges = Fine.Axis.Edges;
+        var result = new List<double> { edges[0] };
+        var cumulative = 0.0;
+        var c = 1;
+        foreach (var p in probabilities)
+        {
+            var target = p * total;
+            while (c <= Cells && !(cumulative + w[c] >= target && w[c] > 0))
+            {
+                cumulative += w[c];
+                c++;
+            }
+            if (c > Cells) break;
+            var fraction = Math.Clamp((target - cumulative) / w[c], 0, 1);
+            var value = edges[c - 1] + fraction * (edges[c] - edges[c - 1]);
+            if (value > result[^1] && value < edges[^1]) result.Add(value);
+        }
+        result.Add(edges[^1]);
+        return result.ToArray();
+    }
+
+    /// <summary>
     /// Edges of at most <paramref name="bins"/> bins of about equal weight, on cell edges. Where one value holds
     /// more than a bin's share (a spike), neighbouring edges coincide and are merged, so fewer bins result.
     /// </summary>

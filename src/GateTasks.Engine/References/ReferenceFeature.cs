@@ -6,7 +6,8 @@ namespace GateTasks.Engine.References;
 
 /// <summary>
 /// One feature of a reference: the histogram the surrogate is compared with, the binning request it was built
-/// from, the quantiles the core region needs, and unbinned summary statistics.
+/// from, the quantiles the core region needs, unbinned summary statistics, and (for a Wasserstein check) the
+/// reference's weight on its fine equal-probability grid.
 /// </summary>
 internal sealed record ReferenceFeature(
     string Name,
@@ -17,7 +18,8 @@ internal sealed record ReferenceFeature(
     FeatureSummary Summary,
     IReadOnlyList<QuantilePoint> Quantiles,
     SpikeTally? Spike = null,
-    FarTailCounts? FarTail = null)
+    FarTailCounts? FarTail = null,
+    FineGridCells? FineGrid = null)
 {
     /// <summary>The value at probability <paramref name="p"/>, if the reference stored it.</summary>
     public double? Quantile(double p)
@@ -32,7 +34,7 @@ internal sealed record ReferenceFeature(
         Quantile(0.001) is { } lo && Quantile(0.999) is { } hi ? (lo, hi) : null;
 
     /// <summary>What a sample's accumulation takes from this feature of the reference.</summary>
-    public FeatureLayout Layout => new(Histogram, FarTail is { } t ? (t.Low, t.High) : null);
+    public FeatureLayout Layout => new(Histogram, FarTail is { } t ? (t.Low, t.High) : null, FineGrid?.Edges);
 }
 
 /// <summary>A stored quantile: P(X &lt; value) ≈ probability.</summary>

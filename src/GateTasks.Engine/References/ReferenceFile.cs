@@ -12,11 +12,12 @@ using GateTasks.Engine.Accumulation;
 namespace GateTasks.Engine.References;
 
 /// <summary>
-/// The reference file format, version 3 (docs/reference-format.md): a Parquet file whose rows are histogram
+/// The reference file format, version 4 (docs/reference-format.md): a Parquet file whose rows are histogram
 /// cells (feature, cell, lower, upper, sum_w, sum_w2) and whose key/value metadata entry
 /// <c>gatetasks.reference</c> holds a JSON header with provenance, per-feature statistics and the SHA-256 of the
 /// whole content (<see cref="ReferenceDigest"/>), verified on every read. Version 1 had no digest, version 2 no
-/// fourth-moment variance of its correlations, version 3 no event weights of its joint subsample; each is refused with
+/// fourth-moment variance of its correlations, version 3 neither a fine grid for a Wasserstein check nor event weights of its joint subsample, version 4 (never
+/// released) no event weights of its joint subsample; each is refused with
 /// the command that rebuilds it.
 /// </summary>
 internal static class ReferenceFile
@@ -222,6 +223,7 @@ internal static class ReferenceFile
                 ["spike"] = f.Spike is { } sp
                     ? new JsonObject { ["value"] = sp.Value, ["entries"] = sp.Entries, ["sum_w"] = sp.SumW, ["sum_w2"] = sp.SumW2 }
                     : null,
+                ["fine_grid"] = FineGridJson(f.FineGrid),
             });
         }
         var inputs = new JsonArray();
@@ -290,7 +292,8 @@ internal static class ReferenceFile
                 f["far_tail"] is JsonObject ft
                     ? new FarTailCounts((double)ft["low"]!, (double)ft["high"]!, (double)ft["below_w"]!, (double)ft["below_w2"]!,
                         (double)ft["above_w"]!, (double)ft["above_w2"]!, (double)ft["total_w"]!, (double)ft["total_w2"]!)
-                    : null));
+                    : null,
+                FineGridFromJson(path, name, f["fine_grid"])));
         }
         var inputs = h["inputs"]!.AsArray()
             .Select(i => new ReferenceInput((string)i!["path"]!, (long)i["bytes"]!, (string)i["sha256"]!)).ToList();
@@ -336,5 +339,30 @@ internal static class ReferenceFile
         if (format is "3" or "4")
             throw Unreadable(path, $"it is in reference format {format}, which stores no event weights with its joint subsample, so the energy test would treat a weighted reference as unweighted; " +
                 $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+    }
+
+    /// <summary>A feature's fine grid in the header: its edges, cells (flows first and last) and the four tail moments.</summary>
+    private static JsonObject? FineGridJson(FineGridCells? g) => g is null ? null : new JsonObject
+    {
+        ["edges"] = Numbers(g.Edges),
+        ["sum_w"] = Numbers(g.SumW),
+        // Unit weights make every cell's Σw² its Σw: then stored once (null here), which saves a third of the grid.
+        ["sum_w2"] = g.SumW2.AsSpan().SequenceEqual(g.SumW) ? null : Numbers(g.SumW2),
+        ["below_moment"] = g.BelowMoment, ["below_moment2"] = g.BelowMoment2,
+        ["above_moment"] = g.AboveMoment, ["above_moment2"] = g.AboveMoment2,
+    };
+
+    private static JsonArray Numbers(double[] values) => new(values.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray());
+
+    private static FineGridCells? FineGridFromJson(string path, string feature, JsonNode? node)
+    {
+        if (node is not JsonObject g) return null;
+        static double[] Read(JsonNode? a) => a!.AsArray().Select(v => (double)v!).ToArray();
+        var edges = Read(g["edges"]);
+        var sumW = Read(g["sum_w"]);
+        var sumW2 = g["sum_w2"] is null ? sumW.ToArray() : Read(g["sum_w2"]);
+        if (edges.Length < 2 || sumW.Length != edges.Length + 1 || sumW2.Length != sumW.Length || edges.Zip(edges.Skip(1)).Any(p => !(p.Second > p.First)))
+            throw Unreadable(path, $"feature '{feature}' has a fine grid of {edges.Length} edges and {sumW.Length} cells, which do not fit each other");
+        return new FineGridCells(edges, sumW, sumW2, (double)g["below_moment"]!, (double)g["below_moment2"]!, (double)g["above_moment"]!, (double)g["above_moment2"]!);
     }
 }
