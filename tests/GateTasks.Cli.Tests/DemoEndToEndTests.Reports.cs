@@ -75,8 +75,10 @@ public partial class DemoEndToEndTests
         var rows = stdout.Split('\n', StringSplitOptions.RemoveEmptyEntries).Select(r => r.Split('\t')).ToList();
         Assert.Equal(["feature", "check", "region", "estimate", "tolerance", "verdict"], rows[0]);
         Assert.All(rows, r => Assert.Equal(6, r.Length));
-        // 10 failed and 6 inconclusive checks (as the drifted demo's JUnit report and build-step test count them).
-        Assert.Equal(16, rows.Count - 1);
+        // 10 failed and 5 inconclusive checks (as the drifted demo's JUnit report and build-step test count them).
+        // delta_phi's wasserstein-max, inconclusive at W1/σ 0.0197 on the coarse bins, reads 0.0143 on the reference's
+        // fine grid and passes its tolerance of 0.02.
+        Assert.Equal(15, rows.Count - 1);
         Assert.Contains(rows, r => r[0] == "m_gg" && r[1] == "ratio-max" && r[2] == "core" && r[4] == "≤ 0.03" && r[5] == "FAIL*");
         // The demo's contract holds tolerance checks only: no goodness-of-fit test stands among the verdicts.
         Assert.DoesNotContain(rows, r => r[1].EndsWith("-test", StringComparison.Ordinal));

@@ -160,7 +160,7 @@ public class StaleVerdictTests(PackageFeed feed)
             .Replace("<TargetFramework>net8.0</TargetFramework>", "<TargetFrameworks>net8.0;net10.0</TargetFrameworks>"));
         var (code, output) = p.Build("-f", "net8.0", "-p:GateSample=surrogate-drifted.parquet");
         Assert.NotEqual(0, code);
-        Assert.Single(Regex.Matches(output, @"FAILED: 61 of 77 checks"));
+        Assert.Single(Regex.Matches(output, @"FAILED: 62 of 77 checks"));
 
         (code, output) = p.Build("-f", "net10.0");
         Assert.True(code == 0, output);
@@ -169,7 +169,7 @@ public class StaleVerdictTests(PackageFeed feed)
         // The plain build of every framework checks once too (up to date now, so it says so once).
         (code, output) = p.Build("-p:GateSample=surrogate-drifted.parquet");
         Assert.NotEqual(0, code);
-        Assert.Single(Regex.Matches(output, @"FAILED: 61 of 77 checks"));
+        Assert.Single(Regex.Matches(output, @"FAILED: 62 of 77 checks"));
     }
 
     [Fact]
