@@ -25,7 +25,7 @@ public sealed class JointWeightsFormatTests : IDisposable
     {
         Directory.CreateDirectory(Path.Combine(_dir, ".git"));
         var contractPath = Path.Combine(_dir, "precision-contract.yaml");
-        File.WriteAllText(contractPath, DemoContract.Text.Replace("subsample: 1000", "subsample: 300"));
+        File.WriteAllText(contractPath, DemoContract.Text + "\njoint:\n  features: [m_gg, pt_gg]\n  energy-test: on\n  subsample: 300\n");
         var contract = ContractLoader.Load(contractPath);
         var fullsim = Path.Combine(_dir, "fullsim.parquet");
         DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 30_000, 11, 10_000);

@@ -2,7 +2,7 @@ namespace GateTasks.Engine.Calibration;
 
 /// <summary>
 /// A multinomial draw of n events over cells by successive binomials (each cell given what the earlier cells left),
-/// one binomial per cell, as <see cref="ReplicaSampler"/> draws a histogram.
+/// one binomial per cell: a replica costs one draw per cell, not per event.
 /// </summary>
 internal static class MultinomialCounts
 {

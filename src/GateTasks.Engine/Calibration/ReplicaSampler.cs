@@ -11,22 +11,7 @@ internal static class ReplicaSampler
 {
     public static Histogram Draw(Axis axis, ReadOnlySpan<double> probabilities, long events, Random rng)
     {
-        var counts = new double[probabilities.Length];
-        var left = events;
-        var mass = 1.0;
-        for (var i = 0; i < probabilities.Length && left > 0; i++)
-        {
-            if (i == probabilities.Length - 1 || mass <= 0)
-            {
-                counts[i] = left;
-                break;
-            }
-            var p = Math.Clamp(probabilities[i] / mass, 0, 1);
-            var k = p >= 1 ? left : p <= 0 ? 0 : Binomial(rng, p, left);
-            counts[i] = k;
-            left -= k;
-            mass -= probabilities[i];
-        }
+        var counts = Array.ConvertAll(MultinomialCounts.Draw(probabilities, events, rng), k => (double)k);
         return Histogram.FromCells(axis, counts, counts, events, 0, 0, 0);
     }
 
