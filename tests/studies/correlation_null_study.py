@@ -24,7 +24,9 @@ import sys
 import tempfile
 
 import numpy as np
-from scipy import stats
+
+
+from clopper_pearson import clopper_pearson
 
 CONTRACT = """contract-version: 1
 sample: sample.csv
@@ -59,12 +61,6 @@ def write_csv(path, x, y):
         for a, b in zip(x, y):
             fh.write(f"{a!r},{b!r}\n")
 
-
-def clopper_pearson(k, n, level=0.95):
-    a = (1 - level) / 2
-    lo = 0.0 if k == 0 else float(stats.beta.ppf(a, k, n - k + 1))
-    hi = 1.0 if k == n else float(stats.beta.ppf(1 - a, k + 1, n - k))
-    return lo, hi
 
 
 def run(gatetasks, args, cwd):

@@ -30,6 +30,8 @@ import xml.etree.ElementTree as ET
 import numpy as np
 from scipy import stats
 
+from clopper_pearson import clopper_pearson
+
 MU, SIGMA = 3.0, 1.0
 
 CONTRACT = """contract-version: 1
@@ -50,12 +52,6 @@ def write_csv(path, x):
         fh.write("\n".join(repr(float(v)) for v in x))
         fh.write("\n")
 
-
-def clopper_pearson(k, n, level=0.95):
-    a = (1 - level) / 2
-    lo = 0.0 if k == 0 else float(stats.beta.ppf(a, k, n - k + 1))
-    hi = 1.0 if k == n else float(stats.beta.ppf(1 - a, k + 1, n - k))
-    return lo, hi
 
 
 def true_distances(scale, bins):

@@ -28,7 +28,9 @@ import tempfile
 import xml.etree.ElementTree as ET
 
 import numpy as np
-from scipy.stats import beta
+
+
+from clopper_pearson import clopper_pearson
 
 REFERENCE_EVENTS = 200_000
 PILOT_EVENTS = 2_000
@@ -96,11 +98,6 @@ def check(gatetasks, work, sample_rows, tag):
         sys.exit(f"gatetasks check exited {code}:\n{out}\n{err}")
     return checks_of(junit)
 
-
-def clopper_pearson(k, n):
-    lo = 0.0 if k == 0 else beta.ppf(0.025, k, n - k + 1)
-    hi = 1.0 if k == n else beta.ppf(0.975, k + 1, n - k)
-    return lo, hi
 
 
 def main():

@@ -27,7 +27,9 @@ import tempfile
 import xml.etree.ElementTree as ET
 
 import numpy as np
-from scipy import stats
+
+
+from clopper_pearson import clopper_pearson
 
 FALSE_ALARM = 0.01
 
@@ -81,12 +83,6 @@ def verdicts(junit):
         out[f"{c.get('classname')}/{c.get('name')}"] = state
     return out
 
-
-def clopper_pearson(k, n, level=0.95):
-    a = 1 - level
-    lo = 0.0 if k == 0 else stats.beta.ppf(a / 2, k, n - k + 1)
-    hi = 1.0 if k == n else stats.beta.ppf(1 - a / 2, k + 1, n - k)
-    return lo, hi
 
 
 def main():

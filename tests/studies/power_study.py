@@ -37,6 +37,8 @@ import xml.etree.ElementTree as ET
 import numpy as np
 from scipy import optimize, stats
 
+from clopper_pearson import clopper_pearson
+
 MU, S = 3.0, 0.8
 C0 = 0.9  # response noise scale of the reference law
 LAMBDA, CAP = 2.5, 9
@@ -142,12 +144,6 @@ def write_csv(path, x, y, k):
     np.savetxt(path, np.column_stack([x, y, k]), fmt=["%.17g", "%.17g", "%d"], delimiter=",",
                header="energy,response,n_jets", comments="")
 
-
-def clopper_pearson(k, n, level=0.95):
-    a = (1 - level) / 2
-    lo = 0.0 if k == 0 else float(stats.beta.ppf(a, k, n - k + 1))
-    hi = 1.0 if k == n else float(stats.beta.ppf(1 - a, k + 1, n - k))
-    return lo, hi
 
 
 def run(gatetasks, args, cwd):

@@ -24,7 +24,9 @@ import tempfile
 import xml.etree.ElementTree as ET
 
 import numpy as np
-from scipy import stats
+
+
+from clopper_pearson import clopper_pearson
 
 FALSE_ALARM = 0.01
 
@@ -82,12 +84,6 @@ def failed_checks(junit):
     root = ET.parse(junit).getroot()
     return [f"{c.get('classname')}/{c.get('name')}" for c in root.iter("testcase") if c.find("failure") is not None]
 
-
-def clopper_pearson(k, n, level=0.95):
-    a = 1 - level
-    lo = 0.0 if k == 0 else stats.beta.ppf(a / 2, k, n - k + 1)
-    hi = 1.0 if k == n else stats.beta.ppf(1 - a / 2, k + 1, n - k)
-    return lo, hi
 
 
 def main():

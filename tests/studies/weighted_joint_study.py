@@ -28,7 +28,9 @@ import tempfile
 import xml.etree.ElementTree as ET
 
 import numpy as np
-from scipy import stats
+
+
+from clopper_pearson import clopper_pearson
 
 FALSE_ALARM = 0.01
 RHO = 0.6
@@ -87,12 +89,6 @@ def write_csv(path, a, b, w):
         for x, y, z in zip(a, b, w):
             fh.write(f"{x!r},{y!r},{z!r}\n")
 
-
-def clopper_pearson(k, n, level=0.95):
-    al = 1 - level
-    lo = 0.0 if k == 0 else stats.beta.ppf(al / 2, k, n - k + 1)
-    hi = 1.0 if k == n else stats.beta.ppf(1 - al / 2, k + 1, n - k)
-    return lo, hi
 
 
 def energy_readings(junit):
