@@ -130,7 +130,7 @@ internal sealed class PairReplica
         var points = new WeightedCorrelation();
         points.AddBatch(x, y, w);
         var state = points.State();
-        (state[0], state[2]) = (n, n); // n events, each w² = 1
+        (state[0], state[1]) = (n, n); // n events, each w² = 1
         var events = new WeightedCorrelation();
         events.Restore(state);
         return events;

@@ -48,15 +48,15 @@ internal static class ContractEvaluation
                     $"The reference holds no correlation for {pair.Spec.Name}; rebuild it with 'gatetasks reference build'.", pair.Spec.Location);
             var subject = new PairSubject(pair.Spec);
             foreach (var check in new[] { pair.Spec.Pearson, pair.Spec.Spearman })
-                if (check is not null) measured.Add((subject, check, CorrelationCheck.Evaluate(stored, pair, check, contract.Decision, sample.Events)));
+                if (check is not null) measured.Add((subject, check, Guarded(check, () => CorrelationCheck.Evaluate(stored, pair, check, contract.Decision, sample.Events))));
             if (pair.Spec.Chi2 is { } chi2)
             {
                 if (stored.Cells2DSumW is null || stored.Cells2DSumW2 is null || pair.Cells is not { } cells || stored.Cells2DSumW.Length != cells.SumW.Length)
                     throw new GateInputException(ErrorCodes.ReferenceMismatch,
                         $"The reference holds no 2-D histogram for {pair.Spec.Name} on these axes; rebuild it with 'gatetasks reference build'.", pair.Spec.Location);
-                measured.Add((subject, chi2, ChiSquareCheck.Evaluate(
+                measured.Add((subject, chi2, Guarded(chi2, () => ChiSquareCheck.Evaluate(
                     new CellContents(stored.Cells2DSumW, stored.Cells2DSumW2),
-                    new CellContents(cells.SumW, cells.SumW2))));
+                    new CellContents(cells.SumW, cells.SumW2)))));
             }
         }
         if (contract.Joint is { } jointSpec)
@@ -77,5 +77,21 @@ internal static class ContractEvaluation
         {
             Readings = TestReadingRule.Read(tests, contract.Decision),
         };
+    }
+
+    /// <summary>
+    /// A pair's measurement, or — where its kernels refuse the cells (a 2-D cell holding a negative sum of weights is no
+    /// probability) — an uncomputable one, undecided with the reason, as <see cref="CheckEvaluator.Measure"/> does for features.
+    /// </summary>
+    private static Measurement Guarded(CheckSpec spec, Func<Measurement> measure)
+    {
+        try
+        {
+            return measure();
+        }
+        catch (ArgumentException e)
+        {
+            return Measurement.Impossible($"{spec.Key} on these cells: {e.Message} (negative event weights can leave cells a probability-based test cannot use)", []);
+        }
     }
 }

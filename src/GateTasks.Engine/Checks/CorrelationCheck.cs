@@ -21,7 +21,7 @@ internal static class CorrelationCheck
         var spearman = spec.Kind == CheckKind.SpearmanDifference;
         var r = spearman ? reference.Spearman : reference.Pearson;
         var s = spearman ? sample.Spearman : sample.Pearson;
-        if (double.IsNaN(s)) return Measurement.Impossible("the sample's correlation is undefined: one of the two features is constant or all NaN", []);
+        if (double.IsNaN(s)) return Measurement.Impossible("the sample's correlation is undefined: one of the two features is constant or all NaN, or the event weights cancel exactly", []);
         var effect = new EffectIntersection(spec.Tolerance, decision, sampleEvents);
         var d = Math.Abs(s - r);
         var referenceVariance = spearman ? reference.SpearmanVariance : reference.PearsonVariance;

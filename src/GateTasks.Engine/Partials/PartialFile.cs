@@ -17,7 +17,7 @@ namespace GateTasks.Engine.Partials;
 /// with every exact sum as its terms.
 /// </summary>
 /// <remarks>
-/// The seal is the SHA-256 of <c>gatetasks.partial\n5\n</c> followed by the content object written compactly (as
+/// The seal is the SHA-256 of <c>gatetasks.partial\n6\n</c> followed by the content object written compactly (as
 /// System.Text.Json writes a parsed element: no white space outside strings). It catches a damaged file or a
 /// number edited by hand; it is not a signature (anyone can compute it again), which is why the content is also
 /// checked for consistency on reading.
@@ -25,7 +25,7 @@ namespace GateTasks.Engine.Partials;
 internal static class PartialFile
 {
     public const string Format = "gatetasks.partial";
-    public const int Version = 5; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights
+    public const int Version = 6; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights; 6: correlation moments kept per sign of weight
 
     /// <summary>A sample file counted in a partial: its path where it was filled (for messages) and the XXH128 of its bytes (its identity).</summary>
     internal sealed record CountedFile(string Path, string Xxh128);
@@ -142,7 +142,7 @@ internal static class PartialFile
                 var version = root.GetProperty("version").GetInt32();
                 if (version != Version)
                     throw new GateInputException(ErrorCodes.PartialUnreadable,
-                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights); fill it again.", at);
+                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights, and correlation moments kept per sign of weight); fill it again.", at);
                 var content = root.GetProperty("content");
                 var stated = root.GetProperty("seal_sha256").GetString();
                 var seal = Seal(content);

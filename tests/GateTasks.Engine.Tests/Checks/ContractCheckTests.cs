@@ -325,6 +325,95 @@ public sealed class ContractCheckTests : IDisposable
         Assert.All(broken.Readings, r => Assert.Equal(Distinguishability.Distinguishable, r.Finding));
     }
 
+    [Fact]
+    public void A_pair_whose_cells_hold_negative_sums_of_weights_is_measured_where_it_can_be_and_never_crashes()
+    {
+        // docs/contract.md: an uncomputable measurement is undecided (a test: not distinguishable), never a crash or
+        // p = 0. Every event with x and y both beyond 1 carries weight −1, so the 2-D histogram's corner cells hold
+        // negative sums, where the χ² homogeneity test of probabilities is undefined; Pearson and Spearman accept them.
+        const string text = """
+            contract-version: 1
+            sample: { path: surrogate.csv, weight: w }
+            reference: ref.parquet
+            decision: { inconclusive: warn }
+            defaults:
+              binning: { bins: 10 }
+              checks: { ks-max: 0.05 }
+            features:
+              - name: x
+              - name: y
+            correlations:
+              - features: [x, y]
+                pearson-max: 0.2
+                chi2-2d-test: on
+            """;
+        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contractPath, text);
+        var contract = ContractLoader.Load(contractPath);
+        void Write(string name, int n, int seed, bool weighted)
+        {
+            var normal = new Normal(0, 1, new Xoshiro256StarStar(seed));
+            File.WriteAllLines(Path.Combine(_dir, name), new[] { "x,y,w" }.Concat(Enumerable.Range(0, n).Select(_ =>
+            {
+                var x = normal.Sample();
+                var y = 0.6 * x + 0.8 * normal.Sample();
+                var w = weighted && x > 1 && y > 1 ? -1.0 : 1.0;
+                return string.Create(CultureInfo.InvariantCulture, $"{x:R},{y:R},{w:R}");
+            })));
+        }
+        Write("full.csv", 40_000, 1, weighted: false);
+        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [Path.Combine(_dir, "full.csv")], null, "test"));
+        Write("surrogate.csv", 40_000, 2, weighted: true);
+        var report = ContractRun.Run(contract);
+        var chi2 = Assert.Single(report.Readings, r => r.Subject is PairSubject);
+        Assert.True(chi2.Measured.Uncomputable, chi2.Measured.Summary);
+        Assert.NotEqual(Distinguishability.Distinguishable, chi2.Finding);
+        var pearson = Assert.Single(report.Outcomes, o => o.Check.Kind == CheckKind.PearsonDifference);
+        Assert.False(pearson.Measured.Uncomputable, pearson.Summary);
+    }
+
+    [Fact]
+    public void A_pair_whose_weights_sum_to_zero_is_undecided_not_a_crash()
+    {
+        // Signed weights whose sum passes through zero leave no weighted mean: Pearson's r is undefined, so its check
+        // cannot be measured (undecided, with the reason) rather than dividing by zero.
+        const string text = """
+            contract-version: 1
+            sample: { path: surrogate.csv, weight: w }
+            reference: ref.parquet
+            decision: { inconclusive: warn }
+            defaults:
+              binning: { bins: 10 }
+              checks: { ks-max: 0.05 }
+            features:
+              - name: x
+              - name: y
+            correlations:
+              - features: [x, y]
+                pearson-max: 0.2
+            """;
+        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
+        File.WriteAllText(contractPath, text);
+        var contract = ContractLoader.Load(contractPath);
+        var normal = new Normal(0, 1, new Xoshiro256StarStar(3));
+        var rows = Enumerable.Range(0, 2_000).Select(_ => (X: normal.Sample(), Y: normal.Sample())).ToArray();
+        File.WriteAllLines(Path.Combine(_dir, "full.csv"), new[] { "x,y,w" }.Concat(rows.Select(r => string.Create(CultureInfo.InvariantCulture, $"{r.X:R},{r.Y:R},1"))));
+        ReferenceFile.Write(contract.ReferenceFullPath, ReferenceBuilder.Build(contract, [Path.Combine(_dir, "full.csv")], null, "test"));
+        // Each event once at +1 and once at −1: Σw = 0 exactly.
+        File.WriteAllLines(Path.Combine(_dir, "surrogate.csv"), new[] { "x,y,w" }.Concat(rows.SelectMany(r => new[]
+            { string.Create(CultureInfo.InvariantCulture, $"{r.X:R},{r.Y:R},1"), string.Create(CultureInfo.InvariantCulture, $"{r.X:R},{r.Y:R},-1") })));
+        var e = Record.Exception(() => ContractRun.Run(contract));
+        if (e is GateInputException input)
+            Assert.NotEqual(0, input.Code.Length); // a coded input error (a zero total weight) is as good as a measured "undecided"
+        else
+        {
+            Assert.Null(e);
+            var pearson = Assert.Single(ContractRun.Run(contract).Outcomes, o => o.Check.Kind == CheckKind.PearsonDifference);
+            Assert.True(pearson.Measured.Uncomputable, pearson.Summary);
+            Assert.Equal(Verdict.Inconclusive, pearson.Verdict);
+        }
+    }
+
     private const string DerivedContract = """
         contract-version: 1
         sample: surrogate.csv

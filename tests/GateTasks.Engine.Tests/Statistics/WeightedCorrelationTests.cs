@@ -54,6 +54,7 @@ public class WeightedCorrelationTests
     [InlineData("lognormal_energy_response")]
     [InlineData("bivariate_normal_0.6")]
     [InlineData("weighted_lognormal")]
+    [InlineData("signed_weights")]
     public void Asymptotic_variance_matches_numpy(string name)
     {
         var c = Case(name);
@@ -119,5 +120,31 @@ public class WeightedCorrelationTests
         Assert.Equal(one.AsymptoticVariance, parts[0].AsymptoticVariance, 1e-10 * one.AsymptoticVariance);
         Assert.Equal(one.EffectiveCount, parts[0].EffectiveCount, 9);
         Assert.False(new WeightedCorrelation().Restore(new double[8])); // the eight numbers of an older partial
+    }
+
+    [Fact]
+    public void Signed_weights_whose_running_sum_passes_through_zero_match_numpy_in_batches_too()
+    {
+        // numpy 1.24.2, fixture case "signed_weights": weights ±1, the first two +1 then −1 (Σw is 0 after two events;
+        // the moment update divided by it before). Streamed pair by pair above; here in batches whose first one cancels.
+        var c = Case("signed_weights");
+        var x = Numbers(c, "x");
+        var y = Numbers(c, "y");
+        var w = Numbers(c, "w");
+        var acc = new WeightedCorrelation();
+        acc.AddBatch(x.AsSpan(0, 2), y.AsSpan(0, 2), w.AsSpan(0, 2));
+        Assert.True(double.IsNaN(acc.Pearson)); // all weight cancelled: undefined, not a number made up
+        acc.AddBatch(x.AsSpan(2, 98), y.AsSpan(2, 98), w.AsSpan(2, 98));
+        acc.AddBatch(x.AsSpan(100), y.AsSpan(100), w.AsSpan(100));
+        Assert.Equal(c.GetProperty("pearson").GetDouble(), acc.Pearson, 10);
+        Assert.Equal(c.GetProperty("n_var").GetDouble(), acc.AsymptoticVariance, 1e-9 * c.GetProperty("n_var").GetDouble());
+        // Compares the program with itself: the same events as two shards whose weights cancel separately.
+        var a = new WeightedCorrelation();
+        var b = new WeightedCorrelation();
+        a.Add(x[0], y[0], w[0]);
+        b.Add(x[1], y[1], w[1]);
+        b.Merge(a);
+        for (var i = 2; i < x.Length; i++) b.Add(x[i], y[i], w[i]);
+        Assert.Equal(acc.Pearson, b.Pearson, 12);
     }
 }
