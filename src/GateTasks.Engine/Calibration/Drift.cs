@@ -17,6 +17,9 @@ internal enum DriftKind
 
     /// <summary>The most populated category of a discrete feature loses the fraction size (absolute) to the others.</summary>
     SpikeFraction,
+
+    /// <summary>A pair's correlation coefficients moved towards zero by size (absolute): a joint structure partly lost.</summary>
+    CorrelationChange,
 }
 
 /// <summary>A named drift with its size.</summary>

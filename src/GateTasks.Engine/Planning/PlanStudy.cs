@@ -9,9 +9,10 @@ namespace GateTasks.Engine.Planning;
 /// <summary>
 /// Plans a surrogate sample's size by simulation with the checks' own measuring and decision code (the replicas of
 /// <see cref="ReplicaFeature"/>, as calibration draws them: a fresh reference of the reference's effective size and a
-/// surrogate, both from the reference histogram taken as the truth). A check's verdict in a replica is decided over
-/// the whole contract's family, the other checks taken as perfect (p-value 1), so the multiple-testing correction
-/// sees the contract's size. Sizes step by quarter octaves (×2^¼ ≈ 1.19), so a planned size is exact to that step.
+/// surrogate, both from the reference histogram taken as the truth; a pair's coefficients by <see cref="CorrelationReplica"/>).
+/// A check's verdict in a replica is decided over the whole contract's family, the other checks taken as perfect
+/// (p-value 1), so the multiple-testing correction sees the contract's size. Goodness-of-fit tests are diagnostics,
+/// outside that family: not planned. Sizes step by quarter octaves (×2^¼ ≈ 1.19), so a planned size is exact to that step.
 /// Replicas use the same seeds at every size and drift (common random numbers), so rates change smoothly along a search.
 /// </summary>
 internal static class PlanStudy
@@ -30,9 +31,9 @@ internal static class PlanStudy
         // Judged against the tolerances a check applies: a category's scaled with its share of the reference.
         contract = CategoryTolerances.Resolve(contract, reference);
         var features = ReplicaFeature.All(contract, reference);
+        var pairs = CorrelationReplica.All(contract, reference);
         var target = contract.Decision.Confidence;
-        var all = features.SelectMany(f => f.Spec.Checks.Select(c => (f.Spec, f.Subject, Check: c))).ToList();
-        var unsimulated = Unsimulated(contract);
+        var all = Family(features, pairs);
 
         // Passing: per feature, the smallest grid step at which each of its checks passes at the target rate.
         var passSteps = new int?[features.Count][];
@@ -41,7 +42,7 @@ internal static class PlanStudy
         {
             var rates = new Dictionary<int, double[]>();
             double[] At(int k) => rates.TryGetValue(k, out var r) ? r
-                : rates[k] = Rates(features[i], Drift.Null, EventsAt(k), all, unsimulated, contract.Decision, replicas, seed + i, Verdict.Pass);
+                : rates[k] = Rates(features[i], Drift.Null, EventsAt(k), all, contract.Decision, replicas, seed + i, Verdict.Pass);
             var checks = features[i].Spec.Checks.Count;
             passSteps[i] = new int?[checks];
             passRates[i] = new double[checks];
@@ -53,15 +54,36 @@ internal static class PlanStudy
             }
         });
 
-        // The whole contract: from the largest of the checks' sizes up, every feature drawn in each replica.
+        // The same for each pair's coefficients.
+        var pairSteps = new int?[pairs.Count][];
+        var pairRates = new double[pairs.Count][];
+        Parallel.For(0, pairs.Count, i =>
+        {
+            var rates = new Dictionary<int, double[]>();
+            double[] At(int k) => rates.TryGetValue(k, out var r) ? r
+                : rates[k] = PairRates(pairs[i], 0, EventsAt(k), all, contract.Decision, replicas, seed + 104_729 * (i + 1), Verdict.Pass);
+            var checks = pairs[i].Checks.Count;
+            pairSteps[i] = new int?[checks];
+            pairRates[i] = new double[checks];
+            for (var j = 0; j < checks; j++)
+            {
+                var step = Smallest(k => At(k)[j] >= target, 0, LastStep);
+                pairSteps[i][j] = step;
+                pairRates[i][j] = At(step ?? LastStep)[j];
+            }
+        });
+
+        // The whole contract: from the largest of the checks' sizes up, every feature and pair drawn in each replica.
         int? contractStep = null;
         var contractRate = 0.0;
-        if (passSteps.All(s => s.All(k => k is not null)))
+        var steps = passSteps.Select((s, i) => s.Where((_, j) => features[i].Spec.Checks[j] is not GoodnessOfFitTest)).SelectMany(s => s)
+            .Concat(pairSteps.SelectMany(s => s)).ToList();
+        if (steps.Count > 0 && steps.All(k => k is not null))
         {
-            var start = passSteps.SelectMany(s => s).Max()!.Value;
+            var start = steps.Max()!.Value;
             for (var k = start; k <= Math.Min(LastStep, start + 2 * StepsPerDoubling); k++)
             {
-                contractRate = ContractPassRate(features, unsimulated, contract.Decision, EventsAt(k), replicas, seed);
+                contractRate = ContractPassRate(features, pairs, contract.Decision, EventsAt(k), replicas, seed);
                 if (contractRate < target) continue;
                 contractStep = k;
                 break;
@@ -88,7 +110,7 @@ internal static class PlanStudy
                 {
                     largest = LargestDrift(f, kind);
                     double[] At(double s) => cache.TryGetValue((kind, s), out var r) ? r
-                        : cache[(kind, s)] = Rates(f, new Drift(kind, s, ""), nDetect, all, unsimulated, contract.Decision, replicas, seed + 7919 * (i + 1), Verdict.Fail);
+                        : cache[(kind, s)] = Rates(f, new Drift(kind, s, ""), nDetect, all, contract.Decision, replicas, seed + 7919 * (i + 1), Verdict.Fail);
                     size = SmallestDrift(s => At(s)[j] >= power, largest);
                     if (size is { } s)
                     {
@@ -101,14 +123,35 @@ internal static class PlanStudy
                     }
                 }
                 var step = passSteps[i][j];
-                planned[i][j] = new PlannedCheck(f.Spec, check, step is { } k ? EventsAt(k) : null, passRates[i][j],
+                planned[i][j] = new PlannedCheck(f.Subject, check, step is { } k ? EventsAt(k) : null, passRates[i][j],
                     Math.Sqrt(passRates[i][j] * (1 - passRates[i][j]) / replicas), family, size, detection, effect, largest);
             }
         });
 
-        var notPlanned = contract.Pairs.Select(p => $"the correlation checks of {p.Name}").ToList();
-        if (contract.Joint is { } joint) notPlanned.Add($"the joint test of {string.Join(", ", joint.Features)}");
-        return new SampleSizePlan(planned.SelectMany(p => p).ToList(), contractStep is { } c ? EventsAt(c) : null, contractRate,
+        // Each pair's coefficients: the smallest change towards zero failed in at least `power` of the replicas.
+        var plannedPairs = new PlannedCheck[pairs.Count][];
+        Parallel.For(0, pairs.Count, i =>
+        {
+            var pair = pairs[i];
+            var cache = new Dictionary<double, double[]>();
+            double[] At(double s) => cache.TryGetValue(s, out var r) ? r
+                : cache[s] = PairRates(pair, s, nDetect, all, contract.Decision, replicas, seed + 15_485_863 * (i + 1), Verdict.Fail);
+            plannedPairs[i] = pair.Checks.Select((check, j) =>
+            {
+                var size = SmallestDrift(s => At(s)[j] >= power, CorrelationReplica.LargestDrift);
+                var step = pairSteps[i][j];
+                return new PlannedCheck(pair.Subject, check, step is { } k ? EventsAt(k) : null, pairRates[i][j],
+                    Math.Sqrt(pairRates[i][j] * (1 - pairRates[i][j]) / replicas), DriftKind.CorrelationChange, size,
+                    size is { } d ? At(d)[j] : double.NaN, size is { } e ? CorrelationReplica.Effect(e) : null, CorrelationReplica.LargestDrift);
+            }).ToArray();
+        });
+
+        // Goodness-of-fit tests are read beside the verdict, never decide it: nothing to plan a size for.
+        var notPlanned = features.SelectMany(f => f.Spec.Checks.OfType<GoodnessOfFitTest>().Select(t => $"{t.Label} of {f.Subject.Name}"))
+            .Concat(contract.Pairs.Where(p => p.Chi2 is not null).Select(p => $"{p.Chi2!.Label} of {p.Name}")).ToList();
+        if (contract.Joint is { } joint) notPlanned.Add($"{joint.Test.Label} of {string.Join(", ", joint.Features)}");
+        var rows = planned.SelectMany(p => p).Where(c => c.Check is not GoodnessOfFitTest).Concat(plannedPairs.SelectMany(p => p)).ToList();
+        return new SampleSizePlan(rows, contractStep is { } c ? EventsAt(c) : null, contractRate,
             Math.Sqrt(contractRate * (1 - contractRate) / replicas), nDetect, target, power, replicas,
             features.Count > 0 ? features[0].ReferenceEvents : 0, notPlanned);
     }
@@ -139,11 +182,11 @@ internal static class PlanStudy
     };
 
     /// <summary>Per check of the feature, the share of replicas whose verdict was <paramref name="counted"/>.</summary>
-    private static double[] Rates(ReplicaFeature f, Drift drift, long events, IReadOnlyList<(FeatureSpec Spec, CheckSubject Subject, CheckSpec Check)> all,
-        IReadOnlyList<(CheckSubject, CheckSpec, Measurement)> unsimulated, DecisionSettings decision, int replicas, int seed, Verdict counted)
+    private static double[] Rates(ReplicaFeature f, Drift drift, long events, IReadOnlyList<(object Owner, CheckSubject Subject, CheckSpec Check)> all,
+        DecisionSettings decision, int replicas, int seed, Verdict counted)
     {
         var probabilities = f.Probabilities(drift);
-        var others = all.Where(a => !ReferenceEquals(a.Spec, f.Spec)).Select(a => Perfect(a.Subject, a.Check)).Concat(unsimulated).ToList();
+        var others = Others(all, f.Spec);
         var hits = new int[f.Spec.Checks.Count];
         for (var r = 0; r < replicas; r++)
         {
@@ -158,24 +201,47 @@ internal static class PlanStudy
         return hits.Select(h => (double)h / replicas).ToArray();
     }
 
+    /// <summary>Per tolerance check of the pair, the share of replicas whose verdict was <paramref name="counted"/>.</summary>
+    private static double[] PairRates(CorrelationReplica pair, double drift, long events, IReadOnlyList<(object Owner, CheckSubject Subject, CheckSpec Check)> all,
+        DecisionSettings decision, int replicas, int seed, Verdict counted)
+    {
+        var others = Others(all, pair.Spec);
+        var hits = new int[pair.Checks.Count];
+        for (var r = 0; r < replicas; r++)
+        {
+            var rng = new Xoshiro256StarStar(unchecked(seed * 1_000_003 + r), threadSafe: false);
+            var items = pair.Measure(drift, events, decision, rng).ToList();
+            var count = items.Count;
+            items.AddRange(others);
+            var outcomes = VerdictRule.Decide(items, decision);
+            for (var j = 0; j < count; j++)
+                if (outcomes[j].Verdict == counted) hits[j]++;
+        }
+        return hits.Select(h => (double)h / replicas).ToArray();
+    }
+
+    /// <summary>Every tolerance check of the contract with what owns it (a feature's or a pair's spec).</summary>
+    private static List<(object Owner, CheckSubject Subject, CheckSpec Check)> Family(IReadOnlyList<ReplicaFeature> features, IReadOnlyList<CorrelationReplica> pairs) =>
+        features.SelectMany(f => f.Spec.Checks.Select(c => ((object)f.Spec, f.Subject, c)))
+            .Concat(pairs.SelectMany(p => p.Checks.Select(c => ((object)p.Spec, p.Subject, (CheckSpec)c))))
+            .ToList();
+
+    /// <summary>The checks of the family not owned by <paramref name="owner"/>, taken as perfectly met.</summary>
+    private static List<(CheckSubject, CheckSpec, Measurement)> Others(IReadOnlyList<(object Owner, CheckSubject Subject, CheckSpec Check)> all, object owner) =>
+        all.Where(a => !ReferenceEquals(a.Owner, owner)).Select(a => Perfect(a.Subject, a.Check)).ToList();
+
     /// <summary>The share of replicas in which a perfect surrogate of <paramref name="events"/> events passes every check of the contract.</summary>
     public static double PassRate(PrecisionContract contract, ReferenceHistograms reference, long events, int replicas, int seed)
     {
         contract = CategoryTolerances.Resolve(contract, reference);
-        return ContractPassRate(ReplicaFeature.All(contract, reference), Unsimulated(contract), contract.Decision, events, replicas, seed);
+        return ContractPassRate(ReplicaFeature.All(contract, reference), CorrelationReplica.All(contract, reference), contract.Decision, events, replicas, seed);
     }
-
-    // Pair and joint checks are not simulated, but they belong to the family the correction counts: as perfect.
-    private static List<(CheckSubject, CheckSpec, Measurement)> Unsimulated(PrecisionContract contract) =>
-        contract.Pairs.SelectMany(p => p.Checks.Select(c => Perfect(new PairSubject(p), c)))
-            .Concat(contract.Joint is { } j ? [Perfect(new JointSubject(j), j.Test)] : [])
-            .ToList();
 
     /// <summary>A check taken as perfectly met: nothing to correct for, passing.</summary>
     private static (CheckSubject, CheckSpec, Measurement) Perfect(CheckSubject subject, CheckSpec check) =>
         (subject, check, new Measurement(0, 0, 0, 1, "", []));
 
-    private static double ContractPassRate(IReadOnlyList<ReplicaFeature> features, IReadOnlyList<(CheckSubject, CheckSpec, Measurement)> unsimulated,
+    private static double ContractPassRate(IReadOnlyList<ReplicaFeature> features, IReadOnlyList<CorrelationReplica> pairs,
         DecisionSettings decision, long events, int replicas, int seed)
     {
         var passed = 0;
@@ -183,7 +249,8 @@ internal static class PlanStudy
         Parallel.For(0, replicas, r =>
         {
             var rng = new Xoshiro256StarStar(unchecked(seed * 1_000_003 + r), threadSafe: false);
-            var items = features.SelectMany((f, i) => f.Measure(probabilities[i], Drift.Null, events, decision, rng)).Concat(unsimulated).ToList();
+            var items = features.SelectMany((f, i) => f.Measure(probabilities[i], Drift.Null, events, decision, rng))
+                .Concat(pairs.SelectMany(p => p.Measure(0, events, decision, rng))).ToList();
             if (VerdictRule.Decide(items, decision).All(o => o.Verdict == Verdict.Pass)) Interlocked.Increment(ref passed);
         });
         return (double)passed / replicas;

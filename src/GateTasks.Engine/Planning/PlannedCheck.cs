@@ -1,10 +1,11 @@
 using GateTasks.Engine.Calibration;
+using GateTasks.Engine.Checks;
 using GateTasks.Engine.Contracts;
 
 namespace GateTasks.Engine.Planning;
 
 /// <summary>
-/// The plan for one check. <see cref="EventsToPass"/>: the smallest surrogate size (on a grid of quarter octaves) at
+/// The plan for one tolerance check of a feature or a pair (<see cref="Subject"/>). <see cref="EventsToPass"/>: the smallest surrogate size (on a grid of quarter octaves) at
 /// which a perfect surrogate passed in at least the target share of replicas (<see cref="PassRate"/>, with
 /// <see cref="PassRateNoise"/> its binomial standard deviation); null when no size up to the plan's largest does —
 /// the reference's own noise is then too large for the tolerance. <see cref="DetectableDrift"/>: the smallest drift of
@@ -13,7 +14,7 @@ namespace GateTasks.Engine.Planning;
 /// null when none up to <see cref="DriftSearchedUpTo"/> does, or (<see cref="Family"/> null) when the check's input is not simulated.
 /// </summary>
 internal sealed record PlannedCheck(
-    FeatureSpec Feature,
+    CheckSubject Subject,
     CheckSpec Check,
     long? EventsToPass,
     double PassRate,

@@ -17,14 +17,14 @@ internal static class PlanTable
         sb.AppendLine($"Contract {contract.DisplayName}: {plan.Checks.Count} checks simulated from the reference ({InvariantNumber.Count(plan.ReferenceEvents)} effective events), " +
                       $"{plan.Replicas} replicas per point; confidence {Short(d.Confidence)}, false-alarm level {Short(d.FalseAlarm)} ({d.CorrectionName}).");
         sb.AppendLine();
-        sb.AppendLine($"| feature | check | tolerance | events to pass | pass rate there | drift family | detectable at {Approximately(plan.DetectionEvents)} events | its effect |");
+        sb.AppendLine($"| subject | check | tolerance | events to pass | pass rate there | drift family | detectable at {Approximately(plan.DetectionEvents)} events | its effect |");
         sb.AppendLine("|---|---|---:|---:|---|---|---:|---:|");
         foreach (var c in plan.Checks)
         {
             var events = c.EventsToPass is { } n ? Approximately(n) : "never: reference-limited";
             var detectable = c.Family is null ? "not simulated"
                 : c.DetectableDrift is { } s ? Percent(s) : $"none up to {Percent(c.DriftSearchedUpTo)}";
-            sb.AppendLine($"| {c.Feature.Name} | {c.Check.Label} | {(c.Check is ToleranceCheck bounded ? Short(bounded.Tolerance) : "test")} | {events} | " +
+            sb.AppendLine($"| {c.Subject.Name} | {c.Check.Label} | {(c.Check is ToleranceCheck bounded ? Short(bounded.Tolerance) : "test")} | {events} | " +
                           $"{Short(c.PassRate)} ± {Noise(c.PassRateNoise)} | {FamilyName(c.Family)} | {detectable} | {(c.EffectAtDrift is { } e ? Short(e) : "—")} |");
         }
         sb.AppendLine();
@@ -39,9 +39,9 @@ internal static class PlanTable
                 : $"Whole contract: no size within two octaves of the checks' own sizes passed every check at the rate {Short(plan.Target)} (last simulated: {Short(plan.ContractPassRate)}).");
         }
         sb.AppendLine($"Detectable drift: the smallest drift of the check's family that fails the check with probability ≥ {Short(plan.Power)} at {Approximately(plan.DetectionEvents)} surrogate events " +
-                      "(scale shift: values × (1 + s); tail deficit: tail bins thinned by s; width increase: spread about the mean × (1 + s); spike-share shift: the spike or top category loses s of the events); its effect is the check's estimate for that drift without noise.");
+                      "(scale shift: values × (1 + s); tail deficit: tail bins thinned by s; width increase: spread about the mean × (1 + s); spike-share shift: the spike or top category loses s of the events; correlation change: the pair's coefficient moved by s towards zero); its effect is the check's estimate for that drift without noise.");
         sb.AppendLine("Sizes step by quarter octaves (×1.19); rates carry their binomial standard deviation.");
-        if (plan.NotPlanned.Count > 0) sb.AppendLine($"Not simulated (counted in the correction as perfect): {string.Join("; ", plan.NotPlanned)}.");
+        if (plan.NotPlanned.Count > 0) sb.AppendLine($"Not planned (diagnostics read beside the verdict, never deciding it): {string.Join("; ", plan.NotPlanned)}.");
         return sb.ToString();
     }
 
@@ -51,6 +51,7 @@ internal static class PlanTable
         DriftKind.TailDeficit => "tail deficit",
         DriftKind.Width => "width increase",
         DriftKind.SpikeFraction => "spike-share shift",
+        DriftKind.CorrelationChange => "correlation change",
         _ => "—",
     };
 

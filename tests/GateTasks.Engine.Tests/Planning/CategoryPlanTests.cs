@@ -50,8 +50,8 @@ public sealed class CategoryPlanTests : IDisposable
                 categories: { by: c, values: [0, 1] }
             """, rng => string.Create(CultureInfo.InvariantCulture, $"{Normal.Sample(rng, 0, 1):R},{(rng.NextDouble() < 0.05 ? 1 : 0)}"), "x,c", 400_000);
         var plan = PlanStudy.Run(contract, reference, 100_000, 200, 3);
-        var whole = plan.Checks.Single(c => c.Feature.Name == "x").EventsToPass!.Value;
-        var small = plan.Checks.Single(c => c.Feature.Name == "x[c=1]").EventsToPass!.Value;
+        var whole = plan.Checks.Single(c => c.Subject.Name == "x").EventsToPass!.Value;
+        var small = plan.Checks.Single(c => c.Subject.Name == "x[c=1]").EventsToPass!.Value;
         // The mean's noise at N sample events is that of N·share category events (σ/√(N·share), Cramér 1946 §27.2),
         // so the category needs about 1/share = 20 times the events the whole feature does. The reference's noise
         // (20 000 category events) adds a little. The grid steps by 2^¼, and each size carries its replicas' noise:
