@@ -220,7 +220,9 @@ internal static class ResultTable
         if (!double.IsNaN(most.CategoryEvents)) most = most with { CategoryEvents = double.NaN, Share = 1 };
         var names = string.Join(", ", open.Take(3).Select(o => $"{o.Subject.Name} {o.Check.Label}")) + (open.Count > 3 ? $" and {open.Count - 3} more" : "");
         return $"Not every tolerance was shown met: {open.Count} inconclusive check{(open.Count == 1 ? "" : "s")} ({names}) " +
-               (report.Contract.Decision.InconclusiveFails ? "fail the build under this contract (decision.inconclusive: fail); " : "only warn under this contract; ") +
+               (report.Contract.Decision.InconclusiveFails
+                   ? (open.Count == 1 ? "fails" : "fail") + " the build under this contract (decision.inconclusive: fail); "
+                   : (open.Count == 1 ? "only warns" : "only warn") + " under this contract; ") +
                NeededText(most) + "." + (uncoveredText.Length > 0 ? " Also " + uncoveredText : "");
     }
 }
