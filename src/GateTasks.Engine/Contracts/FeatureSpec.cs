@@ -38,6 +38,13 @@ internal sealed record FeatureSpec(
     public ShareScaling? ShareScaling { get; init; }
 
     /// <summary>
+    /// Whether the reference keeps, and the sample gathers, the fine equal-probability grid of this feature: a
+    /// continuous feature whose Wasserstein-1 distance is integrated on it or whose quantiles are read off it (coarse
+    /// bins give a quantile's density only as a bin's average, which for a falling tail is far from its value there).
+    /// </summary>
+    public bool NeedsFineGrid => Kind == FeatureKind.Continuous && Checks.Any(c => c.Kind is CheckKind.Wasserstein or CheckKind.QuantileShift);
+
+    /// <summary>
     /// What the reference must have been built for: the binning request and, when declared, the spike value. A
     /// check refuses a reference built for anything else.
     /// </summary>

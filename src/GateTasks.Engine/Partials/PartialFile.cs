@@ -43,7 +43,7 @@ internal static class PartialFile
         foreach (var f in contract.Features)
             b.Append("feature ").Append(f.Name).Append('|').Append(f.Column).Append('|').Append(f.ReferenceRequest)
              .Append(f.Checks.Any(c => c.Kind == CheckKind.FarTail) ? "|far-tail" : "")
-             .Append(f.Checks.Any(c => c.Kind == CheckKind.Wasserstein) ? "|fine-grid" : "").Append('\n');
+             .Append(f.NeedsFineGrid ? "|fine-grid" : "").Append('\n');
         foreach (var p in contract.Pairs) b.Append("pair ").Append(p.Name).Append(p.Chi2 is null ? "" : "|2d").Append('\n');
         if (contract.Joint is { } j) b.Append("joint ").Append(j.Name).Append('|').Append(j.Subsample).Append('\n');
         b.Append("selection ").Append(contract.Selection?.Text ?? "").Append('\n');

@@ -48,11 +48,11 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
                 $"the contract asks for column '{feature.Column}', {feature.Kind.ToString().ToLowerInvariant()}, binning {feature.ReferenceRequest}. " +
                 "Rebuild it with 'gatetasks reference build'.", where);
         }
-        // A Wasserstein check integrates the reference's fine grid, kept only for features that had one when it was built.
-        if (r.FineGrid is null && feature.Kind == FeatureKind.Continuous && feature.Checks.FirstOrDefault(c => c.Kind == CheckKind.Wasserstein) is { } w1)
+        // Wasserstein and quantile checks read the reference's fine grid, kept only for features that had one when it was built.
+        if (r.FineGrid is null && feature.NeedsFineGrid && feature.Checks.FirstOrDefault(c => c.Kind is CheckKind.Wasserstein or CheckKind.QuantileShift) is { } needs)
             throw new GateInputException(ErrorCodes.ReferenceMismatch,
-                $"The reference {Path.GetFileName(referencePath)} keeps no fine grid for feature '{feature.Name}', which its wasserstein-max check needs " +
-                "(the reference was built for a contract without that check); rebuild it with 'gatetasks reference build'.", w1.Location);
+                $"The reference {Path.GetFileName(referencePath)} keeps no fine grid for feature '{feature.Name}', which its {needs.Key} check needs " +
+                "(the reference was built for a contract without that check); rebuild it with 'gatetasks reference build'.", needs.Location);
         return r;
     }
 

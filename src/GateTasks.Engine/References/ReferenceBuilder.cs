@@ -18,7 +18,7 @@ internal static class ReferenceBuilder
     public const int JointSeed = 1_234_577;
 
     /// <summary>
-    /// Equal-probability bins of the fine grid kept for a feature with a Wasserstein check, and the dyadic levels
+    /// Equal-probability bins of the fine grid kept for a feature with a Wasserstein or quantile check, and the dyadic levels
     /// added in each tail beyond them (<see cref="QuantileGrid.FineEdges"/>): enough that W1 from the grid agrees with
     /// the unbinned value within a few percent on long-tailed features, at about 100–200 kB of reference header per such feature.
     /// </summary>
@@ -131,7 +131,7 @@ internal static class ReferenceBuilder
         var correlations = new List<ReferenceCorrelation>();
         var farTail = features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.FarTail) && result[i].FarTailThresholds is { } t
             ? new FarTailCounter(t.Low, t.High) : null).ToArray();
-        var fine = features.Select((f, i) => f.Checks.Any(c => c.Kind == CheckKind.Wasserstein) && grids[i] is { } g
+        var fine = features.Select((f, i) => f.NeedsFineGrid && grids[i] is { } g
             ? new FineGridCounter(g.FineEdges(FineGridBins, FineGridTailLevels)) : null).ToArray();
         if (contract.Pairs.Count > 0 || farTail.Any(t => t is not null) || fine.Any(g => g is not null))
         {
