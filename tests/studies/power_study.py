@@ -42,7 +42,13 @@ from clopper_pearson import clopper_pearson
 MU, S = 3.0, 0.8
 C0 = 0.9  # response noise scale of the reference law
 LAMBDA, CAP = 2.5, 9
-TOL = {"mean": 0.01, "width": 0.03, "ks": 0.01, "wasserstein": 0.01, "quantile": 0.04, "fraction": 0.005, "pearson": 0.02}
+# Tolerances at 10^6 events. Each is at least about 8 standard errors of its estimate at that size (measured on
+# faithful samples: mean 0.0012, width 0.0035, KS 0.0014, W1/sigma 0.0006, core quantile 0.0035, fraction 0.0006,
+# Pearson 0.0045; the pair's t_5 noise makes Pearson's error 4-6x the bivariate-normal one). That is what the
+# question needs: passing with the effect at a third needs (z_pass + z_power) sigma <= 2/3 tol, failing at twice
+# needs (z_fail + z_power) sigma <= tol. A Pearson tolerance of 0.02 (4.4 sigma) left 3 of 32 within-a-third
+# replicas undecided, as that arithmetic predicts.
+TOL = {"mean": 0.01, "width": 0.03, "ks": 0.01, "wasserstein": 0.01, "quantile": 0.04, "fraction": 0.005, "pearson": 0.04}
 KEY = {"mean": "mean-shift-max", "width": "width-ratio-max", "ks": "ks-max", "wasserstein": "wasserstein-max",
        "quantile": "quantile-shift-max", "fraction": "fraction-max", "pearson": "pearson-max"}
 FEATURE = {"mean": "energy", "width": "energy", "ks": "energy", "wasserstein": "energy", "quantile": "energy",
@@ -204,7 +210,7 @@ def main():
             outcome, v = verdicts(os.path.join(work, "result.xml"))
             if name == "third":
                 hit = outcome == "passed"
-                shown = outcome
+                shown = outcome + "".join(f" [{f} {k} {v}]" for (f, k), v in sorted(v.items()) if v != "pass")
             else:
                 verdict = v.get((FEATURE[name], KEY[name]))
                 if verdict is None:
