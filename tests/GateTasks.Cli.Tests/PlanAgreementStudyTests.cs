@@ -34,7 +34,7 @@ public sealed class PlanAgreementStudyTests : IDisposable
         using var doc = JsonDocument.Parse(File.ReadAllText(json));
         var checks = doc.RootElement.GetProperty("checks").EnumerateArray().ToList();
         var table = stdout;
-        Assert.Equal(9, checks.Count);
+        Assert.Equal(10, checks.Count);
 
         // Every check is planned, the small category's too (its inherited ks-max widened by √(0.5/0.03), its
         // mean-shift-max its own 0.12), and drawn at its size.
