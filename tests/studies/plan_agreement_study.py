@@ -11,7 +11,8 @@ plan's target.
 
 Scenarios (`--scenarios`, comma-separated):
   continuous  a long-tailed energy, lognormal(3, 0.8): mean-shift-max and quantile-shift-max (the latter in units of
-              the unbinned sigma, which bin centres overstate about threefold here)
+              the unbinned sigma, which bin centres overstate about threefold here), and wasserstein-max (measured by
+              check on the reference's fine grid, which the plan's replicas draw too)
   category    x ~ normal(10, 2) in a category block over c, with 3% of events in c = 1: the small category's
               ks-max widens as 1/sqrt(share) (share-scaling), its mean-shift-max is its own (per-category)
   discrete    n_jets ~ Poisson(2) capped at 6: fraction-max
@@ -47,6 +48,7 @@ features:
     checks:
       mean-shift-max: 0.04
       quantile-shift-max: 0.08
+      wasserstein-max: 0.03
 """,
         "columns": ["energy"],
     },

@@ -13,11 +13,14 @@ namespace GateTasks.Engine.Calibration;
 /// of a given size, each measured by the checks' own code. A drift distorts the surrogate's truth; a spike-fraction
 /// drift of a feature with a declared spike moves the spike's share. A category of a category block holds its share of
 /// a replica's events (its fresh reference the category's own), and moments are drawn about the reference's unbinned
-/// ones (<see cref="ReplicaSummary"/>), as a check streams them.
+/// ones (<see cref="ReplicaSummary"/>), as a check streams them. Where the reference keeps a fine grid (a feature with a
+/// Wasserstein check), both replicas are drawn on it too (<see cref="FineGridLaw"/>), so W1 is measured on the grid a
+/// check uses.
 /// </summary>
 internal sealed class ReplicaFeature
 {
     private readonly double[] _truth;
+    private readonly FineGridLaw? _fine;
 
     private ReplicaFeature(FeatureSpec spec, ReferenceFeature reference, IReadOnlyList<bool> core, long referenceEvents, double share = 1)
     {
@@ -28,6 +31,8 @@ internal sealed class ReplicaFeature
         Core = core;
         ReferenceEvents = referenceEvents;
         _truth = DriftedDistribution.CellProbabilities(reference, core, Drift.Null);
+        if (reference.FineGrid is { } grid && grid.TotalSumW > 0)
+            _fine = new FineGridLaw(grid, reference.Histogram.Axis.Edges.ToArray(), Probabilities, () => reference.Summary.Mean);
     }
 
     public FeatureSpec Spec { get; }
@@ -111,8 +116,12 @@ internal sealed class ReplicaFeature
         {
             Histogram = refHistogram, Summary = ReplicaSummary.Draw(Reference.Summary, (Reference.Summary.Mean, Reference.Summary.StandardDeviation), refBinned, rng),
             Spike = refSpike, FarTail = DrawFarTail(refBinned, rng),
+            FineGrid = _fine?.Draw(_fine.Truth, refBinned, rng),
         };
-        return new FeatureComparison(Spec, refReplica, sample, ReplicaSummary.Draw(Reference.Summary, moments, sampleBinned, rng), Core, sampleSpike, DrawFarTail(sampleBinned, rng));
+        // The fine grids are drawn apart from the coarse histograms (each check reads one or the other).
+        var sampleFine = _fine?.Draw(_fine.Under(drift, Reference.Spike is not null), sampleBinned, rng);
+        return new FeatureComparison(Spec, refReplica, sample, ReplicaSummary.Draw(Reference.Summary, moments, sampleBinned, rng), Core, sampleSpike,
+            DrawFarTail(sampleBinned, rng), sampleFine);
     }
 
     /// <summary>
@@ -137,9 +146,10 @@ internal sealed class ReplicaFeature
         {
             Histogram = refHistogram, Summary = ReplicaSummary.Expected(Reference.Summary, (Reference.Summary.Mean, Reference.Summary.StandardDeviation), ReferenceEvents * (1 - truthShare)),
             Spike = Spike(truthShare, ReferenceEvents),
+            FineGrid = _fine?.Expected(_fine.Truth, ReferenceEvents * (1 - truthShare)),
         };
         return new FeatureComparison(Spec, refReplica, sample, ReplicaSummary.Expected(Reference.Summary, moments, inFeature * (1 - driftedShare)), Core,
-            Spike(driftedShare, inFeature), Reference.FarTail);
+            Spike(driftedShare, inFeature), Reference.FarTail, _fine?.Expected(_fine.Under(drift, Reference.Spike is not null), inFeature * (1 - driftedShare)));
     }
 
     /// <summary>The spike tally of a replica of n events (binomial at the spike's share) and the events left to bin.</summary>

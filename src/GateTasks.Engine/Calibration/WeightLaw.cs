@@ -36,8 +36,9 @@ internal sealed record WeightLaw(double NegativeFraction)
     }
 
     /// <summary>
-    /// A replica comparison whose surrogate events (histogram, spike and far-tail counts) get their signs drawn, the
-    /// surrogate's moments then taken from the signed bins as the unweighted replicas' are.
+    /// A replica comparison whose surrogate events (histogram, spike and far-tail counts, fine-grid cells) get their
+    /// signs drawn, the surrogate's moments then taken from the signed bins as the unweighted replicas' are. A fine-grid
+    /// flow's first moment is scaled by its cell's signed-to-unsigned ratio (every event there taken at the mean distance).
     /// </summary>
     public FeatureComparison Apply(FeatureComparison c, Random rng)
     {
@@ -51,6 +52,17 @@ internal sealed record WeightLaw(double NegativeFraction)
             var (wBelow, wAbove) = (SignedSum(below, rng), SignedSum(above, rng));
             tail = t with { BelowW = wBelow, AboveW = wAbove, TotalW = wBelow + wAbove + SignedSum(total - below - above, rng) };
         }
-        return c with { Surrogate = h, SurrogateSummary = c.SurrogateSummary with { SumW = h.TotalSumW, SumW2 = h.TotalSumW2 }, SampleSpike = spike, SampleFarTail = tail };
+        FineGridCells? fine = null;
+        if (c.SampleFineGrid is { } g)
+        {
+            var signed = g.SumW.Select(k => SignedSum((long)k, rng)).ToArray();
+            double Scaled(double moment, int cell) => g.SumW[cell] > 0 ? moment * signed[cell] / g.SumW[cell] : 0;
+            fine = g with { SumW = signed, BelowMoment = Scaled(g.BelowMoment, 0), AboveMoment = Scaled(g.AboveMoment, signed.Length - 1) };
+        }
+        return c with
+        {
+            Surrogate = h, SurrogateSummary = c.SurrogateSummary with { SumW = h.TotalSumW, SumW2 = h.TotalSumW2 }, SampleSpike = spike, SampleFarTail = tail,
+            SampleFineGrid = fine,
+        };
     }
 }

@@ -8,8 +8,9 @@ namespace GateTasks.Engine.Checks;
 /// <summary>
 /// Wasserstein-1 distance between reference and sample, divided by the reference's unbinned standard deviation so
 /// one tolerance reads the same for every feature. Integrated on the reference's fine equal-probability grid with the
-/// tails' exact first moments (<see cref="Wasserstein.FineGrid"/>), so a long tail is not smeared over a coarse bin;
-/// where no fine grid is at hand (a calibration's replicas) on the coarse bins, flows counted at the axis ends.
+/// tails' exact first moments (<see cref="Wasserstein.FineGrid"/>), so a long tail is not smeared over a coarse bin.
+/// The replicas of plan and calibration draw that grid too (Calibration/FineGridLaw, inner cells merged). Only where
+/// no fine grid is at hand (a comparison built without one) on the coarse bins, flows counted at the axis ends.
 /// Bias-corrected and judged against its own noise at the tolerance (<see cref="DistanceDecision"/>); errors by
 /// <see cref="HistogramBootstrap"/>.
 /// </summary>
