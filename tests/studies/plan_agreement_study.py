@@ -121,7 +121,7 @@ def planned_sizes(markdown):
     sizes = {}
     for line in open(markdown, encoding="utf-8"):
         cells = [c.strip() for c in line.strip().strip("|").split("|")]
-        if len(cells) < 5 or cells[0] in ("feature", "") or cells[0].startswith("---"):
+        if len(cells) < 5 or cells[0] in ("subject", "") or cells[0].startswith("---"):
             continue
         label = cells[1]
         m = re.fullmatch(r"([a-z0-9-]+)(?:\[(.+)\])?", label)

@@ -42,7 +42,11 @@ internal sealed record FeatureSpec(
     /// continuous feature whose Wasserstein-1 distance is integrated on it or whose quantiles are read off it (coarse
     /// bins give a quantile's density only as a bin's average, which for a falling tail is far from its value there).
     /// </summary>
-    public bool NeedsFineGrid => Kind == FeatureKind.Continuous && Checks.Any(c => c.Kind is CheckKind.Wasserstein or CheckKind.QuantileShift);
+    public bool NeedsFineGrid => FineGridCheck is not null;
+
+    /// <summary>The first check that reads the fine grid (<see cref="NeedsFineGrid"/>), named when a reference lacks the grid.</summary>
+    public CheckSpec? FineGridCheck =>
+        Kind == FeatureKind.Continuous ? Enumerable.FirstOrDefault(Checks, c => c.Kind is CheckKind.Wasserstein or CheckKind.QuantileShift) : null;
 
     /// <summary>
     /// What the reference must have been built for: the binning request and, when declared, the spike value. A

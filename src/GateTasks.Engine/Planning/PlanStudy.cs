@@ -188,7 +188,9 @@ internal static class PlanStudy
         var probabilities = f.Probabilities(drift);
         var others = Others(all, f.Spec);
         var hits = new int[f.Spec.Checks.Count];
-        for (var r = 0; r < replicas; r++)
+        // Replicas in parallel too: one feature with a fine-grid check can outlast all the others. Each replica has its
+        // own seed, so the counts do not depend on the thread count.
+        Parallel.For(0, replicas, r =>
         {
             var rng = new Xoshiro256StarStar(unchecked(seed * 1_000_003 + r), threadSafe: false);
             var items = f.Measure(probabilities, drift, events, decision, rng).ToList();
@@ -196,8 +198,8 @@ internal static class PlanStudy
             items.AddRange(others);
             var outcomes = VerdictRule.Decide(items, decision);
             for (var j = 0; j < count; j++)
-                if (outcomes[j].Verdict == counted) hits[j]++;
-        }
+                if (outcomes[j].Verdict == counted) Interlocked.Increment(ref hits[j]);
+        });
         return hits.Select(h => (double)h / replicas).ToArray();
     }
 
@@ -207,7 +209,7 @@ internal static class PlanStudy
     {
         var others = Others(all, pair.Spec);
         var hits = new int[pair.Checks.Count];
-        for (var r = 0; r < replicas; r++)
+        Parallel.For(0, replicas, r =>
         {
             var rng = new Xoshiro256StarStar(unchecked(seed * 1_000_003 + r), threadSafe: false);
             var items = pair.Measure(drift, events, decision, rng).ToList();
@@ -215,8 +217,8 @@ internal static class PlanStudy
             items.AddRange(others);
             var outcomes = VerdictRule.Decide(items, decision);
             for (var j = 0; j < count; j++)
-                if (outcomes[j].Verdict == counted) hits[j]++;
-        }
+                if (outcomes[j].Verdict == counted) Interlocked.Increment(ref hits[j]);
+        });
         return hits.Select(h => (double)h / replicas).ToArray();
     }
 

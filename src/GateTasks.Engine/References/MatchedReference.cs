@@ -49,7 +49,7 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
                 "Rebuild it with 'gatetasks reference build'.", where);
         }
         // Wasserstein and quantile checks read the reference's fine grid, kept only for features that had one when it was built.
-        if (r.FineGrid is null && feature.NeedsFineGrid && feature.Checks.FirstOrDefault(c => c.Kind is CheckKind.Wasserstein or CheckKind.QuantileShift) is { } needs)
+        if (r.FineGrid is null && feature.FineGridCheck is { } needs)
             throw new GateInputException(ErrorCodes.ReferenceMismatch,
                 $"The reference {Path.GetFileName(referencePath)} keeps no fine grid for feature '{feature.Name}', which its {needs.Key} check needs " +
                 "(the reference was built for a contract without that check); rebuild it with 'gatetasks reference build'.", needs.Location);

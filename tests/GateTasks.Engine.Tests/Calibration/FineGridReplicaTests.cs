@@ -35,7 +35,7 @@ public sealed class FineGridReplicaTests : IDisposable
         for (var i = 0; i < n; i++) w.WriteLine(LogNormal.Sample(rng, 3, 0.8).ToString("R", CultureInfo.InvariantCulture));
     }
 
-    private (PrecisionContract, ReferenceHistograms) Setup()
+    private (PrecisionContract, ReferenceHistograms) Setup(string check = "wasserstein-max")
     {
         var contractPath = Path.Combine(_dir, "precision-contract.yaml");
         File.WriteAllText(contractPath, $"""
@@ -47,7 +47,7 @@ public sealed class FineGridReplicaTests : IDisposable
             features:
               - name: energy
                 checks:
-                  wasserstein-max: {Tolerance.ToString(CultureInfo.InvariantCulture)}
+                  {check}: {Tolerance.ToString(CultureInfo.InvariantCulture)}
             """);
         var contract = ContractLoader.Load(contractPath);
         var fullsim = Path.Combine(_dir, "fullsim.csv");
@@ -93,5 +93,26 @@ public sealed class FineGridReplicaTests : IDisposable
         // Before the replicas drew fine grids, W1 fell back to the 20 coarse bins and this plan said "never". The plan
         // finds a size below the whole reference's (a tolerance ten times W1's noise there).
         Assert.InRange(w1.EventsToPass!.Value, 1_000, ReferenceEvents);
+    }
+
+    [Fact]
+    public void A_replica_of_a_perfect_surrogate_measures_the_quantile_shift_as_the_check_does_on_a_real_sample()
+    {
+        var (contract, reference) = Setup("quantile-shift-max");
+        var feature = Assert.Single(ReplicaFeature.All(contract, reference));
+        var check = Assert.Single(feature.Spec.Checks);
+        var rng = new Random(5);
+        var replicas = Enumerable.Range(0, 8)
+            .Select(_ => CheckEvaluator.Measure(feature.Draw(feature.Probabilities(Drift.Null), Drift.Null, SampleEvents, rng), check, contract.Decision))
+            .ToList();
+        var checks = Enumerable.Range(0, 4).Select(t =>
+        {
+            var sample = Path.Combine(_dir, $"sample-{t}.csv");
+            WriteLogNormal(sample, SampleEvents, 100 + t);
+            return Assert.Single(ContractRun.Run(contract, sample).Outcomes).Measured;
+        }).ToList();
+        string Show(IEnumerable<Measurement> ms) => string.Join("\n", ms.Select(m => $"{m.Estimate} {m.Upper} " + string.Join(" ", m.Details.Select(d => d.Key + "=" + d.Value))));
+        var (replicaUpper, checkUpper) = (replicas.Average(m => m.Upper), checks.Average(m => m.Upper));
+        Assert.True(replicaUpper / checkUpper is > 0.6 and < 1.6, "replicas:\n" + Show(replicas) + "\nchecks:\n" + Show(checks));
     }
 }
