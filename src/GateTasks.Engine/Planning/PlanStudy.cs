@@ -39,39 +39,15 @@ internal static class PlanStudy
         var passSteps = new int?[features.Count][];
         var passRates = new double[features.Count][];
         Parallel.For(0, features.Count, i =>
-        {
-            var rates = new Dictionary<int, double[]>();
-            double[] At(int k) => rates.TryGetValue(k, out var r) ? r
-                : rates[k] = Rates(features[i], Drift.Null, EventsAt(k), all, contract.Decision, replicas, seed + i, Verdict.Pass);
-            var checks = features[i].Spec.Checks.Count;
-            passSteps[i] = new int?[checks];
-            passRates[i] = new double[checks];
-            for (var j = 0; j < checks; j++)
-            {
-                var step = Smallest(k => At(k)[j] >= target, 0, LastStep);
-                passSteps[i][j] = step;
-                passRates[i][j] = At(step ?? LastStep)[j];
-            }
-        });
+            (passSteps[i], passRates[i]) = PassSteps(features[i].Spec.Checks.Count, target,
+                k => Rates(features[i], Drift.Null, EventsAt(k), all, contract.Decision, replicas, seed + i, Verdict.Pass)));
 
         // The same for each pair's coefficients.
         var pairSteps = new int?[pairs.Count][];
         var pairRates = new double[pairs.Count][];
         Parallel.For(0, pairs.Count, i =>
-        {
-            var rates = new Dictionary<int, double[]>();
-            double[] At(int k) => rates.TryGetValue(k, out var r) ? r
-                : rates[k] = PairRates(pairs[i], 0, EventsAt(k), all, contract.Decision, replicas, seed + 104_729 * (i + 1), Verdict.Pass);
-            var checks = pairs[i].Checks.Count;
-            pairSteps[i] = new int?[checks];
-            pairRates[i] = new double[checks];
-            for (var j = 0; j < checks; j++)
-            {
-                var step = Smallest(k => At(k)[j] >= target, 0, LastStep);
-                pairSteps[i][j] = step;
-                pairRates[i][j] = At(step ?? LastStep)[j];
-            }
-        });
+            (pairSteps[i], pairRates[i]) = PassSteps(pairs[i].Checks.Count, target,
+                k => PairRates(pairs[i], 0, EventsAt(k), all, contract.Decision, replicas, seed + 104_729 * (i + 1), Verdict.Pass)));
 
         // The whole contract: from the largest of the checks' sizes up, every feature and pair drawn in each replica.
         int? contractStep = null;
@@ -256,6 +232,23 @@ internal static class PlanStudy
             if (VerdictRule.Decide(items, decision).All(o => o.Verdict == Verdict.Pass)) Interlocked.Increment(ref passed);
         });
         return (double)passed / replicas;
+    }
+
+    /// <summary>
+    /// Per check of one owner, the smallest grid step whose pass rate reaches <paramref name="target"/> (null: none up to
+    /// the last step) and the rate there; <paramref name="rates"/> gives every check's rate at a step, each step simulated once.
+    /// </summary>
+    private static (int?[] Steps, double[] Rates) PassSteps(int checks, double target, Func<int, double[]> rates)
+    {
+        var cache = new Dictionary<int, double[]>();
+        double[] At(int k) => cache.TryGetValue(k, out var r) ? r : cache[k] = rates(k);
+        var (steps, found) = (new int?[checks], new double[checks]);
+        for (var j = 0; j < checks; j++)
+        {
+            steps[j] = Smallest(k => At(k)[j] >= target, 0, LastStep);
+            found[j] = At(steps[j] ?? LastStep)[j];
+        }
+        return (steps, found);
     }
 
     /// <summary>The smallest step in [lo, hi] where <paramref name="holds"/> (taken as monotone), by doubling then bisection; null if none.</summary>
