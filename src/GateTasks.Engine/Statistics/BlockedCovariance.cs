@@ -17,8 +17,8 @@ namespace GateTasks.Engine.Statistics;
 /// </summary>
 internal sealed class BlockedCovariance
 {
-    // Rows of a batch are centred and multiplied out this many at a time (a small row-major buffer of deviations).
-    private const int RowsPerChunk = 128;
+    // Rows of one block and sign are centred and multiplied out this many at a time (small feature-major buffers).
+    private const int RowsPerChunk = 256;
 
     private readonly CovarianceMoments[] _slots; // block b: positive at 2b, negative at 2b + 1
 
@@ -105,7 +105,9 @@ internal sealed class BlockedCovariance
 
         var slotOfRow = ArrayPool<int>.Shared.Rent(n);
         var weightOfRow = ArrayPool<double>.Shared.Rent(n);
+        var rowsBySlot = ArrayPool<int>.Shared.Rent(n);
         var deviations = ArrayPool<double>.Shared.Rent(RowsPerChunk * d);
+        var weighted = ArrayPool<double>.Shared.Rent(RowsPerChunk * d);
         try
         {
             // Pass 1: slot (block and sign), |w| and the weighted sums of each slot.
@@ -156,28 +158,46 @@ internal sealed class BlockedCovariance
                 }
             }
 
-            // Pass 2: deviations from the batch means, rank-one updates of the lower triangle.
-            for (var start = 0; start < n; start += RowsPerChunk)
+            // Pass 2, slot by slot: rows of the slot gathered (a counting sort), centred on the slot's batch mean a chunk
+            // at a time into feature-major buffers D (deviations) and A·D (weighted), and the lower triangle of the
+            // co-moments raised by the dot products Σ_r a_r D_rp D_rq: vectorised, and independent of how rows
+            // interleave between blocks.
+            var offsets = new int[_slots.Length + 1];
+            for (var i = 0; i < n; i++)
+                if (slotOfRow[i] >= 0) offsets[slotOfRow[i] + 1]++;
+            for (var s = 0; s < _slots.Length; s++) offsets[s + 1] += offsets[s];
+            var fill = (int[])offsets.Clone();
+            for (var i = 0; i < n; i++)
+                if (slotOfRow[i] >= 0) rowsBySlot[fill[slotOfRow[i]]++] = i;
+            var dev = deviations.AsSpan(0, RowsPerChunk * d);
+            var wdev = weighted.AsSpan(0, RowsPerChunk * d);
+            for (var s = 0; s < _slots.Length; s++)
             {
-                var rows = Math.Min(RowsPerChunk, n - start);
-                for (var k = 0; k < d; k++)
+                if (!_touched[s]) continue;
+                var c = _batchComoments.AsSpan(s * d * d, d * d);
+                for (var start = offsets[s]; start < offsets[s + 1]; start += RowsPerChunk)
                 {
-                    var x = columns[k].Span.Slice(start, rows);
-                    for (var r = 0; r < rows; r++)
+                    var rows = Math.Min(RowsPerChunk, offsets[s + 1] - start);
+                    var chunk = rowsBySlot.AsSpan(start, rows);
+                    for (var k = 0; k < d; k++)
                     {
-                        var s = slotOfRow[start + r];
-                        deviations[r * d + k] = s >= 0 ? x[r] - _batchMean[s * d + k] : 0;
+                        var x = columns[k].Span;
+                        var m = _batchMean[s * d + k];
+                        var dk = dev.Slice(k * RowsPerChunk, rows);
+                        var wk = wdev.Slice(k * RowsPerChunk, rows);
+                        for (var r = 0; r < rows; r++)
+                        {
+                            var i = chunk[r];
+                            dk[r] = x[i] - m;
+                            wk[r] = weightOfRow[i] * dk[r];
+                        }
                     }
-                }
-                for (var r = 0; r < rows; r++)
-                {
-                    var s = slotOfRow[start + r];
-                    if (s < 0) continue;
-                    var a = weightOfRow[start + r];
-                    var dev = deviations.AsSpan(r * d, d);
-                    var c = _batchComoments.AsSpan(s * d * d, d * d);
                     for (var p = 0; p < d; p++)
-                        CovarianceMoments.AddScaled(c.Slice(p * d, p + 1), dev[..(p + 1)], a * dev[p]);
+                    {
+                        var wp = wdev.Slice(p * RowsPerChunk, rows);
+                        for (var q = 0; q <= p; q++)
+                            c[p * d + q] += CovarianceMoments.Dot(wp, dev.Slice(q * RowsPerChunk, rows));
+                    }
                 }
             }
 
@@ -201,7 +221,9 @@ internal sealed class BlockedCovariance
         {
             ArrayPool<int>.Shared.Return(slotOfRow);
             ArrayPool<double>.Shared.Return(weightOfRow);
+            ArrayPool<int>.Shared.Return(rowsBySlot);
             ArrayPool<double>.Shared.Return(deviations);
+            ArrayPool<double>.Shared.Return(weighted);
         }
     }
 

@@ -8,7 +8,7 @@ namespace GateTasks.Engine.Statistics;
 /// joined, <see cref="GaussianFit.Join"/>). Parts are joined by the pairwise update of Chan, Golub &amp; LeVeque (1979),
 /// written for co-moment matrices by Pébay (2008, SAND2008-6212, eq. 3.11 with p = 2): for parts A and B with
 /// δ = x̄_B − x̄_A, x̄ = x̄_A + a_B/(a_A + a_B)·δ and C = C_A + C_B + a_A a_B/(a_A + a_B)·δδᵀ.
-/// The matrix is held in full (d × d) so that the per-row update is a vectorised row-by-row axpy.
+/// The matrix is held in full (d × d), symmetric.
 /// </summary>
 internal sealed class CovarianceMoments
 {
@@ -116,19 +116,19 @@ internal sealed class CovarianceMoments
                 _comoments[p * d + q] = _comoments[q * d + p] = from[i++];
     }
 
-    /// <summary>row += a·x, vectorised: the inner step of a rank-one co-moment update.</summary>
-    internal static void AddScaled(Span<double> row, ReadOnlySpan<double> x, double a)
+    /// <summary>Σ x_i y_i, vectorised: one co-moment's share of a chunk of rows.</summary>
+    internal static double Dot(ReadOnlySpan<double> x, ReadOnlySpan<double> y)
     {
         var k = 0;
-        if (Vector.IsHardwareAccelerated && row.Length >= Vector<double>.Count)
+        var sum = 0.0;
+        if (Vector.IsHardwareAccelerated && x.Length >= Vector<double>.Count)
         {
-            var va = new Vector<double>(a);
-            for (; k <= row.Length - Vector<double>.Count; k += Vector<double>.Count)
-            {
-                var r = new Vector<double>(row[k..]);
-                (r + va * new Vector<double>(x[k..])).CopyTo(row[k..]);
-            }
+            var acc = Vector<double>.Zero;
+            for (; k <= x.Length - Vector<double>.Count; k += Vector<double>.Count)
+                acc += new Vector<double>(x[k..]) * new Vector<double>(y[k..]);
+            sum = Vector.Sum(acc);
         }
-        for (; k < row.Length; k++) row[k] += a * x[k];
+        for (; k < x.Length; k++) sum += x[k] * y[k];
+        return sum;
     }
 }

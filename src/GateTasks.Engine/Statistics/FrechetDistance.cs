@@ -30,10 +30,33 @@ internal static class FrechetDistance
         }
         var s1 = Symmetric(first.Covariance, d);
         var s2 = Symmetric(second.Covariance, d);
-        var root1 = SquareRoot(s1);
-        var inner = root1 * s2 * root1;
-        var traceOfRoot = SquareRootEigenvalues(Symmetrize(inner)).Sum();
-        return Math.Max(0.0, meanTerm + s1.Trace() + s2.Trace() - 2 * traceOfRoot);
+        return Math.Max(0.0, meanTerm + s1.Trace() + s2.Trace() - 2 * TraceOfRoot(s1, s2));
+    }
+
+    /// <summary>
+    /// Tr((Σ₁^½ Σ₂ Σ₁^½)^½) = Σ√λ over the eigenvalues λ of the symmetric Σ₁^½ Σ₂ Σ₁^½. When Σ₁ is positive definite
+    /// its Cholesky factor L (Σ₁ = LLᵀ) gives the same eigenvalues from LᵀΣ₂L (similar to Σ₁Σ₂ like the other), at one
+    /// eigendecomposition instead of two; otherwise Σ₁^½ is formed from Σ₁'s eigendecomposition (<see cref="SquareRoot"/>).
+    /// </summary>
+    private static double TraceOfRoot(Matrix<double> s1, Matrix<double> s2)
+    {
+        Matrix<double>? inner = null;
+        try
+        {
+            var l = s1.Cholesky().Factor;
+            if (l.Diagonal().All(v => v > 0 && double.IsFinite(v)))
+                inner = l.TransposeThisAndMultiply(s2 * l);
+        }
+        catch (ArgumentException)
+        {
+            // Not positive definite (MathNet's documented signal): singular, or not semi-definite with negative weights.
+        }
+        if (inner is null)
+        {
+            var root1 = SquareRoot(s1);
+            inner = root1 * s2 * root1;
+        }
+        return SquareRootEigenvalues(Symmetrize(inner)).Sum();
     }
 
     /// <summary>

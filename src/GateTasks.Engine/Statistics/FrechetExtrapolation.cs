@@ -3,19 +3,27 @@ namespace GateTasks.Engine.Statistics;
 /// <summary>
 /// The Fréchet distance between a reference and a sample with its finite-size bias removed, from their blocked
 /// moments (<see cref="BlockedCovariance"/>, same d and B). The plug-in FD is biased upwards by terms of order 1/n of
-/// each side (at equal laws it is a positive quadratic form of the estimation errors), so it is computed on nested
-/// subsets, the first j blocks of each side merged (sizes about N·j/B, j = 1..B), and extrapolated linearly to an
-/// infinite sample by least squares: the method of Chong &amp; Forsyth (2020, "Effectively unbiased FID and Inception
-/// Score and where to find them", CVPR) used for jet data by Kansal et al. (2023, Phys. Rev. D 107, 076017). With two
-/// finite sides the leading bias is a/n_ref + b/n_sample; as both sides grow in the same proportion with j, it is
-/// linear in x = 1/n_ref + 1/n_sample, the abscissa used, with n the Kish (1965) effective counts so that weighted
-/// data enter by their statistical size.
+/// each side (at equal laws it is a positive quadratic form of the estimation errors), so it is computed on subsets of
+/// j blocks of each side (sizes about N·j/B, j = 1..B) and extrapolated linearly to an infinite sample by least
+/// squares: the method of Chong &amp; Forsyth (2020, "Effectively unbiased FID and Inception Score and where to find
+/// them", CVPR), used for jet data by Kansal et al. (2023, Phys. Rev. D 107, 076017). With two finite sides the
+/// leading bias is a/n_ref + b/n_sample; as both sides grow in the same proportion with j, it is linear in
+/// x = 1/n_ref + 1/n_sample, the abscissa used, with n the Kish (1965) effective counts so that weighted data enter by
+/// their statistical size. Each size is the mean over the B cyclic windows of j consecutive blocks rather than one
+/// nested subset: every block then plays the same part (the jackknife below presumes a statistic symmetric in its
+/// units), and the extrapolated value scatters about half as much (measured: 0.00042 against 0.00077 at d = 5, 20 000
+/// rows a side, B = 16).
 /// The uncertainty is the delete-one-block jackknife (Quenouille 1956; Efron &amp; Tibshirani 1993, ch. 11) of the
-/// whole extrapolation: block b is left out of both sides at once (every nested subset that held it loses it), and
-/// the extrapolation repeated. Rows are given to blocks independently of their values, and reference and sample are independent, so the
-/// pairs (reference block b, sample block b) are B independent, identically distributed units, which is what the
+/// whole estimate: block b is left out of both sides at once and the estimate repeated on the B − 1 blocks left.
+/// Rows are given to blocks independently of their values, and reference and sample are independent, so the pairs
+/// (reference block b, sample block b) are B independent, identically distributed units, which is what the
 /// one-sample jackknife needs; leaving a pair out keeps the ratio of the two sides' sizes (the geometry of the
 /// extrapolation) unchanged and costs B repetitions rather than 2B for a two-sample jackknife (Arvesen 1969).
+/// The jackknife variance is biased upwards (Efron &amp; Stein 1981, Ann. Stat. 9:586) by about the statistic's
+/// second-order (quadratic) part, which is all there is when the laws are equal: there the standard error is about
+/// 1.8 times the true spread (conservative), while at a distance well above its noise it is close to it (measured in
+/// FrechetExtrapolationTests). Cost: about B³ distances, each one Cholesky factorisation and one symmetric
+/// eigendecomposition of d × d.
 /// </summary>
 internal static class FrechetExtrapolation
 {
@@ -27,12 +35,12 @@ internal static class FrechetExtrapolation
                 $"Reference ({reference.Dimension} features, {reference.Blocks} blocks) and sample ({sample.Dimension} features, {sample.Blocks} blocks) do not match.",
                 nameof(sample));
         var blocks = reference.Blocks;
-        var points = NestedDistances(reference, sample, emptied: -1);
+        var points = WindowDistances(reference, sample, leftOut: -1);
         var (intercept, slope) = LeastSquares(points);
         var raw = points[^1].Distance;
 
         var leftOut = new double[blocks];
-        for (var b = 0; b < blocks; b++) leftOut[b] = LeastSquares(NestedDistances(reference, sample, b)).Intercept;
+        for (var b = 0; b < blocks; b++) leftOut[b] = LeastSquares(WindowDistances(reference, sample, b)).Intercept;
         return new FrechetEstimate(raw, intercept, slope, JackknifeStandardError(leftOut), points);
     }
 
@@ -50,36 +58,36 @@ internal static class FrechetExtrapolation
     }
 
     /// <summary>
-    /// FD between the fits of the first j blocks of each side, j = 1..B, with x = 1/n_ref + 1/n_sample; block
-    /// <paramref name="emptied"/> (−1: none) taken as empty, so that a leave-one-out value is the same estimator on
-    /// the data without that block: each nested subset loses the block if it held it, and the subsets keep their
-    /// order. (Re-forming the subsets from the B − 1 blocks left would instead swap later blocks into the early
-    /// subsets, and the leave-one-out values would vary by more than the deletion, inflating the error.)
-    /// Subsets left with nothing give no point.
+    /// One point per subset size j = 1..m over the m blocks present (all but <paramref name="leftOut"/>, −1: none):
+    /// the mean FD over the m cyclic windows of j consecutive present blocks (one window for j = m), at the mean
+    /// x = 1/n_ref + 1/n_sample of those windows. Averaging over the windows makes the estimator treat every block
+    /// alike (symmetric under a cyclic relabelling), which the jackknife presumes, and lowers its variance.
     /// </summary>
-    private static (double InverseSize, double Distance)[] NestedDistances(BlockedCovariance reference, BlockedCovariance sample, int emptied)
+    private static (double InverseSize, double Distance)[] WindowDistances(BlockedCovariance reference, BlockedCovariance sample, int leftOut)
     {
         var d = reference.Dimension;
-        CovarianceMoments refPlus = new(d), refMinus = new(d), samplePlus = new(d), sampleMinus = new(d);
-        var points = new List<(double, double)>(reference.Blocks);
-        for (var b = 0; b < reference.Blocks; b++)
+        var present = Enumerable.Range(0, reference.Blocks).Where(b => b != leftOut).ToArray();
+        var m = present.Length;
+        var sums = new (double X, double Fd, int N)[m];
+        for (var s = 0; s < m; s++)
         {
-            if (b == emptied && b == 0) continue;
-            if (b == emptied)
+            CovarianceMoments refPlus = new(d), refMinus = new(d), samplePlus = new(d), sampleMinus = new(d);
+            var sizes = s == 0 ? m : m - 1; // the whole set once, from the first start
+            for (var j = 0; j < sizes; j++)
             {
-                points.Add(points[^1]);
-                continue;
+                var b = present[(s + j) % m];
+                refPlus.Merge(reference.Positive(b));
+                refMinus.Merge(reference.Negative(b));
+                samplePlus.Merge(sample.Positive(b));
+                sampleMinus.Merge(sample.Negative(b));
+                var r = GaussianFit.Join(refPlus, refMinus);
+                var f = GaussianFit.Join(samplePlus, sampleMinus);
+                var x = r.EffectiveCount > 0 && f.EffectiveCount > 0 ? 1 / r.EffectiveCount + 1 / f.EffectiveCount : double.NaN;
+                var fd = FrechetDistance.Between(r, f);
+                sums[j] = (sums[j].X + x, sums[j].Fd + fd, sums[j].N + 1);
             }
-            refPlus.Merge(reference.Positive(b));
-            refMinus.Merge(reference.Negative(b));
-            samplePlus.Merge(sample.Positive(b));
-            sampleMinus.Merge(sample.Negative(b));
-            var r = GaussianFit.Join(refPlus, refMinus);
-            var s = GaussianFit.Join(samplePlus, sampleMinus);
-            var x = r.EffectiveCount > 0 && s.EffectiveCount > 0 ? 1 / r.EffectiveCount + 1 / s.EffectiveCount : double.NaN;
-            points.Add((x, FrechetDistance.Between(r, s)));
         }
-        return [.. points];
+        return sums.Select(t => (t.X / t.N, t.Fd / t.N)).ToArray();
     }
 
     /// <summary>Ordinary least-squares line through the finite points; NaN when fewer than two distinct abscissae.</summary>

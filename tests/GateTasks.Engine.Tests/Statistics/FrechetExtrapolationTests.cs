@@ -75,9 +75,12 @@ public class FrechetExtrapolationTests(ITestOutputHelper output)
         // Chong & Forsyth 2020 (CVPR), Kansal et al. 2023 (Phys. Rev. D 107, 076017): the value extrapolated to 1/N → 0
         // is effectively unbiased; the true FD here is 0, so the replicas' mean is within 2 standard errors of 0.
         Assert.True(Math.Abs(exMean) <= 2 * exSd / Math.Sqrt(replicas), $"extrapolated mean {exMean}, sd {exSd}");
-        // Efron & Tibshirani 1993 ch. 11: the delete-one-block jackknife SE estimates the estimator's spread, here
-        // measured directly over independent replicas; within a factor 1.5 (30 replicas measure an sd to about 13%).
-        Assert.InRange(typicalError / exSd, 1 / 1.5, 1.5);
+        // At equal laws the statistic is purely quadratic in the estimation errors, and the jackknife variance then
+        // overstates the variance (Efron & Stein 1981, Ann. Stat. 9:586: the bias is about the second-order part, here
+        // the whole): the SE is conservative, not within 1.5 of the replicas' spread (measured 0.000788 against 0.000424,
+        // a factor 1.86). Bounded on both sides so that a change either way shows; 30 replicas measure an sd to ~13%.
+        Assert.InRange(typicalError / exSd, 1.2, 2.5);
+        Assert.True(covered >= 28, $"|FD∞| ≤ 1.96 SE in {covered}/{replicas}");
     }
 
     [Fact]
@@ -90,19 +93,25 @@ public class FrechetExtrapolationTests(ITestOutputHelper output)
         var raw = new double[replicas];
         var extrapolated = new double[replicas];
         var errors = new double[replicas];
+        var covered = 0;
         for (var r = 0; r < replicas; r++)
         {
             var e = FrechetExtrapolation.Of(Draw(2000 + r, 0, 1), Draw(7000 + r, 0.05, 1.1));
             (raw[r], extrapolated[r], errors[r]) = (e.Raw, e.Extrapolated, e.StandardError);
+            if (Math.Abs(e.Extrapolated - truth) <= 1.96 * e.StandardError) covered++;
         }
         var (rawMean, rawSd) = Summary(raw);
         var (exMean, exSd) = Summary(extrapolated);
         output.WriteLine(FormattableString.Invariant(
-            $"raw {rawMean:G4} ± {rawSd:G3}; extrapolated {exMean:G4} ± {exSd:G3}; jackknife SE (rms) {Math.Sqrt(errors.Average(s => s * s)):G3}"));
+            $"raw {rawMean:G4} ± {rawSd:G3}; extrapolated {exMean:G4} ± {exSd:G3}; jackknife SE (rms) {Math.Sqrt(errors.Average(s => s * s)):G3}; |FD∞ − FD| ≤ 1.96 SE in {covered}/{replicas}"));
         // Chong & Forsyth 2020; Kansal et al. 2023: the extrapolated value is effectively unbiased for the true FD.
         Assert.True(Math.Abs(exMean - truth) <= 2 * exSd / Math.Sqrt(replicas), $"extrapolated mean {exMean}, sd {exSd}");
-        // Efron & Tibshirani 1993 ch. 11: the jackknife SE against the replicas' own spread, within a factor 1.5.
+        // Efron & Tibshirani 1993 ch. 11: away from equal laws the delete-one-block jackknife SE estimates the
+        // estimator's spread, here measured directly over independent replicas: within a factor 1.5, and the 95%
+        // intervals cover the true value in most replicas (at least 13 of 16; binomial(16, 0.95) gives fewer than 13
+        // with probability under 1%).
         Assert.InRange(Math.Sqrt(errors.Average(s => s * s)) / exSd, 1 / 1.5, 1.5);
+        Assert.True(covered >= 13, $"|FD∞ − FD| ≤ 1.96 SE in {covered}/{replicas}");
     }
 
     [Fact]
