@@ -10,21 +10,22 @@ namespace GateTasks.Engine.Statistics;
 /// put every row in the same block). Each block keeps positive- and negative-weight events apart
 /// (<see cref="CovarianceMoments"/>, whose Σ|w| only grows away from zero), joined when read
 /// (<see cref="GaussianFit.Join"/>): a running Σw that passes through zero loses nothing.
-/// A batch is added the way <see cref="WeightedCorrelation.AddBatch"/> adds one: the batch's own weighted means per
-/// block and sign, then its co-moments about them in a second pass, joined to the running ones once by the pairwise
-/// update (Chan, Golub &amp; LeVeque 1979; Pébay 2008, SAND2008-6212). Blocks and shards merge by the same update, so a
+/// A batch is added as <see cref="WeightedCorrelation.AddBatch"/> adds one, its moments per block and sign first (here in
+/// one pass, about a shift near the mean) and then joined to the running ones once by the pairwise update (Chan, Golub
+/// &amp; LeVeque 1979; Pébay 2008, SAND2008-6212). Blocks and shards merge by the same update, so a
 /// merge of shards equals one pass to rounding. Memory depends on d, B and the batch, never on the sample size.
 /// </summary>
 internal sealed class BlockedCovariance
 {
-    // Rows of one block and sign are centred and multiplied out this many at a time (small feature-major buffers).
-    private const int RowsPerChunk = 256;
+    // Rows are centred and multiplied out a range at a time, holding about this many values (some 256 kB of each
+    // column range, its deviations and the weighted deviations) so that a range's data stay in cache.
+    private const int CachedValues = 32_768;
 
     private readonly CovarianceMoments[] _slots; // block b: positive at 2b, negative at 2b + 1
 
     // Per-batch scratch, sized once (d, B) and cleared only where a batch touched it.
     private readonly long[] _batchCount;
-    private readonly double[] _batchWeight, _batchWeight2, _batchMean, _batchComoments;
+    private readonly double[] _batchWeight, _batchWeight2, _batchMean, _batchComoments, _shift;
     private readonly bool[] _touched;
 
     public BlockedCovariance(int dimension, int blocks)
@@ -40,6 +41,7 @@ internal sealed class BlockedCovariance
         _batchWeight = new double[slots];
         _batchWeight2 = new double[slots];
         _batchMean = new double[slots * dimension];
+        _shift = new double[slots * dimension];
         _batchComoments = new double[slots * dimension * dimension];
         _touched = new bool[slots];
     }
@@ -105,12 +107,13 @@ internal sealed class BlockedCovariance
 
         var slotOfRow = ArrayPool<int>.Shared.Rent(n);
         var weightOfRow = ArrayPool<double>.Shared.Rent(n);
-        var rowsBySlot = ArrayPool<int>.Shared.Rent(n);
-        var deviations = ArrayPool<double>.Shared.Rent(RowsPerChunk * d);
-        var weighted = ArrayPool<double>.Shared.Rent(RowsPerChunk * d);
+        var range = Math.Min(n, Math.Clamp(CachedValues / d, 64, 4096));
+        var rowsBySlot = ArrayPool<int>.Shared.Rent(range);
+        var deviations = ArrayPool<double>.Shared.Rent(range * d);
+        var weighted = ArrayPool<double>.Shared.Rent(range * d);
         try
         {
-            // Pass 1: slot (block and sign), |w| and the weighted sums of each slot.
+            // Pass 1: slot (block and sign), |w|, and each slot's count, Σ|w| and Σw² (and its shift, on first use).
             for (var i = 0; i < n; i++)
             {
                 var w = weights.IsEmpty ? 1.0 : weights[i];
@@ -131,6 +134,11 @@ internal sealed class BlockedCovariance
                     (_batchCount[s], _batchWeight[s], _batchWeight2[s]) = (0, 0, 0);
                     Array.Clear(_batchMean, s * d, d);
                     Array.Clear(_batchComoments, s * d * d, d * d);
+                    // The shift the batch is centred on: the slot's running mean, or this first row of the slot.
+                    if (_slots[s].SumOfWeights > 0)
+                        _slots[s].Mean.CopyTo(_shift.AsSpan(s * d, d));
+                    else
+                        for (var k = 0; k < d; k++) _shift[s * d + k] = columns[k].Span[i];
                 }
                 var a = Math.Abs(w);
                 slotOfRow[i] = s;
@@ -139,76 +147,89 @@ internal sealed class BlockedCovariance
                 _batchWeight[s] += a;
                 _batchWeight2[s] += a * a;
             }
-            for (var k = 0; k < d; k++)
-            {
-                var x = columns[k].Span;
-                for (var i = 0; i < n; i++)
-                {
-                    var s = slotOfRow[i];
-                    if (s >= 0) _batchMean[s * d + k] += weightOfRow[i] * x[i];
-                }
-            }
-            for (var s = 0; s < _slots.Length; s++)
-            {
-                if (!_touched[s]) continue;
-                for (var k = 0; k < d; k++)
-                {
-                    _batchMean[s * d + k] /= _batchWeight[s];
-                    if (!double.IsFinite(_batchMean[s * d + k])) ThrowNotFinite(columns, k);
-                }
-            }
-
-            // Pass 2, slot by slot: rows of the slot gathered (a counting sort), centred on the slot's batch mean a chunk
-            // at a time into feature-major buffers D (deviations) and A·D (weighted), and the lower triangle of the
-            // co-moments raised by the dot products Σ_r a_r D_rp D_rq: vectorised, and independent of how rows
-            // interleave between blocks.
+            // Pass 2, a range of consecutive rows at a time (small enough for its columns to stay in cache): the range's
+            // rows gathered by slot (a counting sort), shifted by their slot's shift c into feature-major buffers
+            // D (deviations x − c) and A·D (weighted), the slot's Σ a·D raised by the sums of A·D and the lower
+            // triangle of its Σ a·D Dᵀ by the dot products Σ_r a_r D_rp D_rq: vectorised, and independent of how rows
+            // interleave between blocks. Sums about a shift close to the mean lose no precision that centring on the
+            // exact mean would keep (Chan, Golub & LeVeque 1983, Am. Stat. 37:242, "shifted data"); the first row of a
+            // slot, or its running mean, is such a shift.
             var offsets = new int[_slots.Length + 1];
-            for (var i = 0; i < n; i++)
-                if (slotOfRow[i] >= 0) offsets[slotOfRow[i] + 1]++;
-            for (var s = 0; s < _slots.Length; s++) offsets[s + 1] += offsets[s];
-            var fill = (int[])offsets.Clone();
-            for (var i = 0; i < n; i++)
-                if (slotOfRow[i] >= 0) rowsBySlot[fill[slotOfRow[i]]++] = i;
-            var dev = deviations.AsSpan(0, RowsPerChunk * d);
-            var wdev = weighted.AsSpan(0, RowsPerChunk * d);
-            for (var s = 0; s < _slots.Length; s++)
+            for (var start = 0; start < n; start += range)
             {
-                if (!_touched[s]) continue;
-                var c = _batchComoments.AsSpan(s * d * d, d * d);
-                for (var start = offsets[s]; start < offsets[s + 1]; start += RowsPerChunk)
+                var rows = Math.Min(range, n - start);
+                Array.Clear(offsets);
+                for (var i = start; i < start + rows; i++)
+                    if (slotOfRow[i] >= 0) offsets[slotOfRow[i] + 1]++;
+                for (var s = 0; s < _slots.Length; s++) offsets[s + 1] += offsets[s];
+                for (var s = _slots.Length; s > 0; s--) offsets[s] = offsets[s - 1];
+                for (var i = start; i < start + rows; i++)
+                    if (slotOfRow[i] >= 0) rowsBySlot[offsets[slotOfRow[i] + 1]++] = i;
+                // offsets[s + 1] is now the end of slot s, offsets[s] its start.
+                for (var s = 0; s < _slots.Length; s++)
                 {
-                    var rows = Math.Min(RowsPerChunk, offsets[s + 1] - start);
-                    var chunk = rowsBySlot.AsSpan(start, rows);
+                    var m = offsets[s + 1] - offsets[s];
+                    if (m == 0) continue;
+                    var chunk = rowsBySlot.AsSpan(offsets[s], m);
                     for (var k = 0; k < d; k++)
                     {
                         var x = columns[k].Span;
-                        var m = _batchMean[s * d + k];
-                        var dk = dev.Slice(k * RowsPerChunk, rows);
-                        var wk = wdev.Slice(k * RowsPerChunk, rows);
-                        for (var r = 0; r < rows; r++)
+                        var shift = _shift[s * d + k];
+                        var dk = deviations.AsSpan(k * range, m);
+                        var wk = weighted.AsSpan(k * range, m);
+                        var sum = 0.0;
+                        for (var r = 0; r < m; r++)
                         {
                             var i = chunk[r];
-                            dk[r] = x[i] - m;
+                            dk[r] = x[i] - shift;
                             wk[r] = weightOfRow[i] * dk[r];
+                            sum += wk[r];
                         }
+                        _batchMean[s * d + k] += sum;
                     }
+                    var c = _batchComoments.AsSpan(s * d * d, d * d);
                     for (var p = 0; p < d; p++)
                     {
-                        var wp = wdev.Slice(p * RowsPerChunk, rows);
-                        for (var q = 0; q <= p; q++)
-                            c[p * d + q] += CovarianceMoments.Dot(wp, dev.Slice(q * RowsPerChunk, rows));
+                        var wp = weighted.AsSpan(p * range, m);
+                        var q = 0;
+                        for (; q + 3 <= p; q += 4)
+                        {
+                            var (s0, s1, s2, s3) = CovarianceMoments.Dot4(wp, deviations.AsSpan(q * range, m), deviations.AsSpan((q + 1) * range, m),
+                                deviations.AsSpan((q + 2) * range, m), deviations.AsSpan((q + 3) * range, m));
+                            c[p * d + q] += s0;
+                            c[p * d + q + 1] += s1;
+                            c[p * d + q + 2] += s2;
+                            c[p * d + q + 3] += s3;
+                        }
+                        for (; q <= p; q++)
+                            c[p * d + q] += CovarianceMoments.Dot(wp, deviations.AsSpan(q * range, m));
                     }
                 }
             }
 
+            // From sums about the shift to the batch's mean and co-moments: m' = Σa·D/W, x̄ = c + m',
+            // C = Σa·D Dᵀ − W m' m'ᵀ.
+            for (var s = 0; s < _slots.Length; s++)
+            {
+                if (!_touched[s]) continue;
+                var w = _batchWeight[s];
+                var offset = _batchMean.AsSpan(s * d, d);
+                for (var k = 0; k < d; k++)
+                {
+                    offset[k] /= w;
+                    if (!double.IsFinite(offset[k] + _shift[s * d + k])) ThrowNotFinite(columns, k);
+                }
+                var c = _batchComoments.AsSpan(s * d * d, d * d);
+                for (var p = 0; p < d; p++)
+                    for (var q = 0; q <= p; q++)
+                        c[p * d + q] = c[q * d + p] = c[p * d + q] - w * offset[p] * offset[q];
+                for (var k = 0; k < d; k++) offset[k] += _shift[s * d + k];
+            }
             for (var s = 0; s < _slots.Length; s++)
             {
                 if (!_touched[s]) continue;
                 _touched[s] = false;
                 var c = _batchComoments.AsSpan(s * d * d, d * d);
-                for (var p = 0; p < d; p++)
-                    for (var q = p + 1; q < d; q++)
-                        c[p * d + q] = c[q * d + p];
                 _slots[s].Merge(_batchCount[s], _batchWeight[s], _batchWeight2[s], _batchMean.AsSpan(s * d, d), c);
             }
         }

@@ -1,4 +1,5 @@
 using System.Numerics;
+using System.Runtime.InteropServices;
 
 namespace GateTasks.Engine.Statistics;
 
@@ -6,7 +7,7 @@ namespace GateTasks.Engine.Statistics;
 /// Weighted mean vector and co-moment matrix C = Σ a (x − x̄)(x − x̄)ᵀ of d features for events whose weights all have
 /// one sign, kept as magnitudes a = |w| so that Σa only grows away from zero (the sign is applied when two such sets are
 /// joined, <see cref="GaussianFit.Join"/>). Parts are joined by the pairwise update of Chan, Golub &amp; LeVeque (1979),
-/// written for co-moment matrices by Pébay (2008, SAND2008-6212, eq. 3.11 with p = 2): for parts A and B with
+/// written for co-moment matrices by Pébay (2008, SAND2008-6212): for parts A and B with
 /// δ = x̄_B − x̄_A, x̄ = x̄_A + a_B/(a_A + a_B)·δ and C = C_A + C_B + a_A a_B/(a_A + a_B)·δδᵀ.
 /// The matrix is held in full (d × d), symmetric.
 /// </summary>
@@ -130,5 +131,45 @@ internal sealed class CovarianceMoments
         }
         for (; k < x.Length; k++) sum += x[k] * y[k];
         return sum;
+    }
+
+    /// <summary>
+    /// Four dot products of x with y0..y3 at once: x is loaded once per step and the four sums are independent
+    /// (a single running sum would wait on its own additions).
+    /// </summary>
+    internal static (double, double, double, double) Dot4(ReadOnlySpan<double> x, ReadOnlySpan<double> y0, ReadOnlySpan<double> y1,
+        ReadOnlySpan<double> y2, ReadOnlySpan<double> y3)
+    {
+        var k = 0;
+        double s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+        if (Vector.IsHardwareAccelerated && x.Length >= Vector<double>.Count)
+        {
+            Vector<double> a0 = Vector<double>.Zero, a1 = a0, a2 = a0, a3 = a0;
+            ref var rx = ref MemoryMarshal.GetReference(x);
+            ref var r0 = ref MemoryMarshal.GetReference(y0);
+            ref var r1 = ref MemoryMarshal.GetReference(y1);
+            ref var r2 = ref MemoryMarshal.GetReference(y2);
+            ref var r3 = ref MemoryMarshal.GetReference(y3);
+            if (y0.Length < x.Length || y1.Length < x.Length || y2.Length < x.Length || y3.Length < x.Length)
+                throw new ArgumentException("Every y needs at least x's length.");
+            for (; k <= x.Length - Vector<double>.Count; k += Vector<double>.Count)
+            {
+                var at = (nuint)k;
+                var v = Vector.LoadUnsafe(ref rx, at);
+                a0 += v * Vector.LoadUnsafe(ref r0, at);
+                a1 += v * Vector.LoadUnsafe(ref r1, at);
+                a2 += v * Vector.LoadUnsafe(ref r2, at);
+                a3 += v * Vector.LoadUnsafe(ref r3, at);
+            }
+            (s0, s1, s2, s3) = (Vector.Sum(a0), Vector.Sum(a1), Vector.Sum(a2), Vector.Sum(a3));
+        }
+        for (; k < x.Length; k++)
+        {
+            s0 += x[k] * y0[k];
+            s1 += x[k] * y1[k];
+            s2 += x[k] * y2[k];
+            s3 += x[k] * y3[k];
+        }
+        return (s0, s1, s2, s3);
     }
 }

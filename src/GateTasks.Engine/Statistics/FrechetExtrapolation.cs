@@ -46,7 +46,7 @@ internal static class FrechetExtrapolation
 
     /// <summary>
     /// Jackknife standard error from the B leave-one-out values θ₍b₎: √((B − 1)/B · Σ(θ₍b₎ − θ̄)²)
-    /// (Efron &amp; Tibshirani 1993, eq. 11.5); infinite when a leave-one-out value is undefined.
+    /// (Efron &amp; Tibshirani 1993, ch. 11); infinite when a leave-one-out value is undefined.
     /// </summary>
     public static double JackknifeStandardError(IReadOnlyList<double> leaveOneOut)
     {

@@ -117,7 +117,7 @@ public class FrechetExtrapolationTests(ITestOutputHelper output)
     [Fact]
     public void Jackknife_standard_error_of_a_mean_is_the_textbook_one()
     {
-        // Efron & Tibshirani 1993 §11.2: for the mean, the jackknife SE equals s/√n. Values 1..5: leave-one-out means
+        // Efron & Tibshirani 1993, ch. 11: for the mean, the jackknife SE equals s/√n. Values 1..5: leave-one-out means
         // (14, 13, 12, 11, 10)/4; s = √2.5, n = 5 → SE = √0.5 [hand-computed].
         Assert.Equal(Math.Sqrt(0.5), FrechetExtrapolation.JackknifeStandardError([3.5, 3.25, 3.0, 2.75, 2.5]), 12);
         Assert.Equal(double.PositiveInfinity, FrechetExtrapolation.JackknifeStandardError([1.0, double.NaN, 2.0]));
