@@ -10,8 +10,9 @@ namespace GateTasks.Engine.Statistics;
 /// <param name="Slope">The fitted finite-size coefficient of x.</param>
 /// <param name="StandardError">Delete-one-block jackknife standard error of <paramref name="Extrapolated"/>;
 /// infinite when some block cannot be left out (a subset without a defined fit).</param>
-/// <param name="Points">For the first j blocks of each side, j = 1..B: x = 1/n_ref + 1/n_sample (Kish effective
-/// counts of the subsets) and the FD between their fits.</param>
+/// <param name="Points">For each subset size j = 1..B (blocks), the mean over the B cyclic windows of j consecutive
+/// blocks of x = 1/n_ref + 1/n_sample (Kish effective counts of the window on each side) and of the FD between the
+/// window's fits; NaN where some window has no defined fit.</param>
 internal sealed record FrechetEstimate(
     double Raw,
     double Extrapolated,

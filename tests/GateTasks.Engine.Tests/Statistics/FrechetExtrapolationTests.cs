@@ -115,6 +115,25 @@ public class FrechetExtrapolationTests(ITestOutputHelper output)
     }
 
     [Fact]
+    public void Nothing_to_compare_gives_nan_and_an_infinite_error()
+    {
+        // Documented behaviour (FrechetEstimate): no defined fit, no value (NaN) and an infinite standard error,
+        // never an exception; and a sample that fills only some blocks still gives a value from the sizes it fills.
+        var empty = new BlockedCovariance(2, 4);
+        var full = new BlockedCovariance(2, 4);
+        full.AddBatch([new double[] { 1, 2, 3, 4, 5, 6, 7, 8 }, new double[] { 2, 1, 4, 3, 6, 5, 8, 9 }], [], 0);
+        var none = FrechetExtrapolation.Of(full, empty);
+        Assert.True(double.IsNaN(none.Raw));
+        Assert.True(double.IsNaN(none.Extrapolated));
+        Assert.Equal(double.PositiveInfinity, none.StandardError);
+        var partial = new BlockedCovariance(2, 4);
+        partial.AddBatch([new double[] { 1, 3, 5 }, new double[] { 2, 2, 7 }], [], 0); // blocks 0, 1, 2; block 3 empty
+        var some = FrechetExtrapolation.Of(full, partial);
+        Assert.True(double.IsFinite(some.Raw) && double.IsFinite(some.Extrapolated));
+        Assert.True(double.IsNaN(some.Points[0].Distance)); // the window of block 3 alone has no fit
+    }
+
+    [Fact]
     public void Jackknife_standard_error_of_a_mean_is_the_textbook_one()
     {
         // Efron & Tibshirani 1993, ch. 11: for the mean, the jackknife SE equals s/√n. Values 1..5: leave-one-out means
