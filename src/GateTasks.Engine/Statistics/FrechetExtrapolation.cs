@@ -11,8 +11,8 @@ namespace GateTasks.Engine.Statistics;
 /// x = 1/n_ref + 1/n_sample, the abscissa used, with n the Kish (1965) effective counts so that weighted data enter by
 /// their statistical size. Each size is the mean over the B cyclic windows of j consecutive blocks rather than one
 /// nested subset: every block then plays the same part (the jackknife below presumes a statistic symmetric in its
-/// units), and the extrapolated value scatters about half as much (measured: 0.00042 against 0.00077 at d = 5, 20 000
-/// rows a side, B = 16).
+/// units), and the extrapolated value scatters about half as much (measured over 30 replicas at equal laws, d = 5,
+/// 20 000 rows a side, B = 16: a standard deviation of 0.00042 against 0.00077 for one nested series).
 /// The uncertainty is the delete-one-block jackknife (Quenouille 1956; Efron &amp; Tibshirani 1993, ch. 11) of the
 /// whole estimate: block b is left out of both sides at once and the estimate repeated on the B − 1 blocks left.
 /// Rows are given to blocks independently of their values, and reference and sample are independent, so the pairs
@@ -21,8 +21,8 @@ namespace GateTasks.Engine.Statistics;
 /// extrapolation) unchanged and costs B repetitions rather than 2B for a two-sample jackknife (Arvesen 1969).
 /// The jackknife variance is biased upwards (Efron &amp; Stein 1981, Ann. Stat. 9:586) by about the statistic's
 /// second-order (quadratic) part, which is all there is when the laws are equal: there the standard error is about
-/// 1.8 times the true spread (conservative), while at a distance well above its noise it is close to it (measured in
-/// FrechetExtrapolationTests). Cost: about B³ distances, each one Cholesky factorisation and one symmetric
+/// √2 times the true spread (conservative; measured 1.37 over 300 replicas at d = 5, 20 000 rows a side, B = 16),
+/// while at a distance well above its noise it is close to it (FrechetExtrapolationTests). Cost: about B³ distances, each one Cholesky factorisation and one symmetric
 /// eigendecomposition of d × d.
 /// </summary>
 internal static class FrechetExtrapolation
