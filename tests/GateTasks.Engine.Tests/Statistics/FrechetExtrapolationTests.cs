@@ -160,6 +160,32 @@ public class FrechetExtrapolationTests(ITestOutputHelper output)
         Assert.True(double.IsNaN(some.Points[0].Distance)); // the window of block 3 alone has no fit
     }
 
+    /// <summary>The accumulation without block <paramref name="left"/>: its state with that block's numbers cut out.</summary>
+    private static BlockedCovariance Without(BlockedCovariance acc, int left)
+    {
+        var per = CovarianceMoments.StateLength(acc.Dimension);
+        var state = acc.State();
+        var kept = new List<double> { acc.Dimension, acc.Blocks - 1 };
+        for (var b = 0; b < acc.Blocks; b++)
+            if (b != left) kept.AddRange(state.Skip(2 + 2 * b * per).Take(2 * per));
+        var reduced = new BlockedCovariance(acc.Dimension, acc.Blocks - 1);
+        Assert.True(reduced.Restore(kept.ToArray()));
+        return reduced;
+    }
+
+    [Fact]
+    public void Jackknife_reuses_windows_without_changing_the_values()
+    {
+        // Compares the program with itself: the standard error, whose leave-one-out values reuse the full set's windows
+        // that do not bridge the left-out block, equals the jackknife of estimates made afresh on B − 1 blocks.
+        var reference = Draw(41, 0, 1, signedWeights: true);
+        var sample = Draw(42, 0.02, 1.05, signedWeights: true);
+        var estimate = FrechetExtrapolation.Of(reference, sample);
+        var afresh = Enumerable.Range(0, Blocks)
+            .Select(b => FrechetExtrapolation.Of(Without(reference, b), Without(sample, b)).Extrapolated).ToArray();
+        Assert.Equal(FrechetExtrapolation.JackknifeStandardError(afresh), estimate.StandardError, 1e-12 * estimate.StandardError);
+    }
+
     [Fact]
     public void Jackknife_standard_error_of_a_mean_is_the_textbook_one()
     {
