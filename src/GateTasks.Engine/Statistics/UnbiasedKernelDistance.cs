@@ -10,7 +10,9 @@ namespace GateTasks.Engine.Statistics;
 /// used by Kansal et al. (2023, "Evaluating generative models in high energy physics", Phys. Rev. D 107, 076017):
 /// MMD²ᵤ = Kxx + Kyy − 2Kxy. Rows carry event weights (negative allowed) and each term is the weighted U- or V-mean:
 /// Kxx = Σ_{i≠j} wᵢwⱼ k(xᵢ, xⱼ) / Σ_{i≠j} wᵢwⱼ, likewise Kyy with the weights v, and
-/// Kxy = Σᵢ Σⱼ wᵢvⱼ k(xᵢ, yⱼ) / (Σw Σv); with every weight 1 this is Lemma 6's estimator exactly.
+/// Kxy = Σᵢ Σⱼ wᵢvⱼ k(xᵢ, yⱼ) / (Σw Σv); with every weight 1 this is Lemma 6's estimator exactly. With unequal
+/// weights each term is a ratio of unbiased sums (self-normalised), so the estimate is consistent with a bias of
+/// order 1/n_eff rather than exactly unbiased.
 /// The kernel is not translation invariant: the caller standardises the rows (for instance by the reference's means
 /// and standard deviations) before calling.
 /// The double sums are taken through the kernel's finite feature map (<see cref="CubicKernelFeatureSums"/>), at
@@ -62,7 +64,9 @@ internal static class UnbiasedKernelDistance
     /// (MathNet <see cref="Combinatorics.GeneratePermutation"/> driven by Xoshiro256StarStar seeded with
     /// <paramref name="seed"/>, the first set's permutation first) and cut into B contiguous blocks of ⌊n/B⌋ or ⌈n/B⌉
     /// rows; block b of one set is compared with block b of the other. Null weights mean every weight 1. Each set
-    /// needs at least 2B rows.
+    /// needs at least 2B rows. Throws <see cref="ArgumentException"/> for ragged, empty or non-finite rows or weights,
+    /// and when a block's (for wide rows, a sub-block's) Σw or Σ_{i≠j} wᵢwⱼ is not positive, where the weighted means
+    /// are undefined: a number is never returned for them.
     /// </summary>
     internal static KernelDistanceEstimate Estimate(double[][] x, double[]? xWeights, double[][] y, double[]? yWeights,
         int blocks = DefaultBlocks, int seed = 1)
