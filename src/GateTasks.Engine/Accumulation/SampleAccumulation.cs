@@ -43,7 +43,7 @@ internal sealed class SampleAccumulation
         _fine = layouts.Select(l => l.FineEdges is { } e ? new FineGridCounter(e) : null).ToArray();
         _spikes = new SpikeSeparation(contract.Features);
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
-        _joint = contract.Joint is { } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, JointSeed) : null;
+        _joint = contract.Joint is { Test: not null } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, JointSeed) : null;
         _pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
             new MarginalCdf(layouts[index[p.First]].Reference), new MarginalCdf(layouts[index[p.Second]].Reference),
             p.Chi2 is null ? null : new Histogram2D(layouts[index[p.First]].Reference.Axis, layouts[index[p.Second]].Reference.Axis))).ToList();

@@ -45,7 +45,7 @@ internal static class ReferenceBuilder
         // Pass 1: ranges and moments.
         var stats = features.Select(_ => new FeatureStatistics()).ToArray();
         var jointIndex = contract.Joint?.Features.Select(name => features.ToList().FindIndex(f => f.Name == name)).ToArray();
-        var joint = contract.Joint is { } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
+        var joint = contract.Joint is { Test: not null } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
         // Each pass puts the declared spikes apart; the first one's tallies are the reference's.
         var spikes = new SpikeSeparation(features);
         var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)), view => joint?.Add(view), pass);
