@@ -59,6 +59,19 @@ internal static class ContractEvaluation
                     new CellContents(cells.SumW, cells.SumW2)))));
             }
         }
+        if (contract.Joint is { Streams: true } streamed)
+        {
+            var stored = reference.JointMoments is { } rm && rm.Features.SequenceEqual(streamed.Features)
+                ? AccumulatedJointMoments.From(streamed.Features.Count, rm.State)
+                : throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                    $"The reference holds no streamed moments of {streamed.Name}; rebuild it with 'gatetasks reference build'.", streamed.Location);
+            var gathered = sample.JointMoments ?? AccumulatedJointMoments.From(streamed.Features.Count, new JointMomentsState(0, 0, null, null));
+            var subject = new JointSubject(streamed);
+            if (streamed.Frechet is { } frechet)
+                measured.Add((subject, frechet, FrechetCheck.Evaluate(stored, gathered, frechet, contract.Decision, sample.Events)));
+            if (streamed.KernelDistance is { } kernel)
+                measured.Add((subject, kernel, KernelDistanceCheck.Evaluate(stored, gathered, kernel, contract.Decision, sample.Events)));
+        }
         if (contract.Joint is { Test: { } energyTest } jointSpec)
         {
             var stored = reference.Joint is { } rj && rj.Features.SequenceEqual(jointSpec.Features)

@@ -110,6 +110,36 @@ internal sealed class CubicKernelFeatureSums
         SelfKernelSum += other.SelfKernelSum;
     }
 
+    /// <summary>How many numbers <see cref="State"/> gives for rows of <paramref name="width"/> features.</summary>
+    internal static int StateLength(int width) => 5 + FeatureCount(width);
+
+    /// <summary>
+    /// The whole set as numbers, for a partial or reference file: d, the row count, Σw, Σw², Σ w² k(x, x), then the
+    /// C(d+3, 3) monomial sums (buffered rows folded in first).
+    /// </summary>
+    internal double[] State()
+    {
+        Flush();
+        var s = new double[StateLength(Width)];
+        (s[0], s[1], s[2], s[3], s[4]) = (Width, Count, WeightSum, WeightSquareSum, SelfKernelSum);
+        _sums.CopyTo(s.AsSpan(5));
+        return s;
+    }
+
+    /// <summary>
+    /// Replaces this set's contents by a state <see cref="State"/> gave; false (nothing changed) when the numbers are
+    /// not of that form for this width (wrong length, width, or a count that is not a whole non-negative number).
+    /// </summary>
+    internal bool Restore(ReadOnlySpan<double> s)
+    {
+        if (s.Length != StateLength(Width) || s[0] != Width || !(s[1] >= 0) || s[1] != Math.Floor(s[1]) || s[1] > long.MaxValue) return false;
+        _buffered = 0;
+        Count = (long)s[1];
+        (WeightSum, WeightSquareSum, SelfKernelSum) = (s[2], s[3], s[4]);
+        s[5..].CopyTo(_sums);
+        return true;
+    }
+
     /// <summary>Σᵢ Σⱼ wᵢ vⱼ k(xᵢ, yⱼ) over all pairs of a row of this set and a row of <paramref name="other"/>.</summary>
     internal double PairSum(CubicKernelFeatureSums other)
     {
