@@ -1,3 +1,4 @@
+using GateTasks.Engine.Statistics;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Histograms;
 
@@ -14,7 +15,8 @@ internal sealed record AccumulatedSample(
     double SumW2,
     IReadOnlyList<AccumulatedFeature> Features,
     IReadOnlyList<AccumulatedPair> Pairs,
-    AccumulatedJoint? Joint);
+    AccumulatedJoint? Joint,
+    AccumulatedJointMoments? JointMoments = null);
 
 /// <summary>
 /// One feature, finished: its histogram on the reference's axis, unbinned summary, spike tally, far-tail counts, and
@@ -36,3 +38,26 @@ internal sealed record CellSums(double[] SumW, double[] SumW2);
 
 /// <summary>The joint subsample, finished: rows offered (without NaN), the rows kept and their event weights.</summary>
 internal sealed record AccumulatedJoint(long Seen, IReadOnlyList<double[]> Rows, IReadOnlyList<double> Weights);
+
+/// <summary>The joint moments and kernel sums, finished (see <see cref="JointMoments"/>).</summary>
+internal sealed record AccumulatedJointMoments(long Rows, long Skipped, BlockedCovariance? Moments, IReadOnlyList<CubicKernelFeatureSums>? Kernel)
+{
+    /// <summary>Fresh objects holding a state; throws <see cref="FormatException"/> when the numbers do not fit d features.</summary>
+    public static AccumulatedJointMoments From(int features, JointMomentsState state)
+    {
+        var moments = state.Moments is null ? null : new BlockedCovariance(features, JointMoments.Blocks);
+        if (moments is not null && !moments.Restore(state.Moments!.ToArray()))
+            throw new FormatException($"the joint moments are not of {features} features in {JointMoments.Blocks} blocks");
+        CubicKernelFeatureSums[]? kernel = null;
+        if (state.Kernel is { } k)
+        {
+            if (k.Count != JointMoments.Blocks) throw new FormatException($"{k.Count} blocks of joint kernel sums, not {JointMoments.Blocks}");
+            kernel = k.Select(s =>
+            {
+                var sums = new CubicKernelFeatureSums(features);
+                return sums.Restore(s.ToArray()) ? sums : throw new FormatException($"joint kernel sums not of {features} features");
+            }).ToArray();
+        }
+        return new AccumulatedJointMoments(state.Rows, state.Skipped, moments, kernel);
+    }
+}

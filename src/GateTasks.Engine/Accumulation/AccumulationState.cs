@@ -1,3 +1,4 @@
+using GateTasks.Engine.Statistics;
 using GateTasks.Engine.Histograms;
 
 namespace GateTasks.Engine.Accumulation;
@@ -13,7 +14,8 @@ internal sealed record AccumulationState(
     IReadOnlyList<double> SumW2,
     IReadOnlyList<FeatureState> Features,
     IReadOnlyList<PairState> Pairs,
-    JointState? Joint);
+    JointState? Joint,
+    JointMomentsState? JointMoments = null);
 
 /// <summary>
 /// One feature's state: its exact histogram, its statistics (<see cref="FeatureStatistics.State"/>), spike tally,
@@ -30,3 +32,9 @@ internal sealed record PairState(string Name, IReadOnlyList<double> Pearson, IRe
 
 /// <summary>The joint subsample's state: rows offered so far, the rows kept and their event weights (one per row).</summary>
 internal sealed record JointState(long Seen, IReadOnlyList<IReadOnlyList<double>> Rows, IReadOnlyList<double> Weights);
+
+/// <summary>
+/// A <see cref="JointMoments"/> state as numbers: rows taken in and skipped, the <see cref="BlockedCovariance.State"/>
+/// (null when not gathered) and each block's <see cref="CubicKernelFeatureSums.State"/> (null when not gathered).
+/// </summary>
+internal sealed record JointMomentsState(long Rows, long Skipped, IReadOnlyList<double>? Moments, IReadOnlyList<IReadOnlyList<double>>? Kernel);

@@ -24,15 +24,17 @@ internal sealed class SampleAccumulation
     private readonly FineGridCounter?[] _fine;
     private readonly SpikeSeparation _spikes;
     private readonly JointSubsample? _joint;
+    private readonly JointMoments? _jointMoments;
     private readonly IReadOnlyList<PairCorrelation> _pairs;
     private readonly ExactSum _sumW = new();
     private readonly ExactSum _sumW2 = new();
 
     /// <summary>
     /// A fresh accumulation of <paramref name="contract"/>'s features, each on the reference's layout
-    /// (<paramref name="layouts"/>, in contract order).
+    /// (<paramref name="layouts"/>, in contract order); a joint block with a streamed check standardises its rows by
+    /// the reference's <paramref name="joint"/> (required then).
     /// </summary>
-    public SampleAccumulation(PrecisionContract contract, IReadOnlyList<FeatureLayout> layouts)
+    public SampleAccumulation(PrecisionContract contract, IReadOnlyList<FeatureLayout> layouts, JointStandardisation? joint = null)
     {
         Contract = contract;
         _batch = layouts.Select(r => new Histogram(r.Reference.Axis)).ToArray();
@@ -43,7 +45,12 @@ internal sealed class SampleAccumulation
         _fine = layouts.Select(l => l.FineEdges is { } e ? new FineGridCounter(e) : null).ToArray();
         _spikes = new SpikeSeparation(contract.Features);
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
-        _joint = contract.Joint is { } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, JointSeed) : null;
+        _joint = contract.Joint is { Test: not null } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, JointSeed) : null;
+        _jointMoments = contract.Joint is { Streams: true } jm
+            ? new JointMoments(jm.Features.Select(f => index[f]).ToList(),
+                joint ?? throw new ArgumentException("The joint block's streamed checks need the reference's standardisation.", nameof(joint)),
+                jm.Frechet is not null, jm.KernelDistance is not null)
+            : null;
         _pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
             new MarginalCdf(layouts[index[p.First]].Reference), new MarginalCdf(layouts[index[p.Second]].Reference),
             p.Chi2 is null ? null : new Histogram2D(layouts[index[p.First]].Reference.Axis, layouts[index[p.Second]].Reference.Axis))).ToList();
@@ -74,6 +81,7 @@ internal sealed class SampleAccumulation
                 if (w < 0) NegativeWeightEvents++;
             foreach (var p in _pairs) p.Add(view);
             _joint?.Add(view);
+            _jointMoments?.Add(view);
         }, pass);
         Events += totals.Events;
         _sumW.Add(totals.ExactSumW);
@@ -93,6 +101,7 @@ internal sealed class SampleAccumulation
         }
         for (var p = 0; p < _pairs.Count; p++) _pairs[p].Merge(other._pairs[p]);
         _joint?.Merge(other._joint!);
+        _jointMoments?.Merge(other._jointMoments!);
         Events += other.Events;
         NegativeWeightEvents += other.NegativeWeightEvents;
         _sumW.Add(other._sumW);
@@ -104,7 +113,8 @@ internal sealed class SampleAccumulation
         _histograms.Select((h, i) => new FeatureState(Contract.Features[i].Name, h.State(), _stats[i].State(),
             _spikes.Filters[i]?.State(), _farTail[i]?.State(), _fine[i]?.State())).ToList(),
         _pairs.Select(p => p.State()).ToList(),
-        _joint?.State());
+        _joint?.State(),
+        _jointMoments?.State());
 
     /// <summary>
     /// Sets a state in the form <see cref="State"/> gives it into this fresh accumulation; the name of what does not fit
@@ -146,6 +156,12 @@ internal sealed class SampleAccumulation
             if (state.Joint is not { } j) return "no joint subsample";
             _joint.SetState(j);
         }
+        if (_jointMoments is not null)
+        {
+            if (state.JointMoments is not { } jm) return "no joint moments";
+            if (_jointMoments.SetState(jm) is { } misfit) return misfit;
+        }
+        else if (state.JointMoments is not null) return "joint moments this contract does not ask for";
         Events = state.Events;
         NegativeWeightEvents = state.NegativeWeightEvents;
         foreach (var v in state.SumW) _sumW.Add(v);
@@ -158,5 +174,6 @@ internal sealed class SampleAccumulation
         _histograms.Select((h, i) => new AccumulatedFeature(h.ToHistogram(), _stats[i].Summary(), _spikes.Filters[i]?.Tally, _farTail[i]?.Counts,
             _fine[i]?.Finish())).ToList(),
         _pairs.Select(p => p.Finish()).ToList(),
-        _joint is null ? null : new AccumulatedJoint(_joint.Seen, _joint.Rows, _joint.Weights));
+        _joint is null ? null : new AccumulatedJoint(_joint.Seen, _joint.Rows, _joint.Weights),
+        _jointMoments?.Finish());
 }

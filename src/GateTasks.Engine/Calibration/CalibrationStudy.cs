@@ -30,7 +30,7 @@ internal static class CalibrationStudy
         var joint = JointReplica.Of(contract, reference);
         var checks = features.SelectMany(f => f.Spec.Checks.Select(c => (f.Subject, Check: c)))
             .Concat(pairs.SelectMany(p => p.Spec.Checks.Select(c => (p.Subject, Check: c))))
-            .Concat(joint is null ? [] : [(joint.Subject, Check: (CheckSpec)joint.Spec.Test)])
+            .Concat(joint is null ? [] : [(joint.Subject, Check: (CheckSpec)joint.Spec.Test!)])
             .ToList();
 
         var drifts = features.Select(f => f.Spec.Name == target ? drift : Drift.Null).ToList();

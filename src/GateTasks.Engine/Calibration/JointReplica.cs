@@ -20,7 +20,8 @@ internal sealed class JointReplica(JointSpec spec, double[][] rows)
     /// <summary>The contract's joint block matched to the reference's stored subsample; null without a block.</summary>
     public static JointReplica? Of(PrecisionContract contract, ReferenceHistograms reference)
     {
-        if (contract.Joint is not { } spec) return null;
+        // Only the energy test is replicated; the streamed tolerance checks are not (see CalibrationStudy).
+        if (contract.Joint is not { Test: not null } spec) return null;
         var stored = reference.Joint is { } rj && rj.Features.SequenceEqual(spec.Features)
             ? rj
             : throw new GateInputException(ErrorCodes.ReferenceMismatch,
@@ -32,7 +33,7 @@ internal sealed class JointReplica(JointSpec spec, double[][] rows)
     {
         var reference = Resample(rows.Length, rng);
         var sample = Resample((int)Math.Min(events, Spec.Subsample), rng);
-        return (Subject, Spec.Test, JointCheck.Evaluate(reference, Ones(reference.Length), sample, Ones(sample.Length), Spec, Spec.PermutationsFor(familySize, decision.FalseAlarm)));
+        return (Subject, Spec.Test!, JointCheck.Evaluate(reference, Ones(reference.Length), sample, Ones(sample.Length), Spec, Spec.PermutationsFor(familySize, decision.FalseAlarm)));
     }
 
     /// <summary>Unit weights: the replicas resample rows as events of the law, each counting once.</summary>

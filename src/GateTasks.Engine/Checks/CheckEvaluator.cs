@@ -66,6 +66,8 @@ internal static class CheckEvaluator
         CheckKind.FarTail => Diagnostics.ErrorCodes.DriftFarTail,
         CheckKind.PearsonDifference or CheckKind.SpearmanDifference => Diagnostics.ErrorCodes.DriftCorrelation,
         CheckKind.EnergyTest => Diagnostics.ErrorCodes.DriftJoint,
+        CheckKind.FrechetDistance => Diagnostics.ErrorCodes.DriftFrechet,
+        CheckKind.KernelDistance => Diagnostics.ErrorCodes.DriftKernelDistance,
         CheckKind.ChiSquare2DTest => Diagnostics.ErrorCodes.DriftChiSquare2D,
         _ => Diagnostics.ErrorCodes.DriftJensenShannon,
     };

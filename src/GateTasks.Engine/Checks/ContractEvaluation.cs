@@ -59,7 +59,20 @@ internal static class ContractEvaluation
                     new CellContents(cells.SumW, cells.SumW2)))));
             }
         }
-        if (contract.Joint is { } jointSpec)
+        if (contract.Joint is { Streams: true } streamed)
+        {
+            var stored = reference.JointMoments is { } rm && rm.Features.SequenceEqual(streamed.Features)
+                ? AccumulatedJointMoments.From(streamed.Features.Count, rm.State)
+                : throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                    $"The reference holds no streamed moments of {streamed.Name}; rebuild it with 'gatetasks reference build'.", streamed.Location);
+            var gathered = sample.JointMoments ?? AccumulatedJointMoments.From(streamed.Features.Count, new JointMomentsState(0, 0, null, null));
+            var subject = new JointSubject(streamed);
+            if (streamed.Frechet is { } frechet)
+                measured.Add((subject, frechet, FrechetCheck.Evaluate(stored, gathered, frechet, contract.Decision, sample.Events)));
+            if (streamed.KernelDistance is { } kernel)
+                measured.Add((subject, kernel, KernelDistanceCheck.Evaluate(stored, gathered, kernel, contract.Decision, sample.Events)));
+        }
+        if (contract.Joint is { Test: { } energyTest } jointSpec)
         {
             var stored = reference.Joint is { } rj && rj.Features.SequenceEqual(jointSpec.Features)
                 ? rj
@@ -68,7 +81,7 @@ internal static class ContractEvaluation
             var subject = new JointSubject(jointSpec);
             // Its family is the contract's tests (the energy test among them), read apart from the tolerance checks.
             var permutations = jointSpec.PermutationsFor(measured.Count(m => m.Item2 is GoodnessOfFitTest) + 1, contract.Decision.FalseAlarm);
-            measured.Add((subject, jointSpec.Test, JointCheck.Evaluate(stored.Rows.ToArray(), stored.Weights, sample.Joint!.Rows.ToArray(), sample.Joint.Weights.ToArray(), jointSpec, permutations)));
+            measured.Add((subject, energyTest, JointCheck.Evaluate(stored.Rows.ToArray(), stored.Weights, sample.Joint!.Rows.ToArray(), sample.Joint.Weights.ToArray(), jointSpec, permutations)));
         }
         // Two families: the tolerance checks decide the run; the goodness-of-fit tests are read apart, beside it.
         var tolerances = measured.Where(m => m.Item2 is not GoodnessOfFitTest).ToList();

@@ -38,7 +38,7 @@ internal static class JointCheck
         var weighted = referenceWeights.Any(w => w != 1) || sampleWeights.Any(w => w != 1);
         var result = EnergyDistance.PermutationTest(
             EnergyDistance.Standardise(reference, means, sds), EnergyDistance.Standardise(sample, means, sds),
-            permutations, HistogramBootstrap.Seed(spec.Name, spec.Test.Key), StopAfterExceedances,
+            permutations, HistogramBootstrap.Seed(spec.Name, ContractKeys.EnergyTest), StopAfterExceedances,
             weighted ? referenceWeights : null, weighted ? sampleWeights : null);
         return new Measurement(result.TestStatistic, double.NaN, double.NaN, result.PValue,
             $"{(weighted ? "weighted energy statistic T" : "energy statistic T")} {InvariantNumber.Short(result.TestStatistic)} on {reference.Length} + {sample.Length} rows, permutation p-value {InvariantNumber.Short(result.PValue)} ({result.Permutations} permutations)",

@@ -52,6 +52,10 @@ internal enum CheckKind
     /// <summary>Energy-distance test over a declared feature set (a goodness-of-fit test in the family).</summary>
     EnergyTest,
 
+    /// <summary>Fréchet distance between Gaussian fits of the standardised joint feature set, extrapolated to infinite size.</summary>
+    FrechetDistance,
+    /// <summary>Unbiased squared maximum mean discrepancy of the standardised joint feature set, cubic polynomial kernel.</summary>
+    KernelDistance,
     /// <summary>|Δ Pearson r| of a declared pair of features.</summary>
     PearsonDifference,
 

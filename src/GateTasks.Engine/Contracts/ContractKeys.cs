@@ -56,6 +56,8 @@ internal static class ContractKeys
     public const string Correlations = "correlations";
     public const string Joint = "joint";
     public const string EnergyTest = "energy-test";
+    public const string FrechetMax = "frechet-max";
+    public const string KernelDistanceMax = "kernel-distance-max";
     public const string Subsample = "subsample";
     public const string Permutations = "permutations";
     public const string PairFeatures = "features";
@@ -72,7 +74,7 @@ internal static class ContractKeys
     public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Acceptance, Defaults, Features, Correlations, Joint];
     public static readonly string[] AcceptanceKeys = [Ledger, Required, Tightening, Ratchet];
     public static readonly string[] TighteningPolicies = ["free", "record"];
-    public static readonly string[] JointKeys = [PairFeatures, EnergyTest, Subsample, Permutations];
+    public static readonly string[] JointKeys = [PairFeatures, EnergyTest, FrechetMax, KernelDistanceMax, Subsample, Permutations];
     public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax, Chi2Test2D];
     public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
@@ -129,6 +131,8 @@ internal static class ContractKeys
         CheckKind.PearsonDifference => PearsonMax,
         CheckKind.SpearmanDifference => SpearmanMax,
         CheckKind.EnergyTest => EnergyTest,
+        CheckKind.FrechetDistance => FrechetMax,
+        CheckKind.KernelDistance => KernelDistanceMax,
         CheckKind.ChiSquare2DTest => Chi2Test2D,
         _ => CheckTable.First(c => c.Kind == kind).Key,
     };

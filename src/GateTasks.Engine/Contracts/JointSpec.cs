@@ -3,13 +3,41 @@ using GateTasks.Engine.Diagnostics;
 namespace GateTasks.Engine.Contracts;
 
 /// <summary>
-/// A multivariate check over a declared feature set: the energy-distance two-sample test (Székely &amp; Rizzo 2004)
-/// on bounded subsamples of reference and sample, so that a broken joint structure fails even when every marginal
-/// passes. <see cref="Test"/> is its entry in the contract's family of tests, read beside the verdict as a diagnostic.
+/// Checks over a declared feature set taken together, so that a broken joint structure fails even when every marginal
+/// passes. Two tolerance checks use every event (streamed, weighted, mergeable across shards), each on the features
+/// standardised by the reference's weighted means and standard deviations: <see cref="Frechet"/> bounds the Fréchet
+/// distance between Gaussian fits, extrapolated to infinite size; <see cref="KernelDistance"/> bounds the unbiased
+/// squared maximum mean discrepancy with the cubic polynomial kernel. <see cref="Test"/> is the energy-distance
+/// two-sample test (Székely &amp; Rizzo 2004) on bounded subsamples, an entry in the contract's family of tests read
+/// beside the verdict as a diagnostic. Each of the three is optional, at least one is stated.
 /// </summary>
-internal sealed record JointSpec(IReadOnlyList<string> Features, int Subsample, int Permutations, GoodnessOfFitTest Test, SourceLocation Location)
+internal sealed record JointSpec(IReadOnlyList<string> Features, int Subsample, int Permutations, GoodnessOfFitTest? Test, SourceLocation Location)
 {
     public const int DefaultSubsample = 2000;
+
+    /// <summary>The widest feature set <c>kernel-distance-max</c> takes: its streamed sums hold C(d+3, 3) numbers a block.</summary>
+    public const int MaxKernelFeatures = Statistics.UnbiasedKernelDistance.MaxFeatureMapWidth;
+
+    /// <summary>The bound on the Fréchet distance (<c>frechet-max</c>), or null.</summary>
+    public ToleranceCheck? Frechet { get; init; }
+
+    /// <summary>The bound on the unbiased kernel distance (<c>kernel-distance-max</c>), or null.</summary>
+    public ToleranceCheck? KernelDistance { get; init; }
+
+    /// <summary>True when a streamed check is stated: every event's moments and kernel sums are gathered.</summary>
+    public bool Streams => Frechet is not null || KernelDistance is not null;
+
+    /// <summary>Every check of the block, in report order: the tolerance checks, then the energy test.</summary>
+    public IEnumerable<CheckSpec> Checks
+    {
+        get
+        {
+            if (Frechet is not null) yield return Frechet;
+            if (KernelDistance is not null) yield return KernelDistance;
+            if (Test is not null) yield return Test;
+        }
+    }
+
     /// <summary>Permutations when the contract states none: enough that the smallest p-value, 1/(B + 1), can still fail after the correction.</summary>
     public int PermutationsFor(int familySize, double falseAlarm) =>
         Permutations > 0 ? Permutations : (int)Math.Clamp(Math.Ceiling(2 * familySize / falseAlarm), 199, 10_000);

@@ -3,7 +3,10 @@ using YamlDotNet.RepresentationModel;
 
 namespace GateTasks.Engine.Contracts;
 
-/// <summary>Reads the <c>joint</c> block: two or more features tested together by the energy test, its subsample size and permutations.</summary>
+/// <summary>
+/// Reads the <c>joint</c> block: two or more features checked together by <c>frechet-max</c>, <c>kernel-distance-max</c>
+/// (tolerances) and the energy test (with its subsample size and permutations), at least one of the three.
+/// </summary>
 internal static class JointSpecReader
 {
     public static JointSpec Read(YamlNodeReader r, YamlNode node, IReadOnlyList<FeatureSpec> features)
@@ -19,9 +22,22 @@ internal static class JointSpecReader
         }).ToList();
         if (list.Count < 2 || list.Distinct().Count() != list.Count)
             throw r.Error(ErrorCodes.ContractBadValue, mapping, "The joint check needs at least two different features.");
-        var testNode = r.Require(mapping, ContractKeys.EnergyTest, "The joint check");
-        if (!YamlNodeReader.IsScalar(testNode, ContractKeys.On))
-            throw r.Error(ErrorCodes.ContractBadValue, testNode, "energy-test takes 'on' (leave the joint block out to switch it off).");
+        var frechet = Tolerance(r, e, ContractKeys.FrechetMax, CheckKind.FrechetDistance);
+        var kernel = Tolerance(r, e, ContractKeys.KernelDistanceMax, CheckKind.KernelDistance);
+        if (kernel is not null && list.Count > JointSpec.MaxKernelFeatures)
+            throw r.Error(ErrorCodes.ContractBadValue, e[ContractKeys.KernelDistanceMax],
+                $"{ContractKeys.KernelDistanceMax} takes at most {JointSpec.MaxKernelFeatures} joint features (its streamed sums grow as the cube of their number), the block has {list.Count}; " +
+                $"drop features or use {ContractKeys.FrechetMax}.");
+        GoodnessOfFitTest? test = null;
+        if (e.TryGetValue(ContractKeys.EnergyTest, out var testNode))
+        {
+            if (!YamlNodeReader.IsScalar(testNode, ContractKeys.On))
+                throw r.Error(ErrorCodes.ContractBadValue, testNode, "energy-test takes 'on' (leave the key out to switch it off).");
+            test = new GoodnessOfFitTest(CheckKind.EnergyTest, r.At(testNode));
+        }
+        if (test is null && frechet is null && kernel is null)
+            throw r.Error(ErrorCodes.ContractMissingKey, mapping,
+                $"The joint check needs {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax}, {ContractKeys.EnergyTest} or several.");
         var subsample = JointSpec.DefaultSubsample;
         if (e.TryGetValue(ContractKeys.Subsample, out var sn))
         {
@@ -36,6 +52,15 @@ internal static class JointSpecReader
             if (permutations < 99 || permutations > 10_000)
                 throw r.Error(ErrorCodes.ContractBadValue, pn, $"joint.permutations must be between 99 and 10000, got {permutations}.");
         }
-        return new JointSpec(list, subsample, permutations, new GoodnessOfFitTest(CheckKind.EnergyTest, r.At(testNode)), r.At(node));
+        return new JointSpec(list, subsample, permutations, test, r.At(node)) { Frechet = frechet, KernelDistance = kernel };
+    }
+
+    /// <summary>A tolerance of the block: a positive, finite number (the distances are non-negative; 0 could never pass).</summary>
+    private static ToleranceCheck? Tolerance(YamlNodeReader r, Dictionary<string, YamlNode> entries, string key, CheckKind kind)
+    {
+        if (!entries.TryGetValue(key, out var v)) return null;
+        var t = r.Number(v, $"joint.{key}");
+        if (!(t > 0 && double.IsFinite(t))) throw r.Error(ErrorCodes.ContractBadValue, v, $"joint.{key} must be positive, got {t}.");
+        return new ToleranceCheck(kind, t, r.At(v));
     }
 }

@@ -147,6 +147,10 @@ public static class ErrorCodes
     /// it within a tolerance, so the run is UNDECIDED (an error with <c>decision.inconclusive: fail</c>, else a warning).
     /// </summary>
     public const string SubjectWithoutTolerance = "GATE3021";
+    /// <summary>The Fréchet distance of the joint feature set shown above its tolerance (<c>frechet-max</c>).</summary>
+    public const string DriftFrechet = "GATE3022";
+    /// <summary>The unbiased kernel distance of the joint feature set shown above its tolerance (<c>kernel-distance-max</c>).</summary>
+    public const string DriftKernelDistance = "GATE3023";
     /// <summary>The contract has no acceptance ledger (a warning, an error with <c>acceptance.required: on</c>).</summary>
     public const string LedgerMissing = "GATE4001";
     /// <summary>An accepted entry of the ledger was edited, removed or reordered.</summary>

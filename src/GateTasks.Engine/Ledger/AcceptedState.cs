@@ -40,7 +40,8 @@ internal sealed record AcceptedState(
             foreach (var c in f.Checks) Add(f.Name, c);
         foreach (var p in contract.Pairs)
             foreach (var c in p.Checks) Add(p.Name, c);
-        if (contract.Joint is { } j) Add(j.Name, j.Test);
+        if (contract.Joint is { } j)
+            foreach (var c in j.Checks) Add(j.Name, c);
         return new AcceptedState(decision, contract.Selection?.Text, definitions, limits);
     }
 

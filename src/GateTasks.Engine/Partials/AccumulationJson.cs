@@ -56,6 +56,15 @@ internal static class AccumulationJson
             WriteJointWeights(w, joint);
             w.WriteEndObject();
         }
+        if (state.JointMoments is { } moments)
+        {
+            w.WriteStartObject("joint_moments");
+            w.WriteNumber("rows", moments.Rows);
+            w.WriteNumber("skipped", moments.Skipped);
+            if (moments.Moments is { } m) PartialNumbers.WriteArray(w, "moments", m);
+            if (moments.Kernel is { } k) PartialNumbers.WriteJagged(w, "kernel_sums", k);
+            w.WriteEndObject();
+        }
         w.WriteEndObject();
     }
 
@@ -79,8 +88,13 @@ internal static class AccumulationJson
         var joint = e.TryGetProperty("joint", out var j)
             ? new JointState(j.GetProperty("seen").GetInt64(), PartialNumbers.ReadJagged(j.GetProperty("rows")), ReadJointWeights(j))
             : null;
+        var moments = e.TryGetProperty("joint_moments", out var jm)
+            ? new JointMomentsState(jm.GetProperty("rows").GetInt64(), jm.GetProperty("skipped").GetInt64(),
+                jm.TryGetProperty("moments", out var m) ? PartialNumbers.ReadArray(m) : null,
+                jm.TryGetProperty("kernel_sums", out var k) ? PartialNumbers.ReadJagged(k) : null)
+            : null;
         return new AccumulationState(e.GetProperty("events").GetInt64(), e.GetProperty("negative_weight_events").GetInt64(),
-            PartialNumbers.ReadArray(e.GetProperty("sum_w")), PartialNumbers.ReadArray(e.GetProperty("sum_w2")), features, pairs, joint);
+            PartialNumbers.ReadArray(e.GetProperty("sum_w")), PartialNumbers.ReadArray(e.GetProperty("sum_w2")), features, pairs, joint, moments);
     }
 
     /// <summary>A feature's fine-grid cells (kept for a Wasserstein check) and its four tail moments, as exact terms.</summary>

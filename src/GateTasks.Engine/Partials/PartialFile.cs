@@ -17,7 +17,7 @@ namespace GateTasks.Engine.Partials;
 /// with every exact sum as its terms.
 /// </summary>
 /// <remarks>
-/// The seal is the SHA-256 of <c>gatetasks.partial\n6\n</c> followed by the content object written compactly (as
+/// The seal is the SHA-256 of <c>gatetasks.partial\n7\n</c> followed by the content object written compactly (as
 /// System.Text.Json writes a parsed element: no white space outside strings). It catches a damaged file or a
 /// number edited by hand; it is not a signature (anyone can compute it again), which is why the content is also
 /// checked for consistency on reading.
@@ -25,7 +25,7 @@ namespace GateTasks.Engine.Partials;
 internal static class PartialFile
 {
     public const string Format = "gatetasks.partial";
-    public const int Version = 6; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights; 6: correlation moments kept per sign of weight
+    public const int Version = 7; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights; 6: correlation moments kept per sign of weight; 7: the joint block's streamed moments and kernel sums
 
     /// <summary>A sample file counted in a partial: its path where it was filled (for messages) and the XXH128 of its bytes (its identity).</summary>
     internal sealed record CountedFile(string Path, string Xxh128);
@@ -35,7 +35,8 @@ internal static class PartialFile
 
     /// <summary>
     /// SHA-256 of everything that decides what a check gathers: each feature's name and definition, whether its far tails
-    /// are counted and whether its fine grid is, the pairs and whether their 2-D cells are, the joint set and its subsample size.
+    /// are counted and whether its fine grid is, the pairs and whether their 2-D cells are, the joint set, its subsample size (with
+    /// an energy test) and whether its moments and kernel sums are streamed.
     /// </summary>
     public static string Fingerprint(PrecisionContract contract)
     {
@@ -45,7 +46,9 @@ internal static class PartialFile
              .Append(f.Checks.Any(c => c.Kind == CheckKind.FarTail) ? "|far-tail" : "")
              .Append(f.NeedsFineGrid ? "|fine-grid" : "").Append('\n');
         foreach (var p in contract.Pairs) b.Append("pair ").Append(p.Name).Append(p.Chi2 is null ? "" : "|2d").Append('\n');
-        if (contract.Joint is { } j) b.Append("joint ").Append(j.Name).Append('|').Append(j.Subsample).Append('\n');
+        if (contract.Joint is { } j)
+            b.Append("joint ").Append(j.Name).Append('|').Append(j.Test is null ? "" : "energy:" + j.Subsample)
+             .Append(j.Frechet is null ? "" : "|moments").Append(j.KernelDistance is null ? "" : "|kernel-sums").Append('\n');
         b.Append("selection ").Append(contract.Selection?.Text ?? "").Append('\n');
         b.Append("weight ").Append(contract.Sample.Weight ?? "").Append('\n');
         return Convert.ToHexString(SHA256.HashData(Encoding.UTF8.GetBytes(b.ToString()))).ToLowerInvariant();
@@ -142,7 +145,7 @@ internal static class PartialFile
                 var version = root.GetProperty("version").GetInt32();
                 if (version != Version)
                     throw new GateInputException(ErrorCodes.PartialUnreadable,
-                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights, and correlation moments kept per sign of weight); fill it again.", at);
+                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights, correlation moments kept per sign of weight, and the joint block's streamed moments and kernel sums); fill it again.", at);
                 var content = root.GetProperty("content");
                 var stated = root.GetProperty("seal_sha256").GetString();
                 var seal = Seal(content);
@@ -155,7 +158,7 @@ internal static class PartialFile
                 if (content.GetProperty("contract_fingerprint").GetString() != Fingerprint(setup.Contract))
                     throw new GateInputException(ErrorCodes.PartialMismatch,
                         "Filled for a contract that gathers other things (features, binning, selection, pairs or joint set differ); fill it again with this contract.", at);
-                var accumulation = new SampleAccumulation(setup.Contract, setup.Layouts);
+                var accumulation = new SampleAccumulation(setup.Contract, setup.Layouts, setup.JointStandardisation);
                 if (accumulation.SetState(AccumulationJson.Read(content.GetProperty("accumulation"))) is { } misfit)
                     throw new GateInputException(ErrorCodes.PartialMismatch, $"The partial does not fit this contract: {misfit}.", at);
                 if (AccumulationConsistency.Find(setup.Contract, accumulation.Finish()) is { } contradiction)

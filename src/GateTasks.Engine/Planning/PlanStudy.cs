@@ -125,7 +125,9 @@ internal static class PlanStudy
         // Goodness-of-fit tests are read beside the verdict, never decide it: nothing to plan a size for.
         var notPlanned = features.SelectMany(f => f.Spec.Checks.OfType<GoodnessOfFitTest>().Select(t => $"{t.Label} of {f.Subject.Name}"))
             .Concat(contract.Pairs.Where(p => p.Chi2 is not null).Select(p => $"{p.Chi2!.Label} of {p.Name}")).ToList();
-        if (contract.Joint is { } joint) notPlanned.Add($"{joint.Test.Label} of {string.Join(", ", joint.Features)}");
+        // The joint block's checks are not replicated by the plan (its replicas draw each feature or pair on its own).
+        if (contract.Joint is { } joint)
+            notPlanned.AddRange(joint.Checks.Select(c => $"{c.Label} of {string.Join(", ", joint.Features)}"));
         var rows = planned.SelectMany(p => p).Where(c => c.Check is not GoodnessOfFitTest).Concat(plannedPairs.SelectMany(p => p)).ToList();
         return new SampleSizePlan(rows, contractStep is { } c ? EventsAt(c) : null, contractRate,
             Math.Sqrt(contractRate * (1 - contractRate) / replicas), nDetect, target, power, replicas,

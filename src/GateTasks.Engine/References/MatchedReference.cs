@@ -16,6 +16,9 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
     /// <summary>Per feature, what a sample's accumulation takes from the reference.</summary>
     public IReadOnlyList<FeatureLayout> Layouts => Features.Select(f => f.Layout).ToList();
 
+    /// <summary>The standardisation of the joint block's streamed checks (the reference's), or null without them.</summary>
+    public JointStandardisation? JointStandardisation => Contract.Joint is { Streams: true } ? Reference.JointMoments?.Standardisation : null;
+
     /// <summary>Reads the contract's reference and matches every feature to it.</summary>
     public static MatchedReference Load(PrecisionContract contract)
     {
@@ -26,7 +29,26 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
         var references = contract.Features.Select(f => Match(reference, f, referencePath)).ToList();
         // Again at check: a reference built before this rule, or a contract's regions changed since, is caught here.
         for (var i = 0; i < references.Count; i++) BinCoverage.Verify(contract.Features[i], references[i]);
+        if (contract.Joint is { Streams: true } joint) VerifyJointMoments(joint, reference, referencePath);
         return new MatchedReference(contract, reference, referencePath, FileDigest.Sha256(referencePath), references);
+    }
+
+    /// <summary>
+    /// The joint block's streamed checks read the reference's moments and kernel sums of the same features: a reference
+    /// built for another joint set, or without the part a check reads, is refused (GATE3001) with the command that
+    /// rebuilds it.
+    /// </summary>
+    private static void VerifyJointMoments(JointSpec joint, ReferenceHistograms reference, string referencePath)
+    {
+        var stored = reference.JointMoments;
+        var missing = stored is null || !stored.Features.SequenceEqual(joint.Features) ? $"no streamed moments of {joint.Name}"
+            : joint.Frechet is not null && stored.State.Moments is null ? $"no covariance moments of {joint.Name}, which its {ContractKeys.FrechetMax} check reads"
+            : joint.KernelDistance is not null && stored.State.Kernel is null ? $"no kernel sums of {joint.Name}, which its {ContractKeys.KernelDistanceMax} check reads"
+            : null;
+        if (missing is not null)
+            throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                $"The reference {Path.GetFileName(referencePath)} holds {missing} (it was built for another joint block); rebuild it with 'gatetasks reference build'.",
+                joint.Location);
     }
 
     private static ReferenceFeature Match(ReferenceHistograms reference, FeatureSpec feature, string referencePath)

@@ -45,10 +45,17 @@ internal static class ReferenceBuilder
         // Pass 1: ranges and moments.
         var stats = features.Select(_ => new FeatureStatistics()).ToArray();
         var jointIndex = contract.Joint?.Features.Select(name => features.ToList().FindIndex(f => f.Name == name)).ToArray();
-        var joint = contract.Joint is { } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
+        var joint = contract.Joint is { Test: not null } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
+        // The streamed joint checks standardise by the reference's own means and spreads over its joint rows: found in
+        // this pass (raw units), applied in the next.
+        var jointScale = contract.Joint is { Streams: true } ? new JointMoments(jointIndex!, JointStandardisation.Identity(jointIndex!.Length), true, false) : null;
         // Each pass puts the declared spikes apart; the first one's tallies are the reference's.
         var spikes = new SpikeSeparation(features);
-        var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)), view => joint?.Add(view), pass);
+        var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)), view =>
+        {
+            joint?.Add(view);
+            jointScale?.Add(view);
+        }, pass);
         if (totals.Events == 0 && contract.Selection is { } selection && sample.RowsRead > 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
                 $"The selection '{selection.Text}' keeps none of the {InvariantNumber.Count(sample.RowsRead)} events of the reference sample " +
@@ -88,7 +95,11 @@ internal static class ReferenceBuilder
                     features[i].Location);
         }
 
-        // Pass 2: fine quantile grids and directly binned histograms.
+        var jointStandardisation = jointScale is null ? null : JointScale(contract.Joint!, jointScale);
+        var jointMoments = jointStandardisation is null ? null
+            : new JointMoments(jointIndex!, jointStandardisation, contract.Joint!.Frechet is not null, contract.Joint.KernelDistance is not null);
+
+        // Pass 2: fine quantile grids and directly binned histograms (and the joint block's streamed moments).
         var grids = new QuantileGrid?[n];
         var direct = new Histogram?[n];
         for (var i = 0; i < n; i++)
@@ -107,7 +118,7 @@ internal static class ReferenceBuilder
         {
             grids[i]?.Fine.Fill(values, weights);
             direct[i]?.Fill(values, weights);
-        }), settings: pass.For("reference pass 2 (quantile grids)"));
+        }), view => jointMoments?.Add(view), pass.For("reference pass 2 (quantile grids)"));
 
         var result = new List<ReferenceFeature>();
         for (var i = 0; i < n; i++)
@@ -165,7 +176,27 @@ internal static class ReferenceBuilder
         var inputs = files.Select(p => new ReferenceInput(Path.GetFileName(p), new FileInfo(p).Length, FileDigest.Sha256(p))).ToList();
         return new ReferenceHistograms(ReferenceFile.FormatVersion, DateTimeOffset.UtcNow, toolVersion, inputs,
             weightColumn, totals.Events, totals.SumW, totals.SumW2, result, correlations,
-            joint is null ? null : new ReferenceJointSample(contract.Joint!.Features, joint.Rows, joint.Weights));
+            joint is null ? null : new ReferenceJointSample(contract.Joint!.Features, joint.Rows, joint.Weights),
+            jointMoments is null ? null : new ReferenceJointMoments(contract.Joint!.Features, jointStandardisation!, jointMoments.State()));
+    }
+
+    /// <summary>
+    /// The joint features' weighted means and standard deviations over the reference rows where all are finite; a
+    /// spread that is not positive (a feature constant over those rows, or weights that cancel) is refused (GATE2009),
+    /// since the standardised distances would divide by it.
+    /// </summary>
+    private static JointStandardisation JointScale(JointSpec spec, JointMoments raw)
+    {
+        if (raw.Rows < 2)
+            throw new GateInputException(ErrorCodes.ReferenceNoSpread,
+                $"The reference sample has {raw.Rows} event{(raw.Rows == 1 ? "" : "s")} with every feature of {spec.Name} finite; its joint checks need rows to compare.", spec.Location);
+        var (means, sds) = raw.MeanAndSpread();
+        for (var k = 0; k < sds.Length; k++)
+            if (!(sds[k] > 0) || !double.IsFinite(sds[k]) || !double.IsFinite(means[k]))
+                throw new GateInputException(ErrorCodes.ReferenceNoSpread,
+                    $"Feature '{spec.Features[k]}' of {spec.Name} has no positive spread over the reference's {InvariantNumber.Count(raw.Rows)} joint rows " +
+                    $"(weighted standard deviation {InvariantNumber.Short(sds[k])}): the joint checks standardise by it. Drop it from the joint set.", spec.Location);
+        return new JointStandardisation(means, sds);
     }
 
     /// <summary>

@@ -17,12 +17,12 @@ namespace GateTasks.Engine.References;
 /// <c>gatetasks.reference</c> holds a JSON header with provenance, per-feature statistics and the SHA-256 of the
 /// whole content (<see cref="ReferenceDigest"/>), verified on every read. Version 1 had no digest, version 2 no
 /// fourth-moment variance of its correlations, version 3 neither a fine grid for a Wasserstein check nor event weights of its joint subsample, version 4 (never
-/// released) no event weights of its joint subsample; each is refused with
-/// the command that rebuilds it.
+/// released) no event weights of its joint subsample, version 5 no streamed moments or kernel sums of its joint block;
+/// each is refused with the command that rebuilds it.
 /// </summary>
 internal static class ReferenceFile
 {
-    public const int FormatVersion = 5; // 5: the joint subsample's rows carry their event weights (JointWeightsEntry)
+    public const int FormatVersion = 6; // 6: the joint block's streamed moments and kernel sums (JointMomentsEntry)
     public const string MetadataKey = "gatetasks.reference";
     public const string FormatKey = "gatetasks.reference.format";
 
@@ -123,6 +123,9 @@ internal static class ReferenceFile
                 throw Unreadable(path, "it is in reference format 2, which stores no large-sample variance of its correlations (fourth moments), so a Pearson or Spearman check would rest on the normal-law error; " +
                     $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             RefuseWithoutJointWeights(path, fmt);
+            if (fmt == "5")
+                throw Unreadable(path, "it is in reference format 5, which stores no streamed moments or kernel sums of its joint block, so frechet-max and kernel-distance-max could not be checked; " +
+                    $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt != FormatVersion.ToString(CultureInfo.InvariantCulture))
                 throw Unreadable(path, $"reference format version {fmt} is not supported; this GateTasks reads version {FormatVersion}");
             var header = JsonNode.Parse(json)!.AsObject();
@@ -249,6 +252,7 @@ internal static class ReferenceFile
                     [JointWeightsKey] = JointWeightsEntry(j),
                 }
                 : null,
+            [JointMomentsKey] = r.JointMoments is { } jm ? JointMomentsEntry(jm) : null,
             ["correlations"] = new JsonArray((r.Correlations ?? []).Select(c => (JsonNode)new JsonObject
             {
                 ["first"] = c.First, ["second"] = c.Second, ["pearson"] = c.Pearson, ["spearman"] = c.Spearman, ["effective_count"] = c.EffectiveCount,
@@ -314,7 +318,45 @@ internal static class ReferenceFile
                 : [],
             Joint: h["joint"] is JsonObject joint
                 ? ReadJointSample(joint)
-                : null);
+                : null,
+            JointMoments: h[JointMomentsKey] is JsonObject moments ? ReadJointMoments(moments) : null);
+    }
+
+    private const string JointMomentsKey = "joint_moments";
+
+    private static JsonArray Numbers(IEnumerable<double> values) => new(values.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray());
+
+    /// <summary>
+    /// The joint block's streamed state (format 6 on): its features, the standardisation (means, standard deviations),
+    /// rows taken in and skipped, the blocked moments and each block's kernel sums (null when not gathered).
+    /// </summary>
+    private static JsonObject JointMomentsEntry(ReferenceJointMoments m) => new()
+    {
+        ["features"] = new JsonArray(m.Features.Select(f => (JsonNode)JsonValue.Create(f)!).ToArray()),
+        ["means"] = Numbers(m.Standardisation.Means),
+        ["standard_deviations"] = Numbers(m.Standardisation.StandardDeviations),
+        ["blocks"] = JointMoments.Blocks,
+        ["rows"] = m.State.Rows,
+        ["skipped"] = m.State.Skipped,
+        ["moments"] = m.State.Moments is { } s ? Numbers(s) : null,
+        ["kernel_sums"] = m.State.Kernel is { } k ? new JsonArray(k.Select(b => (JsonNode)Numbers(b)).ToArray()) : null,
+    };
+
+    /// <summary>Reads what <see cref="JointMomentsEntry"/> wrote; numbers that do not fit the features are damage.</summary>
+    private static ReferenceJointMoments ReadJointMoments(JsonObject m)
+    {
+        static double[] Read(JsonNode? n) => n!.AsArray().Select(v => (double)v!).ToArray();
+        var features = m["features"]!.AsArray().Select(f => (string)f!).ToList();
+        var means = Read(m["means"]);
+        var sds = Read(m["standard_deviations"]);
+        if (means.Length != features.Count || sds.Length != features.Count || (int)m["blocks"]! != JointMoments.Blocks)
+            throw new FormatException($"the joint moments' standardisation or blocks do not fit its {features.Count} features");
+        var state = new JointMomentsState((long)m["rows"]!, (long)m["skipped"]!,
+            m["moments"] is JsonArray s ? Read(s) : null,
+            m["kernel_sums"] is JsonArray k ? k.Select(b => (IReadOnlyList<double>)Read(b)).ToList() : null);
+        // Restored once here so that damage is found on reading, not when a check runs.
+        AccumulatedJointMoments.From(features.Count, state);
+        return new ReferenceJointMoments(features, new JointStandardisation(means, sds), state);
     }
 
     private const string JointWeightsKey = "weights";

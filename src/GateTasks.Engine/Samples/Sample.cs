@@ -65,6 +65,12 @@ internal sealed class Sample
     /// <summary>The file the current batch comes from, while <see cref="ReadBatches"/> is being enumerated.</summary>
     public string? CurrentFile { get; private set; }
 
+    /// <summary>
+    /// The index within its file of the first row of the batch last read (0-based): with the row's place in the batch,
+    /// a row's place in its file, the same whether the file is read alone (a shard) or among others.
+    /// </summary>
+    public long BatchFirstRowInFile { get; private set; }
+
     /// <summary>Batches read by the last (or current) <see cref="ReadBatches"/> enumeration.</summary>
     public int BatchesRead { get; private set; }
 
@@ -131,8 +137,11 @@ internal sealed class Sample
             CurrentFile = file;
             using var reopened = _readers[i] is null ? SampleReaderFactory.Open(file) : null;
             var reader = _readers[i] ?? reopened!;
+            long inFile = 0;
             foreach (var batch in reader.ReadBatches(columns, pass.Parallelism))
             {
+                BatchFirstRowInFile = inFile;
+                inFile += batch.RowCount;
                 RowsRead += batch.RowCount;
                 BatchesRead++;
                 yield return batch;

@@ -42,6 +42,7 @@ internal sealed class SampleStream
     private readonly int[] _ownRows;
     private double[] _weights = [];
     private double[] _mask = [];
+    private long[] _fileRows = [];
     private FeatureView _frame;
 
     private long _events, _read;
@@ -69,7 +70,7 @@ internal sealed class SampleStream
         _ownValues = new double[]?[_n];
         _ownWeights = new double[]?[_n];
         _ownRows = new int[_n];
-        _frame = new FeatureView(_view, _weights, weightColumn is not null);
+        _frame = new FeatureView(_view, _weights, weightColumn is not null, _fileRows);
     }
 
     /// <summary>Every column the pass reads: the features', the expressions', the selection's and the weight.</summary>
@@ -108,12 +109,13 @@ internal sealed class SampleStream
         if (_mask.Length >= rows) return;
         _mask = new double[rows];
         _weights = new double[rows];
+        _fileRows = new long[rows];
         for (var i = 0; i < _n; i++)
         {
             _derived[i] = _inputs.Expressions[i] is null ? [] : new double[rows];
             _selected[i] = _inputs.Selection is null ? [] : new double[rows];
         }
-        _frame = new FeatureView(_view, _weights, _weightColumn is not null);
+        _frame = new FeatureView(_view, _weights, _weightColumn is not null, _fileRows);
     }
 
     private void CheckWeights(SampleBatch batch)
@@ -185,6 +187,7 @@ internal sealed class SampleStream
     {
         var rows = batch.RowCount;
         var kept = rows;
+        var first = _sample.BatchFirstRowInFile;
         if (_inputs.Selection is not null)
         {
             kept = 0;
@@ -193,10 +196,13 @@ internal sealed class SampleStream
                 if (!Passes(_mask[r])) continue;
                 for (var i = 0; i < _n; i++) _selected[i][kept] = _view[i][r];
                 _weights[kept] = _weightIndex >= 0 ? _weights[r] : 1;
+                _fileRows[kept] = first + r;
                 kept++;
             }
             for (var i = 0; i < _n; i++) _view[i] = _selected[i];
         }
+        else
+            for (var r = 0; r < rows; r++) _fileRows[r] = first + r;
         _frame.Rows = kept;
     }
 

@@ -1,0 +1,81 @@
+using GateTasks.Engine.Accumulation;
+using GateTasks.Engine.Samples;
+using GateTasks.Engine.Statistics;
+
+namespace GateTasks.Engine.Tests.Accumulation;
+
+/// <summary>
+/// The joint block's streamed accumulation: rows with a non-finite joint feature are left out and counted, a row's
+/// block is its place in its file, and batches or halves merged give one pass's numbers. The program compared with
+/// itself and with sums written out by hand here.
+/// </summary>
+public class JointMomentsTests
+{
+    private static FeatureView View(double[][] columns, double[] weights, long[] fileRows)
+    {
+        var view = new FeatureView(columns, weights, weighted: true, fileRows) { Rows = fileRows.Length };
+        return view;
+    }
+
+    [Fact]
+    public void Rows_with_a_non_finite_joint_feature_are_skipped_and_counted()
+    {
+        // Joint features are columns 0 and 2; column 1 (not joint) may hold anything.
+        double[] a = [1, double.NaN, 3, 4, double.PositiveInfinity, 6];
+        double[] other = [double.NaN, 0, 0, 0, 0, 0];
+        double[] c = [2, 2, double.NaN, 5, 1, 7];
+        double[] w = [1, 1, 1, 2, 1, 0.5];
+        var joint = new JointMoments([0, 2], JointStandardisation.Identity(2), moments: true, kernel: true);
+        joint.Add(View([a, other, c], w, [0, 1, 2, 3, 4, 5]));
+        Assert.Equal((3L, 3L), (joint.Rows, joint.Skipped));
+        // Kept: rows 0 (block 0), 3 (block 3), 5 (block 5): the weighted mean of a is (1·1 + 2·4 + 0.5·6)/3.5 by hand.
+        var fit = joint.Moments!.Fit();
+        Assert.Equal(12.0 / 3.5, fit.Mean[0], 12);
+        Assert.Equal((1 * 2 + 2 * 5 + 0.5 * 7) / 3.5, fit.Mean[1], 12);
+        Assert.Equal(1, joint.Kernel![3].Count);
+        Assert.Equal(2.0, joint.Kernel[3].WeightSum);
+        Assert.Equal(0, joint.Kernel[1].Count);
+    }
+
+    [Fact]
+    public void A_rows_block_is_its_place_in_its_file_and_halves_merge_to_one_pass()
+    {
+        var rng = new Random(5);
+        const int n = 3000;
+        var x = Enumerable.Range(0, n).Select(_ => rng.NextDouble() * 4 - 1).ToArray();
+        var y = x.Select(v => 0.5 * v + rng.NextDouble()).ToArray();
+        var w = Enumerable.Range(0, n).Select(i => i % 17 == 0 ? -0.4 : 0.5 + rng.NextDouble()).ToArray();
+        var rows = Enumerable.Range(0, n).Select(i => (long)i).ToArray();
+        var scale = new JointStandardisation([0.4, 0.7], [1.2, 0.9]);
+
+        var whole = new JointMoments([0, 1], scale, true, true);
+        whole.Add(View([x, y], w, rows));
+        // The same rows as two batches of two "files" filled apart and merged: the second file's rows start again at
+        // 0, so they are handed over with their places in their own file, as a shard's would be.
+        JointMoments Part(int from, int to, long firstRow)
+        {
+            var part = new JointMoments([0, 1], scale, true, true);
+            var middle = (from + to) / 2;
+            foreach (var (s, e) in new[] { (from, middle), (middle, to) })
+                part.Add(View([x[s..e], y[s..e]], w[s..e], Enumerable.Range(s, e - s).Select(i => i - from + firstRow).ToArray()));
+            return part;
+        }
+        var merged = Part(1600, n, 1600);
+        merged.Merge(Part(0, 1600, 0));
+        Assert.Equal(whole.Rows, merged.Rows);
+        var a = whole.State();
+        var b = merged.State();
+        for (var i = 0; i < a.Moments!.Count; i++)
+            Assert.True(Math.Abs(a.Moments[i] - b.Moments![i]) <= 1e-12 * Math.Max(1, Math.Abs(a.Moments[i])), $"moment {i}: {a.Moments[i]} vs {b.Moments[i]}");
+        for (var k = 0; k < JointMoments.Blocks; k++)
+            for (var i = 0; i < a.Kernel![k].Count; i++)
+                Assert.True(Math.Abs(a.Kernel[k][i] - b.Kernel![k][i]) <= 1e-12 * Math.Max(1, Math.Abs(a.Kernel[k][i])), $"kernel block {k} sum {i}");
+        // Block b holds the rows whose place is b mod 16: block 5's Σw written out.
+        var block5 = Enumerable.Range(0, n).Where(i => i % JointMoments.Blocks == 5).Sum(i => w[i]);
+        Assert.Equal(block5, whole.Kernel![5].WeightSum, 9);
+        // And the distance between the two is zero to rounding (the same rows on both sides).
+        var restored = AccumulatedJointMoments.From(2, b);
+        var estimate = FrechetExtrapolation.Of(whole.Moments!, restored.Moments!);
+        Assert.True(Math.Abs(estimate.Raw) < 1e-12, $"{estimate.Raw}");
+    }
+}

@@ -1,0 +1,33 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Reports;
+
+namespace GateTasks.Engine.Tests.Calibration;
+
+/// <summary>
+/// `calibrate` does not simulate the joint block's streamed tolerance checks: its table says so instead of counting
+/// them among the checks whose rates it reports (docs/cli.md).
+/// </summary>
+public class JointToleranceCalibrationTests
+{
+    [Fact]
+    public void The_streamed_joint_checks_are_listed_as_not_calibrated()
+    {
+        var contract = ContractLoader.Parse("""
+            contract-version: 1
+            sample: s.parquet
+            reference: r.parquet
+            features:
+              - name: x
+                checks: { ks-max: 0.05 }
+              - name: y
+                checks: { ks-max: 0.05 }
+            joint:
+              features: [x, y]
+              frechet-max: 0.02
+              kernel-distance-max: 0.01
+            """, "c.yaml");
+        var table = CalibrationTable.Format(contract, []);
+        Assert.Contains("2 checks (2 per feature, 0 on pairs, 0 joint)", table);
+        Assert.Contains("Not calibrated (no replica draws the joint law for them; the rates below leave them out): frechet-max of joint(x,y), kernel-distance-max of joint(x,y).", table);
+    }
+}

@@ -1,0 +1,96 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Diagnostics;
+using Json.Schema;
+
+namespace GateTasks.Engine.Tests.Contracts;
+
+/// <summary>
+/// The joint block's tolerance keys, frechet-max and kernel-distance-max: read as tolerance checks of the block, and
+/// bad values refused with the documented code and place (docs/error-codes.md, GATE1004; docs/contract.md "Joint
+/// structure"). The schema agrees (JsonSchema.Net 7.4.0, JSON Schema draft 2020-12).
+/// </summary>
+public class JointToleranceKeyTests
+{
+    private static string Contract(string joint) => $$"""
+        contract-version: 1
+        sample: s.parquet
+        reference: r.parquet
+        features:
+          - name: x
+            checks: { ks-max: 0.05 }
+          - name: y
+            checks: { ks-max: 0.05 }
+        joint:
+          features: [x, y]
+        {{joint}}
+        """;
+
+    private static GateInputException Fails(string text) =>
+        Assert.Throws<GateInputException>(() => ContractLoader.Parse(text, "c.yaml"));
+
+    private static readonly JsonSchema Schema = JsonSchema.FromText(ContractSchema.Text);
+
+    private static bool Valid(string yaml) =>
+        Schema.Evaluate(YamlToJson.Convert(yaml), new EvaluationOptions { OutputFormat = OutputFormat.List }).IsValid;
+
+    [Fact]
+    public void Both_keys_are_tolerance_checks_of_the_block_and_the_energy_test_is_optional()
+    {
+        var c = ContractLoader.Parse(Contract("  frechet-max: 0.02\n  kernel-distance-max: 0.001"), "c.yaml");
+        var joint = c.Joint!;
+        Assert.Null(joint.Test);
+        Assert.Equal((CheckKind.FrechetDistance, 0.02, 11, 16), (joint.Frechet!.Kind, joint.Frechet.Tolerance, joint.Frechet.Location.Line, joint.Frechet.Location.Column));
+        Assert.Equal((CheckKind.KernelDistance, 0.001, 12), (joint.KernelDistance!.Kind, joint.KernelDistance.Tolerance, joint.KernelDistance.Location.Line));
+        Assert.True(joint.Streams);
+        Assert.Equal(["frechet-max", "kernel-distance-max"], joint.Checks.Select(k => k.Label));
+        Assert.All(joint.Checks, k => Assert.IsType<ToleranceCheck>(k));
+
+        var withTest = ContractLoader.Parse(Contract("  kernel-distance-max: 0.001\n  energy-test: on"), "c.yaml").Joint!;
+        Assert.Equal(["kernel-distance-max", "energy-test"], withTest.Checks.Select(k => k.Label));
+        Assert.False(ContractLoader.Parse(Contract("  energy-test: on"), "c.yaml").Joint!.Streams);
+        Assert.True(Valid(Contract("  frechet-max: 0.02\n  kernel-distance-max: 0.001")));
+    }
+
+    [Theory]
+    [InlineData("frechet-max: 0", "joint.frechet-max must be positive, got 0.", 16)]
+    [InlineData("frechet-max: -0.1", "joint.frechet-max must be positive", 16)]
+    [InlineData("kernel-distance-max: .nan", "joint.kernel-distance-max must be a finite number", 24)]
+    [InlineData("kernel-distance-max: small", "joint.kernel-distance-max must be a finite number, got 'small'", 24)]
+    public void Bad_tolerances_are_refused_where_they_stand(string line, string message, int column)
+    {
+        var e = Fails(Contract("  " + line));
+        Assert.Equal(ErrorCodes.ContractBadValue, e.Code);
+        Assert.Contains(message, e.Message);
+        Assert.Equal(new SourceLocation("c.yaml", 11, column), e.Location);
+        Assert.False(Valid(Contract("  " + line)));
+    }
+
+    [Fact]
+    public void A_block_with_no_check_is_refused_and_a_misspelt_key_is_named()
+    {
+        var none = Fails(Contract("  subsample: 500"));
+        Assert.Equal(ErrorCodes.ContractMissingKey, none.Code);
+        Assert.Contains("needs frechet-max, kernel-distance-max, energy-test or several", none.Message);
+        Assert.Equal(10, none.Location!.Line); // the block's mapping starts at its first key
+        Assert.False(Valid(Contract("  subsample: 500")));
+
+        var misspelt = Fails(Contract("  frechet-mx: 0.02"));
+        Assert.Equal(ErrorCodes.ContractUnknownKey, misspelt.Code);
+        Assert.Contains("frechet-max", misspelt.Message);
+        Assert.Equal(11, misspelt.Location!.Line);
+    }
+
+    [Fact]
+    public void The_kernel_distance_takes_at_most_32_features()
+    {
+        var names = Enumerable.Range(0, 33).Select(i => $"f{i}").ToList();
+        var text = "contract-version: 1\nsample: s.parquet\nreference: r.parquet\nfeatures:\n" +
+                   string.Concat(names.Select(n => $"  - name: {n}\n    checks: {{ ks-max: 0.05 }}\n")) +
+                   $"joint:\n  features: [{string.Join(", ", names)}]\n  kernel-distance-max: 0.01\n";
+        var e = Fails(text);
+        Assert.Equal(ErrorCodes.ContractBadValue, e.Code);
+        Assert.Contains("at most 32 joint features", e.Message);
+        // 33 features fit frechet-max.
+        Assert.NotNull(ContractLoader.Parse(text.Replace("kernel-distance-max", "frechet-max"), "c.yaml").Joint!.Frechet);
+    }
+}
