@@ -44,8 +44,8 @@ internal static class EnergyDistance
     {
         int d = RequireRows(x, nameof(x), -1);
         RequireRows(y, nameof(y), d);
-        RequireWeights(xWeights, x.Length, nameof(xWeights));
-        RequireWeights(yWeights, y.Length, nameof(yWeights));
+        KernelPreconditions.RequireRowWeights(xWeights, x.Length, nameof(xWeights));
+        KernelPreconditions.RequireRowWeights(yWeights, y.Length, nameof(yWeights));
         if (permutations < 1)
             throw new ArgumentOutOfRangeException(nameof(permutations), permutations, "At least one permutation is needed.");
         int n = x.Length, m = y.Length, total = n + m;
@@ -108,13 +108,6 @@ internal static class EnergyDistance
         }
     }
 
-    private static void RequireWeights(double[]? weights, int rows, string what)
-    {
-        if (weights is null) return;
-        if (weights.Length != rows)
-            throw new ArgumentException($"{what} has {weights.Length} weights for {rows} rows.", what);
-        KernelPreconditions.RequireFinite(weights, what);
-    }
 
     /// <summary>
     /// Rows with each feature shifted and scaled, (v − means[f]) / sds[f], so that no feature dominates the
@@ -217,16 +210,6 @@ internal static class EnergyDistance
         ArgumentNullException.ThrowIfNull(rows, what);
         if (rows.Length == 0)
             throw new GateInputException(ErrorCodes.SampleEmpty, $"{what} has no rows; the energy distance needs at least one.");
-        if (width < 0) width = rows[0]?.Length ?? 0;
-        if (width == 0)
-            throw new ArgumentException($"{what}[0] has no features.", what);
-        for (int i = 0; i < rows.Length; i++)
-        {
-            double[] row = rows[i] ?? throw new ArgumentException($"{what}[{i}] is null.", what);
-            if (row.Length != width)
-                throw new ArgumentException($"{what}[{i}] has {row.Length} features; expected {width}.", what);
-            KernelPreconditions.RequireFinite(row, $"{what}[{i}]");
-        }
-        return width;
+        return KernelPreconditions.RequireRowShape(rows, what, width);
     }
 }

@@ -61,4 +61,29 @@ internal static class KernelPreconditions
             throw new GateInputException(ErrorCodes.SampleEmpty, $"{what} is empty (total content 0).");
         return sum;
     }
+
+    /// <summary>Rows of one width (taken from the first row when <paramref name="width"/> is negative), none null, every value finite; returns the width.</summary>
+    internal static int RequireRowShape(double[][] rows, string what, int width)
+    {
+        if (width < 0) width = rows.Length > 0 ? rows[0]?.Length ?? 0 : 0;
+        if (width == 0)
+            throw new ArgumentException($"{what}[0] has no features.", what);
+        for (int i = 0; i < rows.Length; i++)
+        {
+            double[] row = rows[i] ?? throw new ArgumentException($"{what}[{i}] is null.", what);
+            if (row.Length != width)
+                throw new ArgumentException($"{what}[{i}] has {row.Length} features; expected {width}.", what);
+            RequireFinite(row, $"{what}[{i}]");
+        }
+        return width;
+    }
+
+    /// <summary>Optional row weights: one per row, finite.</summary>
+    internal static void RequireRowWeights(double[]? weights, int rows, string what)
+    {
+        if (weights is null) return;
+        if (weights.Length != rows)
+            throw new ArgumentException($"{what} has {weights.Length} weights for {rows} rows.", what);
+        RequireFinite(weights, what);
+    }
 }

@@ -73,8 +73,8 @@ internal static class UnbiasedKernelDistance
     {
         int d = RequireRows(x, nameof(x), -1);
         RequireRows(y, nameof(y), d);
-        RequireWeights(xWeights, x.Length, nameof(xWeights));
-        RequireWeights(yWeights, y.Length, nameof(yWeights));
+        KernelPreconditions.RequireRowWeights(xWeights, x.Length, nameof(xWeights));
+        KernelPreconditions.RequireRowWeights(yWeights, y.Length, nameof(yWeights));
         if (blocks < 2)
             throw new ArgumentOutOfRangeException(nameof(blocks), blocks, "At least two blocks are needed for a spread.");
         if (x.Length < 2 * blocks || y.Length < 2 * blocks)
@@ -161,8 +161,8 @@ internal static class UnbiasedKernelDistance
     {
         int d = RequireRows(x, nameof(x), -1);
         RequireRows(y, nameof(y), d);
-        RequireWeights(xWeights, x.Length, nameof(xWeights));
-        RequireWeights(yWeights, y.Length, nameof(yWeights));
+        KernelPreconditions.RequireRowWeights(xWeights, x.Length, nameof(xWeights));
+        KernelPreconditions.RequireRowWeights(yWeights, y.Length, nameof(yWeights));
         return Direct(x, xWeights, Enumerable.Range(0, x.Length).ToArray(), y, yWeights, Enumerable.Range(0, y.Length).ToArray());
     }
 
@@ -211,13 +211,6 @@ internal static class UnbiasedKernelDistance
                 what);
     }
 
-    private static void RequireWeights(double[]? weights, int rows, string what)
-    {
-        if (weights is null) return;
-        if (weights.Length != rows)
-            throw new ArgumentException($"{what} has {weights.Length} weights for {rows} rows.", what);
-        KernelPreconditions.RequireFinite(weights, what);
-    }
 
     /// <summary>Checks a row set (non-empty, same width, finite values); returns the width.</summary>
     private static int RequireRows(double[][] rows, string what, int width)
@@ -225,16 +218,6 @@ internal static class UnbiasedKernelDistance
         ArgumentNullException.ThrowIfNull(rows, what);
         if (rows.Length == 0)
             throw new ArgumentException($"{what} has no rows; the kernel distance needs at least two a block.", what);
-        if (width < 0) width = rows[0]?.Length ?? 0;
-        if (width == 0)
-            throw new ArgumentException($"{what}[0] has no features.", what);
-        for (int i = 0; i < rows.Length; i++)
-        {
-            double[] row = rows[i] ?? throw new ArgumentException($"{what}[{i}] is null.", what);
-            if (row.Length != width)
-                throw new ArgumentException($"{what}[{i}] has {row.Length} features; expected {width}.", what);
-            KernelPreconditions.RequireFinite(row, $"{what}[{i}]");
-        }
-        return width;
+        return KernelPreconditions.RequireRowShape(rows, what, width);
     }
 }
