@@ -24,7 +24,7 @@ public sealed class OutdatedCorrelationFilesTests : IDisposable
     {
         Directory.CreateDirectory(Path.Combine(_dir, ".git"));
         var contractPath = Path.Combine(_dir, "precision-contract.yaml");
-        File.WriteAllText(contractPath, DemoContract.Text.Replace("subsample: 1000", "subsample: 300"));
+        File.WriteAllText(contractPath, DemoContract.Text);
         var contract = ContractLoader.Load(contractPath);
         var fullsim = Path.Combine(_dir, "fullsim.parquet");
         DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 60_000, 11, 20_000);

@@ -20,7 +20,7 @@ public sealed class ShardCommandTests : IDisposable
     {
         Directory.CreateDirectory(_dir);
         var contractPath = Path.Combine(_dir, "precision-contract.yaml");
-        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: shard-*.parquet").Replace("subsample: 1000", "subsample: 300"));
+        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: shard-*.parquet"));
         var contract = ContractLoader.Load(contractPath);
         var fullsim = Path.Combine(_dir, "fullsim.parquet");
         DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 200_000, 11, 50_000);

@@ -27,7 +27,7 @@ public sealed class ShardIntegrityTests : IDisposable
     private string Setup(string samplePath, bool weighted = true)
     {
         var contractPath = Path.Combine(_dir, "precision-contract.yaml");
-        var text = DemoContract.Text.Replace("path: surrogate-faithful.parquet", $"path: \"{samplePath}\"").Replace("subsample: 1000", "subsample: 300");
+        var text = DemoContract.Text.Replace("path: surrogate-faithful.parquet", $"path: \"{samplePath}\"");
         File.WriteAllText(contractPath, weighted ? text : text.Replace("  weight: weight\n", ""));
         var contract = ContractLoader.Load(contractPath);
         var fullsim = Path.Combine(_dir, "fullsim.parquet");

@@ -23,11 +23,10 @@ public sealed class UnfinishedReportTests : IDisposable
     /// The demo's contract over a faithful sample of <paramref name="sampleEvents"/> events, with a reference from
     /// 200 000 others (seeds <paramref name="seed"/> and the next); the contract's path.
     /// </summary>
-    private string DemoSetup(int seed, int sampleEvents, int rowGroup, int subsample)
+    private string DemoSetup(int seed, int sampleEvents, int rowGroup)
     {
         var contractPath = Path.Combine(_dir, DemoContract.FileName);
-        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet")
-            .Replace("subsample: 1000", $"subsample: {subsample}"));
+        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet"));
         var contract = ContractLoader.Load(contractPath);
         var fullsim = Path.Combine(_dir, "fullsim.parquet");
         DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 200_000, seed, 50_000);
@@ -80,7 +79,7 @@ public sealed class UnfinishedReportTests : IDisposable
     public void Killing_a_check_mid_run_leaves_a_report_that_says_it_did_not_finish()
     {
         // A sample large enough that reading it takes seconds: the kill lands while the check reads.
-        var contractPath = DemoSetup(seed: 31, sampleEvents: 3_000_000, rowGroup: 100_000, subsample: 1000);
+        var contractPath = DemoSetup(seed: 31, sampleEvents: 3_000_000, rowGroup: 100_000);
         var junit = Path.Combine(_dir, "r.junit.xml");
         File.WriteAllText(junit, PassingJUnit);
 
@@ -111,7 +110,7 @@ public sealed class UnfinishedReportTests : IDisposable
     {
         // Two builds of one project (say, two target frameworks or two CI jobs on a shared folder) check at the same
         // time into the same report paths: each report is renamed into place whole, so the survivor parses.
-        var contractPath = DemoSetup(seed: 41, sampleEvents: 200_000, rowGroup: 50_000, subsample: 300);
+        var contractPath = DemoSetup(seed: 41, sampleEvents: 200_000, rowGroup: 50_000);
         var reports = Path.Combine(_dir, "reports");
         var runs = Enumerable.Range(0, 2).Select(_ => StartCheck(contractPath,
             "--junit", Path.Combine(reports, "gate.junit.xml"), "--html", Path.Combine(reports, "gate.html"), "--markdown", Path.Combine(reports, "gate.md"))).ToList();

@@ -15,7 +15,6 @@ internal sealed record AccumulatedSample(
     double SumW2,
     IReadOnlyList<AccumulatedFeature> Features,
     IReadOnlyList<AccumulatedPair> Pairs,
-    AccumulatedJoint? Joint,
     AccumulatedJointMoments? JointMoments = null);
 
 /// <summary>
@@ -35,9 +34,6 @@ internal sealed record AccumulatedPair(CorrelationSpec Spec, double Pearson, dou
 
 /// <summary>Σw and Σw² of a histogram's cells, each rounded once from its exact sum.</summary>
 internal sealed record CellSums(double[] SumW, double[] SumW2);
-
-/// <summary>The joint subsample, finished: rows offered (without NaN), the rows kept and their event weights.</summary>
-internal sealed record AccumulatedJoint(long Seen, IReadOnlyList<double[]> Rows, IReadOnlyList<double> Weights);
 
 /// <summary>The joint moments and kernel sums, finished (see <see cref="JointMoments"/>).</summary>
 internal sealed record AccumulatedJointMoments(long Rows, long Skipped, BlockedCovariance? Moments, IReadOnlyList<CubicKernelFeatureSums>? Kernel)

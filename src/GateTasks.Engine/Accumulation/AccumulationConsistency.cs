@@ -82,8 +82,6 @@ internal static class AccumulationConsistency
                 if (Cell(cells.SumW[c], cells.SumW2[c], unit, positive) is { } problem) return $"pair {pair.Spec.Name}, 2-D cell {c}: {problem}";
         }
 
-        if (a.Joint is { } joint && contract.Joint is { } spec && (joint.Seen < 0 || joint.Seen > a.Events || joint.Rows.Count > Math.Min(joint.Seen, spec.Subsample)))
-            return $"the joint subsample keeps {joint.Rows.Count} rows of {joint.Seen} seen (at most {spec.Subsample}), the event total is {a.Events}";
         if (a.JointMoments is { } moments && (moments.Rows + moments.Skipped != a.Events
                 || moments.Moments is { } m && m.Count > moments.Rows || moments.Kernel is { } k && k.Sum(s => s.Count) != moments.Rows))
             return $"the joint moments hold {moments.Rows} rows and {moments.Skipped} skipped, the event total is {a.Events}";

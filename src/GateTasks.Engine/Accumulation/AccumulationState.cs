@@ -14,7 +14,6 @@ internal sealed record AccumulationState(
     IReadOnlyList<double> SumW2,
     IReadOnlyList<FeatureState> Features,
     IReadOnlyList<PairState> Pairs,
-    JointState? Joint,
     JointMomentsState? JointMoments = null);
 
 /// <summary>
@@ -29,9 +28,6 @@ internal sealed record SpikeState(long Entries, IReadOnlyList<double> SumW, IRea
 
 /// <summary>A pair's state: the Pearson and Spearman accumulators' numbers, and the 2-D cells when its χ² is asked for.</summary>
 internal sealed record PairState(string Name, IReadOnlyList<double> Pearson, IReadOnlyList<double> Spearman, ExactCellsState? Cells);
-
-/// <summary>The joint subsample's state: rows offered so far, the rows kept and their event weights (one per row).</summary>
-internal sealed record JointState(long Seen, IReadOnlyList<IReadOnlyList<double>> Rows, IReadOnlyList<double> Weights);
 
 /// <summary>
 /// A <see cref="JointMoments"/> state as numbers: rows taken in and skipped, the <see cref="BlockedCovariance.State"/>

@@ -8,22 +8,18 @@ namespace GateTasks.Engine.Accumulation;
 /// <summary>
 /// Everything a check gathers from the surrogate sample, before any decision: per feature the histogram on the
 /// reference's binning, moments, spike and far-tail tallies; per declared pair the coefficients and 2-D cells; the
-/// joint subsample; the event totals. Accumulations of shards of one sample merge into that of the whole: histogram
-/// cells, tallies and totals exactly (they are exact sums), moments and coefficients to rounding (Chan, Golub &amp;
-/// LeVeque 1979), the joint subsample as a valid uniform subsample of the union (not the one a single pass keeps).
+/// joint block's streamed moments; the event totals. Accumulations of shards of one sample merge into that of the
+/// whole: histogram cells, tallies and totals exactly (they are exact sums), moments and coefficients to rounding
+/// (Chan, Golub &amp; LeVeque 1979).
 /// </summary>
 internal sealed class SampleAccumulation
 {
-    /// <summary>Seed of the sample's joint subsample.</summary>
-    private const int JointSeed = 7_654_321;
-
     private readonly Histogram[] _batch;
     private readonly ExactHistogram[] _histograms;
     private readonly FeatureStatistics[] _stats; // replaced when a state is set
     private readonly FarTailCounter?[] _farTail;
     private readonly FineGridCounter?[] _fine;
     private readonly SpikeSeparation _spikes;
-    private readonly JointSubsample? _joint;
     private readonly JointMoments? _jointMoments;
     private readonly IReadOnlyList<PairCorrelation> _pairs;
     private readonly ExactSum _sumW = new();
@@ -45,7 +41,6 @@ internal sealed class SampleAccumulation
         _fine = layouts.Select(l => l.FineEdges is { } e ? new FineGridCounter(e) : null).ToArray();
         _spikes = new SpikeSeparation(contract.Features);
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
-        _joint = contract.Joint is { Test: not null } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, JointSeed) : null;
         _jointMoments = contract.Joint is { Streams: true } jm
             ? new JointMoments(jm.Features.Select(f => index[f]).ToList(),
                 joint ?? throw new ArgumentException("The joint block's streamed checks need the reference's standardisation.", nameof(joint)),
@@ -80,7 +75,6 @@ internal sealed class SampleAccumulation
             foreach (var w in view.Weights)
                 if (w < 0) NegativeWeightEvents++;
             foreach (var p in _pairs) p.Add(view);
-            _joint?.Add(view);
             _jointMoments?.Add(view);
         }, pass);
         Events += totals.Events;
@@ -100,7 +94,6 @@ internal sealed class SampleAccumulation
             if (_spikes.Filters[i] is { } s) s.Merge(other._spikes.Filters[i]!);
         }
         for (var p = 0; p < _pairs.Count; p++) _pairs[p].Merge(other._pairs[p]);
-        _joint?.Merge(other._joint!);
         _jointMoments?.Merge(other._jointMoments!);
         Events += other.Events;
         NegativeWeightEvents += other.NegativeWeightEvents;
@@ -113,7 +106,6 @@ internal sealed class SampleAccumulation
         _histograms.Select((h, i) => new FeatureState(Contract.Features[i].Name, h.State(), _stats[i].State(),
             _spikes.Filters[i]?.State(), _farTail[i]?.State(), _fine[i]?.State())).ToList(),
         _pairs.Select(p => p.State()).ToList(),
-        _joint?.State(),
         _jointMoments?.State());
 
     /// <summary>
@@ -151,11 +143,6 @@ internal sealed class SampleAccumulation
         if (state.Pairs.Count != _pairs.Count) return $"{state.Pairs.Count} correlation pairs, the contract has {_pairs.Count}";
         for (var p = 0; p < _pairs.Count; p++)
             if (!_pairs[p].SetState(state.Pairs[p])) return $"correlation pair {_pairs[p].Spec.Name} does not fit";
-        if (_joint is not null)
-        {
-            if (state.Joint is not { } j) return "no joint subsample";
-            _joint.SetState(j);
-        }
         if (_jointMoments is not null)
         {
             if (state.JointMoments is not { } jm) return "no joint moments";
@@ -174,6 +161,5 @@ internal sealed class SampleAccumulation
         _histograms.Select((h, i) => new AccumulatedFeature(h.ToHistogram(), _stats[i].Summary(), _spikes.Filters[i]?.Tally, _farTail[i]?.Counts,
             _fine[i]?.Finish())).ToList(),
         _pairs.Select(p => p.Finish()).ToList(),
-        _joint is null ? null : new AccumulatedJoint(_joint.Seen, _joint.Rows, _joint.Weights),
         _jointMoments?.Finish());
 }

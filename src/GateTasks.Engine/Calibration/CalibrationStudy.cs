@@ -9,8 +9,9 @@ namespace GateTasks.Engine.Calibration;
 /// <summary>
 /// Measures a contract's decisions by simulation. Each replica draws, for every feature, a fresh reference (of the
 /// reference's effective size) and a surrogate sample of the given size from the reference histogram taken as the
-/// truth — distorted by a drift for one feature — and, for every declared pair and the joint block, both sides from
-/// their joint law (<see cref="PairReplica"/>, <see cref="JointReplica"/>); the surrogate's events may carry signed
+/// truth — distorted by a drift for one feature — and, for every declared pair, both sides from its joint law
+/// (<see cref="PairReplica"/>); the joint block's checks are not replicated (a reference keeps no rows to draw its law
+/// from; tests/studies/joint_power_study.py measures them). The surrogate's events may carry signed
 /// weights (<see cref="WeightLaw"/>). Every check is measured by its own code and the contract-wide decision
 /// (<see cref="VerdictRule"/>) taken over all of them. Null replicas give the false-alarm rate, which must not exceed
 /// the contract's level; drifted ones the detection rate. Seeds are fixed per replica, so results do not depend on
@@ -27,10 +28,8 @@ internal static class CalibrationStudy
         if (target is not null && features.All(f => f.Spec.Name != target))
             throw new GateInputException(ErrorCodes.Usage, $"No feature '{target}' in the contract to drift{NearestName.Hint(target, features.Select(f => f.Spec.Name))}.");
         var pairs = PairReplica.All(contract, reference, seed);
-        var joint = JointReplica.Of(contract, reference);
         var checks = features.SelectMany(f => f.Spec.Checks.Select(c => (f.Subject, Check: c)))
             .Concat(pairs.SelectMany(p => p.Spec.Checks.Select(c => (p.Subject, Check: c))))
-            .Concat(joint is null ? [] : [(joint.Subject, Check: (CheckSpec)joint.Spec.Test!)])
             .ToList();
 
         var drifts = features.Select(f => f.Spec.Name == target ? drift : Drift.Null).ToList();
@@ -54,7 +53,6 @@ internal static class CalibrationStudy
                 measured.AddRange(features[i].Spec.Checks.Select(check => (features[i].Subject, check, CheckEvaluator.Measure(comparison, check, contract.Decision))));
             }
             foreach (var pair in pairs) measured.AddRange(pair.Measure(events, law, contract.Decision, rng));
-            if (joint is not null) measured.Add(joint.Measure(events, checks.Count, contract.Decision, rng));
             var outcomes = VerdictRule.Decide(measured, contract.Decision);
             if (outcomes.Any(o => o.Verdict == Verdict.Fail)) local.Failed++;
             else if (outcomes.Any(o => o.Verdict == Verdict.Inconclusive)) local.Inconclusive++;

@@ -10,9 +10,8 @@ namespace GateTasks.Engine.Calibration;
 
 /// <summary>
 /// A declared pair as the calibration study sees it. Its truth for the correlation checks is a fixed set of points,
-/// each equally likely: the reference's stored joint subsample when both features are in it (the empirical law of
-/// real rows, heavy tails and all), else points of a <see cref="GaussianCopula"/> fitted to the reference's Spearman
-/// ρ with the reference histograms as marginals. A replica draws how many events fall on each point (a multinomial
+/// each equally likely: points of a <see cref="GaussianCopula"/> fitted to the reference's Spearman ρ with the
+/// reference histograms as marginals (a reference keeps no rows). A replica draws how many events fall on each point (a multinomial
 /// draw, so its cost does not grow with the events), and the real accumulator (<see cref="WeightedCorrelation"/>)
 /// takes each point once with its events' summed weight: the co-moments are linear in the weights, so they equal
 /// those of the events one by one; Σw² and the count are set to the events'. Ranks for Spearman's ρ come from the
@@ -38,7 +37,7 @@ internal sealed class PairReplica
         Source = source;
     }
 
-    /// <summary>Points of the copula when the pair is not in the joint subsample.</summary>
+    /// <summary>Points of the copula.</summary>
     public const int CopulaPoints = 4000;
 
     public CorrelationSpec Spec { get; }
@@ -61,11 +60,6 @@ internal sealed class PairReplica
             var cells = p.Chi2 is null ? null : stored.Cells2DSumW ?? throw new GateInputException(ErrorCodes.ReferenceMismatch,
                 $"The reference holds no 2-D histogram for {p.Name}; rebuild it with 'gatetasks reference build'.", p.Location);
             var events = (long)Math.Round(stored.EffectiveCount) is > 0 and var n ? n : referenceEvents;
-            var joint = reference.Joint;
-            var (a, b) = joint is null ? (-1, -1) : (IndexOf(joint.Features, p.First), IndexOf(joint.Features, p.Second));
-            if (a >= 0 && b >= 0 && joint!.Rows.Length >= 10)
-                return new PairReplica(p, joint.Rows.Select(r => r[a]).ToArray(), joint.Rows.Select(r => r[b]).ToArray(),
-                    new MarginalCdf(h1), new MarginalCdf(h2), cells, events, $"stored joint subsample ({joint.Rows.Length} rows)");
             var rng = new MathNet.Numerics.Random.Xoshiro256StarStar(unchecked(seed * 7919 + i), threadSafe: false);
             var (x, y) = GaussianCopula.Draw(h1, h2, stored.Spearman, CopulaPoints, rng);
             return new PairReplica(p, x, y, new MarginalCdf(h1), new MarginalCdf(h2), cells, events,
@@ -73,11 +67,6 @@ internal sealed class PairReplica
         }).ToList();
     }
 
-    private static int IndexOf(IReadOnlyList<string> names, string name)
-    {
-        for (var i = 0; i < names.Count; i++) if (names[i] == name) return i;
-        return -1;
-    }
 
     /// <summary>Draws one replica (a fresh reference and a surrogate of <paramref name="events"/> events) and measures every check of the pair.</summary>
     public IEnumerable<(CheckSubject, CheckSpec, Measurement)> Measure(long events, WeightLaw weights, DecisionSettings decision, Random rng)

@@ -65,7 +65,6 @@ internal static class CheckEvaluator
         CheckKind.Fraction => Diagnostics.ErrorCodes.DriftFraction,
         CheckKind.FarTail => Diagnostics.ErrorCodes.DriftFarTail,
         CheckKind.PearsonDifference or CheckKind.SpearmanDifference => Diagnostics.ErrorCodes.DriftCorrelation,
-        CheckKind.EnergyTest => Diagnostics.ErrorCodes.DriftJoint,
         CheckKind.FrechetDistance => Diagnostics.ErrorCodes.DriftFrechet,
         CheckKind.KernelDistance => Diagnostics.ErrorCodes.DriftKernelDistance,
         CheckKind.ChiSquare2DTest => Diagnostics.ErrorCodes.DriftChiSquare2D,

@@ -72,17 +72,6 @@ internal static class ContractEvaluation
             if (streamed.KernelDistance is { } kernel)
                 measured.Add((subject, kernel, KernelDistanceCheck.Evaluate(stored, gathered, kernel, contract.Decision, sample.Events)));
         }
-        if (contract.Joint is { Test: { } energyTest } jointSpec)
-        {
-            var stored = reference.Joint is { } rj && rj.Features.SequenceEqual(jointSpec.Features)
-                ? rj
-                : throw new GateInputException(ErrorCodes.ReferenceMismatch,
-                    $"The reference holds no subsample of {jointSpec.Name}; rebuild it with 'gatetasks reference build'.", jointSpec.Location);
-            var subject = new JointSubject(jointSpec);
-            // Its family is the contract's tests (the energy test among them), read apart from the tolerance checks.
-            var permutations = jointSpec.PermutationsFor(measured.Count(m => m.Item2 is GoodnessOfFitTest) + 1, contract.Decision.FalseAlarm);
-            measured.Add((subject, energyTest, JointCheck.Evaluate(stored.Rows.ToArray(), stored.Weights, sample.Joint!.Rows.ToArray(), sample.Joint.Weights.ToArray(), jointSpec, permutations)));
-        }
         // Two families: the tolerance checks decide the run; the goodness-of-fit tests are read apart, beside it.
         var tolerances = measured.Where(m => m.Item2 is not GoodnessOfFitTest).ToList();
         var tests = measured.Where(m => m.Item2 is GoodnessOfFitTest).Select(m => (m.Item1, (GoodnessOfFitTest)m.Item2, m.Item3)).ToList();

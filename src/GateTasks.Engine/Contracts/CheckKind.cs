@@ -49,9 +49,6 @@ internal enum CheckKind
     /// <summary>χ² homogeneity test of a declared pair's 2-D histograms (a goodness-of-fit test in the family).</summary>
     ChiSquare2DTest,
 
-    /// <summary>Energy-distance test over a declared feature set (a goodness-of-fit test in the family).</summary>
-    EnergyTest,
-
     /// <summary>Fréchet distance between Gaussian fits of the standardised joint feature set, extrapolated to infinite size.</summary>
     FrechetDistance,
     /// <summary>Unbiased squared maximum mean discrepancy of the standardised joint feature set, cubic polynomial kernel.</summary>

@@ -55,11 +55,10 @@ internal static class ContractKeys
     public const string Ratchet = "ratchet";
     public const string Correlations = "correlations";
     public const string Joint = "joint";
-    public const string EnergyTest = "energy-test";
     public const string FrechetMax = "frechet-max";
     public const string KernelDistanceMax = "kernel-distance-max";
-    public const string Subsample = "subsample";
-    public const string Permutations = "permutations";
+    /// <summary>Keys the joint block no longer takes: the energy test on a bounded subsample was retired.</summary>
+    public static readonly string[] RetiredJointKeys = ["energy-test", "subsample", "permutations"];
     public const string PairFeatures = "features";
     /// <summary>A correlation entry's <c>features: all</c>: every pair of the contract's features.</summary>
     public const string AllPairs = "all";
@@ -74,7 +73,7 @@ internal static class ContractKeys
     public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Acceptance, Defaults, Features, Correlations, Joint];
     public static readonly string[] AcceptanceKeys = [Ledger, Required, Tightening, Ratchet];
     public static readonly string[] TighteningPolicies = ["free", "record"];
-    public static readonly string[] JointKeys = [PairFeatures, EnergyTest, FrechetMax, KernelDistanceMax, Subsample, Permutations];
+    public static readonly string[] JointKeys = [PairFeatures, FrechetMax, KernelDistanceMax];
     public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax, Chi2Test2D];
     public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
@@ -130,7 +129,6 @@ internal static class ContractKeys
     {
         CheckKind.PearsonDifference => PearsonMax,
         CheckKind.SpearmanDifference => SpearmanMax,
-        CheckKind.EnergyTest => EnergyTest,
         CheckKind.FrechetDistance => FrechetMax,
         CheckKind.KernelDistance => KernelDistanceMax,
         CheckKind.ChiSquare2DTest => Chi2Test2D,
@@ -143,5 +141,5 @@ internal static class ContractKeys
     /// <summary>Goodness-of-fit tests: switched on or off, without a tolerance.</summary>
     public static bool IsTest(CheckKind kind) =>
         kind is CheckKind.ChiSquareTest or CheckKind.KolmogorovSmirnovTest or CheckKind.AndersonDarlingTest or CheckKind.CramerVonMisesTest
-            or CheckKind.EnergyTest or CheckKind.ChiSquare2DTest;
+            or CheckKind.ChiSquare2DTest;
 }

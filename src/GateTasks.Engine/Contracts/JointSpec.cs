@@ -7,14 +7,10 @@ namespace GateTasks.Engine.Contracts;
 /// passes. Two tolerance checks use every event (streamed, weighted, mergeable across shards), each on the features
 /// standardised by the reference's weighted means and standard deviations: <see cref="Frechet"/> bounds the Fréchet
 /// distance between Gaussian fits, extrapolated to infinite size; <see cref="KernelDistance"/> bounds the unbiased
-/// squared maximum mean discrepancy with the cubic polynomial kernel. <see cref="Test"/> is the energy-distance
-/// two-sample test (Székely &amp; Rizzo 2004) on bounded subsamples, an entry in the contract's family of tests read
-/// beside the verdict as a diagnostic. Each of the three is optional, at least one is stated.
+/// squared maximum mean discrepancy with the cubic polynomial kernel. Each is optional, at least one is stated.
 /// </summary>
-internal sealed record JointSpec(IReadOnlyList<string> Features, int Subsample, int Permutations, GoodnessOfFitTest? Test, SourceLocation Location)
+internal sealed record JointSpec(IReadOnlyList<string> Features, SourceLocation Location)
 {
-    public const int DefaultSubsample = 2000;
-
     /// <summary>The widest feature set <c>kernel-distance-max</c> takes: its streamed sums hold C(d+3, 3) numbers a block.</summary>
     public const int MaxKernelFeatures = Statistics.UnbiasedKernelDistance.MaxFeatureMapWidth;
 
@@ -27,20 +23,15 @@ internal sealed record JointSpec(IReadOnlyList<string> Features, int Subsample, 
     /// <summary>True when a streamed check is stated: every event's moments and kernel sums are gathered.</summary>
     public bool Streams => Frechet is not null || KernelDistance is not null;
 
-    /// <summary>Every check of the block, in report order: the tolerance checks, then the energy test.</summary>
+    /// <summary>Every check of the block, in report order.</summary>
     public IEnumerable<CheckSpec> Checks
     {
         get
         {
             if (Frechet is not null) yield return Frechet;
             if (KernelDistance is not null) yield return KernelDistance;
-            if (Test is not null) yield return Test;
         }
     }
-
-    /// <summary>Permutations when the contract states none: enough that the smallest p-value, 1/(B + 1), can still fail after the correction.</summary>
-    public int PermutationsFor(int familySize, double falseAlarm) =>
-        Permutations > 0 ? Permutations : (int)Math.Clamp(Math.Ceiling(2 * familySize / falseAlarm), 199, 10_000);
 
     /// <summary>Name used in reports, e.g. <c>joint(e_lead,e_sublead,pt_gg)</c>.</summary>
     public string Name => $"joint({string.Join(",", Features)})";

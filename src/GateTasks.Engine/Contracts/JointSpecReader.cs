@@ -5,13 +5,18 @@ namespace GateTasks.Engine.Contracts;
 
 /// <summary>
 /// Reads the <c>joint</c> block: two or more features checked together by <c>frechet-max</c>, <c>kernel-distance-max</c>
-/// (tolerances) and the energy test (with its subsample size and permutations), at least one of the three.
+/// (tolerances), at least one of the two. The retired energy-test keys are refused with their own code.
 /// </summary>
 internal static class JointSpecReader
 {
     public static JointSpec Read(YamlNodeReader r, YamlNode node, IReadOnlyList<FeatureSpec> features)
     {
         var mapping = r.Mapping(node, ContractKeys.Joint);
+        foreach (var (key, value) in mapping.Children)
+            if (key is YamlScalarNode { Value: { } k } && ContractKeys.RetiredJointKeys.Contains(k))
+                throw r.Error(ErrorCodes.ContractRetiredKey, key,
+                    $"joint.{k} was retired with the energy test, whose bounded subsample missed broken correlations; " +
+                    $"state {ContractKeys.FrechetMax} and/or {ContractKeys.KernelDistanceMax}, which use every event, and drop '{k}'.");
         var e = r.Entries(mapping, ContractKeys.Joint, ContractKeys.JointKeys).ToDictionary(x => x.Key, x => x.Value);
         var names = features.Select(f => f.Name).ToList();
         var list = r.Sequence(r.Require(mapping, ContractKeys.PairFeatures, "The joint check"), "joint.features").Children.Select(n =>
@@ -28,31 +33,10 @@ internal static class JointSpecReader
             throw r.Error(ErrorCodes.ContractBadValue, e[ContractKeys.KernelDistanceMax],
                 $"{ContractKeys.KernelDistanceMax} takes at most {JointSpec.MaxKernelFeatures} joint features (its streamed sums grow as the cube of their number), the block has {list.Count}; " +
                 $"drop features or use {ContractKeys.FrechetMax}.");
-        GoodnessOfFitTest? test = null;
-        if (e.TryGetValue(ContractKeys.EnergyTest, out var testNode))
-        {
-            if (!YamlNodeReader.IsScalar(testNode, ContractKeys.On))
-                throw r.Error(ErrorCodes.ContractBadValue, testNode, "energy-test takes 'on' (leave the key out to switch it off).");
-            test = new GoodnessOfFitTest(CheckKind.EnergyTest, r.At(testNode));
-        }
-        if (test is null && frechet is null && kernel is null)
+        if (frechet is null && kernel is null)
             throw r.Error(ErrorCodes.ContractMissingKey, mapping,
-                $"The joint check needs {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax}, {ContractKeys.EnergyTest} or several.");
-        var subsample = JointSpec.DefaultSubsample;
-        if (e.TryGetValue(ContractKeys.Subsample, out var sn))
-        {
-            subsample = r.Integer(sn, "joint.subsample");
-            if (subsample < 50 || 2 * subsample > Statistics.EnergyDistance.MaxPooledRows)
-                throw r.Error(ErrorCodes.ContractBadValue, sn, $"joint.subsample must be between 50 and {Statistics.EnergyDistance.MaxPooledRows / 2}, got {subsample}.");
-        }
-        var permutations = 0; // chosen from the family size and level at check time
-        if (e.TryGetValue(ContractKeys.Permutations, out var pn))
-        {
-            permutations = r.Integer(pn, "joint.permutations");
-            if (permutations < 99 || permutations > 10_000)
-                throw r.Error(ErrorCodes.ContractBadValue, pn, $"joint.permutations must be between 99 and 10000, got {permutations}.");
-        }
-        return new JointSpec(list, subsample, permutations, test, r.At(node)) { Frechet = frechet, KernelDistance = kernel };
+                $"The joint check needs {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax} or both.");
+        return new JointSpec(list, r.At(node)) { Frechet = frechet, KernelDistance = kernel };
     }
 
     /// <summary>A tolerance of the block: a positive, finite number (the distances are non-negative; 0 could never pass).</summary>

@@ -52,6 +52,8 @@ public static class ErrorCodes
     public const string ShareScalingRule = "GATE1014";
     /// <summary>A category block's <c>share-scaling</c> bound out of range (<c>full-share</c> outside (0, 1], <c>at-most</c> below 1).</summary>
     public const string ShareScalingBound = "GATE1015";
+    /// <summary>A joint block states a key that was retired (the energy test and its subsample settings).</summary>
+    public const string ContractRetiredKey = "GATE1016";
 
     /// <summary>No sample file matches, or a sample file does not exist.</summary>
     public const string SampleNotFound = "GATE2001";
@@ -136,8 +138,6 @@ public static class ErrorCodes
     public const string DriftFarTail = "GATE3016";
     /// <summary>Bin ratio outside tolerance in a region the feature declares by name.</summary>
     public const string DriftRatioNamed = "GATE3017";
-    /// <summary>The energy-distance test of the joint feature set significant at the contract's family-wise level.</summary>
-    public const string DriftJoint = "GATE3018";
     /// <summary>The χ² test of a declared pair's 2-D histograms significant at the family-wise level.</summary>
     public const string DriftChiSquare2D = "GATE3019";
     /// <summary>Interquartile width ratio shown outside tolerance.</summary>

@@ -48,14 +48,6 @@ internal static class AccumulationJson
             w.WriteEndObject();
         }
         w.WriteEndArray();
-        if (state.Joint is { } joint)
-        {
-            w.WriteStartObject("joint");
-            w.WriteNumber("seen", joint.Seen);
-            PartialNumbers.WriteJagged(w, "rows", joint.Rows);
-            WriteJointWeights(w, joint);
-            w.WriteEndObject();
-        }
         if (state.JointMoments is { } moments)
         {
             w.WriteStartObject("joint_moments");
@@ -85,16 +77,13 @@ internal static class AccumulationJson
             PartialNumbers.ReadArray(p.GetProperty("pearson")),
             PartialNumbers.ReadArray(p.GetProperty("spearman")),
             p.TryGetProperty("cells_w", out _) ? ReadCells(p, "cells_w", "cells_w2") : null)).ToList();
-        var joint = e.TryGetProperty("joint", out var j)
-            ? new JointState(j.GetProperty("seen").GetInt64(), PartialNumbers.ReadJagged(j.GetProperty("rows")), ReadJointWeights(j))
-            : null;
         var moments = e.TryGetProperty("joint_moments", out var jm)
             ? new JointMomentsState(jm.GetProperty("rows").GetInt64(), jm.GetProperty("skipped").GetInt64(),
                 jm.TryGetProperty("moments", out var m) ? PartialNumbers.ReadArray(m) : null,
                 jm.TryGetProperty("kernel_sums", out var k) ? PartialNumbers.ReadJagged(k) : null)
             : null;
         return new AccumulationState(e.GetProperty("events").GetInt64(), e.GetProperty("negative_weight_events").GetInt64(),
-            PartialNumbers.ReadArray(e.GetProperty("sum_w")), PartialNumbers.ReadArray(e.GetProperty("sum_w2")), features, pairs, joint, moments);
+            PartialNumbers.ReadArray(e.GetProperty("sum_w")), PartialNumbers.ReadArray(e.GetProperty("sum_w2")), features, pairs, moments);
     }
 
     /// <summary>A feature's fine-grid cells (kept for a Wasserstein check) and its four tail moments, as exact terms.</summary>
@@ -136,15 +125,4 @@ internal static class AccumulationJson
     private static ExactCellsState ReadCells(JsonElement e, string sumWName, string sumW2Name) =>
         new(PartialNumbers.ReadJagged(e.GetProperty(sumWName)), PartialNumbers.ReadJagged(e.GetProperty(sumW2Name)));
 
-    /// <summary>The joint subsample's row weights (partial version 5 on): one per kept row, in row order.</summary>
-    private static void WriteJointWeights(Utf8JsonWriter w, JointState joint) => PartialNumbers.WriteArray(w, "weights", joint.Weights);
-
-    /// <summary>Reads what <see cref="WriteJointWeights"/> wrote; a missing array or one not matching the rows throws (the partial is damaged).</summary>
-    private static double[] ReadJointWeights(JsonElement joint)
-    {
-        var weights = PartialNumbers.ReadArray(joint.GetProperty("weights"));
-        if (weights.Length != joint.GetProperty("rows").GetArrayLength())
-            throw new FormatException("the joint subsample has not one weight per row");
-        return weights;
-    }
 }

@@ -47,8 +47,7 @@ internal static class PartialFile
              .Append(f.NeedsFineGrid ? "|fine-grid" : "").Append('\n');
         foreach (var p in contract.Pairs) b.Append("pair ").Append(p.Name).Append(p.Chi2 is null ? "" : "|2d").Append('\n');
         if (contract.Joint is { } j)
-            b.Append("joint ").Append(j.Name).Append('|').Append(j.Test is null ? "" : "energy:" + j.Subsample)
-             .Append(j.Frechet is null ? "" : "|moments").Append(j.KernelDistance is null ? "" : "|kernel-sums").Append('\n');
+            b.Append("joint ").Append(j.Name).Append(j.Frechet is null ? "" : "|moments").Append(j.KernelDistance is null ? "" : "|kernel-sums").Append('\n');
         b.Append("selection ").Append(contract.Selection?.Text ?? "").Append('\n');
         b.Append("weight ").Append(contract.Sample.Weight ?? "").Append('\n');
         return Convert.ToHexString(SHA256.HashData(Encoding.UTF8.GetBytes(b.ToString()))).ToLowerInvariant();

@@ -14,9 +14,6 @@ namespace GateTasks.Engine.References;
 /// </summary>
 internal static class ReferenceBuilder
 {
-    /// <summary>Seed of the reference's joint subsample (the sample's uses another, so the two are independent).</summary>
-    public const int JointSeed = 1_234_577;
-
     /// <summary>
     /// Equal-probability bins of the fine grid kept for a feature with a Wasserstein or quantile check, and the dyadic levels
     /// added in each tail beyond them (<see cref="QuantileGrid.FineEdges"/>): enough that W1 from the grid agrees with
@@ -45,7 +42,6 @@ internal static class ReferenceBuilder
         // Pass 1: ranges and moments.
         var stats = features.Select(_ => new FeatureStatistics()).ToArray();
         var jointIndex = contract.Joint?.Features.Select(name => features.ToList().FindIndex(f => f.Name == name)).ToArray();
-        var joint = contract.Joint is { Test: not null } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
         // The streamed joint checks standardise by the reference's own means and spreads over its joint rows: found in
         // this pass (raw units), applied in the next.
         var jointScale = contract.Joint is { Streams: true } ? new JointMoments(jointIndex!, JointStandardisation.Identity(jointIndex!.Length), true, false) : null;
@@ -53,7 +49,6 @@ internal static class ReferenceBuilder
         var spikes = new SpikeSeparation(features);
         var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)), view =>
         {
-            joint?.Add(view);
             jointScale?.Add(view);
         }, pass);
         if (totals.Events == 0 && contract.Selection is { } selection && sample.RowsRead > 0)
@@ -176,7 +171,6 @@ internal static class ReferenceBuilder
         var inputs = files.Select(p => new ReferenceInput(Path.GetFileName(p), new FileInfo(p).Length, FileDigest.Sha256(p))).ToList();
         return new ReferenceHistograms(ReferenceFile.FormatVersion, DateTimeOffset.UtcNow, toolVersion, inputs,
             weightColumn, totals.Events, totals.SumW, totals.SumW2, result, correlations,
-            joint is null ? null : new ReferenceJointSample(contract.Joint!.Features, joint.Rows, joint.Weights),
             jointMoments is null ? null : new ReferenceJointMoments(contract.Joint!.Features, jointStandardisation!, jointMoments.State()));
     }
 

@@ -122,9 +122,8 @@ internal static class ReferenceFile
             if (fmt == "2")
                 throw Unreadable(path, "it is in reference format 2, which stores no large-sample variance of its correlations (fourth moments), so a Pearson or Spearman check would rest on the normal-law error; " +
                     $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
-            RefuseWithoutJointWeights(path, fmt);
-            if (fmt == "5")
-                throw Unreadable(path, "it is in reference format 5, which stores no streamed moments or kernel sums of its joint block, so frechet-max and kernel-distance-max could not be checked; " +
+            if (fmt is "3" or "4" or "5")
+                throw Unreadable(path, $"it is in reference format {fmt}, which stores no streamed moments or kernel sums of its joint block, so frechet-max and kernel-distance-max could not be checked; " +
                     $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt != FormatVersion.ToString(CultureInfo.InvariantCulture))
                 throw Unreadable(path, $"reference format version {fmt} is not supported; this GateTasks reads version {FormatVersion}");
@@ -244,14 +243,6 @@ internal static class ReferenceFile
             ["sum_w2"] = r.SumW2,
             ["inputs"] = inputs,
             ["features"] = features,
-            ["joint"] = r.Joint is { } j
-                ? new JsonObject
-                {
-                    ["features"] = new JsonArray(j.Features.Select(f => (JsonNode)JsonValue.Create(f)!).ToArray()),
-                    ["rows"] = new JsonArray(j.Rows.Select(row => (JsonNode)new JsonArray(row.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray())).ToArray()),
-                    [JointWeightsKey] = JointWeightsEntry(j),
-                }
-                : null,
             [JointMomentsKey] = r.JointMoments is { } jm ? JointMomentsEntry(jm) : null,
             ["correlations"] = new JsonArray((r.Correlations ?? []).Select(c => (JsonNode)new JsonObject
             {
@@ -316,9 +307,6 @@ internal static class ReferenceFile
                     (double)c["pearson_variance"]!, (double)c["spearman_variance"]!,
                     (c["cells_2d_sum_w"] as JsonArray)?.Select(v => (double)v!).ToArray(), (c["cells_2d_sum_w2"] as JsonArray)?.Select(v => (double)v!).ToArray())).ToList()
                 : [],
-            Joint: h["joint"] is JsonObject joint
-                ? ReadJointSample(joint)
-                : null,
             JointMoments: h[JointMomentsKey] is JsonObject moments ? ReadJointMoments(moments) : null);
     }
 
@@ -357,30 +345,6 @@ internal static class ReferenceFile
         // Restored once here so that damage is found on reading, not when a check runs.
         AccumulatedJointMoments.From(features.Count, state);
         return new ReferenceJointMoments(features, new JointStandardisation(means, sds), state);
-    }
-
-    private const string JointWeightsKey = "weights";
-
-    /// <summary>The joint subsample's row weights (format 5 on): one per stored row, in row order.</summary>
-    private static JsonArray JointWeightsEntry(ReferenceJointSample joint) =>
-        new(joint.Weights.Select(w => (JsonNode)JsonValue.Create(w)!).ToArray());
-
-    /// <summary>The stored joint subsample with its row weights; a weight list that does not match the rows is damage.</summary>
-    private static ReferenceJointSample ReadJointSample(JsonObject joint)
-    {
-        var rows = joint["rows"]!.AsArray().Select(row => row!.AsArray().Select(v => (double)v!).ToArray()).ToArray();
-        var weights = joint[JointWeightsKey]!.AsArray().Select(v => (double)v!).ToArray();
-        if (weights.Length != rows.Length)
-            throw new FormatException($"the joint subsample has {rows.Length} rows but {weights.Length} weights");
-        return new ReferenceJointSample(joint["features"]!.AsArray().Select(f => (string)f!).ToList(), rows, weights);
-    }
-
-    /// <summary>Formats 3 and 4 store the joint subsample without event weights, so a weighted reference's energy test would weigh every row alike.</summary>
-    private static void RefuseWithoutJointWeights(string path, string format)
-    {
-        if (format is "3" or "4")
-            throw Unreadable(path, $"it is in reference format {format}, which stores no event weights with its joint subsample, so the energy test would treat a weighted reference as unweighted; " +
-                $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
     }
 
     /// <summary>A feature's fine grid in the header: its edges, cells (flows first and last) and the four tail moments.</summary>

@@ -15,7 +15,6 @@ internal sealed record ReferenceHistograms(
     double SumW2,
     IReadOnlyList<ReferenceFeature> Features,
     IReadOnlyList<ReferenceCorrelation>? Correlations = null,
-    ReferenceJointSample? Joint = null,
     ReferenceJointMoments? JointMoments = null)
 {
     /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>

@@ -18,13 +18,12 @@ internal static class CalibrationTable
         var d = contract.Decision;
         var checks = contract.Features.Sum(f => f.Checks.Count);
         var pairChecks = contract.Pairs.Sum(p => p.Checks.Count());
-        // Only the joint block's energy test is replicated; its streamed tolerance checks are listed as not calibrated.
-        var joint = contract.Joint?.Test is null ? 0 : 1;
+        // The joint block's checks are not replicated: listed as not calibrated.
         var notCalibrated = contract.Joint is { } j ? j.Checks.OfType<ToleranceCheck>().Select(c => $"{c.Label} of {j.Name}").ToList() : [];
-        sb.AppendLine($"Contract {contract.DisplayName}: {checks + pairChecks + joint} checks ({checks} per feature, {pairChecks} on pairs, {joint} joint), " +
+        sb.AppendLine($"Contract {contract.DisplayName}: {checks + pairChecks} checks replicated ({checks} per feature, {pairChecks} on pairs), " +
                       $"false-alarm level {InvariantNumber.Short(d.FalseAlarm)} ({d.CorrectionName}), confidence {InvariantNumber.Short(d.Confidence)}.");
         if (notCalibrated.Count > 0)
-            sb.AppendLine($"Not calibrated (no replica draws the joint law for them; the rates below leave them out): {string.Join(", ", notCalibrated)}.");
+            sb.AppendLine($"Not calibrated (a reference keeps no rows to draw the joint law from; the rates below leave them out): {string.Join(", ", notCalibrated)}.");
         sb.AppendLine();
         sb.AppendLine("| drift | feature | surrogate weights | surrogate events | replicas | contract failed | rate [95% CI] | inconclusive |");
         sb.AppendLine("|---|---|---|---:|---:|---:|---|---:|");

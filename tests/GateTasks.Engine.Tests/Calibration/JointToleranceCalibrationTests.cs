@@ -27,7 +27,7 @@ public class JointToleranceCalibrationTests
               kernel-distance-max: 0.01
             """, "c.yaml");
         var table = CalibrationTable.Format(contract, []);
-        Assert.Contains("2 checks (2 per feature, 0 on pairs, 0 joint)", table);
-        Assert.Contains("Not calibrated (no replica draws the joint law for them; the rates below leave them out): frechet-max of joint(x,y), kernel-distance-max of joint(x,y).", table);
+        Assert.Contains("2 checks replicated (2 per feature, 0 on pairs)", table);
+        Assert.Contains("Not calibrated (a reference keeps no rows to draw the joint law from; the rates below leave them out): frechet-max of joint(x,y), kernel-distance-max of joint(x,y).", table);
     }
 }

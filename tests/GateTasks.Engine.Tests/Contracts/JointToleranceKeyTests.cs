@@ -34,20 +34,16 @@ public class JointToleranceKeyTests
         Schema.Evaluate(YamlToJson.Convert(yaml), new EvaluationOptions { OutputFormat = OutputFormat.List }).IsValid;
 
     [Fact]
-    public void Both_keys_are_tolerance_checks_of_the_block_and_the_energy_test_is_optional()
+    public void Both_keys_are_tolerance_checks_of_the_block()
     {
         var c = ContractLoader.Parse(Contract("  frechet-max: 0.02\n  kernel-distance-max: 0.001"), "c.yaml");
         var joint = c.Joint!;
-        Assert.Null(joint.Test);
         Assert.Equal((CheckKind.FrechetDistance, 0.02, 11, 16), (joint.Frechet!.Kind, joint.Frechet.Tolerance, joint.Frechet.Location.Line, joint.Frechet.Location.Column));
         Assert.Equal((CheckKind.KernelDistance, 0.001, 12), (joint.KernelDistance!.Kind, joint.KernelDistance.Tolerance, joint.KernelDistance.Location.Line));
         Assert.True(joint.Streams);
         Assert.Equal(["frechet-max", "kernel-distance-max"], joint.Checks.Select(k => k.Label));
         Assert.All(joint.Checks, k => Assert.IsType<ToleranceCheck>(k));
 
-        var withTest = ContractLoader.Parse(Contract("  kernel-distance-max: 0.001\n  energy-test: on"), "c.yaml").Joint!;
-        Assert.Equal(["kernel-distance-max", "energy-test"], withTest.Checks.Select(k => k.Label));
-        Assert.False(ContractLoader.Parse(Contract("  energy-test: on"), "c.yaml").Joint!.Streams);
         Assert.True(Valid(Contract("  frechet-max: 0.02\n  kernel-distance-max: 0.001")));
     }
 
@@ -68,11 +64,11 @@ public class JointToleranceKeyTests
     [Fact]
     public void A_block_with_no_check_is_refused_and_a_misspelt_key_is_named()
     {
-        var none = Fails(Contract("  subsample: 500"));
+        var none = Fails("contract-version: 1\nsample: s.parquet\nreference: r.parquet\nfeatures:\n  - name: x\n    checks: { ks-max: 0.05 }\n" +
+                         "  - name: y\n    checks: { ks-max: 0.05 }\njoint:\n  features: [x, y]\n");
         Assert.Equal(ErrorCodes.ContractMissingKey, none.Code);
-        Assert.Contains("needs frechet-max, kernel-distance-max, energy-test or several", none.Message);
+        Assert.Contains("needs frechet-max, kernel-distance-max or both", none.Message);
         Assert.Equal(10, none.Location!.Line); // the block's mapping starts at its first key
-        Assert.False(Valid(Contract("  subsample: 500")));
 
         var misspelt = Fails(Contract("  frechet-mx: 0.02"));
         Assert.Equal(ErrorCodes.ContractUnknownKey, misspelt.Code);
@@ -92,5 +88,20 @@ public class JointToleranceKeyTests
         Assert.Contains("at most 32 joint features", e.Message);
         // 33 features fit frechet-max.
         Assert.NotNull(ContractLoader.Parse(text.Replace("kernel-distance-max", "frechet-max"), "c.yaml").Joint!.Frechet);
+    }
+
+    [Theory]
+    [InlineData("energy-test: on", "energy-test")]
+    [InlineData("subsample: 500", "subsample")]
+    [InlineData("permutations: 999", "permutations")]
+    public void The_retired_energy_test_keys_are_refused_with_their_own_code(string line, string key)
+    {
+        // docs/error-codes.md, GATE1016: the energy test on a bounded subsample was retired; its keys are named, not ignored.
+        var e = Fails(Contract("  frechet-max: 0.02\n  " + line));
+        Assert.Equal(ErrorCodes.ContractRetiredKey, e.Code);
+        Assert.Contains($"joint.{key} was retired", e.Message);
+        Assert.Contains("frechet-max", e.Message);
+        Assert.Equal(new SourceLocation("c.yaml", 12, 3), e.Location);
+        Assert.False(Valid(Contract("  frechet-max: 0.02\n  " + line)));
     }
 }
