@@ -3,9 +3,10 @@ namespace GateTasks.Engine.Accumulation;
 /// <summary>
 /// Finds the cell of a value on one projection's fixed edges (cell 0 below the lowest edge, cell i for
 /// edges[i−1] ≤ x &lt; edges[i], cell edges.Length at or above the highest) in about constant time: a table over
-/// 2·edges.Length equal slots between the outermost edges gives the first and last cell a slot can hold, and a
-/// binary search runs only between those two (on an equal-probability grid most slots hold one or two cells). The
-/// answer is always checked against the edges, so the table only speeds the search up and cannot change a cell.
+/// 4·edges.Length equal slots between the outermost edges gives the cell at each slot's start, and a short walk over
+/// the edges finishes (on an equal-probability grid of a roughly normal projection a slot spans about one cell; a
+/// binary search over 500 edges took several times longer). The walk compares with the edges themselves, so the
+/// table only speeds the search up and cannot change a cell.
 /// </summary>
 internal sealed class SlicedCellLookup
 {
@@ -27,9 +28,9 @@ internal sealed class SlicedCellLookup
         _edges = edges;
         _low = edges[0];
         _high = edges[^1];
-        _slots = 2 * edges.Length;
+        _slots = 4 * edges.Length;
         _perSlot = _slots / (_high - _low);
-        if (!double.IsFinite(_perSlot)) _perSlot = 0; // edges too close for the table: every value takes the full search
+        if (!double.IsFinite(_perSlot)) _perSlot = 0; // a range too wide for the table: every value walks from the first edge
         _first = new int[_slots + 2];
         var c = 1;
         for (var s = 0; s <= _slots + 1; s++)
@@ -47,24 +48,17 @@ internal sealed class SlicedCellLookup
     public int Cells => _edges.Length + 1;
 
     /// <summary>The cell of a finite value.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public int Cell(double x)
     {
         if (x < _low) return 0;
         if (x >= _high) return _edges.Length;
-        int lo = 1, hi = _edges.Length - 1; // the cell is in [lo, hi]: edges[c − 1] ≤ x < edges[c]
         var s = (int)((x - _low) * _perSlot);
-        if ((uint)s < (uint)_slots)
-        {
-            lo = _first[s];
-            hi = Math.Min(_edges.Length - 1, _first[s + 1] + 1);
-            if (x < _edges[lo - 1] || x >= _edges[hi]) { lo = 1; hi = _edges.Length - 1; }
-        }
-        while (lo < hi)
-        {
-            var mid = (lo + hi) >> 1;
-            if (x < _edges[mid]) hi = mid;
-            else lo = mid + 1;
-        }
-        return lo;
+        var c = _first[Math.Min(s, _slots)];
+        // Walk up to the first edge above x (x < the highest edge, so this stops), then down past any edge above x that
+        // rounding in the slot's index let through: the cell is then exactly edges[c − 1] ≤ x < edges[c].
+        while (x >= _edges[c]) c++;
+        while (c > 1 && x < _edges[c - 1]) c--;
+        return c;
     }
 }

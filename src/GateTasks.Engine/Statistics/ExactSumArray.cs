@@ -1,10 +1,10 @@
 namespace GateTasks.Engine.Statistics;
 
 /// <summary>
-/// A fixed number of exact sums (<see cref="ExactSum"/>'s arithmetic: Shewchuk 1997's grow-expansion with two-sum)
-/// kept compactly for accumulators with hundreds of thousands of cells. Each sum is held as two non-overlapping
-/// doubles (hi and lo, 16 bytes), which is exact for almost every stream of batch sums; a sum whose exact value needs
-/// a third term moves to an <see cref="ExactSum"/> of its own. The exact value does not depend on the order or
+/// A fixed number of exact sums kept compactly for accumulators with hundreds of thousands of cells. Each sum is held
+/// as two doubles whose exact sum is the exact total (hi and lo, 16 bytes), updated by error-free two-sums (Dekker
+/// 1971; the arithmetic of <see cref="ExactSum"/>, Shewchuk 1997), which is exact for almost every stream of batch
+/// sums; a sum whose exact value needs a third term moves to an <see cref="ExactSum"/> of its own. The exact value does not depend on the order or
 /// grouping of the additions, and <see cref="Value"/> rounds it once, correctly, whichever form holds it, so shards
 /// merge to the bits of one pass.
 /// </summary>
@@ -34,39 +34,37 @@ internal sealed class ExactSumArray
             big.Add(x);
             return;
         }
-        // Grow-expansion of [lo, hi] (smallest first) by x; at most three terms come out.
-        double t0 = 0, t1 = 0;
-        var n = 0;
-        Grow(_lo[i], ref x, ref t0, ref t1, ref n);
-        Grow(_hi[i], ref x, ref t0, ref t1, ref n);
-        if (n <= 1)
+        // Error-free transformations only (each two-sum's result plus its error is exactly its two inputs), so hi + lo
+        // stays the exact sum; a third term is needed only when the sum spans more than about 106 bits.
+        var (s, e) = TwoSum(_hi[i], x);
+        var (l, f) = TwoSum(_lo[i], e);
+        if (f != 0)
         {
-            _lo[i] = n == 1 ? t0 : 0;
-            _hi[i] = x;
+            (s, l) = TwoSum(s, l);
+            (l, f) = TwoSum(l, f);
+        }
+        if (f == 0)
+        {
+            _hi[i] = s;
+            _lo[i] = l;
             return;
         }
         var sum = new ExactSum();
-        sum.Add(t0);
-        sum.Add(t1);
-        sum.Add(x);
+        sum.Add(f);
+        sum.Add(l);
+        sum.Add(s);
         (_spilled ??= [])[i] = sum;
         _hi[i] = 0;
         _lo[i] = 0;
     }
 
-    private static void Grow(double y, ref double x, ref double t0, ref double t1, ref int n)
+    /// <summary>Fast two-sum after ordering by magnitude (Dekker 1971): hi = fl(a + b) and lo = a + b − hi exactly.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    private static (double Hi, double Lo) TwoSum(double a, double b)
     {
-        if (y == 0) return;
-        if (Math.Abs(x) < Math.Abs(y)) (x, y) = (y, x);
-        var hi = x + y;
-        var lo = y - (hi - x); // fast two-sum: exact because |x| ≥ |y|
-        if (lo != 0)
-        {
-            if (n == 0) t0 = lo;
-            else t1 = lo;
-            n++;
-        }
-        x = hi;
+        if (Math.Abs(a) < Math.Abs(b)) (a, b) = (b, a);
+        var hi = a + b;
+        return (hi, b - (hi - a));
     }
 
     /// <summary>Adds each entry of <paramref name="values"/> to the sum of the same index (starting at <paramref name="start"/>), skipping zeros.</summary>
@@ -86,7 +84,7 @@ internal sealed class ExactSumArray
 
     /// <summary>Sum i's exact value rounded once to the nearest double.</summary>
     public double Value(int i) =>
-        _spilled is not null && _spilled.TryGetValue(i, out var big) ? big.Value : _hi[i] + _lo[i]; // one rounding of an exact two-term sum
+        _spilled is not null && _spilled.TryGetValue(i, out var big) ? big.Value : _hi[i] + _lo[i]; // one IEEE addition rounds the exact two-term sum correctly
 
     /// <summary>Every sum's value (see <see cref="Value"/>).</summary>
     public double[] Values()
@@ -96,12 +94,12 @@ internal sealed class ExactSumArray
         return result;
     }
 
-    /// <summary>Sum i's terms, smallest first (none for zero).</summary>
+    /// <summary>Sum i's terms (none for zero); added to any exact sum they give this one.</summary>
     public IReadOnlyList<double> Terms(int i)
     {
         if (_spilled is not null && _spilled.TryGetValue(i, out var big)) return big.Terms.ToArray();
-        if (_lo[i] != 0) return [_lo[i], _hi[i]];
-        return _hi[i] != 0 ? [_hi[i]] : [];
+        if (_lo[i] == 0) return _hi[i] != 0 ? [_hi[i]] : [];
+        return _hi[i] != 0 ? [_lo[i], _hi[i]] : [_lo[i]];
     }
 
     /// <summary>The whole array as plain numbers: each sum's two leading terms, and the few sums that needed more in full.</summary>
