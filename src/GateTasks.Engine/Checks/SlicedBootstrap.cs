@@ -24,7 +24,10 @@ namespace GateTasks.Engine.Checks;
 /// (1 − λ)·reference + λ·sample that lies exactly at the tolerance; every per-projection KS and W1 is linear in λ
 /// along that line, so λ = tolerance/estimate.</item>
 /// </list>
-/// Replicates are drawn from a fixed seed, so every run gives the same numbers.
+/// Replicates are drawn from a fixed seed, so every run gives the same numbers. Measured over independent pairs of
+/// samples (SlicedDistanceTests): the error matches the spread of W1 at a clear difference, and overstates that of KS
+/// (a maximum over edges) and of any distance at its floor by up to about 1.8×, resampling adding its noise to the
+/// sample's own where the distance is not smooth — the cautious side.
 /// </summary>
 internal sealed class SlicedBootstrap
 {
