@@ -310,6 +310,30 @@ public sealed class SlicedDistanceTests(Xunit.Abstractions.ITestOutputHelper out
     }
 
     [Fact]
+    public void A_batch_view_fills_as_its_columns_do()
+    {
+        // The program against itself: the stream's batch view (features picked by index, in the projection's order,
+        // weights on) gives the bits of the same rows handed over column by column.
+        var rows = Draw(6, permute: false).Select(c => c[..3_000]).ToArray();
+        var weights = Enumerable.Range(0, 3_000).Select(i => i % 5 == 0 ? -0.25 : 1.5).ToArray();
+        var projection = new SlicedProjection(SlicedDirections.Draw(["f", "a", "c"], 8), [0, 0, 1], [1, 1, 1]);
+        var edges = Enumerable.Range(0, 8).Select(_ => Enumerable.Range(-20, 41).Select(i => i * 0.2).ToArray()).ToArray();
+        var byColumns = new SlicedHistogramCounter(projection, edges);
+        byColumns.Add([rows[5], rows[0], rows[2]], weights);
+        var view = new GateTasks.Engine.Samples.FeatureView(rows.Select(c => c.Concat(new double[100]).ToArray()).ToArray(),
+            weights.Concat(new double[100]).ToArray(), weighted: true) { Rows = 3_000 };
+        var byView = new SlicedHistogramCounter(projection, edges);
+        byView.Add(view, [5, 0, 2]);
+        var (x, y) = (byColumns.Finish(), byView.Finish());
+        for (var k = 0; k < 8; k++)
+        {
+            Assert.Equal(x.Cells[k], y.Cells[k]);
+            Assert.Equal(x.Squares[k], y.Squares[k]);
+        }
+        Assert.Equal(x.StandardDeviation, y.StandardDeviation);
+    }
+
+    [Fact]
     public void Rows_with_a_non_finite_value_are_left_out_of_every_projection()
     {
         var projection = new SlicedProjection(SlicedDirections.Draw(["x", "y"], 4), [0, 0], [1, 1]);
