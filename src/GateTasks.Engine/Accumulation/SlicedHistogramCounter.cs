@@ -104,24 +104,6 @@ internal sealed class SlicedHistogramCounter
         Absorb();
     }
 
-    /// <summary>Adds one batch given column by column (<paramref name="columns"/>[j][r]); empty weights mean unit weights.</summary>
-    public void Add(IReadOnlyList<double[]> columns, ReadOnlySpan<double> weights)
-    {
-        if (columns.Count != _projection.Dimensions)
-            throw new ArgumentException($"{columns.Count} columns for a projection of {_projection.Dimensions}.", nameof(columns));
-        var rows = columns[0].Length;
-        if (columns.Any(c => c.Length != rows) || (!weights.IsEmpty && weights.Length != rows))
-            throw new ArgumentException("Every column (and the weights) must have the same length.", nameof(columns));
-        for (var start = 0; start < rows; start += ChunkRows)
-        {
-            var n = Math.Min(ChunkRows, rows - start);
-            for (var j = 0; j < columns.Count; j++) columns[j].AsSpan(start, n).CopyTo(_columns[j]);
-            if (!weights.IsEmpty) weights.Slice(start, n).CopyTo(_weights);
-            Chunk(n, !weights.IsEmpty);
-        }
-        Absorb();
-    }
-
     private void Chunk(int n, bool weighted)
     {
         var d = _projection.Dimensions;

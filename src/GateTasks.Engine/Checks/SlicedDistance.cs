@@ -12,7 +12,8 @@ namespace GateTasks.Engine.Checks;
 /// barycenters of measures", J. Math. Imaging Vis. 51:22), here over K fixed random directions; the largest over the
 /// directions is the max-sliced distance (Deshpande, Hu, Sun, Pyrros, Siddiqui, Koyejo, Zhao, Forsyth &amp; Schwing
 /// 2019, "Max-sliced Wasserstein distance and its use for GANs", CVPR), restricted to the same K directions, and the
-/// same two summaries of the projected KS distance give a sliced KS. W1 is integrated on the fine grid with the
+/// same two summaries of the projected KS distance give a sliced KS (both sliced forms as fidelity measures of
+/// generated samples: Grossi, Letizia &amp; Torre 2024, "Refereeing the referees", arXiv:2409.16336). W1 is integrated on the fine grid with the
 /// tails' exact first moments (<see cref="Wasserstein.FineGrid"/>) and divided by the reference's projected standard
 /// deviation, so a tolerance reads in units of the reference's spread along each direction; KS is taken at the grid's
 /// edges (<see cref="KolmogorovSmirnov.BinnedDistance"/>), a lower bound of the unbinned distance by at most the

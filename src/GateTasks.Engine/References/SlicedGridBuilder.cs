@@ -52,7 +52,7 @@ internal sealed class SlicedGridBuilder
     }
 
     /// <summary>Adds rows given column by column; rows with a non-finite value are left out, as the counter leaves them out.</summary>
-    public void Add(IReadOnlyList<double[]> columns, ReadOnlySpan<double> weights)
+    private void Add(IReadOnlyList<double[]> columns, ReadOnlySpan<double> weights)
     {
         var rows = columns[0].Length;
         for (var r = 0; r < rows; r++)

@@ -86,14 +86,6 @@ internal sealed class ExactSumArray
     public double Value(int i) =>
         _spilled is not null && _spilled.TryGetValue(i, out var big) ? big.Value : _hi[i] + _lo[i]; // one IEEE addition rounds the exact two-term sum correctly
 
-    /// <summary>Every sum's value (see <see cref="Value"/>).</summary>
-    public double[] Values()
-    {
-        var result = new double[Length];
-        for (var i = 0; i < result.Length; i++) result[i] = Value(i);
-        return result;
-    }
-
     /// <summary>Sum i's terms (none for zero); added to any exact sum they give this one.</summary>
     public IReadOnlyList<double> Terms(int i)
     {

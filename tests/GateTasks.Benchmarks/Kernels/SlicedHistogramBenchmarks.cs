@@ -18,6 +18,8 @@ public class SlicedHistogramBenchmarks
     private double[][] _columns = [];
     private double[] _weights = [];
     private SlicedHistogramCounter _counter = null!;
+    private GateTasks.Engine.Samples.FeatureView _view = null!;
+    private int[] _features = [];
 
     [Params(64)]
     public int Projections { get; set; }
@@ -43,10 +45,12 @@ public class SlicedHistogramBenchmarks
         var sds = _columns.Select((c, j) => Math.Sqrt(c.Sum(v => (v - means[j]) * (v - means[j])) / Rows)).ToArray();
         var projection = new SlicedProjection(SlicedDirections.Draw(names, Projections), means, sds);
         var builder = new SlicedGridBuilder(projection, _columns.Select(c => c.Min()).ToArray(), _columns.Select(c => c.Max()).ToArray());
-        builder.Add(_columns, []);
+        _features = Enumerable.Range(0, Features).ToArray();
+        _view = new GateTasks.Engine.Samples.FeatureView(_columns, _weights, Weighted) { Rows = Rows };
+        builder.Add(new GateTasks.Engine.Samples.FeatureView(_columns, _weights, weighted: false) { Rows = Rows }, _features);
         _counter = new SlicedHistogramCounter(projection, builder.Edges());
     }
 
     [Benchmark(OperationsPerInvoke = Rows)]
-    public void Add() => _counter.Add(_columns, Weighted ? _weights : ReadOnlySpan<double>.Empty);
+    public void Add() => _counter.Add(_view, _features);
 }

@@ -5,6 +5,7 @@ using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.References;
 using GateTasks.Engine.Statistics;
+using GateTasks.Engine.Tests.Accumulation;
 using GateTasks.Engine.Tests.Statistics;
 using MathNet.Numerics.Distributions;
 using MathNet.Numerics.Random;
