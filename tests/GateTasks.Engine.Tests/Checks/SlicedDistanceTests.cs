@@ -247,6 +247,37 @@ public sealed class SlicedDistanceTests(Xunit.Abstractions.ITestOutputHelper out
     }
 
     [Fact]
+    public void A_same_law_sample_with_negative_weights_stays_at_its_floor()
+    {
+        // The program against itself: the sample's law is the reference's, but 5% of its events, picked regardless of
+        // their values, are each split into two copies weighted +2 and −0.5 (net 1.5; the same event, so the same hash
+        // group); the distances stay within three errors of their floor, and the copies are counted as the rows they are.
+        var reference = Draw(1, permute: false);
+        var plain = Draw(2, permute: false);
+        var split = Enumerable.Range(0, PowerEvents).Where(i => i % 20 == 0).ToArray();
+        var sample = plain.Select(c => c.Concat(split.Select(i => c[i])).ToArray()).ToArray();
+        var weights = Enumerable.Range(0, PowerEvents).Select(i => i % 20 == 0 ? 2.0 : 1.0).Concat(split.Select(_ => -0.5)).ToArray();
+        var means = reference.Select(c => c.Average()).ToArray();
+        var sds = reference.Select((c, j) => Math.Sqrt(c.Sum(v => (v - means[j]) * (v - means[j])) / c.Length)).ToArray();
+        var projection = new SlicedProjection(SlicedDirections.Draw(PowerNames, 64), means, sds);
+        var builder = new SlicedGridBuilder(projection, reference.Select(c => c.Min()).ToArray(), reference.Select(c => c.Max()).ToArray());
+        builder.Add(reference, []);
+        var edges = builder.Edges();
+        var a = new SlicedHistogramCounter(projection, edges);
+        a.Add(reference, []);
+        var b = new SlicedHistogramCounter(projection, edges);
+        b.Add(sample, weights);
+        var histograms = b.Finish();
+        Assert.Equal(PowerEvents + split.Length, histograms.Rows);
+        foreach (var r in new SlicedBootstrap(a.Finish(), histograms, seed: 13).Read())
+        {
+            output.WriteLine($"{r.Measure} {r.Summary}: estimate {r.Estimate:G4} floor {r.Floor:G4} error {r.Errors.Total:G3}");
+            Assert.True(Math.Abs(r.Estimate - r.Floor) <= 3 * r.Errors.Total,
+                $"{r.Measure} {r.Summary}: estimate {r.Estimate}, floor {r.Floor}, error {r.Errors.Total}");
+        }
+    }
+
+    [Fact]
     public void Readings_plug_into_the_distance_decision()
     {
         // The program against itself: a broken pair fails a tolerance below its worst W1, a same-law sample passes a
