@@ -62,6 +62,7 @@ public sealed class SlicedDistanceTests(Xunit.Abstractions.ITestOutputHelper out
         var expectedKs = c.Doubles("ks");
         var expectedStd = c.Doubles("projected_std");
         var relative = w1.Select((v, k) => v * reference.StandardDeviation[k] / expectedW1[k] - 1).ToArray();
+        output.WriteLine("KS short of scipy's by " + string.Join(", ", ks.Select((v, k) => expectedKs[k] - v)));
         // scipy.stats.wasserstein_distance(p_ref, p_sam) (scipy 1.10.1), unbinned: the 512-cell grid within 1% (measured: at most 0.4%).
         Assert.True(relative.All(r => Math.Abs(r) <= RelativeW1), "relative differences " + string.Join(", ", relative));
         for (var k = 0; k < w1.Length; k++)
@@ -69,8 +70,9 @@ public sealed class SlicedDistanceTests(Xunit.Abstractions.ITestOutputHelper out
             // numpy.std(p_ref) (numpy 1.24.2): the projected σ from unbinned moments, to rounding.
             ScipyFixture.Near(expectedStd[k], reference.StandardDeviation[k], 1e-9);
             // scipy.stats.ks_2samp(p_ref, p_sam).statistic (scipy 1.10.1): taken at the edges only, the grid's KS is a
-            // lower bound, short by at most a cell's weight (about 1/512 of each sample here); stated: within 0.005.
-            Assert.InRange(expectedKs[k] - ks[k], -1e-12, 0.005);
+            // lower bound, short by at most the larger weight of one cell in either sample (1/512 of the reference, up to
+            // about 1.5/512 of this wider sample); stated: within 0.003 (measured: at most 0.0007).
+            Assert.InRange(expectedKs[k] - ks[k], -1e-12, 0.003);
         }
     }
 
