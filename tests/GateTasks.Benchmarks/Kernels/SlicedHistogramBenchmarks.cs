@@ -46,8 +46,8 @@ public class SlicedHistogramBenchmarks
         var projection = new SlicedProjection(SlicedDirections.Draw(names, Projections), means, sds);
         var builder = new SlicedGridBuilder(projection, _columns.Select(c => c.Min()).ToArray(), _columns.Select(c => c.Max()).ToArray());
         _features = Enumerable.Range(0, Features).ToArray();
-        _view = new GateTasks.Engine.Samples.FeatureView(_columns, _weights, Weighted) { Rows = Rows };
-        builder.Add(new GateTasks.Engine.Samples.FeatureView(_columns, _weights, weighted: false) { Rows = Rows }, _features);
+        _view = new GateTasks.Engine.Samples.FeatureView(_columns, _weights, Weighted, new long[Rows]) { Rows = Rows };
+        builder.Add(new GateTasks.Engine.Samples.FeatureView(_columns, _weights, weighted: false, new long[Rows]) { Rows = Rows }, _features);
         _counter = new SlicedHistogramCounter(projection, builder.Edges());
     }
 

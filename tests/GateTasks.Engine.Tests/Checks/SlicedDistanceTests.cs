@@ -358,7 +358,7 @@ public sealed class SlicedDistanceTests(Xunit.Abstractions.ITestOutputHelper out
         var byColumns = new SlicedHistogramCounter(projection, edges);
         byColumns.Add([rows[5], rows[0], rows[2]], weights);
         var view = new GateTasks.Engine.Samples.FeatureView(rows.Select(c => c.Concat(new double[100]).ToArray()).ToArray(),
-            weights.Concat(new double[100]).ToArray(), weighted: true) { Rows = 3_000 };
+            weights.Concat(new double[100]).ToArray(), weighted: true, new long[3_100]) { Rows = 3_000 };
         var byView = new SlicedHistogramCounter(projection, edges);
         byView.Add(view, [5, 0, 2]);
         var (x, y) = (byColumns.Finish(), byView.Finish());
