@@ -16,7 +16,8 @@ internal sealed record AccumulatedSample(
     IReadOnlyList<AccumulatedFeature> Features,
     IReadOnlyList<AccumulatedPair> Pairs,
     AccumulatedJoint? Joint,
-    AccumulatedJointMoments? JointMoments = null);
+    AccumulatedJointMoments? JointMoments = null,
+    SlicedHistograms? Sliced = null);
 
 /// <summary>
 /// One feature, finished: its histogram on the reference's axis, unbinned summary, spike tally, far-tail counts, and

@@ -68,6 +68,8 @@ internal static class CheckEvaluator
         CheckKind.EnergyTest => Diagnostics.ErrorCodes.DriftJoint,
         CheckKind.FrechetDistance => Diagnostics.ErrorCodes.DriftFrechet,
         CheckKind.KernelDistance => Diagnostics.ErrorCodes.DriftKernelDistance,
+        CheckKind.SlicedKolmogorovSmirnov => Diagnostics.ErrorCodes.DriftSlicedKolmogorovSmirnov,
+        CheckKind.SlicedWasserstein => Diagnostics.ErrorCodes.DriftSlicedWasserstein,
         CheckKind.ChiSquare2DTest => Diagnostics.ErrorCodes.DriftChiSquare2D,
         _ => Diagnostics.ErrorCodes.DriftJensenShannon,
     };

@@ -72,6 +72,16 @@ internal static class ContractEvaluation
             if (streamed.KernelDistance is { } kernel)
                 measured.Add((subject, kernel, KernelDistanceCheck.Evaluate(stored, gathered, kernel, contract.Decision, sample.Events)));
         }
+        if (contract.Joint is { Slices: true } slicedSpec)
+        {
+            var stored = reference.Sliced is { } rs && rs.Grid.Features.SequenceEqual(slicedSpec.Features)
+                ? rs.Histograms
+                : throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                    $"The reference holds no sliced histograms of {slicedSpec.Name}; rebuild it with 'gatetasks reference build'.", slicedSpec.Location);
+            var subject = new JointSubject(slicedSpec);
+            foreach (var (check, m) in SlicedCheck.Evaluate(slicedSpec, stored, sample.Sliced, contract.Decision, sample.Events))
+                measured.Add((subject, check, m));
+        }
         if (contract.Joint is { Test: { } energyTest } jointSpec)
         {
             var stored = reference.Joint is { } rj && rj.Features.SequenceEqual(jointSpec.Features)

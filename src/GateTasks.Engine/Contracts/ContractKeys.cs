@@ -58,6 +58,12 @@ internal static class ContractKeys
     public const string EnergyTest = "energy-test";
     public const string FrechetMax = "frechet-max";
     public const string KernelDistanceMax = "kernel-distance-max";
+    public const string SlicedKsMax = "sliced-ks-max";
+    public const string SlicedWassersteinMax = "sliced-wasserstein-max";
+    public const string Projections = "projections";
+    public const string Worst = "worst";
+    public const string Mean = "mean";
+    public static readonly string[] SlicedKeys = [Worst, Mean];
     public const string Subsample = "subsample";
     public const string Permutations = "permutations";
     public const string PairFeatures = "features";
@@ -74,7 +80,7 @@ internal static class ContractKeys
     public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Acceptance, Defaults, Features, Correlations, Joint];
     public static readonly string[] AcceptanceKeys = [Ledger, Required, Tightening, Ratchet];
     public static readonly string[] TighteningPolicies = ["free", "record"];
-    public static readonly string[] JointKeys = [PairFeatures, EnergyTest, FrechetMax, KernelDistanceMax, Subsample, Permutations];
+    public static readonly string[] JointKeys = [PairFeatures, EnergyTest, FrechetMax, KernelDistanceMax, SlicedKsMax, SlicedWassersteinMax, Projections, Subsample, Permutations];
     public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax, Chi2Test2D];
     public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
@@ -133,6 +139,8 @@ internal static class ContractKeys
         CheckKind.EnergyTest => EnergyTest,
         CheckKind.FrechetDistance => FrechetMax,
         CheckKind.KernelDistance => KernelDistanceMax,
+        CheckKind.SlicedKolmogorovSmirnov => SlicedKsMax,
+        CheckKind.SlicedWasserstein => SlicedWassersteinMax,
         CheckKind.ChiSquare2DTest => Chi2Test2D,
         _ => CheckTable.First(c => c.Kind == kind).Key,
     };

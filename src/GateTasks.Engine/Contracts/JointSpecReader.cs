@@ -28,6 +28,19 @@ internal static class JointSpecReader
             throw r.Error(ErrorCodes.ContractBadValue, e[ContractKeys.KernelDistanceMax],
                 $"{ContractKeys.KernelDistanceMax} takes at most {JointSpec.MaxKernelFeatures} joint features (its streamed sums grow as the cube of their number), the block has {list.Count}; " +
                 $"drop features or use {ContractKeys.FrechetMax}.");
+        var sliced = Sliced(r, e, ContractKeys.SlicedKsMax, CheckKind.SlicedKolmogorovSmirnov)
+            .Concat(Sliced(r, e, ContractKeys.SlicedWassersteinMax, CheckKind.SlicedWasserstein)).ToList();
+        var projections = JointSpec.DefaultProjections;
+        if (e.TryGetValue(ContractKeys.Projections, out var kn))
+        {
+            if (sliced.Count == 0)
+                throw r.Error(ErrorCodes.ContractBadValue, kn,
+                    $"joint.{ContractKeys.Projections} sets the directions of {ContractKeys.SlicedKsMax} and {ContractKeys.SlicedWassersteinMax}; the block states neither.");
+            projections = r.Integer(kn, $"joint.{ContractKeys.Projections}");
+            if (projections < JointSpec.MinProjections || projections > JointSpec.MaxProjections)
+                throw r.Error(ErrorCodes.ContractBadValue, kn,
+                    $"joint.{ContractKeys.Projections} must be between {JointSpec.MinProjections} and {JointSpec.MaxProjections}, got {projections}.");
+        }
         GoodnessOfFitTest? test = null;
         if (e.TryGetValue(ContractKeys.EnergyTest, out var testNode))
         {
@@ -35,9 +48,9 @@ internal static class JointSpecReader
                 throw r.Error(ErrorCodes.ContractBadValue, testNode, "energy-test takes 'on' (leave the key out to switch it off).");
             test = new GoodnessOfFitTest(CheckKind.EnergyTest, r.At(testNode));
         }
-        if (test is null && frechet is null && kernel is null)
+        if (test is null && frechet is null && kernel is null && sliced.Count == 0)
             throw r.Error(ErrorCodes.ContractMissingKey, mapping,
-                $"The joint check needs {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax}, {ContractKeys.EnergyTest} or several.");
+                $"The joint check needs {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax}, {ContractKeys.SlicedKsMax}, {ContractKeys.SlicedWassersteinMax}, {ContractKeys.EnergyTest} or several.");
         var subsample = JointSpec.DefaultSubsample;
         if (e.TryGetValue(ContractKeys.Subsample, out var sn))
         {
@@ -52,7 +65,31 @@ internal static class JointSpecReader
             if (permutations < 99 || permutations > 10_000)
                 throw r.Error(ErrorCodes.ContractBadValue, pn, $"joint.permutations must be between 99 and 10000, got {permutations}.");
         }
-        return new JointSpec(list, subsample, permutations, test, r.At(node)) { Frechet = frechet, KernelDistance = kernel };
+        return new JointSpec(list, subsample, permutations, test, r.At(node)) { Frechet = frechet, KernelDistance = kernel, Sliced = sliced, Projections = projections };
+    }
+
+    /// <summary>
+    /// A sliced key's tolerances: a mapping with <c>worst</c> and/or <c>mean</c>, each a positive, finite number (one
+    /// check each, worst first); anything else there is refused where it stands.
+    /// </summary>
+    private static IEnumerable<SlicedToleranceCheck> Sliced(YamlNodeReader r, Dictionary<string, YamlNode> entries, string key, CheckKind kind)
+    {
+        if (!entries.TryGetValue(key, out var v)) return [];
+        if (v is not YamlMappingNode map)
+            throw r.Error(ErrorCodes.ContractBadValue, v,
+                $"joint.{key} takes a mapping of tolerances, e.g. {{ {ContractKeys.Worst}: 0.02, {ContractKeys.Mean}: 0.01 }}, not a single value.");
+        var given = r.Entries(map, $"joint.{key}", ContractKeys.SlicedKeys).ToDictionary(x => x.Key, x => x.Value);
+        if (given.Count == 0)
+            throw r.Error(ErrorCodes.ContractMissingKey, v, $"joint.{key} needs {ContractKeys.Worst}, {ContractKeys.Mean} or both.");
+        var result = new List<SlicedToleranceCheck>();
+        foreach (var summary in ContractKeys.SlicedKeys)
+        {
+            if (!given.TryGetValue(summary, out var t)) continue;
+            var tolerance = r.Number(t, $"joint.{key}.{summary}");
+            if (!(tolerance > 0 && double.IsFinite(tolerance))) throw r.Error(ErrorCodes.ContractBadValue, t, $"joint.{key}.{summary} must be positive, got {tolerance}.");
+            result.Add(new SlicedToleranceCheck(kind, summary == ContractKeys.Mean, tolerance, r.At(t)));
+        }
+        return result;
     }
 
     /// <summary>A tolerance of the block: a positive, finite number (the distances are non-negative; 0 could never pass).</summary>

@@ -16,7 +16,8 @@ internal sealed record ReferenceHistograms(
     IReadOnlyList<ReferenceFeature> Features,
     IReadOnlyList<ReferenceCorrelation>? Correlations = null,
     ReferenceJointSample? Joint = null,
-    ReferenceJointMoments? JointMoments = null)
+    ReferenceJointMoments? JointMoments = null,
+    ReferenceSliced? Sliced = null)
 {
     /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>
     public double EffectiveEvents => Statistics.KishCount.Of(SumW, SumW2);
