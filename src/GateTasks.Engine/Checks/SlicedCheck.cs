@@ -60,8 +60,9 @@ internal static class SlicedCheck
             var boundary = bootstrap.BoundaryReplicas(measure, summary, reading.Estimate, check.Tolerance);
             var name = measure == SlicedMeasure.KolmogorovSmirnov ? "KS" : "W1/σ";
             var over = summary == SlicedSummary.Worst ? $"worst of {reference.Projections} projections (projection {reading.WorstProjection})" : $"mean of {reference.Projections} projections";
+            // DistanceDecision appends the uncorrected value and the error to this text, so the value comes last.
             result.Add((check, DistanceDecision.Measure(reading.Estimate, reading.Bias, reading.Errors, boundary, check, decision, sampleEvents,
-                $"sliced {name} {InvariantNumber.Short(Math.Max(0, reading.Estimate - reading.Bias))}, {over}; floor {InvariantNumber.Short(reading.Floor)}", own)));
+                $"sliced {name}, {over}, floor {InvariantNumber.Short(reading.Floor)}: {InvariantNumber.Short(Math.Max(0, reading.Estimate - reading.Bias))}", own)));
         }
         return result;
     }

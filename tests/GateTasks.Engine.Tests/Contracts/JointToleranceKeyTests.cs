@@ -70,7 +70,7 @@ public class JointToleranceKeyTests
     {
         var none = Fails(Contract("  subsample: 500"));
         Assert.Equal(ErrorCodes.ContractMissingKey, none.Code);
-        Assert.Contains("needs frechet-max, kernel-distance-max, energy-test or several", none.Message);
+        Assert.Contains("needs frechet-max, kernel-distance-max, sliced-ks-max, sliced-wasserstein-max, energy-test or several", none.Message);
         Assert.Equal(10, none.Location!.Line); // the block's mapping starts at its first key
         Assert.False(Valid(Contract("  subsample: 500")));
 
