@@ -79,7 +79,7 @@ public sealed class JointWeightsFormatTests : IDisposable
         Assert.Contains("error GATE2102", stdout + stderr);
         Assert.Contains("reference format 3", stdout + stderr);
         Assert.Contains("no event weights with its joint subsample", stdout + stderr);
-        Assert.Contains("rebuild it with 'gatetasks reference build' (format 6)", stdout + stderr);
+        Assert.Contains("rebuild it with 'gatetasks reference build' (format 7)", stdout + stderr);
         Assert.DoesNotContain("   at ", stdout + stderr);
     }
 }

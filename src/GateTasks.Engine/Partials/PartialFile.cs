@@ -25,7 +25,7 @@ namespace GateTasks.Engine.Partials;
 internal static class PartialFile
 {
     public const string Format = "gatetasks.partial";
-    public const int Version = 7; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights; 6: correlation moments kept per sign of weight; 7: the joint block's streamed moments and kernel sums; 8: its sliced histograms with their grid's digest
+    public const int Version = 8; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights; 6: correlation moments kept per sign of weight; 7: the joint block's streamed moments and kernel sums; 8: its sliced histograms with their grid's digest
 
     /// <summary>A sample file counted in a partial: its path where it was filled (for messages) and the XXH128 of its bytes (its identity).</summary>
     internal sealed record CountedFile(string Path, string Xxh128);
