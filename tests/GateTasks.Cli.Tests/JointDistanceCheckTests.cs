@@ -36,6 +36,8 @@ public sealed class JointDistanceCheckTests : IDisposable
           features: [a, b, c]
           frechet-max: 0.05
           kernel-distance-max: 0.2
+          sliced-ks-max: { worst: 0.2, mean: 0.1 }
+          sliced-wasserstein-max: { worst: 0.3, mean: 0.2 }
         """;
 
     /// <summary>The fixed data set of tests/fixtures/joint in the work folder, its contract reading <paramref name="sample"/>, and the reference built.</summary>
@@ -148,8 +150,17 @@ public sealed class JointDistanceCheckTests : IDisposable
         // by addition, so the numbers agree with one pass to rounding (docs/shards.md), and the verdicts are the same.
         var a = JointCases(whole);
         var b = JointCases(fanned);
-        Assert.Equal(["frechet-max", "kernel-distance-max"], a.Keys.Order());
-        foreach (var key in a.Keys)
+        string[] sliced = ["sliced-ks-max[mean]", "sliced-ks-max[worst]", "sliced-wasserstein-max[mean]", "sliced-wasserstein-max[worst]"];
+        Assert.Equal(["frechet-max", "kernel-distance-max", .. sliced], a.Keys.Order(StringComparer.Ordinal));
+        // The sliced histograms are exact sums (hi + lo terms in the partials), so every sliced number — estimate,
+        // bootstrap errors, floor, bounds — is the same to the last bit as one pass's (docs/shards.md).
+        foreach (var key in sliced)
+        {
+            Assert.Equal(a[key]["verdict"], b[key]["verdict"]);
+            foreach (var number in new[] { "estimate", "estimate_uncorrected", "bootstrap_bias", "standard_error", "floor", "lower_bound", "upper_bound", "worst_projection", "sample_rows" })
+                Assert.True(a[key][number] == b[key][number], $"{key} {number}: one pass {a[key][number]}, shards {b[key][number]}");
+        }
+        foreach (var key in new[] { "frechet-max", "kernel-distance-max" })
         {
             Assert.Equal(a[key]["verdict"], b[key]["verdict"]);
             foreach (var number in new[] { "estimate", "standard_error", "upper_bound" })
@@ -254,6 +265,7 @@ public sealed class JointDistanceCheckTests : IDisposable
         Assert.NotNull(json["content"]!["accumulation"]!["joint_moments"]);
         json["version"] = 6;
         json["content"]!["accumulation"]!.AsObject().Remove("joint_moments");
+        json["content"]!["accumulation"]!.AsObject().Remove("joint_sliced");
         File.WriteAllText(partial, json.ToJsonString());
         (code, stdout, stderr) = Cli.Run("check", "--contract", contractPath, "--partials", partial);
         // docs/error-codes.md: GATE2201, a partial of another version, filled again.
@@ -279,6 +291,7 @@ public sealed class JointDistanceCheckTests : IDisposable
             var header = JsonNode.Parse(reader.CustomMetadata[ReferenceFile.MetadataKey])!.AsObject();
             header["format"] = 5;
             header.Remove("joint_moments");
+            header.Remove("joint_sliced");
             await using var writer = await ParquetWriter.CreateAsync(reader.Schema, output);
             writer.CustomMetadata = new Dictionary<string, string> { [ReferenceFile.FormatKey] = "5", [ReferenceFile.MetadataKey] = header.ToJsonString() };
             using var rg = reader.OpenRowGroupReader(0);
@@ -312,7 +325,7 @@ public sealed class JointDistanceCheckTests : IDisposable
         Assert.Contains("error GATE2102", stdout + stderr);
         Assert.Contains("reference format 5", stdout + stderr);
         Assert.Contains("no streamed moments or kernel sums of its joint block", stdout + stderr);
-        Assert.Contains("rebuild it with 'gatetasks reference build' (format 6)", stdout + stderr);
+        Assert.Contains("rebuild it with 'gatetasks reference build' (format 7)", stdout + stderr);
         Assert.DoesNotContain("   at ", stdout + stderr);
     }
 }

@@ -15,7 +15,8 @@ internal sealed record AccumulatedSample(
     double SumW2,
     IReadOnlyList<AccumulatedFeature> Features,
     IReadOnlyList<AccumulatedPair> Pairs,
-    AccumulatedJointMoments? JointMoments = null);
+    AccumulatedJointMoments? JointMoments = null,
+    SlicedHistograms? Sliced = null);
 
 /// <summary>
 /// One feature, finished: its histogram on the reference's axis, unbinned summary, spike tally, far-tail counts, and

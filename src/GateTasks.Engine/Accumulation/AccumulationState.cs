@@ -14,7 +14,8 @@ internal sealed record AccumulationState(
     IReadOnlyList<double> SumW2,
     IReadOnlyList<FeatureState> Features,
     IReadOnlyList<PairState> Pairs,
-    JointMomentsState? JointMoments = null);
+    JointMomentsState? JointMoments = null,
+    SlicedState? Sliced = null);
 
 /// <summary>
 /// One feature's state: its exact histogram, its statistics (<see cref="FeatureStatistics.State"/>), spike tally,
@@ -34,3 +35,9 @@ internal sealed record PairState(string Name, IReadOnlyList<double> Pearson, IRe
 /// (null when not gathered) and each block's <see cref="CubicKernelFeatureSums.State"/> (null when not gathered).
 /// </summary>
 internal sealed record JointMomentsState(long Rows, long Skipped, IReadOnlyList<double>? Moments, IReadOnlyList<IReadOnlyList<double>>? Kernel);
+
+/// <summary>
+/// A joint block's sliced histograms as numbers: the <see cref="SlicedGrid.Digest"/> of the grid they were filled on
+/// and the counter's exact sums (<see cref="SlicedHistogramCounter.State"/>).
+/// </summary>
+internal sealed record SlicedState(string GridDigest, SlicedHistogramState Histograms);

@@ -9,8 +9,7 @@ namespace GateTasks.Engine.Accumulation;
 /// the Fréchet distance) and per-block weighted sums of the cubic kernel's feature map
 /// (<see cref="CubicKernelFeatureSums"/>, for the kernel distance). A row goes to block (its index within its file)
 /// mod <see cref="Blocks"/>, so one pass over several files and a merge of the files filled apart put every row in the
-/// same block. Rows with a non-finite value in any joint feature are skipped and counted, as the joint subsample skips
-/// rows with NaN. Everything is a sum, so shards merge; memory depends on d and B, never on the number of events.
+/// same block. Rows with a non-finite value in any joint feature are skipped and counted. Everything is a sum, so shards merge; memory depends on d and B, never on the number of events.
 /// </summary>
 internal sealed class JointMoments
 {

@@ -8,9 +8,9 @@ namespace GateTasks.Engine.Accumulation;
 /// <summary>
 /// Everything a check gathers from the surrogate sample, before any decision: per feature the histogram on the
 /// reference's binning, moments, spike and far-tail tallies; per declared pair the coefficients and 2-D cells; the
-/// joint block's streamed moments; the event totals. Accumulations of shards of one sample merge into that of the
-/// whole: histogram cells, tallies and totals exactly (they are exact sums), moments and coefficients to rounding
-/// (Chan, Golub &amp; LeVeque 1979).
+/// joint block's streamed moments and sliced histograms; the event totals. Accumulations of shards of one sample
+/// merge into that of the whole: histogram cells, tallies and totals exactly (they are exact sums), moments and
+/// coefficients to rounding (Chan, Golub &amp; LeVeque 1979).
 /// </summary>
 internal sealed class SampleAccumulation
 {
@@ -21,6 +21,9 @@ internal sealed class SampleAccumulation
     private readonly FineGridCounter?[] _fine;
     private readonly SpikeSeparation _spikes;
     private readonly JointMoments? _jointMoments;
+    private readonly SlicedHistogramCounter? _sliced;
+    private readonly string? _slicedDigest;
+    private readonly int[]? _slicedFeatures;
     private readonly IReadOnlyList<PairCorrelation> _pairs;
     private readonly ExactSum _sumW = new();
     private readonly ExactSum _sumW2 = new();
@@ -28,9 +31,10 @@ internal sealed class SampleAccumulation
     /// <summary>
     /// A fresh accumulation of <paramref name="contract"/>'s features, each on the reference's layout
     /// (<paramref name="layouts"/>, in contract order); a joint block with a streamed check standardises its rows by
-    /// the reference's <paramref name="joint"/> (required then).
+    /// the reference's <paramref name="joint"/> (required then); one with a sliced check fills its projections on the
+    /// reference's <paramref name="sliced"/> grid (required then).
     /// </summary>
-    public SampleAccumulation(PrecisionContract contract, IReadOnlyList<FeatureLayout> layouts, JointStandardisation? joint = null)
+    public SampleAccumulation(PrecisionContract contract, IReadOnlyList<FeatureLayout> layouts, JointStandardisation? joint = null, SlicedGrid? sliced = null)
     {
         Contract = contract;
         _batch = layouts.Select(r => new Histogram(r.Reference.Axis)).ToArray();
@@ -46,6 +50,13 @@ internal sealed class SampleAccumulation
                 joint ?? throw new ArgumentException("The joint block's streamed checks need the reference's standardisation.", nameof(joint)),
                 jm.Frechet is not null, jm.KernelDistance is not null)
             : null;
+        if (contract.Joint is { Slices: true } slicedSpec)
+        {
+            var grid = sliced ?? throw new ArgumentException("The joint block's sliced checks need the reference's grid.", nameof(sliced));
+            _sliced = grid.Counter();
+            _slicedDigest = grid.Digest;
+            _slicedFeatures = slicedSpec.Features.Select(f => index[f]).ToArray();
+        }
         _pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
             new MarginalCdf(layouts[index[p.First]].Reference), new MarginalCdf(layouts[index[p.Second]].Reference),
             p.Chi2 is null ? null : new Histogram2D(layouts[index[p.First]].Reference.Axis, layouts[index[p.Second]].Reference.Axis))).ToList();
@@ -76,6 +87,7 @@ internal sealed class SampleAccumulation
                 if (w < 0) NegativeWeightEvents++;
             foreach (var p in _pairs) p.Add(view);
             _jointMoments?.Add(view);
+            _sliced?.Add(view, _slicedFeatures!);
         }, pass);
         Events += totals.Events;
         _sumW.Add(totals.ExactSumW);
@@ -95,6 +107,7 @@ internal sealed class SampleAccumulation
         }
         for (var p = 0; p < _pairs.Count; p++) _pairs[p].Merge(other._pairs[p]);
         _jointMoments?.Merge(other._jointMoments!);
+        _sliced?.Merge(other._sliced!);
         Events += other.Events;
         NegativeWeightEvents += other.NegativeWeightEvents;
         _sumW.Add(other._sumW);
@@ -106,7 +119,8 @@ internal sealed class SampleAccumulation
         _histograms.Select((h, i) => new FeatureState(Contract.Features[i].Name, h.State(), _stats[i].State(),
             _spikes.Filters[i]?.State(), _farTail[i]?.State(), _fine[i]?.State())).ToList(),
         _pairs.Select(p => p.State()).ToList(),
-        _jointMoments?.State());
+        _jointMoments?.State(),
+        _sliced is null ? null : new SlicedState(_slicedDigest!, _sliced.State()));
 
     /// <summary>
     /// Sets a state in the form <see cref="State"/> gives it into this fresh accumulation; the name of what does not fit
@@ -149,6 +163,13 @@ internal sealed class SampleAccumulation
             if (_jointMoments.SetState(jm) is { } misfit) return misfit;
         }
         else if (state.JointMoments is not null) return "joint moments this contract does not ask for";
+        if (_sliced is not null)
+        {
+            if (state.Sliced is not { } sl) return "no sliced histograms";
+            // A different grid is told apart before this (GATE3026); here only the shape is checked.
+            if (sl.GridDigest != _slicedDigest || !_sliced.AddState(sl.Histograms)) return "sliced histograms on another grid";
+        }
+        else if (state.Sliced is not null) return "sliced histograms this contract does not ask for";
         Events = state.Events;
         NegativeWeightEvents = state.NegativeWeightEvents;
         foreach (var v in state.SumW) _sumW.Add(v);
@@ -161,5 +182,9 @@ internal sealed class SampleAccumulation
         _histograms.Select((h, i) => new AccumulatedFeature(h.ToHistogram(), _stats[i].Summary(), _spikes.Filters[i]?.Tally, _farTail[i]?.Counts,
             _fine[i]?.Finish())).ToList(),
         _pairs.Select(p => p.Finish()).ToList(),
-        _jointMoments?.Finish());
+        _jointMoments?.Finish(),
+        _sliced?.Finish());
+
+    /// <summary>The digest of the sliced grid this accumulation fills on, or null without sliced checks.</summary>
+    public string? SlicedGridDigest => _slicedDigest;
 }

@@ -6,7 +6,7 @@ namespace GateTasks.Engine.Accumulation;
 /// <summary>
 /// Puts a feature's declared spike apart before its values reach an accumulator: the values exactly equal to the spike
 /// are only tallied (<see cref="SpikeFilter"/>), the rest go on to the histogram and the continuous statistics. The
-/// whole-batch view (pairs, joint subsample) keeps the spikes.
+/// whole-batch view (pairs, the joint block) keeps the spikes.
 /// </summary>
 internal sealed class SpikeSeparation
 {

@@ -67,6 +67,8 @@ internal static class CheckEvaluator
         CheckKind.PearsonDifference or CheckKind.SpearmanDifference => Diagnostics.ErrorCodes.DriftCorrelation,
         CheckKind.FrechetDistance => Diagnostics.ErrorCodes.DriftFrechet,
         CheckKind.KernelDistance => Diagnostics.ErrorCodes.DriftKernelDistance,
+        CheckKind.SlicedKolmogorovSmirnov => Diagnostics.ErrorCodes.DriftSlicedKolmogorovSmirnov,
+        CheckKind.SlicedWasserstein => Diagnostics.ErrorCodes.DriftSlicedWasserstein,
         CheckKind.ChiSquare2DTest => Diagnostics.ErrorCodes.DriftChiSquare2D,
         _ => Diagnostics.ErrorCodes.DriftJensenShannon,
     };

@@ -72,6 +72,16 @@ internal static class ContractEvaluation
             if (streamed.KernelDistance is { } kernel)
                 measured.Add((subject, kernel, KernelDistanceCheck.Evaluate(stored, gathered, kernel, contract.Decision, sample.Events)));
         }
+        if (contract.Joint is { Slices: true } slicedSpec)
+        {
+            var stored = reference.Sliced is { } rs && rs.Grid.Features.SequenceEqual(slicedSpec.Features)
+                ? rs.Histograms
+                : throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                    $"The reference holds no sliced histograms of {slicedSpec.Name}; rebuild it with 'gatetasks reference build'.", slicedSpec.Location);
+            var subject = new JointSubject(slicedSpec);
+            foreach (var (check, m) in SlicedCheck.Evaluate(slicedSpec, stored, sample.Sliced, contract.Decision, sample.Events))
+                measured.Add((subject, check, m));
+        }
         // Two families: the tolerance checks decide the run; the goodness-of-fit tests are read apart, beside it.
         var tolerances = measured.Where(m => m.Item2 is not GoodnessOfFitTest).ToList();
         var tests = measured.Where(m => m.Item2 is GoodnessOfFitTest).Select(m => (m.Item1, (GoodnessOfFitTest)m.Item2, m.Item3)).ToList();

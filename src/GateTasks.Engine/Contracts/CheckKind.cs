@@ -53,6 +53,10 @@ internal enum CheckKind
     FrechetDistance,
     /// <summary>Unbiased squared maximum mean discrepancy of the standardised joint feature set, cubic polynomial kernel.</summary>
     KernelDistance,
+    /// <summary>Kolmogorov–Smirnov distance of the standardised joint feature set's K projections, worst or mean over them.</summary>
+    SlicedKolmogorovSmirnov,
+    /// <summary>Wasserstein-1 distance (in the reference's projected σ) of the joint feature set's K projections, worst or mean.</summary>
+    SlicedWasserstein,
     /// <summary>|Δ Pearson r| of a declared pair of features.</summary>
     PearsonDifference,
 

@@ -57,6 +57,12 @@ internal static class ContractKeys
     public const string Joint = "joint";
     public const string FrechetMax = "frechet-max";
     public const string KernelDistanceMax = "kernel-distance-max";
+    public const string SlicedKsMax = "sliced-ks-max";
+    public const string SlicedWassersteinMax = "sliced-wasserstein-max";
+    public const string Projections = "projections";
+    public const string Worst = "worst";
+    public const string Mean = "mean";
+    public static readonly string[] SlicedKeys = [Worst, Mean];
     /// <summary>Keys the joint block no longer takes: the energy test on a bounded subsample was retired.</summary>
     public static readonly string[] RetiredJointKeys = ["energy-test", "subsample", "permutations"];
     public const string PairFeatures = "features";
@@ -73,7 +79,7 @@ internal static class ContractKeys
     public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Acceptance, Defaults, Features, Correlations, Joint];
     public static readonly string[] AcceptanceKeys = [Ledger, Required, Tightening, Ratchet];
     public static readonly string[] TighteningPolicies = ["free", "record"];
-    public static readonly string[] JointKeys = [PairFeatures, FrechetMax, KernelDistanceMax];
+    public static readonly string[] JointKeys = [PairFeatures, FrechetMax, KernelDistanceMax, SlicedKsMax, SlicedWassersteinMax, Projections];
     public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax, Chi2Test2D];
     public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];
@@ -131,6 +137,8 @@ internal static class ContractKeys
         CheckKind.SpearmanDifference => SpearmanMax,
         CheckKind.FrechetDistance => FrechetMax,
         CheckKind.KernelDistance => KernelDistanceMax,
+        CheckKind.SlicedKolmogorovSmirnov => SlicedKsMax,
+        CheckKind.SlicedWasserstein => SlicedWassersteinMax,
         CheckKind.ChiSquare2DTest => Chi2Test2D,
         _ => CheckTable.First(c => c.Kind == kind).Key,
     };

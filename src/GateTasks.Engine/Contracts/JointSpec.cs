@@ -7,7 +7,9 @@ namespace GateTasks.Engine.Contracts;
 /// passes. Two tolerance checks use every event (streamed, weighted, mergeable across shards), each on the features
 /// standardised by the reference's weighted means and standard deviations: <see cref="Frechet"/> bounds the Fréchet
 /// distance between Gaussian fits, extrapolated to infinite size; <see cref="KernelDistance"/> bounds the unbiased
-/// squared maximum mean discrepancy with the cubic polynomial kernel. Each is optional, at least one is stated.
+/// squared maximum mean discrepancy with the cubic polynomial kernel; <see cref="Sliced"/> bound the worst and mean
+/// projected Kolmogorov–Smirnov and Wasserstein-1 distances over <see cref="Projections"/> fixed directions. Each
+/// is optional, at least one is stated.
 /// </summary>
 internal sealed record JointSpec(IReadOnlyList<string> Features, SourceLocation Location)
 {
@@ -23,6 +25,24 @@ internal sealed record JointSpec(IReadOnlyList<string> Features, SourceLocation 
     /// <summary>True when a streamed check is stated: every event's moments and kernel sums are gathered.</summary>
     public bool Streams => Frechet is not null || KernelDistance is not null;
 
+    /// <summary>Directions of the sliced checks when the contract states none.</summary>
+    public const int DefaultProjections = 64;
+
+    /// <summary>The fewest and most directions <c>projections</c> takes (memory and the bootstrap grow with K).</summary>
+    public const int MinProjections = 4, MaxProjections = 256;
+
+    /// <summary>The sliced tolerances (<c>sliced-ks-max</c>, <c>sliced-wasserstein-max</c>: worst and/or mean), in report order.</summary>
+    public IReadOnlyList<SlicedToleranceCheck> Sliced { get; init; } = [];
+
+    /// <summary>The number K of fixed directions the sliced checks project on.</summary>
+    public int Projections { get; init; } = DefaultProjections;
+
+    /// <summary>True when a sliced check is stated: every event's projections are histogrammed on the reference's grids.</summary>
+    public bool Slices => Sliced.Count > 0;
+
+    /// <summary>True when the reference's means and standard deviations of the joint features are needed (streamed or sliced checks).</summary>
+    public bool Standardises => Streams || Slices;
+
     /// <summary>Every check of the block, in report order.</summary>
     public IEnumerable<CheckSpec> Checks
     {
@@ -30,6 +50,7 @@ internal sealed record JointSpec(IReadOnlyList<string> Features, SourceLocation 
         {
             if (Frechet is not null) yield return Frechet;
             if (KernelDistance is not null) yield return KernelDistance;
+            foreach (var s in Sliced) yield return s;
         }
     }
 

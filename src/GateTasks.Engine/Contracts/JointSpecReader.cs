@@ -5,7 +5,8 @@ namespace GateTasks.Engine.Contracts;
 
 /// <summary>
 /// Reads the <c>joint</c> block: two or more features checked together by <c>frechet-max</c>, <c>kernel-distance-max</c>
-/// (tolerances), at least one of the two. The retired energy-test keys are refused with their own code.
+/// and the sliced <c>sliced-ks-max</c> and <c>sliced-wasserstein-max</c> (tolerances), at least one. The retired
+/// energy-test keys are refused with their own code.
 /// </summary>
 internal static class JointSpecReader
 {
@@ -16,7 +17,7 @@ internal static class JointSpecReader
             if (key is YamlScalarNode { Value: { } k } && ContractKeys.RetiredJointKeys.Contains(k))
                 throw r.Error(ErrorCodes.ContractRetiredKey, key,
                     $"joint.{k} was retired with the energy test, whose bounded subsample missed broken correlations; " +
-                    $"state {ContractKeys.FrechetMax} and/or {ContractKeys.KernelDistanceMax}, which use every event, and drop '{k}'.");
+                    $"state {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax}, {ContractKeys.SlicedKsMax} or {ContractKeys.SlicedWassersteinMax}, which use every event, and drop '{k}'.");
         var e = r.Entries(mapping, ContractKeys.Joint, ContractKeys.JointKeys).ToDictionary(x => x.Key, x => x.Value);
         var names = features.Select(f => f.Name).ToList();
         var list = r.Sequence(r.Require(mapping, ContractKeys.PairFeatures, "The joint check"), "joint.features").Children.Select(n =>
@@ -33,10 +34,47 @@ internal static class JointSpecReader
             throw r.Error(ErrorCodes.ContractBadValue, e[ContractKeys.KernelDistanceMax],
                 $"{ContractKeys.KernelDistanceMax} takes at most {JointSpec.MaxKernelFeatures} joint features (its streamed sums grow as the cube of their number), the block has {list.Count}; " +
                 $"drop features or use {ContractKeys.FrechetMax}.");
-        if (frechet is null && kernel is null)
+        var sliced = Sliced(r, e, ContractKeys.SlicedKsMax, CheckKind.SlicedKolmogorovSmirnov)
+            .Concat(Sliced(r, e, ContractKeys.SlicedWassersteinMax, CheckKind.SlicedWasserstein)).ToList();
+        var projections = JointSpec.DefaultProjections;
+        if (e.TryGetValue(ContractKeys.Projections, out var kn))
+        {
+            if (sliced.Count == 0)
+                throw r.Error(ErrorCodes.ContractBadValue, kn,
+                    $"joint.{ContractKeys.Projections} sets the directions of {ContractKeys.SlicedKsMax} and {ContractKeys.SlicedWassersteinMax}; the block states neither.");
+            projections = r.Integer(kn, $"joint.{ContractKeys.Projections}");
+            if (projections < JointSpec.MinProjections || projections > JointSpec.MaxProjections)
+                throw r.Error(ErrorCodes.ContractBadValue, kn,
+                    $"joint.{ContractKeys.Projections} must be between {JointSpec.MinProjections} and {JointSpec.MaxProjections}, got {projections}.");
+        }
+        if (frechet is null && kernel is null && sliced.Count == 0)
             throw r.Error(ErrorCodes.ContractMissingKey, mapping,
-                $"The joint check needs {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax} or both.");
-        return new JointSpec(list, r.At(node)) { Frechet = frechet, KernelDistance = kernel };
+                $"The joint check needs {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax}, {ContractKeys.SlicedKsMax}, {ContractKeys.SlicedWassersteinMax} or several.");
+        return new JointSpec(list, r.At(node)) { Frechet = frechet, KernelDistance = kernel, Sliced = sliced, Projections = projections };
+    }
+
+    /// <summary>
+    /// A sliced key's tolerances: a mapping with <c>worst</c> and/or <c>mean</c>, each a positive, finite number (one
+    /// check each, worst first); anything else there is refused where it stands.
+    /// </summary>
+    private static IEnumerable<SlicedToleranceCheck> Sliced(YamlNodeReader r, Dictionary<string, YamlNode> entries, string key, CheckKind kind)
+    {
+        if (!entries.TryGetValue(key, out var v)) return [];
+        if (v is not YamlMappingNode map)
+            throw r.Error(ErrorCodes.ContractBadValue, v,
+                $"joint.{key} takes a mapping of tolerances, e.g. {{ {ContractKeys.Worst}: 0.02, {ContractKeys.Mean}: 0.01 }}, not a single value.");
+        var given = r.Entries(map, $"joint.{key}", ContractKeys.SlicedKeys).ToDictionary(x => x.Key, x => x.Value);
+        if (given.Count == 0)
+            throw r.Error(ErrorCodes.ContractMissingKey, v, $"joint.{key} needs {ContractKeys.Worst}, {ContractKeys.Mean} or both.");
+        var result = new List<SlicedToleranceCheck>();
+        foreach (var summary in ContractKeys.SlicedKeys)
+        {
+            if (!given.TryGetValue(summary, out var t)) continue;
+            var tolerance = r.Number(t, $"joint.{key}.{summary}");
+            if (!(tolerance > 0 && double.IsFinite(tolerance))) throw r.Error(ErrorCodes.ContractBadValue, t, $"joint.{key}.{summary} must be positive, got {tolerance}.");
+            result.Add(new SlicedToleranceCheck(kind, summary == ContractKeys.Mean, tolerance, r.At(t)));
+        }
+        return result;
     }
 
     /// <summary>A tolerance of the block: a positive, finite number (the distances are non-negative; 0 could never pass).</summary>

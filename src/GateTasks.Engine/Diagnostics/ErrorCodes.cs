@@ -151,6 +151,15 @@ public static class ErrorCodes
     public const string DriftFrechet = "GATE3022";
     /// <summary>The unbiased kernel distance of the joint feature set shown above its tolerance (<c>kernel-distance-max</c>).</summary>
     public const string DriftKernelDistance = "GATE3023";
+    /// <summary>The worst or mean projected KS distance of the joint feature set shown above its tolerance (<c>sliced-ks-max</c>).</summary>
+    public const string DriftSlicedKolmogorovSmirnov = "GATE3024";
+    /// <summary>The worst or mean projected W1/σ of the joint feature set shown above its tolerance (<c>sliced-wasserstein-max</c>).</summary>
+    public const string DriftSlicedWasserstein = "GATE3025";
+    /// <summary>
+    /// Partial files whose sliced histograms were filled on other projections or grids than each other's or the
+    /// reference's (their grid digests differ): adding them cell by cell would mix different cells.
+    /// </summary>
+    public const string PartialSlicedGridMismatch = "GATE3026";
     /// <summary>The contract has no acceptance ledger (a warning, an error with <c>acceptance.required: on</c>).</summary>
     public const string LedgerMissing = "GATE4001";
     /// <summary>An accepted entry of the ledger was edited, removed or reordered.</summary>

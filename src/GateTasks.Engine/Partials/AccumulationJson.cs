@@ -1,6 +1,7 @@
 using System.Text.Json;
 using GateTasks.Engine.Accumulation;
 using GateTasks.Engine.Histograms;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Partials;
 
@@ -57,8 +58,46 @@ internal static class AccumulationJson
             if (moments.Kernel is { } k) PartialNumbers.WriteJagged(w, "kernel_sums", k);
             w.WriteEndObject();
         }
+        if (state.Sliced is { } sliced)
+        {
+            w.WriteStartObject("joint_sliced");
+            w.WriteString("grid_sha256", sliced.GridDigest);
+            w.WriteNumber("groups", sliced.Histograms.Groups);
+            w.WriteNumber("rows", sliced.Histograms.Rows);
+            w.WriteNumber("skipped", sliced.Histograms.Skipped);
+            WriteExactSums(w, "group_cells", sliced.Histograms.GroupCells);
+            WriteExactSums(w, "squares", sliced.Histograms.CellSquares);
+            WriteExactSums(w, "moments", sliced.Histograms.Moments);
+            w.WriteEndObject();
+        }
         w.WriteEndObject();
     }
+
+    /// <summary>The grid digest a partial's sliced histograms were filled on, or null when it has none.</summary>
+    public static string? SlicedGridDigest(JsonElement accumulation) =>
+        accumulation.TryGetProperty("joint_sliced", out var s) ? s.GetProperty("grid_sha256").GetString() : null;
+
+    /// <summary>An exact-sum array as its two leading terms per sum and the sums held in full.</summary>
+    private static void WriteExactSums(Utf8JsonWriter w, string name, ExactSumArrayState state)
+    {
+        w.WriteStartObject(name);
+        PartialNumbers.WriteArray(w, "high", state.High);
+        PartialNumbers.WriteArray(w, "low", state.Low);
+        w.WriteStartArray("spilled");
+        foreach (var s in state.Spilled)
+        {
+            w.WriteStartObject();
+            w.WriteNumber("index", s.Index);
+            PartialNumbers.WriteArray(w, "terms", s.Terms);
+            w.WriteEndObject();
+        }
+        w.WriteEndArray();
+        w.WriteEndObject();
+    }
+
+    private static ExactSumArrayState ReadExactSums(JsonElement e) => new(
+        PartialNumbers.ReadArray(e.GetProperty("high")), PartialNumbers.ReadArray(e.GetProperty("low")),
+        e.GetProperty("spilled").EnumerateArray().Select(s => new SpilledSum(s.GetProperty("index").GetInt32(), PartialNumbers.ReadArray(s.GetProperty("terms")))).ToList());
 
     /// <summary>Parses what <see cref="Write"/> wrote; a missing or mistyped property throws (the partial is damaged).</summary>
     public static AccumulationState Read(JsonElement e)
@@ -82,8 +121,13 @@ internal static class AccumulationJson
                 jm.TryGetProperty("moments", out var m) ? PartialNumbers.ReadArray(m) : null,
                 jm.TryGetProperty("kernel_sums", out var k) ? PartialNumbers.ReadJagged(k) : null)
             : null;
+        var sliced = e.TryGetProperty("joint_sliced", out var sl)
+            ? new SlicedState(sl.GetProperty("grid_sha256").GetString()!, new SlicedHistogramState(sl.GetProperty("groups").GetInt32(),
+                ReadExactSums(sl.GetProperty("group_cells")), ReadExactSums(sl.GetProperty("squares")), ReadExactSums(sl.GetProperty("moments")),
+                sl.GetProperty("rows").GetInt64(), sl.GetProperty("skipped").GetInt64()))
+            : null;
         return new AccumulationState(e.GetProperty("events").GetInt64(), e.GetProperty("negative_weight_events").GetInt64(),
-            PartialNumbers.ReadArray(e.GetProperty("sum_w")), PartialNumbers.ReadArray(e.GetProperty("sum_w2")), features, pairs, moments);
+            PartialNumbers.ReadArray(e.GetProperty("sum_w")), PartialNumbers.ReadArray(e.GetProperty("sum_w2")), features, pairs, moments, sliced);
     }
 
     /// <summary>A feature's fine-grid cells (kept for a Wasserstein check) and its four tail moments, as exact terms.</summary>

@@ -19,6 +19,9 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
     /// <summary>The standardisation of the joint block's streamed checks (the reference's), or null without them.</summary>
     public JointStandardisation? JointStandardisation => Contract.Joint is { Streams: true } ? Reference.JointMoments?.Standardisation : null;
 
+    /// <summary>The grid of the joint block's sliced checks (the reference's), or null without them.</summary>
+    public SlicedGrid? SlicedGrid => Contract.Joint is { Slices: true } ? Reference.Sliced?.Grid : null;
+
     /// <summary>Reads the contract's reference and matches every feature to it.</summary>
     public static MatchedReference Load(PrecisionContract contract)
     {
@@ -30,6 +33,7 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
         // Again at check: a reference built before this rule, or a contract's regions changed since, is caught here.
         for (var i = 0; i < references.Count; i++) BinCoverage.Verify(contract.Features[i], references[i]);
         if (contract.Joint is { Streams: true } joint) VerifyJointMoments(joint, reference, referencePath);
+        if (contract.Joint is { Slices: true } sliced) VerifySliced(sliced, reference, referencePath);
         return new MatchedReference(contract, reference, referencePath, FileDigest.Sha256(referencePath), references);
     }
 
@@ -44,6 +48,22 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
         var missing = stored is null || !stored.Features.SequenceEqual(joint.Features) ? $"no streamed moments of {joint.Name}"
             : joint.Frechet is not null && stored.State.Moments is null ? $"no covariance moments of {joint.Name}, which its {ContractKeys.FrechetMax} check reads"
             : joint.KernelDistance is not null && stored.State.Kernel is null ? $"no kernel sums of {joint.Name}, which its {ContractKeys.KernelDistanceMax} check reads"
+            : null;
+        if (missing is not null)
+            throw new GateInputException(ErrorCodes.ReferenceMismatch,
+                $"The reference {Path.GetFileName(referencePath)} holds {missing} (it was built for another joint block); rebuild it with 'gatetasks reference build'.",
+                joint.Location);
+    }
+
+    /// <summary>
+    /// The sliced checks read the reference's grid and histograms of the same features and number of projections: a
+    /// reference without them, or built for another joint set or K, is refused (GATE2103) with the command that rebuilds it.
+    /// </summary>
+    private static void VerifySliced(JointSpec joint, ReferenceHistograms reference, string referencePath)
+    {
+        var stored = reference.Sliced;
+        var missing = stored is null || !stored.Grid.Features.SequenceEqual(joint.Features) ? $"no sliced histograms of {joint.Name}"
+            : stored.Grid.Projections != joint.Projections ? $"sliced histograms of {joint.Name} over {stored.Grid.Projections} projections, the contract asks for {joint.Projections}"
             : null;
         if (missing is not null)
             throw new GateInputException(ErrorCodes.ReferenceMismatch,

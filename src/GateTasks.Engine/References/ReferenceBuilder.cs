@@ -44,12 +44,15 @@ internal static class ReferenceBuilder
         var jointIndex = contract.Joint?.Features.Select(name => features.ToList().FindIndex(f => f.Name == name)).ToArray();
         // The streamed joint checks standardise by the reference's own means and spreads over its joint rows: found in
         // this pass (raw units), applied in the next.
-        var jointScale = contract.Joint is { Streams: true } ? new JointMoments(jointIndex!, JointStandardisation.Identity(jointIndex!.Length), true, false) : null;
+        var jointScale = contract.Joint is { Standardises: true } ? new JointMoments(jointIndex!, JointStandardisation.Identity(jointIndex!.Length), true, false) : null;
         // Each pass puts the declared spikes apart; the first one's tallies are the reference's.
         var spikes = new SpikeSeparation(features);
+        // The sliced grids span the box of the joint features' ranges over the rows the projections take (all finite).
+        var slicedRange = contract.Joint is { Slices: true } ? new SlicedRange(jointIndex!) : null;
         var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)), view =>
         {
             jointScale?.Add(view);
+            slicedRange?.Add(view);
         }, pass);
         if (totals.Events == 0 && contract.Selection is { } selection && sample.RowsRead > 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
@@ -91,8 +94,15 @@ internal static class ReferenceBuilder
         }
 
         var jointStandardisation = jointScale is null ? null : JointScale(contract.Joint!, jointScale);
-        var jointMoments = jointStandardisation is null ? null
+        var jointMoments = jointStandardisation is null || !contract.Joint!.Streams ? null
             : new JointMoments(jointIndex!, jointStandardisation, contract.Joint!.Frechet is not null, contract.Joint.KernelDistance is not null);
+
+        // The sliced checks' directions, drawn from the feature names, and the reference's standardisation: their grids are
+        // found in pass 2, the reference's histograms on them filled in pass 3.
+        var slicedProjection = slicedRange is null ? null
+            : new Statistics.SlicedProjection(Statistics.SlicedDirections.Draw(contract.Joint!.Features, contract.Joint.Projections),
+                jointStandardisation!.Means, jointStandardisation.StandardDeviations);
+        var slicedGrids = slicedProjection is null ? null : new SlicedGridBuilder(slicedProjection, slicedRange!.Minimum, slicedRange.Maximum);
 
         // Pass 2: fine quantile grids and directly binned histograms (and the joint block's streamed moments).
         var grids = new QuantileGrid?[n];
@@ -113,7 +123,11 @@ internal static class ReferenceBuilder
         {
             grids[i]?.Fine.Fill(values, weights);
             direct[i]?.Fill(values, weights);
-        }), view => jointMoments?.Add(view), pass.For("reference pass 2 (quantile grids)"));
+        }), view =>
+        {
+            jointMoments?.Add(view);
+            slicedGrids?.Add(view, jointIndex!);
+        }, pass.For("reference pass 2 (quantile grids)"));
 
         var result = new List<ReferenceFeature>();
         for (var i = 0; i < n; i++)
@@ -139,7 +153,9 @@ internal static class ReferenceBuilder
             ? new FarTailCounter(t.Low, t.High) : null).ToArray();
         var fine = features.Select((f, i) => f.NeedsFineGrid && grids[i] is { } g
             ? new FineGridCounter(g.FineEdges(FineGridBins, FineGridTailLevels)) : null).ToArray();
-        if (contract.Pairs.Count > 0 || farTail.Any(t => t is not null) || fine.Any(g => g is not null))
+        var slicedEdges = slicedGrids?.Edges();
+        var slicedCounter = slicedEdges is null ? null : new SlicedHistogramCounter(slicedProjection!, slicedEdges);
+        if (contract.Pairs.Count > 0 || farTail.Any(t => t is not null) || fine.Any(g => g is not null) || slicedCounter is not null)
         {
             var index = features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
             var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
@@ -152,7 +168,8 @@ internal static class ReferenceBuilder
             }), view =>
             {
                 foreach (var p in pairs) p.Add(view);
-            }, pass.For("reference pass 3 (correlations, far tails, fine grids)"));
+                slicedCounter?.Add(view, jointIndex!);
+            }, pass.For("reference pass 3 (correlations, far tails, fine grids, sliced histograms)"));
             foreach (var p in pairs.Select(p => p.Finish()))
             {
                 if (double.IsNaN(p.Pearson) || double.IsNaN(p.Spearman))
@@ -171,7 +188,25 @@ internal static class ReferenceBuilder
         var inputs = files.Select(p => new ReferenceInput(Path.GetFileName(p), new FileInfo(p).Length, FileDigest.Sha256(p))).ToList();
         return new ReferenceHistograms(ReferenceFile.FormatVersion, DateTimeOffset.UtcNow, toolVersion, inputs,
             weightColumn, totals.Events, totals.SumW, totals.SumW2, result, correlations,
-            jointMoments is null ? null : new ReferenceJointMoments(contract.Joint!.Features, jointStandardisation!, jointMoments.State()));
+            jointMoments is null ? null : new ReferenceJointMoments(contract.Joint!.Features, jointStandardisation!, jointMoments.State()),
+            slicedCounter is null ? null : SlicedReference(contract.Joint!, slicedProjection!, slicedEdges!, jointStandardisation!, slicedCounter));
+    }
+
+    /// <summary>
+    /// The sliced grid and the reference's histograms on it; a reference with no row the projections take, or whose
+    /// projected spread is not positive, is refused (GATE2009), since W1 is given in units of that spread.
+    /// </summary>
+    private static ReferenceSliced SlicedReference(JointSpec spec, Statistics.SlicedProjection projection, double[][] edges,
+        JointStandardisation standardisation, SlicedHistogramCounter counter)
+    {
+        var histograms = counter.Finish();
+        for (var k = 0; k < histograms.Projections; k++)
+            if (!(histograms.StandardDeviation[k] > 0) || !(histograms.TotalSumW(k) > 0))
+                throw new GateInputException(ErrorCodes.ReferenceNoSpread,
+                    $"Projection {k} of {spec.Name} has total weight {InvariantNumber.Short(histograms.TotalSumW(k))} and spread {InvariantNumber.Short(histograms.StandardDeviation[k])} " +
+                    $"over the reference's {InvariantNumber.Count(histograms.Rows)} rows: its sliced checks need a positive total and spread along every direction.", spec.Location);
+        var grid = new SlicedGrid(spec.Features, projection.Directions, standardisation.Means.ToArray(), standardisation.StandardDeviations.ToArray(), edges);
+        return new ReferenceSliced(grid, histograms);
     }
 
     /// <summary>

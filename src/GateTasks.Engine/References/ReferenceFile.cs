@@ -17,12 +17,12 @@ namespace GateTasks.Engine.References;
 /// <c>gatetasks.reference</c> holds a JSON header with provenance, per-feature statistics and the SHA-256 of the
 /// whole content (<see cref="ReferenceDigest"/>), verified on every read. Version 1 had no digest, version 2 no
 /// fourth-moment variance of its correlations, version 3 neither a fine grid for a Wasserstein check nor event weights of its joint subsample, version 4 (never
-/// released) no event weights of its joint subsample, version 5 no streamed moments or kernel sums of its joint block;
-/// each is refused with the command that rebuilds it.
+/// released) no event weights of its joint subsample, version 5 no streamed moments or kernel sums of its joint block,
+/// version 6 no sliced grid or histograms of its joint block; each is refused with the command that rebuilds it.
 /// </summary>
 internal static class ReferenceFile
 {
-    public const int FormatVersion = 6; // 6: the joint block's streamed moments and kernel sums (JointMomentsEntry)
+    public const int FormatVersion = 7; // 6: the joint block's streamed moments and kernel sums (JointMomentsEntry); 7: its sliced grid and histograms (SlicedEntry)
     public const string MetadataKey = "gatetasks.reference";
     public const string FormatKey = "gatetasks.reference.format";
 
@@ -124,6 +124,9 @@ internal static class ReferenceFile
                     $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt is "3" or "4" or "5")
                 throw Unreadable(path, $"it is in reference format {fmt}, which stores no streamed moments or kernel sums of its joint block, so frechet-max and kernel-distance-max could not be checked; " +
+                    $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+            if (fmt == "6")
+                throw Unreadable(path, "it is in reference format 6, which stores no sliced grid or histograms of its joint block, so sliced-ks-max and sliced-wasserstein-max could not be checked; " +
                     $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt != FormatVersion.ToString(CultureInfo.InvariantCulture))
                 throw Unreadable(path, $"reference format version {fmt} is not supported; this GateTasks reads version {FormatVersion}");
@@ -244,6 +247,7 @@ internal static class ReferenceFile
             ["inputs"] = inputs,
             ["features"] = features,
             [JointMomentsKey] = r.JointMoments is { } jm ? JointMomentsEntry(jm) : null,
+            [SlicedKey] = r.Sliced is { } sl ? SlicedEntry(sl) : null,
             ["correlations"] = new JsonArray((r.Correlations ?? []).Select(c => (JsonNode)new JsonObject
             {
                 ["first"] = c.First, ["second"] = c.Second, ["pearson"] = c.Pearson, ["spearman"] = c.Spearman, ["effective_count"] = c.EffectiveCount,
@@ -307,7 +311,67 @@ internal static class ReferenceFile
                     (double)c["pearson_variance"]!, (double)c["spearman_variance"]!,
                     (c["cells_2d_sum_w"] as JsonArray)?.Select(v => (double)v!).ToArray(), (c["cells_2d_sum_w2"] as JsonArray)?.Select(v => (double)v!).ToArray())).ToList()
                 : [],
-            JointMoments: h[JointMomentsKey] is JsonObject moments ? ReadJointMoments(moments) : null);
+            JointMoments: h[JointMomentsKey] is JsonObject moments ? ReadJointMoments(moments) : null,
+            Sliced: h[SlicedKey] is JsonObject sliced ? ReadSliced(sliced) : null);
+    }
+
+    private const string SlicedKey = "joint_sliced";
+
+    private static JsonArray Jagged(IEnumerable<double[]> rows) => new(rows.Select(r => (JsonNode)Numbers(r)).ToArray());
+
+    /// <summary>
+    /// The joint block's sliced grid and the reference's histograms on it (format 7 on, only for a block with a sliced
+    /// check): features, directions [k·d + j], the standardisation, per projection its edges, packed cells and their Σw²
+    /// (<see cref="SlicedHistograms"/>), each group's packed cells, the projected mean and standard deviation, and the
+    /// rows taken and skipped.
+    /// </summary>
+    private static JsonObject SlicedEntry(ReferenceSliced s) => new()
+    {
+        ["features"] = new JsonArray(s.Grid.Features.Select(f => (JsonNode)JsonValue.Create(f)!).ToArray()),
+        ["projections"] = s.Grid.Projections,
+        ["groups"] = s.Histograms.Groups,
+        ["directions"] = Numbers(s.Grid.Directions),
+        ["means"] = Numbers(s.Grid.Means),
+        ["standard_deviations"] = Numbers(s.Grid.StandardDeviations),
+        ["edges"] = Jagged(s.Grid.Edges),
+        ["cells"] = Jagged(s.Histograms.Cells),
+        ["squares"] = Jagged(s.Histograms.Squares),
+        ["group_cells"] = new JsonArray(s.Histograms.GroupCells.Select(g => (JsonNode)Jagged(g)).ToArray()),
+        ["projected_means"] = Numbers(s.Histograms.Mean),
+        ["projected_standard_deviations"] = Numbers(s.Histograms.StandardDeviation),
+        ["rows"] = s.Histograms.Rows,
+        ["skipped"] = s.Histograms.Skipped,
+    };
+
+    /// <summary>Reads what <see cref="SlicedEntry"/> wrote; numbers that do not fit each other are damage.</summary>
+    private static ReferenceSliced ReadSliced(JsonObject s)
+    {
+        static double[] Read(JsonNode? n) => n!.AsArray().Select(v => (double)v!).ToArray();
+        static double[][] ReadJagged(JsonNode? n) => n!.AsArray().Select(Read).ToArray();
+        var features = s["features"]!.AsArray().Select(f => (string)f!).ToList();
+        var k = (int)s["projections"]!;
+        var groups = (int)s["groups"]!;
+        var grid = new SlicedGrid(features, Read(s["directions"]), Read(s["means"]), Read(s["standard_deviations"]), ReadJagged(s["edges"]));
+        var cells = ReadJagged(s["cells"]);
+        var squares = ReadJagged(s["squares"]);
+        var groupCells = s["group_cells"]!.AsArray().Select(ReadJagged).ToArray();
+        var mean = Read(s["projected_means"]);
+        var sd = Read(s["projected_standard_deviations"]);
+        var d = features.Count;
+        if (k < 1 || groups < 2 || grid.Directions.Length != k * d || grid.Means.Length != d || grid.StandardDeviations.Length != d || grid.Edges.Length != k
+            || cells.Length != k || squares.Length != k || groupCells.Length != k || mean.Length != k || sd.Length != k)
+            throw new FormatException($"the sliced histograms do not fit {k} projections of {d} features");
+        for (var p = 0; p < k; p++)
+        {
+            var length = grid.Edges[p].Length + 3; // below moment, the cells with both flows, above moment
+            if (cells[p].Length != length || squares[p].Length != length || groupCells[p].Length != groups || groupCells[p].Any(g => g.Length != length))
+                throw new FormatException($"projection {p}'s sliced cells do not fit its {grid.Edges[p].Length} edges");
+        }
+        // Built once here so that damage (edges not increasing, a spread not positive) is found on reading.
+        _ = grid.Projection();
+        foreach (var e in grid.Edges) _ = new SlicedCellLookup(e);
+        var histograms = new SlicedHistograms(grid.Directions, grid.Edges, cells, squares, groupCells, mean, sd, (long)s["rows"]!, (long)s["skipped"]!);
+        return new ReferenceSliced(grid, histograms);
     }
 
     private const string JointMomentsKey = "joint_moments";

@@ -15,7 +15,8 @@ internal sealed record ReferenceHistograms(
     double SumW2,
     IReadOnlyList<ReferenceFeature> Features,
     IReadOnlyList<ReferenceCorrelation>? Correlations = null,
-    ReferenceJointMoments? JointMoments = null)
+    ReferenceJointMoments? JointMoments = null,
+    ReferenceSliced? Sliced = null)
 {
     /// <summary>Kish (1965) effective number of events, (Σw)²/Σw².</summary>
     public double EffectiveEvents => Statistics.KishCount.Of(SumW, SumW2);

@@ -102,7 +102,7 @@ internal static class ContractRun
     /// <summary>Streams one sample (or one shard of it) into a new accumulation.</summary>
     internal static SampleAccumulation Accumulate(MatchedReference setup, OpenedSample opened)
     {
-        var accumulation = new SampleAccumulation(setup.Contract, setup.Layouts, setup.JointStandardisation);
+        var accumulation = new SampleAccumulation(setup.Contract, setup.Layouts, setup.JointStandardisation, setup.SlicedGrid);
         accumulation.Read(opened.Sample, opened.Inputs, opened.Pass);
         return accumulation;
     }

@@ -30,4 +30,27 @@ public class JointToleranceCalibrationTests
         Assert.Contains("2 checks replicated (2 per feature, 0 on pairs)", table);
         Assert.Contains("Not calibrated (a reference keeps no rows to draw the joint law from; the rates below leave them out): frechet-max of joint(x,y), kernel-distance-max of joint(x,y).", table);
     }
+
+    [Fact]
+    public void The_sliced_checks_are_listed_as_not_calibrated_each_summary_apart()
+    {
+        var contract = ContractLoader.Parse("""
+            contract-version: 1
+            sample: s.parquet
+            reference: r.parquet
+            features:
+              - name: x
+                checks: { ks-max: 0.05 }
+              - name: y
+                checks: { ks-max: 0.05 }
+            joint:
+              features: [x, y]
+              sliced-ks-max: { worst: 0.03 }
+              sliced-wasserstein-max: { worst: 0.05, mean: 0.02 }
+            """, "c.yaml");
+        var table = CalibrationTable.Format(contract, []);
+        Assert.Contains("2 checks (2 per feature, 0 on pairs, 0 joint)", table);
+        Assert.Contains("Not calibrated (no replica draws the joint law for them; the rates below leave them out): " +
+            "sliced-ks-max[worst] of joint(x,y), sliced-wasserstein-max[worst] of joint(x,y), sliced-wasserstein-max[mean] of joint(x,y).", table);
+    }
 }

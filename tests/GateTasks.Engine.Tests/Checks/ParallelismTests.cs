@@ -21,8 +21,7 @@ public sealed class ParallelismTests : IDisposable
     public void One_two_and_three_threads_give_identical_reports()
     {
         var contractPath = Path.Combine(_dir, DemoContract.FileName);
-        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet")
-            .Replace("subsample: 1000", "subsample: 300"));
+        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet"));
         var contract = ContractLoader.Load(contractPath);
         var fullsim = Path.Combine(_dir, "fullsim.parquet");
         DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 200_000, 21, 50_000);

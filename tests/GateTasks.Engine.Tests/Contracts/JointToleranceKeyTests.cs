@@ -67,7 +67,7 @@ public class JointToleranceKeyTests
         var none = Fails("contract-version: 1\nsample: s.parquet\nreference: r.parquet\nfeatures:\n  - name: x\n    checks: { ks-max: 0.05 }\n" +
                          "  - name: y\n    checks: { ks-max: 0.05 }\njoint:\n  features: [x, y]\n");
         Assert.Equal(ErrorCodes.ContractMissingKey, none.Code);
-        Assert.Contains("needs frechet-max, kernel-distance-max or both", none.Message);
+        Assert.Contains("needs frechet-max, kernel-distance-max, sliced-ks-max, sliced-wasserstein-max or several", none.Message);
         Assert.Equal(10, none.Location!.Line); // the block's mapping starts at its first key
 
         var misspelt = Fails(Contract("  frechet-mx: 0.02"));
