@@ -311,4 +311,25 @@ public sealed class SlicedJointCheckTests : IDisposable
         Assert.Contains("precision-contract.yaml(13,18): error GATE1004: joint.sliced-ks-max takes a mapping of tolerances", stderr);
         Assert.DoesNotContain("   at ", stdout + stderr);
     }
+
+    [Fact]
+    public void Plan_and_calibrate_list_the_sliced_checks_apart_and_never_count_them_as_perfect()
+    {
+        var contractPath = FixtureSetup();
+        var (code, stdout, stderr) = Cli.Run("plan", "--contract", contractPath, "--replicas", "20");
+        // docs/contract.md, "Joint structure": plan lists the joint block's checks as not planned (its replicas draw each
+        // feature or pair on its own), and its table holds only the checks it simulated.
+        Assert.True(code == 0, stdout + stderr);
+        Assert.Contains("Not planned", stdout);
+        foreach (var label in new[] { "sliced-ks-max[worst]", "sliced-ks-max[mean]", "sliced-wasserstein-max[worst]", "sliced-wasserstein-max[mean]" })
+        {
+            Assert.Contains($"{label} of a, b, c", stdout);
+            Assert.DoesNotMatch($@"\|\s*[^|]*\|\s*{System.Text.RegularExpressions.Regex.Escape(label)}\s*\|", stdout);
+        }
+
+        (code, stdout, stderr) = Cli.Run("calibrate", "--contract", contractPath, "--replicas", "5", "--events", "4000");
+        Assert.True(code is 0 or 1, stdout + stderr);
+        Assert.Contains("Not calibrated (no replica draws the joint law for them; the rates below leave them out): " +
+            "sliced-ks-max[worst] of joint(a,b,c), sliced-ks-max[mean] of joint(a,b,c), sliced-wasserstein-max[worst] of joint(a,b,c), sliced-wasserstein-max[mean] of joint(a,b,c).", stdout);
+    }
 }
