@@ -51,35 +51,57 @@ internal sealed class SlicedGridBuilder
         }
     }
 
-    /// <summary>Adds rows given column by column; rows with a non-finite value are left out, as the counter leaves them out.</summary>
-    private void Add(IReadOnlyList<double[]> columns, ReadOnlySpan<double> weights)
-    {
-        var rows = columns[0].Length;
-        for (var r = 0; r < rows; r++)
-        {
-            var ok = true;
-            for (var j = 0; j < _row.Length; j++)
-            {
-                _row[j] = columns[j][r];
-                ok &= double.IsFinite(_row[j]);
-            }
-            if (!ok) continue;
-            var w = weights.IsEmpty ? 1.0 : weights[r];
-            for (var k = 0; k < _grids.Length; k++)
-            {
-                var p = _projection.ProjectRow(_row, k);
-                _grids[k].Fine.Fill(p, w);
-                _lowest[k] = Math.Min(_lowest[k], p);
-                _highest[k] = Math.Max(_highest[k], p);
-            }
-        }
-    }
+    /// <summary>Rows projected at a time: the projections of a chunk are filled into each grid in one call.</summary>
+    private const int ChunkRows = 32_768;
 
-    /// <summary>Adds one batch of the reference's rows: the values of <paramref name="features"/> in the projection's order.</summary>
+    private double[][]? _columns;
+    private double[]? _weights;
+    private double[]? _projected;
+
+    /// <summary>
+    /// Adds one batch of the reference's rows: the values of <paramref name="features"/> in the projection's order. Rows
+    /// with a non-finite value are left out, as the counter leaves them out. The finite rows are projected a chunk at a
+    /// time (<see cref="SlicedProjection.Project"/>, the same arithmetic as the counter's) and each projection's values
+    /// filled into its grid in one call, which gives the same sums as filling them one by one.
+    /// </summary>
     public void Add(FeatureView view, IReadOnlyList<int> features)
     {
-        var columns = features.Select(f => view.Feature(f).ToArray()).ToArray();
-        Add(columns, view.Weights);
+        var d = _row.Length;
+        if (features.Count != d) throw new ArgumentException($"{features.Count} features for a projection of {d}.", nameof(features));
+        _columns ??= Enumerable.Range(0, d).Select(_ => new double[ChunkRows]).ToArray();
+        _weights ??= new double[ChunkRows];
+        _projected ??= new double[_grids.Length * ChunkRows];
+        var weights = view.Weights;
+        var kept = 0;
+        for (var r = 0; r < view.Rows; r++)
+        {
+            var ok = true;
+            for (var j = 0; j < d && ok; j++) ok = double.IsFinite(view.Feature(features[j])[r]);
+            if (!ok) continue;
+            for (var j = 0; j < d; j++) _columns[j][kept] = view.Feature(features[j])[r];
+            _weights[kept] = weights.IsEmpty ? 1.0 : weights[r];
+            if (++kept == ChunkRows)
+            {
+                Flush(kept, !weights.IsEmpty);
+                kept = 0;
+            }
+        }
+        if (kept > 0) Flush(kept, !weights.IsEmpty);
+    }
+
+    private void Flush(int rows, bool weighted)
+    {
+        _projection.Project(_columns!, rows, _projected!, ChunkRows);
+        for (var k = 0; k < _grids.Length; k++)
+        {
+            var values = _projected.AsSpan(k * ChunkRows, rows);
+            _grids[k].Fine.Fill(values, weighted ? _weights.AsSpan(0, rows) : ReadOnlySpan<double>.Empty);
+            foreach (var p in values)
+            {
+                if (p < _lowest[k]) _lowest[k] = p;
+                if (p > _highest[k]) _highest[k] = p;
+            }
+        }
     }
 
     /// <summary>

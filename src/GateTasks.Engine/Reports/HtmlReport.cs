@@ -184,7 +184,7 @@ internal static class HtmlReport
     private static string NoPlotNote(FeatureOutcomes s) => s.Outcomes[0].Subject switch
     {
         PairSubject => "A declared pair of features: its correlations (or 2-D histogram) are compared directly, with no 1-D plot.",
-        JointSubject => "Distances over a feature set taken together, from every event: no 1-D plot.",
+        JointSubject => "Distances over a feature set taken together (moments, kernel sums, projections), from every event: no 1-D plot.",
         _ => "No histogram to plot.",
     };
 
