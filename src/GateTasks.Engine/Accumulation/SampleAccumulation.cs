@@ -31,8 +31,8 @@ internal sealed class SampleAccumulation
 
     /// <summary>
     /// A fresh accumulation of <paramref name="contract"/>'s features, each on the reference's layout
-    /// (<paramref name="layouts"/>, in contract order); a joint block with a streamed check standardises its rows by
-    /// the reference's <paramref name="joint"/> (required then).
+    /// (<paramref name="layouts"/>, in contract order); a joint block standardises its rows by the reference's
+    /// <paramref name="joint"/> (required with a streamed check; without one, no moments are gathered when it is null).
     /// </summary>
     public SampleAccumulation(PrecisionContract contract, IReadOnlyList<FeatureLayout> layouts, JointStandardisation? joint = null)
     {
@@ -46,10 +46,12 @@ internal sealed class SampleAccumulation
         _spikes = new SpikeSeparation(contract.Features);
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         _joint = contract.Joint is { Test: not null } js ? new JointSubsample(js.Features.Select(f => index[f]).ToList(), js.Subsample, JointSeed) : null;
-        _jointMoments = contract.Joint is { Streams: true } jm
+        // Covariance moments for every joint block the reference standardises (the global score reads them), kernel
+        // sums only for a kernel-distance check.
+        _jointMoments = contract.Joint is { } jm && (jm.Streams || joint is not null)
             ? new JointMoments(jm.Features.Select(f => index[f]).ToList(),
                 joint ?? throw new ArgumentException("The joint block's streamed checks need the reference's standardisation.", nameof(joint)),
-                jm.Frechet is not null, jm.KernelDistance is not null)
+                true, jm.KernelDistance is not null)
             : null;
         _pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
             new MarginalCdf(layouts[index[p.First]].Reference), new MarginalCdf(layouts[index[p.Second]].Reference),

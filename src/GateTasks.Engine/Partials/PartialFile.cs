@@ -36,7 +36,7 @@ internal static class PartialFile
     /// <summary>
     /// SHA-256 of everything that decides what a check gathers: each feature's name and definition, whether its far tails
     /// are counted and whether its fine grid is, the pairs and whether their 2-D cells are, the joint set, its subsample size (with
-    /// an energy test) and whether its moments and kernel sums are streamed.
+    /// an energy test), its moments (streamed for every joint block) and whether its kernel sums are.
     /// </summary>
     public static string Fingerprint(PrecisionContract contract)
     {
@@ -48,7 +48,7 @@ internal static class PartialFile
         foreach (var p in contract.Pairs) b.Append("pair ").Append(p.Name).Append(p.Chi2 is null ? "" : "|2d").Append('\n');
         if (contract.Joint is { } j)
             b.Append("joint ").Append(j.Name).Append('|').Append(j.Test is null ? "" : "energy:" + j.Subsample)
-             .Append(j.Frechet is null ? "" : "|moments").Append(j.KernelDistance is null ? "" : "|kernel-sums").Append('\n');
+             .Append("|moments").Append(j.KernelDistance is null ? "" : "|kernel-sums").Append('\n');
         b.Append("selection ").Append(contract.Selection?.Text ?? "").Append('\n');
         b.Append("weight ").Append(contract.Sample.Weight ?? "").Append('\n');
         return Convert.ToHexString(SHA256.HashData(Encoding.UTF8.GetBytes(b.ToString()))).ToLowerInvariant();

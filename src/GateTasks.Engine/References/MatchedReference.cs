@@ -16,8 +16,15 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
     /// <summary>Per feature, what a sample's accumulation takes from the reference.</summary>
     public IReadOnlyList<FeatureLayout> Layouts => Features.Select(f => f.Layout).ToList();
 
-    /// <summary>The standardisation of the joint block's streamed checks (the reference's), or null without them.</summary>
-    public JointStandardisation? JointStandardisation => Contract.Joint is { Streams: true } ? Reference.JointMoments?.Standardisation : null;
+    /// <summary>
+    /// The standardisation of the joint block's streamed checks and global score (the reference's): null without a
+    /// joint block, or when a block with no streamed check meets a reference that keeps no covariance moments of it
+    /// (built before every joint block kept them); the run then reports no global score.
+    /// </summary>
+    public JointStandardisation? JointStandardisation =>
+        Contract.Joint is { } joint && Reference.JointMoments is { } stored && stored.Features.SequenceEqual(joint.Features)
+            && (joint.Streams || stored.State.Moments is not null)
+            ? stored.Standardisation : null;
 
     /// <summary>Reads the contract's reference and matches every feature to it.</summary>
     public static MatchedReference Load(PrecisionContract contract)

@@ -46,9 +46,9 @@ internal static class ReferenceBuilder
         var stats = features.Select(_ => new FeatureStatistics()).ToArray();
         var jointIndex = contract.Joint?.Features.Select(name => features.ToList().FindIndex(f => f.Name == name)).ToArray();
         var joint = contract.Joint is { Test: not null } js ? new JointSubsample(jointIndex!, js.Subsample, JointSeed) : null;
-        // The streamed joint checks standardise by the reference's own means and spreads over its joint rows: found in
-        // this pass (raw units), applied in the next.
-        var jointScale = contract.Joint is { Streams: true } ? new JointMoments(jointIndex!, JointStandardisation.Identity(jointIndex!.Length), true, false) : null;
+        // The streamed joint checks, and the global score any joint block gives, standardise by the reference's own
+        // means and spreads over its joint rows: found in this pass (raw units), applied in the next.
+        var jointScale = contract.Joint is not null ? new JointMoments(jointIndex!, JointStandardisation.Identity(jointIndex!.Length), true, false) : null;
         // Each pass puts the declared spikes apart; the first one's tallies are the reference's.
         var spikes = new SpikeSeparation(features);
         var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)), view =>
@@ -95,9 +95,14 @@ internal static class ReferenceBuilder
                     features[i].Location);
         }
 
-        var jointStandardisation = jointScale is null ? null : JointScale(contract.Joint!, jointScale);
+        // The covariance moments are kept for every joint block: they give the run's global score (the Fréchet distance)
+        // even without a frechet-max check. A block with no streamed check is not refused for a feature without spread
+        // (its energy test says so itself): it keeps no moments, and checks against it report no global score.
+        var jointStandardisation = jointScale is null ? null
+            : contract.Joint!.Streams ? JointScale(contract.Joint, jointScale)
+            : JointScaleOrNull(jointScale);
         var jointMoments = jointStandardisation is null ? null
-            : new JointMoments(jointIndex!, jointStandardisation, contract.Joint!.Frechet is not null, contract.Joint.KernelDistance is not null);
+            : new JointMoments(jointIndex!, jointStandardisation, true, contract.Joint!.KernelDistance is not null);
 
         // Pass 2: fine quantile grids and directly binned histograms (and the joint block's streamed moments).
         var grids = new QuantileGrid?[n];
@@ -185,6 +190,13 @@ internal static class ReferenceBuilder
     /// spread that is not positive (a feature constant over those rows, or weights that cancel) is refused (GATE2009),
     /// since the standardised distances would divide by it.
     /// </summary>
+    private static JointStandardisation? JointScaleOrNull(JointMoments raw)
+    {
+        if (raw.Rows < 2) return null;
+        var (means, sds) = raw.MeanAndSpread();
+        return sds.All(s => s > 0 && double.IsFinite(s)) && means.All(double.IsFinite) ? new JointStandardisation(means, sds) : null;
+    }
+
     private static JointStandardisation JointScale(JointSpec spec, JointMoments raw)
     {
         if (raw.Rows < 2)
