@@ -234,15 +234,28 @@ public sealed partial class GlobalScoreTests : IDisposable
         Assert.True(inline.Success, "no inline SVG in the HTML page");
         var plotFile = Path.Combine(_dir, "ranking.score.svg");
         Assert.Contains("](ranking.score.svg)", File.ReadAllText(markdown));
+        var scores = given.Select(g => candidates.Single(c => c.GetProperty("candidate").GetString() == g).GetProperty("global_score").GetDouble()).ToList();
         foreach (var drawing in new[] { XDocument.Parse(inline.Value), XDocument.Load(plotFile) })
         {
-            var points = drawing.Descendants(svg + "circle").Where(e => e.Attribute("class")?.Value == "score").ToList();
-            Assert.Equal(given, points.Select(p => p.Attribute("data-candidate")!.Value));
-            var x = points.Select(p => Number(p.Attribute("cx")!.Value)).ToList();
-            Assert.True(x[0] < x[1] && x[1] < x[2], string.Join(",", x));
-            Assert.Equal(candidates.Single(c => c.GetProperty("candidate").GetString() == given[0]).GetProperty("global_score").GetDouble(),
-                Number(points[0].Attribute("data-score")!.Value));
+            // OxyPlot draws each point as an ellipse and each candidate's label (its file name) as a text under it, at the same x.
+            var labels = drawing.Descendants(svg + "text").Select(t => (Text: t.Value, X: TranslateX(t))).Where(t => t.Text.StartsWith("epoch-", StringComparison.Ordinal)).ToList();
+            Assert.Equal(["epoch-1.csv", "epoch-2.csv", "epoch-3.csv"], labels.Select(l => l.Text));
+            Assert.True(labels[0].X < labels[1].X && labels[1].X < labels[2].X, string.Join(",", labels));
+            var points = drawing.Descendants(svg + "ellipse").Select(e => (X: Number(e.Attribute("cx")!.Value), Y: Number(e.Attribute("cy")!.Value))).ToList();
+            Assert.Equal(["epoch-1.csv", "epoch-2.csv", "epoch-3.csv"], points.Select(p => labels.Single(l => Math.Abs(l.X - p.X) < 0.01).Text));
+            // Higher scores are drawn higher up (SVG's y grows downwards).
+            for (var i = 0; i < 3; i++)
+                for (var j = 0; j < 3; j++)
+                    if (scores[i] > scores[j]) Assert.True(points[i].Y < points[j].Y, $"{string.Join(",", scores)} drawn at {string.Join(",", points)}");
         }
+    }
+
+    /// <summary>The x of a text placed by <c>transform="translate(x,y)…"</c>, as OxyPlot's SVG export writes it.</summary>
+    private static double TranslateX(XElement text)
+    {
+        var transform = text.Attribute("transform")?.Value ?? "";
+        var open = transform.IndexOf("translate(", StringComparison.Ordinal);
+        return open < 0 ? double.NaN : Number(transform[(open + 10)..transform.IndexOf(',', open)]);
     }
 
     [GeneratedRegex("<svg .*?</svg>", RegexOptions.Singleline)]

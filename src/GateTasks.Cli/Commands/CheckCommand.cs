@@ -193,7 +193,8 @@ internal static class CheckCommand
             output.Detail($"JUnit report: {Path.GetFullPath(junitPath)}");
         }
         output.Summary(ResultTable.Summary(report));
-        output.Summary(ResultTable.ScoreLine(report));
+        // Beside the verdict line, not a verdict: a note (the build step shows it at normal verbosity).
+        output.Note(ResultTable.ScoreLine(report));
         if (!report.AcceptanceHolds)
             output.Summary($"NOT ACCEPTED: {report.Acceptance.Count(f => f.IsError)} ledger error(s) above; the contract or reference in use is not the accepted one.");
         output.Outcome(report.Outcome);

@@ -43,7 +43,7 @@ internal static class RankingHtml
         sb.Append("</tbody>\n</table>\n<p>").Append(E(RankingTable.Rule)).Append("</p>\n");
         sb.Append("<h2>Global score across the candidates, in the order given</h2>\n");
         sb.Append("<p>").Append(E(ScoreCaption(report))).Append("</p>\n");
-        sb.Append(ScorePlot.Svg(report));
+        sb.Append(ScorePlot.SvgElement(report));
         sb.Append("<footer><p>Written by GateTasks ").Append(E(ToolVersion.Current)).Append(".</p></footer>\n</body>\n</html>\n");
         return sb.ToString();
     }

@@ -21,7 +21,7 @@ internal static class RankingMarkdown
     public static void Write(string markdownPath, RankingReport report)
     {
         var plot = PlotPath(markdownPath);
-        AtomicFile.WriteText(plot, ScorePlot.Svg(report));
+        AtomicFile.WriteText(plot, ScorePlot.SvgDocument(report));
         AtomicFile.WriteText(markdownPath, Render(report, Path.GetFileName(plot)));
     }
 

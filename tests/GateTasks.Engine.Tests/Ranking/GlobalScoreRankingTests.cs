@@ -102,6 +102,16 @@ public class GlobalScoreRankingTests
         Assert.Equal(RankDecision.WorstMargin, ranked[1].DecidedBy);
     }
 
+    private static double Number(string s) => double.Parse(s, System.Globalization.CultureInfo.InvariantCulture);
+
+    /// <summary>The x of a text placed by <c>transform="translate(x,y)…"</c>, as OxyPlot's SVG export writes it.</summary>
+    private static double TranslateX(XElement text)
+    {
+        var transform = text.Attribute("transform")?.Value ?? "";
+        var open = transform.IndexOf("translate(", StringComparison.Ordinal);
+        return open < 0 ? double.NaN : Number(transform[(open + 10)..transform.IndexOf(',', open)]);
+    }
+
     private static RankingReport Report(params CandidateResult[] results)
     {
         var contract = ContractLoader.Parse("""
@@ -123,18 +133,23 @@ public class GlobalScoreRankingTests
             Result("epoch-2", GlobalScore.Absent("the sample has no row with every feature of joint(x,y) finite"), Check(Verdict.Pass, 0.5)),
             Result("epoch-3", Score(0.1, 0.02), Check(Verdict.Pass, 0.5)),
             Result("epoch-4", Score(-0.01, 0.02), Check(Verdict.Pass, 0.5)));
-        // Parsed as XML by System.Xml.Linq: a well-formed SVG document (W3C SVG 1.1 namespace).
-        var svg = XDocument.Parse(ScorePlot.Svg(report));
+        // The Markdown's file parsed as XML by System.Xml.Linq (SVG 1.1 namespace); OxyPlot draws each point as an
+        // ellipse and each candidate's label as a text under it, at the same x.
+        var svg = XDocument.Parse(ScorePlot.SvgDocument(report));
         XNamespace ns = "http://www.w3.org/2000/svg";
-        var points = svg.Descendants(ns + "circle").Where(c => c.Attribute("class")?.Value == "score").ToList();
-        Assert.Equal(["epoch-1", "epoch-3", "epoch-4"], points.Select(p => p.Attribute("data-candidate")!.Value));
-        var x = points.Select(p => double.Parse(p.Attribute("cx")!.Value, System.Globalization.CultureInfo.InvariantCulture)).ToList();
-        var y = points.Select(p => double.Parse(p.Attribute("cy")!.Value, System.Globalization.CultureInfo.InvariantCulture)).ToList();
-        Assert.True(x[0] < x[1] && x[1] < x[2], string.Join(",", x));
-        Assert.True(y[0] < y[1] && y[1] < y[2], string.Join(",", y)); // SVG's y grows downwards: a higher score is higher up
-        var gap = svg.Descendants(ns + "text").Single(t => t.Attribute("class")?.Value == "no-score");
-        Assert.Equal("epoch-2", gap.Attribute("data-candidate")!.Value);
-        Assert.Equal(3, svg.Descendants(ns + "line").Count(l => l.Attribute("class")?.Value == "error-bar"));
+        var labels = svg.Descendants(ns + "text").Select(t => (Text: t.Value, X: TranslateX(t))).Where(t => t.Text.StartsWith("epoch-", StringComparison.Ordinal)).ToList();
+        Assert.Equal(["epoch-1", "epoch-2", "epoch-3", "epoch-4"], labels.Select(l => l.Text));
+        Assert.True(labels.Zip(labels.Skip(1)).All(p => p.First.X < p.Second.X), string.Join(",", labels));
+        var points = svg.Descendants(ns + "ellipse").Select(e => (X: Number(e.Attribute("cx")!.Value), Y: Number(e.Attribute("cy")!.Value))).ToList();
+        // One point per candidate with a score, under its label; none for epoch-2, which has a "no score" text instead.
+        Assert.Equal(["epoch-1", "epoch-3", "epoch-4"], points.Select(p => labels.Single(l => Math.Abs(l.X - p.X) < 0.01).Text));
+        Assert.True(points[0].Y < points[1].Y && points[1].Y < points[2].Y, string.Join(",", points)); // SVG's y grows downwards: 0.4 above 0.1 above -0.01
+        Assert.Contains(svg.Descendants(ns + "text"), t => t.Value == "no score" && Math.Abs(TranslateX(t) - labels[1].X) < 0.01);
+
+        // The inline form holds the same drawing without the XML declaration.
+        var inline = ScorePlot.SvgElement(report);
+        Assert.StartsWith("<svg", inline.TrimStart());
+        Assert.Equal(3, XDocument.Parse(inline).Descendants(ns + "ellipse").Count());
 
         // The JSON carries each score and its error, and null with the reason where there is none (never a zero).
         using var stream = new MemoryStream();
