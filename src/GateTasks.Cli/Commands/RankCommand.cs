@@ -19,19 +19,23 @@ internal static class RankCommand
         }.NotEmpty();
         var csv = new Option<string?>("--csv") { Description = "Also write the ranking as CSV to this path." }.NotEmpty();
         var json = new Option<string?>("--json") { Description = "Also write the ranking, with every check's margin, as JSON to this path." }.NotEmpty();
-        var command = new Command("rank", "Check several candidate samples (e.g. the checkpoints of a training run) under one contract and rank them: fewer failed, then fewer inconclusive checks, then a higher worst margin. Exit 0: at least one candidate passes; 1: none does; 2: input error, or a candidate could not be checked.")
+        var html = new Option<string?>("--html") { Description = "Also write the ranking as an HTML page, with a plot of the global score across the candidates in the order given." }.NotEmpty();
+        var markdown = new Option<string?>("--markdown") { Description = "Also write the ranking as Markdown, with the plot of the global score as an SVG file beside it (NAME.score.svg)." }.NotEmpty();
+        var command = new Command("rank", "Check several candidate samples (e.g. the checkpoints of a training run) under one contract and rank them: fewer failed, then fewer inconclusive checks, then a lower global score (the joint block's Fréchet distance), then a higher worst margin. Exit 0: at least one candidate passes; 1: none does; 2: input error, or a candidate could not be checked.")
         {
-            contract, candidates, csv, json,
+            contract, candidates, csv, json, html, markdown,
         };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
             var paths = CandidatePatterns.Expand(parse.GetValue(candidates)!);
             new RunPaths().Contract(loaded).Read(paths.SelectMany(p => Directory.Exists(p) ? SampleFiles.Resolve(p, Directory.GetCurrentDirectory()) : [p]), "a candidate file")
-                .Write(parse.GetValue(csv), "--csv").Write(parse.GetValue(json), "--json").Verify();
+                .Write(parse.GetValue(csv), "--csv").Write(parse.GetValue(json), "--json").Write(parse.GetValue(html), "--html")
+                .Write(parse.GetValue(markdown), "--markdown")
+                .Write(parse.GetValue(markdown) is { } md ? RankingMarkdown.PlotPath(md) : null, "the --markdown plot").Verify();
             var report = RankingRun.Run(loaded, paths, (i, r) => stdout.WriteLine(
                 $"checked {i + 1}/{paths.Count} {r.Candidate}: " +
-                (r.Error is not null ? $"not checked ({r.Error.Code})" : $"{(r.Outcome == RunOutcome.Failed ? "FAIL" : r.Outcome == RunOutcome.Undecided ? "undecided" : "pass")}, {r.Failed} failed, {r.Inconclusive} inconclusive")));
+                (r.Error is not null ? $"not checked ({r.Error.Code})" : $"{(r.Outcome == RunOutcome.Failed ? "FAIL" : r.Outcome == RunOutcome.Undecided ? "undecided" : "pass")}, {r.Failed} failed, {r.Inconclusive} inconclusive, {r.Score.Text}")));
             stdout.WriteLine();
             stdout.WriteLine($"contract  {loaded.FilePath}");
             stdout.WriteLine($"reference {report.ReferencePath}");
@@ -48,6 +52,16 @@ internal static class RankCommand
             {
                 RankingJson.Write(jsonPath, report);
                 stdout.WriteLine($"JSON: {Path.GetFullPath(jsonPath)}");
+            }
+            if (parse.GetValue(html) is { } htmlPath)
+            {
+                RankingHtml.Write(htmlPath, report);
+                stdout.WriteLine($"HTML: {Path.GetFullPath(htmlPath)}");
+            }
+            if (parse.GetValue(markdown) is { } markdownPath)
+            {
+                RankingMarkdown.Write(markdownPath, report);
+                stdout.WriteLine($"Markdown: {Path.GetFullPath(markdownPath)} (plot {RankingMarkdown.PlotPath(markdownPath)})");
             }
             stdout.WriteLine(RankingTable.Summary(report));
             // A candidate that could not be checked is an input error even when another passes: its place is unknown.

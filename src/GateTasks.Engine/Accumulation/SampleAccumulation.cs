@@ -30,9 +30,9 @@ internal sealed class SampleAccumulation
 
     /// <summary>
     /// A fresh accumulation of <paramref name="contract"/>'s features, each on the reference's layout
-    /// (<paramref name="layouts"/>, in contract order); a joint block with a streamed check standardises its rows by
-    /// the reference's <paramref name="joint"/> (required then); one with a sliced check fills its projections on the
-    /// reference's <paramref name="sliced"/> grid (required then).
+    /// (<paramref name="layouts"/>, in contract order); a joint block standardises its rows by the reference's
+    /// <paramref name="joint"/> (required then: every joint block gathers the moments the global score reads); one with
+    /// a sliced check fills its projections on the reference's <paramref name="sliced"/> grid (required then).
     /// </summary>
     public SampleAccumulation(PrecisionContract contract, IReadOnlyList<FeatureLayout> layouts, JointStandardisation? joint = null, SlicedGrid? sliced = null)
     {
@@ -45,10 +45,12 @@ internal sealed class SampleAccumulation
         _fine = layouts.Select(l => l.FineEdges is { } e ? new FineGridCounter(e) : null).ToArray();
         _spikes = new SpikeSeparation(contract.Features);
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
-        _jointMoments = contract.Joint is { Streams: true } jm
+        // Covariance moments for every joint block (the global score reads them), kernel sums only for a
+        // kernel-distance check.
+        _jointMoments = contract.Joint is { } jm
             ? new JointMoments(jm.Features.Select(f => index[f]).ToList(),
                 joint ?? throw new ArgumentException("The joint block's streamed checks need the reference's standardisation.", nameof(joint)),
-                jm.Frechet is not null, jm.KernelDistance is not null)
+                true, jm.KernelDistance is not null)
             : null;
         if (contract.Joint is { Slices: true } slicedSpec)
         {

@@ -82,12 +82,18 @@ internal static class ContractEvaluation
             foreach (var (check, m) in SlicedCheck.Evaluate(slicedSpec, stored, sample.Sliced, contract.Decision, sample.Events))
                 measured.Add((subject, check, m));
         }
+        // The global score: information beside the verdict, from the same moments as the frechet-max check.
+        var score = contract.Joint is { } scored
+            ? GlobalScore.Of(scored, reference.JointMoments is { } km && km.Features.SequenceEqual(scored.Features) && km.State.Moments is not null
+                ? AccumulatedJointMoments.From(scored.Features.Count, km.State) : null, sample.JointMoments)
+            : GlobalScore.NoJointBlock;
         // Two families: the tolerance checks decide the run; the goodness-of-fit tests are read apart, beside it.
         var tolerances = measured.Where(m => m.Item2 is not GoodnessOfFitTest).ToList();
         var tests = measured.Where(m => m.Item2 is GoodnessOfFitTest).Select(m => (m.Item1, (GoodnessOfFitTest)m.Item2, m.Item3)).ToList();
         return new EvaluatedChecks(comparisonOf, VerdictRule.Decide(tolerances, contract.Decision, sample.Events))
         {
             Readings = TestReadingRule.Read(tests, contract.Decision),
+            Score = score,
         };
     }
 

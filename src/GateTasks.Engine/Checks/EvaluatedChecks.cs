@@ -8,4 +8,7 @@ internal sealed record EvaluatedChecks(IReadOnlyList<FeatureComparison> Comparis
 {
     /// <summary>The goodness-of-fit tests' readings (<see cref="TestReadingRule"/>).</summary>
     public IReadOnlyList<TestReading> Readings { get; init; } = [];
+
+    /// <summary>The run's global score (<see cref="GlobalScore"/>): information, never part of the verdict.</summary>
+    public GlobalScore Score { get; init; } = GlobalScore.NoJointBlock;
 }

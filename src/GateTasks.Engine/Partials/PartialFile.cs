@@ -36,7 +36,7 @@ internal static class PartialFile
     /// <summary>
     /// SHA-256 of everything that decides what a check gathers: each feature's name and definition, whether its far tails
     /// are counted and whether its fine grid is, the pairs and whether their 2-D cells are, the joint set, its subsample size (with
-    /// an energy test) and whether its moments and kernel sums are streamed.
+    /// an energy test), its moments (streamed for every joint block) and whether its kernel sums are.
     /// </summary>
     public static string Fingerprint(PrecisionContract contract)
     {
@@ -47,7 +47,7 @@ internal static class PartialFile
              .Append(f.NeedsFineGrid ? "|fine-grid" : "").Append('\n');
         foreach (var p in contract.Pairs) b.Append("pair ").Append(p.Name).Append(p.Chi2 is null ? "" : "|2d").Append('\n');
         if (contract.Joint is { } j)
-            b.Append("joint ").Append(j.Name).Append(j.Frechet is null ? "" : "|moments").Append(j.KernelDistance is null ? "" : "|kernel-sums")
+            b.Append("joint ").Append(j.Name).Append("|moments").Append(j.KernelDistance is null ? "" : "|kernel-sums")
              .Append(j.Slices ? "|sliced:" + j.Projections : "").Append('\n');
         b.Append("selection ").Append(contract.Selection?.Text ?? "").Append('\n');
         b.Append("weight ").Append(contract.Sample.Weight ?? "").Append('\n');

@@ -17,6 +17,9 @@ internal sealed record CandidateResult(
     RunOutcome Outcome,
     CandidateError? Error = null)
 {
+    /// <summary>The run's global score (the joint block's Fréchet distance ± its error), or why there is none.</summary>
+    public GlobalScore Score { get; init; } = GlobalScore.NoJointBlock;
+
     /// <summary>True when every check passed (the ledger aside: ranking compares fidelity).</summary>
     public bool Passed => Outcome == RunOutcome.Passed;
 
@@ -39,9 +42,9 @@ internal sealed record CandidateResult(
     public static CandidateResult FromReport(string candidate, RunResult report) =>
         new(candidate, report.SampleFiles, report.Events,
             report.Outcomes.Select(o => new CandidateCheck(o.Subject.Name, o.Check.Label, o.Verdict, Margin.Of(o, report.Contract.Decision))).ToList(),
-            report.ChecksOutcome);
+            report.ChecksOutcome) { Score = report.Score };
 
     /// <summary>A candidate whose check stopped on bad input.</summary>
     public static CandidateResult Unchecked(string candidate, GateInputException e) =>
-        new(candidate, [], 0, [], RunOutcome.DidNotFinish, CandidateError.From(e));
+        new(candidate, [], 0, [], RunOutcome.DidNotFinish, CandidateError.From(e)) { Score = GlobalScore.Absent("not checked") };
 }

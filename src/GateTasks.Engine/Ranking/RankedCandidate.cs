@@ -7,6 +7,9 @@ namespace GateTasks.Engine.Ranking;
 /// </summary>
 internal sealed record RankedCandidate(int? Rank, CandidateResult Result, RankDecision DecidedBy, string Reason)
 {
+    /// <summary>Where the candidate was given on the command line (0 first): the order of the score plot.</summary>
+    public int Given { get; init; }
+
     /// <summary>True when it shares its rank with the candidate above.</summary>
     public bool TiedWithPrevious => DecidedBy is RankDecision.Tie or RankDecision.TieWithinNoise;
 
@@ -24,6 +27,7 @@ internal sealed record RankedCandidate(int? Rank, CandidateResult Result, RankDe
         RankDecision.First => "first",
         RankDecision.FailedChecks => "failed",
         RankDecision.InconclusiveChecks => "inconclusive",
+        RankDecision.GlobalScore => "global-score",
         RankDecision.WorstMargin => "worst-margin",
         RankDecision.Tie => "tie",
         RankDecision.TieWithinNoise => "tie-within-noise",

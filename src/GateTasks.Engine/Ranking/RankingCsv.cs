@@ -13,7 +13,7 @@ internal static class RankingCsv
 {
     public static readonly string[] Header =
         ["rank", "candidate", "status", "failed", "inconclusive", "worst_margin", "worst_margin_noise", "worst_feature", "worst_check",
-         "decided_by", "tied_with_previous", "reason", "events", "error_code"];
+         "decided_by", "tied_with_previous", "reason", "events", "error_code", "global_score", "global_score_standard_error"];
 
     public static void Write(string path, RankingReport report) => AtomicFile.WriteText(path, Format(report));
 
@@ -41,6 +41,8 @@ internal static class RankingCsv
                 c.Reason,
                 checkedOne ? InvariantNumber.Count(r.Events) : "",
                 r.Error?.Code ?? "",
+                r.Score.HasValue ? InvariantNumber.Exact(r.Score.Value) : "",
+                r.Score.HasValue ? InvariantNumber.Exact(r.Score.StandardError) : "",
             ]);
         }
         return sb.ToString();

@@ -43,6 +43,7 @@ internal static class RankingJson
         w.WriteStartObject();
         if (c.Rank is { } rank) w.WriteNumber("rank", rank); else w.WriteNull("rank");
         w.WriteString("candidate", r.Candidate);
+        w.WriteNumber("given", c.Given);
         w.WriteString("status", c.Status);
         w.WriteStartArray("files");
         foreach (var f in r.SampleFiles) w.WriteStringValue(f);
@@ -71,6 +72,11 @@ internal static class RankingJson
             w.WriteString("verdict", VerdictKey(worst.Verdict));
             w.WriteEndObject();
         }
+        // The global score: null with the reason when there is none, never a zero.
+        WriteNumberOrNull(w, "global_score", r.Score.Value);
+        WriteNumberOrNull(w, "global_score_standard_error", r.Score.StandardError);
+        if (r.Score.HasValue) w.WriteString("global_score_measure", r.Score.Covers); else w.WriteNull("global_score_measure");
+        if (r.Score.Absence is { } absence) w.WriteString("global_score_absence", absence); else w.WriteNull("global_score_absence");
         w.WriteString("decided_by", c.DecidedByKey);
         w.WriteBoolean("tied_with_previous", c.TiedWithPrevious);
         w.WriteString("reason", c.Reason);

@@ -16,8 +16,13 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
     /// <summary>Per feature, what a sample's accumulation takes from the reference.</summary>
     public IReadOnlyList<FeatureLayout> Layouts => Features.Select(f => f.Layout).ToList();
 
-    /// <summary>The standardisation of the joint block's streamed checks (the reference's), or null without them.</summary>
-    public JointStandardisation? JointStandardisation => Contract.Joint is { Streams: true } ? Reference.JointMoments?.Standardisation : null;
+    /// <summary>
+    /// The standardisation of the joint block's checks and global score (the reference's): null without a joint block
+    /// (a reference without it for the block's features is refused when loaded).
+    /// </summary>
+    public JointStandardisation? JointStandardisation =>
+        Contract.Joint is { } joint && Reference.JointMoments is { } stored && stored.Features.SequenceEqual(joint.Features)
+            ? stored.Standardisation : null;
 
     /// <summary>The grid of the joint block's sliced checks (the reference's), or null without them.</summary>
     public SlicedGrid? SlicedGrid => Contract.Joint is { Slices: true } ? Reference.Sliced?.Grid : null;
@@ -32,21 +37,21 @@ internal sealed record MatchedReference(PrecisionContract Contract, ReferenceHis
         var references = contract.Features.Select(f => Match(reference, f, referencePath)).ToList();
         // Again at check: a reference built before this rule, or a contract's regions changed since, is caught here.
         for (var i = 0; i < references.Count; i++) BinCoverage.Verify(contract.Features[i], references[i]);
-        if (contract.Joint is { Streams: true } joint) VerifyJointMoments(joint, reference, referencePath);
+        if (contract.Joint is { } joint) VerifyJointMoments(joint, reference, referencePath);
         if (contract.Joint is { Slices: true } sliced) VerifySliced(sliced, reference, referencePath);
         return new MatchedReference(contract, reference, referencePath, FileDigest.Sha256(referencePath), references);
     }
 
     /// <summary>
-    /// The joint block's streamed checks read the reference's moments and kernel sums of the same features: a reference
-    /// built for another joint set, or without the part a check reads, is refused (GATE3001) with the command that
-    /// rebuilds it.
+    /// Every joint block reads the reference's standardisation and covariance moments of the same features (its checks
+    /// and the global score), a kernel-distance check its kernel sums too: a reference built for another joint set, or
+    /// without the part a check reads, is refused (GATE2103) with the command that rebuilds it.
     /// </summary>
     private static void VerifyJointMoments(JointSpec joint, ReferenceHistograms reference, string referencePath)
     {
         var stored = reference.JointMoments;
         var missing = stored is null || !stored.Features.SequenceEqual(joint.Features) ? $"no streamed moments of {joint.Name}"
-            : joint.Frechet is not null && stored.State.Moments is null ? $"no covariance moments of {joint.Name}, which its {ContractKeys.FrechetMax} check reads"
+            : stored.State.Moments is null ? $"no covariance moments of {joint.Name}, which its checks and the global score read"
             : joint.KernelDistance is not null && stored.State.Kernel is null ? $"no kernel sums of {joint.Name}, which its {ContractKeys.KernelDistanceMax} check reads"
             : null;
         if (missing is not null)

@@ -42,9 +42,9 @@ internal static class ReferenceBuilder
         // Pass 1: ranges and moments.
         var stats = features.Select(_ => new FeatureStatistics()).ToArray();
         var jointIndex = contract.Joint?.Features.Select(name => features.ToList().FindIndex(f => f.Name == name)).ToArray();
-        // The streamed joint checks standardise by the reference's own means and spreads over its joint rows: found in
-        // this pass (raw units), applied in the next.
-        var jointScale = contract.Joint is { Standardises: true } ? new JointMoments(jointIndex!, JointStandardisation.Identity(jointIndex!.Length), true, false) : null;
+        // Every joint block standardises by the reference's own means and spreads over its joint rows (its checks and
+        // the global score read them): found in this pass (raw units), applied in the next.
+        var jointScale = contract.Joint is not null ? new JointMoments(jointIndex!, JointStandardisation.Identity(jointIndex!.Length), true, false) : null;
         // Each pass puts the declared spikes apart; the first one's tallies are the reference's.
         var spikes = new SpikeSeparation(features);
         // The sliced grids span the box of the joint features' ranges over the rows the projections take (all finite).
@@ -93,9 +93,11 @@ internal static class ReferenceBuilder
                     features[i].Location);
         }
 
+        // The covariance moments are kept for every joint block: they give the run's global score (the Fréchet distance)
+        // even without a frechet-max check.
         var jointStandardisation = jointScale is null ? null : JointScale(contract.Joint!, jointScale);
-        var jointMoments = jointStandardisation is null || !contract.Joint!.Streams ? null
-            : new JointMoments(jointIndex!, jointStandardisation, contract.Joint!.Frechet is not null, contract.Joint.KernelDistance is not null);
+        var jointMoments = jointStandardisation is null ? null
+            : new JointMoments(jointIndex!, jointStandardisation, true, contract.Joint!.KernelDistance is not null);
 
         // The sliced checks' directions, drawn from the feature names, and the reference's standardisation: their grids are
         // found in pass 2, the reference's histograms on them filled in pass 3.

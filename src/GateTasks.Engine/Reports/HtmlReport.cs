@@ -72,6 +72,9 @@ internal static class HtmlReport
         if (r.UncoveredSubjects.Count > 0)
             Fact(sb, "no tolerance check", string.Join("<br>", r.UncoveredSubjects.Select(s =>
                 $"<span class=\"ledger inconclusive\">{E(ErrorCodes.SubjectWithoutTolerance)}</span> {E(RunDiagnostics.UncoveredText(s))}")));
+        // The global score: information for comparing candidates, shown without a verdict badge.
+        Fact(sb, "global score", $"<span id=\"global-score\">{E(r.Score.HasValue ? $"{InvariantNumber.Short(r.Score.Value)} ± {InvariantNumber.Short(r.Score.StandardError)}" : "none")}</span> " +
+            $"<small>{E(r.Score.HasValue ? $"{r.Score.Covers}; lower is closer; not a verdict" : $"no global score ({r.Score.Absence})")}</small>");
         if (r.Readings.Count > 0)
             Fact(sb, "goodness-of-fit diagnostics", $"<a href=\"#diagnostics\">{E(DiagnosticsCount(r))}</a>");
         Fact(sb, "checked", E($"{r.StartedUtc.UtcDateTime.ToString("yyyy-MM-dd HH:mm:ss", CultureInfo.InvariantCulture)} UTC in {r.Elapsed.TotalSeconds.ToString("0.0", CultureInfo.InvariantCulture)} s"));

@@ -72,6 +72,18 @@ internal static class JUnitReport
         Property(w, "gatetasks.decision.false_alarm", InvariantNumber.Exact(r.Contract.Decision.FalseAlarm));
         Property(w, "gatetasks.decision.correction", r.Contract.Decision.CorrectionName);
         Property(w, "gatetasks.decision.inconclusive", r.Contract.Decision.InconclusiveFails ? "fail" : "warn");
+        // The global score: a number for comparing candidates, never a verdict; "none" with the reason when absent.
+        if (r.Score.HasValue)
+        {
+            Property(w, "gatetasks.global_score", InvariantNumber.Exact(r.Score.Value));
+            Property(w, "gatetasks.global_score.standard_error", InvariantNumber.Exact(r.Score.StandardError));
+            Property(w, "gatetasks.global_score.measure", r.Score.Covers);
+        }
+        else
+        {
+            Property(w, "gatetasks.global_score", "none");
+            Property(w, "gatetasks.global_score.reason", r.Score.Absence!);
+        }
         foreach (var reading in r.Readings)
         {
             var key = $"gatetasks.diagnostic.{reading.Subject.Name}.{reading.Test.Label}";

@@ -38,6 +38,7 @@ internal static class MarkdownSummary
               : report.Contract.Decision.InconclusiveFails ? " (inconclusive checks fail the build under this contract)"
               : " (inconclusive checks only warn under this contract)")
           .Append(".\n\n");
+        sb.Append(Text(report.Score.Text)).Append("\n\n");
         sb.Append("Sample ").Append(string.Join(", ", report.SampleFiles.Take(3).Select(f => Code(Path.GetFileName(f)))))
           .Append(report.SampleFiles.Count > 3 ? $" and {report.SampleFiles.Count - 3} more" : "")
           .Append($": {InvariantNumber.Count(report.Events)} events (effective {report.EffectiveEvents.ToString("0", CultureInfo.InvariantCulture)}); ")

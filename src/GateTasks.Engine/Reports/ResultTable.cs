@@ -185,7 +185,11 @@ internal static class ResultTable
 
     private static string Percent(double p) => (p * 100).ToString("0", CultureInfo.InvariantCulture) + "%";
 
+    /// <summary>The global score with its error, or why there is none (<see cref="GlobalScore.Text"/>): information, not a verdict.</summary>
+    public static string ScoreLine(RunResult report) => report.Score.Text;
+
     /// <summary>One line saying what was checked and how it went; for an undecided run, also what would decide it.</summary>
+
     public static string Summary(RunResult report)
     {
         var verdict = report.Outcome.Word();

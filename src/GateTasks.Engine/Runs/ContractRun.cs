@@ -116,6 +116,7 @@ internal static class ContractRun
         {
             Comparisons = evaluated.Comparisons,
             Readings = evaluated.Readings,
+            Score = evaluated.Score,
             Acceptance = Ledger.LedgerGuard.Verify(setup.Contract, setup.ReferenceSha256, evaluated.Outcomes),
         };
     }

@@ -27,6 +27,9 @@ internal sealed record RunResult(
     /// <summary>The goodness-of-fit tests' readings, in contract order: diagnostics reported beside the verdict (<see cref="TestReading"/>).</summary>
     public IReadOnlyList<TestReading> Readings { get; init; } = [];
 
+    /// <summary>The global score (the joint block's Fréchet distance with its error), or why there is none: information, never part of the outcome.</summary>
+    public GlobalScore Score { get; init; } = GlobalScore.NoJointBlock;
+
     /// <summary>
     /// The subjects (features, categories, pairs, the joint block) that have goodness-of-fit tests and no tolerance
     /// check, in contract order: nothing shows them within a tolerance, so the run cannot be PASSED.
