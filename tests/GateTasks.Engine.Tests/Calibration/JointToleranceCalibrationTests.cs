@@ -49,8 +49,8 @@ public class JointToleranceCalibrationTests
               sliced-wasserstein-max: { worst: 0.05, mean: 0.02 }
             """, "c.yaml");
         var table = CalibrationTable.Format(contract, []);
-        Assert.Contains("2 checks (2 per feature, 0 on pairs, 0 joint)", table);
-        Assert.Contains("Not calibrated (no replica draws the joint law for them; the rates below leave them out): " +
+        Assert.Contains("2 checks replicated (2 per feature, 0 on pairs)", table);
+        Assert.Contains("Not calibrated (a reference keeps no rows to draw the joint law from; the rates below leave them out): " +
             "sliced-ks-max[worst] of joint(x,y), sliced-wasserstein-max[worst] of joint(x,y), sliced-wasserstein-max[mean] of joint(x,y).", table);
     }
 }
