@@ -62,8 +62,8 @@ SPLIT_SHARE = 0.10
 
 # Tolerances: each about half of its check's true value for the shifted law (--truth prints them: Fréchet 0.001615
 # in closed form, kernel distance 0.000682 from 4*10^6 events a law), so the shifted law exceeds them by a margin
-# that 10^6 events resolve (jackknife and block standard errors measured at 10^6 events: about 6e-5 and 8e-5, so 13
-# and 4 standard errors), and the null at 10^6 sits far below them. At 10^5 events the kernel distance's error (about
+# that 10^6 events resolve (jackknife and block standard errors measured at 10^6 events: 5-9e-5 and 5e-5-1.7e-4, so
+# about 10 and 2-6 standard errors), and the null at 10^6 sits far below them. At 10^5 events the kernel distance's error (about
 # 4e-4) exceeds its tolerance: a faithful surrogate is then inconclusive on it, not passed. The sliced tolerances are
 # rough: about 40% of the numpy estimates of the mean and worst projected distances over 64 random directions
 # (--truth --checks frechet,kernel,sliced: KS mean 0.0021, worst 0.0077; W1 mean 0.0054, worst 0.0195, each biased
