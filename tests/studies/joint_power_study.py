@@ -33,7 +33,9 @@ Surrogate replica i of mode m draws from numpy.random.default_rng([seed, 1 + mod
         [--weighting unweighted,weighted] [--checks frechet,kernel[,sliced]] [--seed 1] [--reference-events 1000000]
         [--work DIR] [--truth]
 
---modes lists mode:events pairs and --replicas their replica counts (one number for all, or one per pair).
+--modes lists mode:events pairs and --replicas their replica counts (one number for all, or one per pair); --first
+(likewise) starts at that replica index, so a later run adds replicas with new seeds to an earlier one (the
+reference is the same).
 --truth only prints each check's true value for the shifted law (closed form for the Fréchet distance, a 4*10^6
 event numpy sample for the others) and exits. Needs Debian's python3-numpy and python3-scipy. The last lines are a
 Markdown table; the machine-readable lines are
@@ -198,6 +200,7 @@ def main():
     p.add_argument("--checks", default="frechet,kernel")
     p.add_argument("--seed", type=int, default=1)
     p.add_argument("--reference-events", type=int, default=1_000_000)
+    p.add_argument("--first", default="0", help="index of the first replica, one or one per pair (to extend a run)")
     p.add_argument("--work")
     p.add_argument("--truth", action="store_true")
     a = p.parse_args()
@@ -217,8 +220,11 @@ def main():
     counts = [int(r) for r in a.replicas.split(",")]
     if len(counts) == 1:
         counts *= len(modes)
-    if len(counts) != len(modes) or any(m not in ("permuted", "shifted", "null") for m, _ in modes):
-        sys.exit("--modes takes permuted|shifted|null:EVENTS pairs and --replicas one count or one per pair")
+    firsts = [int(f) for f in a.first.split(",")]
+    if len(firsts) == 1:
+        firsts *= len(modes)
+    if len(counts) != len(modes) or len(firsts) != len(modes) or any(m not in ("permuted", "shifted", "null") for m, _ in modes):
+        sys.exit("--modes takes permuted|shifted|null:EVENTS pairs, --replicas and --first one number or one per pair")
     work = a.work or tempfile.mkdtemp(prefix="gatetasks-joint-power-")
     started = time.monotonic()
     lines, table = [], []
@@ -237,11 +243,11 @@ def main():
         if b.returncode != 0:
             sys.exit(f"{weighting}: reference build exited {b.returncode}\n{b.stdout}{b.stderr}")
         os.remove(os.path.join(folder, "reference.csv"))
-        for (mode, events), replicas in zip(modes, counts):
+        for (mode, events), replicas, first in zip(modes, counts, firsts):
             mi = ["permuted", "shifted", "null"].index(mode)
             fails, kinds = 0, {}
             t0 = time.monotonic()
-            for i in range(replicas):
+            for i in range(first, first + replicas):
                 r = np.random.default_rng([a.seed, 1 + mi, wi, events, i])
                 data = draw(r, events, P_SHIFTED if mode == "shifted" else P_REFERENCE)
                 if mode == "permuted":
