@@ -5,6 +5,12 @@
 #   tests/benchmarks/run.sh --small        # 10^6 events
 #   tests/benchmarks/run.sh --tiny         # 10^5 events, one repetition (what the test suite runs)
 #
+# Each repetition also times the check with a joint block added to the contract (docs/contract.md, joint structure),
+# one variant at a time, each against a reference built with that block: all joint checks over all 20 features,
+# the same over 5 features, and each check key alone over 20 features. The report gives each variant's added time
+# against the plain check of the same repetition, split into a fixed part (the same on the 1000-event sample) and a
+# part that grows with the events, and the 15% target for all joint checks together.
+#
 # Options: --repeat N (timed repetitions, median reported; default 3, 1 for --tiny), --out FILE (also write the
 # Markdown there), --work DIR (keep the data there instead of a temporary folder), --no-build (use the built
 # assemblies named by GATETASKS_BENCH_CLI and GATETASKS_BENCH_HARNESS, default the Release builds),
@@ -93,6 +99,25 @@ harness_run generate --out "$work/sample-startup.parquet" --events "$startup_eve
 harness_run generate --out "$work/fullsim.parquet" --events "$reference_events" --row-groups 4 --seed 2
 harness_run contract --out "$work/precision-contract.yaml" --sample sample.parquet --reference reference.parquet
 dotnet "$cli" reference build --contract "$work/precision-contract.yaml" --from "$work/fullsim.parquet" >"$work/logs/reference.out"
+# The joint variants: NAME FEATURES KEYS (the keys' lines of the joint block, separated by ';').
+joint_all="x00, x01, x02, x03, x04, x05, x06, x07, x08, x09, x10, x11, x12, x13, x14, x15, x16, x17, x18, x19"
+joint_variants=(
+  "all20|$joint_all|frechet-max: 0.02;kernel-distance-max: 0.005"
+  "all5|x00, x01, x02, x03, x04|frechet-max: 0.02;kernel-distance-max: 0.005"
+  "frechet20|$joint_all|frechet-max: 0.02"
+  "kernel20|$joint_all|kernel-distance-max: 0.005"
+)
+joint_names=()
+for variant in "${joint_variants[@]}"; do
+  IFS='|' read -r name features keys <<<"$variant"
+  joint_names+=("$name")
+  contract=$work/contract-joint-$name.yaml
+  sed "s|^reference: reference.parquet\$|reference: reference-joint-$name.parquet|" "$work/precision-contract.yaml" >"$contract"
+  grep -q "^reference: reference-joint-$name.parquet\$" "$contract" || { say "the harness contract has no 'reference: reference.parquet' line"; exit 1; }
+  { echo "joint:"; echo "  features: [$features]"; tr ';' '\n' <<<"$keys" | sed 's/^/  /'; } >>"$contract"
+  dotnet "$cli" reference build --contract "$contract" --from "$work/fullsim.parquet" >"$work/logs/reference-joint-$name.out"
+done
+printf '%s\n' "${joint_variants[@]}" >"$work/joint-variants.txt"
 harness_run export-reference --reference "$work/reference.parquet" --out "$work/reference.json"
 harness_run export-npy --sample "$work/sample.parquet" --out "$work/sample.npy"
 
@@ -123,6 +148,10 @@ duckdb 2 "$work/out/warm.json" >/dev/null
 for i in $(seq 1 "$repeat"); do
   say "timed repetition $i of $repeat"
   timed "check-full.$i" "${two[@]}" dotnet "$cli" check --contract "$work/precision-contract.yaml"
+  for name in "${joint_names[@]}"; do
+    timed "check-joint-$name.$i" "${two[@]}" dotnet "$cli" check --contract "$work/contract-joint-$name.yaml"
+    timed "check-joint-$name-startup.$i" "${two[@]}" dotnet "$cli" check --contract "$work/contract-joint-$name.yaml" --sample "$work/sample-startup.parquet"
+  done
   timed "check-one-core.$i" "${one[@]}" dotnet "$cli" check --contract "$work/precision-contract.yaml"
   timed "check-linear.$i" "${two[@]}" dotnet "$cli" check --contract "$work/precision-contract.yaml" --sample "$work/sample-linear.parquet"
   timed "check-startup.$i" "${two[@]}" dotnet "$cli" check --contract "$work/precision-contract.yaml" --sample "$work/sample-startup.parquet"
