@@ -67,11 +67,14 @@ SPLIT_SHARE = 0.10
 # that 10^6 events resolve (jackknife and block standard errors measured at 10^6 events: 5-9e-5 and 5e-5-1.7e-4, so
 # about 10 and 2-6 standard errors), and the null at 10^6 sits far below them. At 10^5 events the kernel distance's error (about
 # 4e-4) exceeds its tolerance: a faithful surrogate is then inconclusive on it, not passed. The sliced tolerances are
-# rough: about 40% of the numpy estimates of the mean and worst projected distances over 64 random directions
-# (--truth --checks frechet,kernel,sliced: KS mean 0.0021, worst 0.0077; W1 mean 0.0054, worst 0.0195, each biased
-# upwards by the 4*10^6-event noise, about 0.0006 for KS), and the engine's own directions differ from ours.
+# set for the permuted law, not for the shifted one: the 0.50 -> 0.45 change moves the projected laws by about the
+# sliced distances' own floor at these sizes (--truth --checks frechet,kernel,sliced: KS mean 0.0021, worst 0.0077;
+# W1 mean 0.0054, worst 0.0195, each biased upwards by the 4*10^6-event noise, about 0.0006 for KS, while two samples
+# of one law read about 0.002 to 0.009 at 10^5 events), so a tolerance under it could neither pass a faithful sample
+# nor be shown exceeded; they are not asked to catch it. The permuted law reads about 0.09 (KS worst), 0.03 (KS mean),
+# 0.29 (W1/sigma worst) and 0.09 (W1/sigma mean) at 10^5 events (SlicedJointCheckTests), about three times these.
 TOLERANCE = {"frechet-max": 0.0008, "kernel-distance-max": 0.00034}
-SLICED = {"sliced-ks-max": {"worst": 0.003, "mean": 0.0008}, "sliced-wasserstein-max": {"worst": 0.008, "mean": 0.0025}}
+SLICED = {"sliced-ks-max": {"worst": 0.03, "mean": 0.01}, "sliced-wasserstein-max": {"worst": 0.08, "mean": 0.03}}
 PROJECTIONS = 64
 
 
