@@ -329,7 +329,7 @@ public sealed class SlicedJointCheckTests : IDisposable
 
         (code, stdout, stderr) = Cli.Run("calibrate", "--contract", contractPath, "--replicas", "5", "--events", "4000");
         Assert.True(code is 0 or 1, stdout + stderr);
-        Assert.Contains("Not calibrated (no replica draws the joint law for them; the rates below leave them out): " +
+        Assert.Contains("Not calibrated (a reference keeps no rows to draw the joint law from; the rates below leave them out): " +
             "sliced-ks-max[worst] of joint(a,b,c), sliced-ks-max[mean] of joint(a,b,c), sliced-wasserstein-max[worst] of joint(a,b,c), sliced-wasserstein-max[mean] of joint(a,b,c).", stdout);
     }
 

@@ -155,8 +155,9 @@ internal static class CheckCommand
             : ContractRun.Run(loaded, samplePath, ProgressDisplay.For(output));
         if (history.Finding is { } finding) report = report with { Acceptance = [finding, .. report.Acceptance] };
         if (reports.Text is { } textPath)
-            AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.Summary(report) + Environment.NewLine +
-                ResultTable.ScoreLine(report) + Environment.NewLine);
+            // The verdict stays the last line: the score, information beside it, comes before.
+            AtomicFile.WriteText(textPath, ResultTable.Format(report) + Environment.NewLine + ResultTable.ScoreLine(report) + Environment.NewLine +
+                ResultTable.Summary(report) + Environment.NewLine);
         var written = new List<string>();
         if (reports.Html is { } htmlPath)
         {
@@ -192,9 +193,9 @@ internal static class CheckCommand
             JUnitReport.Write(junitPath, [report]);
             output.Detail($"JUnit report: {Path.GetFullPath(junitPath)}");
         }
-        output.Summary(ResultTable.Summary(report));
-        // Beside the verdict line, not a verdict: a note (the build step shows it at normal verbosity).
+        // Just above the verdict line, not a verdict: a note (the build step shows it at normal verbosity).
         output.Note(ResultTable.ScoreLine(report));
+        output.Summary(ResultTable.Summary(report));
         if (!report.AcceptanceHolds)
             output.Summary($"NOT ACCEPTED: {report.Acceptance.Count(f => f.IsError)} ledger error(s) above; the contract or reference in use is not the accepted one.");
         output.Outcome(report.Outcome);
