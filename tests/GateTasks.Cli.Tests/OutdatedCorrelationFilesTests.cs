@@ -39,50 +39,14 @@ public sealed class OutdatedCorrelationFilesTests : IDisposable
         var contractPath = Setup();
         var referencePath = ContractLoader.Load(contractPath).ReferenceFullPath;
         // Rewrite the reference as format 2 wrote it: its rows as they are, its header without the correlations' variances.
-        var copy = referencePath + ".v3";
-        File.Move(referencePath, copy);
-        await using (var input = File.OpenRead(copy))
-        await using (var reader = await ParquetReader.CreateAsync(input))
-        await using (var output = File.Create(referencePath))
+        await OlderReferenceFile.RewriteAsync(referencePath, 2, header =>
         {
-            var header = JsonNode.Parse(reader.CustomMetadata[ReferenceFile.MetadataKey])!.AsObject();
-            header["format"] = 2;
             foreach (var pair in header["correlations"]!.AsArray())
             {
                 pair!.AsObject().Remove("pearson_variance");
                 pair.AsObject().Remove("spearman_variance");
             }
-            var fields = reader.Schema.DataFields;
-            await using var writer = await ParquetWriter.CreateAsync(reader.Schema, output);
-            writer.CustomMetadata = new Dictionary<string, string> { [ReferenceFile.FormatKey] = "2", [ReferenceFile.MetadataKey] = header.ToJsonString() };
-            for (var g = 0; g < reader.RowGroupCount; g++)
-            {
-                using var rg = reader.OpenRowGroupReader(g);
-                var n = checked((int)rg.RowCount);
-                using var wg = writer.CreateRowGroup();
-                foreach (var field in fields)
-                {
-                    if (field.Name == "feature")
-                    {
-                        var names = new string?[n];
-                        await rg.ReadAsync(field, names.AsMemory());
-                        await wg.WriteAsync(field, names);
-                    }
-                    else if (field.Name == "cell")
-                    {
-                        var cells = new int[n];
-                        await rg.ReadAsync<int>(field, cells.AsMemory());
-                        await wg.WriteAsync<int>(field, cells);
-                    }
-                    else
-                    {
-                        var values = new double[n];
-                        await rg.ReadAsync<double>(field, values.AsMemory());
-                        await wg.WriteAsync<double>(field, values);
-                    }
-                }
-            }
-        }
+        });
         var (code, stdout, stderr) = Cli.Run("check", "--contract", contractPath);
         Assert.True(code == 2, stdout + stderr);
         // docs/error-codes.md: GATE2102, an unsupported format version, with the way out (rebuild).

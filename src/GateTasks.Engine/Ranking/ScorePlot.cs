@@ -48,7 +48,7 @@ internal static class ScorePlot
             Background = Color(ReportPalette.Paper),
         };
         var labels = candidates.Select(c => Label(c.Result.Candidate)).ToList();
-        model.Axes.Add(Styled(new LinearAxis
+        model.Axes.Add(PlotAxisStyle.Styled(new LinearAxis
         {
             Position = AxisPosition.Bottom,
             Title = "candidate, in the order given",
@@ -59,7 +59,7 @@ internal static class ScorePlot
             Angle = candidates.Count > 4 ? 30 : 0,
             LabelFormatter = v => Math.Abs(v - Math.Round(v)) < 1e-9 && Math.Round(v) is var i && i >= 0 && i < labels.Count ? labels[(int)i] : "",
         }, grid: false));
-        model.Axes.Add(Styled(new LinearAxis
+        model.Axes.Add(PlotAxisStyle.Styled(new LinearAxis
         {
             Position = AxisPosition.Left,
             Title = "global score ± SE (lower is closer)",
@@ -101,22 +101,6 @@ internal static class ScorePlot
     /// <summary>A candidate's label on the axis: its file or folder name.</summary>
     private static string Label(string candidate) =>
         Path.GetFileName(candidate.TrimEnd('/', '\\')) is { Length: > 0 } name ? name : candidate;
-
-    private static T Styled<T>(T axis, bool grid) where T : OxyPlot.Axes.Axis
-    {
-        axis.AxislineStyle = LineStyle.Solid;
-        axis.AxislineColor = Color(ReportPalette.Muted);
-        axis.TicklineColor = Color(ReportPalette.Muted);
-        axis.TickStyle = TickStyle.Outside;
-        axis.IsZoomEnabled = false;
-        axis.IsPanEnabled = false;
-        if (grid)
-        {
-            axis.MajorGridlineStyle = LineStyle.Solid;
-            axis.MajorGridlineColor = Color(ReportPalette.Grid);
-        }
-        return axis;
-    }
 
     private static OxyColor Color(string hex) => OxyColor.Parse(hex);
 }

@@ -44,7 +44,7 @@ internal static class FeaturePlot
         var edges = bins.Select(b => b.Lower).Append(bins[^1].Upper).ToList();
         var (viewLow, viewHigh) = View(edges, discrete);
         var pad = 0.01 * (viewHigh - viewLow);
-        var x = Styled(new BinEdgeAxis(edges)
+        var x = PlotAxisStyle.Styled(new BinEdgeAxis(edges)
         {
             Position = AxisPosition.Bottom,
             Title = comparison.Spec.Name + (discrete ? " (one bin per value)" : ""),
@@ -56,7 +56,7 @@ internal static class FeaturePlot
         }, grid: false);
         if (discrete && bins.Count <= 30) x.MajorStep = 1;
         model.Axes.Add(x);
-        model.Axes.Add(Styled(new LinearAxis
+        model.Axes.Add(PlotAxisStyle.Styled(new LinearAxis
         {
             Key = MainKey,
             Position = AxisPosition.Left,
@@ -70,7 +70,7 @@ internal static class FeaturePlot
         }, grid: true));
 
         var (low, high) = RatioRange(bins, bands);
-        model.Axes.Add(Styled(new LinearAxis
+        model.Axes.Add(PlotAxisStyle.Styled(new LinearAxis
         {
             Key = RatioKey,
             Position = AxisPosition.Left,
@@ -88,23 +88,6 @@ internal static class FeaturePlot
         AddDistributions(model, bins, viewLow, viewHigh);
         AddRatios(model, bins, bands, low, high, viewLow, viewHigh);
         return model;
-    }
-
-    // The look every axis of the plot shares: muted solid axis lines, ticks outside, fixed (a static SVG cannot zoom).
-    private static T Styled<T>(T axis, bool grid) where T : OxyPlot.Axes.Axis
-    {
-        axis.AxislineStyle = LineStyle.Solid;
-        axis.AxislineColor = Color(ReportPalette.Muted);
-        axis.TicklineColor = Color(ReportPalette.Muted);
-        axis.TickStyle = TickStyle.Outside;
-        axis.IsZoomEnabled = false;
-        axis.IsPanEnabled = false;
-        if (grid)
-        {
-            axis.MajorGridlineStyle = LineStyle.Solid;
-            axis.MajorGridlineColor = Color(ReportPalette.Grid);
-        }
-        return axis;
     }
 
     private static void AddDistributions(PlotModel model, IReadOnlyList<ComparedBin> bins, double viewLow, double viewHigh)
