@@ -39,15 +39,8 @@ public sealed partial class GlobalScoreTests : IDisposable
     private string FixtureSetup(string joint)
     {
         var folder = Path.Combine(_dir, "f" + Directory.GetDirectories(_dir).Length);
-        Directory.CreateDirectory(Path.Combine(folder, ".git"));
-        var data = Path.Combine(RepositoryRoot.Path, "tests", "fixtures", "joint");
-        File.Copy(Path.Combine(data, "reference.csv"), Path.Combine(folder, "reference.csv"));
-        File.Copy(Path.Combine(data, "sample.csv"), Path.Combine(folder, "sample.csv"));
-        var contractPath = Path.Combine(folder, "precision-contract.yaml");
-        File.WriteAllText(contractPath, FixtureContract + "\n" + joint + "\n");
-        var (code, stdout, stderr) = Cli.Run("reference", "build", "--contract", contractPath, "--from", Path.Combine(folder, "reference.csv"));
-        Assert.True(code == 0, stdout + stderr);
-        return contractPath;
+        Directory.CreateDirectory(folder);
+        return JointTestData.FixedDataSet(folder, FixtureContract + "\n" + joint + "\n");
     }
 
     private sealed record Checked(int Code, string Stdout, string Stderr, Dictionary<string, string> Properties, string Markdown, string Html);

@@ -41,24 +41,10 @@ public sealed class JointDistanceCheckTests : IDisposable
         """;
 
     /// <summary>The fixed data set of tests/fixtures/joint in the work folder, its contract reading <paramref name="sample"/>, and the reference built.</summary>
-    private string FixtureSetup(string sample)
-    {
-        Directory.CreateDirectory(Path.Combine(_dir, ".git"));
-        var data = Path.Combine(RepositoryRoot.Path, "tests", "fixtures", "joint");
-        File.Copy(Path.Combine(data, "reference.csv"), Path.Combine(_dir, "reference.csv"));
-        File.Copy(Path.Combine(data, "sample.csv"), Path.Combine(_dir, "sample.csv"));
-        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
-        File.WriteAllText(contractPath, FixtureContract.Replace("SAMPLE", sample));
-        var (code, stdout, stderr) = Cli.Run("reference", "build", "--contract", contractPath, "--from", Path.Combine(_dir, "reference.csv"));
-        Assert.True(code == 0, stdout + stderr);
-        return contractPath;
-    }
+    private string FixtureSetup(string sample) => JointTestData.FixedDataSet(_dir, FixtureContract.Replace("SAMPLE", sample));
 
     /// <summary>Each joint check's JUnit properties, by check key.</summary>
-    private static Dictionary<string, Dictionary<string, string>> JointCases(string junit) => XDocument.Load(junit).Descendants("testcase")
-        .Where(t => t.Attribute("classname")!.Value.EndsWith(".joint(a,b,c)", StringComparison.Ordinal))
-        .ToDictionary(t => t.Attribute("name")!.Value,
-            t => t.Descendants("property").ToDictionary(p => p.Attribute("name")!.Value, p => p.Attribute("value")!.Value));
+    private static Dictionary<string, Dictionary<string, string>> JointCases(string junit) => JointTestData.Cases(junit, "joint(a,b,c)");
 
     private static double Number(string s) => double.Parse(s, CultureInfo.InvariantCulture);
 
@@ -175,37 +161,12 @@ public sealed class JointDistanceCheckTests : IDisposable
     {
         string Verdicts(string surrogate, out string output)
         {
-            var folder = Path.Combine(_dir, surrogate);
-            var (exit, pyOut, pyErr) = ProcessRunner.Run(ExternalPython.Interpreter,
-                [Path.Combine(RepositoryRoot.Path, "tests", "studies", "joint_distance_data.py"), "--out", folder, "--events", "100000", "--seed", "3", "--surrogate", surrogate],
-                _dir, null, 300);
-            Assert.True(exit == 0, pyOut + pyErr);
-            Directory.CreateDirectory(Path.Combine(folder, ".git"));
-            var contractPath = Path.Combine(folder, "precision-contract.yaml");
-            File.WriteAllText(contractPath, """
-                contract-version: 1
-                sample: sample.csv
-                reference: reference.parquet
-                features:
-                  - name: x
-                    checks: { ks-max: 0.05 }
-                  - name: y
-                    checks: { ks-max: 0.05 }
-                  - name: u
-                    checks: { ks-max: 0.05 }
-                joint:
-                  features: [x, y, u]
-                  frechet-max: 0.02
-                  kernel-distance-max: 0.01
-                """);
-            var (code, stdout, stderr) = Cli.Run("reference", "build", "--contract", contractPath, "--from", Path.Combine(folder, "reference.csv"));
-            Assert.True(code == 0, stdout + stderr);
+            var (contractPath, drawn) = JointTestData.Drawn(_dir, surrogate, 100_000, 3, "  frechet-max: 0.02\n  kernel-distance-max: 0.01\n");
+            var folder = Path.GetDirectoryName(contractPath)!;
             var junit = Path.Combine(folder, "gate.xml");
-            (code, stdout, stderr) = Cli.Run("check", "--contract", contractPath, "--junit", junit);
-            output = pyOut + stdout + stderr;
-            return string.Join(",", XDocument.Load(junit).Descendants("testcase")
-                .Where(t => t.Attribute("classname")!.Value.EndsWith(".joint(x,y,u)", StringComparison.Ordinal))
-                .Select(t => t.Attribute("name")!.Value + "=" + t.Descendants("property").Single(p => p.Attribute("name")!.Value == "verdict").Attribute("value")!.Value));
+            var (code, stdout, stderr) = Cli.Run("check", "--contract", contractPath, "--junit", junit);
+            output = drawn + stdout + stderr;
+            return string.Join(",", JointTestData.Cases(junit, "joint(x,y,u)").Select(c => c.Key + "=" + c.Value["verdict"]));
         }
 
         // Pearson(x, y) ≈ 0.47 (y = exp((0.5 x + √0.75 z)/2)), and 0 once y is permuted across events: for standardised

@@ -42,23 +42,9 @@ public sealed class SlicedJointCheckTests : IDisposable
         """;
 
     /// <summary>The fixed data set of tests/fixtures/joint in the work folder under <paramref name="contract"/>, and the reference built.</summary>
-    private string FixtureSetup(string contract = FixtureContract)
-    {
-        Directory.CreateDirectory(Path.Combine(_dir, ".git"));
-        var data = Path.Combine(RepositoryRoot.Path, "tests", "fixtures", "joint");
-        File.Copy(Path.Combine(data, "reference.csv"), Path.Combine(_dir, "reference.csv"), overwrite: true);
-        File.Copy(Path.Combine(data, "sample.csv"), Path.Combine(_dir, "sample.csv"), overwrite: true);
-        var contractPath = Path.Combine(_dir, "precision-contract.yaml");
-        File.WriteAllText(contractPath, contract);
-        var (code, stdout, stderr) = Cli.Run("reference", "build", "--contract", contractPath, "--from", Path.Combine(_dir, "reference.csv"));
-        Assert.True(code == 0, stdout + stderr);
-        return contractPath;
-    }
+    private string FixtureSetup(string contract = FixtureContract) => JointTestData.FixedDataSet(_dir, contract);
 
-    private static Dictionary<string, Dictionary<string, string>> JointCases(string junit, string subject) => XDocument.Load(junit).Descendants("testcase")
-        .Where(t => t.Attribute("classname")!.Value.EndsWith("." + subject, StringComparison.Ordinal))
-        .ToDictionary(t => t.Attribute("name")!.Value,
-            t => t.Descendants("property").ToDictionary(p => p.Attribute("name")!.Value, p => p.Attribute("value")!.Value));
+    private static Dictionary<string, Dictionary<string, string>> JointCases(string junit, string subject) => JointTestData.Cases(junit, subject);
 
     private static double Number(string s) => double.Parse(s, CultureInfo.InvariantCulture);
 
@@ -123,34 +109,12 @@ public sealed class SlicedJointCheckTests : IDisposable
     {
         string Verdicts(string surrogate, out string output)
         {
-            var folder = Path.Combine(_dir, surrogate);
-            var (exit, pyOut, pyErr) = ProcessRunner.Run(ExternalPython.Interpreter,
-                [Path.Combine(RepositoryRoot.Path, "tests", "studies", "joint_distance_data.py"), "--out", folder, "--events", "100000", "--seed", "3", "--surrogate", surrogate],
-                _dir, null, 300);
-            Assert.True(exit == 0, pyOut + pyErr);
-            Directory.CreateDirectory(Path.Combine(folder, ".git"));
-            var contractPath = Path.Combine(folder, "precision-contract.yaml");
-            File.WriteAllText(contractPath, """
-                contract-version: 1
-                sample: sample.csv
-                reference: reference.parquet
-                features:
-                  - name: x
-                    checks: { ks-max: 0.05 }
-                  - name: y
-                    checks: { ks-max: 0.05 }
-                  - name: u
-                    checks: { ks-max: 0.05 }
-                joint:
-                  features: [x, y, u]
-                  sliced-ks-max: { worst: 0.03, mean: 0.015 }
-                  sliced-wasserstein-max: { worst: 0.05, mean: 0.02 }
-                """);
-            var (code, stdout, stderr) = Cli.Run("reference", "build", "--contract", contractPath, "--from", Path.Combine(folder, "reference.csv"));
-            Assert.True(code == 0, stdout + stderr);
+            var (contractPath, drawn) = JointTestData.Drawn(_dir, surrogate, 100_000, 3,
+                "  sliced-ks-max: { worst: 0.03, mean: 0.015 }\n  sliced-wasserstein-max: { worst: 0.05, mean: 0.02 }\n");
+            var folder = Path.GetDirectoryName(contractPath)!;
             var junit = Path.Combine(folder, "gate.xml");
-            (code, stdout, stderr) = Cli.Run("check", "--contract", contractPath, "--junit", junit);
-            output = pyOut + stdout + stderr;
+            var (code, stdout, stderr) = Cli.Run("check", "--contract", contractPath, "--junit", junit);
+            output = drawn + stdout + stderr;
             return string.Join(",", JointCases(junit, "joint(x,y,u)").Select(c => c.Key + "=" + c.Value["verdict"]));
         }
 
