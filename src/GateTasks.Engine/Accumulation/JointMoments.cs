@@ -19,13 +19,28 @@ internal sealed class JointMoments
     private readonly int[] _features;
     private readonly double[] _means;
     private readonly double[] _sds;
+    private readonly double[] _inverseSds;
     private readonly BlockedCovariance? _moments;
     private readonly CubicKernelFeatureSums[]? _kernel;
     private readonly double[] _row;
-    // One batch's kept rows, standardised, by column; their weights and blocks. Grown to the largest batch, then reused.
-    private double[][] _columns;
-    private double[] _weights = [];
-    private int[] _blocks = [];
+
+    // The moments' rows go through a block-interleaved chunk (BlockInterleavedSums): row t of block b at position
+    // B·t + b, each feature standardised and centred, |w| of each sign apart. The chunk is folded when a block's rows
+    // reach its capacity, the sums into the moments once per batch.
+    private const int ChunkRowsPerBlock = 64;
+    private readonly BlockInterleavedSums? _positive;
+    private readonly BlockInterleavedSums? _negative;
+    private readonly double[][] _chunk = [];
+    private readonly double[] _chunkPositive = [];
+    private readonly double[] _chunkNegative = [];
+    private readonly int[] _fill = new int[Blocks];
+    private readonly double[] _centre;       // in standardised units: the values are taken about it
+    private readonly double[] _centreRaw;    // the same in the values' own units
+    private readonly double[] _foldMean;
+    private readonly double[] _foldComoments;
+    private bool _centred;
+    private int[] _position = [];
+    private bool[] _finite = [];
 
     /// <summary>
     /// An empty accumulation of the features at <paramref name="features"/> (indices into a <see cref="FeatureView"/>),
@@ -38,12 +53,23 @@ internal sealed class JointMoments
         _features = features.ToArray();
         _means = standardisation.Means.ToArray();
         _sds = standardisation.StandardDeviations.ToArray();
+        _inverseSds = _sds.Select(s => 1 / s).ToArray();
         var d = _features.Length;
         _moments = moments ? new BlockedCovariance(d, Blocks) : null;
         _kernel = kernel ? Enumerable.Range(0, Blocks).Select(_ => new CubicKernelFeatureSums(d)).ToArray() : null;
         _row = new double[d];
-        _columns = new double[d][];
-        for (var k = 0; k < d; k++) _columns[k] = [];
+        _centre = new double[d];
+        _centreRaw = new double[d];
+        _foldMean = new double[d];
+        _foldComoments = new double[d * d];
+        if (moments)
+        {
+            _positive = new BlockInterleavedSums(d, Blocks);
+            _negative = new BlockInterleavedSums(d, Blocks);
+            _chunk = Enumerable.Range(0, d).Select(_ => new double[Blocks * ChunkRowsPerBlock]).ToArray();
+            _chunkPositive = new double[Blocks * ChunkRowsPerBlock];
+            _chunkNegative = new double[Blocks * ChunkRowsPerBlock];
+        }
     }
 
     /// <summary>Rows taken in (every joint feature finite), whatever their weight.</summary>
@@ -63,48 +89,243 @@ internal sealed class JointMoments
     {
         var n = view.Rows;
         var d = _features.Length;
-        if (_weights.Length < n)
+        if (_finite.Length < n)
         {
-            _weights = new double[n];
-            _blocks = new int[n];
-            if (_moments is not null)
-                for (var k = 0; k < d; k++) _columns[k] = new double[n];
+            _finite = new bool[n];
+            _position = new int[n];
         }
-        var weights = view.Weights;
-        var fileRows = view.FileRows;
-        var kept = 0;
-        for (var r = 0; r < n; r++)
+        // Most batches have no missing value: one vectorised test a column, and a row-by-row mask only otherwise.
+        var allFinite = true;
+        for (var k = 0; k < d && allFinite; k++) allFinite = AllFinite(view.Feature(_features[k]));
+        var finite = _finite.AsSpan(0, n);
+        finite.Fill(true);
+        var kept = n;
+        if (!allFinite)
         {
-            var finite = true;
             for (var k = 0; k < d; k++)
             {
-                var x = view.Feature(_features[k])[r];
-                finite &= double.IsFinite(x);
-                _row[k] = (x - _means[k]) / _sds[k];
+                var x = view.Feature(_features[k]);
+                for (var r = 0; r < n; r++) finite[r] &= double.IsFinite(x[r]);
             }
-            if (!finite)
-            {
-                Skipped++;
-                continue;
-            }
-            var w = weights.IsEmpty ? 1.0 : weights[r];
-            var block = (int)(fileRows[r] % Blocks);
-            _kernel?[block].Add(_row, w);
-            if (_moments is not null)
-            {
-                for (var k = 0; k < d; k++) _columns[k][kept] = _row[k];
-                _weights[kept] = w;
-                _blocks[kept] = block;
-            }
-            kept++;
+            kept = 0;
+            foreach (var f in finite) if (f) kept++;
         }
+        Skipped += n - kept;
         Rows += kept;
-        if (_moments is not null && kept > 0)
+        if (kept == 0) return;
+        if (_kernel is not null) AddKernel(view, finite);
+        if (_moments is not null) AddMoments(view, finite, allFinite);
+    }
+
+    private void AddKernel(FeatureView view, ReadOnlySpan<bool> finite)
+    {
+        var d = _features.Length;
+        var weights = view.Weights;
+        var fileRows = view.FileRows;
+        for (var r = 0; r < view.Rows; r++)
         {
-            var columns = new ReadOnlyMemory<double>[d];
-            for (var k = 0; k < d; k++) columns[k] = _columns[k].AsMemory(0, kept);
-            _moments.AddBatch(columns, _weights.AsSpan(0, kept), _blocks.AsSpan(0, kept));
+            if (!finite[r]) continue;
+            for (var k = 0; k < d; k++) _row[k] = (view.Feature(_features[k])[r] - _means[k]) / _sds[k];
+            _kernel![(int)(fileRows[r] % Blocks)].Add(_row, weights.IsEmpty ? 1.0 : weights[r]);
         }
+    }
+
+    private void AddMoments(FeatureView view, ReadOnlySpan<bool> finite, bool allFinite)
+    {
+        var n = view.Rows;
+        var d = _features.Length;
+        var weights = view.Weights;
+        var fileRows = view.FileRows;
+        Centre(view, finite);
+        if (allFinite && n > 0 && fileRows[n - 1] - fileRows[0] == n - 1)
+        {
+            AddConsecutive(view);
+            Fold();
+            return;
+        }
+        var r = 0;
+        while (r < n)
+        {
+            // Place rows until one block's part of the chunk is full, then standardise them column by column.
+            var start = r;
+            for (; r < n; r++)
+            {
+                if (!allFinite && !finite[r])
+                {
+                    _position[r] = -1;
+                    continue;
+                }
+                var b = (int)(fileRows[r] % Blocks);
+                var t = _fill[b]++;
+                _position[r] = t * Blocks + b;
+                if (t + 1 == ChunkRowsPerBlock)
+                {
+                    r++;
+                    break;
+                }
+            }
+            var position = _position.AsSpan(start, r - start);
+            for (var k = 0; k < d; k++)
+            {
+                var x = view.Feature(_features[k]).Slice(start, r - start);
+                var column = _chunk[k];
+                double centre = _centreRaw[k], scale = _inverseSds[k];
+                for (var i = 0; i < position.Length; i++)
+                    if (position[i] >= 0) column[position[i]] = (x[i] - centre) * scale;
+            }
+            for (var i = 0; i < position.Length; i++)
+            {
+                if (position[i] < 0) continue;
+                var w = weights.IsEmpty ? 1.0 : weights[start + i];
+                _chunkPositive[position[i]] = w > 0 ? w : 0;
+                _chunkNegative[position[i]] = w < 0 ? -w : 0;
+            }
+            FlushChunk();
+        }
+        Fold();
+    }
+
+    // A batch of consecutive rows of one file, none missing (the common case): row r of the batch lands at position
+    // φ + r of the chunk sequence, φ its first row's block, so each chunk is filled by contiguous, vectorised copies.
+    private void AddConsecutive(FeatureView view)
+    {
+        var n = view.Rows;
+        var weights = view.Weights;
+        var size = Blocks * ChunkRowsPerBlock;
+        var phase = (int)(view.FileRows[0] % Blocks);
+        for (var chunkStart = 0; chunkStart < phase + n; chunkStart += size)
+        {
+            var first = Math.Max(chunkStart, phase);          // the first position used, in batch positions
+            var end = Math.Min(chunkStart + size, phase + n); // one past the last
+            var rows = first - phase;
+            var length = end - first;
+            var at = first - chunkStart;
+            for (var k = 0; k < _features.Length; k++)
+                Standardise(view.Feature(_features[k]).Slice(rows, length), _centreRaw[k], _inverseSds[k], _chunk[k].AsSpan(at, length));
+            if (weights.IsEmpty)
+            {
+                _chunkPositive.AsSpan(at, length).Fill(1);
+                _chunkNegative.AsSpan(at, length).Clear();
+            }
+            else
+                for (var i = 0; i < length; i++)
+                {
+                    var w = weights[rows + i];
+                    _chunkPositive[at + i] = w > 0 ? w : 0;
+                    _chunkNegative[at + i] = w < 0 ? -w : 0;
+                }
+            // Positions before the first and after the last row of the chunk carry nothing.
+            var used = (at + length + Blocks - 1) / Blocks;
+            ClearPositions(0, at);
+            ClearPositions(at + length, used * Blocks);
+            AddChunk(used, !weights.IsEmpty);
+        }
+    }
+
+    private void ClearPositions(int from, int to)
+    {
+        if (to <= from) return;
+        _chunkPositive.AsSpan(from, to - from).Clear();
+        _chunkNegative.AsSpan(from, to - from).Clear();
+        foreach (var column in _chunk) column.AsSpan(from, to - from).Clear();
+    }
+
+    // (x − c)·s, element by element as the scalar expression rounds it, whatever the vector width.
+    private static void Standardise(ReadOnlySpan<double> x, double centre, double scale, Span<double> into)
+    {
+        var i = 0;
+        if (System.Numerics.Vector.IsHardwareAccelerated)
+        {
+            var c = new System.Numerics.Vector<double>(centre);
+            var s = new System.Numerics.Vector<double>(scale);
+            for (; i <= x.Length - System.Numerics.Vector<double>.Count; i += System.Numerics.Vector<double>.Count)
+                ((new System.Numerics.Vector<double>(x[i..]) - c) * s).CopyTo(into[i..]);
+        }
+        for (; i < x.Length; i++) into[i] = (x[i] - centre) * scale;
+    }
+
+    // The values are taken about the running mean (in the first batch, its first finite row), so that the sums lose
+    // no precision to a mean far from zero in the units the standardisation leaves (Chan, Golub & LeVeque 1983).
+    private void Centre(FeatureView view, ReadOnlySpan<bool> finite)
+    {
+        var d = _features.Length;
+        if (_moments!.Count > 0)
+        {
+            var fit = _moments.Fit();
+            if (fit.Mean.All(double.IsFinite)) fit.Mean.CopyTo(_centre, 0);
+        }
+        else if (!_centred)
+        {
+            var first = finite.IndexOf(true);
+            for (var k = 0; k < d; k++) _centre[k] = (view.Feature(_features[k])[first] - _means[k]) * _inverseSds[k];
+        }
+        _centred = true;
+        for (var k = 0; k < d; k++) _centreRaw[k] = _means[k] + _centre[k] * _sds[k];
+    }
+
+    private void FlushChunk()
+    {
+        var rows = 0;
+        foreach (var f in _fill) rows = Math.Max(rows, f);
+        if (rows == 0) return;
+        // Positions no row reached carry nothing.
+        for (var b = 0; b < Blocks; b++)
+            for (var t = _fill[b]; t < rows; t++)
+            {
+                var p = t * Blocks + b;
+                _chunkPositive[p] = _chunkNegative[p] = 0;
+                foreach (var column in _chunk) column[p] = 0;
+            }
+        AddChunk(rows, true);
+        Array.Clear(_fill);
+    }
+
+    // The chunk's first B·rows positions into the sums of each sign (negative ones only where there are any).
+    private void AddChunk(int rows, bool mayBeNegative)
+    {
+        _positive!.Add(_chunk, _chunkPositive, rows);
+        if (!mayBeNegative) return;
+        foreach (var w in _chunkNegative.AsSpan(0, rows * Blocks))
+            if (w != 0)
+            {
+                _negative!.Add(_chunk, _chunkNegative, rows);
+                return;
+            }
+    }
+
+    // Sums about the centre to each block's mean and co-moments, joined to the moments (m = c + Σw·D/W,
+    // C = Σw·D Dᵀ − (Σw·D)(Σw·D)ᵀ/W, with D the centred values and c the centre).
+    private void Fold()
+    {
+        var d = _features.Length;
+        foreach (var (sums, negative) in new[] { (_positive!, false), (_negative!, true) })
+        {
+            for (var b = 0; b < Blocks; b++)
+            {
+                var w = sums.SumOfWeights(b);
+                if (sums.Count(b) == 0 || w == 0) continue;
+                for (var k = 0; k < d; k++) _foldMean[k] = sums.Sum(k, b) / w;
+                for (var p = 0; p < d; p++)
+                    for (var q = 0; q <= p; q++)
+                        _foldComoments[p * d + q] = _foldComoments[q * d + p] = sums.CrossSum(p, q, b) - w * _foldMean[p] * _foldMean[q];
+                for (var k = 0; k < d; k++) _foldMean[k] += _centre[k];
+                _moments!.AddMoments(b, negative, sums.Count(b), w, sums.SumOfSquaredWeights(b), _foldMean, _foldComoments);
+            }
+            sums.Clear();
+        }
+    }
+
+    // x·0 is 0 for every finite x and NaN otherwise, so one sum tells whether a column holds only finite values.
+    private static bool AllFinite(ReadOnlySpan<double> x)
+    {
+        var acc = System.Numerics.Vector<double>.Zero;
+        var i = 0;
+        var vectors = System.Runtime.InteropServices.MemoryMarshal.Cast<double, System.Numerics.Vector<double>>(x);
+        foreach (var v in vectors) acc += v * System.Numerics.Vector<double>.Zero;
+        i = vectors.Length * System.Numerics.Vector<double>.Count;
+        var s = System.Numerics.Vector.Sum(acc);
+        for (; i < x.Length; i++) s += x[i] * 0;
+        return s == 0;
     }
 
     /// <summary>Adds another accumulation of the same features, standardisation and parts (another shard).</summary>

@@ -83,17 +83,25 @@ internal sealed class SampleAccumulation
             _stats[i].Add(values, weights);
             _farTail[i]?.Add(values, weights);
             _fine[i]?.Add(values, weights);
-        }), view =>
+        }), BatchVisits(), pass);
+        Events += totals.Events;
+        _sumW.Add(totals.ExactSumW);
+        _sumW2.Add(totals.ExactSumW2);
+    }
+
+    // Each visitor keeps to its own state, so the stream may run them beside each other and beside the features.
+    private List<Action<FeatureView>> BatchVisits()
+    {
+        var visits = new List<Action<FeatureView>>();
+        if (_jointMoments is { } joint) visits.Add(joint.Add);
+        if (_sliced is { } sliced) visits.Add(view => sliced.Add(view, _slicedFeatures!));
+        visits.Add(view =>
         {
             foreach (var w in view.Weights)
                 if (w < 0) NegativeWeightEvents++;
             foreach (var p in _pairs) p.Add(view);
-            _jointMoments?.Add(view);
-            _sliced?.Add(view, _slicedFeatures!);
-        }, pass);
-        Events += totals.Events;
-        _sumW.Add(totals.ExactSumW);
-        _sumW2.Add(totals.ExactSumW2);
+        });
+        return visits;
     }
 
     /// <summary>Adds another accumulation of the same contract and reference (another shard of the sample).</summary>

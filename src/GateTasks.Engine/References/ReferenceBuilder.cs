@@ -49,11 +49,8 @@ internal static class ReferenceBuilder
         var spikes = new SpikeSeparation(features);
         // The sliced grids span the box of the joint features' ranges over the rows the projections take (all finite).
         var slicedRange = contract.Joint is { Slices: true } ? new SlicedRange(jointIndex!) : null;
-        var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)), view =>
-        {
-            jointScale?.Add(view);
-            slicedRange?.Add(view);
-        }, pass);
+        var totals = SampleStream.Run(sample, columns, weightColumn, spikes.Around((i, values, weights) => stats[i].Add(values, weights)),
+            BatchVisits(jointScale is null ? null : jointScale.Add, slicedRange is null ? null : slicedRange.Add), pass);
         if (totals.Events == 0 && contract.Selection is { } selection && sample.RowsRead > 0)
             throw new GateInputException(ErrorCodes.SampleEmpty,
                 $"The selection '{selection.Text}' keeps none of the {InvariantNumber.Count(sample.RowsRead)} events of the reference sample " +
@@ -125,11 +122,8 @@ internal static class ReferenceBuilder
         {
             grids[i]?.Fine.Fill(values, weights);
             direct[i]?.Fill(values, weights);
-        }), view =>
-        {
-            jointMoments?.Add(view);
-            slicedGrids?.Add(view, jointIndex!);
-        }, pass.For("reference pass 2 (quantile grids)"));
+        }), BatchVisits(jointMoments is null ? null : jointMoments.Add, slicedGrids is null ? null : view => slicedGrids.Add(view, jointIndex!)),
+            pass.For("reference pass 2 (quantile grids)"));
 
         var result = new List<ReferenceFeature>();
         for (var i = 0; i < n; i++)
@@ -167,11 +161,9 @@ internal static class ReferenceBuilder
             {
                 farTail[i]?.Add(values, weights);
                 fine[i]?.Add(values, weights);
-            }), view =>
-            {
-                foreach (var p in pairs) p.Add(view);
-                slicedCounter?.Add(view, jointIndex!);
-            }, pass.For("reference pass 3 (correlations, far tails, fine grids, sliced histograms)"));
+            }), BatchVisits(pairs.Count == 0 ? null : view => { foreach (var p in pairs) p.Add(view); },
+                slicedCounter is null ? null : view => slicedCounter.Add(view, jointIndex!)),
+                pass.For("reference pass 3 (correlations, far tails, fine grids, sliced histograms)"));
             foreach (var p in pairs.Select(p => p.Finish()))
             {
                 if (double.IsNaN(p.Pearson) || double.IsNaN(p.Spearman))
@@ -281,4 +273,9 @@ internal static class ReferenceBuilder
         // One unit-wide bin centred on each integer value.
         return new RegularAxis((int)count, lo - 0.5, hi + 0.5);
     }
+
+    // The batch visitors of a pass that are asked for; each keeps to its own state, so the stream may run them side by side.
+    private static List<Action<FeatureView>> BatchVisits(params Action<FeatureView>?[] visits) =>
+        visits.Where(v => v is not null).Select(v => v!).ToList();
+
 }

@@ -14,8 +14,8 @@ internal sealed record SampleTotals(long Events, Statistics.ExactSum ExactSumW, 
 
 /// <summary>
 /// One streamed pass over a sample: reads each needed column once per batch, evaluates derived features
-/// column-wise, applies the selection, rejects non-finite weights, and hands every feature's values to the visitor,
-/// then the whole batch to the batch visitor. Buffers are reused across batches, so memory is bounded by the batch size.
+/// column-wise, applies the selection, rejects non-finite weights, and hands every feature's values to the visitor and
+/// the whole batch to each batch visitor. Buffers are reused across batches, so memory is bounded by the batch size.
 /// </summary>
 internal sealed class SampleStream
 {
@@ -77,12 +77,13 @@ internal sealed class SampleStream
     private List<string> Columns { get; }
 
     /// <summary>
-    /// Streams <paramref name="sample"/> once: each feature's values of each batch to <paramref name="visit"/> (features
-    /// may be visited side by side), then the whole batch to <paramref name="afterEachBatch"/>; <paramref name="settings"/>
-    /// names the pass, its progress and its threads.
+    /// Streams <paramref name="sample"/> once: each feature's values of each batch to <paramref name="visit"/> and the
+    /// whole batch to each of <paramref name="batchVisits"/>; <paramref name="settings"/> names the pass, its progress
+    /// and its threads. Features and batch visitors may run side by side, so each must touch only state of its own
+    /// (a feature visit that feature's, a batch visitor its own) and none may change the batch.
     /// </summary>
-    public static SampleTotals Run(Sample sample, FeatureSources inputs, string? weightColumn, FeatureBatch visit, Action<FeatureView>? afterEachBatch = null,
-        ReadPass? settings = null)
+    public static SampleTotals Run(Sample sample, FeatureSources inputs, string? weightColumn, FeatureBatch visit,
+        IReadOnlyList<Action<FeatureView>>? batchVisits = null, ReadPass? settings = null)
     {
         var pass = new SampleStream(sample, inputs, weightColumn, settings ?? ReadPass.Default);
         foreach (var batch in sample.ReadBatches(pass.Columns, pass._pass))
@@ -94,8 +95,7 @@ internal sealed class SampleStream
             pass.SelectOwn(batch);
             pass.Select(batch);
             pass.Total();
-            pass.Visit(visit);
-            afterEachBatch?.Invoke(pass._frame);
+            pass.Visit(visit, batchVisits ?? []);
         }
         if (weightColumn is not null)
             SampleWeights.RequireRepresentableSquares(pass._largestWeight, weightColumn, sample.Files, new SourceLocation(sample.Files[0]));
@@ -221,20 +221,29 @@ internal sealed class SampleStream
         _events += kept;
     }
 
-    // Features are independent from here on (each touches only its visitor's state for that feature), so large
-    // batches spread them over the cores; the results do not depend on it.
-    private void Visit(FeatureBatch visit)
+    // Features and batch visitors are independent from here on (each touches only its own state), so large batches
+    // spread them over the cores; the results do not depend on it. The batch visitors come first: a joint block's
+    // visitor is the longest job of a batch, and starting it first lets the features fill the other cores beside it.
+    private void Visit(FeatureBatch visit, IReadOnlyList<Action<FeatureView>> batchVisits)
     {
-        void One(int i)
+        var b = batchVisits.Count;
+        void One(int job)
         {
+            if (job < b)
+            {
+                batchVisits[job](_frame);
+                return;
+            }
+            var i = job - b;
             var values = _inputs.Conditions[i] is null ? _frame.Feature(i) : _ownValues[i].AsSpan(0, _ownRows[i]);
             var featureWeights = _inputs.Conditions[i] is null ? _frame.Weights
                 : _weightIndex >= 0 ? _ownWeights[i].AsSpan(0, _ownRows[i]) : ReadOnlySpan<double>.Empty;
             visit(i, values, featureWeights);
         }
-        if (_n > 1 && _frame.Rows >= ParallelBatchRows && _pass.Parallelism > 1)
-            Parallel.For(0, _n, new ParallelOptions { MaxDegreeOfParallelism = _pass.Parallelism }, One);
-        else for (var i = 0; i < _n; i++) One(i);
+        var jobs = b + _n;
+        if (jobs > 1 && _frame.Rows >= ParallelBatchRows && _pass.Parallelism > 1)
+            Parallel.For(0, jobs, new ParallelOptions { MaxDegreeOfParallelism = _pass.Parallelism }, One);
+        else for (var job = 0; job < jobs; job++) One(job);
     }
 
     /// <summary>A condition holds when it is non-zero and not NaN.</summary>

@@ -257,6 +257,20 @@ internal sealed class BlockedCovariance
         throw new ArgumentException($"The weighted sum of column {k} overflows.", nameof(columns));
     }
 
+    /// <summary>
+    /// Joins a part of block <paramref name="block"/>'s events of one sign, given as its count, Σ|w|, Σw², mean and
+    /// full d × d co-moment matrix (weights as |w|), by the pairwise update.
+    /// </summary>
+    public void AddMoments(int block, bool negative, long count, double sumOfWeights, double sumOfSquaredWeights,
+        ReadOnlySpan<double> mean, ReadOnlySpan<double> comoments)
+    {
+        if ((uint)block >= (uint)Blocks) throw new ArgumentOutOfRangeException(nameof(block), block, $"A block index is within 0..{Blocks - 1}.");
+        for (var k = 0; k < Dimension; k++)
+            if (!double.IsFinite(mean[k]))
+                throw new ArgumentException($"The weighted mean of feature {k} is {mean[k]}: its values or weights overflow.", nameof(mean));
+        _slots[2 * block + (negative ? 1 : 0)].Merge(count, sumOfWeights, sumOfSquaredWeights, mean, comoments);
+    }
+
     /// <summary>Adds another accumulation block by block (same d and B); equal to one pass to rounding.</summary>
     public void Merge(BlockedCovariance other)
     {

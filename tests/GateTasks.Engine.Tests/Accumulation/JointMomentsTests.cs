@@ -78,4 +78,61 @@ public class JointMomentsTests
         var estimate = FrechetExtrapolation.Of(whole.Moments!, restored.Moments!);
         Assert.True(Math.Abs(estimate.Raw) < 1e-12, $"{estimate.Raw}");
     }
+
+    // Each block's weighted mean and co-moments by the two-pass textbook formulas (mean first, then Σ|w|(x − x̄)(x − x̄)ᵀ),
+    // over the rows of that block and sign: an independent computation of what the streamed fill must give.
+    private static (double[] Mean, double[] Comoments, long Count) TwoPass(double[][] columns, double[] w, long[] fileRows, int block, bool negative,
+        double[] means, double[] sds, bool[] keep)
+    {
+        var d = columns.Length;
+        var rows = Enumerable.Range(0, w.Length).Where(r => keep[r] && fileRows[r] % JointMoments.Blocks == block && (negative ? w[r] < 0 : w[r] > 0)).ToArray();
+        var z = rows.Select(r => Enumerable.Range(0, d).Select(k => (columns[k][r] - means[k]) / sds[k]).ToArray()).ToArray();
+        var a = rows.Select(r => Math.Abs(w[r])).ToArray();
+        var total = a.Sum();
+        var mean = Enumerable.Range(0, d).Select(k => z.Select((row, i) => a[i] * row[k]).Sum() / total).ToArray();
+        var c = new double[d * d];
+        for (var p = 0; p < d; p++)
+            for (var q = 0; q < d; q++)
+                c[p * d + q] = z.Select((row, i) => a[i] * (row[p] - mean[p]) * (row[q] - mean[q])).Sum();
+        return (mean, c, rows.Length);
+    }
+
+    [Theory]
+    [InlineData(false, 5)]   // consecutive rows, no value missing: the contiguous path, starting mid-way through the blocks
+    [InlineData(true, 5)]    // rows thinned by a selection and a few missing values: the row-by-row placement
+    [InlineData(false, 16)]  // a batch starting at block 0
+    public void Each_blocks_moments_match_a_two_pass_computation(bool irregular, long firstRow)
+    {
+        var rng = new Random(11);
+        const int n = 5000, d = 7;
+        var columns = Enumerable.Range(0, d).Select(k => Enumerable.Range(0, n).Select(_ => 1000 + k + rng.NextDouble() * (k + 1)).ToArray()).ToArray();
+        for (var r = 0; r < n; r++) columns[3][r] += 0.8 * columns[1][r];
+        var w = Enumerable.Range(0, n).Select(i => i % 13 == 0 ? -0.3 - rng.NextDouble() : i % 29 == 0 ? 0 : 0.2 + rng.NextDouble()).ToArray();
+        var fileRows = irregular
+            ? Enumerable.Range(0, n).Select(i => firstRow + 3L * i + (i % 7 == 0 ? 1 : 0)).ToArray()
+            : Enumerable.Range(0, n).Select(i => firstRow + i).ToArray();
+        var keep = Enumerable.Repeat(true, n).ToArray();
+        if (irregular)
+            foreach (var r in new[] { 3, 400, 401, 2222, 4999 })
+            {
+                columns[r % d][r] = r % 2 == 0 ? double.NaN : double.NegativeInfinity;
+                keep[r] = false;
+            }
+        double[] means = [1000, 1001, 1002, 1003, 1004, 1005, 1006], sds = [0.5, 1.5, 2, 3, 1, 1.25, 4];
+        var joint = new JointMoments(Enumerable.Range(0, d).ToArray(), new JointStandardisation(means, sds), true, false);
+        // Two batches, so the second is taken about the first's running mean.
+        joint.Add(View(columns.Select(c => c[..2000]).ToArray(), w[..2000], fileRows[..2000]));
+        joint.Add(View(columns.Select(c => c[2000..]).ToArray(), w[2000..], fileRows[2000..]));
+        Assert.Equal(keep.Count(k => !k), joint.Skipped);
+        for (var b = 0; b < JointMoments.Blocks; b++)
+            foreach (var negative in new[] { false, true })
+            {
+                var expected = TwoPass(columns, w, fileRows, b, negative, means, sds, keep);
+                var got = negative ? joint.Moments!.Negative(b) : joint.Moments!.Positive(b);
+                Assert.Equal(expected.Count, got.Count);
+                for (var k = 0; k < d; k++) Assert.Equal(expected.Mean[k], got.Mean[k], 10);
+                for (var i = 0; i < d * d; i++) Assert.Equal(expected.Comoments[i], got.Comoments[i], 8);
+            }
+    }
+
 }
