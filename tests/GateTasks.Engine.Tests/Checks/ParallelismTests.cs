@@ -7,7 +7,8 @@ using GateTasks.Engine.Runs;
 namespace GateTasks.Engine.Tests.Checks;
 
 /// <summary>
-/// Threads change the time of a check, never its content: the demo contract (every kind of check) on a sample whose
+/// Threads change the time of a check, never its content: the demo contract (every kind of check) with a joint block of
+/// every kind (its visitors run beside the per-feature fills) on a sample whose
 /// row groups are larger than one batch gives the same bits for every number with one, two or three threads.
 /// These tests compare the program with itself (thread counts); they have no outside source.
 /// </summary>
@@ -21,7 +22,17 @@ public sealed class ParallelismTests : IDisposable
     public void One_two_and_three_threads_give_identical_reports()
     {
         var contractPath = Path.Combine(_dir, DemoContract.FileName);
-        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet"));
+        // With a joint block of every kind, whose visitors run beside the per-feature fills.
+        File.WriteAllText(contractPath, DemoContract.Text.Replace("path: surrogate-faithful.parquet", "path: surrogate.parquet") + """
+
+            joint:
+              features: [m_gg, pt_gg, e_lead, e_sublead, eta_lead, cos_theta_star]
+              frechet-max: 0.01
+              kernel-distance-max: 0.001
+              sliced-ks-max: { worst: 0.03, mean: 0.01 }
+              sliced-wasserstein-max: { worst: 0.05, mean: 0.02 }
+              projections: 8
+            """);
         var contract = ContractLoader.Load(contractPath);
         var fullsim = Path.Combine(_dir, "fullsim.parquet");
         DemoSampleWriter.Write(fullsim, DemoScenarioParameters.FullSimulation, 200_000, 21, 50_000);
@@ -32,6 +43,8 @@ public sealed class ParallelismTests : IDisposable
         var reports = new[] { 1, 2, 3 }.Select(t => ContractRun.Run(contract, parallelism: t)).ToList();
 
         var one = reports[0];
+        Assert.Contains(one.Outcomes, o => o.Check.Label.StartsWith("frechet", StringComparison.Ordinal));
+        Assert.Contains(one.Outcomes, o => o.Check.Label.StartsWith("sliced", StringComparison.Ordinal));
         Assert.True(one.Failures > 0); // the drifted sample: failures and passes both take part
         foreach (var other in reports.Skip(1))
         {
