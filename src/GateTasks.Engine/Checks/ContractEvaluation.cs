@@ -2,6 +2,7 @@ using GateTasks.Engine.Accumulation;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.References;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
@@ -59,6 +60,7 @@ internal static class ContractEvaluation
                     new CellContents(cells.SumW, cells.SumW2)))));
             }
         }
+        Lazy<FrechetEstimate>? frechetEstimate = null;
         if (contract.Joint is { Streams: true } streamed)
         {
             var stored = reference.JointMoments is { } rm && rm.Features.SequenceEqual(streamed.Features)
@@ -67,8 +69,11 @@ internal static class ContractEvaluation
                     $"The reference holds no streamed moments of {streamed.Name}; rebuild it with 'gatetasks reference build'.", streamed.Location);
             var gathered = sample.JointMoments ?? AccumulatedJointMoments.From(streamed.Features.Count, new JointMomentsState(0, 0, null, null));
             var subject = new JointSubject(streamed);
+            // One extrapolation (about B³/2 distances) serves the check and the global score.
+            if (stored.Moments is { } rm2 && gathered.Moments is { } sm2)
+                frechetEstimate = new Lazy<FrechetEstimate>(() => FrechetExtrapolation.Of(rm2, sm2));
             if (streamed.Frechet is { } frechet)
-                measured.Add((subject, frechet, FrechetCheck.Evaluate(stored, gathered, frechet, contract.Decision, sample.Events)));
+                measured.Add((subject, frechet, FrechetCheck.Evaluate(stored, gathered, frechet, contract.Decision, sample.Events, frechetEstimate)));
             if (streamed.KernelDistance is { } kernel)
                 measured.Add((subject, kernel, KernelDistanceCheck.Evaluate(stored, gathered, kernel, contract.Decision, sample.Events)));
         }
@@ -85,7 +90,7 @@ internal static class ContractEvaluation
         // The global score: information beside the verdict, from the same moments as the frechet-max check.
         var score = contract.Joint is { } scored
             ? GlobalScore.Of(scored, reference.JointMoments is { } km && km.Features.SequenceEqual(scored.Features) && km.State.Moments is not null
-                ? AccumulatedJointMoments.From(scored.Features.Count, km.State) : null, sample.JointMoments)
+                ? AccumulatedJointMoments.From(scored.Features.Count, km.State) : null, sample.JointMoments, frechetEstimate)
             : GlobalScore.NoJointBlock;
         // Two families: the tolerance checks decide the run; the goodness-of-fit tests are read apart, beside it.
         var tolerances = measured.Where(m => m.Item2 is not GoodnessOfFitTest).ToList();

@@ -15,15 +15,17 @@ namespace GateTasks.Engine.Checks;
 /// </summary>
 internal static class FrechetCheck
 {
-    public static Measurement Evaluate(AccumulatedJointMoments reference, AccumulatedJointMoments sample, ToleranceCheck spec, DecisionSettings decision, long sampleEvents)
+    /// <remarks><paramref name="estimate"/>, when given, is the estimate of these same moments, computed once for this check and the global score.</remarks>
+    public static Measurement Evaluate(AccumulatedJointMoments reference, AccumulatedJointMoments sample, ToleranceCheck spec, DecisionSettings decision, long sampleEvents,
+        Lazy<FrechetEstimate>? estimate = null)
     {
         if (reference.Moments is not { } r || sample.Moments is not { } s)
             return Measurement.Impossible("no joint moments were gathered", []);
-        FrechetEstimate estimate;
+        FrechetEstimate extrapolated;
         GaussianFit referenceFit, sampleFit;
         try
         {
-            estimate = FrechetExtrapolation.Of(r, s);
+            extrapolated = estimate?.Value ?? FrechetExtrapolation.Of(r, s);
             (referenceFit, sampleFit) = (r.Fit(), s.Fit());
         }
         catch (ArgumentException e)
@@ -32,21 +34,21 @@ internal static class FrechetCheck
         }
         var details = new List<KeyValuePair<string, string>>
         {
-            new("extrapolated", InvariantNumber.Exact(estimate.Extrapolated)), new("standard_error", InvariantNumber.Exact(estimate.StandardError)),
-            new("all_events", InvariantNumber.Exact(estimate.Raw)), new("slope", InvariantNumber.Exact(estimate.Slope)),
+            new("extrapolated", InvariantNumber.Exact(extrapolated.Extrapolated)), new("standard_error", InvariantNumber.Exact(extrapolated.StandardError)),
+            new("all_events", InvariantNumber.Exact(extrapolated.Raw)), new("slope", InvariantNumber.Exact(extrapolated.Slope)),
             new("reference_rows", InvariantNumber.Count(reference.Rows)), new("sample_rows", InvariantNumber.Count(sample.Rows)),
             new("sample_rows_skipped", InvariantNumber.Count(sample.Skipped)), new("blocks", InvariantNumber.Count(r.Blocks)),
         };
-        if (!double.IsFinite(estimate.Extrapolated) || !double.IsFinite(estimate.StandardError))
+        if (!double.IsFinite(extrapolated.Extrapolated) || !double.IsFinite(extrapolated.StandardError))
             return Measurement.Impossible(
                 $"some block of {r.Blocks} has no defined Gaussian fit (too few rows, or event weights that cancel), so the distance cannot be extrapolated or its error estimated " +
                 $"({InvariantNumber.Count(reference.Rows)} reference and {InvariantNumber.Count(sample.Rows)} sample rows)", details);
-        var (seReference, seSample) = JointErrorSplit.Of(estimate.StandardError, referenceFit.EffectiveCount, sampleFit.EffectiveCount);
+        var (seReference, seSample) = JointErrorSplit.Of(extrapolated.StandardError, referenceFit.EffectiveCount, sampleFit.EffectiveCount);
         var effect = new EffectIntersection(spec.Tolerance, decision, sampleEvents);
-        effect.Add(estimate.Extrapolated, seReference, seSample);
-        return effect.ToMeasurement(estimate.Extrapolated,
-            $"Fréchet distance {InvariantNumber.Short(estimate.Extrapolated)} ± {InvariantNumber.Short(estimate.StandardError)} extrapolated to infinite size " +
-            $"({InvariantNumber.Short(estimate.Raw)} on all {InvariantNumber.Count(sample.Rows)} sample rows), upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}",
+        effect.Add(extrapolated.Extrapolated, seReference, seSample);
+        return effect.ToMeasurement(extrapolated.Extrapolated,
+            $"Fréchet distance {InvariantNumber.Short(extrapolated.Extrapolated)} ± {InvariantNumber.Short(extrapolated.StandardError)} extrapolated to infinite size " +
+            $"({InvariantNumber.Short(extrapolated.Raw)} on all {InvariantNumber.Count(sample.Rows)} sample rows), upper bound {InvariantNumber.Short(effect.Upper)} vs tolerance {InvariantNumber.Short(spec.Tolerance)}",
             details);
     }
 }

@@ -37,7 +37,8 @@ internal sealed record GlobalScore(string Covers, double Value, double StandardE
     /// The score of <paramref name="joint"/> from the reference's stored moments (<paramref name="reference"/>, null when it
     /// keeps none of this block) and the sample's (<paramref name="sample"/>).
     /// </summary>
-    public static GlobalScore Of(JointSpec? joint, AccumulatedJointMoments? reference, AccumulatedJointMoments? sample)
+    /// <remarks><paramref name="computed"/>, when given, is the estimate of these same moments that the block's <c>frechet-max</c> check reads.</remarks>
+    public static GlobalScore Of(JointSpec? joint, AccumulatedJointMoments? reference, AccumulatedJointMoments? sample, Lazy<FrechetEstimate>? computed = null)
     {
         if (joint is null) return NoJointBlock;
         if (reference?.Moments is not { } r)
@@ -47,7 +48,7 @@ internal sealed record GlobalScore(string Covers, double Value, double StandardE
         FrechetEstimate estimate;
         try
         {
-            estimate = FrechetExtrapolation.Of(r, s);
+            estimate = computed?.Value ?? FrechetExtrapolation.Of(r, s);
         }
         catch (ArgumentException e)
         {
