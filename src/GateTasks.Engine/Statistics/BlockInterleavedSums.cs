@@ -72,7 +72,13 @@ internal sealed class BlockInterleavedSums
     /// with their <paramref name="weights"/> (non-negative; 0 at padding, and for rows of the other sign when signs are
     /// kept apart).
     /// </summary>
-    public void Add(double[][] columns, double[] weights, int rowsPerBlock)
+    public void Add(double[][] columns, double[] weights, int rowsPerBlock) => Add(columns, weights, rowsPerBlock, unitWeights: false);
+
+    /// <summary>
+    /// As <see cref="Add(double[][], double[], int)"/>; with <paramref name="unitWeights"/> the caller promises that
+    /// every weight is 1 except at padding, where it is 0 with values 0 (so w·x is x itself and is not formed).
+    /// </summary>
+    public void Add(double[][] columns, double[] weights, int rowsPerBlock, bool unitWeights)
     {
         var d = Dimension;
         var blocks = Blocks;
@@ -91,18 +97,23 @@ internal sealed class BlockInterleavedSums
                 _count[b]++;
                 _w2[b] += w * w;
             }
-        for (var k = 0; k < d; k++) Multiply(weights.AsSpan(0, positions), columns[k].AsSpan(0, positions), _weighted[k].AsSpan(0, positions));
+        var weighted = columns;
+        if (!unitWeights)
+        {
+            for (var k = 0; k < d; k++) Multiply(weights.AsSpan(0, positions), columns[k].AsSpan(0, positions), _weighted[k].AsSpan(0, positions));
+            weighted = _weighted;
+        }
         if (Vector512.IsHardwareAccelerated && blocks % Vector512<double>.Count == 0)
         {
             LaneSums(weights, _s0, rowsPerBlock);
-            for (var k = 0; k < d; k++) LaneSums(_weighted[k], _s1.AsSpan(k * blocks, blocks), rowsPerBlock);
+            for (var k = 0; k < d; k++) LaneSums(weighted[k], _s1.AsSpan(k * blocks, blocks), rowsPerBlock);
             for (var p = 0; p < d; p++)
             {
                 var row = _s2.AsSpan(p * (p + 1) / 2 * blocks, (p + 1) * blocks);
                 var q = 0;
                 for (; q + 4 <= p + 1; q += 4)
-                    CrossSums4(_weighted[p], columns[q], columns[q + 1], columns[q + 2], columns[q + 3], row.Slice(q * blocks, 4 * blocks), rowsPerBlock);
-                for (; q <= p; q++) LaneCrossSums(_weighted[p], columns[q], row.Slice(q * blocks, blocks), rowsPerBlock);
+                    CrossSums4(weighted[p], columns[q], columns[q + 1], columns[q + 2], columns[q + 3], row.Slice(q * blocks, 4 * blocks), rowsPerBlock);
+                for (; q <= p; q++) LaneCrossSums(weighted[p], columns[q], row.Slice(q * blocks, blocks), rowsPerBlock);
             }
             return;
         }
@@ -110,10 +121,10 @@ internal sealed class BlockInterleavedSums
         if (width > 1)
         {
             LaneSums(weights, _s0, rowsPerBlock);
-            for (var k = 0; k < d; k++) LaneSums(_weighted[k], _s1.AsSpan(k * blocks, blocks), rowsPerBlock);
+            for (var k = 0; k < d; k++) LaneSums(weighted[k], _s1.AsSpan(k * blocks, blocks), rowsPerBlock);
             for (var p = 0; p < d; p++)
             {
-                var ap = _weighted[p];
+                var ap = weighted[p];
                 var row = _s2.AsSpan(p * (p + 1) / 2 * blocks, (p + 1) * blocks);
                 var q = 0;
                 for (; q + 2 <= p + 1; q += 2)
@@ -129,7 +140,7 @@ internal sealed class BlockInterleavedSums
                 _s0[b] += weights[i];
                 for (var p = 0; p < d; p++)
                 {
-                    var ap = _weighted[p][i];
+                    var ap = weighted[p][i];
                     _s1[p * blocks + b] += ap;
                     var at = p * (p + 1) / 2 * blocks + b;
                     for (var q = 0; q <= p; q++) _s2[at + q * blocks] += ap * columns[q][i];
