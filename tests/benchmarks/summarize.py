@@ -213,11 +213,18 @@ def main(work, out_path=None):
         growing = (r["wall"] - plain["wall"] - (fixed["wall"] - runs["check-startup"]["wall"])) / check_stream
         others = "; ".join(f"{name} ({m} features, {', '.join(keys)}): {100 * (q['wall'] - plain['wall']) / check_stream:.1f}%"
                            for name, m, keys, q, _ in joint if not (len(keys) > 1 and m == 20))
-        targets.append(("all joint checks together add ≤ 15% to the streaming time",
-                        f"{n} features: {r['wall']:.3f} s vs {plain['wall']:.3f} s, +{100 * added:.1f}% of {check_stream:.3f} s "
-                        f"(CPU +{100 * (r['cpu'] - plain['cpu']) / stream_cpu:.1f}%; the part that grows with the events "
-                        f"+{100 * growing:.1f}%)"
-                        + (f" ({others})" if others else ""), added <= 0.15))
+        # A streaming time within noise of zero (the small modes) gives no meaningful share: not measured, never "met".
+        measurable = check_stream > 0.5 and stream_cpu > 0.5
+        if not measurable:
+            targets.append(("all joint checks together add ≤ 15% to the streaming time",
+                            f"not measurable at {power_of_ten(events)} events: the plain check streams for {check_stream:.3f} s "
+                            f"({stream_cpu:.2f} s CPU), too short to share out", None))
+        else:
+            targets.append(("all joint checks together add ≤ 15% to the streaming time",
+                            f"{n} features: {r['wall']:.3f} s vs {plain['wall']:.3f} s, +{100 * added:.1f}% of {check_stream:.3f} s "
+                            f"(CPU +{100 * (r['cpu'] - plain['cpu']) / stream_cpu:.1f}%; the part that grows with the events "
+                            f"+{100 * growing:.1f}%)"
+                            + (f" ({others})" if others else ""), added <= 0.15))
     if meta["build_overhead"]:
         with_side, without_side = plain_seconds(work, "build-with"), plain_seconds(work, "build-without")
         overhead = median_of(with_side) - median_of(without_side)
