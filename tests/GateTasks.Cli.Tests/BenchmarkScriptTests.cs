@@ -46,12 +46,12 @@ public class BenchmarkScriptTests
         Assert.Contains(runs, r => r.Contains("DuckDB", StringComparison.Ordinal));
         Assert.Contains(runs, r => r.Contains("numpy", StringComparison.Ordinal));
 
-        // The joint block's cost: four variants (all joint checks over 20 and over 5 features, each check key alone
-        // over 20), each timed with a positive wall time; the program compared with itself (with and without the block).
+        // The joint block's cost: five variants (all joint checks over 20 and over 5 features, each kind alone over 20),
+        // each timed with a positive wall time; the program compared with itself (with and without the block).
         var jointHeader = Array.FindIndex(lines, l => l.StartsWith("| `gatetasks check` with a joint block |", StringComparison.Ordinal));
         Assert.True(jointHeader > 0, stdout);
         var joint = lines.Skip(jointHeader + 2).TakeWhile(l => l.StartsWith('|')).ToList();
-        Assert.Equal(["all20", "all5", "frechet20", "kernel20"], joint.Select(l => l.Split('|', StringSplitOptions.TrimEntries)[1]));
+        Assert.Equal(["all20", "all5", "frechet20", "kernel20", "sliced20"], joint.Select(l => l.Split('|', StringSplitOptions.TrimEntries)[1]));
         foreach (var run in joint)
             Assert.True(double.Parse(run.Split('|', StringSplitOptions.TrimEntries)[4], CultureInfo.InvariantCulture) > 0, run);
 
@@ -59,7 +59,11 @@ public class BenchmarkScriptTests
         // seventh, the joint block's added time, came with the joint variants (six targets before).
         var targets = lines.SkipWhile(l => l != "| target | measured | result |").Skip(2).TakeWhile(l => l.StartsWith('|')).ToList();
         Assert.Equal(7, targets.Count);
-        Assert.Contains(targets, t => t.StartsWith("| all joint checks together add ≤ 15% to the streaming time | 20 features: ", StringComparison.Ordinal));
+        // At 10^5 events the plain check streams for a fraction of a second, within noise of its fixed cost: the share
+        // is then "not measured", never "met" on a difference of two noisy numbers.
+        var jointTarget = Assert.Single(targets, t => t.StartsWith("| all joint checks together add ≤ 15% to the streaming time | ", StringComparison.Ordinal));
+        Assert.True(jointTarget.Contains("| 20 features: ", StringComparison.Ordinal)
+            || jointTarget.Contains("| not measurable at 10^5 events", StringComparison.Ordinal) && jointTarget.EndsWith("| not measured |", StringComparison.Ordinal), jointTarget);
         foreach (var t in targets)
             Assert.Matches(@"\| (met|\*\*missed\*\*|not measured) \|$", t);
         Assert.EndsWith("| not measured (--skip-build-overhead) | not measured |", targets[^1]);
