@@ -39,7 +39,7 @@ internal static class Wasserstein
     }
 
     /// <summary>Mean of |d(t)| for d linear from d0 to d1 on [0, 1], splitting at the sign change.</summary>
-    private static double LinearAbsMean(double d0, double d1)
+    internal static double LinearAbsMean(double d0, double d1)
     {
         if (d0 * d1 >= 0)
             return (Math.Abs(d0) + Math.Abs(d1)) / 2;
