@@ -40,8 +40,9 @@ internal static class FrechetExtrapolation
         var (intercept, slope) = LeastSquares(points);
         var raw = points[^1].Distance;
 
+        // The windows are only read from here on, so the leave-one-out repetitions run side by side.
         var leftOut = new double[blocks];
-        for (var b = 0; b < blocks; b++) leftOut[b] = LeastSquares(WindowDistances(reference, sample, b, windows)).Intercept;
+        Parallel.For(0, blocks, b => leftOut[b] = LeastSquares(WindowDistances(reference, sample, b, windows)).Intercept);
         return new FrechetEstimate(raw, intercept, slope, JackknifeStandardError(leftOut), points);
     }
 
@@ -77,11 +78,14 @@ internal static class FrechetExtrapolation
         var blocks = reference.Blocks;
         var present = Enumerable.Range(0, reference.Blocks).Where(b => b != leftOut).ToArray();
         var m = present.Length;
-        var sums = new (double X, double Fd, int N)[m];
-        for (var s = 0; s < m; s++)
+        // Each start's run of windows on its own (side by side on the cores), then summed in the order of the starts,
+        // so the points do not depend on the threads.
+        var runs = new (double X, double Fd, bool New)[m][];
+        Parallel.For(0, m, s =>
         {
             CovarianceMoments refPlus = new(d), refMinus = new(d), samplePlus = new(d), sampleMinus = new(d);
             var sizes = s == 0 ? m : m - 1; // the whole set once, from the first start
+            var run = new (double X, double Fd, bool New)[sizes];
             for (var j = 0; j < sizes; j++)
             {
                 var b = present[(s + j) % m];
@@ -91,20 +95,29 @@ internal static class FrechetExtrapolation
                 sampleMinus.Merge(sample.Negative(b));
                 var first = present[s];
                 var size = j + 1;
-                double x, fd;
                 if (leftOut >= 0 && (leftOut - first + blocks) % blocks >= size)
-                    (x, fd) = windows[(first, size)];
+                {
+                    var (x, fd) = windows[(first, size)];
+                    run[j] = (x, fd, false);
+                }
                 else
                 {
                     var r = GaussianFit.Join(refPlus, refMinus);
                     var f = GaussianFit.Join(samplePlus, sampleMinus);
-                    x = r.EffectiveCount > 0 && f.EffectiveCount > 0 ? 1 / r.EffectiveCount + 1 / f.EffectiveCount : double.NaN;
-                    fd = FrechetDistance.Between(r, f);
-                    if (leftOut < 0) windows[(first, size)] = (x, fd);
+                    var x = r.EffectiveCount > 0 && f.EffectiveCount > 0 ? 1 / r.EffectiveCount + 1 / f.EffectiveCount : double.NaN;
+                    run[j] = (x, FrechetDistance.Between(r, f), true);
                 }
+            }
+            runs[s] = run;
+        });
+        var sums = new (double X, double Fd, int N)[m];
+        for (var s = 0; s < m; s++)
+            for (var j = 0; j < runs[s].Length; j++)
+            {
+                var (x, fd, computed) = runs[s][j];
+                if (leftOut < 0 && computed) windows[(present[s], j + 1)] = (x, fd);
                 sums[j] = (sums[j].X + x, sums[j].Fd + fd, sums[j].N + 1);
             }
-        }
         return sums.Select(t => (t.X / t.N, t.Fd / t.N)).ToArray();
     }
 
