@@ -25,6 +25,7 @@ internal sealed class SlicedCellLookup
     private readonly int _slots;
     private readonly int _lo;
     private readonly int _hi;
+    private readonly bool _sparse; // no slot holds more than two edges
 
     public SlicedCellLookup(double[] edges)
     {
@@ -60,6 +61,8 @@ internal sealed class SlicedCellLookup
             while (e < hi && Slot(edges[e]) < s) e++;
             _first[s] = e;
         }
+        _sparse = true;
+        for (var s = 0; s <= _slots; s++) _sparse &= _first[s + 1] - _first[s] <= 2;
     }
 
     private double PerSlot(double low, double high)
@@ -115,6 +118,44 @@ internal sealed class SlicedCellLookup
             return Count(x, c, end);
         }
         return x < _low ? Count(x, 0, _lo) : Count(x, _hi + 1, _edges.Length);
+    }
+
+    /// <summary>
+    /// The cells of many finite values (<see cref="Cell"/> for each; any other value gets some cell and must be left
+    /// out by the caller). The core's path is written out with the table and edges in locals and without range checks,
+    /// as it runs K times a row: for x in [edges[lo], edges[hi]) the slot (x − edges[lo])·perSlot is below slots + 1
+    /// (both roundings are monotone and (edges[hi] − edges[lo])·perSlot rounds to slots), so it indexes the table
+    /// directly, and the entry and the one after it lie in [lo + 1, hi].
+    /// </summary>
+    public void CellsOf(ReadOnlySpan<double> values, Span<int> cells)
+    {
+        if (cells.Length < values.Length) throw new ArgumentException("Too few cells for the values.", nameof(cells));
+        double low = _low, high = _high, perSlot = _perSlot;
+        ref var first = ref System.Runtime.InteropServices.MemoryMarshal.GetArrayDataReference(_first);
+        ref var edges = ref System.Runtime.InteropServices.MemoryMarshal.GetArrayDataReference(_edges);
+        ref var x0 = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(values);
+        ref var c0 = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(cells);
+        for (var r = 0; r < values.Length; r++)
+        {
+            var x = System.Runtime.CompilerServices.Unsafe.Add(ref x0, r);
+            int c;
+            if (x >= low && x < high)
+            {
+                var t = (x - low) * perSlot;
+                var s = System.Runtime.Intrinsics.X86.Sse2.IsSupported
+                    ? System.Runtime.Intrinsics.X86.Sse2.ConvertToInt32WithTruncation(System.Runtime.Intrinsics.Vector128.CreateScalarUnsafe(t))
+                    : (int)t;
+                c = System.Runtime.CompilerServices.Unsafe.Add(ref first, s);
+                if (_sparse || System.Runtime.CompilerServices.Unsafe.Add(ref first, s + 1) - c <= 2)
+                {
+                    c += x >= System.Runtime.CompilerServices.Unsafe.Add(ref edges, c) ? 1 : 0;
+                    c += x >= System.Runtime.CompilerServices.Unsafe.Add(ref edges, c) ? 1 : 0;
+                }
+                else c = Count(x, c, System.Runtime.CompilerServices.Unsafe.Add(ref first, s + 1));
+            }
+            else c = Cell(x);
+            System.Runtime.CompilerServices.Unsafe.Add(ref c0, r) = c;
+        }
     }
 
     /// <summary>The number of edges ≤ x, knowing that edges below <paramref name="from"/> are ≤ x and edges from <paramref name="to"/> on are above it.</summary>

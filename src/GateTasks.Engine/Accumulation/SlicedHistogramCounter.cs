@@ -64,6 +64,8 @@ internal sealed class SlicedHistogramCounter
     private bool _deferCounts = true;
     private readonly int[] _lengths;    // per projection: cells + 2
     private readonly int[] _groupBases; // per projection: G·offset
+    private readonly int[] _countBases; // per projection: (G + 1)·offset, the counts' layout with a spare group
+    private readonly int[] _countGroup = new int[BlockRows];
 
     // Chunk buffers.
     private readonly double[][] _columns;
@@ -71,6 +73,7 @@ internal sealed class SlicedHistogramCounter
     private readonly double[] _projected;
     private readonly int _rowStride; // K rounded up to an odd number of cache lines, so a column's values spread over the cache's sets
     private readonly double[] _byProjection; // [k·BlockRows + r]
+    private readonly int[] _cells = new int[BlockRows];
     private readonly int[] _group = new int[BlockRows];
     private readonly bool[] _valid = new bool[BlockRows];
 
@@ -95,6 +98,7 @@ internal sealed class SlicedHistogramCounter
         _stride = offset;
         _lengths = _lookups.Select(l => l.Cells + 2).ToArray();
         _groupBases = _offsets.Select(o => groups * o).ToArray();
+        _countBases = _offsets.Select(o => (groups + 1) * o).ToArray();
         _batchGroups = new double[groups * _stride];
         _batchSquares = new double[_stride];
         _batchMoments = new double[3 * projection.Count];
@@ -126,7 +130,7 @@ internal sealed class SlicedHistogramCounter
         }
         else
         {
-            _counts ??= new int[_batchGroups.Length];
+            _counts ??= new int[(_groups + 1) * _stride];
             // Counts stay exact in int up to int.MaxValue rows and in one double up to 2^53 (an exact sum of integers
             // below that is its one leading term, however they are grouped).
             if (_pendingRows + view.Rows > int.MaxValue) FlushCounts();
@@ -256,6 +260,40 @@ internal sealed class SlicedHistogramCounter
         if (Vector.IsHardwareAccelerated)
         {
             var lanes = Vector<double>.Count;
+            // Two vectors of projections at a time, so two chains of additions overlap.
+            for (; k + 2 * lanes <= count; k += 2 * lanes)
+            {
+                Vector<double> s0 = default, s1 = default, s2 = default, t0 = default, t1 = default, t2 = default;
+                for (var r = 0; r < n; r++)
+                {
+                    if (!_valid[at + r]) continue;
+                    var x = new Vector<double>(_projected, r * _rowStride + k);
+                    var y = new Vector<double>(_projected, r * _rowStride + k + lanes);
+                    if (weighted)
+                    {
+                        var w = new Vector<double>(_weights[at + r]);
+                        var wx = w * x;
+                        var wy = w * y;
+                        s0 += w;
+                        s1 += wx;
+                        s2 += wx * x;
+                        t0 += w;
+                        t1 += wy;
+                        t2 += wy * y;
+                    }
+                    else
+                    {
+                        s0 += Vector<double>.One;
+                        s1 += x;
+                        s2 += x * x;
+                        t0 += Vector<double>.One;
+                        t1 += y;
+                        t2 += y * y;
+                    }
+                }
+                AddMoments(k, s0, s1, s2);
+                AddMoments(k + lanes, t0, t1, t2);
+            }
             for (; k + lanes <= count; k += lanes)
             {
                 Vector<double> s0 = default, s1 = default, s2 = default;
@@ -278,12 +316,7 @@ internal sealed class SlicedHistogramCounter
                         s2 += x * x;
                     }
                 }
-                for (var i = 0; i < lanes; i++)
-                {
-                    _batchMoments[3 * (k + i)] += s0[i];
-                    _batchMoments[3 * (k + i) + 1] += s1[i];
-                    _batchMoments[3 * (k + i) + 2] += s2[i];
-                }
+                AddMoments(k, s0, s1, s2);
             }
         }
         for (; k < count; k++)
@@ -301,6 +334,16 @@ internal sealed class SlicedHistogramCounter
             _batchMoments[3 * k] += s0;
             _batchMoments[3 * k + 1] += s1;
             _batchMoments[3 * k + 2] += s2;
+        }
+    }
+
+    private void AddMoments(int k, Vector<double> s0, Vector<double> s1, Vector<double> s2)
+    {
+        for (var i = 0; i < Vector<double>.Count; i++)
+        {
+            _batchMoments[3 * (k + i)] += s0[i];
+            _batchMoments[3 * (k + i) + 1] += s1[i];
+            _batchMoments[3 * (k + i) + 2] += s2[i];
         }
     }
 
@@ -323,21 +366,21 @@ internal sealed class SlicedHistogramCounter
     private void AddCounts(int m)
     {
         var counts = _counts!;
+        var cells = _cells.AsSpan(0, m);
+        for (var r = 0; r < m; r++) _countGroup[r] = _valid[r] ? _group[r] : _groups; // a skipped row counts in a spare group
         for (var p = 0; p < _lengths.Length; p++)
         {
-            var lookup = _lookups[p];
             var length = _lengths[p];
-            var top = length - 3;
+            var top = (uint)(length - 4); // c − 1 for c = edges.Length, the overflow
             var block = _groupBases[p];
+            var countBlock = _countBases[p] + 1;
             var values = _byProjection.AsSpan(p * BlockRows, m);
-            for (var r = 0; r < values.Length; r++)
+            _lookups[p].CellsOf(values, cells);
+            for (var r = 0; r < cells.Length; r++)
             {
-                if (!_valid[r]) continue;
-                var x = values[r];
-                var c = lookup.Cell(x);
-                var g = block + _group[r] * length;
-                counts[g + 1 + c]++;
-                if (c == 0 || c == top) Tail(p, g, c, x, 1.0);
+                var c = cells[r];
+                counts[countBlock + _countGroup[r] * length + c]++;
+                if ((uint)(c - 1) >= top && _valid[r]) Tail(p, block + _group[r] * length, c, values[r], 1.0);
             }
         }
     }
@@ -345,24 +388,24 @@ internal sealed class SlicedHistogramCounter
     /// <summary>Weights: each row adds w to its group's cell and w² to the cell's Σw², in row order as a row-by-row fill does.</summary>
     private void AddWeights(int m)
     {
+        var cells = _cells.AsSpan(0, m);
         for (var p = 0; p < _lengths.Length; p++)
         {
-            var lookup = _lookups[p];
             var length = _lengths[p];
             var top = length - 3;
             var block = _groupBases[p];
             var squares = _offsets[p] + 1;
             var values = _byProjection.AsSpan(p * BlockRows, m);
-            for (var r = 0; r < values.Length; r++)
+            _lookups[p].CellsOf(values, cells);
+            for (var r = 0; r < cells.Length; r++)
             {
                 if (!_valid[r]) continue;
-                var x = values[r];
-                var c = lookup.Cell(x);
+                var c = cells[r];
                 var g = block + _group[r] * length;
                 var w = _weights[r];
                 _batchGroups[g + 1 + c] += w;
                 _batchSquares[squares + c] += w * w;
-                if (c == 0 || c == top) Tail(p, g, c, x, w);
+                if (c == 0 || c == top) Tail(p, g, c, values[r], w);
             }
         }
     }
@@ -440,15 +483,16 @@ internal sealed class SlicedHistogramCounter
                 long total = 0;
                 for (var g = 0; g < _groups; g++)
                 {
-                    var at = _groupBases[p] + g * length + i;
+                    var at = _countBases[p] + g * length + i;
                     if (counts[at] == 0) continue;
-                    _groupSums.Add(at, counts[at]);
+                    _groupSums.Add(_groupBases[p] + g * length + i, counts[at]);
                     total += counts[at];
                     counts[at] = 0;
                 }
                 if (total != 0) _squareSums.Add(_offsets[p] + i, total);
             }
         }
+        Array.Clear(counts); // and the spare group's counts of skipped rows
     }
 
     /// <summary>Adds another counter's sums (same projection, grids and groups; exact).</summary>

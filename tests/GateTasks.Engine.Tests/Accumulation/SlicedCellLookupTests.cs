@@ -27,13 +27,16 @@ public sealed class SlicedCellLookupTests
     private static void AssertBinarySearch(double[] edges, IEnumerable<double> probes)
     {
         var lookup = new SlicedCellLookup(edges);
-        foreach (var x in probes.Concat(edges).Concat(edges.Select(Math.BitDecrement)).Concat(edges.Select(Math.BitIncrement)))
+        var values = probes.Concat(edges).Concat(edges.Select(Math.BitDecrement)).Concat(edges.Select(Math.BitIncrement)).Where(double.IsFinite).ToArray();
+        var cells = new int[values.Length];
+        lookup.CellsOf(values, cells);
+        for (var k = 0; k < values.Length; k++)
         {
-            if (!double.IsFinite(x)) continue;
             // Array.BinarySearch (the .NET base library): an exact hit at edge i is cell i + 1, a miss the complement
             // of the first larger edge.
-            var i = Array.BinarySearch(edges, x);
-            Assert.Equal(i >= 0 ? i + 1 : ~i, lookup.Cell(x));
+            var i = Array.BinarySearch(edges, values[k]);
+            Assert.Equal(i >= 0 ? i + 1 : ~i, lookup.Cell(values[k]));
+            Assert.Equal(i >= 0 ? i + 1 : ~i, cells[k]);
         }
     }
 
