@@ -123,13 +123,20 @@ internal sealed class SlicedCellLookup
     /// <summary>
     /// The cells of many finite values (<see cref="Cell"/> for each; any other value gets some cell and must be left
     /// out by the caller). The core's path is written out with the table and edges in locals and without range checks,
-    /// as it runs K times a row: for x in [edges[lo], edges[hi]) the slot (x − edges[lo])·perSlot is below slots + 1
-    /// (both roundings are monotone and (edges[hi] − edges[lo])·perSlot rounds to slots), so it indexes the table
-    /// directly, and the entry and the one after it lie in [lo + 1, hi].
+    /// as it runs K times a row: with a table, edges[hi] − edges[lo] is finite and for x in [edges[lo], edges[hi]) the
+    /// slot (x − edges[lo])·perSlot is below slots + 1 (both roundings are monotone and
+    /// (edges[hi] − edges[lo])·perSlot rounds to slots), so it indexes the table directly, and the entry and the one
+    /// after it lie in [lo + 1, hi].
     /// </summary>
     public void CellsOf(ReadOnlySpan<double> values, Span<int> cells)
     {
         if (cells.Length < values.Length) throw new ArgumentException("Too few cells for the values.", nameof(cells));
+        if (_perSlot == 0)
+        {
+            // No table (a core too wide or too narrow for one): x − edges[lo] may overflow, so every value is searched.
+            for (var r = 0; r < values.Length; r++) cells[r] = Cell(values[r]);
+            return;
+        }
         double low = _low, high = _high, perSlot = _perSlot;
         ref var first = ref System.Runtime.InteropServices.MemoryMarshal.GetArrayDataReference(_first);
         ref var edges = ref System.Runtime.InteropServices.MemoryMarshal.GetArrayDataReference(_edges);
