@@ -20,10 +20,20 @@ namespace GateTasks.Engine.Accumulation;
 /// <para>
 /// A row with a non-finite value in any feature, or a non-finite projection, is left out of every projection and
 /// counted (<see cref="SlicedHistograms.Skipped"/>). Weights may be negative. Sums are formed per batch in plain
-/// doubles and added exactly (<see cref="ExactSumArray"/>), so shards merge to the bits of one pass; memory is
-/// G·K·(cells + 3) exact sums of 16 bytes and a batch buffer of 8 bytes each (about 13 MB for G = 16, K = 64 and 512
-/// cells), whatever the number of rows. Hand it large batches: each batch's exact
-/// addition visits every cell once.
+/// doubles and added exactly (<see cref="ExactSumArray"/>), so shards merge to the bits of one pass; with unit weights
+/// a cell's Σw and Σw² are integer counts, kept in ints and added exactly when the state is read, merged or finished
+/// (or per batch once weights or another counter's sums have been added), which gives the same exact sums and terms.
+/// Memory is G·K·(cells + 3) exact sums of 16 bytes, a batch buffer of 8 bytes each, (G + 1)·K·(cells + 3) counts of
+/// 4 bytes and K·2048 projected values (about 16 MB for G = 16, K = 64 and 512 cells), whatever the number of rows.
+/// Hand it large batches: each weighted batch's exact addition visits every cell once.
+/// </para>
+/// <para>
+/// How a batch is worked (every number as a row-by-row fill in plain doubles gives it, to the bit; tests compare the
+/// two): per chunk of 256 rows the rows' groups are hashed in vector lanes, the rows projected a row at a time with the
+/// K directions in vector lanes (<see cref="SlicedProjection.ProjectRows"/>), the moments summed per projection in
+/// vector lanes in row order, and the projections copied into columns; per block of 2048 rows each projection's cells
+/// are found in one tight loop (<see cref="SlicedCellLookup.CellsOf"/>) and added, so one projection's cells stay in
+/// the first-level cache while its rows are added (a row touching all K projections' cells missed it on most).
 /// </para>
 /// </summary>
 internal sealed class SlicedHistogramCounter
