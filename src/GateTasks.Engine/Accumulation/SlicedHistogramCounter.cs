@@ -171,7 +171,7 @@ internal sealed class SlicedHistogramCounter
         for (var r = 0; r < n; r++)
             if (!_valid[at + r])
                 foreach (var column in _columns) column[r] = 0; // keep the projection finite; the row is skipped
-        _projection.ProjectRows(_columns, n, _projected, _rowStride);
+        _projection.ProjectRows(_columns, 0, n, _projected, _rowStride);
         for (var r = 0; r < n; r++)
         {
             if (_valid[at + r] && !AllFinite(_projected.AsSpan(r * _rowStride, k))) _valid[at + r] = false;

@@ -66,34 +66,15 @@ internal sealed class SlicedProjection
     public double[] Directions { get; }
 
     /// <summary>
-    /// Projects <paramref name="rows"/> rows held column by column (<paramref name="columns"/>[j][r], r &lt; rows) into
-    /// <paramref name="projected"/>[k·stride + r]. Columns are read whole per direction so the inner loop is a
-    /// vectorisable a·x + y over rows.
-    /// </summary>
-    public void Project(double[][] columns, int rows, double[] projected, int stride)
-    {
-        for (var k = 0; k < Count; k++)
-        {
-            var output = projected.AsSpan(k * stride, rows);
-            output.Fill(-_offsets[k]);
-            for (var j = 0; j < Dimensions; j++)
-            {
-                var a = _coefficients[k * Dimensions + j];
-                if (a == 0) continue;
-                MultiplyAdd(a, columns[j].AsSpan(0, rows), output);
-            }
-        }
-    }
-
-    /// <summary>
-    /// Projects <paramref name="rows"/> rows held column by column (<paramref name="columns"/>[j][r]) into
-    /// <paramref name="projected"/>[r·<paramref name="stride"/> + k] (stride ≥ K), row by row: the same numbers as <see cref="Project"/> and
+    /// Projects <paramref name="rows"/> rows held column by column from row <paramref name="start"/> on
+    /// (<paramref name="columns"/>[j][start + r]) into <paramref name="projected"/>[r·<paramref name="stride"/> + k]
+    /// (stride ≥ K), row by row: the same numbers as
     /// <see cref="ProjectRow"/>, bit for bit (each is −offset, then + a_kj·x_j for j = 0 … d − 1, every product and sum
     /// rounded, no fused multiply-add), with a row's directions side by side in vector lanes and up to four vectors of
     /// partial sums kept in registers while the row's features are read, so each product is one multiply and one add and
     /// nothing is stored between features.
     /// </summary>
-    public void ProjectRows(double[][] columns, int rows, Span<double> projected, int stride)
+    public void ProjectRows(double[][] columns, int start, int rows, Span<double> projected, int stride)
     {
         var count = Count;
         var d = Dimensions;
@@ -107,7 +88,7 @@ internal sealed class SlicedProjection
                     for (var j = 0; j < d; j++)
                     {
                         var a = _coefficients[k * d + j];
-                        if (a != 0) p += a * columns[j][r];
+                        if (a != 0) p += a * columns[j][start + r];
                     }
                     projected[r * stride + k] = p;
                 }
@@ -131,7 +112,7 @@ internal sealed class SlicedProjection
                     var s3 = Vector512.LoadUnsafe(ref m0, (nuint)(k + 3 * lanes));
                     for (var j = 0; j < d; j++)
                     {
-                        var x = Vector512.Create(columns[j][r]);
+                        var x = Vector512.Create(columns[j][start + r]);
                         var at = (nuint)(j * count + k);
                         s0 += Vector512.LoadUnsafe(ref a0, at) * x;
                         s1 += Vector512.LoadUnsafe(ref a0, at + lanes) * x;
@@ -147,7 +128,7 @@ internal sealed class SlicedProjection
                 {
                     var s0 = Vector512.LoadUnsafe(ref m0, (nuint)k);
                     for (var j = 0; j < d; j++)
-                        s0 += Vector512.LoadUnsafe(ref a0, (nuint)(j * count + k)) * Vector512.Create(columns[j][r]);
+                        s0 += Vector512.LoadUnsafe(ref a0, (nuint)(j * count + k)) * Vector512.Create(columns[j][start + r]);
                     s0.StoreUnsafe(ref output, (nuint)k);
                 }
             }
@@ -162,7 +143,7 @@ internal sealed class SlicedProjection
                     var s3 = Vector256.LoadUnsafe(ref m0, (nuint)(k + 3 * lanes));
                     for (var j = 0; j < d; j++)
                     {
-                        var x = Vector256.Create(columns[j][r]);
+                        var x = Vector256.Create(columns[j][start + r]);
                         var at = (nuint)(j * count + k);
                         s0 += Vector256.LoadUnsafe(ref a0, at) * x;
                         s1 += Vector256.LoadUnsafe(ref a0, at + lanes) * x;
@@ -178,14 +159,14 @@ internal sealed class SlicedProjection
                 {
                     var s0 = Vector256.LoadUnsafe(ref m0, (nuint)k);
                     for (var j = 0; j < d; j++)
-                        s0 += Vector256.LoadUnsafe(ref a0, (nuint)(j * count + k)) * Vector256.Create(columns[j][r]);
+                        s0 += Vector256.LoadUnsafe(ref a0, (nuint)(j * count + k)) * Vector256.Create(columns[j][start + r]);
                     s0.StoreUnsafe(ref output, (nuint)k);
                 }
             }
             for (; k < count; k++)
             {
                 var p = _negatedOffsets[k];
-                for (var j = 0; j < d; j++) p += _transposed[j * count + k] * columns[j][r];
+                for (var j = 0; j < d; j++) p += _transposed[j * count + k] * columns[j][start + r];
                 Unsafe.Add(ref output, k) = p;
             }
         }
@@ -201,21 +182,5 @@ internal sealed class SlicedProjection
             if (a != 0) p += a * row[j];
         }
         return p;
-    }
-
-    private static void MultiplyAdd(double a, ReadOnlySpan<double> x, Span<double> y)
-    {
-        // Each element is y + a·x rounded twice (no fused multiply-add), in scalar and vector lanes alike, so the
-        // result does not depend on the vector width.
-        var i = 0;
-        if (System.Numerics.Vector.IsHardwareAccelerated && x.Length >= System.Numerics.Vector<double>.Count)
-        {
-            var va = new System.Numerics.Vector<double>(a);
-            var xs = MemoryMarshal.Cast<double, System.Numerics.Vector<double>>(x);
-            var ys = MemoryMarshal.Cast<double, System.Numerics.Vector<double>>(y);
-            for (var v = 0; v < xs.Length; v++) ys[v] += va * xs[v];
-            i = xs.Length * System.Numerics.Vector<double>.Count;
-        }
-        for (; i < x.Length; i++) y[i] += a * x[i];
     }
 }
