@@ -30,7 +30,7 @@ public sealed class SlicedDirectionsTests
         var projection = new SlicedProjection([0.6, 0.8], [1, 2], [2, 4]);
         Assert.Equal(2.2, projection.ProjectRow([3, 10], 0), 12);
         var output = new double[1];
-        projection.Project([[3.0], [10.0]], 1, output, 1);
+        projection.ProjectRows([[3.0], [10.0]], 0, 1, output, 1);
         Assert.Equal(projection.ProjectRow([3, 10], 0), output[0]);
         Assert.Throws<ArgumentException>(() => new SlicedProjection([1, 0], [0, 0], [1, 0]));
     }
