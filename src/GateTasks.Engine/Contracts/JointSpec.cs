@@ -22,6 +22,20 @@ internal sealed record JointSpec(IReadOnlyList<string> Features, SourceLocation 
     /// <summary>The bound on the unbiased kernel distance (<c>kernel-distance-max</c>), or null.</summary>
     public ToleranceCheck? KernelDistance { get; init; }
 
+    /// <summary>Sample rows the kernel distance is computed on when the contract states no <c>kernel-rows</c>.</summary>
+    public const int DefaultKernelRows = 50_000;
+
+    /// <summary>
+    /// The fewest and most sample rows <c>kernel-rows</c> takes. Below 1 000 the 16 block estimates hold too few rows
+    /// to estimate the spread. Above 200 000 the subsample's store (2K entries of d + 3 numbers: 115 MB at the widest
+    /// kernel block, d = 32; 74 MB at d = 20), its share of a partial file and the final pass through the feature map
+    /// (C(d+3, 3) multiply-adds a row: about 1 s at d = 32) stop being small beside the stream itself.
+    /// </summary>
+    public const int MinKernelRows = 1_000, MaxKernelRows = 200_000;
+
+    /// <summary>K: the most sample rows (plus rows tying the last) the kernel distance is computed on (<c>kernel-rows</c>).</summary>
+    public int KernelRows { get; init; } = DefaultKernelRows;
+
     /// <summary>True when a streamed check is stated: every event's moments and kernel sums are gathered.</summary>
     public bool Streams => Frechet is not null || KernelDistance is not null;
 

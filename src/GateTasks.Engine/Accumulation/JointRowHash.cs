@@ -1,0 +1,66 @@
+namespace GateTasks.Engine.Accumulation;
+
+/// <summary>
+/// A 64-bit hash of a row's joint feature values (−0 read as +0, so equal numbers hash alike), computed column by
+/// column over a chunk of rows so that each step is a loop over independent rows. Each value's bits are xor-ed into
+/// the running hash, multiplied by an odd constant and folded; SplitMix64's finaliser (Steele, Lea &amp; Flood 2014,
+/// "Fast splittable pseudorandom number generators", OOPSLA) mixes the result. The starting value differs from the
+/// sliced counter's group hash so that the kernel's subsample does not line up with the sliced groups. Rows with equal
+/// values get equal hashes, whatever file, shard or batch they come in.
+/// </summary>
+internal static class JointRowHash
+{
+    /// <summary>The starting value: the first 64 bits of the fractional part of √2.</summary>
+    private const ulong Seed = 0x6A09E667F3BCC908UL;
+    private const ulong Multiplier = 0xBF58476D1CE4E5B9UL;
+
+    /// <summary>Starts the hashes of a chunk's rows and marks every row finite.</summary>
+    public static void Begin(Span<ulong> hashes, Span<bool> finite)
+    {
+        hashes.Fill(Seed);
+        finite.Fill(true);
+    }
+
+    /// <summary>Folds one feature's values (one column of the chunk) into the hashes; a NaN or infinity marks its row.</summary>
+    public static void Mix(ReadOnlySpan<double> column, Span<ulong> hashes, Span<bool> finite)
+    {
+        if (column.Length != hashes.Length || finite.Length != hashes.Length)
+            throw new ArgumentException($"A column of {column.Length} values for {hashes.Length} hashes.", nameof(column));
+        for (var r = 0; r < column.Length; r++)
+        {
+            var x = column[r];
+            finite[r] &= double.IsFinite(x);
+            var h = (hashes[r] ^ (ulong)BitConverter.DoubleToInt64Bits(x == 0 ? 0.0 : x)) * Multiplier;
+            hashes[r] = h ^ (h >> 29);
+        }
+    }
+
+    /// <summary>Finishes the hashes (SplitMix64's finaliser).</summary>
+    public static void End(Span<ulong> hashes)
+    {
+        for (var r = 0; r < hashes.Length; r++)
+        {
+            var h = hashes[r];
+            h = (h ^ (h >> 30)) * 0xBF58476D1CE4E5B9UL;
+            h = (h ^ (h >> 27)) * 0x94D049BB133111EBUL;
+            hashes[r] = h ^ (h >> 31);
+        }
+    }
+
+    /// <summary>The hash of one row (what <see cref="Begin"/>, <see cref="Mix"/> and <see cref="End"/> give it in a chunk).</summary>
+    public static ulong Of(ReadOnlySpan<double> row)
+    {
+        Span<ulong> h = stackalloc ulong[1];
+        Span<bool> finite = stackalloc bool[1];
+        Begin(h, finite);
+        for (var k = 0; k < row.Length; k++) Mix(row.Slice(k, 1), h, finite);
+        End(h);
+        return h[0];
+    }
+
+    /// <summary>The bits that rank a row for the subsample: the top 60.</summary>
+    public static ulong SelectionKey(ulong hash) => hash >> 4;
+
+    /// <summary>The block (of 16) a kept row's kernel sums go to: the low 4 bits, which do not take part in the selection.</summary>
+    public static int Block(ulong hash) => (int)(hash & 15);
+}
