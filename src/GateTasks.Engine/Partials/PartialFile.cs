@@ -145,7 +145,7 @@ internal static class PartialFile
                 var version = root.GetProperty("version").GetInt32();
                 if (version != Version)
                     throw new GateInputException(ErrorCodes.PartialUnreadable,
-                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights, correlation moments kept per sign of weight, the joint block's streamed moments, its sliced histograms with their grid's digest, and the kernel distance's subsample rows); fill it again.", at);
+                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights, correlation moments kept per sign of weight, the joint block's streamed moments and kernel sums, its sliced histograms with their grid's digest, and the kernel distance's subsample rows in place of the sample's kernel sums); fill it again.", at);
                 var content = root.GetProperty("content");
                 var stated = root.GetProperty("seal_sha256").GetString();
                 var seal = Seal(content);
