@@ -40,10 +40,12 @@ internal sealed record JointMomentsState(long Rows, long Skipped, IReadOnlyList<
     KernelSubsampleState? KernelSubsample = null);
 
 /// <summary>
-/// The rows a <see cref="KernelSubsample"/> keeps: its K and row width, and per entry (canonical order) the raw joint
-/// values (<paramref name="Width"/> a row, concatenated), the event weight and how many rows share them.
+/// The rows a <see cref="KernelSubsample"/> keeps: its K and row width, and per entry (rows of equal values, canonical
+/// order) the raw joint values (<paramref name="Width"/> a row, concatenated), how many rows share them, and the exact
+/// terms of their Σw and Σw² (<see cref="Statistics.ExactSum.Terms"/>).
 /// </summary>
-internal sealed record KernelSubsampleState(int Limit, int Width, IReadOnlyList<double> Values, IReadOnlyList<double> Weights, IReadOnlyList<long> Counts);
+internal sealed record KernelSubsampleState(int Limit, int Width, IReadOnlyList<double> Values, IReadOnlyList<long> Counts,
+    IReadOnlyList<IReadOnlyList<double>> WeightTerms, IReadOnlyList<IReadOnlyList<double>> SquareTerms);
 
 /// <summary>
 /// A joint block's sliced histograms as numbers: the <see cref="SlicedGrid.Digest"/> of the grid they were filled on

@@ -1,3 +1,6 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
+
 namespace GateTasks.Engine.Accumulation;
 
 /// <summary>
@@ -6,7 +9,8 @@ namespace GateTasks.Engine.Accumulation;
 /// the running hash, multiplied by an odd constant and folded; SplitMix64's finaliser (Steele, Lea &amp; Flood 2014,
 /// "Fast splittable pseudorandom number generators", OOPSLA) mixes the result. The starting value differs from the
 /// sliced counter's group hash so that the kernel's subsample does not line up with the sliced groups. Rows with equal
-/// values get equal hashes, whatever file, shard or batch they come in.
+/// values get equal hashes, whatever file, shard or batch they come in. NaN and infinities hash like any value; the
+/// caller leaves such rows out.
 /// </summary>
 internal static class JointRowHash
 {
@@ -14,24 +18,22 @@ internal static class JointRowHash
     private const ulong Seed = 0x6A09E667F3BCC908UL;
     private const ulong Multiplier = 0xBF58476D1CE4E5B9UL;
 
-    /// <summary>Starts the hashes of a chunk's rows and marks every row finite.</summary>
-    public static void Begin(Span<ulong> hashes, Span<bool> finite)
-    {
-        hashes.Fill(Seed);
-        finite.Fill(true);
-    }
+    /// <summary>Starts the hashes of a chunk's rows.</summary>
+    public static void Begin(Span<ulong> hashes) => hashes.Fill(Seed);
 
-    /// <summary>Folds one feature's values (one column of the chunk) into the hashes; a NaN or infinity marks its row.</summary>
-    public static void Mix(ReadOnlySpan<double> column, Span<ulong> hashes, Span<bool> finite)
+    /// <summary>Folds one feature's values (one column of the chunk) into the hashes.</summary>
+    public static void Mix(ReadOnlySpan<double> column, Span<ulong> hashes)
     {
-        if (column.Length != hashes.Length || finite.Length != hashes.Length)
+        if (column.Length != hashes.Length)
             throw new ArgumentException($"A column of {column.Length} values for {hashes.Length} hashes.", nameof(column));
+        // Bounds checked once above; the loop runs on references (it is the whole per-row cost of the subsample).
+        ref var x = ref MemoryMarshal.GetReference(column);
+        ref var h = ref MemoryMarshal.GetReference(hashes);
         for (var r = 0; r < column.Length; r++)
         {
-            var x = column[r];
-            finite[r] &= double.IsFinite(x);
-            var h = (hashes[r] ^ (ulong)BitConverter.DoubleToInt64Bits(x == 0 ? 0.0 : x)) * Multiplier;
-            hashes[r] = h ^ (h >> 29);
+            var v = Unsafe.Add(ref x, r);
+            var m = (Unsafe.Add(ref h, r) ^ (ulong)BitConverter.DoubleToInt64Bits(v == 0 ? 0.0 : v)) * Multiplier;
+            Unsafe.Add(ref h, r) = m ^ (m >> 29);
         }
     }
 
@@ -51,14 +53,13 @@ internal static class JointRowHash
     public static ulong Of(ReadOnlySpan<double> row)
     {
         Span<ulong> h = stackalloc ulong[1];
-        Span<bool> finite = stackalloc bool[1];
-        Begin(h, finite);
-        for (var k = 0; k < row.Length; k++) Mix(row.Slice(k, 1), h, finite);
+        Begin(h);
+        for (var k = 0; k < row.Length; k++) Mix(row.Slice(k, 1), h);
         End(h);
         return h[0];
     }
 
-    /// <summary>The bits that rank a row for the subsample: the top 60.</summary>
+    /// <summary>The bits that rank a row for the subsample: the top 60 (so ordering by hash orders by key).</summary>
     public static ulong SelectionKey(ulong hash) => hash >> 4;
 
     /// <summary>The block (of 16) a kept row's kernel sums go to: the low 4 bits, which do not take part in the selection.</summary>

@@ -5,19 +5,21 @@ namespace GateTasks.Engine.Accumulation;
 
 /// <summary>
 /// The sample rows the kernel distance is computed on: a bottom-K sketch (Cohen &amp; Kaplan 2007, "Summarizing data
-/// using bottom-k sketches", PODC) over the joint feature values. Each finite row gets a 64-bit hash of its values
-/// (<see cref="JointRowHash"/>); the rows whose selection key (the hash's top 60 bits) is among the K smallest are
-/// kept, together with every row whose key ties the K-th, so that copies of one event (an event split into rows of
-/// signed weights, equal values) are kept or dropped together. Which rows are kept depends only on the values, never
-/// on the order, file, shard or batch they come in: one pass and a merge of shards keep the same rows, and the sums
-/// are taken over them in a canonical order (<see cref="Sums"/>), so they agree to the bit. Rows with the same values
-/// and weight are held once with their count, which bounds memory for discrete features as well.
+/// using bottom-k sketches", PODC) over the joint feature values. Each row gets a 64-bit hash of its values
+/// (<see cref="JointRowHash"/>); rows of equal values are one entry (their count, and the exact sums of their weights
+/// and squared weights, Shewchuk 1997), and the K entries of smallest selection key (the hash's top 60 bits) are kept,
+/// with every entry whose key ties the K-th. So the rows of one event split into signed weights, which share their
+/// values, are kept or dropped together, and a joint block whose features take at most K distinct value rows keeps
+/// every row. Which rows are kept depends only on the values, never on the order, file, shard or batch they come in:
+/// one pass and a merge of shards keep the same entries with the same exact sums, and <see cref="Sums"/> adds them
+/// in one canonical order (by hash, then the values' bits), so the kernel's numbers agree to the bit.
 /// <para>
 /// Streaming: a row whose key is above the current threshold (the K-th smallest key held) is rejected by one
-/// comparison; only the few below it are copied. When the store is full (2K entries) it is cut back to its K smallest
-/// rows and the threshold drops; about K·(1 + ln(n/K)) rows are ever copied for n rows. Memory is at most 2K entries
-/// of d + 3 numbers, whatever n (more only when more than K entries share the K-th key: rows of equal values and
-/// distinct weights).
+/// comparison after its hash; only the few below it are copied. When the store is full (2K entries) equal rows are
+/// joined, it is cut back to its K smallest entries and the threshold drops; about K·(1 + ln(n/K)) rows are ever
+/// copied for n distinct rows. Memory is at most 2K entries of d + 3 numbers (and the exact sums of the entries
+/// that join several rows), whatever n; more only when entries of different values share the K-th key (a 60-bit
+/// collision).
 /// </para>
 /// </summary>
 internal sealed class KernelSubsample
@@ -29,17 +31,16 @@ internal sealed class KernelSubsample
     private readonly int _limit;
     private ulong[] _hashes = new ulong[InitialCapacity];
     private double[] _values;
-    private double[] _weights = new double[InitialCapacity];
     private long[] _counts = new long[InitialCapacity];
-    private int[] _next = new int[InitialCapacity];
+    // A single row's weight, or (for an entry of several rows) null here and its exact sums in _joined.
+    private double[] _weights = new double[InitialCapacity];
+    private (ExactSum Weights, ExactSum Squares)?[] _joined = new (ExactSum, ExactSum)?[InitialCapacity];
     private int _entries;
-    private readonly Dictionary<ulong, int> _first = [];
-    // Keys above this are never kept: at least K rows are held at or below it.
+    // Keys above this are never kept: at least K entries are held at or below it.
     private ulong _threshold = ulong.MaxValue;
     private readonly ulong[] _chunkHashes = new ulong[ChunkRows];
-    private readonly bool[] _finite = new bool[ChunkRows];
 
-    /// <summary>An empty subsample of rows of <paramref name="width"/> features keeping at most <paramref name="limit"/> rows (plus ties).</summary>
+    /// <summary>An empty subsample of rows of <paramref name="width"/> features keeping at most <paramref name="limit"/> entries (plus ties).</summary>
     public KernelSubsample(int width, int limit)
     {
         if (width < 1) throw new ArgumentOutOfRangeException(nameof(width), width, "Rows need at least one feature.");
@@ -49,10 +50,10 @@ internal sealed class KernelSubsample
         _values = new double[InitialCapacity * width];
     }
 
-    /// <summary>K: the rows kept (ties at the K-th key besides).</summary>
+    /// <summary>K: the distinct value rows kept (ties at the K-th key besides).</summary>
     public int Limit => _limit;
 
-    /// <summary>Entries held now (distinct value rows with their weight); at most 2K unless ties at the threshold need more.</summary>
+    /// <summary>Entries held now; at most 2K unless a collision at the threshold needs more.</summary>
     public int Entries => _entries;
 
     /// <summary>Room for entries now allocated.</summary>
@@ -68,65 +69,75 @@ internal sealed class KernelSubsample
         {
             var n = Math.Min(ChunkRows, view.Rows - start);
             var hashes = _chunkHashes.AsSpan(0, n);
-            var finite = _finite.AsSpan(0, n);
-            JointRowHash.Begin(hashes, finite);
-            for (var k = 0; k < _width; k++) JointRowHash.Mix(view.Feature(features[k]).Slice(start, n), hashes, finite);
+            JointRowHash.Begin(hashes);
+            for (var k = 0; k < _width; k++) JointRowHash.Mix(view.Feature(features[k]).Slice(start, n), hashes);
             JointRowHash.End(hashes);
             for (var r = 0; r < n; r++)
             {
-                if (JointRowHash.SelectionKey(hashes[r]) > _threshold || !finite[r]) continue;
-                for (var k = 0; k < _width; k++) row[k] = view.Feature(features[k])[start + r];
-                Keep(hashes[r], row, weights.IsEmpty ? 1.0 : weights[start + r], 1);
+                if (JointRowHash.SelectionKey(hashes[r]) > _threshold) continue;
+                var finite = true;
+                for (var k = 0; k < _width; k++)
+                {
+                    var x = view.Feature(features[k])[start + r];
+                    finite &= double.IsFinite(x);
+                    row[k] = x;
+                }
+                if (!finite) continue;
+                Append(hashes[r], row, 1, weights.IsEmpty ? 1.0 : weights[start + r], null);
             }
         }
     }
 
-    /// <summary>Adds another subsample of the same width and K (another shard): the union of both, cut back to its K smallest rows.</summary>
+    /// <summary>Adds another subsample of the same width and K (another shard): the union of both, cut back to its K smallest entries.</summary>
     public void Merge(KernelSubsample other)
     {
         if (other._width != _width || other._limit != _limit)
             throw new ArgumentException($"A subsample of {other._width} features and K = {other._limit} merged into one of {_width} and K = {_limit}.", nameof(other));
+        other.Prune();
         for (var e = 0; e < other._entries; e++)
-            Keep(other._hashes[e], other._values.AsSpan(e * _width, _width), other._weights[e], other._counts[e]);
+            Append(other._hashes[e], other._values.AsSpan(e * _width, _width), other._counts[e], other._weights[e], other._joined[e]);
         Prune();
-    }
-
-    /// <summary>The rows kept, after cutting back to the K smallest keys (ties kept), as a state for a partial: raw values, weights and counts in canonical order.</summary>
-    public KernelSubsampleState State()
-    {
-        Prune();
-        var order = CanonicalOrder();
-        var values = new double[order.Length * _width];
-        var weights = new double[order.Length];
-        var counts = new long[order.Length];
-        for (var i = 0; i < order.Length; i++)
-        {
-            _values.AsSpan(order[i] * _width, _width).CopyTo(values.AsSpan(i * _width));
-            weights[i] = _weights[order[i]];
-            counts[i] = _counts[order[i]];
-        }
-        return new KernelSubsampleState(_limit, _width, values, weights, counts);
     }
 
     /// <summary>
-    /// Adds a state <see cref="State"/> gave (a partial's rows) into this subsample, the hashes computed again from the
-    /// values; the name of what does not fit (another K or width, a non-finite value or weight, a count below one),
-    /// or null when it fits.
+    /// The entries kept, after joining equal rows and cutting back to the K smallest keys (ties kept), in canonical
+    /// order, as a state for a partial: raw values, row counts, and the exact terms of Σw and Σw² of each entry.
+    /// </summary>
+    public KernelSubsampleState State()
+    {
+        Prune();
+        var weights = new IReadOnlyList<double>[_entries];
+        var squares = new IReadOnlyList<double>[_entries];
+        for (var e = 0; e < _entries; e++)
+            (weights[e], squares[e]) = _joined[e] is { } j ? (j.Weights.Terms.ToArray(), j.Squares.Terms.ToArray()) : ([_weights[e]], [_weights[e] * _weights[e]]);
+        return new KernelSubsampleState(_limit, _width, _values.AsSpan(0, _entries * _width).ToArray(), _counts.AsSpan(0, _entries).ToArray(), weights, squares);
+    }
+
+    /// <summary>
+    /// Adds a state <see cref="State"/> gave (a partial's entries) into this subsample, the hashes computed again from
+    /// the values; the name of what does not fit (another K or width, a non-finite value or weight term, a count below
+    /// one), or null when it fits.
     /// </summary>
     public string? AddState(KernelSubsampleState state)
     {
         if (state.Limit != _limit) return $"a kernel subsample of at most {state.Limit} rows, this contract keeps {_limit}";
         if (state.Width != _width) return $"a kernel subsample of {state.Width} features, the joint block has {_width}";
-        var entries = state.Weights.Count;
-        if (state.Values.Count != entries * _width || state.Counts.Count != entries) return "a kernel subsample whose values, weights and counts differ in length";
+        var entries = state.Counts.Count;
+        if (state.Values.Count != entries * _width || state.WeightTerms.Count != entries || state.SquareTerms.Count != entries)
+            return "a kernel subsample whose values, counts and weights differ in length";
         var values = state.Values.ToArray();
         for (var e = 0; e < entries; e++)
         {
             var row = values.AsSpan(e * _width, _width);
             foreach (var x in row)
                 if (!double.IsFinite(x)) return "a kernel subsample row with a non-finite value";
-            if (!double.IsFinite(state.Weights[e]) || state.Counts[e] < 1) return "a kernel subsample row with a non-finite weight or a count below one";
-            Keep(JointRowHash.Of(row), row, state.Weights[e], state.Counts[e]);
+            if (state.Counts[e] < 1) return "a kernel subsample entry of fewer than one row";
+            if (state.WeightTerms[e].Concat(state.SquareTerms[e]).Any(t => !double.IsFinite(t)) || state.SquareTerms[e].Any(t => t < 0))
+                return "a kernel subsample entry with a non-finite weight or a negative squared weight";
+            var sums = (Weights: new ExactSum(), Squares: new ExactSum());
+            foreach (var t in state.WeightTerms[e]) sums.Weights.Add(t);
+            foreach (var t in state.SquareTerms[e]) sums.Squares.Add(t);
+            Append(JointRowHash.Of(row), row, state.Counts[e], 0, sums);
         }
         Prune();
         return null;
@@ -135,8 +146,8 @@ internal sealed class KernelSubsample
     /// <summary>
     /// The kernel's feature-map sums of the kept rows, standardised by <paramref name="means"/> and
     /// <paramref name="standardDeviations"/>, one set per block (the hash's low bits, see <see cref="JointRowHash.Block"/>),
-    /// each row added in canonical order: by hash, then by the values' bits, then by the weight's bits. With the rows
-    /// kept, the order fixed too, the sums do not depend on how the sample was cut into files, shards or batches.
+    /// each entry added in canonical order with its count and its Σw and Σw² rounded once from their exact sums; and
+    /// the rows they hold.
     /// </summary>
     public (CubicKernelFeatureSums[] Blocks, long Rows) Sums(IReadOnlyList<double> means, IReadOnlyList<double> standardDeviations, int blocks)
     {
@@ -144,16 +155,17 @@ internal sealed class KernelSubsample
         var sums = Enumerable.Range(0, blocks).Select(_ => new CubicKernelFeatureSums(_width)).ToArray();
         var row = new double[_width];
         long rows = 0;
-        foreach (var e in CanonicalOrder())
+        for (var e = 0; e < _entries; e++)
         {
             for (var k = 0; k < _width; k++) row[k] = (_values[e * _width + k] - means[k]) / standardDeviations[k];
-            sums[JointRowHash.Block(_hashes[e]) % blocks].Add(row, _weights[e], _counts[e]);
+            var (w, w2) = _joined[e] is { } j ? (j.Weights.Value, j.Squares.Value) : (_weights[e], _weights[e] * _weights[e]);
+            sums[JointRowHash.Block(_hashes[e]) % blocks].Add(row, w, w2, _counts[e]);
             rows += _counts[e];
         }
         return (sums, rows);
     }
 
-    /// <summary>Rows held now (each entry's count), before or after the cut.</summary>
+    /// <summary>Rows held now (each entry's count).</summary>
     public long Rows()
     {
         long rows = 0;
@@ -161,18 +173,9 @@ internal sealed class KernelSubsample
         return rows;
     }
 
-    private void Keep(ulong hash, ReadOnlySpan<double> row, double weight, long count)
+    private void Append(ulong hash, ReadOnlySpan<double> row, long count, double weight, (ExactSum, ExactSum)? joined)
     {
         if (JointRowHash.SelectionKey(hash) > _threshold) return;
-        if (weight == 0) weight = 0.0; // −0 and +0 are one weight
-        // The same values and weight already held: one more of them.
-        if (_first.TryGetValue(hash, out var e))
-            for (; e >= 0; e = _next[e])
-                if (SameRow(e, row, weight))
-                {
-                    _counts[e] += count;
-                    return;
-                }
         if (_entries == _hashes.Length)
         {
             MakeRoom();
@@ -181,23 +184,13 @@ internal sealed class KernelSubsample
         var at = _entries++;
         _hashes[at] = hash;
         var held = _values.AsSpan(at * _width, _width);
-        for (var k = 0; k < _width; k++) held[k] = row[k] == 0 ? 0.0 : row[k];
-        _weights[at] = weight;
+        for (var k = 0; k < _width; k++) held[k] = row[k] == 0 ? 0.0 : row[k]; // −0 and +0 are one value
         _counts[at] = count;
-        _next[at] = _first.TryGetValue(hash, out var head) ? head : -1;
-        _first[hash] = at;
+        _weights[at] = weight;
+        _joined[at] = joined;
     }
 
-    private bool SameRow(int e, ReadOnlySpan<double> row, double weight)
-    {
-        if (Bits(_weights[e]) != Bits(weight)) return false;
-        var held = _values.AsSpan(e * _width, _width);
-        for (var k = 0; k < _width; k++)
-            if (Bits(held[k]) != Bits(row[k])) return false;
-        return true;
-    }
-
-    /// <summary>Grows the store up to 2K entries; at 2K cuts it back to the K smallest rows, growing only when ties fill it still.</summary>
+    /// <summary>Grows the store up to 2K entries; at 2K joins equal rows and cuts back to the K smallest, growing only when that frees too little.</summary>
     private void MakeRoom()
     {
         if (_hashes.Length < 2L * _limit)
@@ -213,61 +206,85 @@ internal sealed class KernelSubsample
     {
         Array.Resize(ref _hashes, capacity);
         Array.Resize(ref _values, capacity * _width);
-        Array.Resize(ref _weights, capacity);
         Array.Resize(ref _counts, capacity);
-        Array.Resize(ref _next, capacity);
+        Array.Resize(ref _weights, capacity);
+        Array.Resize(ref _joined, capacity);
     }
 
     /// <summary>
-    /// Sets the threshold to the K-th smallest key over the rows held (counting each entry's rows) and drops every entry
-    /// above it; with fewer than K rows held nothing changes.
+    /// Puts the entries in canonical order (hash, then the values' bits), joins entries of equal values (counts added,
+    /// weights and squared weights into exact sums), sets the threshold to the K-th smallest key when more than K
+    /// entries are held and drops every entry above it.
     /// </summary>
     private void Prune()
     {
-        if (Rows() <= _limit) return;
-        var keys = new ulong[_entries];
-        var order = new int[_entries];
-        for (var e = 0; e < _entries; e++) (keys[e], order[e]) = (JointRowHash.SelectionKey(_hashes[e]), e);
+        var n = _entries;
+        var order = new int[n];
+        var keys = new ulong[n];
+        for (var e = 0; e < n; e++) (keys[e], order[e]) = (_hashes[e], e);
         Array.Sort(keys, order);
-        long rows = 0;
-        var cut = 0;
-        while (rows < _limit) rows += _counts[order[cut++]];
-        _threshold = Math.Min(_threshold, keys[cut - 1]);
-        var kept = 0;
-        for (var e = 0; e < _entries; e++)
+        // Equal hashes (copies of one row, or a collision) are ordered by their values' bits: a short run each.
+        for (var start = 0; start < n;)
         {
-            if (JointRowHash.SelectionKey(_hashes[e]) > _threshold) continue;
-            if (kept != e)
+            var end = start + 1;
+            while (end < n && keys[end] == keys[start]) end++;
+            if (end - start > 1) Array.Sort(order, start, end - start, Comparer<int>.Create(CompareValues));
+            start = end;
+        }
+        var hashes = new ulong[_hashes.Length];
+        var values = new double[_values.Length];
+        var counts = new long[_counts.Length];
+        var weights = new double[_weights.Length];
+        var joined = new (ExactSum, ExactSum)?[_joined.Length];
+        var kept = 0;
+        for (var i = 0; i < n; i++)
+        {
+            var e = order[i];
+            if (kept > 0 && hashes[kept - 1] == _hashes[e] && CompareValues(order[i - 1], e) == 0)
             {
-                _hashes[kept] = _hashes[e];
-                _values.AsSpan(e * _width, _width).CopyTo(_values.AsSpan(kept * _width, _width));
-                _weights[kept] = _weights[e];
-                _counts[kept] = _counts[e];
+                // The same values as the entry before: one entry, its rows and weights added exactly.
+                var into = kept - 1;
+                joined[into] ??= ExactSums(counts[into], weights[into], null);
+                var (w, w2) = joined[into]!.Value;
+                var (ow, ow2) = ExactSums(_counts[e], _weights[e], _joined[e]);
+                w.Add(ow);
+                w2.Add(ow2);
+                counts[into] += _counts[e];
+                continue;
             }
+            hashes[kept] = _hashes[e];
+            _values.AsSpan(e * _width, _width).CopyTo(values.AsSpan(kept * _width));
+            counts[kept] = _counts[e];
+            weights[kept] = _weights[e];
+            joined[kept] = _joined[e];
             kept++;
         }
-        _entries = kept;
-        _first.Clear();
-        for (var e = 0; e < _entries; e++)
+        if (kept > _limit)
         {
-            _next[e] = _first.TryGetValue(_hashes[e], out var head) ? head : -1;
-            _first[_hashes[e]] = e;
+            _threshold = Math.Min(_threshold, JointRowHash.SelectionKey(hashes[_limit - 1]));
+            while (kept > _limit && JointRowHash.SelectionKey(hashes[kept - 1]) > _threshold) kept--;
         }
+        (_hashes, _values, _counts, _weights, _joined, _entries) = (hashes, values, counts, weights, joined, kept);
     }
 
-    /// <summary>Entries by hash, then the values' bits, then the weight's bits (no two entries are equal in all).</summary>
-    private int[] CanonicalOrder()
+    /// <summary>An entry's weights as exact sums (a single row's w and w·w as one term each).</summary>
+    private static (ExactSum Weights, ExactSum Squares) ExactSums(long count, double weight, (ExactSum Weights, ExactSum Squares)? joined)
     {
-        var order = Enumerable.Range(0, _entries).ToArray();
-        Array.Sort(order, (a, b) =>
-        {
-            var c = _hashes[a].CompareTo(_hashes[b]);
-            for (var k = 0; c == 0 && k < _width; k++)
-                c = Bits(_values[a * _width + k]).CompareTo(Bits(_values[b * _width + k]));
-            return c != 0 ? c : Bits(_weights[a]).CompareTo(Bits(_weights[b]));
-        });
-        return order;
+        if (joined is { } j) return j;
+        if (count != 1) throw new InvalidOperationException("An entry of several rows without exact sums.");
+        var sums = (Weights: new ExactSum(), Squares: new ExactSum());
+        sums.Weights.Add(weight);
+        sums.Squares.Add(weight * weight);
+        return sums;
     }
 
-    private static long Bits(double x) => BitConverter.DoubleToInt64Bits(x == 0 ? 0.0 : x);
+    private int CompareValues(int a, int b)
+    {
+        for (var k = 0; k < _width; k++)
+        {
+            var c = BitConverter.DoubleToInt64Bits(_values[a * _width + k]).CompareTo(BitConverter.DoubleToInt64Bits(_values[b * _width + k]));
+            if (c != 0) return c;
+        }
+        return 0;
+    }
 }

@@ -63,10 +63,11 @@ internal static class AccumulationJson
                 w.WriteNumber("limit", sub.Limit);
                 w.WriteNumber("width", sub.Width);
                 PartialNumbers.WriteArray(w, "values", sub.Values);
-                PartialNumbers.WriteArray(w, "weights", sub.Weights);
                 w.WriteStartArray("counts");
                 foreach (var c in sub.Counts) w.WriteNumberValue(c);
                 w.WriteEndArray();
+                PartialNumbers.WriteJagged(w, "weight_terms", sub.WeightTerms);
+                PartialNumbers.WriteJagged(w, "square_terms", sub.SquareTerms);
                 w.WriteEndObject();
             }
             w.WriteEndObject();
@@ -135,8 +136,8 @@ internal static class AccumulationJson
                 jm.TryGetProperty("kernel_sums", out var k) ? PartialNumbers.ReadJagged(k) : null,
                 jm.TryGetProperty("kernel_subsample", out var ks)
                     ? new KernelSubsampleState(ks.GetProperty("limit").GetInt32(), ks.GetProperty("width").GetInt32(),
-                        PartialNumbers.ReadArray(ks.GetProperty("values")), PartialNumbers.ReadArray(ks.GetProperty("weights")),
-                        ks.GetProperty("counts").EnumerateArray().Select(c => c.GetInt64()).ToArray())
+                        PartialNumbers.ReadArray(ks.GetProperty("values")), ks.GetProperty("counts").EnumerateArray().Select(c => c.GetInt64()).ToArray(),
+                        PartialNumbers.ReadJagged(ks.GetProperty("weight_terms")), PartialNumbers.ReadJagged(ks.GetProperty("square_terms")))
                     : null)
             : null;
         var sliced = e.TryGetProperty("joint_sliced", out var sl)

@@ -42,45 +42,66 @@ public class KernelSubsampleTests
         // Never more than 2K entries of room, whatever n (docs/contract.md, kernel-rows).
         Assert.True(most <= 2 * k, $"capacity {most}");
         var state = subsample.State();
-        Assert.Equal(k, state.Weights.Count);
+        Assert.Equal(k, state.Counts.Count);
         // The rows with the K smallest keys, by hand from the row hash: the same set.
         var expected = Enumerable.Range(0, n).OrderBy(i => JointRowHash.SelectionKey(JointRowHash.Of([x[i], y[i]]))).Take(k)
             .Select(i => (x[i], y[i], w[i])).OrderBy(t => t).ToList();
-        var kept = Enumerable.Range(0, k).Select(i => (state.Values[2 * i], state.Values[2 * i + 1], state.Weights[i])).OrderBy(t => t).ToList();
+        var kept = Enumerable.Range(0, k).Select(i => (state.Values[2 * i], state.Values[2 * i + 1], state.WeightTerms[i].Single())).OrderBy(t => t).ToList();
         Assert.Equal(expected, kept);
     }
 
     [Fact]
-    public void Copies_of_one_event_are_kept_together_and_equal_rows_are_held_once_with_their_count()
+    public void Copies_of_one_event_are_kept_together_as_one_entry_with_their_exact_weight_sums()
     {
         const int n = 5000, k = 1000;
         var (x0, y0, w0) = Draw(n, 4);
         // Every event twice: once as weight w + 0.5 and once as −0.5 (an event split into signed weights), and every
-        // tenth event a third time as an exact duplicate of the first copy.
+        // tenth event a third time as a copy of the first part.
         var x = new List<double>();
         var y = new List<double>();
         var w = new List<double>();
         for (var i = 0; i < n; i++)
-        {
             foreach (var part in i % 10 == 0 ? new[] { w0[i] + 0.5, -0.5, w0[i] + 0.5 } : new[] { w0[i] + 0.5, -0.5 })
             {
                 x.Add(x0[i]);
                 y.Add(y0[i]);
                 w.Add(part);
             }
-        }
         var subsample = new KernelSubsample(2, k);
         subsample.Add(View([x.ToArray(), y.ToArray()], w.ToArray(), 0, x.Count), [0, 1]);
         var state = subsample.State();
-        var rows = Enumerable.Range(0, state.Weights.Count).Select(i => (X: state.Values[2 * i], Y: state.Values[2 * i + 1], W: state.Weights[i], N: state.Counts[i])).ToList();
-        // Each kept event has both of its signed parts, the duplicated ones with count 2.
-        foreach (var g in rows.GroupBy(r => (r.X, r.Y)))
+        // K events, each one entry holding all of its rows: Σw and Σw² exact (fsum of the parts, by hand here).
+        Assert.Equal(k, state.Counts.Count);
+        var index = Enumerable.Range(0, n).ToDictionary(i => (x0[i], y0[i]));
+        for (var e = 0; e < k; e++)
         {
-            Assert.Equal(2, g.Count());
-            Assert.Contains(g, r => r.W == -0.5 && r.N == 1);
+            var i = index[(state.Values[2 * e], state.Values[2 * e + 1])];
+            var parts = i % 10 == 0 ? new[] { w0[i] + 0.5, -0.5, w0[i] + 0.5 } : new[] { w0[i] + 0.5, -0.5 };
+            Assert.Equal(parts.Length, state.Counts[e]);
+            var weights = new GateTasks.Engine.Statistics.ExactSum();
+            foreach (var t in state.WeightTerms[e]) weights.Add(t);
+            var expected = new GateTasks.Engine.Statistics.ExactSum();
+            foreach (var p in parts) expected.Add(p);
+            Assert.Equal(expected.Value, weights.Value);
         }
-        Assert.True(rows.Sum(r => r.N) >= k, "at least K rows");
-        Assert.True(rows.Sum(r => r.N) < k + 3, "K rows and the copies tying the last");
+    }
+
+    [Fact]
+    public void A_block_of_fewer_distinct_value_rows_than_k_keeps_every_row()
+    {
+        // 100 000 rows over 7 × 9 = 63 distinct value rows (discrete features), K = 1000: all rows kept, 63 entries.
+        const int n = 100_000;
+        var rng = new Random(8);
+        var x = Enumerable.Range(0, n).Select(_ => (double)rng.Next(7)).ToArray();
+        var y = Enumerable.Range(0, n).Select(_ => (double)rng.Next(9) - 4).ToArray();
+        var subsample = new KernelSubsample(2, 1000);
+        for (var s = 0; s < n; s += 10_000) subsample.Add(View([x, y], null, s, s + 10_000), [0, 1]);
+        var (blocks, rows) = subsample.Sums([0.0, 0.0], [1.0, 1.0], 16);
+        Assert.Equal(n, rows);
+        Assert.Equal(63, subsample.Entries);
+        Assert.True(subsample.Capacity <= 2000, $"capacity {subsample.Capacity}");
+        Assert.Equal((double)n, blocks.Sum(b => b.WeightSum));
+        Assert.Equal((double)n, blocks.Sum(b => b.WeightSquareSum));
     }
 
     [Fact]
@@ -138,5 +159,20 @@ public class KernelSubsampleTests
         var subsample = new KernelSubsample(2, 1000);
         subsample.Add(View([x, y], null, 0, 5), [0, 1]);
         Assert.Equal(2, subsample.Rows());
+    }
+
+    [Fact]
+    public void Minus_zero_hashes_as_zero_and_a_row_hashes_alike_alone_or_in_a_chunk()
+    {
+        Assert.Equal(JointRowHash.Of([0.0, 1.5]), JointRowHash.Of([-0.0, 1.5]));
+        Assert.NotEqual(JointRowHash.Of([1.5, 0.0]), JointRowHash.Of([0.0, 1.5]));
+        double[] a = [3.25, -0.0, 7e-300];
+        double[] b = [1.0, 2.0, double.NaN];
+        var hashes = new ulong[3];
+        JointRowHash.Begin(hashes);
+        JointRowHash.Mix(a, hashes);
+        JointRowHash.Mix(b, hashes);
+        JointRowHash.End(hashes);
+        for (var r = 0; r < 3; r++) Assert.Equal(JointRowHash.Of([a[r], b[r]]), hashes[r]);
     }
 }
