@@ -16,8 +16,8 @@ namespace GateTasks.Engine.Accumulation;
 /// <para>
 /// Streaming: a row whose key is above the current threshold (the K-th smallest key held) is rejected by one
 /// comparison after its hash; only the few below it are copied. When the store is full (2K entries) equal rows are
-/// joined, it is cut back to its K smallest entries and the threshold drops; about K·(1 + ln(n/K)) rows are ever
-/// copied for n distinct rows. Memory is at most 2K entries of d + 3 numbers (and the exact sums of the entries
+/// joined, it is cut back in place to its K smallest entries and the threshold drops; about K·(1 + ln(n/K)) rows are
+/// ever copied for n distinct rows. Memory is at most 2K entries of d + 3 numbers (and the exact sums of the entries
 /// that join several rows), whatever n; more only when entries of different values share the K-th key (a 60-bit
 /// collision).
 /// </para>
@@ -106,11 +106,19 @@ internal sealed class KernelSubsample
     public KernelSubsampleState State()
     {
         Prune();
+        var order = CanonicalOrder();
+        var values = new double[_entries * _width];
+        var counts = new long[_entries];
         var weights = new IReadOnlyList<double>[_entries];
         var squares = new IReadOnlyList<double>[_entries];
-        for (var e = 0; e < _entries; e++)
-            (weights[e], squares[e]) = _joined[e] is { } j ? (j.Weights.Terms.ToArray(), j.Squares.Terms.ToArray()) : ([_weights[e]], [_weights[e] * _weights[e]]);
-        return new KernelSubsampleState(_limit, _width, _values.AsSpan(0, _entries * _width).ToArray(), _counts.AsSpan(0, _entries).ToArray(), weights, squares);
+        for (var i = 0; i < order.Length; i++)
+        {
+            var e = order[i];
+            _values.AsSpan(e * _width, _width).CopyTo(values.AsSpan(i * _width));
+            counts[i] = _counts[e];
+            (weights[i], squares[i]) = _joined[e] is { } j ? (j.Weights.Terms.ToArray(), j.Squares.Terms.ToArray()) : ([_weights[e]], [_weights[e] * _weights[e]]);
+        }
+        return new KernelSubsampleState(_limit, _width, values, counts, weights, squares);
     }
 
     /// <summary>
@@ -155,7 +163,7 @@ internal sealed class KernelSubsample
         var sums = Enumerable.Range(0, blocks).Select(_ => new CubicKernelFeatureSums(_width)).ToArray();
         var row = new double[_width];
         long rows = 0;
-        for (var e = 0; e < _entries; e++)
+        foreach (var e in CanonicalOrder())
         {
             for (var k = 0; k < _width; k++) row[k] = (_values[e * _width + k] - means[k]) / standardDeviations[k];
             var (w, w2) = _joined[e] is { } j ? (j.Weights.Value, j.Squares.Value) : (_weights[e], _weights[e] * _weights[e]);
@@ -212,18 +220,63 @@ internal sealed class KernelSubsample
     }
 
     /// <summary>
-    /// Puts the entries in canonical order (hash, then the values' bits), joins entries of equal values (counts added,
-    /// weights and squared weights into exact sums), sets the threshold to the K-th smallest key when more than K
-    /// entries are held and drops every entry above it.
+    /// Joins entries of equal values (counts added, weights and squared weights into exact sums, kept in the entry
+    /// first in canonical order), sets the threshold to the K-th smallest key when more than K entries are held, drops
+    /// every entry above it, and closes the gaps in place (no second copy of the store).
     /// </summary>
     private void Prune()
+    {
+        var n = _entries;
+        var order = CanonicalOrder();
+        var alive = new bool[n];
+        var distinct = 0;
+        var leader = -1;
+        var cut = ulong.MaxValue;
+        for (var i = 0; i < n; i++)
+        {
+            var e = order[i];
+            if (leader >= 0 && _hashes[leader] == _hashes[e] && CompareValues(leader, e) == 0)
+            {
+                // The same values as the entry before: one entry, its rows and weights added exactly.
+                _joined[leader] ??= ExactSums(_counts[leader], _weights[leader], null);
+                var (w, w2) = _joined[leader]!.Value;
+                var (ow, ow2) = ExactSums(_counts[e], _weights[e], _joined[e]);
+                w.Add(ow);
+                w2.Add(ow2);
+                _counts[leader] += _counts[e];
+                continue;
+            }
+            leader = e;
+            alive[e] = true;
+            if (++distinct == _limit) cut = JointRowHash.SelectionKey(_hashes[e]);
+        }
+        if (distinct > _limit) _threshold = Math.Min(_threshold, cut);
+        var kept = 0;
+        for (var e = 0; e < n; e++)
+        {
+            if (!alive[e] || JointRowHash.SelectionKey(_hashes[e]) > _threshold) continue;
+            if (kept != e)
+            {
+                _hashes[kept] = _hashes[e];
+                _values.AsSpan(e * _width, _width).CopyTo(_values.AsSpan(kept * _width, _width));
+                _counts[kept] = _counts[e];
+                _weights[kept] = _weights[e];
+                _joined[kept] = _joined[e];
+            }
+            kept++;
+        }
+        for (var e = kept; e < n; e++) _joined[e] = null;
+        _entries = kept;
+    }
+
+    /// <summary>The entries' indices by hash, then by the values' bits (equal hashes are copies of one row or a collision: short runs).</summary>
+    private int[] CanonicalOrder()
     {
         var n = _entries;
         var order = new int[n];
         var keys = new ulong[n];
         for (var e = 0; e < n; e++) (keys[e], order[e]) = (_hashes[e], e);
         Array.Sort(keys, order);
-        // Equal hashes (copies of one row, or a collision) are ordered by their values' bits: a short run each.
         for (var start = 0; start < n;)
         {
             var end = start + 1;
@@ -231,40 +284,7 @@ internal sealed class KernelSubsample
             if (end - start > 1) Array.Sort(order, start, end - start, Comparer<int>.Create(CompareValues));
             start = end;
         }
-        var hashes = new ulong[_hashes.Length];
-        var values = new double[_values.Length];
-        var counts = new long[_counts.Length];
-        var weights = new double[_weights.Length];
-        var joined = new (ExactSum, ExactSum)?[_joined.Length];
-        var kept = 0;
-        for (var i = 0; i < n; i++)
-        {
-            var e = order[i];
-            if (kept > 0 && hashes[kept - 1] == _hashes[e] && CompareValues(order[i - 1], e) == 0)
-            {
-                // The same values as the entry before: one entry, its rows and weights added exactly.
-                var into = kept - 1;
-                joined[into] ??= ExactSums(counts[into], weights[into], null);
-                var (w, w2) = joined[into]!.Value;
-                var (ow, ow2) = ExactSums(_counts[e], _weights[e], _joined[e]);
-                w.Add(ow);
-                w2.Add(ow2);
-                counts[into] += _counts[e];
-                continue;
-            }
-            hashes[kept] = _hashes[e];
-            _values.AsSpan(e * _width, _width).CopyTo(values.AsSpan(kept * _width));
-            counts[kept] = _counts[e];
-            weights[kept] = _weights[e];
-            joined[kept] = _joined[e];
-            kept++;
-        }
-        if (kept > _limit)
-        {
-            _threshold = Math.Min(_threshold, JointRowHash.SelectionKey(hashes[_limit - 1]));
-            while (kept > _limit && JointRowHash.SelectionKey(hashes[kept - 1]) > _threshold) kept--;
-        }
-        (_hashes, _values, _counts, _weights, _joined, _entries) = (hashes, values, counts, weights, joined, kept);
+        return order;
     }
 
     /// <summary>An entry's weights as exact sums (a single row's w and w·w as one term each).</summary>
