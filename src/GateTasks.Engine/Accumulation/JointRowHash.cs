@@ -26,6 +26,7 @@ internal static class JointRowHash
     public static void Begin(Span<ulong> hashes) => hashes.Fill(Seed);
 
     /// <summary>Folds one feature's values (one column of the chunk) into the hashes.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public static void Mix(ReadOnlySpan<double> column, Span<ulong> hashes)
     {
         if (column.Length != hashes.Length)

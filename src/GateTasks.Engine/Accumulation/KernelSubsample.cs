@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using GateTasks.Engine.Samples;
 using GateTasks.Engine.Statistics;
 
@@ -60,6 +61,7 @@ internal sealed class KernelSubsample
     public int Capacity => _hashes.Length;
 
     /// <summary>Adds one batch's rows: the values of <paramref name="features"/> (joint order) and the weights; non-finite rows are passed over (the caller counts them).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Add(FeatureView view, IReadOnlyList<int> features)
     {
         if (features.Count != _width) throw new ArgumentException($"{features.Count} features for a subsample of {_width}.", nameof(features));
@@ -157,6 +159,7 @@ internal sealed class KernelSubsample
     /// each entry added in canonical order with its count and its Σw and Σw² rounded once from their exact sums; and
     /// the rows they hold.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public (CubicKernelFeatureSums[] Blocks, long Rows) Sums(IReadOnlyList<double> means, IReadOnlyList<double> standardDeviations, int blocks)
     {
         Prune();
@@ -224,6 +227,7 @@ internal sealed class KernelSubsample
     /// first in canonical order), sets the threshold to the K-th smallest key when more than K entries are held, drops
     /// every entry above it, and closes the gaps in place (no second copy of the store).
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Prune()
     {
         var n = _entries;
@@ -270,6 +274,7 @@ internal sealed class KernelSubsample
     }
 
     /// <summary>The entries' indices by hash, then by the values' bits (equal hashes are copies of one row or a collision: short runs).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private int[] CanonicalOrder()
     {
         var n = _entries;
@@ -298,6 +303,7 @@ internal sealed class KernelSubsample
         return sums;
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private int CompareValues(int a, int b)
     {
         for (var k = 0; k < _width; k++)

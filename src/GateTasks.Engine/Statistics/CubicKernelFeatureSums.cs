@@ -83,6 +83,7 @@ internal sealed class CubicKernelFeatureSums
     /// Σw, while Σw², Σ w² k(x, x) and the row count take each row, so the i ≠ j pairs between those rows count as they
     /// would had the rows been added one by one. With one row (Σw = w, Σw² = w·w) the arithmetic is that of adding it.
     /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     internal void Add(ReadOnlySpan<double> row, double weightSum, double weightSquareSum, long count)
     {
         if (count < 1) throw new ArgumentOutOfRangeException(nameof(count), count, "At least one row.");
@@ -169,6 +170,9 @@ internal sealed class CubicKernelFeatureSums
     internal double DistinctPairWeight => WeightSum * WeightSum - WeightSquareSum;
 
     /// <summary>Folds the buffered rows into the monomial sums.</summary>
+    // Fully optimised from the first call: the sample's subsample is summed once, at the end of a run, too few calls
+    // for tiered compilation to replace the unoptimised first version in time.
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     private void Flush()
     {
         int r = _buffered;
