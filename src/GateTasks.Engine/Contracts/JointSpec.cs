@@ -4,7 +4,8 @@ namespace GateTasks.Engine.Contracts;
 
 /// <summary>
 /// Checks over a declared feature set taken together, so that a broken joint structure fails even when every marginal
-/// passes. Two tolerance checks use every event (streamed, weighted, mergeable across shards), each on the features
+/// passes. Two tolerance checks use the events with their weights (streamed, mergeable across shards; the kernel
+/// distance's sample side a seeded subsample of at most <see cref="KernelRows"/> events), each on the features
 /// standardised by the reference's weighted means and standard deviations: <see cref="Frechet"/> bounds the Fréchet
 /// distance between Gaussian fits, extrapolated to infinite size; <see cref="KernelDistance"/> bounds the unbiased
 /// squared maximum mean discrepancy with the cubic polynomial kernel; <see cref="Sliced"/> bound the worst and mean
@@ -36,7 +37,7 @@ internal sealed record JointSpec(IReadOnlyList<string> Features, SourceLocation 
     /// <summary>K: the most sample rows (plus rows tying the last) the kernel distance is computed on (<c>kernel-rows</c>).</summary>
     public int KernelRows { get; init; } = DefaultKernelRows;
 
-    /// <summary>True when a streamed check is stated: every event's moments and kernel sums are gathered.</summary>
+    /// <summary>True when a streamed check is stated: every event's moments and the kernel's sums (the sample's over its subsample) are gathered.</summary>
     public bool Streams => Frechet is not null || KernelDistance is not null;
 
     /// <summary>Directions of the sliced checks when the contract states none.</summary>
