@@ -5,7 +5,8 @@ namespace GateTasks.Benchmarks;
 
 /// <summary>
 /// <c>kernels [BenchmarkDotNet options]</c> runs the kernel benchmarks; the other modes are the end-to-end
-/// harness's steps (tests/benchmarks/run.sh): generate, contract, export-reference, export-npy, fill.
+/// harness's steps (tests/benchmarks/run.sh): generate, contract, export-reference, export-npy, fill; and
+/// <c>kernel-subsample</c>, the kernel distance's sample side timed alone on a sample.
 /// </summary>
 public static class Program
 {
@@ -16,6 +17,7 @@ public static class Program
                GateTasks.Benchmarks export-reference --reference FILE --out JSON
                GateTasks.Benchmarks export-npy --sample FILE --out NPY
                GateTasks.Benchmarks fill --reference FILE --sample FILE --out JSON
+               GateTasks.Benchmarks kernel-subsample --sample FILE [--features N] [--rows K]
         """;
 
     public static int Main(string[] args)
@@ -61,6 +63,9 @@ public static class Program
                     return 0;
                 case "fill":
                     TimedFill.Run(Option("reference"), Option("sample"), Option("out"));
+                    return 0;
+                case "kernel-subsample":
+                    TimedKernelSubsample.Run(Option("sample"), (int)Number("features", 20), (int)Number("rows", 50_000));
                     return 0;
                 default:
                     return Fail($"unknown mode '{args[0]}'");

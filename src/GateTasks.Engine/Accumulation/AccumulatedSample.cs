@@ -39,6 +39,15 @@ internal sealed record CellSums(double[] SumW, double[] SumW2);
 /// <summary>The joint moments and kernel sums, finished (see <see cref="JointMoments"/>).</summary>
 internal sealed record AccumulatedJointMoments(long Rows, long Skipped, BlockedCovariance? Moments, IReadOnlyList<CubicKernelFeatureSums>? Kernel)
 {
+    /// <summary>
+    /// The rows the kernel sums were taken over when they come from the sample's subsample (<see cref="KernelSubsample"/>),
+    /// at most K plus ties and all of <see cref="Rows"/> when the sample has no more; null when they cover every row (a reference).
+    /// </summary>
+    public long? KernelRows { get; init; }
+
+    /// <summary>The subsample's K (null when the kernel sums cover every row).</summary>
+    public int? KernelLimit { get; init; }
+
     /// <summary>Fresh objects holding a state; throws <see cref="FormatException"/> when the numbers do not fit d features.</summary>
     public static AccumulatedJointMoments From(int features, JointMomentsState state)
     {

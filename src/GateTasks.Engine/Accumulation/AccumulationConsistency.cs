@@ -83,7 +83,7 @@ internal static class AccumulationConsistency
         }
 
         if (a.JointMoments is { } moments && (moments.Rows + moments.Skipped != a.Events
-                || moments.Moments is { } m && m.Count > moments.Rows || moments.Kernel is { } k && k.Sum(s => s.Count) != moments.Rows))
+                || moments.Moments is { } m && m.Count > moments.Rows || moments.Kernel is { } k && k.Sum(s => s.Count) != (moments.KernelRows ?? moments.Rows) || moments.KernelRows > moments.Rows))
             return $"the joint moments hold {moments.Rows} rows and {moments.Skipped} skipped, the event total is {a.Events}";
         if (a.Sliced is { } sliced && (sliced.Rows < 0 || sliced.Skipped < 0 || sliced.Rows + sliced.Skipped != a.Events))
             return $"the sliced histograms hold {sliced.Rows} rows and {sliced.Skipped} skipped, the event total is {a.Events}";

@@ -32,9 +32,20 @@ internal sealed record PairState(string Name, IReadOnlyList<double> Pearson, IRe
 
 /// <summary>
 /// A <see cref="JointMoments"/> state as numbers: rows taken in and skipped, the <see cref="BlockedCovariance.State"/>
-/// (null when not gathered) and each block's <see cref="CubicKernelFeatureSums.State"/> (null when not gathered).
+/// (null when not gathered), each block's <see cref="CubicKernelFeatureSums.State"/> over every row (a reference's;
+/// null when not gathered) and the sample's kernel subsample (<see cref="KernelSubsample.State"/>; null when not
+/// gathered or when the kernel sums cover every row).
 /// </summary>
-internal sealed record JointMomentsState(long Rows, long Skipped, IReadOnlyList<double>? Moments, IReadOnlyList<IReadOnlyList<double>>? Kernel);
+internal sealed record JointMomentsState(long Rows, long Skipped, IReadOnlyList<double>? Moments, IReadOnlyList<IReadOnlyList<double>>? Kernel,
+    KernelSubsampleState? KernelSubsample = null);
+
+/// <summary>
+/// The rows a <see cref="KernelSubsample"/> keeps: its K and row width, and per entry (rows of equal values, canonical
+/// order) the raw joint values (<paramref name="Width"/> a row, concatenated), how many rows share them, and the exact
+/// terms of their Σw and Σw² (<see cref="Statistics.ExactSum.Terms"/>).
+/// </summary>
+internal sealed record KernelSubsampleState(int Limit, int Width, IReadOnlyList<double> Values, IReadOnlyList<long> Counts,
+    IReadOnlyList<IReadOnlyList<double>> WeightTerms, IReadOnlyList<IReadOnlyList<double>> SquareTerms);
 
 /// <summary>
 /// A joint block's sliced histograms as numbers: the <see cref="SlicedGrid.Digest"/> of the grid they were filled on

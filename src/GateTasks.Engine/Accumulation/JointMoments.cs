@@ -10,6 +10,9 @@ namespace GateTasks.Engine.Accumulation;
 /// (<see cref="CubicKernelFeatureSums"/>, for the kernel distance). A row goes to block (its index within its file)
 /// mod <see cref="Blocks"/>, so one pass over several files and a merge of the files filled apart put every row in the
 /// same block. Rows with a non-finite value in any joint feature are skipped and counted. Everything is a sum, so shards merge; memory depends on d and B, never on the number of events.
+/// The kernel sums cover every row for a reference; a sample's are taken at the end over its seeded subsample of at
+/// most K rows (<see cref="KernelSubsample"/>, its own blocks from the rows' hashes), which a merge of shards keeps
+/// alike. Its memory depends on K and d, not on the number of events either.
 /// </summary>
 internal sealed class JointMoments
 {
@@ -22,6 +25,7 @@ internal sealed class JointMoments
     private readonly double[] _inverseSds;
     private readonly BlockedCovariance? _moments;
     private readonly CubicKernelFeatureSums[]? _kernel;
+    private readonly KernelSubsample? _subsample;
     private readonly double[] _row;
 
     // The moments' rows go through a block-interleaved chunk (BlockInterleavedSums): row t of block b at position
@@ -45,9 +49,10 @@ internal sealed class JointMoments
 
     /// <summary>
     /// An empty accumulation of the features at <paramref name="features"/> (indices into a <see cref="FeatureView"/>),
-    /// standardised by <paramref name="standardisation"/>, gathering moments and/or kernel sums.
+    /// standardised by <paramref name="standardisation"/>, gathering moments and/or kernel sums: over every row when
+    /// <paramref name="kernelRows"/> is 0 (a reference), over a subsample of at most that many rows otherwise (a sample).
     /// </summary>
-    public JointMoments(IReadOnlyList<int> features, JointStandardisation standardisation, bool moments, bool kernel)
+    public JointMoments(IReadOnlyList<int> features, JointStandardisation standardisation, bool moments, bool kernel, int kernelRows = 0)
     {
         if (standardisation.Means.Count != features.Count || standardisation.StandardDeviations.Count != features.Count)
             throw new ArgumentException($"A standardisation of {standardisation.Means.Count} features for {features.Count} joint features.", nameof(standardisation));
@@ -57,7 +62,8 @@ internal sealed class JointMoments
         _inverseSds = _sds.Select(s => 1 / s).ToArray();
         var d = _features.Length;
         _moments = moments ? new BlockedCovariance(d, Blocks) : null;
-        _kernel = kernel ? Enumerable.Range(0, Blocks).Select(_ => new CubicKernelFeatureSums(d)).ToArray() : null;
+        _kernel = kernel && kernelRows == 0 ? Enumerable.Range(0, Blocks).Select(_ => new CubicKernelFeatureSums(d)).ToArray() : null;
+        _subsample = kernel && kernelRows > 0 ? new KernelSubsample(d, kernelRows) : null;
         _row = new double[d];
         _centre = new double[d];
         _centreRaw = new double[d];
@@ -82,8 +88,11 @@ internal sealed class JointMoments
     /// <summary>The moments (null when not gathered).</summary>
     public BlockedCovariance? Moments => _moments;
 
-    /// <summary>The kernel sums per block (null when not gathered).</summary>
+    /// <summary>The kernel sums per block over every row (null when not gathered or when taken from a subsample).</summary>
     public IReadOnlyList<CubicKernelFeatureSums>? Kernel => _kernel;
+
+    /// <summary>The sample's kernel subsample (null when not gathered or when the kernel sums cover every row).</summary>
+    public KernelSubsample? Subsample => _subsample;
 
     /// <summary>Adds one batch's rows (after the selection), each with its event weight and its place in its file.</summary>
     public void Add(FeatureView view)
@@ -114,6 +123,7 @@ internal sealed class JointMoments
         Skipped += n - kept;
         Rows += kept;
         if (kept == 0) return;
+        _subsample?.Add(view, _features);
         if (_kernel is not null) AddKernel(view, finite);
         if (_moments is not null) AddMoments(view, finite, allFinite);
     }
@@ -336,12 +346,14 @@ internal sealed class JointMoments
         _moments?.Merge(other._moments!);
         if (_kernel is not null)
             for (var b = 0; b < Blocks; b++) _kernel[b].Merge(other._kernel![b]);
+        _subsample?.Merge(other._subsample!);
         Rows += other.Rows;
         Skipped += other.Skipped;
     }
 
     /// <summary>The whole accumulation as numbers, for a partial or a reference file.</summary>
-    public JointMomentsState State() => new(Rows, Skipped, _moments?.State(), _kernel?.Select(k => (IReadOnlyList<double>)k.State()).ToList());
+    public JointMomentsState State() => new(Rows, Skipped, _moments?.State(), _kernel?.Select(k => (IReadOnlyList<double>)k.State()).ToList(),
+        _subsample?.State());
 
     /// <summary>
     /// Sets a state <see cref="State"/> gave into this fresh accumulation; the name of what does not fit (another
@@ -352,6 +364,8 @@ internal sealed class JointMoments
         if (state.Rows < 0 || state.Skipped < 0) return "negative joint row counts";
         if ((_moments is null) != (state.Moments is null)) return _moments is null ? "joint moments this contract does not ask for" : "no joint moments";
         if ((_kernel is null) != (state.Kernel is null)) return _kernel is null ? "joint kernel sums this contract does not ask for" : "no joint kernel sums";
+        if ((_subsample is null) != (state.KernelSubsample is null))
+            return _subsample is null ? "a joint kernel subsample this contract does not ask for" : "no joint kernel subsample";
         if (_moments is not null && !_moments.Restore(state.Moments!.ToArray()))
             return $"joint moments not of {_features.Length} features in {Blocks} blocks";
         if (_kernel is not null)
@@ -359,6 +373,12 @@ internal sealed class JointMoments
             if (state.Kernel!.Count != Blocks) return $"{state.Kernel.Count} blocks of joint kernel sums, not {Blocks}";
             for (var b = 0; b < Blocks; b++)
                 if (!_kernel[b].Restore(state.Kernel[b].ToArray())) return $"joint kernel sums of block {b} not of {_features.Length} features";
+        }
+        if (_subsample is not null)
+        {
+            if (_subsample.Entries > 0) return "a joint kernel subsample set into one already filled";
+            if (_subsample.AddState(state.KernelSubsample!) is { } misfit) return misfit;
+            if (_subsample.Rows() > state.Rows) return $"a joint kernel subsample of {_subsample.Rows()} rows, more than the {state.Rows} joint rows taken in";
         }
         Rows = state.Rows;
         Skipped = state.Skipped;
@@ -380,5 +400,12 @@ internal sealed class JointMoments
     }
 
     /// <summary>What was gathered, as fresh objects that share nothing with this accumulation.</summary>
-    public AccumulatedJointMoments Finish() => AccumulatedJointMoments.From(_features.Length, State());
+    public AccumulatedJointMoments Finish()
+    {
+        var finished = AccumulatedJointMoments.From(_features.Length,
+            new JointMomentsState(Rows, Skipped, _moments?.State(), _kernel?.Select(k => (IReadOnlyList<double>)k.State()).ToList()));
+        if (_subsample is null) return finished;
+        var (sums, rows) = _subsample.Sums(_means, _sds, Blocks);
+        return finished with { Kernel = sums, KernelRows = rows, KernelLimit = _subsample.Limit };
+    }
 }

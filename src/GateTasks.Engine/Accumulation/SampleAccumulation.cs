@@ -46,11 +46,11 @@ internal sealed class SampleAccumulation
         _spikes = new SpikeSeparation(contract.Features);
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         // Covariance moments for every joint block (the global score reads them), kernel sums only for a
-        // kernel-distance check.
+        // kernel-distance check, over the sample's subsample of at most kernel-rows rows.
         _jointMoments = contract.Joint is { } jm
             ? new JointMoments(jm.Features.Select(f => index[f]).ToList(),
                 joint ?? throw new ArgumentException("The joint block's streamed checks need the reference's standardisation.", nameof(joint)),
-                true, jm.KernelDistance is not null)
+                true, jm.KernelDistance is not null, jm.KernelRows)
             : null;
         if (contract.Joint is { Slices: true } slicedSpec)
         {

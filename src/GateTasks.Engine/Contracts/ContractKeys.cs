@@ -60,6 +60,7 @@ internal static class ContractKeys
     public const string SlicedKsMax = "sliced-ks-max";
     public const string SlicedWassersteinMax = "sliced-wasserstein-max";
     public const string Projections = "projections";
+    public const string KernelRows = "kernel-rows";
     public const string Worst = "worst";
     public const string Mean = "mean";
     public static readonly string[] SlicedKeys = [Worst, Mean];
@@ -79,7 +80,7 @@ internal static class ContractKeys
     public static readonly string[] TopLevel = [Version, Title, Sample, Reference, Selection, Decision, Acceptance, Defaults, Features, Correlations, Joint];
     public static readonly string[] AcceptanceKeys = [Ledger, Required, Tightening, Ratchet];
     public static readonly string[] TighteningPolicies = ["free", "record"];
-    public static readonly string[] JointKeys = [PairFeatures, FrechetMax, KernelDistanceMax, SlicedKsMax, SlicedWassersteinMax, Projections];
+    public static readonly string[] JointKeys = [PairFeatures, FrechetMax, KernelDistanceMax, SlicedKsMax, SlicedWassersteinMax, Projections, KernelRows];
     public static readonly string[] CorrelationKeys = [PairFeatures, PearsonMax, SpearmanMax, Chi2Test2D];
     public static readonly string[] DecisionKeys = [Confidence, FalseAlarm, Correction, Inconclusive];
     public static readonly string[] Corrections = ["holm", "benjamini-hochberg", "bonferroni"];

@@ -4,7 +4,8 @@ namespace GateTasks.Engine.Contracts;
 
 /// <summary>
 /// Checks over a declared feature set taken together, so that a broken joint structure fails even when every marginal
-/// passes. Two tolerance checks use every event (streamed, weighted, mergeable across shards), each on the features
+/// passes. Two tolerance checks use the events with their weights (streamed, mergeable across shards; the kernel
+/// distance's sample side a seeded subsample of at most <see cref="KernelRows"/> events), each on the features
 /// standardised by the reference's weighted means and standard deviations: <see cref="Frechet"/> bounds the Fréchet
 /// distance between Gaussian fits, extrapolated to infinite size; <see cref="KernelDistance"/> bounds the unbiased
 /// squared maximum mean discrepancy with the cubic polynomial kernel; <see cref="Sliced"/> bound the worst and mean
@@ -22,7 +23,21 @@ internal sealed record JointSpec(IReadOnlyList<string> Features, SourceLocation 
     /// <summary>The bound on the unbiased kernel distance (<c>kernel-distance-max</c>), or null.</summary>
     public ToleranceCheck? KernelDistance { get; init; }
 
-    /// <summary>True when a streamed check is stated: every event's moments and kernel sums are gathered.</summary>
+    /// <summary>Sample rows the kernel distance is computed on when the contract states no <c>kernel-rows</c>.</summary>
+    public const int DefaultKernelRows = 50_000;
+
+    /// <summary>
+    /// The fewest and most sample rows <c>kernel-rows</c> takes. Below 1 000 the 16 block estimates hold too few rows
+    /// to estimate the spread. Above 200 000 the subsample's store (2K entries of d + 3 numbers: 115 MB at the widest
+    /// kernel block, d = 32; 74 MB at d = 20), its share of a partial file and the final pass through the feature map
+    /// (C(d+3, 3) multiply-adds a row: about 1 s at d = 32) stop being small beside the stream itself.
+    /// </summary>
+    public const int MinKernelRows = 1_000, MaxKernelRows = 200_000;
+
+    /// <summary>K: the most sample rows (plus rows tying the last) the kernel distance is computed on (<c>kernel-rows</c>).</summary>
+    public int KernelRows { get; init; } = DefaultKernelRows;
+
+    /// <summary>True when a streamed check is stated: every event's moments and the kernel's sums (the sample's over its subsample) are gathered.</summary>
     public bool Streams => Frechet is not null || KernelDistance is not null;
 
     /// <summary>Directions of the sliced checks when the contract states none.</summary>

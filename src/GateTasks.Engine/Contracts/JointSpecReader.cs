@@ -17,7 +17,8 @@ internal static class JointSpecReader
             if (key is YamlScalarNode { Value: { } k } && ContractKeys.RetiredJointKeys.Contains(k))
                 throw r.Error(ErrorCodes.ContractRetiredKey, key,
                     $"joint.{k} was retired with the energy test, whose bounded subsample missed broken correlations; " +
-                    $"state {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax}, {ContractKeys.SlicedKsMax} or {ContractKeys.SlicedWassersteinMax}, which use every event, and drop '{k}'.");
+                    $"state {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax}, {ContractKeys.SlicedKsMax} or {ContractKeys.SlicedWassersteinMax} and drop '{k}' " +
+                    $"(the kernel distance's seeded subsample is set by {ContractKeys.KernelRows}).");
         var e = r.Entries(mapping, ContractKeys.Joint, ContractKeys.JointKeys).ToDictionary(x => x.Key, x => x.Value);
         var names = features.Select(f => f.Name).ToList();
         var list = r.Sequence(r.Require(mapping, ContractKeys.PairFeatures, "The joint check"), "joint.features").Children.Select(n =>
@@ -47,10 +48,21 @@ internal static class JointSpecReader
                 throw r.Error(ErrorCodes.ContractBadValue, kn,
                     $"joint.{ContractKeys.Projections} must be between {JointSpec.MinProjections} and {JointSpec.MaxProjections}, got {projections}.");
         }
+        var kernelRows = JointSpec.DefaultKernelRows;
+        if (e.TryGetValue(ContractKeys.KernelRows, out var kr))
+        {
+            if (kernel is null)
+                throw r.Error(ErrorCodes.ContractBadValue, kr,
+                    $"joint.{ContractKeys.KernelRows} sets how many sample rows {ContractKeys.KernelDistanceMax} is computed on; the block does not state it.");
+            kernelRows = r.Integer(kr, $"joint.{ContractKeys.KernelRows}");
+            if (kernelRows < JointSpec.MinKernelRows || kernelRows > JointSpec.MaxKernelRows)
+                throw r.Error(ErrorCodes.ContractBadValue, kr,
+                    $"joint.{ContractKeys.KernelRows} must be a whole number between {JointSpec.MinKernelRows} and {JointSpec.MaxKernelRows}, got {kernelRows}.");
+        }
         if (frechet is null && kernel is null && sliced.Count == 0)
             throw r.Error(ErrorCodes.ContractMissingKey, mapping,
                 $"The joint check needs {ContractKeys.FrechetMax}, {ContractKeys.KernelDistanceMax}, {ContractKeys.SlicedKsMax}, {ContractKeys.SlicedWassersteinMax} or several.");
-        return new JointSpec(list, r.At(node)) { Frechet = frechet, KernelDistance = kernel, Sliced = sliced, Projections = projections };
+        return new JointSpec(list, r.At(node)) { Frechet = frechet, KernelDistance = kernel, Sliced = sliced, Projections = projections, KernelRows = kernelRows };
     }
 
     /// <summary>

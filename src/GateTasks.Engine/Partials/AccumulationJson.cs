@@ -56,6 +56,20 @@ internal static class AccumulationJson
             w.WriteNumber("skipped", moments.Skipped);
             if (moments.Moments is { } m) PartialNumbers.WriteArray(w, "moments", m);
             if (moments.Kernel is { } k) PartialNumbers.WriteJagged(w, "kernel_sums", k);
+            if (moments.KernelSubsample is { } sub)
+            {
+                // The kept rows themselves (raw values, weight, count): a merge takes the union and cuts it back to K.
+                w.WriteStartObject("kernel_subsample");
+                w.WriteNumber("limit", sub.Limit);
+                w.WriteNumber("width", sub.Width);
+                PartialNumbers.WriteArray(w, "values", sub.Values);
+                w.WriteStartArray("counts");
+                foreach (var c in sub.Counts) w.WriteNumberValue(c);
+                w.WriteEndArray();
+                PartialNumbers.WriteJagged(w, "weight_terms", sub.WeightTerms);
+                PartialNumbers.WriteJagged(w, "square_terms", sub.SquareTerms);
+                w.WriteEndObject();
+            }
             w.WriteEndObject();
         }
         if (state.Sliced is { } sliced)
@@ -119,7 +133,12 @@ internal static class AccumulationJson
         var moments = e.TryGetProperty("joint_moments", out var jm)
             ? new JointMomentsState(jm.GetProperty("rows").GetInt64(), jm.GetProperty("skipped").GetInt64(),
                 jm.TryGetProperty("moments", out var m) ? PartialNumbers.ReadArray(m) : null,
-                jm.TryGetProperty("kernel_sums", out var k) ? PartialNumbers.ReadJagged(k) : null)
+                jm.TryGetProperty("kernel_sums", out var k) ? PartialNumbers.ReadJagged(k) : null,
+                jm.TryGetProperty("kernel_subsample", out var ks)
+                    ? new KernelSubsampleState(ks.GetProperty("limit").GetInt32(), ks.GetProperty("width").GetInt32(),
+                        PartialNumbers.ReadArray(ks.GetProperty("values")), ks.GetProperty("counts").EnumerateArray().Select(c => c.GetInt64()).ToArray(),
+                        PartialNumbers.ReadJagged(ks.GetProperty("weight_terms")), PartialNumbers.ReadJagged(ks.GetProperty("square_terms")))
+                    : null)
             : null;
         var sliced = e.TryGetProperty("joint_sliced", out var sl)
             ? new SlicedState(sl.GetProperty("grid_sha256").GetString()!, new SlicedHistogramState(sl.GetProperty("groups").GetInt32(),

@@ -17,7 +17,7 @@ namespace GateTasks.Engine.Partials;
 /// with every exact sum as its terms.
 /// </summary>
 /// <remarks>
-/// The seal is the SHA-256 of <c>gatetasks.partial\n8\n</c> followed by the content object written compactly (as
+/// The seal is the SHA-256 of <c>gatetasks.partial\n9\n</c> followed by the content object written compactly (as
 /// System.Text.Json writes a parsed element: no white space outside strings). It catches a damaged file or a
 /// number edited by hand; it is not a signature (anyone can compute it again), which is why the content is also
 /// checked for consistency on reading.
@@ -25,7 +25,7 @@ namespace GateTasks.Engine.Partials;
 internal static class PartialFile
 {
     public const string Format = "gatetasks.partial";
-    public const int Version = 8; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights; 6: correlation moments kept per sign of weight; 7: the joint block's streamed moments and kernel sums; 8: its sliced histograms with their grid's digest
+    public const int Version = 9; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights; 6: correlation moments kept per sign of weight; 7: the joint block's streamed moments and kernel sums; 8: its sliced histograms with their grid's digest; 9: the kernel distance's subsample rows in place of its sums
 
     /// <summary>A sample file counted in a partial: its path where it was filled (for messages) and the XXH128 of its bytes (its identity).</summary>
     internal sealed record CountedFile(string Path, string Xxh128);
@@ -47,7 +47,7 @@ internal static class PartialFile
              .Append(f.NeedsFineGrid ? "|fine-grid" : "").Append('\n');
         foreach (var p in contract.Pairs) b.Append("pair ").Append(p.Name).Append(p.Chi2 is null ? "" : "|2d").Append('\n');
         if (contract.Joint is { } j)
-            b.Append("joint ").Append(j.Name).Append("|moments").Append(j.KernelDistance is null ? "" : "|kernel-sums")
+            b.Append("joint ").Append(j.Name).Append("|moments").Append(j.KernelDistance is null ? "" : "|kernel-rows:" + j.KernelRows)
              .Append(j.Slices ? "|sliced:" + j.Projections : "").Append('\n');
         b.Append("selection ").Append(contract.Selection?.Text ?? "").Append('\n');
         b.Append("weight ").Append(contract.Sample.Weight ?? "").Append('\n');
@@ -145,7 +145,7 @@ internal static class PartialFile
                 var version = root.GetProperty("version").GetInt32();
                 if (version != Version)
                     throw new GateInputException(ErrorCodes.PartialUnreadable,
-                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights, correlation moments kept per sign of weight, the joint block's streamed moments and kernel sums, and its sliced histograms with their grid's digest); fill it again.", at);
+                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights, correlation moments kept per sign of weight, the joint block's streamed moments and kernel sums, its sliced histograms with their grid's digest, and the kernel distance's subsample rows in place of the sample's kernel sums); fill it again.", at);
                 var content = root.GetProperty("content");
                 var stated = root.GetProperty("seal_sha256").GetString();
                 var seal = Seal(content);
@@ -157,7 +157,7 @@ internal static class PartialFile
                         $"Filled against another reference (sha256 {Short(content.GetProperty("reference_sha256").GetString())}, in use {Short(setup.ReferenceSha256)}); fill it again.", at);
                 if (content.GetProperty("contract_fingerprint").GetString() != Fingerprint(setup.Contract))
                     throw new GateInputException(ErrorCodes.PartialMismatch,
-                        "Filled for a contract that gathers other things (features, binning, selection, pairs or joint set differ); fill it again with this contract.", at);
+                        "Filled for a contract that gathers other things (features, binning, selection, pairs, joint set or kernel-rows differ); fill it again with this contract.", at);
                 var accumulation = new SampleAccumulation(setup.Contract, setup.Layouts, setup.JointStandardisation, setup.SlicedGrid);
                 // Sliced cells are added cell by cell: only histograms filled on this reference's grid may be (GATE3026).
                 if (AccumulationJson.SlicedGridDigest(content.GetProperty("accumulation")) is { } filledOn && accumulation.SlicedGridDigest is { } expected && filledOn != expected)

@@ -43,9 +43,22 @@ internal static class ResultTable
             if (i == 0) sb.AppendLine(string.Join("  ", widths.Select(w => new string('-', w))));
         }
         sb.AppendLine(DecisionRule(report));
+        KernelRows(sb, report);
         Readings(sb, report);
         Flows(sb, report);
         return sb.ToString();
+    }
+
+    /// <summary>How many sample rows each kernel distance was computed on: its seeded subsample of at most kernel-rows.</summary>
+    private static void KernelRows(StringBuilder sb, RunResult report)
+    {
+        foreach (var o in report.Outcomes)
+        {
+            if (o.Check.Kind != CheckKind.KernelDistance) continue;
+            var d = o.Measured.Details.ToDictionary(p => p.Key, p => p.Value);
+            if (d.TryGetValue("kernel_sample_rows", out var used) && d.TryGetValue("sample_rows", out var all) && d.TryGetValue("kernel_rows_limit", out var limit))
+                sb.AppendLine($"{o.Check.Key} of {o.Subject.Name}: sample side on {used} of {all} rows (kernel-rows {limit}; every reference row).");
+        }
     }
 
     /// <summary>

@@ -75,14 +75,24 @@ internal sealed class CubicKernelFeatureSums
     /// in a small column buffer and folded into the monomial sums <see cref="BufferRows"/> at a time, where each sum
     /// is a SIMD dot product over the buffered rows instead of one scalar update a row.
     /// </summary>
-    internal void Add(ReadOnlySpan<double> row, double weight)
+    internal void Add(ReadOnlySpan<double> row, double weight) => Add(row, weight, weight * weight, 1);
+
+    /// <summary>
+    /// Adds <paramref name="count"/> rows of equal values whose weights sum to <paramref name="weightSum"/> and whose
+    /// squared weights sum to <paramref name="weightSquareSum"/>: the monomial sums take the values once with weight
+    /// Σw, while Σw², Σ w² k(x, x) and the row count take each row, so the i ≠ j pairs between those rows count as they
+    /// would had the rows been added one by one. With one row (Σw = w, Σw² = w·w) the arithmetic is that of adding it.
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    internal void Add(ReadOnlySpan<double> row, double weightSum, double weightSquareSum, long count)
     {
+        if (count < 1) throw new ArgumentOutOfRangeException(nameof(count), count, "At least one row.");
         if (row.Length != Width)
             throw new ArgumentException($"A row of {row.Length} features added to sums over {Width}.", nameof(row));
         int d = Width;
-        Count++;
-        WeightSum += weight;
-        WeightSquareSum += weight * weight;
+        Count += count;
+        WeightSum += weightSum;
+        WeightSquareSum += weightSquareSum;
         double squaredNorm = 0;
         for (int f = 0; f < d; f++)
         {
@@ -90,8 +100,8 @@ internal sealed class CubicKernelFeatureSums
             _columns[f * BufferRows + _buffered] = row[f];
         }
         double self = squaredNorm / d + 1;
-        SelfKernelSum += weight * weight * self * self * self;
-        _weights[_buffered] = weight;
+        SelfKernelSum += weightSquareSum * self * self * self;
+        _weights[_buffered] = weightSum;
         if (++_buffered == BufferRows) Flush();
     }
 
@@ -160,6 +170,9 @@ internal sealed class CubicKernelFeatureSums
     internal double DistinctPairWeight => WeightSum * WeightSum - WeightSquareSum;
 
     /// <summary>Folds the buffered rows into the monomial sums.</summary>
+    // Fully optimised from the first call: the sample's subsample is summed once, at the end of a run, too few calls
+    // for tiered compilation to replace the unoptimised first version in time.
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     private void Flush()
     {
         int r = _buffered;

@@ -104,4 +104,29 @@ public class JointToleranceKeyTests
         Assert.Equal(new SourceLocation("c.yaml", 12, 3), e.Location);
         Assert.False(Valid(Contract("  frechet-max: 0.02\n  " + line)));
     }
+
+    [Theory]
+    [InlineData("  kernel-distance-max: 0.001", 50_000)]
+    [InlineData("  kernel-distance-max: 0.001\n  kernel-rows: 1000", 1_000)]
+    [InlineData("  kernel-distance-max: 0.001\n  kernel-rows: 200000", 200_000)]
+    public void Kernel_rows_defaults_to_50000_and_takes_1000_to_200000(string joint, int rows)
+    {
+        // docs/contract.md "Joint structure": kernel-rows, default 50 000, from 1 000 to 200 000.
+        Assert.Equal(rows, ContractLoader.Parse(Contract(joint), "c.yaml").Joint!.KernelRows);
+        Assert.True(Valid(Contract(joint)));
+    }
+
+    [Theory]
+    [InlineData("  kernel-distance-max: 0.001\n  kernel-rows: 999")]
+    [InlineData("  kernel-distance-max: 0.001\n  kernel-rows: 200001")]
+    [InlineData("  kernel-distance-max: 0.001\n  kernel-rows: 1500.5")]
+    [InlineData("  frechet-max: 0.02\n  kernel-rows: 50000")]
+    public void Bad_kernel_rows_are_refused_by_loader_and_schema(string joint)
+    {
+        // docs/error-codes.md: GATE1004 at the value; the schema refuses the same contracts.
+        var e = Fails(Contract(joint));
+        Assert.Equal(ErrorCodes.ContractBadValue, e.Code);
+        Assert.Equal(12, e.Location!.Line);
+        Assert.False(Valid(Contract(joint)));
+    }
 }
