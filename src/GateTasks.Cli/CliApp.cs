@@ -1,4 +1,5 @@
 using System.CommandLine;
+using System.CommandLine.Parsing;
 using GateTasks.Cli.Commands;
 using GateTasks.Engine.Diagnostics;
 
@@ -28,30 +29,55 @@ internal static class CliApp
 
     private static int Run(string[] args, CommandOutput output)
     {
+        var parse = Build(output).Parse(args);
+        var command = parse.CommandResult.Command;
+        // A command that takes paths as arguments (rank, merge) takes a misspelt option as one of them; before a
+        // "--" separator, a word starting with "--" is meant as an option.
+        var strays = args.Contains("--") ? [] : parse.CommandResult.Children.OfType<ArgumentResult>()
+            .SelectMany(a => a.Tokens).Select(t => t.Value).Where(v => v.StartsWith("--", StringComparison.Ordinal)).Distinct().ToList();
+        if (parse.Errors.Count > 0 || strays.Count > 0)
+        {
+            var unknown = parse.UnmatchedTokens.Distinct().ToList();
+            var messages = strays.Select(t => UnknownToken.Message(t, command)).ToList();
+            foreach (var e in parse.Errors)
+            {
+                // The parser's "unrecognized" error for a word becomes a message that names the nearest valid one.
+                var token = unknown.FirstOrDefault(t => e.Message.Contains($"'{t}'", StringComparison.Ordinal));
+                var message = token is null ? e.Message : UnknownToken.Message(token, command);
+                if (!messages.Contains(message)) messages.Add(message);
+            }
+            // A misspelt option leaves its value as a stray word; naming that too would only distract.
+            if (messages.Any(UnknownToken.IsUnknownOption)) messages.RemoveAll(UnknownToken.IsUnexpectedArgument);
+            foreach (var message in messages) output.Diagnostic(Diagnostic.Error(ErrorCodes.Usage, message));
+            output.ErrorDetail($"Run '{HelpLayout.CommandPath(command)} --help' for usage.");
+            return ExitCodes.InputError;
+        }
+        return parse.Invoke(new InvocationConfiguration { Output = output.Out, Error = output.Error, EnableDefaultExceptionHandler = false });
+    }
+
+    /// <summary>
+    /// The command tree, its commands in the order of the workflow (draft, reference, plan, check, accept, history,
+    /// rank), then the plumbing.
+    /// </summary>
+    internal static RootCommand Build(CommandOutput output)
+    {
         var (stdout, stderr) = (output.Out, output.Error);
         var root = new RootCommand("GateTasks: holds a generative surrogate's sample to the tolerances of a precision contract, against full-simulation reference histograms.");
+        root.Subcommands.Add(DraftCommand.Create(stdout, stderr));
+        root.Subcommands.Add(ReferenceCommand.Create(stdout, stderr));
+        root.Subcommands.Add(PlanCommand.Create(stdout, stderr));
         root.Subcommands.Add(CheckCommand.Create(output));
         root.Subcommands.Add(AcceptCommand.Create(stdout, stderr));
         root.Subcommands.Add(HistoryCommand.Create(stdout, stderr));
-        root.Subcommands.Add(ReferenceCommand.Create(stdout, stderr));
-        root.Subcommands.Add(DemoCommand.Create(stdout, stderr));
-        root.Subcommands.Add(InputsCommand.Create(output));
-        root.Subcommands.Add(CalibrateCommand.Create(stdout, stderr));
-        root.Subcommands.Add(DraftCommand.Create(stdout, stderr));
-        root.Subcommands.Add(PlanCommand.Create(stdout, stderr));
-        root.Subcommands.Add(SchemaCommand.Create(stdout));
         root.Subcommands.Add(RankCommand.Create(stdout, stderr));
         root.Subcommands.Add(ShardCommands.Fill(stdout, stderr));
         root.Subcommands.Add(ShardCommands.Merge(stdout, stderr));
-
-        var parse = root.Parse(args);
-        if (parse.Errors.Count > 0)
-        {
-            foreach (var e in parse.Errors) output.Diagnostic(Diagnostic.Error(ErrorCodes.Usage, e.Message));
-            output.ErrorDetail("Run 'gatetasks --help' for usage.");
-            return ExitCodes.InputError;
-        }
-        return parse.Invoke(new InvocationConfiguration { Output = stdout, Error = stderr, EnableDefaultExceptionHandler = false });
+        root.Subcommands.Add(CalibrateCommand.Create(stdout, stderr));
+        root.Subcommands.Add(DemoCommand.Create(stdout, stderr));
+        root.Subcommands.Add(InputsCommand.Create(output));
+        root.Subcommands.Add(SchemaCommand.Create(stdout));
+        HelpLayout.Install(root, stdout);
+        return root;
     }
 
     /// <summary>Runs a command body, turning input errors into one diagnostic line and exit code 2.</summary>

@@ -14,8 +14,8 @@ internal static class AcceptCommand
     {
         var contract = SharedOptions.Contract();
         var sample = SharedOptions.Sample();
-        var reason = new Option<string>("--reason", "-r") { Description = "Why this state is accepted (one line; required).", Required = true };
-        var by = new Option<string?>("--by") { Description = "Who accepts (default: the CI user, else git's user.name and user.email)." };
+        var reason = new Option<string>("--reason", "-r") { HelpName = "TEXT", Description = "Why this state is accepted (one line; required).", Required = true };
+        var by = new Option<string?>("--by") { HelpName = "NAME", Description = "Who accepts (default: the CI user, else git's user.name and user.email)." };
         var baseRevision = SharedOptions.BaseRevision();
         var command = new Command("accept", "Check the sample, then record the contract, the reference and the results as accepted in the contract's ledger. Refused when the check does not pass.")
         {

@@ -19,15 +19,16 @@ internal static class CalibrateCommand
     public static Command Create(TextWriter stdout, TextWriter stderr)
     {
         var contract = SharedOptions.Contract();
-        var replicas = new Option<int>("--replicas") { Description = "Replicas per row.", DefaultValueFactory = _ => 500 };
-        var events = new Option<string>("--events") { Description = "Surrogate sample sizes, comma-separated.", DefaultValueFactory = _ => "100000,1000000" };
-        var feature = new Option<string?>("--feature") { Description = "Feature to drift (default: the first continuous one; the first discrete one for the spike-fraction drift)." };
-        var seed = new Option<int>("--seed") { Description = "Seed of the study.", DefaultValueFactory = _ => 1 };
+        var replicas = new Option<int>("--replicas") { HelpName = "N", Description = "Replicas per row.", DefaultValueFactory = _ => 500 };
+        var events = new Option<string>("--events") { HelpName = "N[,N...]", Description = "Surrogate sample sizes, comma-separated.", DefaultValueFactory = _ => "100000,1000000" };
+        var feature = new Option<string?>("--feature") { HelpName = "FEATURE", Description = "Feature to drift (default: the first continuous one; the first discrete one for the spike-fraction drift)." };
+        var seed = new Option<int>("--seed") { HelpName = "N", Description = "Seed of the study.", DefaultValueFactory = _ => 1 };
         var negative = new Option<double>("--negative-fraction")
         {
+            HelpName = "FRACTION",
             Description = "Share of surrogate events weighing -1 (the rest +1) in the extra weighted null rows; 0: none.", DefaultValueFactory = _ => 0.1,
         };
-        var markdown = new Option<string?>("--markdown") { Description = "Also write the table to this Markdown file." }.NotEmpty();
+        var markdown = new Option<string?>("--markdown") { HelpName = "FILE", Description = "Also write the table to this Markdown file." }.NotEmpty();
         var command = new Command("calibrate", "Measure the contract's false-alarm rate (null replicas) and detection rate (injected drifts) by simulation from the reference.")
         {
             contract, replicas, events, feature, seed, negative, markdown,

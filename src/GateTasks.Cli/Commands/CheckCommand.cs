@@ -17,27 +17,32 @@ internal static class CheckCommand
         var sample = SharedOptions.Sample();
         var junit = new Option<string?>("--junit")
         {
+            HelpName = "FILE",
             Description = "Also write a JUnit XML report to this path.",
         }.NotEmpty();
         var text = new Option<string?>("--text")
         {
+            HelpName = "FILE",
             Description = "Also write the result table and summary as plain text to this path.",
         }.NotEmpty();
         var html = new Option<string?>("--html")
         {
+            HelpName = "FILE",
             Description = "Also write a self-contained HTML report with a plot per feature to this path.",
         }.NotEmpty();
         var markdown = new Option<string?>("--markdown")
         {
+            HelpName = "FILE",
             Description = "Also write a Markdown summary (for a pull-request comment or CI job summary) to this path.",
         }.NotEmpty();
         var partials = new Option<string[]>("--partials")
         {
+            HelpName = "FILES",
             Description = "Decide from partial files (from 'gatetasks fill' on shards of the sample, or 'gatetasks merge') instead of reading a sample.",
             AllowMultipleArgumentsPerToken = true,
         }.NotEmpty();
         var baseRevision = SharedOptions.BaseRevision();
-        var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: all pass; 1: a check failed (or was inconclusive, if the contract says so); 2: input error; 4: the checks pass but the contract or reference in use is not the accepted one (see the ledger errors); 5: undecided (no check failed, some were inconclusive and the contract lets that warn).")
+        var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: passed; 1: a check failed; 2: input error; 4: not accepted (the contract, reference or ledger in use is not the accepted state; see the ledger errors); 5: undecided (no check failed, some could not decide).")
         {
             contract, sample, junit, text, html, markdown, partials, baseRevision,
         };

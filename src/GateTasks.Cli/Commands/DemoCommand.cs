@@ -19,11 +19,13 @@ internal static class DemoCommand
     {
         var dir = new Option<string>("--dir")
         {
+            HelpName = "DIR",
             Description = "Folder for the demo's samples, contract, reference and reports.",
             DefaultValueFactory = _ => "gatetasks-demo",
         }.NotEmpty();
         var surrogate = new Option<string>("--surrogate")
         {
+            HelpName = "generator|response",
             Description = "Which surrogate the demo plays: 'generator' (reco-level events in place of the full simulation) or 'response' (a fast detector response, checked per bin of the true energy).",
             DefaultValueFactory = _ => "generator",
         };

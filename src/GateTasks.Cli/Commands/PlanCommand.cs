@@ -17,11 +17,11 @@ internal static class PlanCommand
     public static Command Create(TextWriter stdout, TextWriter stderr)
     {
         var contract = SharedOptions.Contract();
-        var events = new Option<long?>("--events") { Description = "Surrogate size to state the detectable drifts at (default: the size the whole contract needs, else 1000000)." };
-        var replicas = new Option<int>("--replicas") { Description = "Replicas per simulated point.", DefaultValueFactory = _ => 200 };
-        var power = new Option<double>("--power") { Description = "Probability with which a detectable drift must fail its check.", DefaultValueFactory = _ => 0.95 };
-        var seed = new Option<int>("--seed") { Description = "Seed of the simulation.", DefaultValueFactory = _ => 1 };
-        var markdown = new Option<string?>("--markdown") { Description = "Also write the plan to this Markdown file." }.NotEmpty();
+        var events = new Option<long?>("--events") { HelpName = "N", Description = "Surrogate size to state the detectable drifts at (default: the size the whole contract needs, else 1000000)." };
+        var replicas = new Option<int>("--replicas") { HelpName = "N", Description = "Replicas per simulated point.", DefaultValueFactory = _ => 200 };
+        var power = new Option<double>("--power") { HelpName = "PROBABILITY", Description = "Probability with which a detectable drift must fail its check.", DefaultValueFactory = _ => 0.95 };
+        var seed = new Option<int>("--seed") { HelpName = "N", Description = "Seed of the simulation.", DefaultValueFactory = _ => 1 };
+        var markdown = new Option<string?>("--markdown") { HelpName = "FILE", Description = "Also write the plan to this Markdown file." }.NotEmpty();
         var command = new Command("plan", "Plan the surrogate sample size: per check the events a perfect surrogate needs to pass and the smallest drift caught at a given size, by simulation from the reference.")
         {
             contract, events, replicas, power, seed, markdown,

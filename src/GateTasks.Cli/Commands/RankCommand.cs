@@ -17,10 +17,10 @@ internal static class RankCommand
             Description = "Candidate samples: a Parquet or CSV file, a folder (its files are one sample), or a quoted glob such as \"checkpoints/epoch-*.parquet\" (one candidate per file).",
             Arity = ArgumentArity.OneOrMore,
         }.NotEmpty();
-        var csv = new Option<string?>("--csv") { Description = "Also write the ranking as CSV to this path." }.NotEmpty();
-        var json = new Option<string?>("--json") { Description = "Also write the ranking, with every check's margin, as JSON to this path." }.NotEmpty();
-        var html = new Option<string?>("--html") { Description = "Also write the ranking as an HTML page, with a plot of the global score across the candidates in the order given." }.NotEmpty();
-        var markdown = new Option<string?>("--markdown") { Description = "Also write the ranking as Markdown, with the plot of the global score as an SVG file beside it (NAME.score.svg)." }.NotEmpty();
+        var csv = new Option<string?>("--csv") { HelpName = "FILE", Description = "Also write the ranking as CSV to this path." }.NotEmpty();
+        var json = new Option<string?>("--json") { HelpName = "FILE", Description = "Also write the ranking, with every check's margin, as JSON to this path." }.NotEmpty();
+        var html = new Option<string?>("--html") { HelpName = "FILE", Description = "Also write the ranking as an HTML page, with a plot of the global score across the candidates in the order given." }.NotEmpty();
+        var markdown = new Option<string?>("--markdown") { HelpName = "FILE", Description = "Also write the ranking as Markdown, with the plot of the global score as an SVG file beside it (NAME.score.svg)." }.NotEmpty();
         var command = new Command("rank", "Check several candidate samples (e.g. the checkpoints of a training run) under one contract and rank them: fewer failed, then fewer inconclusive checks, then a lower global score (the joint block's Fréchet distance), then a higher worst margin. Exit 0: at least one candidate passes; 1: none does; 2: input error, or a candidate could not be checked.")
         {
             contract, candidates, csv, json, html, markdown,

@@ -23,15 +23,18 @@ internal static class ReferenceCommand
         var contract = SharedOptions.Contract("Precision contract whose features and binning the reference is built for.");
         var from = new Option<string>("--from")
         {
+            HelpName = "FILES",
             Description = "Trusted full-simulation sample: a Parquet or CSV file, a folder, or a glob.",
             Required = true,
         }.NotEmpty();
         var weight = new Option<string?>("--weight")
         {
+            HelpName = "COLUMN",
             Description = "Weight column of the trusted sample (default: the contract's sample weight column).",
         };
         var output = new Option<string?>("--output", "-o")
         {
+            HelpName = "FILE",
             Description = "Where to write the reference (default: the contract's reference path).",
         }.NotEmpty();
         var command = new Command("build", "Build the reference file from a trusted sample.") { contract, from, weight, output };

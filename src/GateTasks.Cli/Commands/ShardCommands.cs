@@ -15,8 +15,8 @@ internal static class ShardCommands
     public static Command Fill(TextWriter stdout, TextWriter stderr)
     {
         var contract = SharedOptions.Contract();
-        var sample = new Option<string>("--sample", "-s") { Description = "The shard to gather: a Parquet or CSV file, a folder or a glob.", Required = true }.NotEmpty();
-        var output = new Option<string>("--output", "-o") { Description = "The partial file to write.", Required = true }.NotEmpty();
+        var sample = new Option<string>("--sample", "-s") { HelpName = "FILES", Description = "The shard to gather: a Parquet or CSV file, a folder or a glob.", Required = true }.NotEmpty();
+        var output = new Option<string>("--output", "-o") { HelpName = "FILE", Description = "The partial file to write.", Required = true }.NotEmpty();
         var command = new Command("fill", "Gather one shard of a sample into a partial file (histograms, tallies, moments) for 'gatetasks merge' or 'gatetasks check --partials'.")
         {
             contract, sample, output,
@@ -36,7 +36,7 @@ internal static class ShardCommands
     public static Command Merge(TextWriter stdout, TextWriter stderr)
     {
         var contract = SharedOptions.Contract();
-        var output = new Option<string>("--output", "-o") { Description = "The merged partial file to write.", Required = true }.NotEmpty();
+        var output = new Option<string>("--output", "-o") { HelpName = "FILE", Description = "The merged partial file to write.", Required = true }.NotEmpty();
         var partials = new Argument<string[]>("partials") { Description = "Partial files (or globs) to merge.", Arity = ArgumentArity.OneOrMore }.NotEmpty();
         var command = new Command("merge", "Merge partial files into one; histogram cells and tallies add exactly, in an order that does not depend on the arguments'.")
         {

@@ -9,17 +9,20 @@ internal static class SharedOptions
 {
     public static Option<string> Contract(string description = "Precision contract (YAML).") => new Option<string>("--contract", "-c")
     {
+        HelpName = "FILE",
         Description = description,
         DefaultValueFactory = _ => PrecisionContract.DefaultFileName,
     }.NotEmpty();
 
     public static Option<string?> Sample() => new Option<string?>("--sample", "-s")
     {
+        HelpName = "FILES",
         Description = "Surrogate sample to use instead of the contract's: a Parquet or CSV file, a folder, or a glob (relative to the working directory).",
     }.NotEmpty();
 
     public static Option<string?> BaseRevision() => new Option<string?>("--base-revision")
     {
+        HelpName = "REVISION",
         Description = "Git revision (e.g. the pull request's target branch) whose acceptance ledger the ledger must extend, entry for entry. " +
                       "Default: the pull-request base CI provides (GITHUB_BASE_REF as origin/BRANCH, CI_MERGE_REQUEST_DIFF_BASE_SHA, " +
                       "SYSTEM_PULLREQUEST_TARGETBRANCH as origin/BRANCH); none otherwise, and the history is not checked.",
