@@ -39,7 +39,7 @@ public sealed class GateRun : EngineTask
         if (!File.Exists(Engine))
         {
             const string missing = "The GateTasks engine is missing at '{0}'; the package is incomplete. Restore it again or reinstall GateTasks.";
-            Log.LogError(null, "GATE0011", null, null, 0, 0, 0, 0, missing, Engine);
+            Log.LogError(null, "GATE0011", null, ErrorCodeHelpLink.For("GATE0011"), null, 0, 0, 0, 0, missing, Engine);
             for (var i = 0; i < contracts.Count; i++)
                 TaskUnfinishedReport.Write(ReportItems(contracts[i], bases[i]), contracts[i], "GATE0011", string.Format(CultureInfo.InvariantCulture, missing, Engine));
             return false;
@@ -65,7 +65,7 @@ public sealed class GateRun : EngineTask
         var run = RunEngine(args, out var startError);
         if (run is null)
         {
-            Log.LogError(null, "GATE0013", null, null, 0, 0, 0, 0, "{0}", startError);
+            Log.LogError(null, "GATE0013", null, ErrorCodeHelpLink.For("GATE0013"), null, 0, 0, 0, 0, "{0}", startError);
             return Unfinished(contract, planned, "GATE0013", startError!);
         }
         var read = Read(run.Records);
@@ -80,7 +80,7 @@ public sealed class GateRun : EngineTask
             var message = string.Format(CultureInfo.InvariantCulture,
                 "The GateTasks engine stopped with exit code {0} without saying why; run 'dotnet \"{1}\" check --contract \"{2}\"' to see its output.",
                 run.Exit, Engine, contract);
-            Log.LogError(null, "GATE0012", null, contract, 0, 0, 0, 0, "{0}", message);
+            Log.LogError(null, "GATE0012", null, ErrorCodeHelpLink.For("GATE0012"), contract, 0, 0, 0, 0, "{0}", message);
             return Unfinished(contract, planned, "GATE0012", message);
         }
         if (outcome == RunOutcome.DidNotFinish)
@@ -163,10 +163,10 @@ public sealed class GateRun : EngineTask
         // Warn-only mode turns fidelity failures into warnings; set-up, input and ledger errors stay errors.
         if (!isError || (kind.IsFidelity() && FailuresAsWarnings))
         {
-            Log.LogWarning(null, d.Code, null, file, d.Line, d.Column, 0, 0, "{0}", message);
+            Log.LogWarning(null, d.Code, null, ErrorCodeHelpLink.For(d.Code), file, d.Line, d.Column, 0, 0, "{0}", message);
             return false;
         }
-        Log.LogError(null, d.Code, null, file, d.Line, d.Column, 0, 0, "{0}", message);
+        Log.LogError(null, d.Code, null, ErrorCodeHelpLink.For(d.Code), file, d.Line, d.Column, 0, 0, "{0}", message);
         return true;
     }
 }

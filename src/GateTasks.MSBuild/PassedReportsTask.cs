@@ -61,7 +61,7 @@ public abstract class PassedReportsTask : Task
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
         {
             // A report that cannot be moved aside may still say PASSED: the build must not pass over it.
-            Log.LogError(null, "GATE0002", null, null, 0, 0, 0, 0,
+            Log.LogError(null, "GATE0002", null, ErrorCodeHelpLink.For("GATE0002"), null, 0, 0, 0, 0,
                 "GateTasks could not {0} the reports in '{1}' ({2}); make the folder writable, or delete its reports, and build again.",
                 Doing, ReportDirectory ?? ProjectDirectory, e.Message);
             return false;

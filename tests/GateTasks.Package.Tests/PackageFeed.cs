@@ -4,7 +4,7 @@ using GateTasks.Tests.Shared;
 namespace GateTasks.Package.Tests;
 
 /// <summary>
-/// Once per test run: packs GateTasks, GateTasks.Templates and a fixture package from a copy of the sources into a
+/// Once per test run: packs GateTasks, GateTasks.Templates, GateTasks.Cli and a fixture package from a copy of the sources into a
 /// temporary feed, installs the template into an isolated template hive, and writes the demo data. Restores go to a
 /// package folder inside the temporary tree, so no stale package from an earlier run can hide a change.
 /// </summary>
@@ -24,6 +24,7 @@ public sealed class PackageFeed : IDisposable
         CopySources(sources);
         Pack(Path.Combine(sources, "src", "GateTasks.MSBuild"), sources);
         Pack(Path.Combine(sources, "templates", "GateTasks.Templates"), sources);
+        Pack(Path.Combine(sources, "src", "GateTasks.Cli"), sources);
         Pack(Path.Combine(sources, "tests", "fixtures", "yaml-task"), sources);
 
         Dotnet(Root, "new", "install", Path.Combine(Feed, $"GateTasks.Templates.{Version}.nupkg"), "--debug:custom-hive", Hive);
@@ -74,8 +75,8 @@ public sealed class PackageFeed : IDisposable
     private static void CopySources(string to)
     {
         var root = RepositoryRoot.Path;
-        foreach (var f in new[] { "Directory.Build.props", "Directory.Packages.props", "global.json", "nuget.config", "README.md" })
-            CopyFile(Path.Combine(root, f), Path.Combine(to, f));
+        foreach (var f in new[] { "Directory.Build.props", "Directory.Build.targets", "Directory.Packages.props", "global.json", "nuget.config", "README.md" })
+            if (File.Exists(Path.Combine(root, f))) CopyFile(Path.Combine(root, f), Path.Combine(to, f));
         CopyFile(Path.Combine(root, "docs", "precision-contract.schema.json"), Path.Combine(to, "docs", "precision-contract.schema.json"));
         foreach (var folder in new[] { "src", "templates", Path.Combine("tests", "fixtures", "yaml-task") })
             CopyTree(Path.Combine(root, folder), Path.Combine(to, folder));
