@@ -20,7 +20,7 @@ public sealed class ToolPackageTests : IDisposable
     {
         // A copy of the sources, so the pack does not touch the build outputs this test run is using.
         var src = Path.Combine(_dir, "src");
-        foreach (var f in new[] { "Directory.Build.props", "Directory.Packages.props", "global.json", "nuget.config", "README.md" })
+        foreach (var f in new[] { "Directory.Build.props", "Directory.Build.targets", "Directory.Packages.props", "global.json", "nuget.config", "README.md" })
             File.Copy(Path.Combine(RepositoryRoot.Path, f), Path.Combine(_dir, f));
         Copy(Path.Combine(RepositoryRoot.Path, "src", "GateTasks.Engine"), Path.Combine(src, "GateTasks.Engine"));
         Copy(Path.Combine(RepositoryRoot.Path, "src", "GateTasks.Cli"), Path.Combine(src, "GateTasks.Cli"));
