@@ -76,4 +76,56 @@ public class BenchmarkScriptTests
         // that outcome exists (docs/cli.md); it said PASSED before, although not every tolerance was shown met.
         Assert.Contains(lines, l => l.StartsWith("Check verdict at 10^5: UNDECIDED: ", StringComparison.Ordinal));
     }
+
+    /// <summary>
+    /// The summary script alone, on a work folder written here with made-up timings (no tool runs): when the plain
+    /// check's wall and CPU equal its fixed cost's, as can happen at the tiny size, the streaming time is zero. The
+    /// script must still print its report, with "–" for the shares and the joint target "not measured"; it once
+    /// stopped on a division by zero there (seen in CI). The numbers are invented for the test, not measurements.
+    /// </summary>
+    [PythonModulesFact("json")]
+    public void Summary_with_zero_streaming_time_prints_no_share_and_does_not_stop()
+    {
+        var work = Directory.CreateTempSubdirectory("gatetasks-summary-").FullName;
+        try
+        {
+            Directory.CreateDirectory(Path.Combine(work, "times"));
+            Directory.CreateDirectory(Path.Combine(work, "out"));
+            File.WriteAllText(Path.Combine(work, "meta.json"), """
+                {"events": 100000, "linear_events": 10000, "startup_events": 1000, "reference_events": 50000,
+                 "mode": "tiny", "cores": 2, "dotnet": "10.0.100", "node": "v20", "duckdb_package": "duckdb@1",
+                 "sample_bytes": 8000000, "row_groups": 1, "elapsed_seconds": 60, "repeat": 1, "build_overhead": false}
+                """);
+            // GNU time's last line: wall, user, system seconds and peak RSS in kB.
+            void Time(string name, string line) => File.WriteAllText(Path.Combine(work, "times", name + ".1"), line + "\n");
+            foreach (var name in new[] { "check-full", "check-startup", "check-one-core", "check-linear" })
+                Time(name, "0.400 0.30 0.05 90000");
+            foreach (var name in new[] { "fill", "duckdb-2", "duckdb-1", "numpy" })
+                Time(name, "0.500 0.40 0.05 80000");
+            Time("check-joint-all20", "0.900 0.80 0.05 120000");
+            Time("check-joint-all20-startup", "0.850 0.75 0.05 120000");
+            // The target reads the variant with several checks over 20 features.
+            var features = string.Join(",", Enumerable.Range(1, 20).Select(i => $"x{i:00}"));
+            File.WriteAllText(Path.Combine(work, "joint-variants.txt"), $"all20|{features}|frechet-max: 1;kernel-distance-max: 1\n");
+            var cells = """{"x01": [1, 2, 3]}""";
+            File.WriteAllText(Path.Combine(work, "out", "fill.1.json"), $$"""{"seconds": 0.1, "features": {{cells}}}""");
+            File.WriteAllText(Path.Combine(work, "out", "duckdb-2.1.json"), $$"""{"seconds": 0.2, "startup_seconds": 0.05, "engine": "DuckDB", "features": {{cells}}}""");
+            File.WriteAllText(Path.Combine(work, "out", "duckdb-1.1.json"), $$"""{"seconds": 0.3, "startup_seconds": 0.05, "engine": "DuckDB", "features": {{cells}}}""");
+            File.WriteAllText(Path.Combine(work, "out", "numpy.1.json"), $$"""{"seconds": 0.2, "load_seconds": 0.01, "stats_seconds": 0.01, "engine": "numpy", "features": {{cells}}}""");
+            File.WriteAllText(Path.Combine(work, "out", "check-full.txt"), "UNDECIDED: made up for the test\n");
+
+            var script = Path.Combine(RepositoryRoot.Path, "tests", "benchmarks", "summarize.py");
+            var (code, stdout, stderr) = ProcessRunner.Run(ExternalPython.Interpreter, [script, work], work);
+            Assert.True(code == 0, $"summarize.py exited {code}:\n{stderr}\n{stdout}");
+            var joint = Assert.Single(stdout.Split('\n'), l => l.StartsWith("| all20 |", StringComparison.Ordinal));
+            var jointCells = joint.Split('|', StringSplitOptions.TrimEntries);
+            Assert.Equal("–", jointCells[8]);   // added / streaming time
+            Assert.Equal("–", jointCells[10]);  // added CPU / streaming CPU
+            Assert.Contains("| all joint checks together add ≤ 15% to the streaming time | not measurable at 10^5 events", stdout);
+        }
+        finally
+        {
+            Directory.Delete(work, recursive: true);
+        }
+    }
 }

@@ -107,6 +107,10 @@ def main(work, out_path=None):
     model, ram = machine()
     mb = lambda b: b / 1e6  # noqa: E731  (MB = 10^6 bytes, the unit of the memory target)
 
+    def percent(part, whole):
+        # At the small modes the streaming time can be zero or negative (noise): no share to print.
+        return f"{100 * part / whole:.1f}%" if whole > 0 else "–"
+
     lines = []
     add = lines.append
     add(f"### GateTasks end-to-end benchmark: {power_of_ten(events)} events × 20 float32 features ({meta['mode']})")
@@ -163,8 +167,8 @@ def main(work, out_path=None):
         for name, n, keys, r, fixed in joint:
             added = r["wall"] - plain["wall"]
             add(f"| {name} | {n} | {', '.join(keys)} | {r['wall']:.3f} | {r['cpu']:.2f} | {mb(r['rss']):.0f} | "
-                f"{added:.3f} | {100 * added / check_stream:.1f}% | {r['cpu'] - plain['cpu']:.2f} | "
-                f"{100 * (r['cpu'] - plain['cpu']) / stream_cpu:.1f}% | {fixed['wall'] - runs['check-startup']['wall']:.3f} |")
+                f"{added:.3f} | {percent(added, check_stream)} | {r['cpu'] - plain['cpu']:.2f} | "
+                f"{percent(r['cpu'] - plain['cpu'], stream_cpu)} | {fixed['wall'] - runs['check-startup']['wall']:.3f} |")
         add("")
         add(f"Added: the median wall (CPU) time of the check with the joint block less that of the same check without "
             f"it ({plain['wall']:.3f} s wall, {plain['cpu']:.2f} s CPU), each against a reference built with its block; "
@@ -186,7 +190,7 @@ def main(work, out_path=None):
     ]
     for label, a, b, unit in ratios:
         digits = 0 if unit == "MB" else 3
-        add(f"| {label} | {a:.{digits}f} {unit} | {b:.{digits}f} {unit} | {a / b:.2f} |")
+        add(f"| {label} | {a:.{digits}f} {unit} | {b:.{digits}f} {unit} | {f'{a / b:.2f}' if b > 0 else '–'} |")
     add("")
 
     targets = []
@@ -209,10 +213,6 @@ def main(work, out_path=None):
     full_joint = [(name, n, r, fixed) for name, n, keys, r, fixed in joint if len(keys) > 1 and n == 20]
     if full_joint:
         chosen, n, r, fixed = full_joint[0]
-        added = (r["wall"] - plain["wall"]) / check_stream
-        growing = (r["wall"] - plain["wall"] - (fixed["wall"] - runs["check-startup"]["wall"])) / check_stream
-        others = "; ".join(f"{name} ({m} features, {', '.join(keys)}): {100 * (q['wall'] - plain['wall']) / check_stream:.1f}%"
-                           for name, m, keys, q, _ in joint if name != chosen)
         # A streaming time within noise of zero (the small modes) gives no meaningful share: not measured, never "met".
         measurable = check_stream > 0.5 and stream_cpu > 0.5
         if not measurable:
@@ -220,9 +220,13 @@ def main(work, out_path=None):
                             f"not measurable at {power_of_ten(events)} events: the plain check streams for {check_stream:.3f} s "
                             f"({stream_cpu:.2f} s CPU), too short to share out", None))
         else:
+            added = (r["wall"] - plain["wall"]) / check_stream
+            growing = (r["wall"] - plain["wall"] - (fixed["wall"] - runs["check-startup"]["wall"])) / check_stream
+            others = "; ".join(f"{name} ({m} features, {', '.join(keys)}): {percent(q['wall'] - plain['wall'], check_stream)}"
+                               for name, m, keys, q, _ in joint if name != chosen)
             targets.append(("all joint checks together add ≤ 15% to the streaming time",
                             f"{n} features: {r['wall']:.3f} s vs {plain['wall']:.3f} s, +{100 * added:.1f}% of {check_stream:.3f} s "
-                            f"(CPU +{100 * (r['cpu'] - plain['cpu']) / stream_cpu:.1f}%; the part that grows with the events "
+                            f"(CPU +{percent(r['cpu'] - plain['cpu'], stream_cpu)}; the part that grows with the events "
                             f"+{100 * growing:.1f}%)"
                             + (f" ({others})" if others else ""), added <= 0.15))
     if meta["build_overhead"]:
