@@ -38,7 +38,7 @@ internal static class ShardCommands
         var contract = SharedOptions.Contract();
         var output = new Option<string>("--output", "-o") { HelpName = "FILE", Description = "The merged partial file to write.", Required = true }.NotEmpty();
         var partials = new Argument<string[]>("partials") { Description = "Partial files (or globs) to merge.", Arity = ArgumentArity.OneOrMore }.NotEmpty();
-        var command = new Command("merge", "Merge partial files into one; histogram cells and tallies add exactly, in an order that does not depend on the arguments'.")
+        var command = new Command("merge", "Merge partial files into one; histogram cells and tallies add exactly, in an order that does not depend on the order of the arguments.")
         {
             contract, output, partials,
         };
