@@ -254,7 +254,7 @@ public sealed class JointDistanceCheckTests : IDisposable
         Assert.Contains("error GATE2102", stdout + stderr);
         Assert.Contains("reference format 5", stdout + stderr);
         Assert.Contains("no streamed moments or kernel sums of its joint block", stdout + stderr);
-        Assert.Contains("rebuild it with 'gatetasks reference build' (format 7)", stdout + stderr);
+        Assert.Contains("rebuild it with 'gatetasks reference build' (format 8)", stdout + stderr);
         Assert.DoesNotContain("   at ", stdout + stderr);
     }
 }

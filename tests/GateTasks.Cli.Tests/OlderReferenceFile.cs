@@ -33,17 +33,17 @@ internal static class OlderReferenceFile
             using var wg = writer.CreateRowGroup();
             foreach (var field in reader.Schema.DataFields)
             {
-                if (field.Name == "feature")
+                if (field.Name is "feature" or "part")
                 {
                     var names = new string?[n];
                     await rg.ReadAsync(field, names.AsMemory());
                     await wg.WriteAsync(field, names);
                 }
-                else if (field.Name == "cell")
+                else if (field.Name == "bin")
                 {
-                    var cells = new int[n];
-                    await rg.ReadAsync<int>(field, cells.AsMemory());
-                    await wg.WriteAsync<int>(field, cells);
+                    var numbers = new int?[n];
+                    await rg.ReadAsync<int>(field, numbers.AsMemory());
+                    await wg.WriteAsync<int>(field, numbers);
                 }
                 else
                 {

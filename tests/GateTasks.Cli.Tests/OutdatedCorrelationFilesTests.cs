@@ -52,7 +52,7 @@ public sealed class OutdatedCorrelationFilesTests : IDisposable
         // docs/error-codes.md: GATE2102, an unsupported format version, with the way out (rebuild).
         Assert.Contains("error GATE2102", stdout + stderr);
         Assert.Contains("reference format 2", stdout + stderr);
-        Assert.Contains("rebuild it with 'gatetasks reference build' (format 7)", stdout + stderr);
+        Assert.Contains("rebuild it with 'gatetasks reference build' (format 8)", stdout + stderr);
         Assert.DoesNotContain("   at ", stdout + stderr);
     }
 

@@ -201,7 +201,7 @@ public sealed class SlicedJointCheckTests : IDisposable
         Assert.Contains("error GATE2102", stdout + stderr);
         Assert.Contains("reference format 6", stdout + stderr);
         Assert.Contains("no sliced grid or histograms of its joint block", stdout + stderr);
-        Assert.Contains("rebuild it with 'gatetasks reference build' (format 7)", stdout + stderr);
+        Assert.Contains("rebuild it with 'gatetasks reference build' (format 8)", stdout + stderr);
         Assert.DoesNotContain("   at ", stdout + stderr);
     }
 

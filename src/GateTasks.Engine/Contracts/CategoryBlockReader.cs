@@ -15,7 +15,7 @@ internal static class CategoryBlockReader
         var mapping = r.Mapping(node, $"The categories of feature '{parent.Name}'");
         var e = r.Entries(mapping, "categories", ContractKeys.CategoryKeys).ToDictionary(x => x.Key, x => x.Value);
         var byNode = r.Require(mapping, ContractKeys.By, "categories");
-        var by = r.String(byNode, "categories.by");
+        var by = r.Expression(byNode, "categories.by");
         var byAt = r.TextStart(byNode);
         var valuesNode = r.Sequence(r.Require(mapping, ContractKeys.Values, "categories"), "categories.values");
         var values = valuesNode.Children.Select(v => r.Number(v, "A category value")).ToList();

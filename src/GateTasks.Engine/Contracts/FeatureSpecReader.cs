@@ -24,7 +24,7 @@ internal static class FeatureSpecReader
         {
             if (entries.TryGetValue(ContractKeys.Column, out var both))
                 throw r.Error(ErrorCodes.ContractBadValue, both, $"{what} has both a column and an expression; a derived feature takes only the expression.");
-            expression = r.String(expressionNode, $"The expression of {what}");
+            expression = r.Expression(expressionNode, $"The expression of {what}");
             columnNode = expressionNode;
         }
         else columnNode = entries.GetValueOrDefault(ContractKeys.Column) ?? nameNode;

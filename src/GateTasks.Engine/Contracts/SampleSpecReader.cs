@@ -22,5 +22,5 @@ internal static class SampleSpecReader
 
     /// <summary>The <c>selection</c> key: a condition every event must meet, located at its first character.</summary>
     public static SelectionSpec ReadSelection(YamlNodeReader r, YamlNode node) =>
-        new(r.String(node, ContractKeys.Selection), r.TextStart(node));
+        new(r.Expression(node, "The selection"), r.TextStart(node));
 }

@@ -57,6 +57,23 @@ internal sealed class YamlNodeReader(string file)
         return s.Value;
     }
 
+    /// <summary>
+    /// An expression's text. An unquoted expression that starts with '{' (a column name in braces) is a mapping to YAML,
+    /// and one that starts with '!' a tag; either is refused with the quoting that fixes it, rather than as a wrong type.
+    /// </summary>
+    public string Expression(YamlNode node, string what)
+    {
+        if (node is YamlMappingNode or YamlSequenceNode)
+            throw Error(ErrorCodes.ExpressionNotQuotedInYaml, node,
+                $"{what} was read by YAML as a {(node is YamlMappingNode ? "mapping" : "list")}, not as text: an expression that starts with " +
+                $"'{(node is YamlMappingNode ? "{" : "[")}' must be in quotes, like \"{{jet pt}} > 20\".");
+        if (node is YamlScalarNode { Style: YamlDotNet.Core.ScalarStyle.Plain } scalar && !scalar.Tag.IsEmpty)
+            throw Error(ErrorCodes.ExpressionNotQuotedInYaml, node,
+                $"{what} starts with '{scalar.Tag.Value}', which YAML reads as a tag, not as part of the text: an expression that starts with '!' " +
+                "must be in quotes, like \"!(pt > 20)\".");
+        return String(node, what);
+    }
+
     public double Number(YamlNode node, string what)
     {
         var s = Scalar(node, what);

@@ -28,7 +28,7 @@ internal static class DemoContract
         reference: reference/fullsim-reference.parquet
 
         # The analysis's mass window, applied to reference and sample alike before anything is filled.
-        selection: "m_gg > 65 and m_gg < 180"
+        selection: "m_gg > 65 && m_gg < 180"
 
         # How verdicts are reached: a check passes when the upper end of its 95% confidence interval is
         # below the tolerance, and fails when its p-value, Holm-corrected over all checks, is at most 1%

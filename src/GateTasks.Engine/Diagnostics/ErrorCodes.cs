@@ -54,6 +54,12 @@ public static class ErrorCodes
     public const string ShareScalingBound = "GATE1015";
     /// <summary>A joint block states a key that was retired (the energy test and its subsample settings).</summary>
     public const string ContractRetiredKey = "GATE1016";
+    /// <summary>An expression writes logic as a word (<c>and</c>, <c>or</c>, <c>not</c>); the operators are <c>&amp;&amp;</c>, <c>||</c>, <c>!</c>.</summary>
+    public const string ExpressionLogicWord = "GATE1017";
+    /// <summary>An expression quotes a column name in backquotes; a column name that is not an identifier goes in braces, <c>{jet pt}</c>.</summary>
+    public const string ExpressionBackquotedName = "GATE1018";
+    /// <summary>YAML read an expression as something other than text (a mapping, a list, a tag) because it was not quoted.</summary>
+    public const string ExpressionNotQuotedInYaml = "GATE1019";
 
     /// <summary>No sample file matches, or a sample file does not exist.</summary>
     public const string SampleNotFound = "GATE2001";

@@ -109,6 +109,8 @@ internal static class DraftWriter
         var dropped = features.SelectMany(f => (f.Dropped ?? []).Select(d => $"#   {f.Column} {d}\n")).ToList();
         if (dropped.Count > 0) text.Write("# Checks left out:\n" + string.Concat(dropped));
         text.Write("# Derived features (expressions) are not guessed: add the ones the analysis uses.\n");
+        text.Write("# An expression writes logic as && || ! and a column name that is not an identifier in braces,\n" +
+            "# like  expression: \"{jet pt} * cosh(eta)\"  (quoted: YAML reads a value starting with { or ! otherwise).\n");
         return text.ToString();
     }
 

@@ -1,10 +1,14 @@
+using GateTasks.Engine.Diagnostics;
 using System.Globalization;
 
 namespace GateTasks.Engine.Expressions;
 
 /// <summary>
-/// Splits expression text into tokens. Only ASCII is accepted outside backquotes, so a lookalike character
+/// Splits expression text into tokens. Only ASCII is accepted outside braces, so a lookalike character
 /// (a Unicode minus sign, a Cyrillic letter) is reported where it is instead of silently meaning something else.
+/// A column name that is not an identifier is written in braces, <c>{jet pt}</c>; logic is written with the
+/// operators <c>&amp;&amp;</c>, <c>||</c> and <c>!</c>. The words <c>and</c>, <c>or</c>, <c>not</c> and backquoted
+/// names are refused with what to write instead (GATE1017, GATE1018) rather than read as columns.
 /// </summary>
 internal static class ExpressionLexer
 {
@@ -13,10 +17,10 @@ internal static class ExpressionLexer
     {
         [0x2212] = "-", [0x2010] = "-", [0x2011] = "-", [0x2012] = "-", [0x2013] = "-", [0x2014] = "-",
         [0x00D7] = "*", [0x22C5] = "*", [0x00B7] = "*", [0x2217] = "*", [0x00F7] = "/", [0x2215] = "/",
-        [0x2264] = "<=", [0x2265] = ">=", [0x2260] = "!=", [0x2227] = "and", [0x2228] = "or", [0x00AC] = "not",
+        [0x2264] = "<=", [0x2265] = ">=", [0x2260] = "!=", [0x2227] = "&&", [0x2228] = "||", [0x00AC] = "!",
         [0x00A0] = "a plain space", [0x2009] = "a plain space", [0x202F] = "a plain space",
-        [0x2018] = "`name` (backquotes)", [0x2019] = "`name` (backquotes)",
-        [0x201C] = "`name` (backquotes)", [0x201D] = "`name` (backquotes)",
+        [0x2018] = "{name} (braces)", [0x2019] = "{name} (braces)",
+        [0x201C] = "{name} (braces)", [0x201D] = "{name} (braces)",
         [0x03C0] = "pi",
     };
 
@@ -50,21 +54,19 @@ internal static class ExpressionLexer
                 var start = i;
                 while (i < text.Length && IsIdentifierPart(text[i])) i++;
                 var word = text[start..i];
-                var kind = word switch
-                {
-                    "and" => ExpressionTokenKind.And,
-                    "or" => ExpressionTokenKind.Or,
-                    "not" => ExpressionTokenKind.Not,
-                    _ => ExpressionTokenKind.Identifier,
-                };
-                tokens.Add(new ExpressionToken(kind, start, word));
+                if (LogicWordOperator(word) is { } written)
+                    throw source.Error(start,
+                        $"'{word}' is not an operator; write '{written}' (a column named '{word}' is written {{{word}}})",
+                        ErrorCodes.ExpressionLogicWord);
+                tokens.Add(new ExpressionToken(ExpressionTokenKind.Identifier, start, word));
                 continue;
             }
-            if (c == '`')
+            if (c == '{')
             {
-                i = ReadQuotedName(source, i, tokens);
+                i = ReadBracedName(source, i, tokens);
                 continue;
             }
+            if (c == '`') throw BackquotedName(source, i);
             var next = i + 1 < text.Length ? text[i + 1] : '\0';
             var (tokenKind, length) = c switch
             {
@@ -87,13 +89,14 @@ internal static class ExpressionLexer
                 '!' when next == '=' => (ExpressionTokenKind.NotEqual, 2),
                 '!' => (ExpressionTokenKind.Not, 1),
                 '&' when next == '&' => (ExpressionTokenKind.And, 2),
-                '&' => throw source.Error(i, "unexpected character '&'; the logical and is '&&' or 'and'"),
+                '&' => throw source.Error(i, "unexpected character '&'; the logical and is '&&'"),
                 '|' when next == '|' => (ExpressionTokenKind.Or, 2),
-                '|' => throw source.Error(i, "unexpected character '|'; the logical or is '||' or 'or'"),
+                '|' => throw source.Error(i, "unexpected character '|'; the logical or is '||'"),
+                '}' => throw source.Error(i, "unexpected '}': no '{' opens it; a column name in braces is written {jet pt}"),
                 '"' or '\'' => throw source.Error(i,
-                    "strings are not allowed in expressions; a column name with unusual characters goes in backquotes, like `my column`"),
+                    "strings are not allowed in expressions; a column name with unusual characters goes in braces, like {my column}"),
                 '.' => throw source.Error(i,
-                    "unexpected '.': expressions have no member access; a column name containing '.' goes in backquotes, like `jet.pt`"),
+                    "unexpected '.': expressions have no member access; a column name containing '.' goes in braces, like {jet.pt}"),
                 _ => throw UnexpectedCharacter(source, i),
             };
             tokens.Add(new ExpressionToken(tokenKind, i, text.Substring(i, length)));
@@ -138,17 +141,38 @@ internal static class ExpressionLexer
         return i;
     }
 
-    private static int ReadQuotedName(ExpressionSource source, int start, List<ExpressionToken> tokens)
+    private static int ReadBracedName(ExpressionSource source, int start, List<ExpressionToken> tokens)
+    {
+        var text = source.Text;
+        var close = text.IndexOf('}', start + 1);
+        var lineBreak = text.IndexOfAny(['\r', '\n'], start + 1);
+        if (close < 0 || (lineBreak >= 0 && lineBreak < close))
+            throw source.Error(start, "this '{' is never closed; a column name in braces ends with '}', like {jet pt}");
+        if (close == start + 1)
+            throw source.Error(start, "empty column name {}");
+        tokens.Add(new ExpressionToken(ExpressionTokenKind.QuotedIdentifier, start, text[(start + 1)..close]));
+        return close + 1;
+    }
+
+    /// <summary>The operator a logic word stands for, or null for any other word.</summary>
+    private static string? LogicWordOperator(string word) => word switch
+    {
+        "and" => "&&",
+        "or" => "||",
+        "not" => "!",
+        _ => null,
+    };
+
+    /// <summary>A backquoted column name, refused with the braced spelling of the same name where it can be given.</summary>
+    private static GateInputException BackquotedName(ExpressionSource source, int start)
     {
         var text = source.Text;
         var close = text.IndexOf('`', start + 1);
         var lineBreak = text.IndexOfAny(['\r', '\n'], start + 1);
-        if (close < 0 || (lineBreak >= 0 && lineBreak < close))
-            throw source.Error(start, "this backquote is never closed; a backquoted column name ends with another '`'");
-        if (close == start + 1)
-            throw source.Error(start, "empty backquoted column name ``");
-        tokens.Add(new ExpressionToken(ExpressionTokenKind.QuotedIdentifier, start, text[(start + 1)..close]));
-        return close + 1;
+        var name = close > start + 1 && (lineBreak < 0 || lineBreak > close) ? text[(start + 1)..close] : null;
+        var instead = name is not null && !name.Contains('}') ? $"{{{name}}}" : "{jet pt}";
+        return source.Error(start, $"backquotes do not quote column names; a column name that is not an identifier goes in braces: write {instead}",
+            ErrorCodes.ExpressionBackquotedName);
     }
 
     private static Exception UnexpectedCharacter(ExpressionSource source, int i)
@@ -167,7 +191,7 @@ internal static class ExpressionLexer
             return source.Error(i, $"unexpected character {shown}");
         var hint = Lookalikes.TryGetValue(codePoint, out var ascii) ? $"; did you mean {Quote(ascii)}?" : "";
         return source.Error(i,
-            $"unexpected character {shown}: only ASCII letters, digits and operators are allowed outside backquotes{hint}");
+            $"unexpected character {shown}: only ASCII letters, digits and operators are allowed outside braces{hint}");
     }
 
     private static string Quote(string ascii) => ascii.Contains(' ') ? ascii : $"'{ascii}'";

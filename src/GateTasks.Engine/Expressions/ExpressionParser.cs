@@ -8,8 +8,8 @@ namespace GateTasks.Engine.Expressions;
 /// recurses over it, and the evaluation stack stays two deep.
 /// </summary>
 /// <remarks>
-/// Precedence, loosest first: or/||; and/&amp;&amp;; comparisons (non-associative); + -; * / %;
-/// prefix - + not !; ^ (right-associative, and tighter than a prefix minus on its left: -2^2 = -4,
+/// Precedence, loosest first: ||; &amp;&amp;; comparisons (non-associative); + -; * / %;
+/// prefix - + !; ^ (right-associative, and tighter than a prefix minus on its left: -2^2 = -4,
 /// while 2^-1 = 0.5). Nesting (parentheses, calls, prefix operators, exponents) is limited to
 /// <see cref="ExpressionCompiler.MaxDepth"/>, which bounds the parser's recursion.
 /// </remarks>
@@ -86,7 +86,7 @@ internal sealed class ExpressionParser
         if (ComparisonOf(second.Kind) is not null)
             throw Error(second,
                 $"comparisons cannot be chained: 'a {first.Text} b {second.Text} c' has no meaning here; " +
-                $"write 'a {first.Text} b and b {second.Text} c', or add parentheses");
+                $"write 'a {first.Text} b && b {second.Text} c', or add parentheses");
     }
 
     private void ParseAdditive()
@@ -170,7 +170,7 @@ internal sealed class ExpressionParser
                 ResolveName(token);
                 return;
             case ExpressionTokenKind.QuotedIdentifier when Peek.Kind == ExpressionTokenKind.LeftParenthesis:
-                throw Error(token, $"{token.Describe()} is a backquoted column name and cannot be called as a function");
+                throw Error(token, $"{token.Describe()} is a column name in braces and cannot be called as a function");
             case ExpressionTokenKind.QuotedIdentifier:
                 EmitColumn(token);
                 return;
@@ -186,7 +186,7 @@ internal sealed class ExpressionParser
     private void ResolveName(ExpressionToken token)
     {
         var name = token.Text;
-        // The constant wins over a column of the same name; such a column is reachable as `pi`.
+        // The constant wins over a column of the same name; such a column is reachable as {pi}.
         if (name == "pi") EmitConstant(Math.PI, isBoolean: false);
         else if (_availableSet.Contains(name)) EmitColumn(token);
         else if (ExpressionFunction.TryFind(name, out _))

@@ -15,13 +15,13 @@ internal sealed class ExpressionSource(string text, SourceLocation location)
     public SourceLocation Location { get; } = location;
 
     /// <summary>
-    /// A <see cref="ErrorCodes.ContractExpression"/> error at <paramref name="offset"/> (0-based, into the text).
-    /// Expressions are single-line, so the position is the start column plus the offset on the same line;
-    /// an unknown start column (0) stays unknown rather than pretending to be column 1.
+    /// An error at <paramref name="offset"/> (0-based, into the text), <see cref="ErrorCodes.ContractExpression"/>
+    /// unless <paramref name="code"/> says otherwise. Expressions are single-line, so the position is the start column
+    /// plus the offset on the same line; an unknown start column (0) stays unknown rather than pretending to be column 1.
     /// </summary>
-    public GateInputException Error(int offset, string message)
+    public GateInputException Error(int offset, string message, string code = ErrorCodes.ContractExpression)
     {
         var at = Location.Column > 0 ? Location with { Column = Location.Column + offset } : Location;
-        return new GateInputException(ErrorCodes.ContractExpression, message, at);
+        return new GateInputException(code, message, at);
     }
 }

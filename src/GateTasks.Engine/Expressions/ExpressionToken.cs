@@ -1,7 +1,7 @@
 namespace GateTasks.Engine.Expressions;
 
 /// <summary>
-/// One token: its kind, where it is in the text, its spelling (for a backquoted name, the name inside the quotes)
+/// One token: its kind, where it is in the text, its spelling (for a braced name, the name inside the braces)
 /// and, for a number, its value.
 /// </summary>
 internal readonly record struct ExpressionToken(ExpressionTokenKind Kind, int Offset, string Text, double Number = 0)
@@ -10,7 +10,7 @@ internal readonly record struct ExpressionToken(ExpressionTokenKind Kind, int Of
     public string Describe() => Kind switch
     {
         ExpressionTokenKind.End => "the end of the expression",
-        ExpressionTokenKind.QuotedIdentifier => $"`{Text}`",
+        ExpressionTokenKind.QuotedIdentifier => $"{{{Text}}}",
         _ => $"'{Text}'",
     };
 }

@@ -5,6 +5,7 @@ internal enum ExpressionTokenKind
 {
     Number,
     Identifier,
+    /// <summary>A column name written in braces, <c>{jet pt}</c>.</summary>
     QuotedIdentifier,
     Plus,
     Minus,
@@ -21,11 +22,11 @@ internal enum ExpressionTokenKind
     GreaterOrEqual,
     Equal,
     NotEqual,
-    /// <summary><c>and</c> or <c>&amp;&amp;</c>.</summary>
+    /// <summary><c>&amp;&amp;</c>.</summary>
     And,
-    /// <summary><c>or</c> or <c>||</c>.</summary>
+    /// <summary><c>||</c>.</summary>
     Or,
-    /// <summary><c>not</c> or <c>!</c>.</summary>
+    /// <summary><c>!</c>.</summary>
     Not,
     End,
 }

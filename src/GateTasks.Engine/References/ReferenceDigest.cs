@@ -8,8 +8,9 @@ namespace GateTasks.Engine.References;
 /// The SHA-256 a reference carries over its own content (format 2 on), so that a cell or a header value edited
 /// after the build is caught on every read, with or without an acceptance ledger. The canonical content is the
 /// header's JSON text exactly as stored, with the digest's own value replaced by <see cref="Placeholder"/>, then
-/// every histogram row in file order: the feature name in UTF-8 and a zero byte, the cell as a little-endian int32,
-/// and lower, upper, Σw, Σw² as little-endian IEEE 754 doubles.
+/// every histogram row in file order: the feature name and the row's part (<c>below</c>, <c>bin</c>, <c>above</c>), each
+/// in UTF-8 followed by a zero byte, the bin number as a little-endian int32 (−1 on the below and above rows, which
+/// have none), and lower, upper, Σw, Σw² as little-endian IEEE 754 doubles.
 /// </summary>
 internal sealed class ReferenceDigest : IDisposable
 {
@@ -26,11 +27,13 @@ internal sealed class ReferenceDigest : IDisposable
     public ReferenceDigest(string headerWithPlaceholder) => _hash.AppendData(Encoding.UTF8.GetBytes(headerWithPlaceholder));
 
     /// <summary>Adds one histogram row.</summary>
-    public void Add(string feature, int cell, double lower, double upper, double sumW, double sumW2)
+    public void Add(string feature, string part, int? bin, double lower, double upper, double sumW, double sumW2)
     {
         _hash.AppendData(Encoding.UTF8.GetBytes(feature));
         _hash.AppendData([0]);
-        BinaryPrimitives.WriteInt32LittleEndian(_row, cell);
+        _hash.AppendData(Encoding.UTF8.GetBytes(part));
+        _hash.AppendData([0]);
+        BinaryPrimitives.WriteInt32LittleEndian(_row, bin ?? -1);
         BinaryPrimitives.WriteDoubleLittleEndian(_row.AsSpan(4), lower);
         BinaryPrimitives.WriteDoubleLittleEndian(_row.AsSpan(12), upper);
         BinaryPrimitives.WriteDoubleLittleEndian(_row.AsSpan(20), sumW);

@@ -12,22 +12,33 @@ using GateTasks.Engine.Accumulation;
 namespace GateTasks.Engine.References;
 
 /// <summary>
-/// The reference file format, version 4 (docs/reference-format.md): a Parquet file whose rows are histogram
-/// cells (feature, cell, lower, upper, sum_w, sum_w2) and whose key/value metadata entry
+/// The reference file format, version 8 (docs/reference-format.md): a Parquet file whose rows are histogram
+/// cells (feature, part, bin, lower, upper, sum_w, sum_w2) and whose key/value metadata entry
 /// <c>gatetasks.reference</c> holds a JSON header with provenance, per-feature statistics and the SHA-256 of the
-/// whole content (<see cref="ReferenceDigest"/>), verified on every read. Version 1 had no digest, version 2 no
-/// fourth-moment variance of its correlations, version 3 neither a fine grid for a Wasserstein check nor event weights of its joint subsample, version 4 (never
-/// released) no event weights of its joint subsample, version 5 no streamed moments or kernel sums of its joint block,
-/// version 6 no sliced grid or histograms of its joint block; each is refused with the command that rebuilds it.
+/// whole content (<see cref="ReferenceDigest"/>), verified on every read. A row's <c>part</c> says what it is
+/// (<c>below</c> the first edge, a regular <c>bin</c>, <c>above</c> the last edge); only regular bins carry a
+/// <c>bin</c> number, 0 … n − 1, so no row's meaning rests on where its number falls. Version 1 had no digest,
+/// version 2 no fourth-moment variance of its correlations, version 3 neither a fine grid for a Wasserstein check
+/// nor event weights of its joint subsample, version 4 (never released) no event weights of its joint subsample,
+/// version 5 no streamed moments or kernel sums of its joint block, version 6 no sliced grid or histograms of its
+/// joint block, version 7 numbered its flows as cells 0 and n + 1; each is refused with the command that rebuilds it.
 /// </summary>
 internal static class ReferenceFile
 {
-    public const int FormatVersion = 7; // 6: the joint block's streamed moments and kernel sums (JointMomentsEntry); 7: its sliced grid and histograms (SlicedEntry)
+    public const int FormatVersion = 8; // 6: the joint block's streamed moments and kernel sums (JointMomentsEntry); 7: its sliced grid and histograms (SlicedEntry); 8: rows say their part
     public const string MetadataKey = "gatetasks.reference";
     public const string FormatKey = "gatetasks.reference.format";
 
+    /// <summary>The <c>part</c> of a row holding the events below the first edge.</summary>
+    public const string BelowPart = "below";
+    /// <summary>The <c>part</c> of a row holding a regular bin, numbered by <c>bin</c>.</summary>
+    public const string BinPart = "bin";
+    /// <summary>The <c>part</c> of a row holding the events at or above the last edge.</summary>
+    public const string AbovePart = "above";
+
     private static readonly DataField<string> FeatureField = new("feature", false);
-    private static readonly DataField<int> CellField = new("cell");
+    private static readonly DataField<string> PartField = new("part", false);
+    private static readonly DataField<int?> BinField = new("bin");
     private static readonly DataField<double> LowerField = new("lower");
     private static readonly DataField<double> UpperField = new("upper");
     private static readonly DataField<double> SumWField = new("sum_w");
@@ -37,7 +48,8 @@ internal static class ReferenceFile
     public static void Write(string path, ReferenceHistograms reference)
     {
         var features = new List<string>();
-        var cells = new List<int>();
+        var parts = new List<string>();
+        var bins = new List<int?>();
         var lower = new List<double>();
         var upper = new List<double>();
         var sumW = new List<double>();
@@ -46,10 +58,13 @@ internal static class ReferenceFile
         {
             var h = f.Histogram;
             var edges = h.Axis.Edges;
+            // The cell arrays run from the underflow to the overflow; each row names its part instead.
             for (var c = 0; c < h.SumW.Length; c++)
             {
+                var last = h.SumW.Length - 1;
                 features.Add(f.Name);
-                cells.Add(c);
+                parts.Add(c == 0 ? BelowPart : c == last ? AbovePart : BinPart);
+                bins.Add(c == 0 || c == last ? null : c - 1);
                 lower.Add(c == 0 ? double.NegativeInfinity : edges[c - 1]);
                 upper.Add(c == h.SumW.Length - 1 ? double.PositiveInfinity : edges[c]);
                 sumW.Add(h.SumW[c]);
@@ -59,16 +74,16 @@ internal static class ReferenceFile
 
         var unsealed = Header(reference).ToJsonString(new JsonSerializerOptions { WriteIndented = false });
         using var digest = new ReferenceDigest(unsealed);
-        for (var i = 0; i < features.Count; i++) digest.Add(features[i], cells[i], lower[i], upper[i], sumW[i], sumW2[i]);
+        for (var i = 0; i < features.Count; i++) digest.Add(features[i], parts[i], bins[i], lower[i], upper[i], sumW[i], sumW2[i]);
         var header = unsealed.Replace(ReferenceDigest.Entry(ReferenceDigest.Placeholder), ReferenceDigest.Entry(digest.Finish()), StringComparison.Ordinal);
-        AtomicFile.Write(path, stream => WriteParquetAsync(stream, header, features, cells, lower, upper, sumW, sumW2).GetAwaiter().GetResult());
+        AtomicFile.Write(path, stream => WriteParquetAsync(stream, header, features, parts, bins, lower, upper, sumW, sumW2).GetAwaiter().GetResult());
     }
 
-    private static async Task WriteParquetAsync(Stream stream, string header, List<string> features, List<int> cells,
+    private static async Task WriteParquetAsync(Stream stream, string header, List<string> features, List<string> parts, List<int?> bins,
         List<double> lower, List<double> upper, List<double> sumW, List<double> sumW2)
     {
         {
-            var schema = new ParquetSchema(FeatureField, CellField, LowerField, UpperField, SumWField, SumW2Field);
+            var schema = new ParquetSchema(FeatureField, PartField, BinField, LowerField, UpperField, SumWField, SumW2Field);
             var options = new ParquetOptions { CompressionMethod = CompressionMethod.Snappy };
             await using var writer = await ParquetWriter.CreateAsync(schema, stream, options);
             writer.CustomMetadata = new Dictionary<string, string>
@@ -79,7 +94,8 @@ internal static class ReferenceFile
             using (var rg = writer.CreateRowGroup())
             {
                 await rg.WriteAsync(FeatureField, features);
-                await rg.WriteAsync<int>(CellField, cells.ToArray());
+                await rg.WriteAsync(PartField, parts);
+                await rg.WriteAsync<int>(BinField, bins.ToArray());
                 await rg.WriteAsync<double>(LowerField, lower.ToArray());
                 await rg.WriteAsync<double>(UpperField, upper.ToArray());
                 await rg.WriteAsync<double>(SumWField, sumW.ToArray());
@@ -128,6 +144,9 @@ internal static class ReferenceFile
             if (fmt == "6")
                 throw Unreadable(path, "it is in reference format 6, which stores no sliced grid or histograms of its joint block, so sliced-ks-max and sliced-wasserstein-max could not be checked; " +
                     $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
+            if (fmt == "7")
+                throw Unreadable(path, "it is in reference format 7, which numbers the flows of each histogram as cells 0 and n + 1 where this version's rows say their part (below, bin, above); " +
+                    $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt != FormatVersion.ToString(CultureInfo.InvariantCulture))
                 throw Unreadable(path, $"reference format version {fmt} is not supported; this GateTasks reads version {FormatVersion}");
             var header = JsonNode.Parse(json)!.AsObject();
@@ -137,19 +156,21 @@ internal static class ReferenceFile
                 throw Damaged(path, "its header holds no readable checksum of its content");
             using var digest = new ReferenceDigest(json.Replace(entry!, ReferenceDigest.Entry(ReferenceDigest.Placeholder), StringComparison.Ordinal));
 
-            var rows = new Dictionary<string, List<(int Cell, double Lower, double Upper, double W, double W2)>>();
+            var rows = new Dictionary<string, List<CellRow>>();
             for (var g = 0; g < reader.RowGroupCount; g++)
             {
                 using var rg = reader.OpenRowGroupReader(g);
                 var n = checked((int)rg.RowCount);
                 var names = new string?[n];
-                var cell = new int[n];
+                var part = new string?[n];
+                var bin = new int?[n];
                 var lo = new double[n];
                 var hi = new double[n];
                 var w = new double[n];
                 var w2 = new double[n];
                 await rg.ReadAsync(Field(reader, FeatureField), names.AsMemory());
-                await rg.ReadAsync<int>(Field(reader, CellField), cell.AsMemory());
+                await rg.ReadAsync(Field(reader, PartField), part.AsMemory());
+                await rg.ReadAsync<int>(Field(reader, BinField), bin.AsMemory());
                 await rg.ReadAsync<double>(Field(reader, LowerField), lo.AsMemory());
                 await rg.ReadAsync<double>(Field(reader, UpperField), hi.AsMemory());
                 await rg.ReadAsync<double>(Field(reader, SumWField), w.AsMemory());
@@ -157,9 +178,10 @@ internal static class ReferenceFile
                 for (var i = 0; i < n; i++)
                 {
                     var name = names[i] ?? throw Damaged(path, "a feature name is null");
-                    digest.Add(name, cell[i], lo[i], hi[i], w[i], w2[i]);
+                    var rowPart = part[i] ?? throw Damaged(path, $"a row of feature '{name}' has no part");
+                    digest.Add(name, rowPart, bin[i], lo[i], hi[i], w[i], w2[i]);
                     if (!rows.TryGetValue(name, out var list)) rows[name] = list = [];
-                    list.Add((cell[i], lo[i], hi[i], w[i], w2[i]));
+                    list.Add(new CellRow(rowPart, bin[i], lo[i], hi[i], w[i], w2[i]));
                 }
             }
             var actual = digest.Finish();
@@ -167,6 +189,39 @@ internal static class ReferenceFile
                 throw Damaged(path, $"the SHA-256 of its content is {actual[..12]}…, its header records {recorded[..Math.Min(12, recorded.Length)]}…");
             return FromHeader(path, header, rows);
         }
+    }
+
+    /// <summary>One histogram row as stored: its part, its bin number (regular bins only), edges and sums.</summary>
+    private readonly record struct CellRow(string Part, int? Bin, double Lower, double Upper, double W, double W2);
+
+    /// <summary>
+    /// A feature's rows in cell order (below, bins 0 … n − 1, above): exactly one row per part and bin, a bin number on
+    /// the regular bins only; anything else is a file this version did not write.
+    /// </summary>
+    private static CellRow[] InCellOrder(string path, string name, List<CellRow> rows, int bins)
+    {
+        var ordered = new CellRow?[bins + 2];
+        foreach (var row in rows)
+        {
+            int at;
+            if (row.Part == BelowPart && row.Bin is null) at = 0;
+            else if (row.Part == AbovePart && row.Bin is null) at = bins + 1;
+            else if (row.Part == BinPart && row.Bin is { } b && b >= 0 && b < bins) at = b + 1;
+            else if (row.Part is BelowPart or AbovePart)
+                throw Unreadable(path, $"feature '{name}' has its {row.Part} row numbered {row.Bin}; only regular bins carry a number");
+            else if (row.Part == BinPart && row.Bin is null)
+                throw Unreadable(path, $"feature '{name}' has a bin row without a bin number");
+            else if (row.Part == BinPart)
+                throw Unreadable(path, $"feature '{name}' has a bin row numbered {row.Bin}, outside its bins 0 … {bins - 1}");
+            else
+                throw Unreadable(path, $"feature '{name}' has a row of part '{row.Part}'; the parts are '{BelowPart}', '{BinPart}' and '{AbovePart}'");
+            if (ordered[at] is not null)
+                throw Unreadable(path, $"feature '{name}' has its {(at == 0 ? BelowPart : at == bins + 1 ? AbovePart : $"bin {at - 1}")} row twice");
+            ordered[at] = row;
+        }
+        if (rows.Count != bins + 2 || ordered.Any(r => r is null))
+            throw Unreadable(path, $"feature '{name}' has {rows.Count} cell rows, expected {bins + 2} (below, {bins} bins, above)");
+        return ordered.Select(r => r!.Value).ToArray();
     }
 
     private static DataField Field(ParquetReader reader, DataField wanted) =>
@@ -259,19 +314,17 @@ internal static class ReferenceFile
     }
 
     private static ReferenceHistograms FromHeader(string path, JsonObject h,
-        Dictionary<string, List<(int Cell, double Lower, double Upper, double W, double W2)>> rows)
+        Dictionary<string, List<CellRow>> rows)
     {
         var features = new List<ReferenceFeature>();
         foreach (var node in h["features"]!.AsArray())
         {
             var f = node!.AsObject();
             var name = (string)f["name"]!;
-            if (!rows.TryGetValue(name, out var cells))
+            if (!rows.TryGetValue(name, out var stored))
                 throw Unreadable(path, $"feature '{name}' has no histogram cells");
-            cells.Sort((a, b) => a.Cell.CompareTo(b.Cell));
             var bins = (int)f["bins"]!;
-            if (cells.Count != bins + 2 || cells.Select((c, i) => c.Cell != i).Any(x => x))
-                throw Unreadable(path, $"feature '{name}' has {cells.Count} cells, expected {bins + 2}");
+            var cells = InCellOrder(path, name, stored, bins);
             var edges = new double[bins + 1];
             for (var i = 0; i < bins; i++) edges[i] = cells[i + 1].Lower;
             edges[bins] = cells[bins].Upper;

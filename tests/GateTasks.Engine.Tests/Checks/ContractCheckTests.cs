@@ -473,10 +473,10 @@ public sealed class ContractCheckTests : IDisposable
         Assert.Equal(17, e.Location.Column); // "    expression: " is 16 characters; the unknown function starts right after
         Assert.Contains("sqrt", e.Message);
 
-        File.WriteAllText(contractPath, DerivedContract.Replace("\"n >= 1\"", "\"n >= 1 and ptt > 3\""));
+        File.WriteAllText(contractPath, DerivedContract.Replace("\"n >= 1\"", "\"n >= 1 && ptt > 3\""));
         var c = Assert.Throws<GateInputException>(() => ContractRun.Run(ContractLoader.Load(contractPath)));
         Assert.Equal(ErrorCodes.ContractExpression, c.Code);
-        Assert.Equal(new SourceLocation(contractPath, 4, 24), c.Location); // 'selection: "' is 12 characters, 'n >= 1 and ' 11 more
+        Assert.Equal(new SourceLocation(contractPath, 4, 23), c.Location); // 'selection: "' is 12 characters, 'n >= 1 && ' 10 more
         Assert.Contains("pt1", c.Message);
     }
 

@@ -67,7 +67,7 @@ public class ContractLoaderTests
         var c = ContractLoader.Parse(DemoContract.Text, "demo.yaml");
         Assert.Equal("demo-diphoton", c.Title);
         Assert.Equal("weight", c.Sample.Weight);
-        Assert.Equal("m_gg > 65 and m_gg < 180", c.Selection!.Text);
+        Assert.Equal("m_gg > 65 && m_gg < 180", c.Selection!.Text);
         FeatureSpec F(string name) => c.Features.Single(f => f.Name == name);
         var mgg = F("m_gg");
         Assert.Equal(30, Assert.IsType<QuantileBinning>(mgg.Binning).Bins);

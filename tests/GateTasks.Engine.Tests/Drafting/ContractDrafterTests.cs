@@ -45,6 +45,9 @@ public sealed class ContractDrafterTests : IDisposable
         Assert.Equal("w", contract.Sample.Weight);
         Assert.Contains("#   c: takes the single value 4.5", text);
         Assert.Contains("Derived features (expressions) are not guessed", text);
+        // docs/contract.md, "Derived features and the selection": the draft's hint spells expressions as the language does.
+        Assert.Contains("# An expression writes logic as && || ! and a column name that is not an identifier in braces,", text);
+        Assert.Contains("expression: \"{jet pt} * cosh(eta)\"", text);
         // Every generated number carries a comment; every tolerance its derivation.
         var numbers = text.Split('\n').Where(l => System.Text.RegularExpressions.Regex.IsMatch(l, @"^\s+[a-z-]+: [0-9.]+( |$)")).ToList();
         Assert.All(numbers, l => Assert.Contains(" # ", l));

@@ -10,7 +10,7 @@ public class ExpressionAllocationTests
         // An allocation test, not a timing test: the scratch buffers grow once and are then reused.
         const int rows = 100_000;
         var compiled = ExpressionCompiler.Compile(
-            "if(pt1 > 0 and pt2 > 0, sqrt(2*pt1*pt2*(cosh(eta1-eta2) - cos(phi1-phi2))), -1) + max(pt1, pt2, 0) % 7",
+            "if(pt1 > 0 && pt2 > 0, sqrt(2*pt1*pt2*(cosh(eta1-eta2) - cos(phi1-phi2))), -1) + max(pt1, pt2, 0) % 7",
             ["pt1", "eta1", "phi1", "pt2", "eta2", "phi2"], ExpressionRun.Start);
         var random = new Random(7);
         var columns = compiled.Columns.Select(_ => Enumerable.Range(0, rows).Select(_ => random.NextDouble() * 100 - 20).ToArray()).ToArray();

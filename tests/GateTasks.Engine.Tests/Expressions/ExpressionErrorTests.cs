@@ -90,13 +90,13 @@ public class ExpressionErrorTests
     [Fact]
     public void Unknown_column_suggests_the_nearest_one()
     {
-        var e = ExpressionRun.Error("eta < 2 and ptt > 20", Columns);
-        ExpressionRun.AssertAt(e, 12);
+        var e = ExpressionRun.Error("eta < 2 && ptt > 20", Columns);
+        ExpressionRun.AssertAt(e, 11);
         Assert.Equal("unknown column 'ptt' (did you mean 'pt'?)", e.Message);
 
-        var quoted = ExpressionRun.Error("`mett` > 1", Columns);
+        var quoted = ExpressionRun.Error("{mett} > 1", Columns);
         ExpressionRun.AssertAt(quoted, 0);
-        Assert.Equal("unknown column `mett` (did you mean 'met'?)", quoted.Message);
+        Assert.Equal("unknown column {mett} (did you mean 'met'?)", quoted.Message);
 
         var noColumns = ExpressionRun.Error("x + 1");
         Assert.Equal("unknown column 'x'; no columns are available", noColumns.Message);
@@ -128,7 +128,7 @@ public class ExpressionErrorTests
         var e = ExpressionRun.Error("0 < pt < 5", Columns);
         ExpressionRun.AssertAt(e, 7);
         Assert.StartsWith("comparisons cannot be chained", e.Message);
-        Assert.Contains("write 'a < b and b < c'", e.Message);
+        Assert.Contains("write 'a < b && b < c'", e.Message);
         ExpressionRun.AssertAt(ExpressionRun.Error("pt == eta == phi", Columns), 10);
     }
 

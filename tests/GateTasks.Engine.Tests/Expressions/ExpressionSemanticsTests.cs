@@ -30,22 +30,22 @@ public class ExpressionSemanticsTests
     [InlineData("0.5 == 1/2", 1.0)]
     [InlineData("1 != 1", 0.0)]
     [InlineData("(1 < 2) == 1", 1.0)]            // a parenthesised comparison may be compared again
-    // Logic on 0/1 values: truth tables [exact, hand-computed]; and binds tighter than or.
-    [InlineData("0 and 0", 0.0)]
-    [InlineData("0 and 1", 0.0)]
-    [InlineData("1 and 0", 0.0)]
-    [InlineData("1 and 1", 1.0)]
-    [InlineData("0 or 0", 0.0)]
-    [InlineData("0 or 1", 1.0)]
-    [InlineData("1 || 0", 1.0)]
+    // Logic on 0/1 values: truth tables [exact, hand-computed]; && binds tighter than ||.
+    [InlineData("0 && 0", 0.0)]
+    [InlineData("0 && 1", 0.0)]
+    [InlineData("1 && 0", 0.0)]
     [InlineData("1 && 1", 1.0)]
-    [InlineData("1 or 1 and 0", 1.0)]            // 1 or (1 and 0); (1 or 1) and 0 would be 0
-    [InlineData("2 and -3", 1.0)]                // any non-zero value is true; the result is 1.0
-    [InlineData("not 0", 1.0)]
+    [InlineData("0 || 0", 0.0)]
+    [InlineData("0 || 1", 1.0)]
+    [InlineData("1 || 0", 1.0)]
+    [InlineData("1 || 1", 1.0)]
+    [InlineData("1 || 1 && 0", 1.0)]             // 1 || (1 && 0); (1 || 1) && 0 would be 0
+    [InlineData("2 && -3", 1.0)]                 // any non-zero value is true; the result is 1.0
+    [InlineData("!0", 1.0)]
     [InlineData("!2", 0.0)]
-    [InlineData("not 1 + 1", 1.0)]               // prefix not binds like prefix minus: (not 1) + 1
-    [InlineData("1 < 2 and 3 < 2", 0.0)]
-    [InlineData("1 < 2 or 3 < 2", 1.0)]
+    [InlineData("!1 + 1", 1.0)]                  // prefix ! binds like prefix minus: (!1) + 1
+    [InlineData("1 < 2 && 3 < 2", 0.0)]
+    [InlineData("1 < 2 || 3 < 2", 1.0)]
     [InlineData("if(1, 10, 20)", 10.0)]
     [InlineData("if(0, 10, 20)", 20.0)]
     [InlineData("if(-0.5, 10, 20)", 10.0)]
@@ -117,9 +117,9 @@ public class ExpressionSemanticsTests
         Assert.Equal([0.0, 1.0], ExpressionRun.Evaluate("x == x", ("x", x)));     // IEEE 754: NaN ≠ NaN
         Assert.Equal([0.0, 1.0], ExpressionRun.Evaluate("x != 1", ("x", x)));     // false for NaN, unlike IEEE's unordered ≠
         Assert.Equal([0.0, 0.0], ExpressionRun.Evaluate("x != x", ("x", x)));
-        Assert.Equal([0.0, 1.0], ExpressionRun.Evaluate("x and 1", ("x", x)));    // NaN counts as false in logic
-        Assert.Equal([1.0, 1.0], ExpressionRun.Evaluate("x or 1", ("x", x)));
-        Assert.Equal([1.0, 0.0], ExpressionRun.Evaluate("not x", ("x", x)));
+        Assert.Equal([0.0, 1.0], ExpressionRun.Evaluate("x && 1", ("x", x)));    // NaN counts as false in logic
+        Assert.Equal([1.0, 1.0], ExpressionRun.Evaluate("x || 1", ("x", x)));
+        Assert.Equal([1.0, 0.0], ExpressionRun.Evaluate("!x", ("x", x)));
         Assert.Equal([1.0, 0.0], ExpressionRun.Evaluate("isnan(x)", ("x", x)));
         var conditional = ExpressionRun.Evaluate("if(x, 10, 20)", ("x", x));
         Assert.True(double.IsNaN(conditional[0]));                                 // NaN condition → NaN
@@ -146,15 +146,15 @@ public class ExpressionSemanticsTests
         Assert.Equal([3.0, 5.0, -2.0, 0.0], ExpressionRun.Evaluate("if(a > b, a, b)", ("a", a), ("b", b)));
         Assert.Equal([1.0, 4.0, -7.0, -1.0], ExpressionRun.Evaluate("min(a, b, c)", ("a", a), ("b", b), ("c", c)));
         Assert.Equal([3.0, 9.0, -2.0, 0.0], ExpressionRun.Evaluate("max(a, b, c)", ("a", a), ("b", b), ("c", c)));
-        Assert.Equal([0.0, 1.0, 0.0, 0.0], ExpressionRun.Evaluate("a > 0 and b > 0 and c > 3", ("a", a), ("b", b), ("c", c)));
+        Assert.Equal([0.0, 1.0, 0.0, 0.0], ExpressionRun.Evaluate("a > 0 && b > 0 && c > 3", ("a", a), ("b", b), ("c", c)));
     }
 
     [Fact]
     public void Selections_are_boolean_and_numeric_expressions_are_not()
     {
         string[] columns = ["pt", "eta"];
-        Assert.True(ExpressionCompiler.Compile("pt > 20 and abs(eta) < 2.4", columns, ExpressionRun.Start).IsBoolean);
-        Assert.True(ExpressionCompiler.Compile("not (pt > 20)", columns, ExpressionRun.Start).IsBoolean);
+        Assert.True(ExpressionCompiler.Compile("pt > 20 && abs(eta) < 2.4", columns, ExpressionRun.Start).IsBoolean);
+        Assert.True(ExpressionCompiler.Compile("!(pt > 20)", columns, ExpressionRun.Start).IsBoolean);
         Assert.True(ExpressionCompiler.Compile("isnan(eta)", columns, ExpressionRun.Start).IsBoolean);
         Assert.True(ExpressionCompiler.Compile("1 < 2", columns, ExpressionRun.Start).IsBoolean); // kept through constant folding
         Assert.False(ExpressionCompiler.Compile("pt * 2", columns, ExpressionRun.Start).IsBoolean);
@@ -163,15 +163,15 @@ public class ExpressionSemanticsTests
     }
 
     [Fact]
-    public void Backquoted_names_reach_columns_with_any_characters_and_columns_are_listed_once()
+    public void Braced_names_reach_columns_with_any_characters_and_columns_are_listed_once()
     {
         double[] jet = [10, 20];
         double[] odd = [1, 2];
         // [exact, hand-computed]
-        Assert.Equal([11.0, 22.0], ExpressionRun.Evaluate("`jet.pt` + `weird name-1`", ("jet.pt", jet), ("weird name-1", odd)));
+        Assert.Equal([11.0, 22.0], ExpressionRun.Evaluate("{jet.pt} + {weird name-1}", ("jet.pt", jet), ("weird name-1", odd)));
         double[] pi = [5, 6];
-        Assert.Equal([5.0 - Math.PI, 6.0 - Math.PI], ExpressionRun.Evaluate("`pi` - pi", ("pi", pi))); // bare pi is the constant
-        var compiled = ExpressionCompiler.Compile("b*b + a - `b` + a", ["a", "b"], ExpressionRun.Start);
+        Assert.Equal([5.0 - Math.PI, 6.0 - Math.PI], ExpressionRun.Evaluate("{pi} - pi", ("pi", pi))); // bare pi is the constant
+        var compiled = ExpressionCompiler.Compile("b*b + a - {b} + a", ["a", "b"], ExpressionRun.Start);
         Assert.Equal(["b", "a"], compiled.Columns);
     }
 
