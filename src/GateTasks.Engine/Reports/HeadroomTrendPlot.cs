@@ -57,6 +57,8 @@ internal static class HeadroomTrendPlot
                 sb.Append(" <b class=\"fail\">").Append(E($"worse than at entry {line.Then!.Entry.Number} beyond noise: estimate / tolerance {Num(1 - d.PointThen)} → {Num(1 - d.PointNow)}, noise allows {Num(d.Allowed)}")).Append("</b>");
             sb.Append("</span>");
         }
+        if (trend.Lines.Any(l => l.UpperShares.Any(v => v > AxisTop(trend))))
+            sb.Append("<span class=\"key\">").Append(E($"▲ at the top: a share beyond the axis (over {Num(AxisTop(trend))}, or not measurable)")).Append("</span>");
         var unrecorded = history.Entries.Where(e => !Ledger.HeadroomHistory.RecordedResults(e)).Select(e => "#" + e.Number.ToString(CultureInfo.InvariantCulture)).ToList();
         if (unrecorded.Count > 0) sb.Append("<span class=\"key\">").Append(E($"entries without results: {string.Join(", ", unrecorded)}")).Append("</span>");
         sb.Append("</figcaption>\n</figure>\n");
@@ -82,6 +84,10 @@ internal static class HeadroomTrendPlot
         return svg[start..].Replace(svg[start..end], tag);
     }
 
+    /// <summary>The top of the share axis: above the tolerance's edge and the largest share, at most <see cref="Ceiling"/>.</summary>
+    private static double AxisTop(HeadroomTrend trend) =>
+        Math.Min(Ceiling, Math.Max(1.15, 1.08 * trend.Lines.SelectMany(l => l.UpperShares).Where(double.IsFinite).DefaultIfEmpty(1).Max()));
+
     private static PlotModel Build(HeadroomTrend trend)
     {
         var model = new PlotModel
@@ -106,9 +112,8 @@ internal static class HeadroomTrendPlot
             AxisTitleDistance = 6,
             LabelFormatter = v => Math.Abs(v - Math.Round(v)) < 1e-9 && Math.Round(v) is var i && i >= 0 && i < columns.Count ? columns[(int)i] : "",
         }, grid: false));
-        var finite = trend.Lines.SelectMany(l => l.UpperShares).Where(double.IsFinite).DefaultIfEmpty(1).ToList();
-        var top = Math.Min(Ceiling, Math.Max(1.15, 1.08 * finite.Max()));
-        var bottom = Math.Min(0, 1.08 * finite.Min());
+        var top = AxisTop(trend);
+        var bottom = Math.Min(0, 1.08 * trend.Lines.SelectMany(l => l.UpperShares).Where(double.IsFinite).DefaultIfEmpty(0).Min());
         model.Axes.Add(PlotAxisStyle.Styled(new LinearAxis
         {
             Position = AxisPosition.Left,
