@@ -100,6 +100,9 @@ internal static class HeadroomTrendPlot
             Background = OxyColor.Parse(ReportPalette.Paper),
         };
         var columns = trend.Columns;
+        // A long ledger labels every k-th entry (and this run), so the labels do not run into one another.
+        var every = (int)Math.Ceiling(columns.Count / 14.0);
+        bool Labelled(int i) => i == columns.Count - 1 || i % every == 0;
         model.Axes.Add(PlotAxisStyle.Styled(new LinearAxis
         {
             Position = AxisPosition.Bottom,
@@ -110,7 +113,7 @@ internal static class HeadroomTrendPlot
             MinorStep = 1,
             Angle = columns.Count > 5 ? 30 : 0,
             AxisTitleDistance = 6,
-            LabelFormatter = v => Math.Abs(v - Math.Round(v)) < 1e-9 && Math.Round(v) is var i && i >= 0 && i < columns.Count ? columns[(int)i] : "",
+            LabelFormatter = v => Math.Abs(v - Math.Round(v)) < 1e-9 && Math.Round(v) is var i && i >= 0 && i < columns.Count && Labelled((int)i) ? columns[(int)i] : "",
         }, grid: false));
         var top = AxisTop(trend);
         var bottom = Math.Min(0, 1.08 * trend.Lines.SelectMany(l => l.UpperShares).Where(double.IsFinite).DefaultIfEmpty(0).Min());
