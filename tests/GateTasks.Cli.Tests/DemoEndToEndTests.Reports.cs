@@ -17,7 +17,9 @@ public partial class DemoEndToEndTests
             var html = File.ReadAllText(Path.Combine(Reports, name + ".html"));
             Assert.Contains($"id=\"overall\">{verdict}<", html);
             // 16 features (the category shares among them) have histograms to plot; the pairs and the joint test have none.
-            Assert.Equal(16, Regex.Matches(html, "<svg[ >]").Count);
+            // Besides, each of the 20 subjects has a headroom trend panel: the demo's ledger holds an entry with results.
+            Assert.Equal(16 + 20, Regex.Matches(html, "<svg[ >]").Count);
+            Assert.Equal(20, Regex.Matches(html, "<figure class=\"plot trend\"").Count);
             Assert.True(new FileInfo(Path.Combine(Reports, name + ".html")).Length < 3_000_000, "the HTML report should stay a few MB at most");
             Assert.StartsWith($"### GateTasks check {verdict}: demo-diphoton", File.ReadAllText(Path.Combine(Reports, name + ".md")));
             Assert.Contains($"HTML report: {Path.Combine(Reports, name + ".html")}", demo.Stdout);
@@ -104,7 +106,7 @@ public partial class DemoEndToEndTests
         Assert.Contains($"data-report-ready=\"{sections}\"", root);
         Assert.DoesNotContain("data-script-error", root);
         Assert.Contains("<div class=\"controls\" id=\"controls\">", dom); // the script revealed the filter buttons
-        Assert.Equal(16, Regex.Matches(dom, "<svg[ >]").Count);
+        Assert.Equal(16 + 20, Regex.Matches(dom, "<svg[ >]").Count); // feature plots and headroom trend panels
         Assert.Matches("<section class=\"subject fail\" id=\"f-m_gg\"", dom);
 
         var png = Path.Combine(demo.Folder, "drifted.png");

@@ -2,6 +2,7 @@ using System.CommandLine;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Ledger;
+using GateTasks.Engine.Reports;
 
 namespace GateTasks.Cli.Commands;
 
@@ -12,7 +13,13 @@ internal static class HistoryCommand
     {
         var contract = SharedOptions.Contract();
         var baseRevision = SharedOptions.BaseRevision();
-        var command = new Command("history", "List the accepted entries of the contract's ledger, oldest first, with the tolerances loosened and tightened at each.") { contract, baseRevision };
+        var feature = new Option<string?>("--feature") { HelpName = "NAME", Description = "Show the headroom of this feature's (or pair's) checks only." };
+        var worsened = new Option<bool>("--worsened") { Description = "Show the headroom of checks that got worse beyond their noise at some entry only (the ratchet's rule)." };
+        var command = new Command("history",
+            "List the accepted entries of the contract's ledger, oldest first, with the tolerances loosened and tightened at each, then each check's headroom at every entry.")
+        {
+            contract, feature, worsened, baseRevision,
+        };
         command.SetAction(parse => CliApp.Guard(stderr, () =>
         {
             var loaded = ContractLoader.Load(parse.GetValue(contract)!);
@@ -27,6 +34,11 @@ internal static class HistoryCommand
                 return ExitCodes.Success;
             }
             var entries = LedgerFile.Read(path);
+            var headroom = HeadroomHistory.Of(entries);
+            var only = parse.GetValue(feature);
+            if (only is not null && !headroom.Subjects.Contains(only, StringComparer.Ordinal))
+                throw new GateInputException(ErrorCodes.Usage,
+                    $"--feature {only}: no entry of {path} holds a tolerance check of that name{NearestName.Hint(only, headroom.Subjects)}.");
             stdout.WriteLine($"{path}: {entries.Count} accepted entr{(entries.Count == 1 ? "y" : "ies")}, chain intact");
             stdout.WriteLine(history.Note);
             foreach (var item in LedgerHistory.Of(entries))
@@ -45,6 +57,11 @@ internal static class HistoryCommand
                 foreach (var c in item.Changes)
                     stdout.WriteLine($"    {(c.Direction == ChangeDirection.Looser ? "loosened " : "tightened")} {c.Text}");
                 if (!item.ReferenceChanged && item.Changes.Count == 0) stdout.WriteLine("    no tolerance changed (results re-recorded)");
+            }
+            if (entries.Count > 0)
+            {
+                stdout.WriteLine();
+                stdout.Write(HeadroomHistoryText.Render(headroom, only, parse.GetValue(worsened)));
             }
             return ExitCodes.Success;
         }));

@@ -50,7 +50,11 @@ internal sealed class DemoRun(string folder, DemoKind kind = DemoKind.Generator)
     public RunResult Accept(RunResult faithful)
     {
         Runs.Acceptance.Accept(faithful, "GateTasks demo", "the demo analysis's tolerances, met by the faithful surrogate", DateTimeOffset.UtcNow);
-        return faithful with { Acceptance = Ledger.LedgerGuard.Verify(faithful.Contract, faithful.ReferenceSha256, faithful.Outcomes) };
+        return faithful with
+        {
+            Acceptance = Ledger.LedgerGuard.Verify(faithful.Contract, faithful.ReferenceSha256, faithful.Outcomes),
+            LedgerEntries = Ledger.AcceptedEntries.Read(faithful.Contract),
+        };
     }
 
     /// <summary>What the drifted surrogate got wrong.</summary>

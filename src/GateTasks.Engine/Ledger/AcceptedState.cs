@@ -45,6 +45,23 @@ internal sealed record AcceptedState(
         return new AcceptedState(decision, contract.Selection?.Text, definitions, limits);
     }
 
+    /// <summary>The confidence level the state was decided at (NaN if it records none).</summary>
+    public double Confidence
+    {
+        get
+        {
+            if (Decision.FirstOrDefault(p => p.Key == "confidence").Value is not { } c) return double.NaN;
+            try
+            {
+                return LedgerLine.ParseNumber(c);
+            }
+            catch (FormatException)
+            {
+                return double.NaN;
+            }
+        }
+    }
+
     /// <summary>Everything that decides what a feature's histogram holds, as one line of text.</summary>
     private static string Definition(FeatureSpec f)
     {

@@ -96,31 +96,24 @@ internal static class LedgerGuard
     }
 
     /// <summary>
-    /// The ratchet, for effect checks whose tolerance is unchanged (tests carry no noise figure): it compares point
-    /// margins, 1 − estimate/tolerance — not the upper-bound margins, which grow with the sample size alone — and
-    /// fails a check whose point margin fell by more than z·√(σ_now² + σ_then²), σ the estimates' errors over the
-    /// tolerance and z at the contract's confidence. Both σ include the shared reference's part, so the allowance errs
-    /// on the side of no alarm.
+    /// The ratchet, for effect checks whose tolerance is unchanged (tests carry no noise figure): a check fails when its
+    /// point margin fell since the latest entry by more than its noise allows (<see cref="MarginDecline"/>).
     /// </summary>
     private static IEnumerable<LedgerFinding> Ratchet(LedgerEntry latest, IReadOnlyList<CheckOutcome> outcomes, PrecisionContract contract, string since)
     {
         var accepted = latest.State.Limits.ToDictionary(l => l.Id, StringComparer.Ordinal);
         var z = Normal.InvCDF(0, 1, contract.Decision.Confidence);
-        var confidenceThen = latest.State.Decision.FirstOrDefault(p => p.Key == "confidence").Value is { } c ? LedgerLine.ParseNumber(c) : double.NaN;
+        var confidenceThen = latest.State.Confidence;
         if (!(confidenceThen > 0.5 && confidenceThen < 1)) yield break;
         var zThen = Normal.InvCDF(0, 1, confidenceThen);
         foreach (var o in outcomes)
         {
             if (o.Check is not ToleranceCheck bounded || !accepted.TryGetValue($"{o.Subject.Name} {o.Check.Label}", out var then) || then.IsTest || then.Tolerance != bounded.Tolerance) continue;
             var now = Margin.Of(o, contract.Decision);
-            if (!double.IsFinite(then.Margin) || !double.IsFinite(then.Noise) || !double.IsFinite(now.Noise)) continue;
-            var pointThen = then.Margin + zThen * then.Noise;
-            var pointNow = double.IsFinite(now.Value) ? now.Value + z * now.Noise : double.NegativeInfinity;
-            var allowed = z * Math.Sqrt(now.Noise * now.Noise + then.Noise * then.Noise);
-            if (pointNow < pointThen - allowed)
+            if (MarginDecline.Compare(then.Margin, then.Noise, zThen, now.Value, now.Noise, z) is { IsBeyondNoise: true } d)
                 yield return new(ErrorCodes.RatchetDegraded, true,
-                    $"{o.Subject.Name} {o.Check.Label}: point margin 1 − estimate/tolerance is {Num(pointNow)} against {Num(pointThen)} accepted in {since}, " +
-                    $"worse by more than its noise allows ({Num(allowed)}); fidelity degraded although the check is " +
+                    $"{o.Subject.Name} {o.Check.Label}: point margin 1 − estimate/tolerance is {Num(d.PointNow)} against {Num(d.PointThen)} accepted in {since}, " +
+                    $"worse by more than its noise allows ({Num(d.Allowed)}); fidelity degraded although the check is " +
                     $"{(o.Verdict == Verdict.Pass ? "still within tolerance" : o.Verdict.ToString().ToLowerInvariant())}",
                     o.Check.Location);
         }

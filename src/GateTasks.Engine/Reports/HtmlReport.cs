@@ -181,6 +181,8 @@ internal static class HtmlReport
             sb.Append("<p class=\"note\">").Append(E(NoPlotNote(s))).Append("</p>\n");
             ChecksTable(sb, report, s);
         }
+        // The subject's headroom across the accepted entries and this run (HeadroomTrendPlot), or one line saying why there is none.
+        sb.Append(HeadroomTrendPlot.Html(report, s.Name));
         sb.Append("</details>\n</section>\n");
     }
 

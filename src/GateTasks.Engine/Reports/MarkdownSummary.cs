@@ -38,6 +38,10 @@ internal static class MarkdownSummary
               : report.Contract.Decision.InconclusiveFails ? " (inconclusive checks fail the build under this contract)"
               : " (inconclusive checks only warn under this contract)")
           .Append(".\n\n");
+        // Slow degradation across retrainings, said while the checks still pass (HeadroomTrend).
+        var worse = HeadroomTrend.WorsenedSentences(report);
+        foreach (var line in worse) sb.Append("- ").Append(Text(line)).Append('\n');
+        if (worse.Count > 0) sb.Append('\n');
         sb.Append(Text(report.Score.Text)).Append("\n\n");
         sb.Append("Sample ").Append(string.Join(", ", report.SampleFiles.Take(3).Select(f => Code(Path.GetFileName(f)))))
           .Append(report.SampleFiles.Count > 3 ? $" and {report.SampleFiles.Count - 3} more" : "")

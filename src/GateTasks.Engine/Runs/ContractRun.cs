@@ -118,6 +118,7 @@ internal static class ContractRun
             Readings = evaluated.Readings,
             Score = evaluated.Score,
             Acceptance = Ledger.LedgerGuard.Verify(setup.Contract, setup.ReferenceSha256, evaluated.Outcomes),
+            LedgerEntries = Ledger.AcceptedEntries.Read(setup.Contract),
         };
     }
 

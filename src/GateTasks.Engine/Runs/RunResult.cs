@@ -47,6 +47,9 @@ internal sealed record RunResult(
     /// <summary>What the acceptance ledger check found (see <see cref="Ledger.LedgerGuard"/>): errors fail the run.</summary>
     public IReadOnlyList<Ledger.LedgerFinding> Acceptance { get; init; } = [];
 
+    /// <summary>The ledger's entries as this run read them, for the headroom trends across accepted entries.</summary>
+    public Ledger.AcceptedEntries LedgerEntries { get; init; } = Ledger.AcceptedEntries.NotRead;
+
     /// <summary>True when the ledger check found no error: the contract and reference in use are the accepted ones.</summary>
     public bool AcceptanceHolds => !Acceptance.Any(f => f.IsError);
 
