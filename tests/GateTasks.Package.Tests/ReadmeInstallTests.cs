@@ -84,6 +84,21 @@ public class ReadmeInstallTests(PackageFeed feed)
         Assert.Contains($"value=\"{feed.Feed}\"", File.ReadAllText(Path.Combine(project, "nuget.config")));
     }
 
+    [Fact]
+    public void Before_anything_is_accepted_the_build_warns_GATE4001_with_the_accept_command_the_template_readme_gave_first()
+    {
+        // docs/error-codes.md: GATE4001, no acceptance ledger, is a warning unless the contract requires acceptance.
+        var p = GateProject.Create(feed, "FirstBuildGate");
+        File.Delete(Path.Combine(p.Directory, "precision-contract.ledger"));
+        var (code, output) = p.Build();
+        Assert.True(code == 0, output);
+        Assert.Matches(new Regex(@"warning GATE4001: No acceptance ledger at .*precision-contract\.ledger.*record it with: gatetasks accept "), output);
+        var readme = File.ReadAllText(Path.Combine(p.Directory, "README.md"));
+        Assert.Contains("gatetasks accept --reason", readme);
+        Assert.True(readme.IndexOf("gatetasks accept", StringComparison.Ordinal) < readme.IndexOf("GATE4001", StringComparison.Ordinal));
+        Assert.Contains("gatetasks accept", File.ReadAllText(p.ProjectFile));
+    }
+
     private static string Source(string packages, string id, string version) =>
         JsonDocument.Parse(File.ReadAllText(Path.Combine(packages, id, version, ".nupkg.metadata"))).RootElement.GetProperty("source").GetString()!;
 
