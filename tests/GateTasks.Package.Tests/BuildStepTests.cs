@@ -16,7 +16,7 @@ public class BuildStepTests(PackageFeed feed)
         Assert.Contains($"""Include="GateTasks" Version="{PackageFeed.Version}" """.TrimEnd(), project);
         Assert.Contains("Microsoft.Build.NoTargets", project);
         Assert.True(File.Exists(Path.Combine(p.Directory, "README.md")));
-        Assert.Contains("dotnet build LayoutGate.csproj", File.ReadAllText(Path.Combine(p.Directory, ".github", "workflows", "precision-gate.yml")));
+        Assert.Contains("git ls-files ':(glob)**/LayoutGate.csproj'", File.ReadAllText(Path.Combine(p.Directory, ".github", "workflows", "precision-gate.yml")));
         Assert.Contains("junit: gate-reports/*.junit.xml", File.ReadAllText(Path.Combine(p.Directory, ".gitlab-ci.yml")));
     }
 

@@ -20,9 +20,9 @@ public sealed class GateProject
     public string ReportDirectory => Path.Combine(Directory, "gate-reports");
     public string JUnitReport => Path.Combine(ReportDirectory, "precision-contract.junit.xml");
 
-    public static GateProject Create(PackageFeed feed, string name, string? extraPackage = null)
+    public static GateProject Create(PackageFeed feed, string name, string? extraPackage = null, string? directory = null)
     {
-        var dir = Path.Combine(feed.Root, "projects", name);
+        var dir = directory ?? Path.Combine(feed.Root, "projects", name);
         feed.Dotnet(feed.Root, "new", "precision-gate", "-n", name, "-o", dir, "--debug:custom-hive", feed.Hive);
         File.WriteAllText(Path.Combine(dir, "nuget.config"), $"""
             <?xml version="1.0" encoding="utf-8"?>

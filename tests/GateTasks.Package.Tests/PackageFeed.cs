@@ -4,28 +4,33 @@ using GateTasks.Tests.Shared;
 namespace GateTasks.Package.Tests;
 
 /// <summary>
-/// Once per test run: packs GateTasks, GateTasks.Templates, GateTasks.Cli and a fixture package from a copy of the sources into a
-/// temporary feed, installs the template into an isolated template hive, and writes the demo data. Restores go to a
-/// package folder inside the temporary tree, so no stale package from an earlier run can hide a change.
+/// Once per test run: packs GateTasks, GateTasks.Templates and GateTasks.Cli from a copy of the sources into a temporary
+/// feed with the README's own packing line (section "Installing from a local feed", run with a temporary home folder
+/// in which the feed lands), and a fixture package beside them; installs the template into an isolated template hive,
+/// and writes the demo data. Restores go to a package folder inside the temporary tree, so no stale package from an
+/// earlier run can hide a change.
 /// </summary>
 public sealed class PackageFeed : IDisposable
 {
-    public const string Version = "0.0.1-e2e";
+    /// <summary>The version the README's packing line gives the packages: the repository's (Directory.Build.props).</summary>
+    public static readonly string Version = RepositoryVersion();
 
     public PackageFeed()
     {
         Root = Directory.CreateTempSubdirectory("gatetasks-e2e-").FullName;
-        Feed = Path.Combine(Root, "feed");
+        Home = Path.Combine(Root, "home");
+        Feed = Path.Combine(Home, "gatetasks-feed");
         Hive = Path.Combine(Root, "hive");
         Packages = Path.Combine(Root, "packages");
         Demo = Path.Combine(Root, "demo");
+        Sources = Path.Combine(Root, "sources");
 
-        var sources = Path.Combine(Root, "sources");
-        CopySources(sources);
-        Pack(Path.Combine(sources, "src", "GateTasks.MSBuild"), sources);
-        Pack(Path.Combine(sources, "templates", "GateTasks.Templates"), sources);
-        Pack(Path.Combine(sources, "src", "GateTasks.Cli"), sources);
-        Pack(Path.Combine(sources, "tests", "fixtures", "yaml-task"), sources);
+        CopySources(Sources);
+        Directory.CreateDirectory(Home);
+        var pack = ReadmeInstall.FromRepository().PackLine;
+        var (packed, stdout, stderr) = ProcessRunner.Run("bash", ["-c", pack], Sources, ShellEnvironment(Home, Packages), timeoutSeconds: 900);
+        if (packed != 0) throw new InvalidOperationException($"{pack} exited {packed}:\n{stdout}{stderr}");
+        Pack(Path.Combine(Sources, "tests", "fixtures", "yaml-task"), Sources);
 
         Dotnet(Root, "new", "install", Path.Combine(Feed, $"GateTasks.Templates.{Version}.nupkg"), "--debug:custom-hive", Hive);
 
@@ -36,6 +41,13 @@ public sealed class PackageFeed : IDisposable
     }
 
     public string Root { get; }
+
+    /// <summary>The home folder ($HOME) the README's packing line ran with; the feed is its 'gatetasks-feed'.</summary>
+    public string Home { get; }
+
+    /// <summary>The copy of the repository's sources the packages were packed from (a clone, for the README's lines).</summary>
+    public string Sources { get; }
+
     public string Feed { get; }
     public string Hive { get; }
     public string Packages { get; }
@@ -63,6 +75,19 @@ public sealed class PackageFeed : IDisposable
         return (code, stdout + stderr);
     }
 
+    /// <summary>
+    /// The environment of a shell running the README's lines: the given home folder and package folder, and neither
+    /// build nodes nor compiler servers that would outlive the command (they would hold its output open).
+    /// </summary>
+    public static IReadOnlyDictionary<string, string> ShellEnvironment(string home, string packages) => new Dictionary<string, string>
+    {
+        ["HOME"] = home,
+        ["DOTNET_CLI_HOME"] = home,
+        ["NUGET_PACKAGES"] = packages,
+        ["DOTNET_CLI_USE_MSBUILD_SERVER"] = "0",
+        ["UseSharedCompilation"] = "false",
+    };
+
     public void Dispose()
     {
         try { Directory.Delete(Root, recursive: true); } catch (IOException) { } catch (UnauthorizedAccessException) { }
@@ -75,12 +100,15 @@ public sealed class PackageFeed : IDisposable
     private static void CopySources(string to)
     {
         var root = RepositoryRoot.Path;
-        foreach (var f in new[] { "Directory.Build.props", "Directory.Build.targets", "Directory.Packages.props", "global.json", "nuget.config", "README.md" })
+        foreach (var f in new[] { "Directory.Build.props", "Directory.Build.targets", "Directory.Packages.props", "global.json", "nuget.config", "README.md", "GateTasks.sln", "GateTasks.Packages.slnf" })
             if (File.Exists(Path.Combine(root, f))) CopyFile(Path.Combine(root, f), Path.Combine(to, f));
         CopyFile(Path.Combine(root, "docs", "precision-contract.schema.json"), Path.Combine(to, "docs", "precision-contract.schema.json"));
         foreach (var folder in new[] { "src", "templates", Path.Combine("tests", "fixtures", "yaml-task") })
             CopyTree(Path.Combine(root, folder), Path.Combine(to, folder));
     }
+
+    private static string RepositoryVersion() =>
+        System.Xml.Linq.XDocument.Load(Path.Combine(RepositoryRoot.Path, "Directory.Build.props")).Descendants("Version").First().Value;
 
     private static void CopyTree(string from, string to)
     {
