@@ -12,7 +12,10 @@ namespace GateTasks.Engine.Accumulation;
 internal sealed class PairCorrelation(CorrelationSpec spec, int first, int second, MarginalCdf firstCdf, MarginalCdf secondCdf,
     Histogram2D? joint = null)
 {
-    /// <summary>The pair's 2-D histogram, when its χ² test is asked for: a per-batch buffer, added exactly into the cells below.</summary>
+    /// <summary>
+    /// The pair's 2-D histogram on its <see cref="PairGrid"/> (the features' axes for a χ² test, else the coarse map
+    /// grid): a per-batch buffer, added exactly into the cells below. Null only where a caller gathers no cells.
+    /// </summary>
     public Histogram2D? Joint { get; } = joint;
 
     private readonly ExactCells? _cells = joint is null ? null : new ExactCells(joint.CellCount);
