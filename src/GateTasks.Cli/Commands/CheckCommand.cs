@@ -145,6 +145,8 @@ internal static class CheckCommand
             UnfinishedReport.MarkRunning(reports, contractPath, started);
             if (pending is not null) throw pending;
             paths.VerifyInputs();
+            // Made before the sample is read, so a folder that cannot be stops the run at once.
+            if (plots is not null) PlotFolder.Create(plots);
             return Check(loaded!, samplePath, partials, baseRevision, reports, output, plots);
         }
         catch (GateInputException e)

@@ -41,9 +41,9 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
             var w = weights.IsEmpty ? 1.0 : weights[r];
             (_x[kept], _y[kept], _u[kept], _v[kept], _w[kept]) = (x[r], y[r], firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
             kept++;
-            Joint?.Fill(x[r], y[r], w);
         }
         var ws = weights.IsEmpty ? ReadOnlySpan<double>.Empty : _w.AsSpan(0, kept);
+        Joint?.Fill(_x.AsSpan(0, kept), _y.AsSpan(0, kept), ws);
         _pearson.AddBatch(_x.AsSpan(0, kept), _y.AsSpan(0, kept), ws);
         _spearman.AddBatch(_u.AsSpan(0, kept), _v.AsSpan(0, kept), ws);
         if (Joint is not null) Joint.MoveCellsInto(_cells!);

@@ -46,8 +46,8 @@ internal static class PlotFolder
             new SourceLocation(full));
     }
 
-    /// <summary>Creates the folder if needed (GATE0019 when it cannot be) and writes every planned plot; returns the files written.</summary>
-    public static IReadOnlyList<string> Write(RunResult report, string folder)
+    /// <summary>GATE0018 unless <paramref name="folder"/> is a folder or a new path; creates it if new (GATE0019 when it cannot be).</summary>
+    public static void Create(string folder)
     {
         VerifyFolder(folder);
         var full = Path.GetFullPath(folder);
@@ -59,6 +59,13 @@ internal static class PlotFolder
         {
             throw new GateInputException(ErrorCodes.PlotsFolderNotCreated, $"Cannot create the plots folder '{full}': {e.Message}", new SourceLocation(full));
         }
+    }
+
+    /// <summary>Creates the folder if needed (<see cref="Create"/>) and writes every planned plot; returns the files written.</summary>
+    public static IReadOnlyList<string> Write(RunResult report, string folder)
+    {
+        Create(folder);
+        var full = Path.GetFullPath(folder);
         var written = new List<string>();
         var comparisons = report.Comparisons.ToDictionary(c => c.Spec.Name, StringComparer.Ordinal);
         var pairs = report.Contract.Pairs.ToDictionary(p => p.Name, StringComparer.Ordinal);
