@@ -84,6 +84,28 @@ public sealed class PairMapTests
     }
 
     [Fact]
+    public void Cells_filled_on_the_features_axes_and_merged_equal_cells_filled_on_the_map_grid()
+    {
+        // The program against itself: the same events filled on 30 uneven bins per axis (flows and values on edges
+        // included) and merged, and filled directly on the map grid, give the same counts cell by cell.
+        var edges = Enumerable.Range(0, 31).Select(i => i * i / 30.0).ToList();
+        var axis = Axis.FromEdges(edges);
+        var random = new Random(7);
+        var x = Enumerable.Range(0, 20_000).Select(i => i % 97 == 0 ? edges[i % 31] : random.NextDouble() * 34 - 2).ToArray();
+        var y = Enumerable.Range(0, 20_000).Select(_ => random.NextDouble() * 34 - 2).ToArray();
+        var fine = new Histogram2D(axis, axis);
+        var map = PairGrid.For(Pair, axis, axis);
+        fine.Fill(x, y, ReadOnlySpan<double>.Empty);
+        map.Fill(x, y, ReadOnlySpan<double>.Empty);
+        var fineCells = new ExactCells(fine.CellCount);
+        var mapCells = new ExactCells(map.CellCount);
+        fine.MoveCellsInto(fineCells);
+        map.MoveCellsInto(mapCells);
+        Assert.Equal(mapCells.SumW(), PairGrid.Coarsen(fineCells.SumW(), axis, axis));
+        Assert.Equal(20_000, mapCells.SumW().Sum());
+    }
+
+    [Fact]
     public void A_pair_without_a_chi2_test_gathers_at_most_the_map_grids_196_cells()
     {
         var fine = Axis.FromEdges(Enumerable.Range(0, 101).Select(i => (double)i).ToList());
