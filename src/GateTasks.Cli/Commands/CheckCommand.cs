@@ -59,7 +59,7 @@ internal static class CheckCommand
     }
 
     private static int Run(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
-        CommandOutput output, string? plots = null)
+        CommandOutput output, string? plots)
     {
         // A run that reaches no verdict says so on the record stream; the console says it with the error line alone.
         var finished = false;
