@@ -16,9 +16,10 @@ public partial class DemoEndToEndTests
         {
             var html = File.ReadAllText(Path.Combine(Reports, name + ".html"));
             Assert.Contains($"id=\"overall\">{verdict}<", html);
-            // 16 features (the category shares among them) have histograms to plot; the pairs and the joint test have none.
-            // Besides, each of the 20 subjects has a headroom trend panel: the demo's ledger holds an entry with results.
-            Assert.Equal(16 + 20, Regex.Matches(html, "<svg[ >]").Count);
+            // 16 features (the category shares among them) have histograms to plot; the 4 pairs a 2-D map each (one SVG of
+            // three nested panels); the joint test has none. Besides, each of the 20 subjects has a headroom trend panel:
+            // the demo's ledger holds an entry with results.
+            Assert.Equal(16 + 4 * 4 + 20, Regex.Matches(html, "<svg[ >]").Count);
             Assert.Equal(20, Regex.Matches(html, "<figure class=\"plot trend\"").Count);
             Assert.True(new FileInfo(Path.Combine(Reports, name + ".html")).Length < 3_000_000, "the HTML report should stay a few MB at most");
             Assert.StartsWith($"### GateTasks check {verdict}: demo-diphoton", File.ReadAllText(Path.Combine(Reports, name + ".md")));
@@ -106,7 +107,10 @@ public partial class DemoEndToEndTests
         Assert.Contains($"data-report-ready=\"{sections}\"", root);
         Assert.DoesNotContain("data-script-error", root);
         Assert.Contains("<div class=\"controls\" id=\"controls\">", dom); // the script revealed the filter buttons
-        Assert.Equal(16 + 20, Regex.Matches(dom, "<svg[ >]").Count); // feature plots and headroom trend panels
+        // 16 feature plots, 4 pair maps of one SVG holding three panels each, and 20 headroom trend panels.
+        Assert.Equal(16, Regex.Matches(dom, "<figure class=\"plot\"").Count);
+        Assert.Equal(4, Regex.Matches(dom, "<figure class=\"pairmap\"").Count);
+        Assert.Equal(16 + 4 * 4 + 20, Regex.Matches(dom, "<svg[ >]").Count);
         Assert.Matches("<section class=\"subject fail\" id=\"f-m_gg\"", dom);
 
         var png = Path.Combine(demo.Folder, "drifted.png");

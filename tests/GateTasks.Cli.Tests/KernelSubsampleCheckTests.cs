@@ -156,7 +156,7 @@ public sealed class KernelSubsampleCheckTests : IDisposable
         // docs/error-codes.md: GATE2201, a partial of another version, filled again.
         Assert.True(code == 2, stdout + stderr);
         Assert.Contains("error GATE2201", stderr);
-        Assert.Contains("Partial file version 8; this GateTasks reads version 9", stderr);
+        Assert.Contains("Partial file version 8; this GateTasks reads version 10", stderr);
         Assert.Contains("the kernel distance's subsample rows", stderr);
         Assert.Contains("fill it again", stderr);
     }

@@ -273,13 +273,13 @@ public sealed class ShardIntegrityTests : IDisposable
 
     private static JsonArray Cell(JsonObject accumulation, int feature, string sums, int cell) => Histogram(accumulation, feature)[sums]![cell]!.AsArray();
 
-    /// <summary>The seal as docs/shards.md defines it: SHA-256 of "gatetasks.partial\n9\n" (version 9) and the content written compactly.</summary>
+    /// <summary>The seal as docs/shards.md defines it: SHA-256 of "gatetasks.partial\n10\n" (version 10) and the content written compactly.</summary>
     private static void Reseal(JsonObject root)
     {
         if (root["content"] is not JsonObject content) return; // a format without a seal
         using var document = JsonDocument.Parse(content.ToJsonString());
         using var buffer = new MemoryStream();
-        buffer.Write(Encoding.UTF8.GetBytes("gatetasks.partial\n9\n"));
+        buffer.Write(Encoding.UTF8.GetBytes("gatetasks.partial\n10\n"));
         using (var writer = new Utf8JsonWriter(buffer)) document.RootElement.WriteTo(writer);
         root["seal_sha256"] = Convert.ToHexString(SHA256.HashData(buffer.ToArray())).ToLowerInvariant();
     }

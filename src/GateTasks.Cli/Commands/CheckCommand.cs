@@ -35,6 +35,11 @@ internal static class CheckCommand
             HelpName = "FILE",
             Description = "Also write a Markdown summary (for a pull-request comment or CI job summary) to this path.",
         }.NotEmpty();
+        var plots = new Option<string?>("--plots")
+        {
+            HelpName = "DIR",
+            Description = "Also write each feature's plot and each declared pair's 2-D map as a standalone SVG file into this folder (created if new).",
+        }.NotEmpty();
         var partials = new Option<string[]>("--partials")
         {
             HelpName = "FILES",
@@ -44,23 +49,23 @@ internal static class CheckCommand
         var baseRevision = SharedOptions.BaseRevision();
         var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: passed; 1: a check failed; 2: input error; 4: not accepted (the contract, reference or ledger in use is not the accepted state; see the ledger errors); 5: undecided (no check failed, some could not decide).")
         {
-            contract, sample, junit, text, html, markdown, partials, baseRevision,
+            contract, sample, junit, text, html, markdown, plots, partials, baseRevision,
         };
         command.SetAction(parse => CliApp.Guard(output, () =>
             Run(parse.GetValue(contract)!, parse.GetValue(sample), parse.GetValue(partials), parse.GetValue(baseRevision),
                 new UnfinishedReport.Paths(parse.GetValue(junit), parse.GetValue(text), parse.GetValue(html), parse.GetValue(markdown)),
-                output)));
+                output, parse.GetValue(plots))));
         return command;
     }
 
     private static int Run(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
-        CommandOutput output)
+        CommandOutput output, string? plots)
     {
         // A run that reaches no verdict says so on the record stream; the console says it with the error line alone.
         var finished = false;
         try
         {
-            var exit = Execute(contractPath, samplePath, partials, baseRevision, reports, output);
+            var exit = Execute(contractPath, samplePath, partials, baseRevision, reports, output, plots);
             finished = true;
             return exit;
         }
@@ -80,7 +85,7 @@ internal static class CheckCommand
     }
 
     private static int Execute(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
-        CommandOutput output)
+        CommandOutput output, string? plots)
     {
         var started = DateTimeOffset.UtcNow;
         // Every file the check reads, found without reading any at length; an input error here is held until the
@@ -115,6 +120,12 @@ internal static class CheckCommand
         // requested report still loses its earlier verdict and says why the run stopped.
         try
         {
+            // The plots folder must be a folder; its files, named from the contract, are outputs like the reports.
+            if (plots is not null)
+            {
+                PlotFolder.VerifyFolder(plots);
+                if (loaded is not null) foreach (var file in PlotFolder.Paths(loaded, plots)) paths.Write(file, $"--plots file '{Path.GetFileName(file)}'");
+            }
             paths.VerifyOutputs();
         }
         catch (GateInputException e)
@@ -134,7 +145,9 @@ internal static class CheckCommand
             UnfinishedReport.MarkRunning(reports, contractPath, started);
             if (pending is not null) throw pending;
             paths.VerifyInputs();
-            return Check(loaded!, samplePath, partials, baseRevision, reports, output);
+            // Made before the sample is read, so a folder that cannot be stops the run at once.
+            if (plots is not null) PlotFolder.Create(plots);
+            return Check(loaded!, samplePath, partials, baseRevision, reports, output, plots);
         }
         catch (GateInputException e)
         {
@@ -150,7 +163,7 @@ internal static class CheckCommand
     }
 
     private static int Check(PrecisionContract loaded, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
-        CommandOutput output)
+        CommandOutput output, string? plots)
     {
         // Before the sample is read: an unknown base revision stops the run at once.
         var history = SharedOptions.CheckHistory(loaded, baseRevision);
@@ -174,6 +187,8 @@ internal static class CheckCommand
             MarkdownSummary.Write(markdownPath, report);
             written.Add($"Markdown summary: {Path.GetFullPath(markdownPath)}");
         }
+        if (plots is not null)
+            written.Add($"plots: {PlotFolder.Write(report, plots).Count} SVG files in {Path.GetFullPath(plots)}");
         var exit = Print(report, reports.JUnit, output);
         foreach (var line in written) output.Detail(line);
         return exit;

@@ -28,7 +28,8 @@ internal sealed record AccumulatedFeature(Histogram Histogram, FeatureSummary Su
 /// <summary>
 /// One declared pair, finished: Pearson's r, Spearman's ρ (the Pearson correlation of the reference-CDF ranks), the
 /// Kish effective count of the pairs used, each coefficient's asymptotic variance n·Var
-/// (<see cref="Statistics.WeightedCorrelation.AsymptoticVariance"/>), and the 2-D cells when its χ² test is asked for.
+/// (<see cref="Statistics.WeightedCorrelation.AsymptoticVariance"/>), and its 2-D cells on its <see cref="PairGrid"/>
+/// (null only from a pass that gathers none, as a planning or calibration replica).
 /// </summary>
 internal sealed record AccumulatedPair(CorrelationSpec Spec, double Pearson, double Spearman, double EffectiveCount,
     double PearsonVariance, double SpearmanVariance, CellSums? Cells);

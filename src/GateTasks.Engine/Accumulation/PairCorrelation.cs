@@ -12,7 +12,10 @@ namespace GateTasks.Engine.Accumulation;
 internal sealed class PairCorrelation(CorrelationSpec spec, int first, int second, MarginalCdf firstCdf, MarginalCdf secondCdf,
     Histogram2D? joint = null)
 {
-    /// <summary>The pair's 2-D histogram, when its χ² test is asked for: a per-batch buffer, added exactly into the cells below.</summary>
+    /// <summary>
+    /// The pair's 2-D histogram on its <see cref="PairGrid"/> (the features' axes for a χ² test, else the coarse map
+    /// grid): a per-batch buffer, added exactly into the cells below. Null only where a caller gathers no cells.
+    /// </summary>
     public Histogram2D? Joint { get; } = joint;
 
     private readonly ExactCells? _cells = joint is null ? null : new ExactCells(joint.CellCount);
@@ -38,9 +41,9 @@ internal sealed class PairCorrelation(CorrelationSpec spec, int first, int secon
             var w = weights.IsEmpty ? 1.0 : weights[r];
             (_x[kept], _y[kept], _u[kept], _v[kept], _w[kept]) = (x[r], y[r], firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
             kept++;
-            Joint?.Fill(x[r], y[r], w);
         }
         var ws = weights.IsEmpty ? ReadOnlySpan<double>.Empty : _w.AsSpan(0, kept);
+        Joint?.Fill(_x.AsSpan(0, kept), _y.AsSpan(0, kept), ws);
         _pearson.AddBatch(_x.AsSpan(0, kept), _y.AsSpan(0, kept), ws);
         _spearman.AddBatch(_u.AsSpan(0, kept), _v.AsSpan(0, kept), ws);
         if (Joint is not null) Joint.MoveCellsInto(_cells!);

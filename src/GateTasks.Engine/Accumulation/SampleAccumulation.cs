@@ -61,7 +61,7 @@ internal sealed class SampleAccumulation
         }
         _pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
             new MarginalCdf(layouts[index[p.First]].Reference), new MarginalCdf(layouts[index[p.Second]].Reference),
-            p.Chi2 is null ? null : new Histogram2D(layouts[index[p.First]].Reference.Axis, layouts[index[p.Second]].Reference.Axis))).ToList();
+            PairGrid.For(p, layouts[index[p.First]].Reference.Axis, layouts[index[p.Second]].Reference.Axis))).ToList();
     }
 
     public PrecisionContract Contract { get; }

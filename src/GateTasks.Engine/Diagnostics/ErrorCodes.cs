@@ -21,6 +21,10 @@ public static class ErrorCodes
     public const string InputNotRegular = "GATE0006";
     /// <summary>A contract file larger than a contract can sensibly be.</summary>
     public const string ContractTooLarge = "GATE0007";
+    /// <summary><c>check --plots</c> names something other than a folder or a new path (a file, an input of the run included, a device, a pipe).</summary>
+    public const string PlotsNotFolder = "GATE0018";
+    /// <summary>The folder <c>check --plots</c> names cannot be created.</summary>
+    public const string PlotsFolderNotCreated = "GATE0019";
 
     /// <summary>The contract file does not exist or cannot be read.</summary>
     public const string ContractNotFound = "GATE1001";

@@ -27,6 +27,23 @@ internal sealed class Histogram2D
 
     public long NanEntries { get; private set; }
 
+    /// <summary>
+    /// Adds a block of pairs, none NaN (weights empty: unit weights): each axis finds its cells for the whole block
+    /// (<see cref="Axis.Cells"/>), sparing a virtual call per value, then each pair adds to its cell.
+    /// </summary>
+    public void Fill(ReadOnlySpan<double> x, ReadOnlySpan<double> y, ReadOnlySpan<double> w)
+    {
+        if (_rows.Length < x.Length) (_rows, _columns) = (new int[x.Length], new int[x.Length]);
+        var rows = _rows.AsSpan(0, x.Length);
+        var columns = _columns.AsSpan(0, x.Length);
+        X.Cells(x, rows, 0);
+        Y.Cells(y, columns, 0);
+        var stride = Y.Count + 2;
+        for (var r = 0; r < rows.Length; r++) _storage.Add(rows[r] * stride + columns[r], w.IsEmpty ? 1.0 : w[r]);
+    }
+
+    private int[] _rows = [], _columns = [];
+
     public void Fill(double x, double y, double w = 1.0)
     {
         if (double.IsNaN(x) || double.IsNaN(y)) { NanEntries++; return; }

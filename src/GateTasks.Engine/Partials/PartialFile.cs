@@ -25,7 +25,7 @@ namespace GateTasks.Engine.Partials;
 internal static class PartialFile
 {
     public const string Format = "gatetasks.partial";
-    public const int Version = 9; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights; 6: correlation moments kept per sign of weight; 7: the joint block's streamed moments and kernel sums; 8: its sliced histograms with their grid's digest; 9: the kernel distance's subsample rows in place of its sums
+    public const int Version = 10; // 4: fine-grid cells of Wasserstein checks; 5: the joint subsample's rows carry their event weights; 6: correlation moments kept per sign of weight; 7: the joint block's streamed moments and kernel sums; 8: its sliced histograms with their grid's digest; 9: the kernel distance's subsample rows in place of its sums; 10: 2-D cells of every correlation pair (the map grid without a χ² test)
 
     /// <summary>A sample file counted in a partial: its path where it was filled (for messages) and the XXH128 of its bytes (its identity).</summary>
     internal sealed record CountedFile(string Path, string Xxh128);
@@ -145,7 +145,7 @@ internal static class PartialFile
                 var version = root.GetProperty("version").GetInt32();
                 if (version != Version)
                     throw new GateInputException(ErrorCodes.PartialUnreadable,
-                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights, correlation moments kept per sign of weight, the joint block's streamed moments and kernel sums, its sliced histograms with their grid's digest, and the kernel distance's subsample rows in place of the sample's kernel sums); fill it again.", at);
+                        $"Partial file version {version}; this GateTasks reads version {Version} (sealed, with content digests of the sample files, the fourth moments of each correlation pair, the fine-grid cells of each Wasserstein check and the joint subsample's event weights, correlation moments kept per sign of weight, the joint block's streamed moments and kernel sums, its sliced histograms with their grid's digest, the kernel distance's subsample rows in place of the sample's kernel sums, and the 2-D cells of every correlation pair); fill it again.", at);
                 var content = root.GetProperty("content");
                 var stated = root.GetProperty("seal_sha256").GetString();
                 var seal = Seal(content);

@@ -156,7 +156,7 @@ internal static class ReferenceBuilder
             var index = features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
             var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
                 new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram),
-                p.Chi2 is null ? null : new Histogram2D(result[index[p.First]].Histogram.Axis, result[index[p.Second]].Histogram.Axis))).ToList();
+                PairGrid.For(p, result[index[p.First]].Histogram.Axis, result[index[p.Second]].Histogram.Axis))).ToList();
             SampleStream.Run(sample, columns, weightColumn, new SpikeSeparation(features).Around((i, values, weights) =>
             {
                 farTail[i]?.Add(values, weights);

@@ -31,12 +31,13 @@ internal static class HtmlReport
           .Append("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n")
           .Append("<meta name=\"generator\" content=\"GateTasks ").Append(E(ToolVersion.Current)).Append("\">\n")
           .Append("<title>").Append(E($"{verdict} · {report.Contract.DisplayName} · GateTasks check")).Append("</title>\n")
-          .Append("<style>").Append(Style).Append("</style>\n</head>\n")
+          .Append("<style>").Append(Style).Append(PairMapPlot.Style).Append("</style>\n</head>\n")
           .Append("<body data-verdict=\"").Append(report.Outcome.Token()).Append("\">\n");
         Header(sb, report);
         Overview(sb, subjects, ids);
         sb.Append("<main>\n");
         foreach (var s in subjects) Section(sb, report, s, ids[s.Name]);
+        sb.Append(PairMapPlot.Section(report));
         Readings(sb, report);
         sb.Append("</main>\n");
         sb.Append("<footer>").Append(E(ResultTable.DecisionRule(report)))
@@ -188,7 +189,7 @@ internal static class HtmlReport
 
     private static string NoPlotNote(FeatureOutcomes s) => s.Outcomes[0].Subject switch
     {
-        PairSubject => "A declared pair of features: its correlations (or 2-D histogram) are compared directly, with no 1-D plot.",
+        PairSubject => "A declared pair of features: its correlations (or 2-D histogram) are compared directly; its 2-D map is under \"2-D maps of the declared pairs\".",
         JointSubject => "Distances over a feature set taken together (moments, kernel sums, projections), from every event: no 1-D plot.",
         _ => "No histogram to plot.",
     };

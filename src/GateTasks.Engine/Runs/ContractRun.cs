@@ -115,6 +115,7 @@ internal static class ContractRun
             accumulation.SumW2, evaluated.Outcomes, started, clock.Elapsed)
         {
             Comparisons = evaluated.Comparisons,
+            Pairs = accumulation.Pairs,
             Readings = evaluated.Readings,
             Score = evaluated.Score,
             Acceptance = Ledger.LedgerGuard.Verify(setup.Contract, setup.ReferenceSha256, evaluated.Outcomes),

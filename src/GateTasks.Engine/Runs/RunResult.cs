@@ -24,6 +24,9 @@ internal sealed record RunResult(
     /// <summary>Per feature, in contract order: the reference and the sample's histograms as they were compared (for plots).</summary>
     public IReadOnlyList<FeatureComparison> Comparisons { get; init; } = [];
 
+    /// <summary>Per declared pair, in contract order: the sample's correlations and 2-D cells as they were compared (for the pair maps).</summary>
+    public IReadOnlyList<Accumulation.AccumulatedPair> Pairs { get; init; } = [];
+
     /// <summary>The goodness-of-fit tests' readings, in contract order: diagnostics reported beside the verdict (<see cref="TestReading"/>).</summary>
     public IReadOnlyList<TestReading> Readings { get; init; } = [];
 
