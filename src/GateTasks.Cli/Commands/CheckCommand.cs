@@ -200,9 +200,10 @@ internal static class CheckCommand
         output.Detail($"reference {report.ReferencePath} (sha256 {report.ReferenceSha256[..12]}…)");
         output.Detail($"sample    {string.Join(", ", report.SampleFiles)}");
         output.Out.WriteLine();
-        if (allChecks)
+        var table = allChecks ? ResultTable.Format(report) : ResultTable.Compact(report);
+        if (table.Length > 0)
         {
-            output.DetailBlock(ResultTable.Format(report));
+            output.DetailBlock(table);
             output.Out.WriteLine();
         }
         foreach (var d in RunDiagnostics.Of(report)) output.Diagnostic(d);

@@ -52,6 +52,19 @@ internal static class ResultTable
         return sb.ToString();
     }
 
+    /// <summary>
+    /// What the console's compact form keeps of the table (<c>check</c> without <c>--all-checks</c>): the notes on
+    /// how kernel distances were subsampled and the goodness-of-fit readings, which qualify the verdict; empty when
+    /// there are none. The rows of the checks and the flows are left to the full table.
+    /// </summary>
+    public static string Compact(RunResult report)
+    {
+        var sb = new StringBuilder();
+        KernelRows(sb, report);
+        Readings(sb, report);
+        return sb.ToString();
+    }
+
     /// <summary>How many sample rows each kernel distance was computed on: its seeded subsample of at most kernel-rows.</summary>
     private static void KernelRows(StringBuilder sb, RunResult report)
     {
