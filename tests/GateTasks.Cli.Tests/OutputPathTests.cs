@@ -78,7 +78,7 @@ public sealed class OutputPathTests : IDisposable
         { "accept into a ledger that is the contract", "ledger-is-contract.yaml", ["accept", "--contract", "ledger-is-contract.yaml", "--reason", "r", "--by", "t"] },
         { "check --json over the contract", "contract.yaml", ["check", "--contract", "contract.yaml", "--json", "contract.yaml"] },
         { "check --json over the sample", "sample.csv", ["check", "--contract", "contract.yaml", "--json", "sample.csv"] },
-        { "accept --json over the ledger it writes", "contract.ledger", ["accept", "--contract", "contract.yaml", "--reason", "r", "--by", "t", "--json", "contract.ledger"] },
+        { "accept --json over the reference", "reference.parquet", ["accept", "--contract", "contract.yaml", "--reason", "r", "--by", "t", "--json", "reference.parquet"] },
         { "accept --json over the sample", "sample.csv", ["accept", "--contract", "contract.yaml", "--reason", "r", "--by", "t", "--json", "sample.csv"] },
         { "plan --json over the reference", "reference.parquet", ["plan", "--contract", "contract.yaml", "--replicas", "20", "--json", "reference.parquet"] },
         { "rank --json over a candidate", "other.csv", ["rank", "--contract", "contract.yaml", "sample.csv", "other.csv", "--json", "other.csv"] },

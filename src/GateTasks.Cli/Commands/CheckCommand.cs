@@ -225,8 +225,9 @@ internal static class CheckCommand
         var binding = BindingChecks.Of(report);
         if (binding.Count > 0)
         {
-            output.Summary(BindingChecks.Heading(binding.Count));
-            foreach (var (o, h) in binding) output.Summary("  " + BindingChecks.Line(o, h));
+            // Notes, not summaries: the verdict stays the one summary line (the build step logs notes at normal verbosity).
+            output.Note(BindingChecks.Heading(binding.Count));
+            foreach (var (o, h) in binding) output.Note("  " + BindingChecks.Line(o, h));
         }
         output.Outcome(report.Outcome);
         return ExitCode(report.Outcome);
