@@ -58,7 +58,8 @@ public sealed class GateRun : EngineTask
     {
         var planned = ReportItems(contract, reportBase).ToList();
         string PathOf(string kind) => planned.First(r => r.GetMetadata("Kind") == kind).ItemSpec;
-        var args = new List<string> { "check", "--contract", contract, "--junit", PathOf("junit"), "--text", PathOf("text"), "--html", PathOf("html"), "--markdown", PathOf("markdown") };
+        // --all-checks: the full table goes to the detailed log, as before; the verdict and the binding checks under it are logged at every verbosity.
+        var args = new List<string> { "check", "--contract", contract, "--all-checks", "--junit", PathOf("junit"), "--text", PathOf("text"), "--html", PathOf("html"), "--markdown", PathOf("markdown") };
         AddSample(args);
         if (!string.IsNullOrWhiteSpace(BaseRevision)) args.AddRange(new[] { "--base-revision", BaseRevision!.Trim() });
 

@@ -76,16 +76,17 @@ public partial class DemoEndToEndTests
         var (exit, stdout, stderr) = ExternalPython.Run(script, [Path.Combine(Reports, "drifted.md")]);
         Assert.True(exit == 0, stderr);
         var rows = stdout.Split('\n', StringSplitOptions.RemoveEmptyEntries).Select(r => r.Split('\t')).ToList();
-        Assert.Equal(["feature", "check", "region", "estimate", "tolerance", "verdict"], rows[0]);
-        Assert.All(rows, r => Assert.Equal(6, r.Length));
+        // "used": each check's share of its tolerance (upper bound's, the estimate's in brackets).
+        Assert.Equal(["feature", "check", "region", "estimate", "tolerance", "used", "verdict"], rows[0]);
+        Assert.All(rows, r => Assert.Equal(7, r.Length));
         // 10 failed and 5 inconclusive checks (as the drifted demo's JUnit report and build-step test count them).
         // delta_phi's wasserstein-max, inconclusive at W1/σ 0.0197 on the coarse bins, reads 0.0143 on the reference's
         // fine grid and passes its tolerance of 0.02.
         Assert.Equal(15, rows.Count - 1);
-        Assert.Contains(rows, r => r[0] == "m_gg" && r[1] == "ratio-max" && r[2] == "core" && r[4] == "≤ 0.03" && r[5] == "FAIL*");
+        Assert.Contains(rows, r => r[0] == "m_gg" && r[1] == "ratio-max" && r[2] == "core" && r[4] == "≤ 0.03" && r[5] == ">1000% (>1000%)" && r[6] == "FAIL*");
         // The demo's contract holds tolerance checks only: no goodness-of-fit test stands among the verdicts.
         Assert.DoesNotContain(rows, r => r[1].EndsWith("-test", StringComparison.Ordinal));
-        Assert.Contains(rows, r => r[0] == "et_ratio" && r[2] == "core" && r[5].StartsWith("inconclusive", StringComparison.Ordinal));
+        Assert.Contains(rows, r => r[0] == "et_ratio" && r[2] == "core" && r[6].StartsWith("inconclusive", StringComparison.Ordinal));
     }
 
     /// <summary>

@@ -76,6 +76,12 @@ public sealed class OutputPathTests : IDisposable
         { "rank --csv over a candidate", "sample.csv", ["rank", "--contract", "contract.yaml", "sample.csv", "other.csv", "--csv", "sample.csv"] },
         { "rank --json over the ledger", "contract.ledger", ["rank", "--contract", "contract.yaml", "sample.csv", "--json", "contract.ledger"] },
         { "accept into a ledger that is the contract", "ledger-is-contract.yaml", ["accept", "--contract", "ledger-is-contract.yaml", "--reason", "r", "--by", "t"] },
+        { "check --json over the contract", "contract.yaml", ["check", "--contract", "contract.yaml", "--json", "contract.yaml"] },
+        { "check --json over the sample", "sample.csv", ["check", "--contract", "contract.yaml", "--json", "sample.csv"] },
+        { "accept --json over the reference", "reference.parquet", ["accept", "--contract", "contract.yaml", "--reason", "r", "--by", "t", "--json", "reference.parquet"] },
+        { "accept --json over the sample", "sample.csv", ["accept", "--contract", "contract.yaml", "--reason", "r", "--by", "t", "--json", "sample.csv"] },
+        { "plan --json over the reference", "reference.parquet", ["plan", "--contract", "contract.yaml", "--replicas", "20", "--json", "reference.parquet"] },
+        { "rank --json over a candidate", "other.csv", ["rank", "--contract", "contract.yaml", "sample.csv", "other.csv", "--json", "other.csv"] },
     };
 
     [Theory]

@@ -40,6 +40,11 @@ internal static class CheckCommand
             HelpName = "DIR",
             Description = "Also write each feature's plot and each declared pair's 2-D map as a standalone SVG file into this folder (created if new).",
         }.NotEmpty();
+        var json = SharedOptions.Json("check");
+        var allChecks = new Option<bool>("--all-checks")
+        {
+            Description = "Print the full table of checks (failures and undecided first) instead of the compact summary: verdict, counts, binding checks, failures.",
+        };
         var partials = new Option<string[]>("--partials")
         {
             HelpName = "FILES",
@@ -49,23 +54,23 @@ internal static class CheckCommand
         var baseRevision = SharedOptions.BaseRevision();
         var command = new Command("check", "Check a surrogate sample against the reference under the contract's tolerances. Exit 0: passed; 1: a check failed; 2: input error; 4: not accepted (the contract, reference or ledger in use is not the accepted state; see the ledger errors); 5: undecided (no check failed, some could not decide).")
         {
-            contract, sample, junit, text, html, markdown, plots, partials, baseRevision,
+            contract, sample, junit, text, html, markdown, json, allChecks, plots, partials, baseRevision,
         };
         command.SetAction(parse => CliApp.Guard(output, () =>
             Run(parse.GetValue(contract)!, parse.GetValue(sample), parse.GetValue(partials), parse.GetValue(baseRevision),
-                new UnfinishedReport.Paths(parse.GetValue(junit), parse.GetValue(text), parse.GetValue(html), parse.GetValue(markdown)),
-                output, parse.GetValue(plots))));
+                new UnfinishedReport.Paths(parse.GetValue(junit), parse.GetValue(text), parse.GetValue(html), parse.GetValue(markdown), parse.GetValue(json)),
+                parse.GetValue(allChecks), output, parse.GetValue(plots))));
         return command;
     }
 
     private static int Run(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
-        CommandOutput output, string? plots)
+        bool allChecks, CommandOutput output, string? plots)
     {
         // A run that reaches no verdict says so on the record stream; the console says it with the error line alone.
         var finished = false;
         try
         {
-            var exit = Execute(contractPath, samplePath, partials, baseRevision, reports, output, plots);
+            var exit = Execute(contractPath, samplePath, partials, baseRevision, reports, allChecks, output, plots);
             finished = true;
             return exit;
         }
@@ -79,19 +84,19 @@ internal static class CheckCommand
     // The reports a run leaves (its own, or the "did not finish" form), each a record for the build step.
     private static void Announce(UnfinishedReport.Paths reports, CommandOutput output)
     {
-        (string Kind, string? Path)[] all = [("junit", reports.JUnit), ("text", reports.Text), ("html", reports.Html), ("markdown", reports.Markdown)];
+        (string Kind, string? Path)[] all = [("junit", reports.JUnit), ("text", reports.Text), ("html", reports.Html), ("markdown", reports.Markdown), ("json", reports.Json)];
         foreach (var (kind, path) in all)
             if (path is not null && File.Exists(path)) output.Report(kind, path);
     }
 
     private static int Execute(string contractPath, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
-        CommandOutput output, string? plots)
+        bool allChecks, CommandOutput output, string? plots)
     {
         var started = DateTimeOffset.UtcNow;
         // Every file the check reads, found without reading any at length; an input error here is held until the
         // reports are cleared, so that it is what they say.
         var paths = new RunPaths().Write(reports.JUnit, "--junit").Write(reports.Text, "--text").Write(reports.Html, "--html")
-            .Write(reports.Markdown, "--markdown").Read(contractPath, "the contract");
+            .Write(reports.Markdown, "--markdown").Write(reports.Json, "--json").Read(contractPath, "the contract");
         PrecisionContract? loaded = null;
         GateInputException? pending = null;
         try
@@ -131,7 +136,7 @@ internal static class CheckCommand
         catch (GateInputException e)
         {
             string? Safe(string? path) => paths.CanWriteAlone(path) ? path : null;
-            var others = new UnfinishedReport.Paths(Safe(reports.JUnit), Safe(reports.Text), Safe(reports.Html), Safe(reports.Markdown));
+            var others = new UnfinishedReport.Paths(Safe(reports.JUnit), Safe(reports.Text), Safe(reports.Html), Safe(reports.Markdown), Safe(reports.Json));
             UnfinishedReport.Clear(others);
             UnfinishedReport.MarkFailed(others, contractPath, started, e);
             throw;
@@ -147,7 +152,7 @@ internal static class CheckCommand
             paths.VerifyInputs();
             // Made before the sample is read, so a folder that cannot be stops the run at once.
             if (plots is not null) PlotFolder.Create(plots);
-            return Check(loaded!, samplePath, partials, baseRevision, reports, output, plots);
+            return Check(loaded!, samplePath, partials, baseRevision, reports, allChecks, output, plots);
         }
         catch (GateInputException e)
         {
@@ -163,7 +168,7 @@ internal static class CheckCommand
     }
 
     private static int Check(PrecisionContract loaded, string? samplePath, string[]? partials, string? baseRevision, UnfinishedReport.Paths reports,
-        CommandOutput output, string? plots)
+        bool allChecks, CommandOutput output, string? plots)
     {
         // Before the sample is read: an unknown base revision stops the run at once.
         var history = SharedOptions.CheckHistory(loaded, baseRevision);
@@ -189,20 +194,33 @@ internal static class CheckCommand
         }
         if (plots is not null)
             written.Add($"plots: {PlotFolder.Write(report, plots).Count} SVG files in {Path.GetFullPath(plots)}");
-        var exit = Print(report, reports.JUnit, output);
+        if (reports.Json is { } jsonPath)
+        {
+            ResultJson.Write(jsonPath, report);
+            written.Add($"JSON result: {Path.GetFullPath(jsonPath)}");
+        }
+        var exit = Print(report, reports.JUnit, output, allChecks);
         foreach (var line in written) output.Detail(line);
         return exit;
     }
 
-    /// <summary>Prints the table, one diagnostic line per failed check, the summary; writes the JUnit report.</summary>
-    public static int Print(RunResult report, string? junitPath, CommandOutput output)
+    /// <summary>
+    /// Prints the run: the files compared, the full table when <paramref name="allChecks"/>, one coded message per
+    /// failed then undecided check, the verdict line with the counts and, right under it, the binding checks; writes
+    /// the JUnit report.
+    /// </summary>
+    public static int Print(RunResult report, string? junitPath, CommandOutput output, bool allChecks = false)
     {
         output.Detail($"contract  {report.Contract.FilePath}");
         output.Detail($"reference {report.ReferencePath} (sha256 {report.ReferenceSha256[..12]}…)");
         output.Detail($"sample    {string.Join(", ", report.SampleFiles)}");
         output.Out.WriteLine();
-        output.DetailBlock(ResultTable.Format(report));
-        output.Out.WriteLine();
+        var table = allChecks ? ResultTable.Format(report) : ResultTable.Compact(report);
+        if (table.Length > 0)
+        {
+            output.DetailBlock(table);
+            output.Out.WriteLine();
+        }
         foreach (var d in RunDiagnostics.Of(report)) output.Diagnostic(d);
         // NaN and ±∞ the contract allows are still counted, and said.
         foreach (var c in report.Comparisons.Where(c => c.SurrogateSummary.NonFiniteCount > 0))
@@ -215,9 +233,17 @@ internal static class CheckCommand
         }
         // Just above the verdict line, not a verdict: a note (the build step shows it at normal verbosity).
         output.Note(ResultTable.ScoreLine(report));
+        if (!allChecks) output.Detail($"The table of all {report.Outcomes.Count} checks, with each one's share of its tolerance: --all-checks (or --text FILE, --html FILE, --json FILE).");
         output.Summary(ResultTable.Summary(report));
         if (!report.AcceptanceHolds)
             output.Summary($"NOT ACCEPTED: {report.Acceptance.Count(f => f.IsError)} ledger error(s) above; the contract or reference in use is not the accepted one.");
+        var binding = BindingChecks.Of(report);
+        if (binding.Count > 0)
+        {
+            // Notes, not summaries: the verdict stays the one summary line (the build step logs notes at normal verbosity).
+            output.Note(BindingChecks.Heading(binding.Count));
+            foreach (var (o, h) in binding) output.Note("  " + BindingChecks.Line(o, h));
+        }
         output.Outcome(report.Outcome);
         return ExitCode(report.Outcome);
     }

@@ -22,14 +22,15 @@ internal static class PlanCommand
         var power = new Option<double>("--power") { HelpName = "PROBABILITY", Description = "Probability with which a detectable drift must fail its check.", DefaultValueFactory = _ => 0.95 };
         var seed = new Option<int>("--seed") { HelpName = "N", Description = "Seed of the simulation.", DefaultValueFactory = _ => 1 };
         var markdown = new Option<string?>("--markdown") { HelpName = "FILE", Description = "Also write the plan to this Markdown file." }.NotEmpty();
+        var json = SharedOptions.Json("plan");
         var command = new Command("plan", "Plan the surrogate sample size: per check the events a perfect surrogate needs to pass and the smallest drift caught at a given size, by simulation from the reference.")
         {
-            contract, events, replicas, power, seed, markdown,
+            contract, events, replicas, power, seed, markdown, json,
         };
-        command.SetAction(parse => CliApp.Guard(stderr, () =>
+        command.SetAction(parse => CliApp.Guard(stderr, () => ResultJsonRun.Run(parse.GetValue(json), "plan", parse.GetValue(contract)!,
+            c => new RunPaths().Contract(c).Write(parse.GetValue(markdown), "--markdown"),
+            (c, result) =>
         {
-            var c = ContractLoader.Load(parse.GetValue(contract)!);
-            new RunPaths().Contract(c).Write(parse.GetValue(markdown), "--markdown").Verify();
             var reference = ReferenceFile.Read(c.ReferenceFullPath, c.ReferenceLocation);
             if (parse.GetValue(events) is { } n && n < 1) throw new GateInputException(ErrorCodes.Usage, "--events must be a positive whole number.");
             var r = parse.GetValue(replicas);
@@ -40,8 +41,14 @@ internal static class PlanCommand
             var table = PlanTable.Format(c, plan);
             stdout.Write(table);
             if (parse.GetValue(markdown) is { } path) AtomicFile.WriteText(path, table);
+            if (result.Path is { } jsonPath)
+            {
+                PlanJson.Write(jsonPath, c, FileDigest.Sha256(c.ReferenceFullPath), plan);
+                result.Finished();
+                stdout.WriteLine($"JSON result: {Path.GetFullPath(jsonPath)}");
+            }
             return ExitCodes.Success;
-        }));
+        })));
         return command;
     }
 }

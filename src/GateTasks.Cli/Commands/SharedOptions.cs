@@ -20,6 +20,13 @@ internal static class SharedOptions
         Description = "Surrogate sample to use instead of the contract's: a Parquet or CSV file, a folder, or a glob (relative to the working directory).",
     }.NotEmpty();
 
+    /// <summary><c>--json FILE</c>: the command's result as a JSON document of the versioned result family (docs/result-json.md).</summary>
+    public static Option<string?> Json(string command) => new Option<string?>("--json")
+    {
+        HelpName = "FILE",
+        Description = $"Also write the {command} result as JSON to this path (schema: docs/result.schema.json; a run that does not finish leaves a document saying so).",
+    }.NotEmpty();
+
     public static Option<string?> BaseRevision() => new Option<string?>("--base-revision")
     {
         HelpName = "REVISION",

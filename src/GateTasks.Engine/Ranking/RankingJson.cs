@@ -1,14 +1,16 @@
-using System.Text.Encodings.Web;
 using System.Text.Json;
 using GateTasks.Engine.Checks;
 using GateTasks.Engine.IO;
+using GateTasks.Engine.Reports;
 
 namespace GateTasks.Engine.Ranking;
 
 /// <summary>
-/// The ranking as JSON: the contract and its decision settings, then every candidate in ranked order with its
-/// counts, worst margin and check, the key that placed it, and each check's margin. A margin that is not a finite
-/// number (an impossible measurement, −∞) is <c>null</c>, as JSON has no infinities.
+/// The ranking as JSON, the <c>rank</c> document of the result family (docs/result-json.md, with the same head as
+/// every result: schema version, command, tool version): the contract and its decision settings, then every candidate
+/// in ranked order with its counts, worst margin and check, the key that placed it, and each check's margin and
+/// headroom (<see cref="Headroom.FromMargin"/>). A number that is not finite (an impossible measurement, −∞) is
+/// <c>null</c>, as JSON has no infinities.
 /// </summary>
 internal static class RankingJson
 {
@@ -16,11 +18,11 @@ internal static class RankingJson
 
     public static void Write(Stream stream, RankingReport report)
     {
-        var options = new JsonWriterOptions { Indented = true, Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
-        using var w = new Utf8JsonWriter(stream, options);
+        using var w = new Utf8JsonWriter(stream, ResultJsonHead.Options);
         var contract = report.Contract;
         var d = contract.Decision;
         w.WriteStartObject();
+        ResultJsonHead.Write(w, "rank", finished: true);
         w.WriteString("contract", Path.GetFullPath(contract.FilePath));
         w.WriteString("title", contract.DisplayName);
         w.WriteString("reference", report.ReferencePath);
@@ -32,12 +34,12 @@ internal static class RankingJson
         w.WriteEndObject();
         w.WriteBoolean("any_passed", report.AnyPassed);
         w.WriteStartArray("candidates");
-        foreach (var c in report.Candidates) WriteCandidate(w, c);
+        foreach (var c in report.Candidates) WriteCandidate(w, c, d.Confidence);
         w.WriteEndArray();
         w.WriteEndObject();
     }
 
-    private static void WriteCandidate(Utf8JsonWriter w, RankedCandidate c)
+    private static void WriteCandidate(Utf8JsonWriter w, RankedCandidate c, double confidence)
     {
         var r = c.Result;
         w.WriteStartObject();
@@ -98,6 +100,11 @@ internal static class RankingJson
             w.WriteString("verdict", VerdictKey(check.Verdict));
             WriteNumberOrNull(w, "margin", check.Margin.Value);
             WriteNumberOrNull(w, "margin_noise", check.Margin.Noise);
+            var headroom = Headroom.FromMargin(check.Margin, confidence);
+            w.WriteStartObject("headroom");
+            WriteNumberOrNull(w, "upper_share", headroom.UpperShare);
+            WriteNumberOrNull(w, "point_share", headroom.PointShare);
+            w.WriteEndObject();
             w.WriteEndObject();
         }
         w.WriteEndArray();

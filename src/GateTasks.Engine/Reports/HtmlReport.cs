@@ -58,7 +58,9 @@ internal static class HtmlReport
           .Append("<p class=\"counts\">")
           .Append(Count("fail", r.Failures, "failed")).Append(Count("inconclusive", r.Inconclusive, "inconclusive")).Append(Count("pass", passed, "passed"))
           .Append("<span class=\"total\">of ").Append(r.Outcomes.Count).Append(" checks on ").Append(r.Contract.Features.Count).Append(" features</span>")
-          .Append("</p>\n<dl class=\"facts\">\n");
+          .Append("</p>\n");
+        Binding(sb, r);
+        sb.Append("<dl class=\"facts\">\n");
         Fact(sb, "contract", Code(r.Contract.FilePath));
         Fact(sb, "reference", Code(r.ReferencePath) + $" <span class=\"sha\" title=\"sha256\">sha256 {E(r.ReferenceSha256)}</span>");
         Fact(sb, "reference events", E(InvariantNumber.Count(r.Reference.Events)));
@@ -80,6 +82,18 @@ internal static class HtmlReport
             Fact(sb, "goodness-of-fit diagnostics", $"<a href=\"#diagnostics\">{E(DiagnosticsCount(r))}</a>");
         Fact(sb, "checked", E($"{r.StartedUtc.UtcDateTime.ToString("yyyy-MM-dd HH:mm:ss", CultureInfo.InvariantCulture)} UTC in {r.Elapsed.TotalSeconds.ToString("0.0", CultureInfo.InvariantCulture)} s"));
         sb.Append("</dl>\n</header>\n");
+    }
+
+    /// <summary>The checks closest to their tolerance, right under the verdict (<see cref="BindingChecks"/>).</summary>
+    private static void Binding(StringBuilder sb, RunResult r)
+    {
+        var binding = BindingChecks.Of(r);
+        if (binding.Count == 0) return;
+        sb.Append("<div class=\"binding\" id=\"binding-checks\"><h2>").Append(E(BindingChecks.Heading(binding.Count))).Append("</h2>\n<ol>");
+        foreach (var (o, h) in binding)
+            sb.Append("<li data-subject=\"").Append(E(o.Subject.Name)).Append("\" data-check=\"").Append(E(o.Check.Label))
+              .Append("\" data-upper-share=\"").Append(InvariantNumber.Exact(h.UpperShare)).Append("\">").Append(E(BindingChecks.Line(o, h))).Append("</li>");
+        sb.Append("</ol></div>\n");
     }
 
     private static string DiagnosticsCount(RunResult r) =>
@@ -120,7 +134,7 @@ internal static class HtmlReport
                 var failed = s.Outcomes.Count(o => o.Verdict == Verdict.Fail);
                 var open = s.Outcomes.Count(o => o.Verdict == Verdict.Inconclusive);
                 var note = failed > 0 ? $"{failed} of {s.Outcomes.Count} failed" : open > 0 ? $"{open} of {s.Outcomes.Count} undecided" : $"{s.Outcomes.Count} pass";
-                sb.Append("<li><a href=\"#").Append(ids[s.Name]).Append("\">").Append(E(s.Name)).Append("</a> <small>").Append(E(note)).Append("</small></li>");
+                sb.Append("<li><a href=\"#").Append(ids[s.Name]).Append("\">").Append(E(SubjectLabel.Of(s.Outcomes[0].Subject))).Append("</a> <small>").Append(E(note)).Append("</small></li>");
             }
             sb.Append("</ul></div>\n");
         }
@@ -147,7 +161,7 @@ internal static class HtmlReport
         sb.Append("<section class=\"subject ").Append(css).Append("\" id=\"").Append(id).Append("\" data-verdict=\"").Append(css)
           .Append("\" data-feature=\"").Append(E(s.Name)).Append("\">\n")
           .Append("<details class=\"body\"").Append(s.Worst == Verdict.Pass ? "" : " open").Append(">\n<summary><span class=\"badge ").Append(css).Append("\">")
-          .Append(ResultTable.VerdictText(s.Worst)).Append("</span><span class=\"name\">").Append(E(s.Name)).Append("</span>")
+          .Append(ResultTable.VerdictText(s.Worst)).Append("</span><span class=\"name\">").Append(E(SubjectLabel.Of(s.Outcomes[0].Subject))).Append("</span>")
           .Append("<span class=\"what\">").Append(E(Description(s))).Append("</span></summary>\n");
         if (s.Comparison is { } c)
         {
@@ -207,7 +221,7 @@ internal static class HtmlReport
     private static void ChecksTable(StringBuilder sb, RunResult report, FeatureOutcomes s)
     {
         sb.Append("<table class=\"checks\">\n<thead><tr><th>check</th><th>region</th><th class=\"num\">estimate</th><th class=\"num\">")
-          .Append(E(ResultTable.IntervalHeader(report))).Append("</th><th class=\"num\">tolerance</th><th class=\"num\">adj. p</th><th>verdict</th><th class=\"num\">events needed</th></tr></thead>\n<tbody>\n");
+          .Append(E(ResultTable.IntervalHeader(report))).Append("</th><th class=\"num\">tolerance</th><th class=\"num\" title=\"share of the tolerance the upper bound uses (the estimate's)\">used</th><th class=\"num\">adj. p</th><th>verdict</th><th class=\"num\">events needed</th></tr></thead>\n<tbody>\n");
         // A stable sort: failing rows first, contract order within each verdict.
         foreach (var o in s.Outcomes.OrderBy(o => FeatureOutcomes.Rank(o.Verdict)))
         {
@@ -218,14 +232,15 @@ internal static class HtmlReport
               .Append("<td class=\"num\">").Append(E(InvariantNumber.Short(o.Measured.Estimate))).Append("</td>")
               .Append("<td class=\"num\">").Append(E(ResultTable.IntervalText(o))).Append("</td>")
               .Append("<td class=\"num\">").Append(E(ResultTable.ToleranceText(o))).Append("</td>")
+              .Append("<td class=\"num used\">").Append(E(HeadroomText.Cell(Headroom.Of(o, report.Contract.Decision)))).Append("</td>")
               .Append("<td class=\"num\">").Append(E(InvariantNumber.Short(o.AdjustedPValue))).Append("</td>")
               .Append("<td><span class=\"badge ").Append(css).Append("\">").Append(ResultTable.VerdictText(o.Verdict)).Append("</span></td>")
               .Append("<td class=\"num\">").Append(E(o.Verdict == Verdict.Inconclusive ? UndecidedReason.Cell(o) : "")).Append("</td>")
               .Append("</tr>\n");
             if (o.Verdict != Verdict.Pass)
-                sb.Append("<tr class=\"why ").Append(css).Append("\"><td colspan=\"8\">").Append(E(o.Summary))
-                  .Append(o.Verdict == Verdict.Inconclusive ? E("; " + UndecidedReason.Of(o)) : "")
-                  .Append(" <span class=\"where\">").Append(E(o.Check.Location.ToString())).Append("</span></td></tr>\n");
+                // The same sentence as the console's coded message and the JUnit failure.
+                sb.Append("<tr class=\"why ").Append(css).Append("\"><td colspan=\"9\"><span class=\"sentence\">").Append(E(CheckSentence.Of(o, report.Contract.Decision)))
+                  .Append("</span> <span class=\"where\">").Append(E(o.Check.Location.ToString())).Append("</span></td></tr>\n");
         }
         sb.Append("</tbody>\n</table>\n");
     }
@@ -312,6 +327,7 @@ internal static class HtmlReport
         .counts{margin:10px 0 8px;display:flex;gap:18px;flex-wrap:wrap;align-items:baseline}
         .count b{font-size:1.5em}.count.fail{color:var(--fail)}.count.inconclusive{color:var(--inconclusive)}.count.pass{color:var(--pass)}.count.zero{color:var(--muted)}
         .total{color:var(--muted)}
+        .binding{margin:4px 0 8px}.binding h2{margin:0;font-size:1em;font-weight:600}.binding ol{margin:2px 0 0;padding-left:1.6em}
         .facts{display:grid;grid-template-columns:max-content 1fr;gap:2px 16px;margin:6px 0 8px;color:var(--muted);font-size:.92em}
         .facts dt{font-weight:600}.facts dd{margin:0;color:var(--ink);overflow-wrap:anywhere}.sha{color:var(--muted);margin-left:8px}
         nav.overview{display:flex;gap:14px;flex-wrap:wrap;padding:14px 28px 4px}

@@ -121,6 +121,11 @@ internal static class JUnitReport
             Property(w, "adjusted_p_value", InvariantNumber.Exact(o.AdjustedPValue));
             Property(w, "level", InvariantNumber.Exact(o.Level));
             Property(w, "verdict", ResultTable.VerdictText(o.Verdict).ToLowerInvariant());
+            // The share of the tolerance used (docs/reports.md): "inf" when the measurement could not be made, "NaN" without a point share.
+            var headroom = Headroom.Of(o, r.Contract.Decision);
+            Property(w, "headroom_upper_share", InvariantNumber.Exact(headroom.UpperShare));
+            Property(w, "headroom_point_share", InvariantNumber.Exact(headroom.PointShare));
+            Property(w, "headroom", HeadroomText.Of(headroom));
             if (o.Needed is { } needed)
             {
                 Property(w, "events_needed", InvariantNumber.Exact(needed.Events));
@@ -138,12 +143,13 @@ internal static class JUnitReport
             if (counted)
             {
                 var code = o.Verdict == Verdict.Fail ? CheckEvaluator.DriftCode(o.Check) : CheckEvaluator.InconclusiveCode;
-                var what = o.Verdict == Verdict.Fail ? o.Summary : $"inconclusive: {o.Summary}; {UndecidedReason.Of(o)}";
+                // The same sentence as the console's coded message and the HTML report's.
+                var sentence = CheckSentence.Of(o, r.Contract.Decision);
                 w.WriteStartElement("failure");
-                w.WriteAttributeString("message", Clean($"{o.Subject.Name} {o.Check.Label}: {what}"));
+                w.WriteAttributeString("message", Clean(sentence));
                 w.WriteAttributeString("type", code);
                 w.WriteString(Clean(
-                    Diagnostic.Error(code, $"feature '{o.Subject.Name}', {o.Check.Label}: {what}", where).Line + "\n" +
+                    Diagnostic.Error(code, sentence, where).Line + "\n" +
                     $"adjusted p-value {InvariantNumber.Exact(o.AdjustedPValue)} against the family-wise level {InvariantNumber.Exact(r.Contract.Decision.FalseAlarm)} ({r.Contract.Decision.CorrectionName})\n" +
                     $"tolerance stated at {where}"));
                 w.WriteEndElement();

@@ -38,6 +38,17 @@ internal static class MarkdownSummary
               : report.Contract.Decision.InconclusiveFails ? " (inconclusive checks fail the build under this contract)"
               : " (inconclusive checks only warn under this contract)")
           .Append(".\n\n");
+        // The checks closest to their tolerance, right under the verdict and counts.
+        var binding = BindingChecks.Of(report);
+        if (binding.Count > 0)
+        {
+            sb.Append(Text(BindingChecks.Heading(binding.Count))).Append("\n\n");
+            for (var i = 0; i < binding.Count; i++)
+                sb.Append(i + 1).Append(". ").Append(Code(SubjectLabel.Of(binding[i].Outcome.Subject))).Append(' ').Append(Text(binding[i].Outcome.Check.Label))
+                  .Append(": ").Append(Text(HeadroomText.Of(binding[i].Headroom)))
+                  .Append(binding[i].Outcome.Verdict == Verdict.Inconclusive ? ", inconclusive" : "").Append('\n');
+            sb.Append('\n');
+        }
         // Slow degradation across retrainings, said while the checks still pass (HeadroomTrend).
         var worse = HeadroomTrend.WorsenedSentences(report);
         foreach (var line in worse) sb.Append("- ").Append(Text(line)).Append('\n');
@@ -50,12 +61,13 @@ internal static class MarkdownSummary
 
         if (open.Count > 0)
         {
-            sb.Append("| feature | check | region | estimate | tolerance | verdict |\n");
-            sb.Append("|---|---|---|---:|---:|---|\n");
+            sb.Append("| feature | check | region | estimate | tolerance | used | verdict |\n");
+            sb.Append("|---|---|---|---:|---:|---:|---|\n");
             foreach (var o in open)
             {
                 var verdict = o.Verdict == Verdict.Fail ? "**FAIL**" : o.Measured.Uncomputable ? "inconclusive (" + o.Summary + ")" : "inconclusive" + Needed(o);
-                Row(sb, Code(o.Subject.Name), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o), verdict);
+                Row(sb, Code(SubjectLabel.Of(o.Subject)), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o),
+                    Used(report, o), verdict);
             }
             sb.Append('\n');
         }
@@ -63,13 +75,13 @@ internal static class MarkdownSummary
         if (passed.Count > 0)
         {
             sb.Append("<details><summary>").Append(passed.Count).Append(" passing check").Append(passed.Count == 1 ? "" : "s").Append("</summary>\n\n");
-            sb.Append("| feature | check | region | estimate | tolerance |\n");
-            sb.Append("|---|---|---|---:|---:|\n");
+            sb.Append("| feature | check | region | estimate | tolerance | used |\n");
+            sb.Append("|---|---|---|---:|---:|---:|\n");
             foreach (var o in passed)
-                Row(sb, Code(o.Subject.Name), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o));
+                Row(sb, Code(SubjectLabel.Of(o.Subject)), o.Check.Key, o.Check.RegionName, InvariantNumber.Short(o.Measured.Estimate), ResultTable.ToleranceText(o), Used(report, o));
             sb.Append("\n</details>\n\n");
         }
-        sb.Append(Text(ResultTable.DecisionRule(report))).Append('\n');
+        sb.Append(Text(ResultTable.UsedNote)).Append(' ').Append(Text(ResultTable.DecisionRule(report))).Append('\n');
         if (report.Readings.Count > 0)
         {
             sb.Append("\n#### Goodness-of-fit diagnostics (not verdicts)\n\n");
@@ -82,6 +94,8 @@ internal static class MarkdownSummary
         }
         return sb.ToString();
     }
+
+    private static string Used(RunResult report, CheckOutcome o) => HeadroomText.Cell(Headroom.Of(o, report.Contract.Decision));
 
     private static string Needed(CheckOutcome o) =>
         o.Needed is not { } n || double.IsNaN(n.Events) ? ""

@@ -45,7 +45,7 @@ internal static class PlanTable
         return sb.ToString();
     }
 
-    private static string FamilyName(DriftKind? kind) => kind switch
+    internal static string FamilyName(DriftKind? kind) => kind switch
     {
         DriftKind.Scale => "scale shift",
         DriftKind.TailDeficit => "tail deficit",

@@ -18,18 +18,20 @@ internal static class ResultTable
     public static string Format(RunResult report)
     {
         var confidence = IntervalHeader(report);
-        string[] header = ["feature", "check", "region", "estimate", confidence, "tolerance", "adj. p", "verdict", "events needed"];
+        string[] header = ["feature", "check", "region", "estimate", confidence, "tolerance", "used", "adj. p", "verdict", "events needed"];
         var rows = new List<string[]> { header };
-        foreach (var o in report.Outcomes)
+        // Failures first, then the undecided checks, then the passes; contract order within each.
+        foreach (var o in report.Outcomes.OrderBy(o => FeatureOutcomes.Rank(o.Verdict)))
         {
             var m = o.Measured;
             rows.Add([
-                o.Subject.Name,
+                SubjectLabel.Of(o.Subject),
                 o.Check.Key,
                 o.Check.RegionName,
                 InvariantNumber.Short(m.Estimate),
                 IntervalText(o),
                 ToleranceText(o),
+                HeadroomText.Cell(Headroom.Of(o, report.Contract.Decision)),
                 InvariantNumber.Short(o.AdjustedPValue),
                 VerdictText(o.Verdict),
                 o.Verdict == Verdict.Inconclusive ? UndecidedReason.Cell(o) : "",
@@ -39,13 +41,27 @@ internal static class ResultTable
         var sb = new StringBuilder();
         for (var i = 0; i < rows.Count; i++)
         {
-            sb.AppendLine(string.Join("  ", rows[i].Select((cell, c) => c is 3 or 5 or 6 ? cell.PadLeft(widths[c]) : cell.PadRight(widths[c]))).TrimEnd());
+            sb.AppendLine(string.Join("  ", rows[i].Select((cell, c) => c is 3 or 5 or 6 or 7 ? cell.PadLeft(widths[c]) : cell.PadRight(widths[c]))).TrimEnd());
             if (i == 0) sb.AppendLine(string.Join("  ", widths.Select(w => new string('-', w))));
         }
+        sb.AppendLine(UsedNote);
         sb.AppendLine(DecisionRule(report));
         KernelRows(sb, report);
         Readings(sb, report);
         Flows(sb, report);
+        return sb.ToString();
+    }
+
+    /// <summary>
+    /// What the console's compact form keeps of the table (<c>check</c> without <c>--all-checks</c>): the notes on
+    /// how kernel distances were subsampled and the goodness-of-fit readings, which qualify the verdict; empty when
+    /// there are none. The rows of the checks and the flows are left to the full table.
+    /// </summary>
+    public static string Compact(RunResult report)
+    {
+        var sb = new StringBuilder();
+        KernelRows(sb, report);
+        Readings(sb, report);
         return sb.ToString();
     }
 
@@ -121,6 +137,9 @@ internal static class ResultTable
         foreach (var row in rows)
             sb.AppendLine(string.Join("  ", row.Select((cell, c) => c == 0 ? cell.PadRight(widths[c]) : cell.PadLeft(widths[c]))).TrimEnd());
     }
+
+    /// <summary>What the "used" column holds.</summary>
+    public const string UsedNote = "used: the share of its tolerance the check's upper bound uses (the estimate's in brackets); above 100% the bound lies outside the tolerance.";
 
     /// <summary>"95% interval": the column heading of the confidence intervals at the contract's confidence.</summary>
     public static string IntervalHeader(RunResult report) =>

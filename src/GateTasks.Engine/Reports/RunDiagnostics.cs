@@ -15,12 +15,12 @@ internal static class RunDiagnostics
     /// </summary>
     public static IEnumerable<Diagnostic> Of(RunResult report)
     {
+        var decision = report.Contract.Decision;
         foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Fail))
-            yield return Diagnostic.Error(CheckEvaluator.DriftCode(o.Check), $"feature '{o.Subject.Name}' {o.Check.Label}: {o.Summary}", o.Check.Location);
-        var severity = report.Contract.Decision.InconclusiveFails ? DiagnosticSeverity.Error : DiagnosticSeverity.Warning;
+            yield return Diagnostic.Error(CheckEvaluator.DriftCode(o.Check), CheckSentence.Of(o, decision), o.Check.Location);
+        var severity = decision.InconclusiveFails ? DiagnosticSeverity.Error : DiagnosticSeverity.Warning;
         foreach (var o in report.Outcomes.Where(o => o.Verdict == Verdict.Inconclusive))
-            yield return new Diagnostic(CheckEvaluator.InconclusiveCode, severity, o.Check.Location,
-                $"feature '{o.Subject.Name}' {o.Check.Label} is inconclusive: {o.Summary}; " + UndecidedReason.Of(o));
+            yield return new Diagnostic(CheckEvaluator.InconclusiveCode, severity, o.Check.Location, CheckSentence.Of(o, decision));
         foreach (var s in report.UncoveredSubjects)
             yield return new Diagnostic(ErrorCodes.SubjectWithoutTolerance, severity, s.Location, UncoveredText(s));
         foreach (var f in report.Acceptance) yield return f.Diagnostic;

@@ -16,11 +16,14 @@ namespace GateTasks.Engine.Reports;
 /// </summary>
 internal static class UnfinishedReport
 {
-    /// <summary>The report paths one check writes (any may be null: not requested).</summary>
-    public sealed record Paths(string? JUnit, string? Text, string? Html, string? Markdown)
+    /// <summary>
+    /// The report paths one run writes (any may be null: not requested); <paramref name="Command"/> names the command
+    /// in the JSON result's head (<see cref="ResultJsonHead"/>).
+    /// </summary>
+    public sealed record Paths(string? JUnit, string? Text, string? Html, string? Markdown, string? Json = null, string Command = "check")
     {
         /// <summary>The requested paths.</summary>
-        public IEnumerable<string> All => new[] { JUnit, Text, Html, Markdown }.OfType<string>();
+        public IEnumerable<string> All => new[] { JUnit, Text, Html, Markdown, Json }.OfType<string>();
     }
 
     /// <summary>
@@ -50,7 +53,7 @@ internal static class UnfinishedReport
     {
         var message = "the check started at " + JUnitReport.Timestamp(started) +
                       " and has not finished; if this report stays, the check was stopped before it could write its result";
-        foreach (var write in Writers(paths, contractPath, started, ErrorCodes.CheckUnfinished, message, null)) write();
+        foreach (var write in Writers(paths, contractPath, started, ErrorCodes.CheckUnfinished, message, null, "running")) write();
     }
 
     /// <summary>Replaces every requested report with one saying the check stopped on <paramref name="error"/>.</summary>
@@ -64,7 +67,7 @@ internal static class UnfinishedReport
     /// </summary>
     public static void MarkStopped(Paths paths, string contractPath, DateTimeOffset started, string code, string message, SourceLocation? location)
     {
-        var writers = Writers(paths, contractPath, started, code, message, location);
+        var writers = Writers(paths, contractPath, started, code, message, location, "stopped");
         var requested = paths.All.ToList();
         for (var i = 0; i < writers.Count; i++)
         {
@@ -81,7 +84,7 @@ internal static class UnfinishedReport
     }
 
     // One writer per requested report, in the order of Paths.All.
-    private static List<Action> Writers(Paths paths, string contractPath, DateTimeOffset started, string code, string message, SourceLocation? location)
+    private static List<Action> Writers(Paths paths, string contractPath, DateTimeOffset started, string code, string message, SourceLocation? location, string state)
     {
         var line = Diagnostic.Error(code, message, location).Line;
         var word = RunOutcome.DidNotFinish.Word();
@@ -95,6 +98,8 @@ internal static class UnfinishedReport
         if (paths.Markdown is { } markdown)
             // The message may quote a sample's cell: escaped, so a pull-request comment shows it as text.
             writers.Add(() => AtomicFile.WriteText(markdown, $"### GateTasks check {word}\n\n`{contractPath.Replace("`", "'")}`\n\n{MarkdownText.Escape(line)}\n"));
+        if (paths.Json is { } json)
+            writers.Add(() => AtomicFile.WriteText(json, ResultJsonHead.Unfinished(paths.Command, contractPath, started, state, code, message, location)));
         return writers;
     }
 }

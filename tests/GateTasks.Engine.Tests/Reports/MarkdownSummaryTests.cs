@@ -49,12 +49,13 @@ public sealed class MarkdownSummaryTests(ReportCase run) : IClassFixture<ReportC
             Assert.Equal(width, Cells(table[1]).Count);
             Assert.All(table.Skip(2), row => Assert.Equal(width, Cells(row).Count));
         }
-        Assert.Equal(["feature", "check", "region", "estimate", "tolerance", "verdict"], Cells(tables[0][0]));
+        // "used": the check's share of its tolerance (docs/reports.md).
+        Assert.Equal(["feature", "check", "region", "estimate", "tolerance", "used", "verdict"], Cells(tables[0][0]));
         var failing = tables[0].Skip(2).Select(Cells).ToList();
         Assert.Equal(report.Outcomes.Count(o => o.Verdict != Verdict.Pass), failing.Count);
         var ks = report.Outcomes.Single(o => o.Subject.Name == "x" && o.Check.Kind == CheckKind.KolmogorovSmirnov);
         Assert.Equal(Verdict.Fail, ks.Verdict);
-        Assert.Contains(failing, r => r[0] == "`x`" && r[1] == "ks-max" && r[2] == "all" && r[4] == "≤ 0.03" && r[5] == "**FAIL**");
+        Assert.Contains(failing, r => r[0] == "`x`" && r[1] == "ks-max" && r[2] == "all" && r[4] == "≤ 0.03" && r[5] == HeadroomText.Cell(Headroom.Of(ks, report.Contract.Decision)) && r[6] == "**FAIL**");
         // The passing checks sit in a details block, after its summary line and a blank line.
         var passing = report.Outcomes.Count(o => o.Verdict == Verdict.Pass);
         Assert.Contains($"<details><summary>{passing} passing checks</summary>\n\n|", md);
@@ -70,7 +71,7 @@ public sealed class MarkdownSummaryTests(ReportCase run) : IClassFixture<ReportC
         var md = MarkdownSummary.Render(report);
         Assert.Equal("### GateTasks check PASSED: report-case", md.Split('\n')[0]);
         var table = Assert.Single(Tables(md));
-        Assert.Equal(["feature", "check", "region", "estimate", "tolerance"], Cells(table[0]));
+        Assert.Equal(["feature", "check", "region", "estimate", "tolerance", "used"], Cells(table[0]));
         Assert.Equal(report.Outcomes.Count, table.Count - 2);
     }
 
