@@ -28,7 +28,7 @@ public sealed class ArrayFormatTests : IDisposable
     }
 
     internal static readonly string[] ArrayFiles =
-        ["events.npy", "columns.npz", "compressed.npz", "table.npz", "table.h5", "columns.h5", "contiguous.h5"];
+        ["events.npy", "events-v2.npy", "events-v3.npy", "columns.npz", "compressed.npz", "table.npz", "table.h5", "columns.h5", "contiguous.h5"];
 
     [PythonModulesFact("numpy", "h5py")]
     public void Every_array_layout_gives_the_histograms_of_the_same_events_in_Parquet_to_the_bit()
@@ -72,6 +72,50 @@ public sealed class ArrayFormatTests : IDisposable
             var cases = XDocument.Load(junit).Descendants("testcase").ToList();
             foreach (var c in cases) c.Attribute("time")?.Remove();
             return string.Join('\n', cases.Select(t => t.ToString())).Replace(sample, "SAMPLE", StringComparison.Ordinal);
+        }
+    }
+
+    [PythonModulesFact("numpy", "h5py")]
+    public void Every_array_reader_hands_out_bounded_batches_in_buffers_it_reuses()
+    {
+        // Memory does not grow with the sample: a reader holds one block of at most 65 536 rows (fewer for wide
+        // records) and hands every batch out in the same buffers, whatever the file's length. Checked on the readers
+        // themselves (the program's own bound, docs/contract.md), on files NumPy and h5py wrote.
+        const int rows = 150_000;
+        WriteSamples(_dir, rows);
+        foreach (var file in ArrayFiles)
+        {
+            var path = Path.Combine(_dir, file);
+            using (var reader = GateTasks.Engine.Samples.SampleReaderFactory.Open(path))
+                Assert.Equal((65_536, 65_536, 18_928), Batches(reader, file));
+            // A smaller bound is kept as well.
+            using var small = Path.GetExtension(file) switch
+            {
+                ".npy" => (GateTasks.Engine.Samples.ISampleReader)GateTasks.Engine.Samples.Numpy.NpySampleReader.Open(path, batchRows: 7_000),
+                ".npz" => GateTasks.Engine.Samples.Numpy.NpzSampleReader.Open(path, batchRows: 7_000),
+                _ => GateTasks.Engine.Samples.Hdf5.Hdf5SampleReader.Open(path, batchRows: 7_000),
+            };
+            Assert.Equal((7_000, 7_000, 3_000), Batches(small, file));
+        }
+
+        static (int First, int Largest, int Last) Batches(GateTasks.Engine.Samples.ISampleReader reader, string file)
+        {
+            Assert.Equal(rows, reader.RowCount);
+            double[]? buffer = null;
+            long read = 0;
+            var (first, largest, last) = (0, 0, 0);
+            foreach (var batch in reader.ReadBatches(["pt", "eta", "w"]))
+            {
+                buffer ??= batch.ColumnBuffer(0);
+                Assert.Same(buffer, batch.ColumnBuffer(0)); // one buffer, reused for every batch
+                if (first == 0) first = batch.RowCount;
+                largest = Math.Max(largest, batch.RowCount);
+                last = batch.RowCount;
+                read += batch.RowCount;
+            }
+            Assert.True(read == rows, $"{file}: {read} rows read");
+            Assert.True(buffer!.Length <= largest, $"{file}: a buffer of {buffer.Length} values for batches of {largest} rows");
+            return (first, largest, last);
         }
     }
 
