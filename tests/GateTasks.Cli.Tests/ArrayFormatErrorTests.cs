@@ -38,6 +38,7 @@ public sealed class ArrayFormatErrorTests(BadArrayFiles files) : IClassFixture<B
         { "empty.npz", "GATE2019", ["no arrays"] },
         { "empty.h5", "GATE2019", ["no dataset"] },
         { "complex.npy", "GATE2003", ["column 'x'", "complex128 (dtype '<c16')"] },
+        { "subarray.npy", "GATE2003", ["column 'x'", "a sub-array of shape (3,) of '<f8'"] },
         { "strings.h5", "GATE2003", ["column 'x'", "dataset '/x' holds a string"] },
         { "bigendian.h5", "GATE2003", ["column 'x'", "float64, big-endian"] },
     };

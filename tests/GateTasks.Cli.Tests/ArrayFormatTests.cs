@@ -17,7 +17,7 @@ namespace GateTasks.Cli.Tests;
 /// </summary>
 public sealed class ArrayFormatTests : IDisposable
 {
-    /// <summary>More events than one batch (65 536 rows), so every reader hands out several; HDF5 chunks (4 096 and 3 000 rows) do not line up with batches.</summary>
+    /// <summary>More events than one batch (65 536 rows), so every reader hands out several; HDF5 chunks (4 096, 3 000 and 2 500 rows) do not line up with batches.</summary>
     private const int Events = 100_000;
 
     private readonly string _dir = Directory.CreateTempSubdirectory("gatetasks-arrays-").FullName;
@@ -28,7 +28,7 @@ public sealed class ArrayFormatTests : IDisposable
     }
 
     internal static readonly string[] ArrayFiles =
-        ["events.npy", "events-v2.npy", "events-v3.npy", "columns.npz", "compressed.npz", "table.npz", "table.h5", "columns.h5", "contiguous.h5"];
+        ["events.npy", "events-v2.npy", "events-v3.npy", "columns.npz", "compressed.npz", "table.npz", "table.h5", "columns.h5", "filters.h5", "contiguous.h5"];
 
     [PythonModulesFact("numpy", "h5py")]
     public void Every_array_layout_gives_the_histograms_of_the_same_events_in_Parquet_to_the_bit()
