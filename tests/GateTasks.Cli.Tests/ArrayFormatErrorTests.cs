@@ -18,6 +18,7 @@ public sealed class ArrayFormatErrorTests(BadArrayFiles files) : IClassFixture<B
     {
         { "header.npy", "GATE2012", ["is not a readable NumPy array", "'descr'"] },
         { "notes.npz", "GATE2012", ["member 'readme.txt'", "not a NumPy array"] },
+        { "wide.npy", "GATE2012", ["records are 8000000008 bytes wide"] },
         { "truncated.npy", "GATE2013", ["it is truncated"] },
         { "appended.npy", "GATE2013", ["bytes were appended"] },
         { "truncated.npz", "GATE2013", ["truncated or damaged"] },

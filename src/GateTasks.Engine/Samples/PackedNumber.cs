@@ -8,6 +8,12 @@ namespace GateTasks.Engine.Samples;
 /// </summary>
 internal readonly record struct PackedNumber(SampleValueType Type, bool BigEndian)
 {
+    /// <summary>
+    /// Bytes of packed records a reader reads at once at most: with wide records a batch holds fewer rows, so memory
+    /// stays bounded by this block, whatever the file's length or the record's width.
+    /// </summary>
+    public const int BlockBytes = 8 << 20;
+
     /// <summary>Bytes one value takes.</summary>
     public int Size => Type switch
     {

@@ -98,7 +98,10 @@ internal sealed partial class Hdf5SampleReader : ISampleReader
                     $"sample file '{Path}': dataset '{first.Dataset}' holds {first.Length} rows but dataset '{_sources[i].Dataset}' holds {_sources[i].Length}; "
                     + "the columns of a sample must have one length (one value per event)",
                     new SourceLocation(Path));
-        return Batches(indices, first.Length);
+        // A wide compound record makes batches of fewer rows: a block read is at most BlockBytes.
+        var widest = indices.Max(i => _sources[i].RecordSize);
+        var rows = (int)Math.Clamp(PackedNumber.BlockBytes / Math.Max(1, widest), 1, _batchRows);
+        return Batches(indices, first.Length, rows);
     }
 
     /// <inheritdoc />
@@ -107,17 +110,17 @@ internal sealed partial class Hdf5SampleReader : ISampleReader
         // Each read opens its own file handle and closes it when enumeration ends; nothing is held between reads.
     }
 
-    private IEnumerable<SampleBatch> Batches(int[] indices, long total)
+    private IEnumerable<SampleBatch> Batches(int[] indices, long total, int batchRows)
     {
         _stamp.RequireUnchanged(Path);
-        var buffers = indices.Select(_ => new double[(int)Math.Min(_batchRows, Math.Max(1, total))]).ToArray();
+        var buffers = indices.Select(_ => new double[(int)Math.Min(batchRows, Math.Max(1, total))]).ToArray();
         var datasets = indices.Select(i => _sources[i].Dataset).Distinct(StringComparer.Ordinal).ToArray();
         using var stream = SampleInputErrors.OpenRead(Path, FileOptions.RandomAccess);
         using var file = Guard(null, () => H5File.Open(stream, leaveOpen: true));
         var handles = datasets.ToDictionary(d => d, d => Guard(d, () => file.Dataset(d)), StringComparer.Ordinal);
-        for (long start = 0; start < total; start += _batchRows)
+        for (long start = 0; start < total; start += batchRows)
         {
-            var rows = (int)Math.Min(_batchRows, total - start);
+            var rows = (int)Math.Min(batchRows, total - start);
             var selection = new HyperslabSelection((ulong)start, (ulong)rows);
             foreach (var dataset in datasets)
             {

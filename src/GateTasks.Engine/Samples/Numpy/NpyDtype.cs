@@ -5,11 +5,11 @@ namespace GateTasks.Engine.Samples.Numpy;
 
 /// <summary>One field of a NumPy record (or the single value of a plain array): where it lies and how it is stored.</summary>
 /// <param name="Name">The field's name (empty for a plain array).</param>
-/// <param name="Offset">Its byte offset in the record.</param>
+/// <param name="Offset">Its byte offset in the record (below the 16 MiB a record may take, once the header is accepted).</param>
 /// <param name="Number">How to decode it, or null when it is not a number GateTasks reads.</param>
 /// <param name="Spelling">Its dtype as NumPy writes it (<c>'&lt;c16'</c>), for messages.</param>
 /// <param name="Kind">What it holds, in words (<c>complex128</c>, <c>a string</c>), for messages.</param>
-internal sealed record NpyField(string Name, int Offset, PackedNumber? Number, string Spelling, string Kind);
+internal sealed record NpyField(string Name, long Offset, PackedNumber? Number, string Spelling, string Kind);
 
 /// <summary>
 /// A NumPy dtype as a .npy header's <c>descr</c> states it: a type string such as <c>'&lt;f8'</c>, or a list of
@@ -120,7 +120,7 @@ internal sealed partial class NpyDtype
                 kind = $"a sub-array of shape ({string.Join(", ", shape)}{(shape.Length == 1 ? "," : "")}) of {spelling}";
                 number = null;
             }
-            if (name.Length > 0) fields?.Add(new NpyField(name, checked((int)offset), number, spelling, kind));
+            if (name.Length > 0) fields?.Add(new NpyField(name, offset, number, spelling, kind));
             offset = checked(offset + size);
         }
         return (offset, objects);

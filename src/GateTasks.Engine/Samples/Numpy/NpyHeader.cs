@@ -17,6 +17,9 @@ internal sealed record NpyHeader(NpyDtype Dtype, long[] Shape, bool FortranOrder
     /// <summary>The longest header read: NumPy's own reader refuses headers past 10 000 bytes by default; a very wide record can need more.</summary>
     private const int MaxHeaderBytes = 1 << 20;
 
+    /// <summary>The widest record read: a block of records is read whole, so a record must fit in a bounded block (16 MiB: two million float64 fields).</summary>
+    private const long MaxItemBytes = 16L << 20;
+
     /// <summary>Elements in the array (1 for a 0-d array).</summary>
     public long Elements => Shape.Aggregate(1L, (a, d) => checked(a * d));
 
@@ -82,6 +85,8 @@ internal sealed record NpyHeader(NpyDtype Dtype, long[] Shape, bool FortranOrder
         {
             throw Bad(path, what, "its header's 'descr' is not a dtype GateTasks understands (" + ex.Message + ")");
         }
+        if (dtype.ItemSize > MaxItemBytes)
+            throw Bad(path, what, $"its records are {dtype.ItemSize} bytes wide, more than the {MaxItemBytes} GateTasks reads");
         if (dtype.HoldsObjects)
             throw new GateInputException(ErrorCodes.SampleArrayObjects,
                 $"{what} holds Python objects (dtype {dtype.Spelling}), which NumPy stores as a pickle; GateTasks never loads pickles: "

@@ -7,15 +7,12 @@ namespace GateTasks.Engine.Samples.Numpy;
 /// A NumPy <c>.npy</c> file holding a structured array, whose field names are the columns. Its header is read once
 /// when the file is opened; each read opens the file, checks it is unchanged (<see cref="FileStamp"/>) and reads a
 /// block of whole records at a time at its offset (positioned reads, no memory map), decoding the requested fields
-/// into reused buffers: memory is bounded by <see cref="BlockBytes"/>, whatever the file's size.
+/// into reused buffers: memory is bounded by <see cref="PackedNumber.BlockBytes"/>, whatever the file's size.
 /// </summary>
 internal sealed class NpySampleReader : ISampleReader
 {
     /// <summary>Rows per batch at most, as for the other formats.</summary>
     public const int BatchRows = 1 << 16;
-
-    /// <summary>Bytes of records read at once at most: a wide record makes batches of fewer rows.</summary>
-    public const int BlockBytes = 8 << 20;
 
     private readonly NpyHeader _header;
     private readonly IReadOnlyList<NpyColumn> _columns;
@@ -71,7 +68,7 @@ internal sealed class NpySampleReader : ISampleReader
                 $"{what} is {stamp.Length} bytes long, but its header ({header.Shape[0]} records of {header.Dtype.ItemSize} bytes after a header of {header.DataOffset}) "
                 + $"needs {expected}: {(stamp.Length < expected ? "it is truncated" : "bytes were appended to it")}",
                 new SourceLocation(path));
-        var rows = (int)Math.Clamp(BlockBytes / Math.Max(1, header.Dtype.ItemSize), 1, batchRows);
+        var rows = (int)Math.Clamp(PackedNumber.BlockBytes / Math.Max(1, header.Dtype.ItemSize), 1, batchRows);
         return new NpySampleReader(path, header, columns, stamp, rows);
     }
 
@@ -103,7 +100,7 @@ internal sealed class NpySampleReader : ISampleReader
             for (var c = 0; c < indices.Length; c++)
             {
                 var field = _columns[indices[c]].Field;
-                field.Number!.Value.Decode(bytes, itemSize, field.Offset, buffers[c].AsSpan(0, rows));
+                field.Number!.Value.Decode(bytes, itemSize, (int)field.Offset, buffers[c].AsSpan(0, rows));
             }
             var first = start;
             yield return new SampleBatch(buffers, rows)

@@ -87,7 +87,7 @@ internal sealed class NpzSampleReader : ISampleReader
                     $"sample file '{Path}': member '{first.EntryName}' holds {first.Header.Shape[0]} rows but member '{_members[m].EntryName}' holds {_members[m].Header.Shape[0]}; "
                     + "the columns of a sample must have one length (one value per event)",
                     new SourceLocation(Path));
-        var rows = used.Min(m => (int)Math.Clamp(NpySampleReader.BlockBytes / Math.Max(1, _members[m].Header.Dtype.ItemSize), 1, _batchRows));
+        var rows = used.Min(m => (int)Math.Clamp(PackedNumber.BlockBytes / Math.Max(1, _members[m].Header.Dtype.ItemSize), 1, _batchRows));
         return Batches(indices, used, rows, first.Header.Shape[0]);
     }
 
@@ -118,7 +118,7 @@ internal sealed class NpzSampleReader : ISampleReader
                 {
                     var (m, column) = _sources[indices[c]];
                     var itemSize = (int)_members[m].Header.Dtype.ItemSize;
-                    column.Field.Number!.Value.Decode(blocks[m], itemSize, column.Field.Offset, buffers[c].AsSpan(0, rows));
+                    column.Field.Number!.Value.Decode(blocks[m], itemSize, (int)column.Field.Offset, buffers[c].AsSpan(0, rows));
                 }
                 var from = start;
                 yield return new SampleBatch(buffers, rows)
