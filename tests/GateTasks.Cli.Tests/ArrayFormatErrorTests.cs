@@ -16,6 +16,8 @@ public sealed class ArrayFormatErrorTests(BadArrayFiles files) : IClassFixture<B
     /// <summary>File, code, and phrases the message must hold (docs/error-codes.md, each code's row).</summary>
     public static TheoryData<string, string, string[]> Cases => new()
     {
+        { "flipped.npz", "GATE2002", ["member 'x.npy' fails the CRC-32 checksum"] },
+        { "flipped-deflated.npz", "GATE2002", ["member 'x.npy'"] },
         { "header.npy", "GATE2012", ["is not a readable NumPy array", "'descr'"] },
         { "notes.npz", "GATE2012", ["member 'readme.txt'", "not a NumPy array"] },
         { "wide.npy", "GATE2012", ["records are 8000000008 bytes wide"] },

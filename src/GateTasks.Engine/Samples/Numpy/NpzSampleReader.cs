@@ -1,4 +1,5 @@
 using System.IO.Compression;
+using System.IO.Hashing;
 using GateTasks.Engine.Diagnostics;
 
 namespace GateTasks.Engine.Samples.Numpy;
@@ -9,11 +10,12 @@ namespace GateTasks.Engine.Samples.Numpy;
 /// member gives its fields. Every member's header is read once when the file is opened. Each read streams the
 /// members it needs side by side, a block of rows at a time: a stored member is read as it lies in the file, a
 /// deflated one through the archive's decompressing stream, so memory stays bounded by the block whatever the
-/// members' sizes.
+/// members' sizes. Each member's bytes are checked against the CRC-32 the archive records for it before its last
+/// batch is handed out, so a member damaged after writing stops the pass (GATE2002) instead of reaching a verdict.
 /// </summary>
 internal sealed class NpzSampleReader : ISampleReader
 {
-    private sealed record Member(string EntryName, string Name, NpyHeader Header, IReadOnlyList<NpyColumn> Columns);
+    private sealed record Member(string EntryName, string Name, NpyHeader Header, IReadOnlyList<NpyColumn> Columns, uint Crc32);
 
     private readonly IReadOnlyList<Member> _members;
     // For each column: its member's index and the column within it.
@@ -102,7 +104,7 @@ internal sealed class NpzSampleReader : ISampleReader
         _stamp.RequireUnchanged(Path);
         var buffers = indices.Select(_ => new double[(int)Math.Min(batchRows, Math.Max(1, total))]).ToArray();
         var blocks = new Dictionary<int, byte[]>();
-        var streams = new Dictionary<int, (ZipArchive Archive, Stream Data)>();
+        var streams = new Dictionary<int, (ZipArchive Archive, Stream Data, Crc32 Crc)>();
         try
         {
             foreach (var m in used)
@@ -113,7 +115,7 @@ internal sealed class NpzSampleReader : ISampleReader
             for (long start = 0; start < total; start += batchRows)
             {
                 var rows = (int)Math.Min(batchRows, total - start);
-                foreach (var m in used) ReadBlock(m, streams[m].Data, blocks[m], rows, start, total);
+                foreach (var m in used) ReadBlock(m, streams[m].Data, streams[m].Crc, blocks[m], rows, start, total);
                 for (var c = 0; c < indices.Length; c++)
                 {
                     var (m, column) = _sources[indices[c]];
@@ -131,7 +133,7 @@ internal sealed class NpzSampleReader : ISampleReader
         }
         finally
         {
-            foreach (var (archive, data) in streams.Values)
+            foreach (var (archive, data, _) in streams.Values)
             {
                 data.Dispose();
                 archive.Dispose();
@@ -140,7 +142,8 @@ internal sealed class NpzSampleReader : ISampleReader
     }
 
     // A member's data, past its header: one archive (and file handle) per member, so members are read side by side.
-    private (ZipArchive, Stream) OpenData(int m)
+    // The ZIP directory's CRC-32 of the member is recomputed over every byte read (the header's included).
+    private (ZipArchive, Stream, Crc32) OpenData(int m)
     {
         var member = _members[m];
         var archive = OpenArchive(Path);
@@ -154,7 +157,9 @@ internal sealed class NpzSampleReader : ISampleReader
                 var skip = new byte[member.Header.DataOffset];
                 if (data.ReadAtLeast(skip, skip.Length, throwOnEndOfStream: false) < skip.Length)
                     throw Truncated(member, 0, member.Header.Shape[0]);
-                return (archive, data);
+                var crc = new Crc32();
+                crc.Append(skip);
+                return (archive, data, crc);
             }
             catch
             {
@@ -174,7 +179,7 @@ internal sealed class NpzSampleReader : ISampleReader
         }
     }
 
-    private void ReadBlock(int m, Stream data, byte[] block, int rows, long start, long total)
+    private void ReadBlock(int m, Stream data, Crc32 crc, byte[] block, int rows, long start, long total)
     {
         var member = _members[m];
         var need = rows * (int)member.Header.Dtype.ItemSize;
@@ -188,6 +193,11 @@ internal sealed class NpzSampleReader : ISampleReader
             throw Damaged(member, ex);
         }
         if (got < need) throw Truncated(member, start + got / member.Header.Dtype.ItemSize, total);
+        crc.Append(block.AsSpan(0, need));
+        // The member's last bytes are read before its last batch is handed out: a damaged member never reaches a verdict.
+        if (start + rows == total && crc.GetCurrentHashAsUInt32() != member.Crc32)
+            throw SampleInputErrors.Unreadable(Path,
+                $"member '{member.EntryName}' fails the CRC-32 checksum its ZIP directory records ({member.Crc32:x8}; its bytes give {crc.GetCurrentHashAsUInt32():x8}): it was damaged after it was written");
     }
 
     private GateInputException Truncated(Member member, long row, long total) =>
@@ -248,6 +258,6 @@ internal sealed class NpzSampleReader : ISampleReader
                 $"{what} holds {entry.Length} bytes, but its header ({header.Shape[0]} rows of {header.Dtype.ItemSize} bytes after a header of {header.DataOffset}) "
                 + $"needs {expected}: {(entry.Length < expected ? "it is truncated" : "bytes were appended to it")}",
                 new SourceLocation(path));
-        return new Member(entry.FullName, name, header, columns);
+        return new Member(entry.FullName, name, header, columns, entry.Crc32);
     }
 }
