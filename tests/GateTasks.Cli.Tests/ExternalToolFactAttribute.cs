@@ -16,6 +16,17 @@ public sealed class PythonModulesFactAttribute : FactAttribute
     }
 }
 
+/// <summary>A theory that needs Debian's /usr/bin/python3 with the named modules; skips as <see cref="PythonModulesFactAttribute"/> does.</summary>
+public sealed class PythonModulesTheoryAttribute : TheoryAttribute
+{
+    public PythonModulesTheoryAttribute(params string[] modules)
+    {
+        if (Environment.GetEnvironmentVariable("GATETASKS_REQUIRE_EXTERNAL_TOOLS") == "1") return;
+        if (!ExternalPython.Has(modules))
+            Skip = $"needs /usr/bin/python3 with {string.Join(", ", modules)} (apt-get install python3-{string.Join(" python3-", modules)})";
+    }
+}
+
 /// <summary>Runs Debian's system Python (not a version manager's shim) on a script.</summary>
 public static class ExternalPython
 {

@@ -15,7 +15,7 @@ internal static class DraftCommand
 {
     public static Command Create(TextWriter stdout, TextWriter stderr)
     {
-        var from = new Option<string>("--from") { HelpName = "FILES", Description = "Trusted full-simulation sample: a Parquet or CSV file, a folder, or a glob.", Required = true }.NotEmpty();
+        var from = new Option<string>("--from") { HelpName = "FILES", Description = "Trusted full-simulation sample: a Parquet, CSV, NumPy (.npy, .npz) or HDF5 file, a folder, or a glob.", Required = true }.NotEmpty();
         var dataEvents = new Option<long>("--data-events")
         {
             HelpName = "N",

@@ -14,7 +14,7 @@ internal static class RankCommand
         var contract = SharedOptions.Contract();
         var candidates = new Argument<string[]>("candidate")
         {
-            Description = "Candidate samples: a Parquet or CSV file, a folder (its files are one sample), or a quoted glob such as \"checkpoints/epoch-*.parquet\" (one candidate per file).",
+            Description = "Candidate samples: a Parquet, CSV, NumPy (.npy, .npz) or HDF5 file, a folder (its files are one sample), or a quoted glob such as \"checkpoints/epoch-*.parquet\" (one candidate per file).",
             Arity = ArgumentArity.OneOrMore,
         }.NotEmpty();
         var csv = new Option<string?>("--csv") { HelpName = "FILE", Description = "Also write the ranking as CSV to this path." }.NotEmpty();

@@ -24,7 +24,7 @@ internal static class ReferenceCommand
         var from = new Option<string>("--from")
         {
             HelpName = "FILES",
-            Description = "Trusted full-simulation sample: a Parquet or CSV file, a folder, or a glob.",
+            Description = "Trusted full-simulation sample: a Parquet, CSV, NumPy (.npy, .npz) or HDF5 file, a folder, or a glob.",
             Required = true,
         }.NotEmpty();
         var weight = new Option<string?>("--weight")

@@ -15,7 +15,7 @@ internal static class ShardCommands
     public static Command Fill(TextWriter stdout, TextWriter stderr)
     {
         var contract = SharedOptions.Contract();
-        var sample = new Option<string>("--sample", "-s") { HelpName = "FILES", Description = "The shard to gather: a Parquet or CSV file, a folder or a glob.", Required = true }.NotEmpty();
+        var sample = new Option<string>("--sample", "-s") { HelpName = "FILES", Description = "The shard to gather: a Parquet, CSV, NumPy (.npy, .npz) or HDF5 file, a folder or a glob.", Required = true }.NotEmpty();
         var output = new Option<string>("--output", "-o") { HelpName = "FILE", Description = "The partial file to write.", Required = true }.NotEmpty();
         var command = new Command("fill", "Gather one shard of a sample into a partial file (histograms, tallies, moments) for 'gatetasks merge' or 'gatetasks check --partials'.")
         {

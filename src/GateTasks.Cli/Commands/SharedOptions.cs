@@ -17,7 +17,7 @@ internal static class SharedOptions
     public static Option<string?> Sample() => new Option<string?>("--sample", "-s")
     {
         HelpName = "FILES",
-        Description = "Surrogate sample to use instead of the contract's: a Parquet or CSV file, a folder, or a glob (relative to the working directory).",
+        Description = "Surrogate sample to use instead of the contract's: a Parquet, CSV, NumPy (.npy, .npz) or HDF5 file, a folder, or a glob (relative to the working directory).",
     }.NotEmpty();
 
     /// <summary><c>--json FILE</c>: the command's result as a JSON document of the versioned result family (docs/result-json.md).</summary>

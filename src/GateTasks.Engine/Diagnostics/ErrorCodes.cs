@@ -85,6 +85,23 @@ public static class ErrorCodes
     /// <summary>Every weight of a sample is so small that its square is not a normal double.</summary>
     public const string SampleWeightsTooSmall = "GATE2011";
 
+    /// <summary>A NumPy array (a .npy file or a member of a .npz archive) whose header cannot be read: no NUMPY signature, an unknown format version, a header that is not the dictionary NumPy writes.</summary>
+    public const string SampleArrayHeader = "GATE2012";
+    /// <summary>An array file holds fewer (or more) bytes than its header's shape and dtype need: truncated, or bytes appended; an HDF5 file shorter than the end its superblock records.</summary>
+    public const string SampleArraySize = "GATE2013";
+    /// <summary>An array's shape cannot be read as named columns: a plain (not structured) .npy array, a 2-D or higher array, a 0-d scalar; an HDF5 dataset that is not 1-D.</summary>
+    public const string SampleArrayShape = "GATE2014";
+    /// <summary>The columns a sample file gives (the members of a .npz, the datasets of an HDF5 group) have different lengths.</summary>
+    public const string SampleColumnLengths = "GATE2015";
+    /// <summary>A NumPy array holds Python objects (stored as a pickle), which are never loaded.</summary>
+    public const string SampleArrayObjects = "GATE2016";
+    /// <summary>A sample file's content does not match its extension (a .npy that is not a NumPy array, an .h5 without the HDF5 signature …).</summary>
+    public const string SampleContentMismatch = "GATE2017";
+    /// <summary>An HDF5 dataset is compressed with a filter the reader cannot decode.</summary>
+    public const string SampleHdf5Filter = "GATE2018";
+    /// <summary>A .npz archive or an HDF5 file holds no array that can be read as columns.</summary>
+    public const string SampleNoColumns = "GATE2019";
+
     /// <summary>A feature of the surrogate sample holds NaN or infinite values, and its contract does not allow them.</summary>
     public const string SampleNonFinite = "GATE2008";
     /// <summary>A continuous feature takes a single value throughout the reference sample.</summary>

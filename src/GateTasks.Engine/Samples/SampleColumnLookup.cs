@@ -35,6 +35,9 @@ internal static class SampleColumnLookup
                     + NearestName.Hint(name, available.Select(c => c.Name)) + missingNote,
                     new SourceLocation(path));
             }
+            if (available[index].Refusal is { } refusal)
+                throw new GateInputException(refusal.Code,
+                    $"column '{name}' in sample file '{path}' cannot be read: {refusal.Reason}", new SourceLocation(path));
             if (available[index].Type == SampleValueType.Unsupported)
             {
                 throw new GateInputException(

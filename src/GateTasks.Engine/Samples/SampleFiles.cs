@@ -14,7 +14,7 @@ internal static class SampleFiles
 
     /// <summary>
     /// The absolute paths <paramref name="pattern"/> names, sorted ordinally so every run reads files in the
-    /// same order: a file; a folder's <c>.parquet</c>, <c>.pq</c> and <c>.csv</c> files (not its subfolders); or a
+    /// same order: a file; a folder's sample files (<c>.parquet</c>, <c>.pq</c>, <c>.csv</c>, <c>.npy</c>, <c>.npz</c>, <c>.h5</c>, <c>.hdf5</c>; not its subfolders); or a
     /// glob with <c>*</c>, <c>**</c> and <c>?</c>, which takes whatever files it matches. A relative pattern is
     /// relative to <paramref name="baseDirectory"/>. GATE2001 when nothing matches.
     /// </summary>
@@ -78,14 +78,13 @@ internal static class SampleFiles
                 $"sample '{pattern}' does not exist (looked for '{full}', relative to '{baseFull}')");
 
         var files = Directory.EnumerateFiles(full)
-            .Where(f => SampleReaderFactory.IsParquetExtension(System.IO.Path.GetExtension(f))
-                        || SampleReaderFactory.IsCsvExtension(System.IO.Path.GetExtension(f)))
+            .Where(f => SampleFormats.ByExtension(System.IO.Path.GetExtension(f)) is not null)
             .Select(System.IO.Path.GetFullPath)
             .Order(StringComparer.Ordinal)
             .ToArray();
         if (files.Length == 0)
             throw new GateInputException(ErrorCodes.SampleNotFound,
-                $"sample folder '{full}' holds no .parquet, .pq or .csv files");
+                $"sample folder '{full}' holds no sample files ({string.Join(", ", SampleFormats.Extensions)})");
         return files;
     }
 

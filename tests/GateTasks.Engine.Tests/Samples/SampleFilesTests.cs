@@ -42,6 +42,15 @@ public sealed class SampleFilesTests : IDisposable
     }
 
     [Fact]
+    public void FolderGivesItsNumpyAndHdf5FilesToo()
+    {
+        foreach (var name in new[] { "arrays/a.npy", "arrays/b.NPZ", "arrays/c.h5", "arrays/d.hdf5", "arrays/e.npy.txt", "arrays/f.csv" })
+            File.WriteAllText(_folder.File(name), "");
+        // The extensions docs/contract.md lists for a sample folder.
+        Assert.Equal(Expect("arrays/a.npy", "arrays/b.NPZ", "arrays/c.h5", "arrays/d.hdf5", "arrays/f.csv"), SampleFiles.Resolve("arrays", _folder.Path));
+    }
+
+    [Fact]
     public void FolderGivesItsSampleFilesSortedNotSubfolders()
     {
         Assert.Equal(Expect("run/a.pq", "run/b.parquet", "run/c.csv", "run/x1.parquet"), SampleFiles.Resolve("run", _folder.Path));

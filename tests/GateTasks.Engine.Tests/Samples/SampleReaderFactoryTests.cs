@@ -49,6 +49,25 @@ public sealed class SampleReaderFactoryTests : IDisposable
         Assert.Contains(path, error.Message);
     }
 
+    [Theory]
+    [InlineData("s.npy", "PK\u0003\u0004", "a ZIP archive")]
+    [InlineData("s.npz", "x,y\n", "does not start with that format's signature")]
+    [InlineData("s.h5", "PAR1", "a Parquet file")]
+    [InlineData("s.csv", "\u0093NUMPY", "a NumPy array")]
+    [InlineData("s.parquet", "\u0089HDF\r\n\u001a\n", "an HDF5 file")]
+    public void ContentThatIsNotTheExtensionsFormatIsRefused(string name, string head, string says)
+    {
+        var path = _folder.File(name);
+        File.WriteAllBytes(path, [.. head.Select(c => (byte)c), .. new byte[64]]);
+
+        var error = Assert.Throws<GateInputException>(() => SampleReaderFactory.Open(path));
+
+        // docs/error-codes.md, GATE2017: the content does not match the extension.
+        Assert.Equal(ErrorCodes.SampleContentMismatch, error.Code);
+        Assert.Contains(says, error.Message);
+        Assert.Equal(path, error.Location?.File);
+    }
+
     [Fact]
     public void MissingFileIsNotFound()
     {

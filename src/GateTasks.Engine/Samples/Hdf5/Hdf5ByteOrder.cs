@@ -1,0 +1,34 @@
+using System.Reflection;
+using PureHDF;
+
+namespace GateTasks.Engine.Samples.Hdf5;
+
+/// <summary>
+/// The byte order of an HDF5 number type. PureHDF 2.2 decodes it (the datatype message's bit field) but does not
+/// publish it, and its compound reader copies member bytes without swapping them, so a big-endian member would be
+/// read wrong without a word. The order is read from the library's datatype message by name; if that shape ever
+/// changes (another PureHDF version), the order is unknown and the column is refused rather than guessed.
+/// </summary>
+internal static class Hdf5ByteOrder
+{
+    /// <summary>Whether <paramref name="type"/> is big-endian; null when that cannot be told.</summary>
+    public static bool? IsBigEndian(IH5DataType type)
+    {
+        try
+        {
+            var message = type.GetType().GetField("_dataType", BindingFlags.Instance | BindingFlags.NonPublic)?.GetValue(type);
+            var bitField = message?.GetType().GetProperty("BitField", BindingFlags.Instance | BindingFlags.Public | BindingFlags.NonPublic)?.GetValue(message);
+            var order = bitField?.GetType().GetProperty("ByteOrder", BindingFlags.Instance | BindingFlags.Public | BindingFlags.NonPublic)?.GetValue(bitField);
+            return order?.ToString() switch
+            {
+                "LittleEndian" => false,
+                "BigEndian" => true,
+                _ => null, // VAX order, or not found
+            };
+        }
+        catch (Exception ex) when (ex is TargetInvocationException or MemberAccessException or InvalidOperationException)
+        {
+            return null;
+        }
+    }
+}
