@@ -26,12 +26,7 @@ internal static class RankingJson
         w.WriteString("contract", Path.GetFullPath(contract.FilePath));
         w.WriteString("title", contract.DisplayName);
         w.WriteString("reference", report.ReferencePath);
-        w.WriteStartObject("decision");
-        w.WriteNumber("confidence", d.Confidence);
-        w.WriteNumber("false_alarm", d.FalseAlarm);
-        w.WriteString("correction", d.CorrectionName);
-        w.WriteString("inconclusive", d.InconclusiveFails ? "fail" : "warn");
-        w.WriteEndObject();
+        ResultJsonHead.WriteDecision(w, d);
         w.WriteBoolean("any_passed", report.AnyPassed);
         w.WriteStartArray("candidates");
         foreach (var c in report.Candidates) WriteCandidate(w, c, d.Confidence);

@@ -34,12 +34,7 @@ internal static class PlanJson
             w.WriteString("sha256", referenceSha256);
             w.WriteNumber("events", plan.ReferenceEvents);
             w.WriteEndObject();
-            w.WriteStartObject("decision");
-            w.WriteNumber("confidence", d.Confidence);
-            w.WriteNumber("false_alarm", d.FalseAlarm);
-            w.WriteString("correction", d.CorrectionName);
-            w.WriteString("inconclusive", d.InconclusiveFails ? "fail" : "warn");
-            w.WriteEndObject();
+            ResultJsonHead.WriteDecision(w, d);
             w.WriteNumber("target", plan.Target);
             w.WriteNumber("power", plan.Power);
             w.WriteNumber("replicas", plan.Replicas);

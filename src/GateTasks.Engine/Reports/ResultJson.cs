@@ -51,12 +51,7 @@ internal static class ResultJson
             ResultJsonHead.NumberOrNull(w, "sum_w", report.SumW);
             ResultJsonHead.NumberOrNull(w, "effective_events", report.EffectiveEvents);
             w.WriteEndObject();
-            w.WriteStartObject("decision");
-            w.WriteNumber("confidence", decision.Confidence);
-            w.WriteNumber("false_alarm", decision.FalseAlarm);
-            w.WriteString("correction", decision.CorrectionName);
-            w.WriteString("inconclusive", decision.InconclusiveFails ? "fail" : "warn");
-            w.WriteEndObject();
+            ResultJsonHead.WriteDecision(w, decision);
 
             w.WriteStartObject("counts");
             w.WriteNumber("checks", report.Outcomes.Count);

@@ -1,6 +1,7 @@
 using System.Text;
 using System.Text.Encodings.Web;
 using System.Text.Json;
+using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
 using GateTasks.Engine.Runs;
 
@@ -28,6 +29,17 @@ internal static class ResultJsonHead
         w.WriteString("command", command);
         w.WriteString("tool_version", ToolVersion.Current);
         w.WriteBoolean("finished", finished);
+    }
+
+    /// <summary>The contract's decision settings as the object <c>decision</c>, the same in every document.</summary>
+    public static void WriteDecision(Utf8JsonWriter w, DecisionSettings d)
+    {
+        w.WriteStartObject("decision");
+        w.WriteNumber("confidence", d.Confidence);
+        w.WriteNumber("false_alarm", d.FalseAlarm);
+        w.WriteString("correction", d.CorrectionName);
+        w.WriteString("inconclusive", d.InconclusiveFails ? "fail" : "warn");
+        w.WriteEndObject();
     }
 
     /// <summary>A finite number, or null.</summary>
