@@ -21,6 +21,13 @@ public partial class DemoEndToEndTests
             // the demo's ledger holds an entry with results.
             Assert.Equal(16 + 4 * 4 + 20, Regex.Matches(html, "<svg[ >]").Count);
             Assert.Equal(20, Regex.Matches(html, "<figure class=\"plot trend\"").Count);
+            // Every id in the page is unique (HTML Living Standard, 3.2.6 "The id attribute": unique in the element's
+            // tree), clip paths included: a url(#id) resolves to the first element of that id, and the plots all come
+            // from one exporter that numbers its clip paths from 1. And no XML declaration inside the page.
+            var ids = Regex.Matches(html, " id=\"([^\"]+)\"").Select(m => m.Groups[1].Value).ToList();
+            Assert.Empty(ids.GroupBy(i => i).Where(g => g.Count() > 1).Select(g => g.Key));
+            Assert.Contains(ids, i => i.Contains("clipPath", StringComparison.Ordinal));
+            Assert.DoesNotContain("<?xml", html);
             Assert.True(new FileInfo(Path.Combine(Reports, name + ".html")).Length < 3_000_000, "the HTML report should stay a few MB at most");
             Assert.StartsWith($"### GateTasks check {verdict}: demo-diphoton", File.ReadAllText(Path.Combine(Reports, name + ".md")));
             Assert.Contains($"HTML report: {Path.Combine(Reports, name + ".html")}", demo.Stdout);

@@ -20,12 +20,15 @@ internal static class FeaturePlot
     private const string MainKey = "main";
     private const string RatioKey = "ratio";
 
-    /// <summary>The plot as an SVG element (no XML declaration), ready to inline in HTML.</summary>
-    public static string Svg(FeatureComparison comparison, IReadOnlyList<ComparedBin> bins, IReadOnlyList<ToleranceBand> bands)
+    /// <summary>
+    /// The plot as an SVG element (no XML declaration), ready to inline in HTML, its clip-path ids prefixed with
+    /// <paramref name="idPrefix"/>, unique in the page (<see cref="SvgFragment"/>).
+    /// </summary>
+    public static string Svg(FeatureComparison comparison, IReadOnlyList<ComparedBin> bins, IReadOnlyList<ToleranceBand> bands, string idPrefix)
     {
         var model = Build(comparison, bins, bands);
         var exporter = new SvgExporter { Width = Width, Height = Height, IsDocument = false };
-        return exporter.ExportToString(model);
+        return SvgFragment.Scoped(exporter.ExportToString(model), idPrefix);
     }
 
     private static PlotModel Build(FeatureComparison comparison, IReadOnlyList<ComparedBin> bins, IReadOnlyList<ToleranceBand> bands)

@@ -66,15 +66,12 @@ internal static class HeadroomTrendPlot
     }
 
     /// <summary>
-    /// The plot as an SVG element sized by its viewBox, ready to inline in HTML. OxyPlot numbers its clip paths from 1
-    /// in every SVG it writes, and an HTML page resolves <c>url(#id)</c> to the first element of that id in the whole
-    /// page, so the ids are prefixed with <paramref name="idPrefix"/>: else this plot would be clipped to another's area.
+    /// The plot as an SVG element sized by its viewBox, ready to inline in HTML, its clip-path ids prefixed with
+    /// <paramref name="idPrefix"/> (<see cref="SvgFragment"/>).
     /// </summary>
     public static string Svg(HeadroomTrend trend, string idPrefix)
     {
-        var svg = new SvgExporter { Width = Width, Height = Height, IsDocument = false }.ExportToString(Build(trend))
-            .Replace("id=\"clipPath", $"id=\"{idPrefix}-clipPath", StringComparison.Ordinal)
-            .Replace("url(#clipPath", $"url(#{idPrefix}-clipPath", StringComparison.Ordinal);
+        var svg = SvgFragment.Scoped(new SvgExporter { Width = Width, Height = Height, IsDocument = false }.ExportToString(Build(trend)), idPrefix);
         var start = svg.IndexOf("<svg", StringComparison.Ordinal);
         var end = svg.IndexOf('>', start);
         var tag = System.Text.RegularExpressions.Regex.Replace(svg[start..end], "\\s(width|height)=\"[^\"]*\"", "");

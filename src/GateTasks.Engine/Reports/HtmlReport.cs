@@ -169,7 +169,7 @@ internal static class HtmlReport
             var bins = ComparedBin.Of(c);
             if (c.SampleSpike is { } spike && c.Reference.Spike is { } refSpike) SpikeNote(sb, report, spike, refSpike);
             sb.Append("<figure class=\"plot\" data-bands=\"").Append(E(string.Join(" ", bands.Select(b => $"{b.Region}:{InvariantNumber.Short(b.Tolerance)}")))).Append("\">\n")
-              .Append(Responsive(FeaturePlot.Svg(c, bins, bands), $"{s.Name}: reference and surrogate distributions, and their ratio over the tolerance bands"))
+              .Append(Responsive(FeaturePlot.Svg(c, bins, bands, id + "-plot"), $"{s.Name}: reference and surrogate distributions, and their ratio over the tolerance bands"))
               .Append("\n<figcaption>")
               .Append("<span class=\"key\"><i class=\"sw ref\"></i>reference</span>")
               .Append("<span class=\"key\"><i class=\"sw sur\"></i>surrogate ± 1σ</span>");
@@ -288,7 +288,7 @@ internal static class HtmlReport
         if (!fixedSize.Contains("viewBox", StringComparison.Ordinal))
             fixedSize += string.Create(CultureInfo.InvariantCulture, $" viewBox=\"0 0 {FeaturePlot.Width} {FeaturePlot.Height}\"");
         fixedSize += " role=\"img\" aria-label=\"" + E(label) + "\"";
-        return svg[..start] + fixedSize + svg[end..];
+        return fixedSize + svg[end..];
     }
 
     /// <summary>Unique, URL-safe anchors per subject.</summary>

@@ -44,11 +44,9 @@ internal static class PairMapPlot
         {
             var exporter = new SvgExporter { Width = PanelWidth, Height = PanelHeight, IsDocument = false };
             var svg = exporter.ExportToString(panels[p]);
-            var start = svg.IndexOf("<svg", StringComparison.Ordinal);
-            // Each panel is a nested SVG placed at its offset; the outer one holds them side by side. OxyPlot numbers
-            // its clip paths from 1 in every export: each panel's get a prefix of their own.
-            svg = svg[start..].Replace("id=\"clipPath", $"id=\"{ids}-{p}-clip", StringComparison.Ordinal)
-                .Replace("url(#clipPath", $"url(#{ids}-{p}-clip", StringComparison.Ordinal);
+            // Each panel is a nested SVG placed at its offset; the outer one holds them side by side. Each panel's clip
+            // paths get a prefix of their own (SvgFragment).
+            svg = SvgFragment.Scoped(svg, $"{ids}-{p}");
             sb.Append(svg.Replace("<svg", string.Create(CultureInfo.InvariantCulture,
                 $"<svg x=\"{p * PanelWidth}\" y=\"0\" data-panel=\"{(p == 0 ? "reference" : p == 1 ? "surrogate" : "pull")}\""), StringComparison.Ordinal));
         }

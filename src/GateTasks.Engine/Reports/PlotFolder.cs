@@ -81,9 +81,8 @@ internal static class PlotFolder
             else if (comparisons.TryGetValue(plan.Subject, out var c))
             {
                 var outcomes = report.Outcomes.Where(o => o.Subject.Name == plan.Subject).ToList();
-                var plot = FeaturePlot.Svg(c, ComparedBin.Of(c), ToleranceBand.For(c, outcomes));
-                // OxyPlot writes its own declaration even for an element; the file gets one declaration, ours.
-                svg = Declaration + plot[plot.IndexOf("<svg", StringComparison.Ordinal)..] + "\n";
+                // The fragment has no declaration (SvgFragment); the file gets one, ours.
+                svg = Declaration + FeaturePlot.Svg(c, ComparedBin.Of(c), ToleranceBand.For(c, outcomes), "plot") + "\n";
             }
             if (svg is null) continue;
             AtomicFile.WriteText(path, svg);
