@@ -64,7 +64,8 @@ public sealed class DraftReferenceNoiseTests : IDisposable
         // The criterion: checked on a perfect surrogate of 10⁶ events, no check fails, and every check either passes
         // or is inconclusive with a finite number of surrogate events that would decide it — none waits for "more
         // reference events", as every ks-max did before tolerances were checked against the reference's noise.
-        (code, stdout, stderr) = Cli.Run("check", "--contract", contract, "--sample", surrogate);
+        // The full table (--all-checks): the default console shows only the verdict, binding checks and failures.
+        (code, stdout, stderr) = Cli.Run("check", "--contract", contract, "--sample", surrogate, "--all-checks");
         var rows = Regex.Matches(stdout, @"^(\S+) +(\S+-max) +(\S+) [^\n]*? (pass|fail|inconclusive)[ \t]*([^\n]*)$", RegexOptions.Multiline);
         Assert.Equal(loaded.Features.Sum(f => f.Checks.Count), rows.Count);
         foreach (Match row in rows)
