@@ -13,7 +13,7 @@ public static class Program
     private const string Usage = """
         usage: GateTasks.Benchmarks kernels [BenchmarkDotNet options, e.g. --filter '*' --job short]
                GateTasks.Benchmarks generate --out FILE --events N [--row-groups N] [--seed N]
-               GateTasks.Benchmarks contract --out FILE --sample PATH --reference PATH
+               GateTasks.Benchmarks contract --out FILE --sample PATH --reference PATH [--kinds K1,K2,…]
                GateTasks.Benchmarks export-reference --reference FILE --out JSON
                GateTasks.Benchmarks export-npy --sample FILE --out NPY
                GateTasks.Benchmarks fill --reference FILE --sample FILE --out JSON
@@ -53,7 +53,8 @@ public static class Program
                         .GetAwaiter().GetResult();
                     return 0;
                 case "contract":
-                    File.WriteAllText(Option("out"), BenchmarkContract.Text(Option("sample"), Option("reference")));
+                    var kinds = options.TryGetValue("kinds", out var k) ? k.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries) : [];
+                    File.WriteAllText(Option("out"), BenchmarkContract.Text(Option("sample"), Option("reference"), kinds));
                     return 0;
                 case "export-reference":
                     ReferenceExport.Write(Option("reference"), Option("out"));

@@ -55,10 +55,29 @@ public class BenchmarkScriptTests
         foreach (var run in joint)
             Assert.True(double.Parse(run.Split('|', StringSplitOptions.TrimEntries)[4], CultureInfo.InvariantCulture) > 0, run);
 
-        // All seven targets are stated, each as met, missed or not measured (the build overhead is skipped here); the
-        // seventh, the joint block's added time, came with the joint variants (six targets before).
+        // Each further check kind alone (six variants) and every kind with every joint check, each timed with a
+        // positive wall time against the plain check: again the program compared with itself.
+        var kindHeader = Array.FindIndex(lines, l => l.StartsWith("| `gatetasks check` with a further check kind |", StringComparison.Ordinal));
+        Assert.True(kindHeader > 0, stdout);
+        var kinds = lines.Skip(kindHeader + 2).TakeWhile(l => l.StartsWith('|')).ToList();
+        Assert.Equal(["moments", "quantiles", "distances", "far", "categories", "correlations", "every"],
+            kinds.Select(l => l.Split('|', StringSplitOptions.TrimEntries)[1].Split(' ')[0]));
+        foreach (var run in kinds)
+            Assert.True(double.Parse(run.Split('|', StringSplitOptions.TrimEntries)[2], CultureInfo.InvariantCulture) > 0, run);
+        // rank over three candidates at this size, in one process.
+        Assert.Contains(lines, l => l.StartsWith("`gatetasks rank` of 3 candidates × 10^4 events in one process, 2 cores: ", StringComparison.Ordinal));
+
+        // All twelve targets are stated, each as met, missed or not measured (the build overhead is skipped here).
         var targets = lines.SkipWhile(l => l != "| target | measured | result |").Skip(2).TakeWhile(l => l.StartsWith('|')).ToList();
-        Assert.Equal(7, targets.Count);
+        Assert.Equal(12, targets.Count);
+        foreach (var label in new[] { "| decode and fill ≤ 5 ns per value per core |", "| a check of 1000 events ≤ 0.15 s |",
+                     "| whole check of 10^7 events ≤ 1.0 s on two cores |", "| check ≥ 4× faster than DuckDB's histogram query",
+                     "| 2 cores ≥ 1.8× one core |", "| peak RSS ≤ 150 MB for 10^5 events |",
+                     "| no check kind adds more than 10% to the streaming time |", "| rank of 20 checkpoints × 10^6 events ≤ 20 s on two cores |" })
+            Assert.Single(targets, t => t.StartsWith(label, StringComparison.Ordinal));
+        // Stated for 10^7 events and 20 × 10^6: a tiny run does not claim them.
+        Assert.Single(targets, t => t.StartsWith("| whole check of 10^7 events", StringComparison.Ordinal) && t.EndsWith("| not measured |", StringComparison.Ordinal));
+        Assert.Single(targets, t => t.StartsWith("| rank of 20 checkpoints", StringComparison.Ordinal) && t.EndsWith("| not measured |", StringComparison.Ordinal));
         // At 10^5 events the plain check streams for a fraction of a second, within noise of its fixed cost: the share
         // is then "not measured", never "met" on a difference of two noisy numbers.
         var jointTarget = Assert.Single(targets, t => t.StartsWith("| all joint checks together add ≤ 15% to the streaming time | ", StringComparison.Ordinal));

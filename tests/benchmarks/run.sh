@@ -8,9 +8,11 @@
 # Each repetition also times the check with a joint block added to the contract (docs/contract.md, joint structure),
 # one variant at a time, each against a reference built with that block: all joint checks (Fréchet, kernel and the
 # two sliced checks at the default 64 projections) over all 20 features, the same over 5 features, and each kind
-# alone over 20 features. The report gives each variant's added time
+# alone over 20 features; and with each further check kind (moments, quantiles, distances, far tails, categories,
+# correlations) added alone, and with every kind and joint check at once. The report gives each variant's added time
 # against the plain check of the same repetition, split into a fixed part (the same on the 1000-event sample) and a
-# part that grows with the events, and the 15% target for all joint checks together.
+# part that grows with the events. It also times `gatetasks rank` over 20 candidates of 10^6 events each (10^5 at
+# --small, 3 of 10^4 at --tiny) in one process, and prints every performance target with its measured value.
 #
 # Options: --repeat N (timed repetitions, median reported; default 3, 1 for --tiny), --out FILE (also write the
 # Markdown there), --work DIR (keep the data there instead of a temporary folder), --no-build (use the built
@@ -38,15 +40,15 @@ while [ $# -gt 0 ]; do
     --work) work=${2:?--work needs a folder}; shift ;;
     --no-build) build=0 ;;
     --skip-build-overhead) build_overhead=0 ;;
-    -h|--help) sed -n '2,19p' "$0" | sed 's/^# \{0,1\}//'; exit 0 ;;
+    -h|--help) sed -n '2,26p' "$0" | sed 's/^# \{0,1\}//'; exit 0 ;;
     *) echo "run.sh: unknown option '$1' (see --help)" >&2; exit 2 ;;
   esac
   shift
 done
 case "$mode" in
-  full)  events=10000000 linear=1000000 row_groups=20 reference_events=1000000 ;;
-  small) events=1000000  linear=100000  row_groups=10 reference_events=200000 ;;
-  tiny)  events=100000   linear=10000   row_groups=10 reference_events=50000 ;;
+  full)  events=10000000 linear=1000000 row_groups=20 reference_events=1000000 candidates=20 ;;
+  small) events=1000000  linear=100000  row_groups=10 reference_events=200000  candidates=20 ;;
+  tiny)  events=100000   linear=10000   row_groups=10 reference_events=50000   candidates=3 ;;
 esac
 startup_events=1000
 [ -n "$repeat" ] || { [ "$mode" = tiny ] && repeat=1 || repeat=3; }
@@ -121,6 +123,25 @@ for variant in "${joint_variants[@]}"; do
   dotnet "$cli" reference build --contract "$contract" --from "$work/fullsim.parquet" >"$work/logs/reference-joint-$name.out"
 done
 printf '%s\n' "${joint_variants[@]}" >"$work/joint-variants.txt"
+# The check kinds beyond the plain contract's (the harness's BenchmarkContract.Kinds), one variant per kind, each with
+# its own reference, and one with every kind and every joint check over 20 features: nothing slow hides outside the clock.
+kinds=(moments quantiles distances far-tails categories correlations)
+for kind in "${kinds[@]}" every; do
+  list=$kind
+  [ "$kind" = every ] && list=$(IFS=,; echo "${kinds[*]}")
+  contract=$work/contract-kind-$kind.yaml
+  harness_run contract --out "$contract" --sample sample.parquet --reference "reference-kind-$kind.parquet" --kinds "$list"
+  if [ "$kind" = every ]; then
+    { echo "joint:"; echo "  features: [$joint_all]"; tr ';' '\n' <<<"frechet-max: 0.02;kernel-distance-max: 0.005;$joint_sliced" | sed 's/^/  /'; } >>"$contract"
+  fi
+  dotnet "$cli" reference build --contract "$contract" --from "$work/fullsim.parquet" >"$work/logs/reference-kind-$kind.out"
+done
+printf '%s\n' "${kinds[@]}" every >"$work/kind-variants.txt"
+# rank: candidates of the linear sample's size (10^6 events at full size), one file each, checked in one process.
+mkdir -p "$work/candidates"
+for c in $(seq 1 "$candidates"); do
+  harness_run generate --out "$work/candidates/epoch-$(printf %02d "$c").parquet" --events "$linear" --row-groups "$row_groups" --seed $((100 + c))
+done
 harness_run export-reference --reference "$work/reference.parquet" --out "$work/reference.json"
 harness_run export-npy --sample "$work/sample.parquet" --out "$work/sample.npy"
 
@@ -134,7 +155,7 @@ timed() {
   local name=$1 status=0
   shift
   /usr/bin/time -f '%e %U %S %M' -o "$work/times/$name" "$@" >"$work/logs/$name.out" 2>"$work/logs/$name.err" || status=$?
-  if [ "$status" -ne 0 ] && ! { { [ "$status" -eq 1 ] || [ "$status" -eq 5 ]; } && [[ $name == check-* ]]; }; then
+  if [ "$status" -ne 0 ] && ! { { [ "$status" -eq 1 ] || [ "$status" -eq 5 ]; } && [[ $name == check-* || $name == rank* ]]; }; then
     say "$name exited $status:"
     tail -n 20 "$work/logs/$name.err" >&2
     exit 1
@@ -155,6 +176,11 @@ for i in $(seq 1 "$repeat"); do
     timed "check-joint-$name.$i" "${two[@]}" dotnet "$cli" check --contract "$work/contract-joint-$name.yaml"
     timed "check-joint-$name-startup.$i" "${two[@]}" dotnet "$cli" check --contract "$work/contract-joint-$name.yaml" --sample "$work/sample-startup.parquet"
   done
+  for kind in "${kinds[@]}" every; do
+    timed "check-kind-$kind.$i" "${two[@]}" dotnet "$cli" check --contract "$work/contract-kind-$kind.yaml"
+    timed "check-kind-$kind-startup.$i" "${two[@]}" dotnet "$cli" check --contract "$work/contract-kind-$kind.yaml" --sample "$work/sample-startup.parquet"
+  done
+  timed "rank.$i" "${two[@]}" dotnet "$cli" rank "$work/candidates/epoch-*.parquet" --contract "$work/precision-contract.yaml"
   timed "check-one-core.$i" "${one[@]}" dotnet "$cli" check --contract "$work/precision-contract.yaml"
   timed "check-linear.$i" "${two[@]}" dotnet "$cli" check --contract "$work/precision-contract.yaml" --sample "$work/sample-linear.parquet"
   timed "check-startup.$i" "${two[@]}" dotnet "$cli" check --contract "$work/precision-contract.yaml" --sample "$work/sample-startup.parquet"
@@ -164,6 +190,20 @@ for i in $(seq 1 "$repeat"); do
   timed "numpy.$i" "${two[@]}" "$python" "$here/numpy-check.py" "$work/sample.npy" "$work/reference.json" "$work/out/numpy.$i.json"
 done
 cp "$work/logs/check-full.1.out" "$work/out/check-full.txt"
+
+# The fan-out's steps, for the cost model (docs/performance.md): each candidate filled as one shard into a partial
+# file, the partials merged into one, and the check decided from it. Once, outside the repetitions.
+say "filling $candidates shards, merging their partials and checking from them"
+mkdir -p "$work/partials"
+for c in $(seq 1 "$candidates"); do
+  name=$(printf %02d "$c")
+  timed "shard-fill.$name" "${two[@]}" dotnet "$cli" fill --contract "$work/precision-contract.yaml" \
+    --sample "$work/candidates/epoch-$name.parquet" --output "$work/partials/epoch-$name.partial"
+done
+timed "shard-merge.1" "${two[@]}" dotnet "$cli" merge --contract "$work/precision-contract.yaml" \
+  --output "$work/merged.partial" "$work/partials/*.partial"
+timed "check-partials.1" "${two[@]}" dotnet "$cli" check --contract "$work/precision-contract.yaml" --partials "$work/merged.partial"
+stat -c %s "$work"/partials/*.partial | sort -n | tail -n 1 >"$work/partial-bytes"
 
 if [ "$build_overhead" = 1 ]; then
   say "packing the MSBuild package into a local feed and timing no-op builds"
@@ -231,7 +271,7 @@ fi
 
 cat >"$work/meta.json" <<EOF
 {"mode": "$mode", "events": $events, "linear_events": $linear, "startup_events": $startup_events,
- "reference_events": $reference_events, "row_groups": $row_groups, "repeat": $repeat, "cores": $cores,
+ "reference_events": $reference_events, "row_groups": $row_groups, "repeat": $repeat, "cores": $cores, "candidates": $candidates,
  "duckdb_package": "@duckdb/node-api $duckdb_version", "node": "$(node --version)", "dotnet": "$(dotnet --version)",
  "sample_bytes": $(stat -c %s "$work/sample.parquet"), "build_overhead": $build_overhead, "elapsed_seconds": $SECONDS}
 EOF

@@ -24,11 +24,7 @@ internal static class PlanJson
             var d = contract.Decision;
             w.WriteStartObject();
             ResultJsonHead.Write(w, "plan", finished: true);
-            w.WriteStartObject("contract");
-            w.WriteString("path", Path.GetFullPath(contract.FilePath));
-            w.WriteString("title", contract.DisplayName);
-            w.WriteString("sha256", FileDigest.Sha256(contract.FilePath));
-            w.WriteEndObject();
+            ResultJsonHead.WriteContract(w, contract);
             w.WriteStartObject("reference");
             w.WriteString("path", contract.ReferenceFullPath);
             w.WriteString("sha256", referenceSha256);

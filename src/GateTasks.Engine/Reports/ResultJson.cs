@@ -33,11 +33,7 @@ internal static class ResultJson
             w.WriteString("started_utc", JUnitText.Timestamp(report.StartedUtc));
             w.WriteNumber("elapsed_seconds", Math.Round(report.Elapsed.TotalSeconds, 3));
 
-            w.WriteStartObject("contract");
-            w.WriteString("path", Path.GetFullPath(contract.FilePath));
-            w.WriteString("title", contract.DisplayName);
-            w.WriteString("sha256", FileDigest.Sha256(contract.FilePath));
-            w.WriteEndObject();
+            ResultJsonHead.WriteContract(w, contract);
             w.WriteStartObject("reference");
             w.WriteString("path", Path.GetFullPath(report.ReferencePath));
             w.WriteString("sha256", report.ReferenceSha256);

@@ -3,6 +3,7 @@ using System.Text.Encodings.Web;
 using System.Text.Json;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
 using GateTasks.Engine.Runs;
 
 namespace GateTasks.Engine.Reports;
@@ -39,6 +40,16 @@ internal static class ResultJsonHead
         w.WriteNumber("false_alarm", d.FalseAlarm);
         w.WriteString("correction", d.CorrectionName);
         w.WriteString("inconclusive", d.InconclusiveFails ? "fail" : "warn");
+        w.WriteEndObject();
+    }
+
+    /// <summary>The contract as the object <c>contract</c> (path, title, SHA-256 of its file), the same in every document.</summary>
+    public static void WriteContract(Utf8JsonWriter w, PrecisionContract contract)
+    {
+        w.WriteStartObject("contract");
+        w.WriteString("path", Path.GetFullPath(contract.FilePath));
+        w.WriteString("title", contract.DisplayName);
+        w.WriteString("sha256", FileDigest.Sha256(contract.FilePath));
         w.WriteEndObject();
     }
 
