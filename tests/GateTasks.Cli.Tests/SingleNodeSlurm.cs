@@ -1,7 +1,6 @@
 using System.Diagnostics;
 using System.Net;
 using System.Net.Sockets;
-using System.Security.Cryptography;
 using System.Text;
 using System.Text.RegularExpressions;
 using GateTasks.Tests.Shared;
@@ -19,7 +18,7 @@ namespace GateTasks.Cli.Tests;
 public sealed partial class SingleNodeSlurm : IDisposable
 {
     /// <summary>The programs the cluster needs: the daemons, the clients it and its users call, and munged.</summary>
-    public static readonly IReadOnlyList<string> Programs = ["slurmctld", "slurmd", "sbatch", "sinfo", "squeue", "scancel", "munged"];
+    public static readonly IReadOnlyList<string> Programs = ["slurmctld", "slurmd", "sbatch", "sinfo", "squeue", "scancel", "munged", "mungekey"];
 
     private readonly string _root;
     private readonly List<(string Name, Process Process, StringBuilder Output)> _daemons = [];
@@ -71,11 +70,11 @@ public sealed partial class SingleNodeSlurm : IDisposable
     {
         if (!OperatingSystem.IsLinux()) throw new PlatformNotSupportedException("a single-node Slurm needs Linux");
         foreach (var dir in new[] { "munge", "state", "spool", "log" }) Directory.CreateDirectory(Path.Combine(_root, dir));
-        // munged wants its key readable by its own user only; 1024 random bytes is the size mungekey makes by default.
-        var key = Path.Combine(_root, "munge", "munge.key");
-        File.WriteAllBytes(key, RandomNumberGenerator.GetBytes(1024));
-        File.SetUnixFileMode(key, UnixFileMode.UserRead | UnixFileMode.UserWrite);
+        // A key of the cluster's own, made by munge's mungekey (readable by its owner only), in a folder only root may enter.
         File.SetUnixFileMode(Path.Combine(_root, "munge"), UnixFileMode.UserRead | UnixFileMode.UserWrite | UnixFileMode.UserExecute);
+        var key = Path.Combine(_root, "munge", "munge.key");
+        var made = ProcessRunner.Run(Program("mungekey"), ["--create", $"--keyfile={key}"], _root, timeoutSeconds: 30);
+        if (made.ExitCode != 0) throw new InvalidOperationException($"mungekey --create gave exit {made.ExitCode}: {made.Stdout}{made.Stderr}");
 
         // `slurmd -C` prints this machine's node line (name, CPUs, sockets, cores, threads, memory) as slurmd will
         // find them, so the node is not drained for a mismatch.
@@ -108,6 +107,7 @@ public sealed partial class SingleNodeSlurm : IDisposable
             JobAcctGatherType=jobacct_gather/none
             AccountingStorageType=accounting_storage/none
             MailProg=/bin/true
+            MpiDefault=none
             ReturnToService=2
             SchedulerParameters=batch_sched_delay=0
             DependencyParameters=kill_invalid_depend
@@ -115,8 +115,8 @@ public sealed partial class SingleNodeSlurm : IDisposable
             PartitionName=test Nodes=ALL Default=YES MaxTime=INFINITE State=UP
 
             """);
-        // batch_sched_delay=0: a job whose dependency is met starts within a second instead of three (the default).
-        // kill_invalid_depend: a job whose dependency can no longer be met is cancelled, so `sbatch --wait` returns.
+        // batch_sched_delay=0: a job whose dependency is met starts within a second, not after the default 3 s (man slurm.conf).
+        // kill_invalid_depend: a job whose dependency can no longer be met is cancelled (man slurm.conf), so `sbatch --wait` returns.
     }
 
     private void StartDaemons(TimeSpan timeout)

@@ -2,7 +2,7 @@ namespace GateTasks.Cli.Tests;
 
 /// <summary>
 /// A fact that starts a single-node Slurm of its own (Debian's slurm-wlm and munge, installed by .ci/run through
-/// apt): it needs slurmctld, slurmd, sbatch, sinfo, squeue, scancel and munged on PATH, and root, since its daemons run
+/// apt): it needs slurmctld, slurmd, sbatch, sinfo, squeue, scancel, munged and mungekey on PATH, and root, since its daemons run
 /// as root (SlurmUser=root) and munged refuses another user's key. Skipped where one of these is missing, unless
 /// GATETASKS_REQUIRE_EXTERNAL_TOOLS=1 (as in CI), where it runs and fails loudly, with the daemons' logs.
 /// </summary>
