@@ -72,7 +72,15 @@ public sealed partial class SlurmFanOutTests : IDisposable
 
         using var slurm = SingleNodeSlurm.Start(Path.Combine(_dir, "slurm"), TimeSpan.FromSeconds(60));
         var environment = new Dictionary<string, string>(slurm.Environment) { ["PATH"] = bin + Path.PathSeparator + Environment.GetEnvironmentVariable("PATH") };
-        var submit = ProcessRunner.Run("bash", ["submit.sh"], work, environment, timeoutSeconds: 100);
+        (int ExitCode, string Stdout, string Stderr) submit;
+        try
+        {
+            submit = ProcessRunner.Run("bash", ["submit.sh"], work, environment, timeoutSeconds: 120);
+        }
+        catch (TimeoutException e)
+        {
+            throw new TimeoutException($"{e.Message}\n{JobOutputs(work)}\n{slurm.Logs()}", e);
+        }
         string Story() => $"submit.sh exit {submit.ExitCode}\n{submit.Stdout}{submit.Stderr}\n{JobOutputs(work)}\n{slurm.Logs()}";
 
         // submit.sh ends with `sbatch --wait` on the check, so its exit code is the check's: 1, as in one pass.
