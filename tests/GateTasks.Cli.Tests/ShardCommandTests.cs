@@ -1,4 +1,3 @@
-using System.Xml.Linq;
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Demo;
 using GateTasks.Engine.References;
@@ -47,20 +46,7 @@ public sealed class ShardCommandTests : IDisposable
         Assert.True(code == 1, stdout + stderr);
 
         // Same checks, same verdicts, and the same numbers for everything but the unbinned moments, coefficients and joint test.
-        static Dictionary<string, (string Verdict, string Estimate)> Cases(string path) => XDocument.Load(path).Descendants("testcase")
-            .Where(t => !t.Attribute("classname")!.Value.EndsWith(".acceptance"))
-            .ToDictionary(t => t.Attribute("classname")!.Value + " " + t.Attribute("name")!.Value,
-                t => (t.Descendants("property").Single(p => p.Attribute("name")!.Value == "verdict").Attribute("value")!.Value,
-                      t.Descendants("property").Single(p => p.Attribute("name")!.Value == "estimate").Attribute("value")!.Value));
-        var a = Cases(whole);
-        var b = Cases(fanned);
-        Assert.Equal(a.Keys.Order(), b.Keys.Order());
-        foreach (var (name, (verdict, estimate)) in a)
-        {
-            Assert.True(verdict == b[name].Verdict, $"{name}: {verdict} vs {b[name].Verdict}");
-            var unbinned = name.Contains("mean-shift") || name.Contains("width-ratio-max") && !name.Contains("iqr") || name.Contains("pearson") || name.Contains("spearman");
-            if (!unbinned) Assert.True(estimate == b[name].Estimate, $"{name}: {estimate} vs {b[name].Estimate}");
-        }
+        JunitCheckCases.AssertSameAsOnePass(whole, fanned);
 
         // A shard counted twice is refused, naming the file.
         (code, _, stderr) = Cli.Run("check", "--contract", contractPath, "--partials", Path.Combine(_dir, "a.partial"), Path.Combine(_dir, "part-1.partial"));
