@@ -71,13 +71,15 @@ internal static class Wasserstein
             throw new ArgumentException("Each sample's total weight on the grid must be positive and finite.", nameof(a));
         double ca = a[0], cb = b[0];
         var area = Math.Abs(belowA / ta - belowB / tb);
+        // Each cell's d1 is the next cell's d0 (the same quotients), so it is carried rather than computed twice.
+        var d0 = ca / ta - cb / tb;
         for (var i = 1; i < edges.Length; i++)
         {
-            double d0 = ca / ta - cb / tb;
             ca += a[i];
             cb += b[i];
-            double d1 = ca / ta - cb / tb;
+            var d1 = ca / ta - cb / tb;
             area += (edges[i] - edges[i - 1]) * LinearAbsMean(d0, d1);
+            d0 = d1;
         }
         return area + Math.Abs(aboveA / ta - aboveB / tb);
     }
