@@ -129,8 +129,8 @@ internal static class HistogramBootstrap
         for (var i = 0; i < n; i++)
             mixedW2[i] = (1 - lambdaAtTolerance) * reference.SumW2[i] * (tb / ta) * (sampleKappa / referenceKappa) + lambdaAtTolerance * sample.SumW2[i];
         var rng = new SeededSampler(seed + 3);
-        var referenceLaws = ScaledPoissonLaws(reference.SumW, reference.SumW2);
-        var mixedLaws = ScaledPoissonLaws(mixed, mixedW2);
+        var referenceLaws = new ScaledPoissonCells(reference.SumW, reference.SumW2);
+        var mixedLaws = new ScaledPoissonCells(mixed, mixedW2);
         var a = new double[n];
         var b = new double[n];
         var result = new double[Replicas];
@@ -138,27 +138,37 @@ internal static class HistogramBootstrap
         {
             for (var i = 0; i < n; i++)
             {
-                a[i] = referenceLaws[i].Draw(rng);
-                b[i] = mixedLaws[i].Draw(rng);
+                a[i] = referenceLaws.Draw(i, rng);
+                b[i] = mixedLaws.Draw(i, rng);
             }
             result[r] = distance(a, b);
         }
         return result;
     }
 
-    /// <summary>Each cell's κ·Poisson(μ/κ) with κ = Σw²/μ, its constants computed once for all replicas.</summary>
-    private static ScaledPoisson[] ScaledPoissonLaws(double[] mean, double[] sumW2)
+    /// <summary>
+    /// Each cell's κ·Poisson(μ/κ) with κ = Σw²/μ, its constants computed once for all replicas; a cell whose mean or
+    /// Σw² is not positive is held at its mean (κ = 0).
+    /// </summary>
+    private sealed class ScaledPoissonCells
     {
-        var laws = new ScaledPoisson[mean.Length];
-        for (var i = 0; i < mean.Length; i++)
-            laws[i] = mean[i] > 0 && sumW2[i] > 0 ? new ScaledPoisson(mean[i], sumW2[i] / mean[i], new PoissonLaw(mean[i] * mean[i] / sumW2[i])) : new ScaledPoisson(mean[i], 0, default);
-        return laws;
-    }
+        private readonly double[] _mean, _kappa;
+        private readonly PoissonLaw[] _laws;
 
-    /// <summary>κ·Poisson(μ/κ); held at the mean <see cref="Mean"/> where κ is 0 (a mean or Σw² that is not positive).</summary>
-    private readonly record struct ScaledPoisson(double Mean, double Kappa, PoissonLaw Law)
-    {
-        public double Draw(SeededSampler rng) => Kappa > 0 ? Kappa * rng.Poisson(Law) : Mean;
+        public ScaledPoissonCells(double[] mean, double[] sumW2)
+        {
+            _mean = mean;
+            _kappa = new double[mean.Length];
+            _laws = new PoissonLaw[mean.Length];
+            for (var i = 0; i < mean.Length; i++)
+            {
+                if (!(mean[i] > 0 && sumW2[i] > 0)) continue;
+                _kappa[i] = sumW2[i] / mean[i];
+                _laws[i] = new PoissonLaw(mean[i] * mean[i] / sumW2[i]);
+            }
+        }
+
+        public double Draw(int i, SeededSampler rng) => _kappa[i] > 0 ? _kappa[i] * rng.Poisson(in _laws[i]) : _mean[i];
     }
 
     /// <summary>

@@ -170,11 +170,12 @@ internal readonly struct PoissonLaw
         Vr = 0.9277 - 3.6224 / (B - 2);
     }
 
-    public double Mean { get; }
-    public double ExpMinusMean { get; }
-    public double LogMean { get; }
-    public double A { get; }
-    public double B { get; }
-    public double LogInverseAlpha { get; }
-    public double Vr { get; }
+    // Fields, not properties, so that a draw reads them in place.
+    public readonly double Mean;
+    public readonly double ExpMinusMean;
+    public readonly double LogMean;
+    public readonly double A;
+    public readonly double B;
+    public readonly double LogInverseAlpha;
+    public readonly double Vr;
 }
