@@ -7,45 +7,95 @@ namespace GateTasks.Engine.Accumulation;
 /// <summary>
 /// Accumulates, in one streamed pass, Pearson's r of a declared pair and Spearman's ρ as the Pearson correlation of
 /// the values' ranks under the reference's marginal CDFs (equal to the sample's own ranks when its marginals match
-/// the reference's). Pairs where either value is NaN are skipped.
+/// the reference's). Pairs where either value is NaN are skipped. Each feature's cells and ranks come from its
+/// <see cref="PairColumn"/>, shared by the pairs of a <see cref="PairAccumulation"/>.
 /// </summary>
-internal sealed class PairCorrelation(CorrelationSpec spec, int first, int second, MarginalCdf firstCdf, MarginalCdf secondCdf,
-    Histogram2D? joint = null)
+internal sealed class PairCorrelation
 {
+    private readonly PairColumn _first, _second;
+    private readonly bool _ownColumns;
+    // Each feature's storage cell to the joint grid's (null when the grid is not a coarsening of the feature's axis).
+    private readonly int[]? _firstToJoint, _secondToJoint;
+
+    /// <summary>A pair with columns of its own, which <see cref="Add"/> prepares itself.</summary>
+    public PairCorrelation(CorrelationSpec spec, int first, int second, MarginalCdf firstCdf, MarginalCdf secondCdf, Histogram2D? joint = null)
+        : this(spec, new PairColumn(first, firstCdf), new PairColumn(second, secondCdf), joint) => _ownColumns = true;
+
+    /// <summary>A pair reading columns that its <see cref="PairAccumulation"/> prepares for each batch.</summary>
+    public PairCorrelation(CorrelationSpec spec, PairColumn first, PairColumn second, Histogram2D? joint)
+    {
+        Spec = spec;
+        (_first, _second) = (first, second);
+        Joint = joint;
+        _cells = joint is null ? null : new ExactCells(joint.CellCount);
+        if (joint is not null)
+        {
+            _firstToJoint = PairGrid.CellMap(first.Axis, joint.X);
+            _secondToJoint = PairGrid.CellMap(second.Axis, joint.Y);
+        }
+    }
+
     /// <summary>
     /// The pair's 2-D histogram on its <see cref="PairGrid"/> (the features' axes for a χ² test, else the coarse map
     /// grid): a per-batch buffer, added exactly into the cells below. Null only where a caller gathers no cells.
     /// </summary>
-    public Histogram2D? Joint { get; } = joint;
+    public Histogram2D? Joint { get; }
 
-    private readonly ExactCells? _cells = joint is null ? null : new ExactCells(joint.CellCount);
+    private readonly ExactCells? _cells;
 
     private readonly WeightedCorrelation _pearson = new();
     private readonly WeightedCorrelation _spearman = new();
 
-    public CorrelationSpec Spec { get; } = spec;
+    public CorrelationSpec Spec { get; }
 
-    // Per-batch buffers of the pairs without NaN: values, their reference-CDF ranks, weights.
+    // Per-batch buffers of the pairs without NaN: values, their reference-CDF ranks, weights, cells.
     private double[] _x = [], _y = [], _u = [], _v = [], _w = [];
+    private int[] _cx = [], _cy = [];
 
+    /// <summary>Adds a batch (a pair with columns of its own).</summary>
     public void Add(Samples.FeatureView view)
     {
-        var x = view.Feature(first);
-        var y = view.Feature(second);
-        var weights = view.Weights;
-        if (_x.Length < x.Length) (_x, _y, _u, _v, _w) = (new double[x.Length], new double[x.Length], new double[x.Length], new double[x.Length], new double[x.Length]);
-        var kept = 0;
-        for (var r = 0; r < x.Length; r++)
+        if (!_ownColumns) throw new InvalidOperationException("A shared pair is filled through its PairAccumulation.");
+        _first.Prepare(view);
+        _second.Prepare(view);
+        AddPrepared(view);
+    }
+
+    /// <summary>Adds a batch whose columns are prepared.</summary>
+    internal void AddPrepared(Samples.FeatureView view)
+    {
+        ReadOnlySpan<double> x = view.Feature(_first.Feature), y = view.Feature(_second.Feature), u = _first.Ranks, v = _second.Ranks;
+        ReadOnlySpan<int> cx = _first.Cells, cy = _second.Cells;
+        var ws = view.Weights;
+        if (_first.HasNaN || _second.HasNaN)
         {
-            if (double.IsNaN(x[r]) || double.IsNaN(y[r])) continue;
-            var w = weights.IsEmpty ? 1.0 : weights[r];
-            (_x[kept], _y[kept], _u[kept], _v[kept], _w[kept]) = (x[r], y[r], firstCdf.Evaluate(x[r]), secondCdf.Evaluate(y[r]), w);
-            kept++;
+            // Only the rows where both are numbers.
+            if (_x.Length < x.Length)
+                (_x, _y, _u, _v, _w, _cx, _cy) = (new double[x.Length], new double[x.Length], new double[x.Length], new double[x.Length], new double[x.Length],
+                    new int[x.Length], new int[x.Length]);
+            var kept = 0;
+            for (var r = 0; r < x.Length; r++)
+            {
+                if (cx[r] == PairColumn.NanCell || cy[r] == PairColumn.NanCell) continue;
+                (_x[kept], _y[kept], _u[kept], _v[kept], _cx[kept], _cy[kept]) = (x[r], y[r], u[r], v[r], cx[r], cy[r]);
+                if (!ws.IsEmpty) _w[kept] = ws[r];
+                kept++;
+            }
+            x = _x.AsSpan(0, kept);
+            y = _y.AsSpan(0, kept);
+            u = _u.AsSpan(0, kept);
+            v = _v.AsSpan(0, kept);
+            cx = _cx.AsSpan(0, kept);
+            cy = _cy.AsSpan(0, kept);
+            if (!ws.IsEmpty) ws = _w.AsSpan(0, kept);
         }
-        var ws = weights.IsEmpty ? ReadOnlySpan<double>.Empty : _w.AsSpan(0, kept);
-        Joint?.Fill(_x.AsSpan(0, kept), _y.AsSpan(0, kept), ws);
-        _pearson.AddBatch(_x.AsSpan(0, kept), _y.AsSpan(0, kept), ws);
-        _spearman.AddBatch(_u.AsSpan(0, kept), _v.AsSpan(0, kept), ws);
+        if (Joint is not null)
+        {
+            if (_firstToJoint is not null && _secondToJoint is not null) Joint.FillCells(cx, cy, _firstToJoint, _secondToJoint, ws);
+            else Joint.Fill(x, y, ws);
+        }
+        _pearson.AddBatch(x, y, ws);
+        _spearman.AddBatch(u, v, ws);
         if (Joint is not null) Joint.MoveCellsInto(_cells!);
     }
 

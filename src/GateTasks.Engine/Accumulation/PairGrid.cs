@@ -64,5 +64,27 @@ internal static class PairGrid
         return result;
     }
 
+    /// <summary>
+    /// For each storage cell of <paramref name="fine"/>, its storage cell on <paramref name="coarse"/>, when every edge
+    /// of the coarse axis is one of the fine axis's and the two share their first and last edges (then each fine cell
+    /// lies in one coarse cell, flows in flows); null otherwise.
+    /// </summary>
+    public static int[]? CellMap(Axis fine, Axis coarse)
+    {
+        var f = fine.Edges;
+        var c = coarse.Edges;
+        if (f[0] != c[0] || f[^1] != c[^1]) return null;
+        var map = new int[f.Length + 1];
+        map[^1] = c.Length;
+        var k = 0;
+        for (var b = 0; b < f.Length - 1; b++)
+        {
+            if (f[b] == c[k]) k++;
+            else if (f[b] > c[k]) return null; // a coarse edge between two fine ones
+            map[b + 1] = k;
+        }
+        return k == c.Length - 1 ? map : null;
+    }
+
     private static int Step(int count) => Math.Max(1, (count + MapBins - 1) / MapBins);
 }

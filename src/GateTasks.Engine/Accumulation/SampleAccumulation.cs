@@ -24,6 +24,7 @@ internal sealed class SampleAccumulation
     private readonly SlicedHistogramCounter? _sliced;
     private readonly string? _slicedDigest;
     private readonly int[]? _slicedFeatures;
+    private readonly PairAccumulation _pairSet;
     private readonly IReadOnlyList<PairCorrelation> _pairs;
     private readonly ExactSum _sumW = new();
     private readonly ExactSum _sumW2 = new();
@@ -59,9 +60,8 @@ internal sealed class SampleAccumulation
             _slicedDigest = grid.Digest;
             _slicedFeatures = slicedSpec.Features.Select(f => index[f]).ToArray();
         }
-        _pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
-            new MarginalCdf(layouts[index[p.First]].Reference), new MarginalCdf(layouts[index[p.Second]].Reference),
-            PairGrid.For(p, layouts[index[p.First]].Reference.Axis, layouts[index[p.Second]].Reference.Axis))).ToList();
+        _pairSet = new PairAccumulation(contract.Pairs, index, i => layouts[i].Reference);
+        _pairs = _pairSet.Pairs;
     }
 
     public PrecisionContract Contract { get; }
@@ -99,7 +99,7 @@ internal sealed class SampleAccumulation
         {
             foreach (var w in view.Weights)
                 if (w < 0) NegativeWeightEvents++;
-            foreach (var p in _pairs) p.Add(view);
+            _pairSet.Add(view);
         });
         return visits;
     }

@@ -1,4 +1,4 @@
-using MathNet.Numerics.Random;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
@@ -8,8 +8,9 @@ internal readonly record struct CellContents(double[] SumW, double[] SumW2);
 /// <summary>
 /// Standard error of a histogram distance by a parametric bootstrap (Efron 1979): each cell's Σw is redrawn from a
 /// normal of variance Σw² (the large-count limit of Poisson fluctuations, weights included), with a fixed seed so
-/// every run gives the same numbers. The reference and surrogate parts of the error are estimated separately,
-/// which tells how the error shrinks with more surrogate events.
+/// every run gives the same numbers (<see cref="SeededSampler"/>: a fast generator, since a fine grid's thousands of
+/// cells are redrawn hundreds of times per check). The reference and surrogate parts of the error are estimated
+/// separately, which tells how the error shrinks with more surrogate events.
 /// </summary>
 internal static class HistogramBootstrap
 {
@@ -17,12 +18,52 @@ internal static class HistogramBootstrap
 
     public readonly record struct Errors(double Total, double Reference, double Surrogate);
 
-    public static Errors StandardErrors(CellContents reference, CellContents surrogate, Func<double[], double[], double> distance, int seed)
+    /// <summary>The standard errors and the bias of a distance, from one set of replicas.</summary>
+    public readonly record struct Noise(Errors Errors, double Bias);
+
+    /// <summary>
+    /// The distance's standard errors (the reference's part, the surrogate's part, and both in quadrature: the two
+    /// samples are independent) and its bias, the mean of replicas with both samples redrawn less the estimate (Efron &amp;
+    /// Tibshirani 1993, An Introduction to the Bootstrap, ch. 10; a distance is positive even between two samples of one
+    /// law, and the bias-corrected estimate, the estimate less the bias, removes most of that floor), from <see cref="Replicas"/> pairs of redrawn cells:
+    /// in each replica the reference's redrawn cells a* and the surrogate's b* give D(a*, b) for the reference's part,
+    /// D(a, b*) for the surrogate's and D(a*, b*) for the bias. Each of the three is a sample of its own law, as if
+    /// drawn alone; sharing the draws only correlates the three estimates, and halves the draws.
+    /// </summary>
+    public static Noise StandardErrorsAndBias(CellContents reference, CellContents surrogate, Func<double[], double[], double> distance,
+        double estimate, int seed)
     {
-        var refOnly = Spread(reference, surrogate, distance, seed, perturbReference: true, perturbSurrogate: false).Sd;
-        var surOnly = Spread(reference, surrogate, distance, seed + 1, perturbReference: false, perturbSurrogate: true).Sd;
-        // The two samples are independent, so their parts add in quadrature.
-        return new Errors(Math.Sqrt(refOnly * refOnly + surOnly * surOnly), refOnly, surOnly);
+        var rng = new SeededSampler(seed);
+        var referenceSd = StandardDeviations(reference);
+        var surrogateSd = StandardDeviations(surrogate);
+        var a = new double[reference.SumW.Length];
+        var b = new double[surrogate.SumW.Length];
+        MomentSums refOnly = default, surOnly = default, both = default;
+        for (var r = 0; r < Replicas; r++)
+        {
+            Draw(reference.SumW, referenceSd, a, rng);
+            Draw(surrogate.SumW, surrogateSd, b, rng);
+            refOnly.Add(distance(a, surrogate.SumW));
+            surOnly.Add(distance(reference.SumW, b));
+            both.Add(distance(a, b));
+        }
+        var (refSd, surSd) = (refOnly.StandardDeviation, surOnly.StandardDeviation);
+        return new Noise(new Errors(Math.Sqrt(refSd * refSd + surSd * surSd), refSd, surSd), both.Mean - estimate);
+    }
+
+    private struct MomentSums
+    {
+        private double _sum, _sumSq;
+
+        public void Add(double v)
+        {
+            _sum += v;
+            _sumSq += v * v;
+        }
+
+        public readonly double Mean => _sum / Replicas;
+
+        public readonly double StandardDeviation => Math.Sqrt(Math.Max(0, _sumSq / Replicas - Mean * Mean) * Replicas / (Replicas - 1));
     }
 
     /// <summary>A seed that depends only on the names, so results do not depend on check order or thread count.</summary>
@@ -37,15 +78,6 @@ internal static class HistogramBootstrap
         }
         return (int)(h & 0x7fffffff);
     }
-
-    /// <summary>
-    /// The bootstrap estimate of a distance's bias, the mean of replicas with both samples redrawn less the estimate
-    /// (Efron &amp; Tibshirani 1993, An Introduction to the Bootstrap, ch. 10); the bias-corrected estimate is the
-    /// estimate less this. A distance is positive even between two samples of one law, and the correction removes
-    /// most of that floor.
-    /// </summary>
-    public static double Bias(CellContents reference, CellContents surrogate, Func<double[], double[], double> distance, double estimate, int seed) =>
-        Spread(reference, surrogate, distance, seed + 2, perturbReference: true, perturbSurrogate: true).Mean - estimate;
 
     /// <summary>
     /// The distance in <see cref="Replicas"/> replicas drawn from a pair of laws exactly at the tolerance: the
@@ -96,7 +128,9 @@ internal static class HistogramBootstrap
         var mixedW2 = new double[n];
         for (var i = 0; i < n; i++)
             mixedW2[i] = (1 - lambdaAtTolerance) * reference.SumW2[i] * (tb / ta) * (sampleKappa / referenceKappa) + lambdaAtTolerance * sample.SumW2[i];
-        var rng = new Xoshiro256StarStar(seed + 3, threadSafe: false);
+        var rng = new SeededSampler(seed + 3);
+        var referenceLaws = new ScaledPoissonCells(reference.SumW, reference.SumW2);
+        var mixedLaws = new ScaledPoissonCells(mixed, mixedW2);
         var a = new double[n];
         var b = new double[n];
         var result = new double[Replicas];
@@ -104,16 +138,38 @@ internal static class HistogramBootstrap
         {
             for (var i = 0; i < n; i++)
             {
-                a[i] = ScaledPoisson(reference.SumW[i], reference.SumW2[i], rng);
-                b[i] = ScaledPoisson(mixed[i], mixedW2[i], rng);
+                a[i] = referenceLaws.Draw(i, rng);
+                b[i] = mixedLaws.Draw(i, rng);
             }
             result[r] = distance(a, b);
         }
         return result;
     }
 
-    private static double ScaledPoisson(double mean, double sumW2, Random rng) =>
-        mean > 0 && sumW2 > 0 ? sumW2 / mean * MathNet.Numerics.Distributions.Poisson.Sample(rng, mean * mean / sumW2) : mean;
+    /// <summary>
+    /// Each cell's κ·Poisson(μ/κ) with κ = Σw²/μ, its constants computed once for all replicas; a cell whose mean or
+    /// Σw² is not positive is held at its mean (κ = 0).
+    /// </summary>
+    private sealed class ScaledPoissonCells
+    {
+        private readonly double[] _mean, _kappa;
+        private readonly PoissonLaw[] _laws;
+
+        public ScaledPoissonCells(double[] mean, double[] sumW2)
+        {
+            _mean = mean;
+            _kappa = new double[mean.Length];
+            _laws = new PoissonLaw[mean.Length];
+            for (var i = 0; i < mean.Length; i++)
+            {
+                if (!(mean[i] > 0 && sumW2[i] > 0)) continue;
+                _kappa[i] = sumW2[i] / mean[i];
+                _laws[i] = new PoissonLaw(mean[i] * mean[i] / sumW2[i]);
+            }
+        }
+
+        public double Draw(int i, SeededSampler rng) => _kappa[i] > 0 ? _kappa[i] * rng.Poisson(in _laws[i]) : _mean[i];
+    }
 
     /// <summary>
     /// P(D ≥ <paramref name="value"/>) for the law of <paramref name="replicas"/>, from the gamma law of the same mean
@@ -137,37 +193,26 @@ internal static class HistogramBootstrap
         return (mean, values.Count > 1 ? sumSq / (values.Count - 1) : 0);
     }
 
-    private static (double Sd, double Mean) Spread(CellContents reference, CellContents surrogate, Func<double[], double[], double> distance, int seed,
-        bool perturbReference, bool perturbSurrogate)
+    /// <summary>Each cell's √Σw², or 0 for a cell held at its content (Σw² not positive).</summary>
+    private static double[] StandardDeviations(CellContents cells)
     {
-        var rng = new Xoshiro256StarStar(seed, threadSafe: false);
-        var a = new double[reference.SumW.Length];
-        var b = new double[surrogate.SumW.Length];
-        double sum = 0, sumSq = 0;
-        for (var r = 0; r < Replicas; r++)
-        {
-            Draw(reference, a, rng, perturbReference);
-            Draw(surrogate, b, rng, perturbSurrogate);
-            var v = distance(a, b);
-            sum += v;
-            sumSq += v * v;
-        }
-        var mean = sum / Replicas;
-        return (Math.Sqrt(Math.Max(0, sumSq / Replicas - mean * mean) * Replicas / (Replicas - 1)), mean);
+        var sd = new double[cells.SumW2.Length];
+        for (var i = 0; i < sd.Length; i++) sd[i] = cells.SumW2[i] > 0 ? Math.Sqrt(cells.SumW2[i]) : 0;
+        return sd;
     }
 
-    private static void Draw(CellContents cells, double[] into, Random rng, bool perturb)
+    private static void Draw(double[] sumW, double[] sd, double[] into, SeededSampler rng)
     {
         for (var i = 0; i < into.Length; i++)
         {
-            if (!perturb || cells.SumW2[i] <= 0)
+            if (!(sd[i] > 0))
             {
-                into[i] = cells.SumW[i];
+                into[i] = sumW[i];
                 continue;
             }
             // A cell of signed weights (possible on a fine grid) may stay negative; a non-negative one may not turn negative.
-            var drawn = cells.SumW[i] + Math.Sqrt(cells.SumW2[i]) * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1);
-            into[i] = cells.SumW[i] < 0 ? drawn : Math.Max(0, drawn);
+            var drawn = sumW[i] + sd[i] * rng.Normal();
+            into[i] = sumW[i] < 0 ? drawn : Math.Max(0, drawn);
         }
     }
 }

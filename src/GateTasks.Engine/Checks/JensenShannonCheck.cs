@@ -19,8 +19,7 @@ internal static class JensenShannonCheck
         static double Distance(double[] a, double[] b) => JensenShannon.Divergence(a, b);
         var value = Distance(reference.SumW, surrogate.SumW);
         var seed = HistogramBootstrap.Seed(c.Spec.Name, spec.Key);
-        var se = HistogramBootstrap.StandardErrors(reference, surrogate, Distance, seed);
-        var bias = HistogramBootstrap.Bias(reference, surrogate, Distance, value, seed);
+        var (se, bias) = HistogramBootstrap.StandardErrorsAndBias(reference, surrogate, Distance, value, seed);
         var boundary = HistogramBootstrap.BoundaryReplicas(reference, surrogate, Distance, value, spec.Tolerance, seed);
         return DistanceDecision.Measure(value, bias, se, boundary, spec, decision, c.Surrogate.Entries,
             $"JS divergence {InvariantNumber.Short(Math.Max(0, value - bias))} nats", [new("divergence_nats", InvariantNumber.Exact(value))]);

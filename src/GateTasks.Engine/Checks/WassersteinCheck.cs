@@ -49,8 +49,7 @@ internal static class WassersteinCheck
     {
         var value = distance(reference.SumW, surrogate.SumW);
         var seed = HistogramBootstrap.Seed(c.Spec.Name, spec.Key);
-        var se = HistogramBootstrap.StandardErrors(reference, surrogate, distance, seed);
-        var bias = HistogramBootstrap.Bias(reference, surrogate, distance, value, seed);
+        var (se, bias) = HistogramBootstrap.StandardErrorsAndBias(reference, surrogate, distance, value, seed);
         var boundary = HistogramBootstrap.BoundaryReplicas(reference, surrogate, distance, value, spec.Tolerance, seed);
         return DistanceDecision.Measure(value, bias, se, boundary, spec, decision, c.Surrogate.Entries,
             $"W1/σ_ref {InvariantNumber.Short(Math.Max(0, value - bias))}",

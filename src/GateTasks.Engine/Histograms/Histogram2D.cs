@@ -44,6 +44,16 @@ internal sealed class Histogram2D
 
     private int[] _rows = [], _columns = [];
 
+    /// <summary>
+    /// Adds a block of pairs whose cells on finer axes are known: <paramref name="rowOf"/> and <paramref name="columnOf"/>
+    /// map those storage cells to this histogram's (each finer cell lying in one of these), so no value is searched again.
+    /// </summary>
+    public void FillCells(ReadOnlySpan<int> rows, ReadOnlySpan<int> columns, int[] rowOf, int[] columnOf, ReadOnlySpan<double> w)
+    {
+        var stride = Y.Count + 2;
+        for (var r = 0; r < rows.Length; r++) _storage.Add(rowOf[rows[r]] * stride + columnOf[columns[r]], w.IsEmpty ? 1.0 : w[r]);
+    }
+
     public void Fill(double x, double y, double w = 1.0)
     {
         if (double.IsNaN(x) || double.IsNaN(y)) { NanEntries++; return; }

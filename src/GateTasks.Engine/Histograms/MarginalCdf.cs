@@ -12,6 +12,7 @@ internal sealed class MarginalCdf
 
     public MarginalCdf(Histogram h)
     {
+        Axis = h.Axis;
         _edges = h.Axis.Edges.ToArray();
         var w = h.SumW;
         var total = h.TotalSumW;
@@ -25,6 +26,9 @@ internal sealed class MarginalCdf
         }
     }
 
+    /// <summary>The histogram's axis, whose storage cells <see cref="Rank"/> takes.</summary>
+    public Axis Axis { get; }
+
     public double Evaluate(double x)
     {
         if (double.IsNaN(x)) return double.NaN;
@@ -33,6 +37,20 @@ internal sealed class MarginalCdf
         var i = Array.BinarySearch(_edges, x);
         if (i >= 0) return _below[i];
         var b = ~i - 1;
+        var f = (x - _edges[b]) / (_edges[b + 1] - _edges[b]);
+        return _below[b] + f * (_below[b + 1] - _below[b]);
+    }
+
+    /// <summary>
+    /// <see cref="Evaluate"/> for a value not NaN whose storage cell on <see cref="Axis"/> is known (0 the underflow,
+    /// bins from 1, the last the overflow): the same number to the bit, without a search. The axis puts a value at an
+    /// edge into the bin above, as the search does, and a value at a lower edge interpolates to that edge's CDF exactly.
+    /// </summary>
+    public double Rank(double x, int cell)
+    {
+        if (cell == 0) return _under / 2;
+        if (cell == _edges.Length) return (_below[^1] + 1) / 2;
+        var b = cell - 1;
         var f = (x - _edges[b]) / (_edges[b + 1] - _edges[b]);
         return _below[b] + f * (_below[b + 1] - _below[b]);
     }

@@ -154,14 +154,13 @@ internal static class ReferenceBuilder
         if (contract.Pairs.Count > 0 || farTail.Any(t => t is not null) || fine.Any(g => g is not null) || slicedCounter is not null)
         {
             var index = features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
-            var pairs = contract.Pairs.Select(p => new PairCorrelation(p, index[p.First], index[p.Second],
-                new MarginalCdf(result[index[p.First]].Histogram), new MarginalCdf(result[index[p.Second]].Histogram),
-                PairGrid.For(p, result[index[p.First]].Histogram.Axis, result[index[p.Second]].Histogram.Axis))).ToList();
+            var pairSet = new PairAccumulation(contract.Pairs, index, i => result[i].Histogram);
+            var pairs = pairSet.Pairs;
             SampleStream.Run(sample, columns, weightColumn, new SpikeSeparation(features).Around((i, values, weights) =>
             {
                 farTail[i]?.Add(values, weights);
                 fine[i]?.Add(values, weights);
-            }), BatchVisits(pairs.Count == 0 ? null : view => { foreach (var p in pairs) p.Add(view); },
+            }), BatchVisits(pairs.Count == 0 ? null : pairSet.Add,
                 slicedCounter is null ? null : view => slicedCounter.Add(view, jointIndex!)),
                 pass.For("reference pass 3 (correlations, far tails, fine grids, sliced histograms)"));
             foreach (var p in pairs.Select(p => p.Finish()))

@@ -1,4 +1,5 @@
 using System.Globalization;
+using System.Text;
 using System.Text.Json;
 using System.Text.Json.Nodes;
 using GateTasks.Engine.Contracts;
@@ -480,7 +481,16 @@ internal static class ReferenceFile
     private static FineGridCells? FineGridFromJson(string path, string feature, JsonNode? node)
     {
         if (node is not JsonObject g) return null;
-        static double[] Read(JsonNode? a) => a!.AsArray().Select(v => (double)v!).ToArray();
+        // Thousands of numbers per feature: read from the array's text by one reader rather than a node per number.
+        static double[] Read(JsonNode? a)
+        {
+            var text = Encoding.UTF8.GetBytes(a!.AsArray().ToJsonString());
+            var reader = new Utf8JsonReader(text);
+            var values = new List<double>();
+            reader.Read();
+            while (reader.Read() && reader.TokenType != JsonTokenType.EndArray) values.Add(reader.GetDouble());
+            return values.ToArray();
+        }
         var edges = Read(g["edges"]);
         var sumW = Read(g["sum_w"]);
         var sumW2 = g["sum_w2"] is null ? sumW.ToArray() : Read(g["sum_w2"]);

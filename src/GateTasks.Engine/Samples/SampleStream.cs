@@ -40,6 +40,9 @@ internal sealed class SampleStream
     private readonly double[]?[] _ownValues;
     private readonly double[]?[] _ownWeights;
     private readonly int[] _ownRows;
+    // Per feature: an earlier feature whose expression (condition) has the same text, whose values (mask) this batch it
+    // takes rather than evaluating them again, or -1 (a category block repeats its expression for every feature).
+    private readonly int[] _sameExpression, _sameCondition;
     private double[] _weights = [];
     private double[] _mask = [];
     private long[] _fileRows = [];
@@ -70,8 +73,14 @@ internal sealed class SampleStream
         _ownValues = new double[]?[_n];
         _ownWeights = new double[]?[_n];
         _ownRows = new int[_n];
+        _sameExpression = EarlierWithSameText(inputs.Expressions);
+        _sameCondition = EarlierWithSameText(inputs.Conditions);
         _frame = new FeatureView(_view, _weights, weightColumn is not null, _fileRows);
     }
+
+    private static int[] EarlierWithSameText(IReadOnlyList<Expressions.CompiledExpression?> expressions) =>
+        expressions.Select((e, i) => e is null ? -1
+            : Enumerable.Range(0, i).FirstOrDefault(j => expressions[j] is { } earlier && string.Equals(earlier.Text, e.Text, StringComparison.Ordinal), -1)).ToArray();
 
     /// <summary>Every column the pass reads: the features', the expressions', the selection's and the weight.</summary>
     private List<string> Columns { get; }
@@ -138,7 +147,8 @@ internal sealed class SampleStream
         var rows = batch.RowCount;
         for (var i = 0; i < _n; i++)
         {
-            if (_inputs.Expressions[i] is { } e)
+            if (_sameExpression[i] >= 0) _view[i] = _derived[_sameExpression[i]];
+            else if (_inputs.Expressions[i] is { } e)
             {
                 var args = _expressionInputs[i]!;
                 for (var a = 0; a < args.Length; a++) args[a] = batch.ColumnBuffer(_index[e.Columns[a]]);
@@ -168,12 +178,16 @@ internal sealed class SampleStream
             _ownValues[i] ??= new double[_mask.Length];
             if (_ownValues[i]!.Length < rows) { _ownValues[i] = new double[rows]; _ownWeights[i] = new double[rows]; }
             _ownWeights[i] ??= new double[_ownValues[i]!.Length];
-            var conditionArgs = condition.Columns.Select(c => batch.ColumnBuffer(_index[c])).ToArray();
-            condition.Evaluate(conditionArgs, rows, _ownMask[i].AsSpan(0, rows));
+            var own = _sameCondition[i] >= 0 ? _ownMask[_sameCondition[i]]! : _ownMask[i]!;
+            if (_sameCondition[i] < 0)
+            {
+                var conditionArgs = condition.Columns.Select(c => batch.ColumnBuffer(_index[c])).ToArray();
+                condition.Evaluate(conditionArgs, rows, own.AsSpan(0, rows));
+            }
             var k = 0;
             for (var r = 0; r < rows; r++)
             {
-                if (!Passes(_mask[r]) || !Passes(_ownMask[i]![r])) continue;
+                if (!Passes(_mask[r]) || !Passes(own[r])) continue;
                 _ownValues[i]![k] = _view[i][r];
                 _ownWeights[i]![k] = _weightIndex >= 0 ? _weights[r] : 1;
                 k++;

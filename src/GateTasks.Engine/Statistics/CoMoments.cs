@@ -50,10 +50,21 @@ internal sealed class CoMoments
     /// </summary>
     public void AddBatch(ReadOnlySpan<double> x, ReadOnlySpan<double> y, ReadOnlySpan<double> weights, Func<double, bool> select)
     {
+        // Unit weights (none given) take loops without the weight and the selection per pair: the same sums to the bit,
+        // since 1·v is v.
+        var unit = weights.IsEmpty;
+        if (unit && !select(1.0)) return;
         double sw = 0, sx = 0, sy = 0;
         for (var i = 0; i < x.Length; i++)
         {
-            var w = weights.IsEmpty ? 1.0 : weights[i];
+            if (unit)
+            {
+                sw += 1.0;
+                sx += x[i];
+                sy += y[i];
+                continue;
+            }
+            var w = weights[i];
             if (w == 0 || !select(w)) continue;
             sw += w;
             sx += w * x[i];
@@ -62,27 +73,56 @@ internal sealed class CoMoments
         if (sw == 0) return; // nothing selected: one sign's weights cannot cancel
         var mx = sx / sw;
         var my = sy / sw;
-        var batch = new double[Order * Order];
-        for (var i = 0; i < x.Length; i++)
+        // The twelve sums in locals rather than an array, in the order of M_pq's storage.
+        double m20 = 0, m11 = 0, m02 = 0, m30 = 0, m21 = 0, m12 = 0, m03 = 0, m40 = 0, m31 = 0, m22 = 0, m13 = 0, m04 = 0;
+        if (unit)
         {
-            var w = weights.IsEmpty ? 1.0 : weights[i];
-            if (w == 0 || !select(w)) continue;
-            var dx = x[i] - mx;
-            var dy = y[i] - my;
-            double dx2 = dx * dx, dy2 = dy * dy, dxy = dx * dy;
-            batch[2 * Order + 0] += w * dx2;
-            batch[1 * Order + 1] += w * dxy;
-            batch[0 * Order + 2] += w * dy2;
-            batch[3 * Order + 0] += w * dx2 * dx;
-            batch[2 * Order + 1] += w * dx2 * dy;
-            batch[1 * Order + 2] += w * dxy * dy;
-            batch[0 * Order + 3] += w * dy2 * dy;
-            batch[4 * Order + 0] += w * dx2 * dx2;
-            batch[3 * Order + 1] += w * dx2 * dxy;
-            batch[2 * Order + 2] += w * dx2 * dy2;
-            batch[1 * Order + 3] += w * dxy * dy2;
-            batch[0 * Order + 4] += w * dy2 * dy2;
+            for (var i = 0; i < x.Length; i++)
+            {
+                var dx = x[i] - mx;
+                var dy = y[i] - my;
+                double dx2 = dx * dx, dy2 = dy * dy, dxy = dx * dy;
+                m20 += dx2;
+                m11 += dxy;
+                m02 += dy2;
+                m30 += dx2 * dx;
+                m21 += dx2 * dy;
+                m12 += dxy * dy;
+                m03 += dy2 * dy;
+                m40 += dx2 * dx2;
+                m31 += dx2 * dxy;
+                m22 += dx2 * dy2;
+                m13 += dxy * dy2;
+                m04 += dy2 * dy2;
+            }
         }
+        else
+        {
+            for (var i = 0; i < x.Length; i++)
+            {
+                var w = weights[i];
+                if (w == 0 || !select(w)) continue;
+                var dx = x[i] - mx;
+                var dy = y[i] - my;
+                double dx2 = dx * dx, dy2 = dy * dy, dxy = dx * dy;
+                m20 += w * dx2;
+                m11 += w * dxy;
+                m02 += w * dy2;
+                m30 += w * dx2 * dx;
+                m21 += w * dx2 * dy;
+                m12 += w * dxy * dy;
+                m03 += w * dy2 * dy;
+                m40 += w * dx2 * dx2;
+                m31 += w * dx2 * dxy;
+                m22 += w * dx2 * dy2;
+                m13 += w * dxy * dy2;
+                m04 += w * dy2 * dy2;
+            }
+        }
+        var batch = new double[Order * Order];
+        (batch[2 * Order + 0], batch[1 * Order + 1], batch[0 * Order + 2]) = (m20, m11, m02);
+        (batch[3 * Order + 0], batch[2 * Order + 1], batch[1 * Order + 2], batch[0 * Order + 3]) = (m30, m21, m12, m03);
+        (batch[4 * Order + 0], batch[3 * Order + 1], batch[2 * Order + 2], batch[1 * Order + 3], batch[0 * Order + 4]) = (m40, m31, m22, m13, m04);
         batch[0] = sw;
         if (_m[0] == 0)
         {

@@ -39,6 +39,14 @@ internal sealed class WeightedCorrelation
     public void AddBatch(ReadOnlySpan<double> x, ReadOnlySpan<double> y, ReadOnlySpan<double> weights)
     {
         var negatives = false;
+        if (weights.IsEmpty)
+        {
+            // Unit weights: Count and Σw² grow by the batch's length (an exact sum of ones, as one by one).
+            Count += x.Length;
+            _sumW2 += x.Length;
+            _positive.AddBatch(x, y, weights, IsPositive);
+            return;
+        }
         for (var i = 0; i < x.Length; i++)
         {
             var w = weights.IsEmpty ? 1.0 : weights[i];

@@ -1,0 +1,43 @@
+using GateTasks.Engine.Contracts;
+using GateTasks.Engine.Histograms;
+
+namespace GateTasks.Engine.Accumulation;
+
+/// <summary>
+/// The declared pairs of one stream: one <see cref="PairColumn"/> per feature in any pair, prepared once per batch,
+/// then each pair's fill (<see cref="PairCorrelation"/>) from those columns. A feature in k pairs is searched once,
+/// not 2k times (its cell for the 2-D grid and its rank for Spearman's coefficient).
+/// </summary>
+internal sealed class PairAccumulation
+{
+    private readonly PairColumn[] _columns;
+
+    /// <param name="pairs">The declared pairs.</param>
+    /// <param name="index">Each feature's index in a batch.</param>
+    /// <param name="reference">The reference's histogram of a feature (by index): its axis and marginal CDF.</param>
+    public PairAccumulation(IReadOnlyList<CorrelationSpec> pairs, IReadOnlyDictionary<string, int> index, Func<int, Histogram> reference)
+    {
+        var columns = new Dictionary<int, PairColumn>();
+        PairColumn Column(int feature)
+        {
+            if (!columns.TryGetValue(feature, out var column)) columns[feature] = column = new PairColumn(feature, new MarginalCdf(reference(feature)));
+            return column;
+        }
+        Pairs = pairs.Select(p =>
+        {
+            var (first, second) = (Column(index[p.First]), Column(index[p.Second]));
+            return new PairCorrelation(p, first, second, PairGrid.For(p, first.Axis, second.Axis));
+        }).ToList();
+        _columns = columns.Values.ToArray();
+    }
+
+    /// <summary>The pairs, in declared order.</summary>
+    public IReadOnlyList<PairCorrelation> Pairs { get; }
+
+    /// <summary>Adds a batch to every pair.</summary>
+    public void Add(Samples.FeatureView view)
+    {
+        foreach (var column in _columns) column.Prepare(view);
+        foreach (var pair in Pairs) pair.AddPrepared(view);
+    }
+}

@@ -1,0 +1,58 @@
+using GateTasks.Engine.Histograms;
+
+namespace GateTasks.Engine.Accumulation;
+
+/// <summary>
+/// One feature of the declared pairs, per batch: each value's storage cell on the reference's axis and its rank under
+/// the reference's marginal CDF (<see cref="MarginalCdf.Rank"/>), found once per batch for every pair the feature is
+/// in (<see cref="PairAccumulation"/>), so a pair's fill does no search of its own.
+/// </summary>
+internal sealed class PairColumn(int feature, MarginalCdf cdf)
+{
+    /// <summary>The cell given to a NaN value.</summary>
+    public const int NanCell = -1;
+
+    private int[] _cells = [];
+    private double[] _ranks = [];
+    private int _rows;
+
+    /// <summary>The feature's index in the batch.</summary>
+    public int Feature { get; } = feature;
+
+    /// <summary>The axis of <see cref="Cells"/>.</summary>
+    public Axis Axis => cdf.Axis;
+
+    /// <summary>Whether the last batch held a NaN of this feature.</summary>
+    public bool HasNaN { get; private set; }
+
+    /// <summary>The last batch's storage cells (<see cref="NanCell"/> for NaN).</summary>
+    public ReadOnlySpan<int> Cells => _cells.AsSpan(0, _rows);
+
+    /// <summary>The last batch's ranks (NaN for NaN).</summary>
+    public ReadOnlySpan<double> Ranks => _ranks.AsSpan(0, _rows);
+
+    /// <summary>Finds the cells and ranks of <paramref name="view"/>'s values of the feature.</summary>
+    public void Prepare(Samples.FeatureView view)
+    {
+        var x = view.Feature(Feature);
+        _rows = x.Length;
+        if (_cells.Length < x.Length) (_cells, _ranks) = (new int[x.Length], new double[x.Length]);
+        var cells = _cells.AsSpan(0, x.Length);
+        Axis.Cells(x, cells, NanCell);
+        var ranks = _ranks.AsSpan(0, x.Length);
+        var nan = false;
+        for (var r = 0; r < x.Length; r++)
+        {
+            if (cells[r] == NanCell)
+            {
+                nan = true;
+                ranks[r] = double.NaN;
+            }
+            else
+            {
+                ranks[r] = cdf.Rank(x[r], cells[r]);
+            }
+        }
+        HasNaN = nan;
+    }
+}
