@@ -172,7 +172,7 @@ if [ "$build_overhead" = 1 ]; then
   rm -rf "$msb"
   mkdir -p "$msb/sources" "$msb/with" "$msb/without"
   # Packed from a copy, so the repository's own build outputs stay as they are.
-  (cd "$root" && tar --exclude=bin --exclude=obj -cf - Directory.Build.props Directory.Packages.props global.json nuget.config README.md docs/precision-contract.schema.json src) \
+  (cd "$root" && tar --exclude=bin --exclude=obj -cf - Directory.Build.props Directory.Build.targets Directory.Packages.props global.json nuget.config README.md docs/precision-contract.schema.json src) \
     | tar -xf - -C "$msb/sources"
   dotnet pack "$msb/sources/src/GateTasks.MSBuild" -c Release -o "$msb/feed" -p:Version=0.0.1-bench -nodeReuse:false --disable-build-servers -v:q --nologo >"$work/logs/pack.out" 2>&1 \
     || { say "packing failed:"; tail -n 20 "$work/logs/pack.out" >&2; exit 1; }
