@@ -97,6 +97,52 @@ public class PackageContentTests(PackageFeed feed)
         Assert.Contains("<a id=\"gate0010\"></a>GATE0010", File.ReadAllText(Path.Combine(RepositoryRoot.Path, "docs", "error-codes.md")));
     }
 
+    [Theory]
+    [InlineData("GateTasks", "tools/net8.0/")]
+    [InlineData("GateTasks.Cli", "tools/net8.0/any/")]
+    public void Each_library_of_the_engine_has_linux_x64_ReadyToRun_code_beside_it_that_the_deps_json_lists_for_that_rid_alone(string id, string folder)
+    {
+        var package = Path.Combine(feed.Feed, $"{id}.{PackageFeed.Version}.nupkg");
+        var names = EntryNames(package);
+        var libraries = names.Where(n => n.StartsWith(folder, StringComparison.Ordinal) && !n[folder.Length..].Contains('/') && n.EndsWith(".dll", StringComparison.Ordinal))
+            .Select(n => n[folder.Length..]).Where(n => n != "gatetasks.dll").ToList();
+        Assert.Contains("GateTasks.Engine.dll", libraries);
+        Assert.Contains("Parquet.dll", libraries);
+        // The host's dependency manifest (docs of the .NET host, "deps.json": runtimeTargets hold RID-specific assets,
+        // used on a machine of that RID instead of the library's portable "runtime" assets).
+        using var deps = System.Text.Json.JsonDocument.Parse(Entry(package, folder + "gatetasks.deps.json")!);
+        var target = deps.RootElement.GetProperty("targets").EnumerateObject().Single().Value;
+        foreach (var library in libraries)
+        {
+            var precompiled = $"runtimes/linux-x64/lib/net8.0/{library}";
+            var entry = target.EnumerateObject().Single(l => l.Value.TryGetProperty("runtime", out var r) && r.EnumerateObject().Any(a => a.Name.EndsWith("/" + library, StringComparison.Ordinal) || a.Name == library)).Value;
+            var listed = entry.GetProperty("runtimeTargets").GetProperty(precompiled);
+            Assert.Equal("linux-x64", listed.GetProperty("rid").GetString());
+            Assert.Equal("runtime", listed.GetProperty("assetType").GetString());
+            // ECMA-335 II.25.3.3: a CLI header's ManagedNativeHeader is 0 in an IL-only file; ReadyToRun puts its header
+            // there. The portable file stays IL only (it must load on every platform); the precompiled one is a Linux x64
+            // image: machine 0x8664 (AMD64) XOR 0x7B79, the Linux mark of dotnet/runtime src/coreclr/inc/pedecoder.h.
+            var (portableMachine, portableNative) = PeHeaders(package, folder + library);
+            Assert.Equal(0, portableNative);
+            var (machine, native) = PeHeaders(package, folder + precompiled);
+            Assert.NotEqual(0, native);
+            Assert.Equal(0x8664 ^ 0x7B79, machine);
+            Assert.NotEqual(machine, portableMachine);
+        }
+    }
+
+    private static (int Machine, int ManagedNativeHeaderSize) PeHeaders(string package, string name)
+    {
+        using var zip = ZipFile.OpenRead(package);
+        var entry = zip.GetEntry(name);
+        Assert.True(entry is not null, $"{name} is not in {Path.GetFileName(package)}");
+        using var copy = new MemoryStream();
+        using (var stream = entry.Open()) stream.CopyTo(copy);
+        copy.Position = 0;
+        using var pe = new System.Reflection.PortableExecutable.PEReader(copy);
+        return ((int)pe.PEHeaders.CoffHeader.Machine, pe.PEHeaders.CorHeader!.ManagedNativeHeaderDirectory.Size);
+    }
+
     /// <summary>The one repository address, as Directory.Build.props defines it.</summary>
     internal static string RepositoryUrl()
     {

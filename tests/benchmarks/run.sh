@@ -65,13 +65,13 @@ python=/usr/bin/python3
 "$python" -c 'import numpy, scipy' 2>/dev/null || { say "needs $python with numpy and scipy (apt-get install python3-numpy python3-scipy)"; exit 3; }
 
 export DOTNET_CLI_TELEMETRY_OPTOUT=1 DOTNET_NOLOGO=1 MSBUILDDISABLENODEREUSE=1
-cli=${GATETASKS_BENCH_CLI:-$root/src/GateTasks.Cli/bin/Release/net8.0/gatetasks.dll}
+# The CLI as the packages ship it: published, with its ReadyToRun code (a build's output has none).
+cli=${GATETASKS_BENCH_CLI:-$root/src/GateTasks.Cli/bin/Release/net8.0/publish/gatetasks.dll}
 harness=${GATETASKS_BENCH_HARNESS:-$root/tests/GateTasks.Benchmarks/bin/Release/net10.0/GateTasks.Benchmarks.dll}
 if [ "$build" = 1 ]; then
-  say "building the CLI and the benchmark harness (Release)"
-  for p in src/GateTasks.Cli/GateTasks.Cli.csproj tests/GateTasks.Benchmarks/GateTasks.Benchmarks.csproj; do
-    dotnet build "$root/$p" -c Release --nologo -v:q -nodeReuse:false >&2
-  done
+  say "publishing the CLI and building the benchmark harness (Release)"
+  dotnet publish "$root/src/GateTasks.Cli/GateTasks.Cli.csproj" -c Release -p:UseAppHost=false --nologo -v:q -nodeReuse:false >&2
+  dotnet build "$root/tests/GateTasks.Benchmarks/GateTasks.Benchmarks.csproj" -c Release --nologo -v:q -nodeReuse:false >&2
 fi
 for f in "$cli" "$harness"; do [ -f "$f" ] || { say "$f not found (build it, or drop --no-build)"; exit 3; }; done
 
@@ -212,7 +212,7 @@ if [ "$build_overhead" = 1 ]; then
   rm -rf "$msb"
   mkdir -p "$msb/sources" "$msb/with" "$msb/without"
   # Packed from a copy, so the repository's own build outputs stay as they are.
-  (cd "$root" && tar --exclude=bin --exclude=obj -cf - Directory.Build.props Directory.Packages.props global.json nuget.config README.md docs/precision-contract.schema.json src) \
+  (cd "$root" && tar --exclude=bin --exclude=obj -cf - Directory.Build.props Directory.Build.targets Directory.Packages.props global.json nuget.config README.md docs/precision-contract.schema.json src) \
     | tar -xf - -C "$msb/sources"
   dotnet pack "$msb/sources/src/GateTasks.MSBuild" -c Release -o "$msb/feed" -p:Version=0.0.1-bench -nodeReuse:false --disable-build-servers -v:q --nologo >"$work/logs/pack.out" 2>&1 \
     || { say "packing failed:"; tail -n 20 "$work/logs/pack.out" >&2; exit 1; }

@@ -11,8 +11,13 @@ internal static class GeneratorLevelNames
     /// <summary>The hint's globs (<see cref="ColumnPattern"/>), as docs/cli.md lists them.</summary>
     public static IReadOnlyList<string> Globs { get; } = ["gen*", "Gen*", "*_gen", "*_gen_*", "*truth*", "*Truth*", "mc_*", "MC_*", "true_*", "*_true"];
 
-    private static readonly ColumnPattern[] Patterns = Globs.Select(g => new ColumnPattern(g)).ToArray();
-
     /// <summary>The first hint glob the column's name matches, or null.</summary>
-    public static string? Match(string column) => Patterns.FirstOrDefault(p => p.Matches(column))?.Glob;
+    public static string? Match(string column) => Compiled.Patterns.FirstOrDefault(p => p.Matches(column))?.Glob;
+
+    // Built on the first match, not when the globs are read: the draft command's description names them, and the
+    // command tree is built on every run, so ten regular expressions would cost every command's start-up.
+    private static class Compiled
+    {
+        public static readonly ColumnPattern[] Patterns = Globs.Select(g => new ColumnPattern(g)).ToArray();
+    }
 }

@@ -129,7 +129,8 @@ internal static class ReferenceFile
     private static async Task<ReferenceHistograms> ReadParquetAsync(string path)
     {
         {
-            await using var stream = File.OpenRead(path);
+            // Read in place: Parquet.Net's asynchronous reads would each hop to the thread pool (SynchronousReadStream).
+            await using var stream = new SynchronousReadStream(File.OpenRead(path));
             await using var reader = await ParquetReader.CreateAsync(stream);
             if (!reader.CustomMetadata.TryGetValue(FormatKey, out var fmt) || !reader.CustomMetadata.TryGetValue(MetadataKey, out var json))
                 throw Unreadable(path, "it is a Parquet file but not a GateTasks reference (no header metadata)");

@@ -1,4 +1,5 @@
 using GateTasks.Engine.Diagnostics;
+using GateTasks.Engine.IO;
 using Microsoft.Win32.SafeHandles;
 using Parquet;
 using Parquet.Meta;
@@ -67,7 +68,8 @@ internal sealed class ParquetSampleReader : ISampleReader
             if (ParquetFooterCheck.Problem(stream) is { } problem)
                 throw SampleInputErrors.Unreadable(path, problem);
             var footer = ParquetFooterStamp.Read(stream.SafeFileHandle);
-            reader = ParquetReader.CreateAsync(stream, leaveStreamOpen: true).GetAwaiter().GetResult();
+            // Read in place: Parquet.Net's asynchronous reads would each hop to the thread pool (SynchronousReadStream).
+            reader = ParquetReader.CreateAsync(new SynchronousReadStream(stream, leaveOpen: true), leaveStreamOpen: true).GetAwaiter().GetResult();
             var (columns, fields) = DescribeSchema(path, reader.Schema);
             var metadata = reader.Metadata ?? throw new InvalidDataException("the footer holds no file metadata");
             if (ParquetChunkLayout.Problem(stream, metadata) is { } damage)
