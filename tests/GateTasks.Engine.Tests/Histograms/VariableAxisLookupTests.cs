@@ -90,4 +90,36 @@ public class VariableAxisLookupTests
             Assert.True(expected == cells[i], $"x = {probes[i]:R}: cell {cells[i]}, expected {expected}");
         }
     }
+    [Theory]
+    [InlineData(1)]
+    [InlineData(40)]
+    [InlineData(63)] // the most edges the counting search takes
+    [InlineData(64)] // one more: the guide table's search
+    public void Counting_edges_in_SIMD_lanes_gives_the_binary_search_cell_for_every_lane(int bins)
+    {
+        // The textbook placement (Array.BinarySearch over the edges) against the block-wise cells, with NaN, ±∞, ±0
+        // and values on, just below and just above every edge put in every lane position of a register, and edges of
+        // a long-tailed law (the case where the guide table falls back on its binary search).
+        var edges = Enumerable.Range(0, bins + 1).Select(i => Math.Sinh(12.0 * i / bins - 6) * 1e3).ToArray();
+        var axis = new VariableAxis(edges);
+        var rng = new Xoshiro256StarStar(bins + 100);
+        var specials = new[] { double.NaN, double.PositiveInfinity, double.NegativeInfinity, 0.0, -0.0, double.MaxValue, -double.MaxValue, double.Epsilon };
+        var probes = new List<double>();
+        foreach (var e in edges) probes.AddRange([e, Math.BitDecrement(e), Math.BitIncrement(e)]);
+        for (var lane = 0; lane < 17; lane++)
+            foreach (var special in specials)
+            {
+                for (var k = 0; k < lane; k++) probes.Add(edges[rng.Next(edges.Length)]);
+                probes.Add(special);
+            }
+        for (var k = 0; k < 20_000; k++) probes.Add(Math.Sinh(rng.NextDouble() * 14 - 7) * 1e3);
+        var cells = new int[probes.Count];
+        var nanCell = edges.Length + 1;
+        axis.Cells(probes.ToArray(), cells, nanCell);
+        for (var i = 0; i < probes.Count; i++)
+        {
+            var expected = double.IsNaN(probes[i]) ? nanCell : Reference(edges, probes[i]) + 1;
+            Assert.True(expected == cells[i], $"value {i}, x = {probes[i]:R}: cell {cells[i]}, expected {expected}");
+        }
+    }
 }
