@@ -75,4 +75,72 @@ internal static class EdgeCountSearch
         }
         return i;
     }
+    /// <summary>
+    /// The float32 edges that count float values as <paramref name="edges"/> counts them as doubles: for a float x,
+    /// x ≥ e exactly when x ≥ the smallest float not below e, so each edge is rounded up to a float (beyond the float
+    /// range, to ±∞ or the largest finite float, where the same holds).
+    /// </summary>
+    public static float[] Float32Edges(ReadOnlySpan<double> edges)
+    {
+        var result = new float[edges.Length];
+        for (var k = 0; k < edges.Length; k++)
+        {
+            var f = (float)edges[k];
+            result[k] = f < edges[k] ? MathF.BitIncrement(f) : f;
+        }
+        return result;
+    }
+
+    /// <summary>
+    /// <see cref="Cells(ReadOnlySpan{double}, ReadOnlySpan{double}, Span{int}, int)"/> for values stored as float32,
+    /// against <see cref="Float32Edges"/>: the same cells, twice the values per register.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public static int Cells(ReadOnlySpan<float> values, ReadOnlySpan<float> edges, Span<int> cells, int nanCell)
+    {
+        if (cells.Length < values.Length) throw new ArgumentException("Fewer cells than values.", nameof(cells));
+        ref var v0 = ref MemoryMarshal.GetReference(values);
+        ref var c0 = ref MemoryMarshal.GetReference(cells);
+        ref var e0 = ref MemoryMarshal.GetReference(edges);
+        var n = edges.Length;
+        var i = 0;
+        if (Vector512.IsHardwareAccelerated)
+        {
+            var nan = Vector512.Create(nanCell);
+            for (; i + 32 <= values.Length; i += 32)
+            {
+                var a = Vector512.LoadUnsafe(ref v0, (nuint)i);
+                var b = Vector512.LoadUnsafe(ref v0, (nuint)(i + 16));
+                Vector512<int> ca = default, cb = default;
+                for (var k = 0; k < n; k++)
+                {
+                    var e = Vector512.Create(Unsafe.Add(ref e0, k));
+                    ca -= Vector512.GreaterThanOrEqual(a, e).AsInt32();
+                    cb -= Vector512.GreaterThanOrEqual(b, e).AsInt32();
+                }
+                Vector512.ConditionalSelect(Vector512.Equals(a, a).AsInt32(), ca, nan).StoreUnsafe(ref c0, (nuint)i);
+                Vector512.ConditionalSelect(Vector512.Equals(b, b).AsInt32(), cb, nan).StoreUnsafe(ref c0, (nuint)(i + 16));
+            }
+            return i;
+        }
+        if (Vector256.IsHardwareAccelerated)
+        {
+            var nan = Vector256.Create(nanCell);
+            for (; i + 16 <= values.Length; i += 16)
+            {
+                var a = Vector256.LoadUnsafe(ref v0, (nuint)i);
+                var b = Vector256.LoadUnsafe(ref v0, (nuint)(i + 8));
+                Vector256<int> ca = default, cb = default;
+                for (var k = 0; k < n; k++)
+                {
+                    var e = Vector256.Create(Unsafe.Add(ref e0, k));
+                    ca -= Vector256.GreaterThanOrEqual(a, e).AsInt32();
+                    cb -= Vector256.GreaterThanOrEqual(b, e).AsInt32();
+                }
+                Vector256.ConditionalSelect(Vector256.Equals(a, a).AsInt32(), ca, nan).StoreUnsafe(ref c0, (nuint)i);
+                Vector256.ConditionalSelect(Vector256.Equals(b, b).AsInt32(), cb, nan).StoreUnsafe(ref c0, (nuint)(i + 8));
+            }
+        }
+        return i;
+    }
 }

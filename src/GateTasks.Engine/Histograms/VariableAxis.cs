@@ -14,6 +14,7 @@ internal sealed class VariableAxis : Axis
     private readonly double[] _edges;
     private readonly int[] _firstBin; // per bucket: the bin holding the bucket's lower boundary
     private readonly double _bucketsPerUnit;
+    private readonly float[]? _float32Edges; // for counting float values in SIMD registers (EdgeCountSearch)
 
     /// <summary>Creates an axis from strictly increasing, finite edges (at least two).</summary>
     public VariableAxis(IReadOnlyList<double> edges)
@@ -26,6 +27,7 @@ internal sealed class VariableAxis : Axis
             if (i > 0 && !(_edges[i] > _edges[i - 1]))
                 throw new ArgumentException($"Edges must increase strictly; edge {i} ({_edges[i]}) follows {_edges[i - 1]}.", nameof(edges));
         }
+        _float32Edges = CountingEdges(_edges);
         var buckets = BucketsPerBin * Count;
         var range = _edges[^1] - _edges[0];
         _bucketsPerUnit = double.IsFinite(range) && range > 0 ? buckets / range : 0;
@@ -87,6 +89,18 @@ internal sealed class VariableAxis : Axis
         {
             var v = values[i];
             cells[i] = double.IsNaN(v) ? nanCell : Index(v) + 1;
+        }
+    }
+
+    /// <inheritdoc />
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public override void Cells(ReadOnlySpan<float> values, Span<int> cells, int nanCell)
+    {
+        var i = _float32Edges is { } edges ? EdgeCountSearch.Cells(values, edges, cells, nanCell) : 0;
+        for (; i < values.Length; i++)
+        {
+            var v = values[i];
+            cells[i] = float.IsNaN(v) ? nanCell : Index(v) + 1;
         }
     }
 
