@@ -1,5 +1,6 @@
 using System.Numerics;
 using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
 using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Accumulation;
@@ -101,9 +102,29 @@ internal sealed class FeatureStatistics
     /// <summary>Values widened at a time by <see cref="Add(ReadOnlySpan{float})"/>: a whole number of SIMD registers.</summary>
     private const int WidenBlock = 512;
 
+    // float → double is exact; a register at a time where the processor has them.
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static void Widen(ReadOnlySpan<float> values, Span<double> destination)
     {
-        for (var i = 0; i < values.Length; i++) destination[i] = values[i];
+        if (destination.Length < values.Length) throw new ArgumentException("Destination too short.", nameof(destination));
+        ref var v0 = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(values);
+        ref var d0 = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(destination);
+        var i = 0;
+        if (Vector512.IsHardwareAccelerated)
+            for (; i + 16 <= values.Length; i += 16)
+            {
+                var (lower, upper) = Vector512.Widen(Vector512.LoadUnsafe(ref v0, (nuint)i));
+                lower.StoreUnsafe(ref d0, (nuint)i);
+                upper.StoreUnsafe(ref d0, (nuint)(i + 8));
+            }
+        else if (Vector256.IsHardwareAccelerated)
+            for (; i + 8 <= values.Length; i += 8)
+            {
+                var (lower, upper) = Vector256.Widen(Vector256.LoadUnsafe(ref v0, (nuint)i));
+                lower.StoreUnsafe(ref d0, (nuint)i);
+                upper.StoreUnsafe(ref d0, (nuint)(i + 4));
+            }
+        for (; i < values.Length; i++) destination[i] = values[i];
     }
 
     // The first pass's lane sums: Σx, count, +∞ and −∞ counts, minimum and maximum of the finite values.
