@@ -10,11 +10,14 @@ namespace GateTasks.Benchmarks.Kernels;
 /// Where a check's streaming time goes, per value on one core: the benchmark sample's 20 float32 columns (Snappy,
 /// 500 000-row row groups, 10^6 events) on the benchmark contract's axes (equal-probability edges of 40 bins at the
 /// sample's own quantiles for 15 features, the five equal-width axes of <see cref="SyntheticFeatures.RegularAxes"/>).
-/// <see cref="Decode"/> reads the file (positional reads, Snappy, PLAIN) into the slices the fill reads;
-/// <see cref="Bin"/> finds the cells only, <see cref="Fill"/> also counts them, <see cref="Moments"/> is the
-/// feature statistics, <see cref="Accumulate"/> all a feature's accumulation does per batch for this contract (fill,
-/// exact absorption, moments) and <see cref="Stream"/> decoding and accumulating together. Every method is reported
-/// per value (OperationsPerInvoke = events × 20) and runs on one thread.
+/// <see cref="Decode"/> reads the file (positional reads, Snappy, PLAIN) into the stored floats the fill reads and
+/// <see cref="Convert"/> also converts every column to doubles (what every column cost before float32 columns were
+/// filled as floats); <see cref="Bin"/> finds the cells only, <see cref="Fill"/> also counts them,
+/// <see cref="Moments"/> is the feature statistics, <see cref="Accumulate"/> all a feature's accumulation does per
+/// batch for this contract (fill, exact absorption, moments) and <see cref="Stream"/> decoding and accumulating
+/// together, as a check does. <see cref="Doubles"/> switches the kernels to the same values as doubles (the path of
+/// a column read as doubles). Every method is reported per value (OperationsPerInvoke = events × 20) and runs on one
+/// thread.
 /// </summary>
 [MemoryDiagnoser]
 public class StreamBreakdownBenchmarks
@@ -24,7 +27,8 @@ public class StreamBreakdownBenchmarks
     private const int Values = Events * Features;
     private string _folder = "";
     private string _path = "";
-    private double[][][] _slices = []; // [slice][feature] values, as the reader hands them on
+    private double[][][] _slices = []; // [slice][feature] values as doubles
+    private float[][][] _floats = []; // [slice][feature] values as stored
     private Axis[] _axes = [];
     private Histogram[] _histograms = [];
     private ExactHistogram[] _exact = [];
@@ -42,6 +46,7 @@ public class StreamBreakdownBenchmarks
             foreach (var batch in reader.ReadBatches(SyntheticFeatures.Names))
                 slices.Add(Enumerable.Range(0, Features).Select(c => batch.Column(c).ToArray()).ToArray());
         _slices = slices.ToArray();
+        _floats = _slices.Select(s => s.Select(c => c.Select(v => (float)v).ToArray()).ToArray()).ToArray();
         _axes = Enumerable.Range(0, Features).Select(c =>
         {
             foreach (var (feature, bins, lower, upper) in SyntheticFeatures.RegularAxes)
@@ -57,6 +62,9 @@ public class StreamBreakdownBenchmarks
         _cells = new int[ParquetSampleReader.SliceRows];
     }
 
+    [Params(false, true)]
+    public bool Doubles { get; set; }
+
     [GlobalCleanup]
     public void Cleanup() => Directory.Delete(_folder, recursive: true);
 
@@ -65,7 +73,17 @@ public class StreamBreakdownBenchmarks
     {
         using var reader = ParquetSampleReader.Open(_path);
         var sum = 0.0;
-        foreach (var batch in reader.ReadBatches(SyntheticFeatures.Names)) sum += batch.Column(0)[batch.RowCount - 1];
+        foreach (var batch in reader.ReadBatches(SyntheticFeatures.Names)) sum += batch.Float32Column(0)[batch.RowCount - 1];
+        return sum;
+    }
+
+    [Benchmark(OperationsPerInvoke = Values)]
+    public double Convert()
+    {
+        using var reader = ParquetSampleReader.Open(_path);
+        var sum = 0.0;
+        foreach (var batch in reader.ReadBatches(SyntheticFeatures.Names))
+            for (var c = 0; c < Features; c++) sum += batch.Column(c)[batch.RowCount - 1];
         return sum;
     }
 
@@ -73,10 +91,12 @@ public class StreamBreakdownBenchmarks
     public int Bin()
     {
         var sum = 0;
-        foreach (var slice in _slices)
+        for (var s = 0; s < _slices.Length; s++)
             for (var c = 0; c < Features; c++)
             {
-                _axes[c].Cells(slice[c], _cells.AsSpan(0, slice[c].Length), _axes[c].Count + 2);
+                var n = _slices[s][c].Length;
+                if (Doubles) _axes[c].Cells(_slices[s][c], _cells.AsSpan(0, n), _axes[c].Count + 2);
+                else _axes[c].Cells(_floats[s][c], _cells.AsSpan(0, n), _axes[c].Count + 2);
                 sum += _cells[0];
             }
         return sum;
@@ -85,24 +105,30 @@ public class StreamBreakdownBenchmarks
     [Benchmark(OperationsPerInvoke = Values)]
     public double Fill()
     {
-        foreach (var slice in _slices)
-            for (var c = 0; c < Features; c++) _histograms[c].Fill(slice[c], ReadOnlySpan<double>.Empty);
+        for (var s = 0; s < _slices.Length; s++)
+            for (var c = 0; c < Features; c++)
+                if (Doubles) _histograms[c].Fill(_slices[s][c], ReadOnlySpan<double>.Empty);
+                else _histograms[c].Fill(_floats[s][c]);
         return _histograms[0].SumW[1];
     }
 
     [Benchmark(OperationsPerInvoke = Values)]
     public long Moments()
     {
-        foreach (var slice in _slices)
-            for (var c = 0; c < Features; c++) _statistics[c].Add(slice[c], ReadOnlySpan<double>.Empty);
+        for (var s = 0; s < _slices.Length; s++)
+            for (var c = 0; c < Features; c++)
+                if (Doubles) _statistics[c].Add(_slices[s][c], ReadOnlySpan<double>.Empty);
+                else _statistics[c].Add(_floats[s][c]);
         return _statistics[0].Count;
     }
 
     [Benchmark(OperationsPerInvoke = Values)]
     public long Accumulate()
     {
-        foreach (var slice in _slices)
-            for (var c = 0; c < Features; c++) AccumulateFeature(c, slice[c]);
+        for (var s = 0; s < _slices.Length; s++)
+            for (var c = 0; c < Features; c++)
+                if (Doubles) AccumulateFeature(c, _slices[s][c]);
+                else AccumulateFeature(c, _floats[s][c]);
         return _exact[0].Entries;
     }
 
@@ -111,8 +137,17 @@ public class StreamBreakdownBenchmarks
     {
         using var reader = ParquetSampleReader.Open(_path);
         foreach (var batch in reader.ReadBatches(SyntheticFeatures.Names))
-            for (var c = 0; c < Features; c++) AccumulateFeature(c, batch.Column(c));
+            for (var c = 0; c < Features; c++)
+                if (Doubles) AccumulateFeature(c, batch.Column(c));
+                else AccumulateFeature(c, batch.Float32Column(c));
         return _exact[0].Entries;
+    }
+
+    private void AccumulateFeature(int c, ReadOnlySpan<float> values)
+    {
+        _histograms[c].Fill(values);
+        _exact[c].Absorb(_histograms[c]);
+        _statistics[c].Add(values);
     }
 
     // As SampleAccumulation.Read does for a feature of this contract (no spike, far-tail or fine-grid counter).
