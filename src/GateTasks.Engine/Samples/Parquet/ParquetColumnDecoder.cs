@@ -9,7 +9,7 @@ namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// Reads one flat numeric Parquet column, row group by row group, in its stored type, and hands it out as
-/// <see cref="double"/> slice by slice. The stored-type buffers are kept and reused for the next row group, so a file
+/// <see cref="double"/> slice by slice (or as stored, for a float32 column without nulls). The stored-type buffers are kept and reused for the next row group, so a file
 /// costs one row group of stored values per column (plus one slice of doubles) however many row groups it has.
 /// </summary>
 internal abstract class ParquetColumnDecoder
