@@ -81,8 +81,12 @@ internal sealed class FeatureStatistics
         Span<double> tail = stackalloc double[lanes];
         var rest = tail[..(values.Length - whole)];
         Widen(values[whole..], rest);
+        // Where a Vector<double> is four lanes, eight floats are widened in registers into two of them, taken in
+        // order; the rest (and other register widths) through a block widened on the stack.
+        var fused = Vector<double>.Count == 4 && Vector256.IsHardwareAccelerated ? whole - whole % 8 : 0;
         var first = FirstSums.Empty;
-        for (var i = 0; i < whole; i += WidenBlock)
+        if (fused > 0) FirstFused(values[..fused], ref first);
+        for (var i = fused; i < whole; i += WidenBlock)
         {
             var n = Math.Min(WidenBlock, whole - i);
             Widen(values.Slice(i, n), block);
@@ -90,13 +94,84 @@ internal sealed class FeatureStatistics
         }
         if (FinishFirst(ref first, rest, values) is not { } mean) return;
         var second = default(SecondSums);
-        for (var i = 0; i < whole; i += WidenBlock)
+        if (fused > 0) SecondFused(values[..fused], mean, _shift, ref second);
+        for (var i = fused; i < whole; i += WidenBlock)
         {
             var n = Math.Min(WidenBlock, whole - i);
             Widen(values.Slice(i, n), block);
             Second(block[..n], mean, _shift, ref second);
         }
         FinishSecond(ref second, rest, mean);
+    }
+
+    // First, for floats eight at a time (Vector<double> of four lanes): the lower four, then the upper four.
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private static void FirstFused(ReadOnlySpan<float> values, ref FirstSums sums)
+    {
+        var zero = Vector<double>.Zero;
+        var one = Vector<double>.One;
+        var plusInfinity = new Vector<double>(double.PositiveInfinity);
+        var minusInfinity = new Vector<double>(double.NegativeInfinity);
+        var (vSum, vCount, vPlus, vMinus, vMin, vMax) = (sums.Sum, sums.Count, sums.Plus, sums.Minus, sums.Min, sums.Max);
+        ref var v0 = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(values);
+        for (var i = 0; i + 8 <= values.Length; i += 8)
+        {
+            var (lower, upper) = Vector256.Widen(Vector256.LoadUnsafe(ref v0, (nuint)i));
+            var v = lower.AsVector();
+            var finite = Vector.LessThan(Vector.Abs(v), plusInfinity);
+            vSum += Vector.ConditionalSelect(finite, v, zero);
+            vCount += Vector.ConditionalSelect(finite, one, zero);
+            vPlus += Vector.ConditionalSelect(Vector.Equals(v, plusInfinity), one, zero);
+            vMinus += Vector.ConditionalSelect(Vector.Equals(v, minusInfinity), one, zero);
+            vMin = Vector.Min(vMin, Vector.ConditionalSelect(finite, v, plusInfinity));
+            vMax = Vector.Max(vMax, Vector.ConditionalSelect(finite, v, minusInfinity));
+            v = upper.AsVector();
+            finite = Vector.LessThan(Vector.Abs(v), plusInfinity);
+            vSum += Vector.ConditionalSelect(finite, v, zero);
+            vCount += Vector.ConditionalSelect(finite, one, zero);
+            vPlus += Vector.ConditionalSelect(Vector.Equals(v, plusInfinity), one, zero);
+            vMinus += Vector.ConditionalSelect(Vector.Equals(v, minusInfinity), one, zero);
+            vMin = Vector.Min(vMin, Vector.ConditionalSelect(finite, v, plusInfinity));
+            vMax = Vector.Max(vMax, Vector.ConditionalSelect(finite, v, minusInfinity));
+        }
+        (sums.Sum, sums.Count, sums.Plus, sums.Minus, sums.Min, sums.Max) = (vSum, vCount, vPlus, vMinus, vMin, vMax);
+    }
+
+    // Second, for floats eight at a time (Vector<double> of four lanes): the lower four, then the upper four.
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private static void SecondFused(ReadOnlySpan<float> values, double mean, double shift, ref SecondSums sums)
+    {
+        var zero = Vector<double>.Zero;
+        var plusInfinity = new Vector<double>(double.PositiveInfinity);
+        var vMean = new Vector<double>(mean);
+        var vShift = new Vector<double>(shift);
+        var (vM2, v1, v2, v3, v4) = (sums.M2, sums.S1, sums.S2, sums.S3, sums.S4);
+        ref var v0 = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(values);
+        for (var i = 0; i + 8 <= values.Length; i += 8)
+        {
+            var (lower, upper) = Vector256.Widen(Vector256.LoadUnsafe(ref v0, (nuint)i));
+            var v = lower.AsVector();
+            var finite = Vector.LessThan(Vector.Abs(v), plusInfinity);
+            var dm = Vector.ConditionalSelect(finite, v - vMean, zero);
+            vM2 += dm * dm;
+            var d = Vector.ConditionalSelect(finite, v - vShift, zero);
+            var d2 = d * d;
+            v1 += d;
+            v2 += d2;
+            v3 += d2 * d;
+            v4 += d2 * d2;
+            v = upper.AsVector();
+            finite = Vector.LessThan(Vector.Abs(v), plusInfinity);
+            dm = Vector.ConditionalSelect(finite, v - vMean, zero);
+            vM2 += dm * dm;
+            d = Vector.ConditionalSelect(finite, v - vShift, zero);
+            d2 = d * d;
+            v1 += d;
+            v2 += d2;
+            v3 += d2 * d;
+            v4 += d2 * d2;
+        }
+        (sums.M2, sums.S1, sums.S2, sums.S3, sums.S4) = (vM2, v1, v2, v3, v4);
     }
 
     /// <summary>Values widened at a time by <see cref="Add(ReadOnlySpan{float})"/>: a whole number of SIMD registers.</summary>

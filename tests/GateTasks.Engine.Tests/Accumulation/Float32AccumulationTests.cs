@@ -13,6 +13,7 @@ public class Float32AccumulationTests
     [Theory]
     [InlineData(65_536, false)]
     [InlineData(1_003, true)] // a length that leaves a tail after the SIMD lanes, with NaN and infinities
+    [InlineData(1_005, true)] // eight at a time, then four through the block
     [InlineData(3, true)]
     public void Moments_of_float_values_are_those_of_the_same_values_as_doubles(int length, bool specials)
     {
