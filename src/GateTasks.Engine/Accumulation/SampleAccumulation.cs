@@ -83,7 +83,16 @@ internal sealed class SampleAccumulation
             _stats[i].Add(values, weights);
             _farTail[i]?.Add(values, weights);
             _fine[i]?.Add(values, weights);
-        }), BatchVisits(), pass);
+        }), BatchVisits(), pass, (i, values) =>
+        {
+            // Float32 values with unit weights, for a feature with no counter that needs doubles: the same fill and
+            // moments, without converting the values.
+            if (_spikes.Filters[i] is not null || _farTail[i] is not null || _fine[i] is not null) return false;
+            _batch[i].Fill(values);
+            _histograms[i].Absorb(_batch[i]);
+            _stats[i].Add(values);
+            return true;
+        });
         Events += totals.Events;
         _sumW.Add(totals.ExactSumW);
         _sumW2.Add(totals.ExactSumW2);

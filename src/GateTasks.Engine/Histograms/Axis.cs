@@ -33,6 +33,23 @@ internal abstract class Axis
             cells[i] = double.IsNaN(values[i]) ? nanCell : Index(values[i]) + 1;
     }
 
+    /// <summary>
+    /// <see cref="Cells(ReadOnlySpan{double}, Span{int}, int)"/> for values stored as float32: the cells of the same
+    /// values as doubles (widening is exact).
+    /// </summary>
+    public virtual void Cells(ReadOnlySpan<float> values, Span<int> cells, int nanCell)
+    {
+        for (var i = 0; i < values.Length; i++)
+            cells[i] = float.IsNaN(values[i]) ? nanCell : Index(values[i]) + 1;
+    }
+
+    /// <summary>
+    /// The edges as float32 for <see cref="EdgeCountSearch"/> where it takes this axis (few enough edges, SIMD
+    /// registers), else null.
+    /// </summary>
+    protected static float[]? CountingEdges(ReadOnlySpan<double> edges) =>
+        edges.Length <= EdgeCountSearch.MaxEdges && EdgeCountSearch.IsSupported ? EdgeCountSearch.Float32Edges(edges) : null;
+
     /// <summary>Lower edge of regular bin <paramref name="bin"/>.</summary>
     public double Lower(int bin) => Edges[bin];
 

@@ -142,6 +142,7 @@ internal sealed class Histogram
     }
 
     /// <summary>Fills many values, each with weight one or with the matching weight.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public void Fill(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
     {
         if (!weights.IsEmpty && weights.Length != values.Length)
@@ -154,27 +155,15 @@ internal sealed class Histogram
         var sumW2 = _storage.SumW2;
         if (weights.IsEmpty)
         {
-            if (_counts is null || _counts.Length != nanCell + 1) _counts = new long[nanCell + 1];
+            var counts = Counts();
             for (var start = 0; start < values.Length; start += FillBlock)
             {
                 var block = values.Slice(start, Math.Min(FillBlock, values.Length - start));
                 var blockCells = cells[..block.Length];
                 Axis.Cells(block, blockCells, nanCell);
-                foreach (var c in blockCells) _counts[c]++;
+                foreach (var c in blockCells) counts[c]++;
             }
-            for (var c = 0; c < nanCell; c++)
-            {
-                if (_counts[c] == 0) continue;
-                sumW[c] += _counts[c];
-                sumW2[c] += _counts[c];
-                _counts[c] = 0;
-            }
-            var nan = _counts[nanCell];
-            _counts[nanCell] = 0;
-            Entries += values.Length;
-            NanEntries += nan;
-            NanSumW += nan;
-            NanSumW2 += nan;
+            AddCounts(values.Length);
             return;
         }
         for (var start = 0; start < values.Length; start += FillBlock)
@@ -199,6 +188,57 @@ internal sealed class Histogram
             }
         }
         Entries += values.Length;
+    }
+
+    /// <summary>
+    /// Fills float32 values, each with weight one: the same cells and sums as filling them as doubles, with the cells
+    /// found among float edges (twice the values per SIMD register) and no conversion.
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public void Fill(ReadOnlySpan<float> values)
+    {
+        var nanCell = _storage.CellCount;
+        Span<int> cells = stackalloc int[Math.Min(values.Length, FillBlock)];
+        var counts = Counts();
+        for (var start = 0; start < values.Length; start += FillBlock)
+        {
+            var block = values.Slice(start, Math.Min(FillBlock, values.Length - start));
+            var blockCells = cells[..block.Length];
+            Axis.Cells(block, blockCells, nanCell);
+            foreach (var c in blockCells) counts[c]++;
+        }
+        AddCounts(values.Length);
+    }
+
+    // The unit-weight counts, zero between fills; the last slot counts NaN.
+    private long[] Counts()
+    {
+        var cells = _storage.CellCount + 1;
+        if (_counts is null || _counts.Length != cells) _counts = new long[cells];
+        return _counts;
+    }
+
+    // Adds the counts of a unit-weight fill of so many values to the cells (a sum of ones is exact, so Σw and Σw² come
+    // out as filling value by value gives them) and zeroes them.
+    private void AddCounts(int values)
+    {
+        var counts = _counts!;
+        var nanCell = _storage.CellCount;
+        var sumW = _storage.SumW;
+        var sumW2 = _storage.SumW2;
+        for (var c = 0; c < nanCell; c++)
+        {
+            if (counts[c] == 0) continue;
+            sumW[c] += counts[c];
+            sumW2[c] += counts[c];
+            counts[c] = 0;
+        }
+        var nan = counts[nanCell];
+        counts[nanCell] = 0;
+        Entries += values;
+        NanEntries += nan;
+        NanSumW += nan;
+        NanSumW2 += nan;
     }
 
     /// <summary>Values whose cells are found in one call.</summary>

@@ -29,7 +29,7 @@ internal sealed class Histogram2D
 
     /// <summary>
     /// Adds a block of pairs, none NaN (weights empty: unit weights): each axis finds its cells for the whole block
-    /// (<see cref="Axis.Cells"/>), sparing a virtual call per value, then each pair adds to its cell.
+    /// (<see cref="Axis.Cells(ReadOnlySpan{double}, Span{int}, int)"/>), sparing a virtual call per value, then each pair adds to its cell.
     /// </summary>
     public void Fill(ReadOnlySpan<double> x, ReadOnlySpan<double> y, ReadOnlySpan<double> w)
     {

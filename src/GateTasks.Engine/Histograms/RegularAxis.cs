@@ -11,6 +11,7 @@ internal sealed class RegularAxis : Axis
     private readonly double _upper;
     private readonly double _scale;
     private readonly bool _divideFirst;
+    private readonly float[]? _float32Edges; // for counting float values in SIMD registers (EdgeCountSearch)
 
     /// <summary>Creates <paramref name="count"/> equal bins over [lower, upper).</summary>
     public RegularAxis(int count, double lower, double upper)
@@ -27,6 +28,7 @@ internal sealed class RegularAxis : Axis
         _divideFirst = !double.IsFinite((upper - lower) * count);
         for (var i = 0; i <= count; i++) _edges[i] = _divideFirst ? lower + (upper - lower) / count * i : lower + (upper - lower) * i / count;
         _edges[count] = upper;
+        _float32Edges = CountingEdges(_edges);
     }
 
     /// <inheritdoc />
@@ -50,6 +52,7 @@ internal sealed class RegularAxis : Axis
     }
 
     /// <inheritdoc />
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public override void Cells(ReadOnlySpan<double> values, Span<int> cells, int nanCell)
     {
         var i = 0;
@@ -58,6 +61,22 @@ internal sealed class RegularAxis : Axis
         {
             var v = values[i];
             cells[i] = double.IsNaN(v) ? nanCell : Index(v) + 1;
+        }
+    }
+
+    /// <inheritdoc />
+    /// <remarks>
+    /// Float values of an axis of few edges are counted against the stored edges (<see cref="EdgeCountSearch"/>),
+    /// which gives the cells of a binary search over them, as <see cref="Index"/> does.
+    /// </remarks>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public override void Cells(ReadOnlySpan<float> values, Span<int> cells, int nanCell)
+    {
+        var i = _float32Edges is { } edges ? EdgeCountSearch.Cells(values, edges, cells, nanCell) : 0;
+        for (; i < values.Length; i++)
+        {
+            var v = values[i];
+            cells[i] = float.IsNaN(v) ? nanCell : Index(v) + 1;
         }
     }
 

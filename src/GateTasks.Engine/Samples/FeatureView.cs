@@ -7,7 +7,14 @@ internal sealed class FeatureView(double[][] features, double[] weights, bool we
     public int Rows { get; internal set; }
 
     /// <summary>A feature's values. Features with a condition of their own are not aligned with the others; use <see cref="SampleStream"/>'s visitor for them.</summary>
-    public ReadOnlySpan<double> Feature(int index) => features[index].AsSpan(0, Rows);
+    public ReadOnlySpan<double> Feature(int index)
+    {
+        Prepare?.Invoke(index);
+        return features[index].AsSpan(0, Rows);
+    }
+
+    /// <summary>Called with a feature's index before its values are read: fills a buffer whose conversion was put off.</summary>
+    internal Action<int>? Prepare { get; init; }
 
     /// <summary>
     /// Each row's index within its file (0-based, counted before the selection): a place that does not depend on how

@@ -5,6 +5,12 @@ namespace GateTasks.Engine.Samples;
 /// <summary>Receives one feature's values of one batch, with the batch's weights (empty: unit weights).</summary>
 internal delegate void FeatureBatch(int feature, ReadOnlySpan<double> values, ReadOnlySpan<double> weights);
 
+/// <summary>
+/// Offered one feature's values of one batch with unit weights, as stored float32 values (the same numbers the
+/// <see cref="FeatureBatch"/> would get as doubles); returns false to be given them as doubles instead.
+/// </summary>
+internal delegate bool FeatureBatchFloat32(int feature, ReadOnlySpan<float> values);
+
 /// <summary>Event totals of one pass over a sample (events that passed the selection); Σw and Σw² as exact sums, for merging with other shards.</summary>
 internal sealed record SampleTotals(long Events, Statistics.ExactSum ExactSumW, Statistics.ExactSum ExactSumW2)
 {
@@ -43,6 +49,10 @@ internal sealed class SampleStream
     // Per feature: an earlier feature whose expression (condition) has the same text, whose values (mask) this batch it
     // takes rather than evaluating them again, or -1 (a category block repeats its expression for every feature).
     private readonly int[] _sameExpression, _sameCondition;
+    // Per feature: the batch column it reads straight (no expression, selection or condition), converted to doubles
+    // only when first read as doubles; -1 for a feature whose values are ready before the visits.
+    private readonly int[] _deferredColumn;
+    private SampleBatch? _batch;
     private double[] _weights = [];
     private double[] _mask = [];
     private long[] _fileRows = [];
@@ -75,7 +85,8 @@ internal sealed class SampleStream
         _ownRows = new int[_n];
         _sameExpression = EarlierWithSameText(inputs.Expressions);
         _sameCondition = EarlierWithSameText(inputs.Conditions);
-        _frame = new FeatureView(_view, _weights, weightColumn is not null, _fileRows);
+        _deferredColumn = new int[_n];
+        _frame = new FeatureView(_view, _weights, weightColumn is not null, _fileRows) { Prepare = PrepareFeature };
     }
 
     private static int[] EarlierWithSameText(IReadOnlyList<Expressions.CompiledExpression?> expressions) =>
@@ -92,7 +103,7 @@ internal sealed class SampleStream
     /// (a feature visit that feature's, a batch visitor its own) and none may change the batch.
     /// </summary>
     public static SampleTotals Run(Sample sample, FeatureSources inputs, string? weightColumn, FeatureBatch visit,
-        IReadOnlyList<Action<FeatureView>>? batchVisits = null, ReadPass? settings = null)
+        IReadOnlyList<Action<FeatureView>>? batchVisits = null, ReadPass? settings = null, FeatureBatchFloat32? visitFloat32 = null)
     {
         var pass = new SampleStream(sample, inputs, weightColumn, settings ?? ReadPass.Default);
         foreach (var batch in sample.ReadBatches(pass.Columns, pass._pass))
@@ -104,7 +115,7 @@ internal sealed class SampleStream
             pass.SelectOwn(batch);
             pass.Select(batch);
             pass.Total();
-            pass.Visit(visit, batchVisits ?? []);
+            pass.Visit(visit, batchVisits ?? [], visitFloat32);
         }
         if (weightColumn is not null)
             SampleWeights.RequireRepresentableSquares(pass._largestWeight, weightColumn, sample.Files, new SourceLocation(sample.Files[0]));
@@ -124,7 +135,13 @@ internal sealed class SampleStream
             _derived[i] = _inputs.Expressions[i] is null ? [] : new double[rows];
             _selected[i] = _inputs.Selection is null ? [] : new double[rows];
         }
-        _frame = new FeatureView(_view, _weights, _weightColumn is not null, _fileRows);
+        _frame = new FeatureView(_view, _weights, _weightColumn is not null, _fileRows) { Prepare = PrepareFeature };
+    }
+
+    // Before a feature's doubles are read (by its visit or by a batch visitor): converts its column if still pending.
+    private void PrepareFeature(int feature)
+    {
+        if (_deferredColumn[feature] >= 0) _batch!.Convert(_deferredColumn[feature]);
     }
 
     private void CheckWeights(SampleBatch batch)
@@ -145,8 +162,10 @@ internal sealed class SampleStream
     private void Derive(SampleBatch batch)
     {
         var rows = batch.RowCount;
+        _batch = batch;
         for (var i = 0; i < _n; i++)
         {
+            _deferredColumn[i] = -1;
             if (_sameExpression[i] >= 0) _view[i] = _derived[_sameExpression[i]];
             else if (_inputs.Expressions[i] is { } e)
             {
@@ -154,6 +173,12 @@ internal sealed class SampleStream
                 for (var a = 0; a < args.Length; a++) args[a] = batch.ColumnBuffer(_index[e.Columns[a]]);
                 e.Evaluate(args, rows, _derived[i].AsSpan(0, rows));
                 _view[i] = _derived[i];
+            }
+            else if (_inputs.Selection is null && _inputs.Conditions[i] is null)
+            {
+                // Read by the feature's own visit (or a batch visitor) only: converted there, if at all.
+                _deferredColumn[i] = _index[_inputs.FeatureColumns[i]!];
+                _view[i] = batch.DeferredBuffer(_deferredColumn[i]);
             }
             else _view[i] = batch.ColumnBuffer(_index[_inputs.FeatureColumns[i]!]);
         }
@@ -238,7 +263,7 @@ internal sealed class SampleStream
     // Features and batch visitors are independent from here on (each touches only its own state), so large batches
     // spread them over the cores; the results do not depend on it. The batch visitors come first: a joint block's
     // visitor is the longest job of a batch, and starting it first lets the features fill the other cores beside it.
-    private void Visit(FeatureBatch visit, IReadOnlyList<Action<FeatureView>> batchVisits)
+    private void Visit(FeatureBatch visit, IReadOnlyList<Action<FeatureView>> batchVisits, FeatureBatchFloat32? visitFloat32)
     {
         var b = batchVisits.Count;
         void One(int job)
@@ -249,6 +274,10 @@ internal sealed class SampleStream
                 return;
             }
             var i = job - b;
+            // A float32 column read straight, with unit weights, is offered as stored: no conversion to doubles.
+            if (visitFloat32 is not null && _deferredColumn[i] >= 0 && _weightIndex < 0
+                && _batch!.Float32Column(_deferredColumn[i]) is { IsEmpty: false } stored && visitFloat32(i, stored))
+                return;
             var values = _inputs.Conditions[i] is null ? _frame.Feature(i) : _ownValues[i].AsSpan(0, _ownRows[i]);
             var featureWeights = _inputs.Conditions[i] is null ? _frame.Weights
                 : _weightIndex >= 0 ? _ownWeights[i].AsSpan(0, _ownRows[i]) : ReadOnlySpan<double>.Empty;

@@ -90,4 +90,73 @@ public class VariableAxisLookupTests
             Assert.True(expected == cells[i], $"x = {probes[i]:R}: cell {cells[i]}, expected {expected}");
         }
     }
+    [Theory]
+    [InlineData(1)]
+    [InlineData(40)]
+    [InlineData(63)] // the most edges the counting search takes
+    [InlineData(64)] // one more: the guide table's search
+    public void Counting_edges_in_SIMD_lanes_gives_the_binary_search_cell_for_every_lane(int bins)
+    {
+        // The textbook placement (Array.BinarySearch over the edges) against the block-wise cells, with NaN, ±∞, ±0
+        // and values on, just below and just above every edge put in every lane position of a register, and edges of
+        // a long-tailed law (the case where the guide table falls back on its binary search).
+        var edges = Enumerable.Range(0, bins + 1).Select(i => Math.Sinh(12.0 * i / bins - 6) * 1e3).ToArray();
+        var axis = new VariableAxis(edges);
+        var rng = new Xoshiro256StarStar(bins + 100);
+        var specials = new[] { double.NaN, double.PositiveInfinity, double.NegativeInfinity, 0.0, -0.0, double.MaxValue, -double.MaxValue, double.Epsilon };
+        var probes = new List<double>();
+        foreach (var e in edges) probes.AddRange([e, Math.BitDecrement(e), Math.BitIncrement(e)]);
+        for (var lane = 0; lane < 17; lane++)
+            foreach (var special in specials)
+            {
+                for (var k = 0; k < lane; k++) probes.Add(edges[rng.Next(edges.Length)]);
+                probes.Add(special);
+            }
+        for (var k = 0; k < 20_000; k++) probes.Add(Math.Sinh(rng.NextDouble() * 14 - 7) * 1e3);
+        var cells = new int[probes.Count];
+        var nanCell = edges.Length + 1;
+        axis.Cells(probes.ToArray(), cells, nanCell);
+        for (var i = 0; i < probes.Count; i++)
+        {
+            var expected = double.IsNaN(probes[i]) ? nanCell : Reference(edges, probes[i]) + 1;
+            Assert.True(expected == cells[i], $"value {i}, x = {probes[i]:R}: cell {cells[i]}, expected {expected}");
+        }
+    }
+    [Theory]
+    [InlineData("variable", 40)]
+    [InlineData("variable", 100)] // more edges than the counting search takes: the guide table
+    [InlineData("regular", 50)]
+    public void Float32_values_get_the_cells_of_the_same_values_as_doubles(string kind, int bins)
+    {
+        // The textbook placement of each float widened to a double (Array.BinarySearch over the axis's double edges)
+        // against the float block: probes are the floats nearest every edge (each edge is rarely a float itself), and
+        // their neighbours, specials in every lane position, and random floats.
+        var edges = kind == "regular"
+            ? new RegularAxis(bins, -2.5, 2.5).Edges.ToArray()
+            : Enumerable.Range(0, bins + 1).Select(i => Math.Sinh(12.0 * i / bins - 6) * 1e3 + 1e-7 * i).ToArray();
+        var axis = kind == "regular" ? (Axis)new RegularAxis(bins, -2.5, 2.5) : new VariableAxis(edges);
+        var rng = new Xoshiro256StarStar(bins + 7);
+        var probes = new List<float>();
+        foreach (var e in edges)
+        {
+            var f = (float)e;
+            probes.AddRange([f, MathF.BitDecrement(f), MathF.BitIncrement(f), MathF.BitDecrement(MathF.BitDecrement(f))]);
+        }
+        var specials = new[] { float.NaN, float.PositiveInfinity, float.NegativeInfinity, 0f, -0f, float.MaxValue, -float.MaxValue };
+        for (var lane = 0; lane < 33; lane++)
+            foreach (var special in specials)
+            {
+                for (var k = 0; k < lane; k++) probes.Add((float)edges[rng.Next(edges.Length)]);
+                probes.Add(special);
+            }
+        for (var k = 0; k < 20_000; k++) probes.Add((float)(kind == "regular" ? rng.NextDouble() * 6 - 3 : Math.Sinh(rng.NextDouble() * 14 - 7) * 1e3));
+        var cells = new int[probes.Count];
+        var nanCell = edges.Length + 1;
+        axis.Cells(probes.ToArray(), cells, nanCell);
+        for (var i = 0; i < probes.Count; i++)
+        {
+            var expected = float.IsNaN(probes[i]) ? nanCell : Reference(edges, probes[i]) + 1;
+            Assert.True(expected == cells[i], $"value {i}, x = {probes[i]:R}: cell {cells[i]}, expected {expected}");
+        }
+    }
 }

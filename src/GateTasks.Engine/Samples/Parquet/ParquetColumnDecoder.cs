@@ -1,4 +1,5 @@
 using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
 using Microsoft.Win32.SafeHandles;
 using Parquet;
 using Parquet.Meta;
@@ -8,7 +9,7 @@ namespace GateTasks.Engine.Samples.Parquet;
 
 /// <summary>
 /// Reads one flat numeric Parquet column, row group by row group, in its stored type, and hands it out as
-/// <see cref="double"/> slice by slice. The stored-type buffers are kept and reused for the next row group, so a file
+/// <see cref="double"/> slice by slice (or as stored, for a float32 column without nulls). The stored-type buffers are kept and reused for the next row group, so a file
 /// costs one row group of stored values per column (plus one slice of doubles) however many row groups it has.
 /// </summary>
 internal abstract class ParquetColumnDecoder
@@ -43,20 +44,34 @@ internal abstract class ParquetColumnDecoder
     public abstract void Read(RowGroup rowGroup, int rows, SafeFileHandle file, PlainChunkReader plain, Func<ParquetRowGroupReader> library);
 
     /// <summary>
-    /// Converts the next <paramref name="destination"/>.Length rows of the chunk last read into doubles; a null
-    /// becomes NaN. Slices are taken in order, from the first row of the chunk on.
+    /// Converts rows <paramref name="startRow"/> on of the chunk last read into doubles, as many as
+    /// <paramref name="destination"/> holds; a null becomes NaN. <paramref name="startValue"/> is the number of
+    /// values (non-null rows) before <paramref name="startRow"/> (<see cref="Present"/>). Writes the same numbers
+    /// however often it is called, so slices may be converted in any order and on any thread.
     /// </summary>
-    public abstract void Convert(Span<double> destination);
+    public abstract void Convert(int startRow, int startValue, Span<double> destination);
+
+    /// <summary>The values (non-null rows) among <paramref name="count"/> rows from <paramref name="startRow"/> on.</summary>
+    public abstract int Present(int startRow, int count);
+
+    /// <summary>
+    /// Rows <paramref name="startRow"/> to <paramref name="startRow"/> + <paramref name="count"/> of a float32 chunk
+    /// without a null, as stored; empty for any other chunk.
+    /// </summary>
+    public abstract ReadOnlySpan<float> Float32(int startRow, int count);
 
     /// <summary>Whether row <paramref name="row"/> of the chunk last read is a null (for messages; not used per value).</summary>
     public abstract bool IsNull(int row);
+
+    /// <summary>Row <paramref name="row"/>'s value as a double (for messages; not used per value); NaN for a null.</summary>
+    public abstract double ValueAt(int row);
 
     private sealed class Typed<T>(DataField field) : ParquetColumnDecoder where T : unmanaged
     {
         private T[] _values = [];
         private int[] _definitionLevels = [];
 
-        private int _nextRow, _nextValue;
+        private bool _hasNulls;
 
         public override string Column => @field.Name;
 
@@ -79,8 +94,7 @@ internal abstract class ParquetColumnDecoder
             var nullable = field.MaxDefinitionLevel > 0;
             if (nullable && _definitionLevels.Length < rows) _definitionLevels = new int[rows];
 
-            _nextRow = 0;
-            _nextValue = 0;
+            _hasNulls = nullable; // until the read says otherwise
             // Who reads the chunk, decided here alone: the plain-chunk reader takes a chunk of float, double, int32 or
             // int64 values whose metadata says it is stored PLAIN (no dictionary page; PLAIN values with RLE or
             // bit-packed levels; uncompressed, Snappy, Zstandard or gzip: PlainChunkReader.Supports) and whose pages
@@ -89,7 +103,10 @@ internal abstract class ParquetColumnDecoder
             // plain-chunk reader has verified its pages' checksums and value counts, which the library does not.
             if (PlainChunkReader.Supports<T>(metadata)
                 && plain.TryRead(file, metadata, field.MaxDefinitionLevel, rows, _values.AsSpan(0, rows), _definitionLevels.AsSpan(0, nullable ? rows : 0)))
+            {
+                _hasNulls = nullable && Present(0, rows) < rows;
                 return;
+            }
 
             plain.VerifyChecksums(file, metadata);
             // The raw read fills the values densely (nulls skipped) plus one definition level per row, into our
@@ -100,6 +117,7 @@ internal abstract class ParquetColumnDecoder
                     nullable ? _definitionLevels.AsMemory(0, rows) : (Memory<int>?)null, // a bare null would become an empty Memory
                     null)
                 .AsTask().GetAwaiter().GetResult();
+            _hasNulls = nullable && Present(0, rows) < rows;
         }
 
         // As Parquet.Net maps a row group's chunks to fields: by their path in the schema, a later chunk of one path
@@ -115,23 +133,57 @@ internal abstract class ParquetColumnDecoder
 
         public override bool IsNull(int row) => field.MaxDefinitionLevel > 0 && _definitionLevels[row] < field.MaxDefinitionLevel;
 
-        public override void Convert(Span<double> destination)
+        public override double ValueAt(int row) => IsNull(row) ? double.NaN : ToDouble(_values[_hasNulls ? Present(0, row) : row]);
+
+        public override int Present(int startRow, int count)
         {
-            var start = _nextRow;
-            _nextRow += destination.Length;
-            if (field.MaxDefinitionLevel == 0)
+            if (!_hasNulls) return count;
+            var maxLevel = field.MaxDefinitionLevel;
+            var present = 0;
+            foreach (var level in _definitionLevels.AsSpan(startRow, count))
+                if (level >= maxLevel) present++;
+            return present;
+        }
+
+        public override ReadOnlySpan<float> Float32(int startRow, int count) =>
+            typeof(T) == typeof(float) && !_hasNulls
+                ? System.Runtime.InteropServices.MemoryMarshal.Cast<T, float>(_values.AsSpan(startRow, count))
+                : ReadOnlySpan<float>.Empty;
+
+        [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+        public override void Convert(int startRow, int startValue, Span<double> destination)
+        {
+            if (!_hasNulls)
             {
-                var values = _values.AsSpan(start, destination.Length);
-                for (var i = 0; i < destination.Length; i++) destination[i] = ToDouble(values[i]);
+                var values = _values.AsSpan(startRow, destination.Length);
+                if (typeof(T) == typeof(double))
+                    System.Runtime.InteropServices.MemoryMarshal.Cast<T, double>(values).CopyTo(destination);
+                else if (typeof(T) == typeof(float))
+                    Widen(System.Runtime.InteropServices.MemoryMarshal.Cast<T, float>(values), destination);
+                else
+                    for (var i = 0; i < destination.Length; i++) destination[i] = ToDouble(values[i]);
                 return;
             }
 
             var maxLevel = field.MaxDefinitionLevel;
-            var levels = _definitionLevels.AsSpan(start, destination.Length);
-            var next = _nextValue;
+            var levels = _definitionLevels.AsSpan(startRow, destination.Length);
+            var next = startValue;
             for (var i = 0; i < destination.Length; i++)
                 destination[i] = levels[i] < maxLevel ? double.NaN : ToDouble(_values[next++]);
-            _nextValue = next;
+        }
+
+        // float → double is exact; eight at a time where the processor has the registers.
+        private static void Widen(ReadOnlySpan<float> values, Span<double> destination)
+        {
+            var i = 0;
+            if (Vector256.IsHardwareAccelerated)
+                for (; i + 8 <= values.Length; i += 8)
+                {
+                    var (lower, upper) = Vector256.Widen(Vector256.Create(values.Slice(i, 8)));
+                    lower.CopyTo(destination.Slice(i, 4));
+                    upper.CopyTo(destination.Slice(i + 4, 4));
+                }
+            for (; i < values.Length; i++) destination[i] = values[i];
         }
 
         // Parquet.Net 6.1 returns wrong values (or divides by zero) for RLE-encoded booleans, found by comparing

@@ -22,8 +22,9 @@ namespace GateTasks.Engine.Samples.Parquet;
 internal sealed class ParquetSampleReader : ISampleReader
 {
     /// <summary>
-    /// Rows per batch: a row group is decoded whole in its stored types, then converted to doubles and handed on in
-    /// slices of this many rows, so the double buffers stay at a few megabytes however large the row groups are.
+    /// Rows per batch: a row group is decoded whole in its stored types, then handed on in slices of this many rows
+    /// (converted to doubles where read as doubles), so the double buffers stay at a few megabytes however large the
+    /// row groups are.
     /// </summary>
     internal const int SliceRows = 1 << 16;
 
@@ -122,15 +123,19 @@ internal sealed class ParquetSampleReader : ISampleReader
                 var rows = rowGroupSizes[group];
                 if (rows == 0) continue; // an empty row group carries no events; a batch of none would only confuse counts
                 DecodeRowGroup(group, rows, decoders, libraryReaders, plainReaders, file);
+                var startValues = new int[decoders.Length]; // per column: the values (non-null rows) before the slice
                 for (var start = 0; start < rows; start += SliceRows)
                 {
                     var count = Math.Min(SliceRows, rows - start);
-                    for (var c = 0; c < decoders.Length; c++) decoders[c].Convert(buffers[c].AsSpan(0, count));
+                    // Columns are converted to doubles when first read, on the thread that reads them (or never, for
+                    // a float32 column read as floats): the slice only says where its rows start.
+                    var slice = new Slice(decoders, start, count, (int[])startValues.Clone());
                     var (g, first, fileRow) = (group, start, groupStart + start);
-                    yield return new SampleBatch(buffers, count)
+                    yield return new SampleBatch(buffers, count, slice)
                     {
-                        Locate = (row, column) => Origin(g, first + row, fileRow + row, decoders[column], buffers[column][row]),
+                        Locate = (row, column) => Origin(g, first + row, fileRow + row, decoders[column]),
                     };
+                    for (var c = 0; c < decoders.Length; c++) startValues[c] += decoders[c].Present(start, count);
                 }
                 groupStart += rows;
             }
@@ -141,10 +146,19 @@ internal sealed class ParquetSampleReader : ISampleReader
         }
     }
 
-    private CellOrigin Origin(int group, int rowInGroup, long fileRow, ParquetColumnDecoder decoder, double value) =>
+    private CellOrigin Origin(int group, int rowInGroup, long fileRow, ParquetColumnDecoder decoder) =>
         new(new SourceLocation(Path),
             $"row {fileRow + 1} (row {rowInGroup + 1} of row group {group + 1})",
-            decoder.IsNull(rowInGroup) ? "a null (a missing value)" : InvariantNumber.Short(value));
+            decoder.IsNull(rowInGroup) ? "a null (a missing value)" : InvariantNumber.Short(decoder.ValueAt(rowInGroup)));
+
+    /// <summary>One slice of the row group last decoded: its columns, converted when asked for.</summary>
+    private sealed class Slice(ParquetColumnDecoder[] decoders, int startRow, int rows, int[] startValues) : IStoredBatchColumns
+    {
+        public void Convert(int column, Span<double> destination) =>
+            decoders[column].Convert(startRow, startValues[column], destination[..rows]);
+
+        public ReadOnlySpan<float> Float32(int column) => decoders[column].Float32(startRow, rows);
+    }
 
     // Kept out of the iterator: C# forbids catch blocks around yield.
     private void DecodeRowGroup(int group, int rows, ParquetColumnDecoder[] decoders, ParquetReader?[] libraryReaders, PlainChunkReader[] plainReaders, SafeFileHandle file)

@@ -77,6 +77,18 @@ internal sealed class PlainChunkReader
                 throw new InvalidDataException(
                     $"page {pageNumber - 1} is stored uncompressed but its header gives {header.CompressedSize} bytes stored and {header.UncompressedSize} uncompressed");
 
+            var size = Marshal.SizeOf<T>();
+            if (header.Type == ParquetPageHeader.DataPage && maxDefinitionLevel == 0 && metadata.Codec != CompressionCodec.UNCOMPRESSED
+                && (long)header.Values * size == header.UncompressedSize)
+            {
+                // A compressed page of a column without nulls holds nothing but its values: decompressed straight
+                // into them, without a copy through the page buffer.
+                DecompressInto(metadata.Codec, dataOffset, header.CompressedSize, MemoryMarshal.AsBytes(values.Slice(dense, header.Values)));
+                dense += header.Values;
+                decoded += header.Values;
+                continue;
+            }
+
             ReadOnlySpan<byte> levelBytes, valueBytes;
             if (header.Type == ParquetPageHeader.DataPage)
             {
@@ -119,7 +131,6 @@ internal sealed class PlainChunkReader
                 }
             }
             // PLAIN fixed-width values fill their page exactly: more bytes than the values need are as wrong as fewer.
-            var size = Marshal.SizeOf<T>();
             if ((long)present * size != valueBytes.Length)
                 throw new InvalidDataException($"page {pageNumber - 1} holds {valueBytes.Length} bytes of values where its header's {present} values take {(long)present * size}");
             MemoryMarshal.Cast<byte, T>(valueBytes[..(present * size)]).CopyTo(values.Slice(dense, present));
@@ -193,14 +204,21 @@ internal sealed class PlainChunkReader
         if (uncompressed < 0 || uncompressed > Array.MaxLength) throw new InvalidDataException($"a page claims {uncompressed} bytes uncompressed");
         if (_page.Length < uncompressed) _page = new byte[uncompressed];
         var target = _page.AsSpan(0, uncompressed);
+        DecompressInto(codec, offset, length, target);
+        return target;
+    }
+
+    // Decompresses a page's bytes from the chunk buffer into target, which they must fill exactly.
+    private void DecompressInto(CompressionCodec codec, int offset, int length, Span<byte> target)
+    {
+        var source = _chunk.AsSpan(offset, length);
         var written = codec switch
         {
             CompressionCodec.SNAPPY => Snappier.Snappy.Decompress(source, target),
             CompressionCodec.ZSTD => (_zstd ??= new ZstdSharp.Decompressor()).Unwrap(source, target),
             _ => Gunzip(offset, length, target),
         };
-        if (written != uncompressed) throw new InvalidDataException($"a page decompressed to {written} bytes, not {uncompressed}");
-        return target;
+        if (written != target.Length) throw new InvalidDataException($"a page decompressed to {written} bytes, not {target.Length}");
     }
 
     private int Gunzip(int offset, int length, Span<byte> target)
