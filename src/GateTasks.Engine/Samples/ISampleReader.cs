@@ -31,4 +31,11 @@ internal interface ISampleReader : IDisposable
     /// threads may decode (Parquet decodes a row group's columns side by side); the batches do not depend on it.
     /// </summary>
     IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns, int parallelism = 1);
+
+    /// <summary>
+    /// As <see cref="ReadBatches(IReadOnlyList{string}, int)"/>, offering each float32 column's slices to
+    /// <paramref name="onDecoded"/> as soon as they are decoded; a reader that decodes no such columns ignores it.
+    /// </summary>
+    IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns, int parallelism, DecodedFloat32Slice? onDecoded) =>
+        ReadBatches(columns, parallelism);
 }

@@ -12,4 +12,7 @@ internal interface IStoredBatchColumns
 
     /// <summary>Column <paramref name="column"/>'s values of the batch where it is stored as float32 without a null; else empty.</summary>
     ReadOnlySpan<float> Float32(int column);
+
+    /// <summary>Whether column <paramref name="column"/>'s values of the batch were taken as they were decoded (<see cref="DecodedFloat32Slice"/>).</summary>
+    bool TakenOnDecoding(int column) => false;
 }

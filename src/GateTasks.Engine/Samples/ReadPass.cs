@@ -8,6 +8,9 @@ namespace GateTasks.Engine.Samples;
 /// </summary>
 internal sealed record ReadPass(string Phase, IProgress<ReadProgress>? Progress = null, int? Threads = null)
 {
+    /// <summary>Offered float32 columns as they are decoded (<see cref="DecodedFloat32Slice"/>); null: not offered.</summary>
+    public DecodedFloat32Slice? OnDecoded { get; init; }
+
     /// <summary>A silent pass on every core.</summary>
     public static readonly ReadPass Default = new("reading the sample");
 

@@ -57,6 +57,9 @@ internal sealed class SampleBatch
     /// </summary>
     public ReadOnlySpan<float> Float32Column(int index) => _stored is null ? ReadOnlySpan<float>.Empty : _stored.Float32(index);
 
+    /// <summary>Whether the <paramref name="index"/>-th column's values were already taken as they were decoded (<see cref="DecodedFloat32Slice"/>).</summary>
+    public bool TakenOnDecoding(int index) => _stored is not null && _stored.TakenOnDecoding(index);
+
     /// <summary>Makes sure the column's buffer holds this batch's values; safe to call from several threads.</summary>
     public void Convert(int index)
     {

@@ -52,6 +52,7 @@ internal sealed class SampleStream
     // Per feature: the batch column it reads straight (no expression, selection or condition), converted to doubles
     // only when first read as doubles; -1 for a feature whose values are ready before the visits.
     private readonly int[] _deferredColumn;
+    private int[] _earlyFeature = [];
     private SampleBatch? _batch;
     private double[] _weights = [];
     private double[] _mask = [];
@@ -106,7 +107,11 @@ internal sealed class SampleStream
         IReadOnlyList<Action<FeatureView>>? batchVisits = null, ReadPass? settings = null, FeatureBatchFloat32? visitFloat32 = null)
     {
         var pass = new SampleStream(sample, inputs, weightColumn, settings ?? ReadPass.Default);
-        foreach (var batch in sample.ReadBatches(pass.Columns, pass._pass))
+        pass._earlyFeature = pass.EarlyFeatures(visitFloat32 is not null);
+        var readPass = pass._pass;
+        if (visitFloat32 is not null && pass._earlyFeature.Any(f => f >= 0))
+            readPass = readPass with { OnDecoded = (column, values) => pass._earlyFeature[column] is var i and >= 0 && visitFloat32(i, values) };
+        foreach (var batch in sample.ReadBatches(pass.Columns, readPass))
         {
             var rows = batch.RowCount;
             pass.Reserve(rows);
@@ -120,6 +125,25 @@ internal sealed class SampleStream
         if (weightColumn is not null)
             SampleWeights.RequireRepresentableSquares(pass._largestWeight, weightColumn, sample.Files, new SourceLocation(sample.Files[0]));
         return new SampleTotals(pass._events, pass._sumW, pass._sumW2);
+    }
+
+    // Per column: the one feature that reads it straight (no expression, selection, condition or weights), whose
+    // float32 values may be taken as the column is decoded; -1 for a column read otherwise or by several features.
+    private int[] EarlyFeatures(bool floatVisits)
+    {
+        var early = Enumerable.Repeat(-1, Columns.Count).ToArray();
+        if (!floatVisits || _weightIndex >= 0 || _inputs.Selection is not null) return early;
+        var readers = new int[Columns.Count];
+        for (var i = 0; i < _n; i++)
+        {
+            if (_inputs.FeatureColumns[i] is not { } column) continue;
+            var c = _index[column];
+            readers[c]++;
+            if (_inputs.Expressions[i] is null && _sameExpression[i] < 0 && _inputs.Conditions[i] is null) early[c] = i;
+        }
+        for (var c = 0; c < early.Length; c++)
+            if (readers[c] != 1) early[c] = -1;
+        return early;
     }
 
     // Buffers grow to the largest batch, then are reused. Only what is used: a derived buffer per expression, a selected
@@ -274,6 +298,9 @@ internal sealed class SampleStream
                 return;
             }
             var i = job - b;
+            // Taken as its column was decoded (DecodedFloat32Slice).
+            if (_deferredColumn[i] >= 0 && _earlyFeature[_deferredColumn[i]] == i && _batch!.TakenOnDecoding(_deferredColumn[i]))
+                return;
             // A float32 column read straight, with unit weights, is offered as stored: no conversion to doubles.
             if (visitFloat32 is not null && _deferredColumn[i] >= 0 && _weightIndex < 0
                 && _batch!.Float32Column(_deferredColumn[i]) is { IsEmpty: false } stored && visitFloat32(i, stored))

@@ -89,12 +89,16 @@ internal sealed class ParquetSampleReader : ISampleReader
     }
 
     /// <inheritdoc />
-    public IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns, int parallelism = 1)
+    public IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns, int parallelism = 1) =>
+        ReadBatches(columns, parallelism, null);
+
+    /// <inheritdoc />
+    public IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns, int parallelism, DecodedFloat32Slice? onDecoded)
     {
         // Validate before the iterator starts, so a bad name fails at the call, not at the first MoveNext.
         var indices = SampleColumnLookup.IndicesOf(Path, Columns, columns);
         var rowGroupSizes = RowGroupSizes();
-        return Batches(indices, rowGroupSizes, Math.Max(1, parallelism));
+        return Batches(indices, rowGroupSizes, Math.Max(1, parallelism), onDecoded);
     }
 
     /// <inheritdoc />
@@ -103,7 +107,7 @@ internal sealed class ParquetSampleReader : ISampleReader
         // Each read opens its own file handle and closes it when enumeration ends; nothing is held between reads.
     }
 
-    private IEnumerable<SampleBatch> Batches(int[] indices, int[] rowGroupSizes, int parallelism)
+    private IEnumerable<SampleBatch> Batches(int[] indices, int[] rowGroupSizes, int parallelism, DecodedFloat32Slice? onDecoded)
     {
         var largest = rowGroupSizes.Length == 0 ? 0 : Math.Min(rowGroupSizes.Max(), SliceRows);
         var decoders = indices.Select(i => ParquetColumnDecoder.Create(_fields[i]!, Columns[i].Type)).ToArray();
@@ -122,14 +126,17 @@ internal sealed class ParquetSampleReader : ISampleReader
             {
                 var rows = rowGroupSizes[group];
                 if (rows == 0) continue; // an empty row group carries no events; a batch of none would only confuse counts
-                DecodeRowGroup(group, rows, decoders, libraryReaders, plainReaders, file);
+                // Per slice and column: taken as decoded (only float32 columns without nulls are offered).
+                var taken = new bool[(rows + SliceRows - 1) / SliceRows][];
+                for (var s = 0; s < taken.Length; s++) taken[s] = new bool[decoders.Length];
+                DecodeRowGroup(group, rows, decoders, libraryReaders, plainReaders, file, onDecoded, taken);
                 var startValues = new int[decoders.Length]; // per column: the values (non-null rows) before the slice
                 for (var start = 0; start < rows; start += SliceRows)
                 {
                     var count = Math.Min(SliceRows, rows - start);
                     // Columns are converted to doubles when first read, on the thread that reads them (or never, for
                     // a float32 column read as floats): the slice only says where its rows start.
-                    var slice = new Slice(decoders, start, count, (int[])startValues.Clone());
+                    var slice = new Slice(decoders, start, count, (int[])startValues.Clone(), taken[start / SliceRows]);
                     var (g, first, fileRow) = (group, start, groupStart + start);
                     yield return new SampleBatch(buffers, count, slice)
                     {
@@ -152,20 +159,25 @@ internal sealed class ParquetSampleReader : ISampleReader
             decoder.IsNull(rowInGroup) ? "a null (a missing value)" : InvariantNumber.Short(decoder.ValueAt(rowInGroup)));
 
     /// <summary>One slice of the row group last decoded: its columns, converted when asked for.</summary>
-    private sealed class Slice(ParquetColumnDecoder[] decoders, int startRow, int rows, int[] startValues) : IStoredBatchColumns
+    private sealed class Slice(ParquetColumnDecoder[] decoders, int startRow, int rows, int[] startValues, bool[] taken) : IStoredBatchColumns
     {
         public void Convert(int column, Span<double> destination) =>
             decoders[column].Convert(startRow, startValues[column], destination[..rows]);
 
         public ReadOnlySpan<float> Float32(int column) => decoders[column].Float32(startRow, rows);
+
+        public bool TakenOnDecoding(int column) => taken[column];
     }
 
     // Kept out of the iterator: C# forbids catch blocks around yield.
-    private void DecodeRowGroup(int group, int rows, ParquetColumnDecoder[] decoders, ParquetReader?[] libraryReaders, PlainChunkReader[] plainReaders, SafeFileHandle file)
+    private void DecodeRowGroup(int group, int rows, ParquetColumnDecoder[] decoders, ParquetReader?[] libraryReaders, PlainChunkReader[] plainReaders, SafeFileHandle file,
+        DecodedFloat32Slice? onDecoded, bool[][] taken)
     {
         // Each column lands in its own decoder's buffers, so decoding them side by side changes nothing but the time;
-        // a failure is reported for the first failing column, as a sequential read would.
+        // a failure is reported for the first failing column, as a sequential read would. A decoded float32 column is
+        // offered slice by slice on the same thread at once, while it is still in cache.
         var failures = new Exception?[decoders.Length];
+        var offerFailures = new Exception?[decoders.Length];
         var next = -1;
         var rowGroup = _metadata.RowGroups![group];
         void Work(int worker)
@@ -183,6 +195,22 @@ internal sealed class ParquetSampleReader : ISampleReader
                     catch (Exception ex)
                     {
                         failures[c] = ex;
+                        continue;
+                    }
+                    if (onDecoded is null) continue;
+                    try
+                    {
+                        for (var s = 0; s < taken.Length; s++)
+                        {
+                            var start = s * SliceRows;
+                            var values = decoders[c].Float32(start, Math.Min(SliceRows, rows - start));
+                            if (values.IsEmpty) break; // not float32, or with nulls: read through the batch
+                            taken[s][c] = onDecoded(c, values);
+                        }
+                    }
+                    catch (Exception ex)
+                    {
+                        offerFailures[c] = ex;
                     }
                 }
             }
@@ -195,7 +223,13 @@ internal sealed class ParquetSampleReader : ISampleReader
         else Parallel.For(0, libraryReaders.Length, new ParallelOptions { MaxDegreeOfParallelism = libraryReaders.Length }, Work);
 
         var failed = Array.FindIndex(failures, f => f is not null);
-        if (failed < 0) return;
+        if (failed < 0)
+        {
+            // Not the file's fault: what the values were handed to failed, and says so itself.
+            if (Array.Find(offerFailures, f => f is not null) is { } offerFailure)
+                System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(offerFailure);
+            return;
+        }
         var failure = failures[failed]!;
         if (failure is GateInputException) System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(failure);
         if (failure is NotSupportedException)
