@@ -8,7 +8,7 @@ namespace GateTasks.Benchmarks.Harness;
 
 /// <summary>
 /// The engine's histogramming alone, in-process and after start-up: streams the sample through the engine's reader
-/// (row group by row group, columns decoded side by side, as a check does) and fills one histogram per feature with
+/// (row group by row group, columns decoded side by side and each float32 column filled by the thread that decoded it, as a check does) and fills one histogram per feature with
 /// the reference's axes, features side by side on the sample's threads (the machine's cores). The
 /// time covers Parquet decoding and filling, the same work the independent engines are timed on; the cells are
 /// written out so the script can compare them.
@@ -24,12 +24,15 @@ internal static class TimedFill
         var histograms = reference.Features.Select(f => new Histogram(f.Histogram.Axis)).ToArray();
         var sample = Sample.Open([samplePath]);
         long events = 0;
-        foreach (var batch in sample.ReadBatches(columns))
+        // As a check fills them: a float32 column on the thread that decoded it, as soon as it is decoded.
+        var pass = ReadPass.Default with { OnDecoded = (c, values) => { histograms[c].Fill(values); return true; } };
+        foreach (var batch in sample.ReadBatches(columns, pass))
         {
-            // As a check fills them: the features of a batch side by side on the sample's threads.
+            // The rest as a check fills them: the features of a batch side by side on the sample's threads.
             Parallel.For(0, histograms.Length, new ParallelOptions { MaxDegreeOfParallelism = ReadPass.Default.Parallelism },
                 c =>
                 {
+                    if (batch.TakenOnDecoding(c)) return;
                     // Float32 columns as the check fills them: as stored, without converting them to doubles.
                     var stored = batch.Float32Column(c);
                     if (stored.IsEmpty) histograms[c].Fill(batch.Column(c), ReadOnlySpan<double>.Empty);
