@@ -1,5 +1,6 @@
 using GateTasks.Engine.Contracts;
 using GateTasks.Engine.Histograms;
+using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Accumulation;
 
@@ -38,6 +39,24 @@ internal sealed class PairAccumulation
     public void Add(Samples.FeatureView view)
     {
         foreach (var column in _columns) column.Prepare(view);
-        foreach (var pair in Pairs) pair.AddPrepared(view);
+        // Pairs of unit weight without NaN leave their values' and ranks' co-moments to the lanes, four at a time.
+        var lanes = new List<(WeightedCorrelation Target, PairColumn First, PairColumn Second, bool Ranks)>();
+        foreach (var pair in Pairs)
+            if (pair.AddPrepared(view, PairMomentLanes.Supported))
+            {
+                lanes.Add((pair.PearsonMoments, pair.First, pair.Second, false));
+                lanes.Add((pair.SpearmanMoments, pair.First, pair.Second, true));
+            }
+        ReadOnlySpan<double> Of(PairColumn column, bool ranks) => ranks ? column.Ranks : view.Feature(column.Feature);
+        var width = PairMomentLanes.Width;
+        for (var k = 0; k < lanes.Count; k += width)
+        {
+            var n = Math.Min(width, lanes.Count - k);
+            // Lanes past the last pair repeat the group's first (not read).
+            var l = Enumerable.Range(k, width).Select(j => lanes[j < k + n ? j : k]).ToArray();
+            PairMomentLanes.Add(l.Take(n).Select(g => g.Target).ToArray(),
+                Of(l[0].First, l[0].Ranks), Of(l[0].Second, l[0].Ranks), Of(l[1].First, l[1].Ranks), Of(l[1].Second, l[1].Ranks),
+                Of(l[2].First, l[2].Ranks), Of(l[2].Second, l[2].Ranks), Of(l[3].First, l[3].Ranks), Of(l[3].Second, l[3].Ranks));
+        }
     }
 }

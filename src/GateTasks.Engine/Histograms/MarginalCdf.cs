@@ -54,4 +54,24 @@ internal sealed class MarginalCdf
         var f = (x - _edges[b]) / (_edges[b + 1] - _edges[b]);
         return _below[b] + f * (_below[b + 1] - _below[b]);
     }
+
+    /// <summary>
+    /// <see cref="Rank"/> of a batch: each value's rank from its storage cell, NaN where the cell is
+    /// <paramref name="nanCell"/>; whether any was. Compiled optimised from the first call, as it runs for every value.
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public bool Ranks(ReadOnlySpan<double> values, ReadOnlySpan<int> cells, Span<double> ranks, int nanCell)
+    {
+        var nan = false;
+        for (var r = 0; r < values.Length; r++)
+        {
+            if (cells[r] == nanCell)
+            {
+                nan = true;
+                ranks[r] = double.NaN;
+            }
+            else ranks[r] = Rank(values[r], cells[r]);
+        }
+        return nan;
+    }
 }
