@@ -235,13 +235,7 @@ internal sealed class SampleStream
                     continue;
                 }
                 if (_ownIndex[i] is not { } index || index.Length < rows) _ownIndex[i] = index = new int[_mask.Length];
-                var n = 0;
-                for (var r = 0; r < rows; r++)
-                {
-                    index[n] = r;
-                    n += Passes(own[r]) ? 1 : 0;
-                }
-                _ownRows[i] = n;
+                _ownRows[i] = PassingRows(own.AsSpan(0, rows), index);
                 continue;
             }
             var k = 0;
@@ -348,6 +342,24 @@ internal sealed class SampleStream
             for (var k = 0; k < index.Length; k++) weights[k] = _weights[index[k]];
         }
         return false;
+    }
+
+    // The rows whose condition holds (non-zero, not NaN), in order, into index; how many. Without a branch on the
+    // condition: every row is written, the count moves on only past those that hold (a category's rows are scattered,
+    // so a branch would be mispredicted at about every other row).
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    private static int PassingRows(ReadOnlySpan<double> condition, int[] index)
+    {
+        if (index.Length < condition.Length) throw new ArgumentException("The index is shorter than the rows.", nameof(index));
+        var n = 0;
+        for (var r = 0; r < condition.Length; r++)
+        {
+            var c = condition[r];
+            index[n] = r;
+            var holds = (c != 0) & !double.IsNaN(c);
+            n += System.Runtime.CompilerServices.Unsafe.As<bool, byte>(ref holds);
+        }
+        return n;
     }
 
     /// <summary>A condition holds when it is non-zero and not NaN.</summary>
