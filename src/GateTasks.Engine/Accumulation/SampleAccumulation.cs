@@ -83,7 +83,7 @@ internal sealed class SampleAccumulation
             _stats[i].Add(values, weights);
             _farTail[i]?.Add(values, weights);
             _fine[i]?.Add(values, weights);
-        }), BatchVisits(), pass, (i, values) =>
+        }), BatchVisits(pass.Parallelism), pass, (i, values) =>
         {
             // Float32 values with unit weights, for a feature with no counter that needs doubles: the same fill and
             // moments, without converting the values.
@@ -100,7 +100,7 @@ internal sealed class SampleAccumulation
     }
 
     // Each visitor keeps to its own state, so the stream may run them beside each other and beside the features.
-    private List<Action<FeatureView>> BatchVisits()
+    private List<Action<FeatureView>> BatchVisits(int parallelism)
     {
         var visits = new List<Action<FeatureView>>();
         if (_jointMoments is { } joint) visits.Add(joint.Add);
@@ -109,7 +109,7 @@ internal sealed class SampleAccumulation
         {
             foreach (var w in view.Weights)
                 if (w < 0) NegativeWeightEvents++;
-            _pairSet.Add(view);
+            _pairSet.Add(view, parallelism);
         });
         return visits;
     }
