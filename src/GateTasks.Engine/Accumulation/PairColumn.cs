@@ -39,20 +39,7 @@ internal sealed class PairColumn(int feature, MarginalCdf cdf)
         if (_cells.Length < x.Length) (_cells, _ranks) = (new int[x.Length], new double[x.Length]);
         var cells = _cells.AsSpan(0, x.Length);
         Axis.Cells(x, cells, NanCell);
-        var ranks = _ranks.AsSpan(0, x.Length);
-        var nan = false;
-        for (var r = 0; r < x.Length; r++)
-        {
-            if (cells[r] == NanCell)
-            {
-                nan = true;
-                ranks[r] = double.NaN;
-            }
-            else
-            {
-                ranks[r] = cdf.Rank(x[r], cells[r]);
-            }
-        }
+        var nan = cdf.Ranks(x, cells, _ranks.AsSpan(0, x.Length), NanCell);
         HasNaN = nan;
     }
 }

@@ -62,7 +62,15 @@ internal sealed class PairCorrelation
     }
 
     /// <summary>Adds a batch whose columns are prepared.</summary>
-    internal void AddPrepared(Samples.FeatureView view)
+    internal void AddPrepared(Samples.FeatureView view) => AddPrepared(view, false);
+
+    /// <summary>
+    /// Adds a batch whose columns are prepared; with <paramref name="leaveLaneMoments"/>, a batch of unit weights
+    /// without NaN in either column gets its cells only, and true is returned: its coefficients' moments are then the
+    /// caller's to add (<see cref="PairMomentLanes"/>, from the columns as they are, into <see cref="PearsonMoments"/>
+    /// and <see cref="SpearmanMoments"/>).
+    /// </summary>
+    internal bool AddPrepared(Samples.FeatureView view, bool leaveLaneMoments)
     {
         ReadOnlySpan<double> x = view.Feature(_first.Feature), y = view.Feature(_second.Feature), u = _first.Ranks, v = _second.Ranks;
         ReadOnlySpan<int> cx = _first.Cells, cy = _second.Cells;
@@ -94,10 +102,24 @@ internal sealed class PairCorrelation
             if (_firstToJoint is not null && _secondToJoint is not null) Joint.FillCells(cx, cy, _firstToJoint, _secondToJoint, ws);
             else Joint.Fill(x, y, ws);
         }
+        if (Joint is not null) Joint.MoveCellsInto(_cells!);
+        if (leaveLaneMoments && ws.IsEmpty && !_first.HasNaN && !_second.HasNaN) return true;
         _pearson.AddBatch(x, y, ws);
         _spearman.AddBatch(u, v, ws);
-        if (Joint is not null) Joint.MoveCellsInto(_cells!);
+        return false;
     }
+
+    /// <summary>The first column, for the moments a caller adds (<see cref="AddPrepared(Samples.FeatureView, bool)"/>).</summary>
+    internal PairColumn First => _first;
+
+    /// <summary>The second column.</summary>
+    internal PairColumn Second => _second;
+
+    /// <summary>The values' co-moments (Pearson's r).</summary>
+    internal WeightedCorrelation PearsonMoments => _pearson;
+
+    /// <summary>The ranks' co-moments (Spearman's ρ).</summary>
+    internal WeightedCorrelation SpearmanMoments => _spearman;
 
     /// <summary>The pair's state as plain numbers.</summary>
     public PairState State() => new(Spec.Name, _pearson.State(), _spearman.State(), _cells?.State());

@@ -83,14 +83,15 @@ internal sealed class SampleAccumulation
             _stats[i].Add(values, weights);
             _farTail[i]?.Add(values, weights);
             _fine[i]?.Add(values, weights);
-        }), BatchVisits(), pass, (i, values) =>
+        }), BatchVisits(pass.Parallelism), pass, (i, values) =>
         {
             // Float32 values with unit weights, for a feature with no counter that needs doubles: the same fill and
             // moments, without converting the values.
-            if (_spikes.Filters[i] is not null || _farTail[i] is not null || _fine[i] is not null) return false;
+            if (_spikes.Filters[i] is not null || _fine[i] is not null) return false;
             _batch[i].Fill(values);
             _histograms[i].Absorb(_batch[i]);
             _stats[i].Add(values);
+            _farTail[i]?.Add(values);
             return true;
         });
         Events += totals.Events;
@@ -99,7 +100,7 @@ internal sealed class SampleAccumulation
     }
 
     // Each visitor keeps to its own state, so the stream may run them beside each other and beside the features.
-    private List<Action<FeatureView>> BatchVisits()
+    private List<Action<FeatureView>> BatchVisits(int parallelism)
     {
         var visits = new List<Action<FeatureView>>();
         if (_jointMoments is { } joint) visits.Add(joint.Add);
@@ -108,7 +109,7 @@ internal sealed class SampleAccumulation
         {
             foreach (var w in view.Weights)
                 if (w < 0) NegativeWeightEvents++;
-            _pairSet.Add(view);
+            _pairSet.Add(view, parallelism);
         });
         return visits;
     }

@@ -48,11 +48,29 @@ internal sealed class Histogram2D
     /// Adds a block of pairs whose cells on finer axes are known: <paramref name="rowOf"/> and <paramref name="columnOf"/>
     /// map those storage cells to this histogram's (each finer cell lying in one of these), so no value is searched again.
     /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public void FillCells(ReadOnlySpan<int> rows, ReadOnlySpan<int> columns, int[] rowOf, int[] columnOf, ReadOnlySpan<double> w)
     {
         var stride = Y.Count + 2;
-        for (var r = 0; r < rows.Length; r++) _storage.Add(rowOf[rows[r]] * stride + columnOf[columns[r]], w.IsEmpty ? 1.0 : w[r]);
+        if (w.IsEmpty)
+        {
+            // Unit weights: a cell's Σw and Σw² grow by its count of ones, an integer a double holds exactly, so the
+            // block is counted in integers and each cell's count added once (the same sums as one by one).
+            if (_counts.Length < CellCount) _counts = new int[CellCount];
+            var counts = _counts;
+            for (var r = 0; r < rows.Length; r++) counts[rowOf[rows[r]] * stride + columnOf[columns[r]]]++;
+            for (var c = 0; c < CellCount; c++)
+                if (counts[c] != 0)
+                {
+                    _storage.AddCount(c, counts[c]);
+                    counts[c] = 0;
+                }
+            return;
+        }
+        for (var r = 0; r < rows.Length; r++) _storage.Add(rowOf[rows[r]] * stride + columnOf[columns[r]], w[r]);
     }
+
+    private int[] _counts = [];
 
     public void Fill(double x, double y, double w = 1.0)
     {

@@ -46,12 +46,36 @@ internal sealed class MarginalCdf
     /// bins from 1, the last the overflow): the same number to the bit, without a search. The axis puts a value at an
     /// edge into the bin above, as the search does, and a value at a lower edge interpolates to that edge's CDF exactly.
     /// </summary>
-    public double Rank(double x, int cell)
+    public double Rank(double x, int cell) => RankOf(x, cell, _edges, _below, _under);
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    private static double RankOf(double x, int cell, double[] edges, double[] below, double under)
     {
-        if (cell == 0) return _under / 2;
-        if (cell == _edges.Length) return (_below[^1] + 1) / 2;
+        if (cell == 0) return under / 2;
+        if (cell == edges.Length) return (below[^1] + 1) / 2;
         var b = cell - 1;
-        var f = (x - _edges[b]) / (_edges[b + 1] - _edges[b]);
-        return _below[b] + f * (_below[b + 1] - _below[b]);
+        var f = (x - edges[b]) / (edges[b + 1] - edges[b]);
+        return below[b] + f * (below[b + 1] - below[b]);
+    }
+
+    /// <summary>
+    /// <see cref="Rank"/> of a batch: each value's rank from its storage cell, NaN where the cell is
+    /// <paramref name="nanCell"/>; whether any was. Compiled optimised from the first call, as it runs for every value.
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public bool Ranks(ReadOnlySpan<double> values, ReadOnlySpan<int> cells, Span<double> ranks, int nanCell)
+    {
+        var nan = false;
+        var (edges, below, under) = (_edges, _below, _under);
+        for (var r = 0; r < values.Length; r++)
+        {
+            if (cells[r] == nanCell)
+            {
+                nan = true;
+                ranks[r] = double.NaN;
+            }
+            else ranks[r] = RankOf(values[r], cells[r], edges, below, under);
+        }
+        return nan;
     }
 }

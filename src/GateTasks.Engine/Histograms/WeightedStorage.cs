@@ -35,6 +35,13 @@ internal sealed class WeightedStorage
         _sumW2[cell] += weight * weight;
     }
 
+    /// <summary>Adds <paramref name="count"/> unit weights to a cell at once (Σw and Σw² each grow by the count).</summary>
+    public void AddCount(int cell, int count)
+    {
+        _sumW[cell] += count;
+        _sumW2[cell] += count;
+    }
+
     /// <summary>Adds another storage of the same shape cell by cell.</summary>
     public void Add(WeightedStorage other)
     {

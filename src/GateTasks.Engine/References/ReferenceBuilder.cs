@@ -160,7 +160,7 @@ internal static class ReferenceBuilder
             {
                 farTail[i]?.Add(values, weights);
                 fine[i]?.Add(values, weights);
-            }), BatchVisits(pairs.Count == 0 ? null : pairSet.Add,
+            }), BatchVisits(pairs.Count == 0 ? null : view => pairSet.Add(view),
                 slicedCounter is null ? null : view => slicedCounter.Add(view, jointIndex!)),
                 pass.For("reference pass 3 (correlations, far tails, fine grids, sliced histograms)"));
             foreach (var p in pairs.Select(p => p.Finish()))

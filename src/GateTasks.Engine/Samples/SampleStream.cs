@@ -46,6 +46,13 @@ internal sealed class SampleStream
     private readonly double[]?[] _ownValues;
     private readonly double[]?[] _ownWeights;
     private readonly int[] _ownRows;
+    // Without a selection, a category's rows are found once per condition (the rows that pass it, in order) and each
+    // feature gathers its own values from them in its own visit, side by side with the others, from the stored floats
+    // where it can; per feature: those rows (shared with the earlier feature of the same condition), the batch column
+    // it reads straight or -1, and its gathered floats.
+    private readonly int[]?[] _ownIndex;
+    private readonly int[] _ownColumn;
+    private readonly float[]?[] _ownFloats;
     // Per feature: an earlier feature whose expression (condition) has the same text, whose values (mask) this batch it
     // takes rather than evaluating them again, or -1 (a category block repeats its expression for every feature).
     private readonly int[] _sameExpression, _sameCondition;
@@ -84,6 +91,9 @@ internal sealed class SampleStream
         _ownValues = new double[]?[_n];
         _ownWeights = new double[]?[_n];
         _ownRows = new int[_n];
+        _ownIndex = new int[]?[_n];
+        _ownColumn = new int[_n];
+        _ownFloats = new float[]?[_n];
         _sameExpression = EarlierWithSameText(inputs.Expressions);
         _sameCondition = EarlierWithSameText(inputs.Conditions);
         _deferredColumn = new int[_n];
@@ -190,6 +200,7 @@ internal sealed class SampleStream
         for (var i = 0; i < _n; i++)
         {
             _deferredColumn[i] = -1;
+            _ownColumn[i] = -1;
             if (_sameExpression[i] >= 0) _view[i] = _derived[_sameExpression[i]];
             else if (_inputs.Expressions[i] is { } e)
             {
@@ -197,6 +208,12 @@ internal sealed class SampleStream
                 for (var a = 0; a < args.Length; a++) args[a] = batch.ColumnBuffer(_index[e.Columns[a]]);
                 e.Evaluate(args, rows, _derived[i].AsSpan(0, rows));
                 _view[i] = _derived[i];
+            }
+            else if (_inputs.Selection is null && _inputs.Conditions[i] is not null)
+            {
+                // A category's values, gathered in its visit: converted there if read as doubles at all.
+                _deferredColumn[i] = _ownColumn[i] = _index[_inputs.FeatureColumns[i]!];
+                _view[i] = batch.DeferredBuffer(_deferredColumn[i]);
             }
             else if (_inputs.Selection is null && _inputs.Conditions[i] is null)
             {
@@ -232,6 +249,18 @@ internal sealed class SampleStream
             {
                 var conditionArgs = condition.Columns.Select(c => batch.ColumnBuffer(_index[c])).ToArray();
                 condition.Evaluate(conditionArgs, rows, own.AsSpan(0, rows));
+            }
+            if (_inputs.Selection is null)
+            {
+                // The rows only, once per condition; the values are gathered in the feature's visit (GatherOwn).
+                if (_sameCondition[i] >= 0)
+                {
+                    _ownRows[i] = _ownRows[_sameCondition[i]];
+                    continue;
+                }
+                if (_ownIndex[i] is not { } index || index.Length < rows) _ownIndex[i] = index = new int[_mask.Length];
+                _ownRows[i] = PassingRows(own.AsSpan(0, rows), index);
+                continue;
             }
             var k = 0;
             for (var r = 0; r < rows; r++)
@@ -302,9 +331,10 @@ internal sealed class SampleStream
             if (_deferredColumn[i] >= 0 && _earlyFeature[_deferredColumn[i]] == i && _batch!.TakenOnDecoding(_deferredColumn[i]))
                 return;
             // A float32 column read straight, with unit weights, is offered as stored: no conversion to doubles.
-            if (visitFloat32 is not null && _deferredColumn[i] >= 0 && _weightIndex < 0
+            if (visitFloat32 is not null && _deferredColumn[i] >= 0 && _inputs.Conditions[i] is null && _weightIndex < 0
                 && _batch!.Float32Column(_deferredColumn[i]) is { IsEmpty: false } stored && visitFloat32(i, stored))
                 return;
+            if (_inputs.Conditions[i] is not null && _inputs.Selection is null && GatherOwn(i, visitFloat32)) return;
             var values = _inputs.Conditions[i] is null ? _frame.Feature(i) : _ownValues[i].AsSpan(0, _ownRows[i]);
             var featureWeights = _inputs.Conditions[i] is null ? _frame.Weights
                 : _weightIndex >= 0 ? _ownWeights[i].AsSpan(0, _ownRows[i]) : ReadOnlySpan<double>.Empty;
@@ -314,6 +344,49 @@ internal sealed class SampleStream
         if (jobs > 1 && _frame.Rows >= ParallelBatchRows && _pass.Parallelism > 1)
             Parallel.For(0, jobs, new ParallelOptions { MaxDegreeOfParallelism = _pass.Parallelism }, One);
         else for (var job = 0; job < jobs; job++) One(job);
+    }
+
+    // A category's values of this batch, in row order, from the rows its condition kept: as stored floats, offered to
+    // the float visitor, for a float32 column with unit weights (true when taken); else as doubles (and weights) into the
+    // buffers the double visit reads, as the compaction of a selection writes them.
+    private bool GatherOwn(int i, FeatureBatchFloat32? visitFloat32)
+    {
+        var root = _sameCondition[i] >= 0 ? _sameCondition[i] : i;
+        var index = _ownIndex[root].AsSpan(0, _ownRows[i]);
+        if (visitFloat32 is not null && _ownColumn[i] >= 0 && _weightIndex < 0
+            && _batch!.Float32Column(_ownColumn[i]) is { IsEmpty: false } stored)
+        {
+            if (_ownFloats[i] is not { } floats || floats.Length < index.Length) _ownFloats[i] = floats = new float[_mask.Length];
+            for (var k = 0; k < index.Length; k++) floats[k] = stored[index[k]];
+            if (visitFloat32(i, floats.AsSpan(0, index.Length))) return true;
+        }
+        var source = _frame.Feature(i); // converts a deferred column
+        var values = _ownValues[i]!;
+        for (var k = 0; k < index.Length; k++) values[k] = source[index[k]];
+        if (_weightIndex >= 0)
+        {
+            var weights = _ownWeights[i]!;
+            for (var k = 0; k < index.Length; k++) weights[k] = _weights[index[k]];
+        }
+        return false;
+    }
+
+    // The rows whose condition holds (non-zero, not NaN), in order, into index; how many. Without a branch on the
+    // condition: every row is written, the count moves on only past those that hold (a category's rows are scattered,
+    // so a branch would be mispredicted at about every other row).
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    private static int PassingRows(ReadOnlySpan<double> condition, int[] index)
+    {
+        if (index.Length < condition.Length) throw new ArgumentException("The index is shorter than the rows.", nameof(index));
+        var n = 0;
+        for (var r = 0; r < condition.Length; r++)
+        {
+            var c = condition[r];
+            index[n] = r;
+            var holds = (c != 0) & !double.IsNaN(c);
+            n += System.Runtime.CompilerServices.Unsafe.As<bool, byte>(ref holds);
+        }
+        return n;
     }
 
     /// <summary>A condition holds when it is non-zero and not NaN.</summary>

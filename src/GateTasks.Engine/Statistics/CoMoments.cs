@@ -119,10 +119,17 @@ internal sealed class CoMoments
                 m04 += w * dy2 * dy2;
             }
         }
+        AddCentral(sw, mx, my, [m20, m11, m02, m30, m21, m12, m03, m40, m31, m22, m13, m04]);
+    }
+
+    /// <summary>
+    /// Adds a batch given as its Σw, its means and its twelve central co-moments in the order of <see cref="Stored"/>
+    /// (M_20, M_11, M_02, M_30, …, M_04), as <see cref="AddBatch"/> finds them; Σw must not be zero.
+    /// </summary>
+    internal void AddCentral(double sw, double mx, double my, ReadOnlySpan<double> central)
+    {
         var batch = new double[Order * Order];
-        (batch[2 * Order + 0], batch[1 * Order + 1], batch[0 * Order + 2]) = (m20, m11, m02);
-        (batch[3 * Order + 0], batch[2 * Order + 1], batch[1 * Order + 2], batch[0 * Order + 3]) = (m30, m21, m12, m03);
-        (batch[4 * Order + 0], batch[3 * Order + 1], batch[2 * Order + 2], batch[1 * Order + 3], batch[0 * Order + 4]) = (m40, m31, m22, m13, m04);
+        for (var i = 0; i < Stored.Length; i++) batch[Stored[i].P * Order + Stored[i].Q] = central[i];
         batch[0] = sw;
         if (_m[0] == 0)
         {

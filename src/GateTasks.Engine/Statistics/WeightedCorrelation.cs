@@ -59,6 +59,17 @@ internal sealed class WeightedCorrelation
         if (negatives) _negative.AddBatch(x, y, weights, IsNegative);
     }
 
+    /// <summary>
+    /// Adds a batch of <paramref name="count"/> pairs of unit weight given as their means and twelve central co-moments
+    /// (<see cref="CoMoments.AddCentral"/>), found as <see cref="AddBatch"/> finds them: the same state to the bit.
+    /// </summary>
+    public void AddUnitCentral(int count, double meanX, double meanY, ReadOnlySpan<double> central)
+    {
+        Count += count;
+        _sumW2 += count;
+        if (count > 0) _positive.AddCentral(count, meanX, meanY, central);
+    }
+
     /// <summary>Adds another accumulation; agrees with one pass to rounding.</summary>
     public void Merge(WeightedCorrelation other)
     {

@@ -55,4 +55,35 @@ public class Float32AccumulationTests
         Assert.Equal(fromDoubles.SumW2.ToArray(), fromFloats.SumW2.ToArray());
         Assert.Equal((fromDoubles.Entries, fromDoubles.NanEntries), (fromFloats.Entries, fromFloats.NanEntries));
     }
+    [Theory]
+    [InlineData(-1.2345678901234567, 2.718281828459045)] // thresholds between two floats
+    [InlineData(-1.5, 2.25)] // thresholds that are floats
+    [InlineData(-1e300, 1e300)] // beyond the float range
+    [InlineData(3.0000001, -0.1)] // low above high: a value below both is counted below only
+    public void Far_tail_counts_of_float_values_are_those_of_the_same_values_as_doubles(double low, double high)
+    {
+        var rng = new Xoshiro256StarStar(17);
+        var values = new List<float>();
+        // Every float next to each threshold and to its float roundings, then random values, NaN and infinities.
+        foreach (var t in new[] { low, high })
+        {
+            var f = (float)t;
+            var x = MathF.BitDecrement(MathF.BitDecrement(f));
+            for (var k = 0; k < 5; k++, x = MathF.BitIncrement(x)) values.Add(x);
+        }
+        values.AddRange(Enumerable.Range(0, 1_000).Select(_ => (float)(8 * rng.NextDouble() - 4)));
+        values.AddRange([float.NaN, float.PositiveInfinity, float.NegativeInfinity, float.MaxValue, -float.MaxValue, float.NaN]);
+        var floats = values.ToArray();
+        var doubles = floats.Select(f => (double)f).ToArray();
+        var asFloats = new FarTailCounter(low, high);
+        var asDoubles = new FarTailCounter(low, high);
+        foreach (var length in new[] { floats.Length, 7, 0, floats.Length - 3 }) // lengths with and without a tail
+        {
+            asFloats.Add(floats.AsSpan(0, length));
+            asDoubles.Add(doubles.AsSpan(0, length), ReadOnlySpan<double>.Empty);
+        }
+        Assert.Equal(asDoubles.Counts, asFloats.Counts);
+        Assert.Equal(asDoubles.State().SelectMany(t => t), asFloats.State().SelectMany(t => t));
+        Assert.True(asDoubles.Counts.BelowW > 0 && asDoubles.Counts.AboveW > 0); // both tails are reached
+    }
 }

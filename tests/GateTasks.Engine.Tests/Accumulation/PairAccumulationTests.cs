@@ -99,6 +99,9 @@ public class PairAccumulationTests
             }
             Assert.Equal(p.Pearson, pair.Pearson);
             Assert.Equal(s.Pearson, pair.Spearman);
+            // Every co-moment to the bit (with unit weights, the pairs' moments are added four pairs at a time in SIMD lanes).
+            Assert.Equal(p.State(), pair.State().Pearson);
+            Assert.Equal(s.State(), pair.State().Spearman);
             Assert.Equal(p.EffectiveCount, pair.EffectiveCount);
             var finished = pair.Finish().Cells!;
             Assert.Equal(cells.SumW(), finished.SumW);
