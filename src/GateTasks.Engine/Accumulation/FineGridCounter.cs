@@ -14,6 +14,10 @@ internal sealed class FineGridCounter
 {
     private readonly Histogram _batch;
     private readonly ExactHistogram _cells;
+    // Unit-weight counts of float batches, kept across batches (a count is exact, so adding it to the exact cells once
+    // gives the bits of adding each batch's), and moved into _cells before anything reads them or a weighted batch comes.
+    private readonly long[] _unitCounts;
+    private long _unitEntries;
     // Below: Σw·d, Σw²·d²; above: Σw·d, Σw²·d² — summed per batch, then exactly.
     private readonly ExactSum[] _tails = Enumerable.Range(0, 4).Select(_ => new ExactSum()).ToArray();
 
@@ -22,6 +26,7 @@ internal sealed class FineGridCounter
         var axis = Axis.FromEdges(edges);
         _batch = new Histogram(axis);
         _cells = new ExactHistogram(axis);
+        _unitCounts = new long[axis.Count + 2];
     }
 
     /// <summary>
@@ -49,8 +54,95 @@ internal sealed class FineGridCounter
         AddFinite(values, weights);
     }
 
+    /// <summary>
+    /// Adds a batch of float32 values with unit weights: the same cells and tail sums as <see cref="Add(ReadOnlySpan{double}, ReadOnlySpan{double})"/>
+    /// with the values widened (exact), found among float edges (<see cref="Axis.Cells(ReadOnlySpan{float}, Span{int}, int)"/>)
+    /// and counted in integers; the tails are summed in the same order, from the cells that lie beyond the outermost edges.
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public void Add(ReadOnlySpan<float> values)
+    {
+        if (!AllFinite(values))
+        {
+            var v = new List<double>(values.Length);
+            foreach (var x in values)
+                if (float.IsFinite(x)) v.Add(x);
+            AddFinite(v.ToArray(), ReadOnlySpan<double>.Empty);
+            return;
+        }
+        var axis = _cells.Axis;
+        var overflow = axis.Count + 1;
+        double lo = axis.Edges[0], hi = axis.Edges[^1];
+        double belowW = 0, belowW2 = 0, aboveW = 0, aboveW2 = 0;
+        var counts = _unitCounts;
+        Span<int> cells = stackalloc int[Math.Min(values.Length, Block)];
+        for (var start = 0; start < values.Length; start += Block)
+        {
+            var block = values.Slice(start, Math.Min(Block, values.Length - start));
+            var blockCells = cells[..block.Length];
+            axis.Cells(block, blockCells, overflow + 1);
+            for (var i = 0; i < blockCells.Length; i++)
+            {
+                var c = blockCells[i];
+                counts[c]++;
+                if (c == 0)
+                {
+                    var d = lo - block[i];
+                    belowW += d;
+                    belowW2 += d * d;
+                }
+                else if (c == overflow)
+                {
+                    var d = block[i] - hi;
+                    aboveW += d;
+                    aboveW2 += d * d;
+                }
+            }
+        }
+        _unitEntries += values.Length;
+        AddTails(belowW, belowW2, aboveW, aboveW2);
+    }
+
+    /// <summary>Values whose cells are found in one call.</summary>
+    private const int Block = 512;
+
+    // Whether every value is finite: x − x is 0 for a finite x and NaN for NaN and ±∞.
+    private static bool AllFinite(ReadOnlySpan<float> values)
+    {
+        var i = 0;
+        var finite = System.Numerics.Vector<int>.AllBitsSet;
+        for (; i + System.Numerics.Vector<float>.Count <= values.Length; i += System.Numerics.Vector<float>.Count)
+        {
+            var v = new System.Numerics.Vector<float>(values[i..]);
+            finite &= System.Numerics.Vector.Equals(v - v, System.Numerics.Vector<float>.Zero);
+        }
+        if (finite != System.Numerics.Vector<int>.AllBitsSet) return false;
+        for (; i < values.Length; i++)
+            if (!float.IsFinite(values[i])) return false;
+        return true;
+    }
+
+    // Moves the unit-weight counts into the exact cells.
+    private void FlushUnitCounts()
+    {
+        if (_unitEntries == 0) return;
+        var sums = new double[_unitCounts.Length];
+        for (var c = 0; c < sums.Length; c++) sums[c] = _unitCounts[c];
+        _cells.Absorb(Histogram.FromCells(_cells.Axis, sums, sums, _unitEntries, 0, 0, 0));
+        Array.Clear(_unitCounts);
+        _unitEntries = 0;
+    }
+
+    private void AddTails(double belowW, double belowW2, double aboveW, double aboveW2)
+    {
+        double[] batch = [belowW, belowW2, aboveW, aboveW2];
+        for (var k = 0; k < batch.Length; k++)
+            if (batch[k] != 0) _tails[k].Add(batch[k]);
+    }
+
     private void AddFinite(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
     {
+        FlushUnitCounts();
         _batch.Fill(values, weights);
         _cells.Absorb(_batch);
         var edges = _cells.Axis.Edges;
@@ -74,24 +166,29 @@ internal sealed class FineGridCounter
                 aboveW2 += w * w * d * d;
             }
         }
-        double[] batch = [belowW, belowW2, aboveW, aboveW2];
-        for (var k = 0; k < batch.Length; k++)
-            if (batch[k] != 0) _tails[k].Add(batch[k]);
+        AddTails(belowW, belowW2, aboveW, aboveW2);
     }
 
     /// <summary>Adds another counter's sums (same grid; exact).</summary>
     public void Merge(FineGridCounter other)
     {
+        FlushUnitCounts();
+        other.FlushUnitCounts();
         _cells.Add(other._cells);
         for (var k = 0; k < _tails.Length; k++) _tails[k].Add(other._tails[k]);
     }
 
     /// <summary>The whole state as plain numbers.</summary>
-    public FineGridState State() => new(_cells.State(), _tails.Select(t => t.Terms).ToList());
+    public FineGridState State()
+    {
+        FlushUnitCounts();
+        return new(_cells.State(), _tails.Select(t => t.Terms).ToList());
+    }
 
     /// <summary>Adds a state in the form <see cref="State"/> gives it; false when it does not fit this grid.</summary>
     public bool AddState(FineGridState state)
     {
+        FlushUnitCounts();
         if (state.Tails.Count != _tails.Length || !_cells.AddState(state.Histogram)) return false;
         for (var k = 0; k < _tails.Length; k++) foreach (var v in state.Tails[k]) _tails[k].Add(v);
         return true;
@@ -100,6 +197,7 @@ internal sealed class FineGridCounter
     /// <summary>The cells and tail moments, each exact sum rounded once.</summary>
     public FineGridCells Finish()
     {
+        FlushUnitCounts();
         var h = _cells.ToHistogram();
         return new FineGridCells(h.Axis.Edges.ToArray(), h.SumW.ToArray(), h.SumW2.ToArray(),
             _tails[0].Value, _tails[1].Value, _tails[2].Value, _tails[3].Value);

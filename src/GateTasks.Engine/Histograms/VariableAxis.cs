@@ -15,6 +15,7 @@ internal sealed class VariableAxis : Axis
     private readonly int[] _firstBin; // per bucket: the bin holding the bucket's lower boundary
     private readonly double _bucketsPerUnit;
     private readonly float[]? _float32Edges; // for counting float values in SIMD registers (EdgeCountSearch)
+    private readonly BlockEdgeCountSearch? _blockSearch; // the same for float values on a long axis
 
     /// <summary>Creates an axis from strictly increasing, finite edges (at least two).</summary>
     public VariableAxis(IReadOnlyList<double> edges)
@@ -28,6 +29,7 @@ internal sealed class VariableAxis : Axis
                 throw new ArgumentException($"Edges must increase strictly; edge {i} ({_edges[i]}) follows {_edges[i - 1]}.", nameof(edges));
         }
         _float32Edges = CountingEdges(_edges);
+        if (_float32Edges is null && BlockEdgeCountSearch.IsSupported) _blockSearch = new BlockEdgeCountSearch(_edges);
         var buckets = BucketsPerBin * Count;
         var range = _edges[^1] - _edges[0];
         _bucketsPerUnit = double.IsFinite(range) && range > 0 ? buckets / range : 0;
@@ -96,6 +98,11 @@ internal sealed class VariableAxis : Axis
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public override void Cells(ReadOnlySpan<float> values, Span<int> cells, int nanCell)
     {
+        if (_blockSearch is { } blocks)
+        {
+            blocks.Cells(values, cells, nanCell);
+            return;
+        }
         var i = _float32Edges is { } edges ? EdgeCountSearch.Cells(values, edges, cells, nanCell) : 0;
         for (; i < values.Length; i++)
         {
