@@ -7,24 +7,27 @@ namespace GateTasks.Engine.Histograms;
 
 /// <summary>
 /// The cells of float32 values on a long axis (thousands of edges, as a fine equal-probability grid has) by counting
-/// edges in two levels, with no branch on where a value falls: first, for many values at once, the count of every
-/// 64th edge (the pivots) at or below each value, which names the block of 64 edges holding its cell; then, per value,
-/// the count of that block's edges at or below it, from four (AVX-512) or eight (AVX2) SIMD compares and one
-/// population count. Edges before the block are all at or below the value and edges after it all above, so the
-/// total is the count of all edges at or below the value: the storage cell a lower-bound search gives (0 below the
-/// first edge, the edge count at or above the last), as <see cref="EdgeCountSearch"/> counts short axes. The float
-/// edges are rounded up from the doubles (<see cref="EdgeCountSearch.Float32Edges"/>), so a float value gets the cell
-/// of the same value as a double; the last block is padded with NaN, which no value reaches. A guide table's step
+/// edges in three levels, with no branch on where a value falls: first, for many values at once, the count of every
+/// 256th edge at or below each value, which names the run of 256 edges holding its cell; then, per value, the count of
+/// every 16th edge of that run at or below it, which names the block of 16; then the count of that block's edges at
+/// or below it — each of the last two one SIMD compare of 16 floats (two with AVX2) and one population count. At each
+/// level the edges before the chosen run are all at or below the value and those after it all above, so the total is
+/// the count of all edges at or below the value: the storage cell a lower-bound search gives (0 below the first edge,
+/// the edge count at or above the last), as <see cref="EdgeCountSearch"/> counts short axes. The float edges are
+/// rounded up from the doubles (<see cref="EdgeCountSearch.Float32Edges"/>), so a float value gets the cell of the same
+/// value as a double; the tables are padded with NaN, which no value reaches. A guide table's step
 /// (<see cref="VariableAxis"/>) mispredicts where many narrow cells crowd one bucket, as they do near a fine grid's mode.
 /// </summary>
 internal sealed class BlockEdgeCountSearch
 {
-    /// <summary>Edges per block: four AVX-512 registers of floats.</summary>
-    public const int BlockEdges = 64;
+    /// <summary>Edges per block, and blocks per run: one AVX-512 register of floats.</summary>
+    public const int Stride = 16;
 
-    private readonly float[] _pivots; // edge 64·j, the first of block j
-    private readonly float[] _blocks; // every edge, padded with NaN to whole blocks
-    private readonly int _edgeCount;
+    private const int Run = Stride * Stride;
+
+    private readonly float[] _runFirsts;   // edge 256·r, the first of run r
+    private readonly float[] _blockFirsts; // edge 16·b, the first of block b, padded with NaN to whole runs
+    private readonly float[] _edges;       // every edge, padded with NaN to whole blocks of the padded block table
 
     /// <summary>Whether this machine has SIMD registers for the search (else callers keep their scalar search).</summary>
     public static bool IsSupported => Vector512.IsHardwareAccelerated || Vector256.IsHardwareAccelerated;
@@ -33,13 +36,14 @@ internal sealed class BlockEdgeCountSearch
     public BlockEdgeCountSearch(ReadOnlySpan<double> edges)
     {
         var rounded = EdgeCountSearch.Float32Edges(edges);
-        _edgeCount = rounded.Length;
-        var blocks = (rounded.Length + BlockEdges - 1) / BlockEdges;
-        _blocks = new float[blocks * BlockEdges];
-        _blocks.AsSpan().Fill(float.NaN);
-        rounded.CopyTo(_blocks, 0);
-        _pivots = new float[blocks];
-        for (var j = 0; j < blocks; j++) _pivots[j] = rounded[j * BlockEdges];
+        var runs = (rounded.Length + Run - 1) / Run;
+        _edges = new float[runs * Run];
+        _edges.AsSpan().Fill(float.NaN);
+        rounded.CopyTo(_edges, 0);
+        _blockFirsts = new float[runs * Stride];
+        for (var b = 0; b < _blockFirsts.Length; b++) _blockFirsts[b] = _edges[b * Stride];
+        _runFirsts = new float[runs];
+        for (var r = 0; r < runs; r++) _runFirsts[r] = _edges[r * Run];
     }
 
     /// <summary>
@@ -49,54 +53,49 @@ internal sealed class BlockEdgeCountSearch
     public void Cells(ReadOnlySpan<float> values, Span<int> cells, int nanCell)
     {
         if (cells.Length < values.Length) throw new ArgumentException("Fewer cells than values.", nameof(cells));
-        var done = PivotCounts(values, cells);
+        var done = RunCounts(values, cells);
         for (var i = done; i < values.Length; i++)
         {
-            var pivots = 0;
-            foreach (var p in _pivots) pivots += values[i] >= p ? 1 : 0;
-            cells[i] = pivots;
+            var runs = 0;
+            foreach (var p in _runFirsts) runs += values[i] >= p ? 1 : 0;
+            cells[i] = runs;
         }
-        ref var b0 = ref MemoryMarshal.GetArrayDataReference(_blocks);
+        ref var f0 = ref MemoryMarshal.GetArrayDataReference(_blockFirsts);
+        ref var e0 = ref MemoryMarshal.GetArrayDataReference(_edges);
         for (var i = 0; i < values.Length; i++)
         {
             var v = values[i];
-            // Below the first pivot the value is below every edge, and block 0 counts none of them: no branch needed.
-            var block = Math.Max(cells[i] - 1, 0);
-            var cell = block * BlockEdges + InBlock(v, ref Unsafe.Add(ref b0, block * BlockEdges));
+            // Below a level's first edge the value is below every edge, and run or block 0 counts none of them: no
+            // branch needed.
+            var run = Math.Max(cells[i] - 1, 0);
+            var block = run * Stride + Math.Max(AtOrBelow(v, ref Unsafe.Add(ref f0, run * Stride)) - 1, 0);
+            var cell = block * Stride + AtOrBelow(v, ref Unsafe.Add(ref e0, block * Stride));
             cells[i] = float.IsNaN(v) ? nanCell : cell;
         }
     }
 
-    /// <summary>The edges of one block (64 floats from <paramref name="block"/>) at or below <paramref name="v"/>.</summary>
+    /// <summary>How many of 16 floats from <paramref name="at"/> are at or below <paramref name="v"/>.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    private static int InBlock(float v, ref float block)
+    private static int AtOrBelow(float v, ref float at)
     {
         if (Vector512.IsHardwareAccelerated)
-        {
-            var x = Vector512.Create(v);
-            var m0 = Vector512.GreaterThanOrEqual(x, Vector512.LoadUnsafe(ref block)).ExtractMostSignificantBits();
-            var m1 = Vector512.GreaterThanOrEqual(x, Vector512.LoadUnsafe(ref block, 16)).ExtractMostSignificantBits();
-            var m2 = Vector512.GreaterThanOrEqual(x, Vector512.LoadUnsafe(ref block, 32)).ExtractMostSignificantBits();
-            var m3 = Vector512.GreaterThanOrEqual(x, Vector512.LoadUnsafe(ref block, 48)).ExtractMostSignificantBits();
-            return BitOperations.PopCount(m0 | (m1 << 16) | (m2 << 32) | (m3 << 48));
-        }
-        var y = Vector256.Create(v);
-        ulong mask = 0;
-        for (var k = 0; k < BlockEdges / 8; k++)
-            mask |= (ulong)Vector256.GreaterThanOrEqual(y, Vector256.LoadUnsafe(ref block, (nuint)(8 * k))).ExtractMostSignificantBits() << (8 * k);
-        return BitOperations.PopCount(mask);
+            return BitOperations.PopCount(Vector512.GreaterThanOrEqual(Vector512.Create(v), Vector512.LoadUnsafe(ref at)).ExtractMostSignificantBits());
+        var x = Vector256.Create(v);
+        var low = Vector256.GreaterThanOrEqual(x, Vector256.LoadUnsafe(ref at)).ExtractMostSignificantBits();
+        var high = Vector256.GreaterThanOrEqual(x, Vector256.LoadUnsafe(ref at, 8)).ExtractMostSignificantBits();
+        return BitOperations.PopCount(low | (high << 8));
     }
 
     /// <summary>
-    /// For the leading values (a whole number of pairs of SIMD registers), the count of pivots at or below each, into
-    /// <paramref name="counts"/>; returns how many were done.
+    /// For the leading values (a whole number of pairs of SIMD registers), the count of run firsts at or below each,
+    /// into <paramref name="counts"/>; returns how many were done.
     /// </summary>
-    private int PivotCounts(ReadOnlySpan<float> values, Span<int> counts)
+    private int RunCounts(ReadOnlySpan<float> values, Span<int> counts)
     {
         ref var v0 = ref MemoryMarshal.GetReference(values);
         ref var c0 = ref MemoryMarshal.GetReference(counts);
-        ref var p0 = ref MemoryMarshal.GetArrayDataReference(_pivots);
-        var n = _pivots.Length;
+        ref var p0 = ref MemoryMarshal.GetArrayDataReference(_runFirsts);
+        var n = _runFirsts.Length;
         var i = 0;
         if (Vector512.IsHardwareAccelerated)
         {
@@ -135,7 +134,4 @@ internal sealed class BlockEdgeCountSearch
         }
         return i;
     }
-
-    /// <summary>The number of edges (the overflow cell).</summary>
-    public int EdgeCount => _edgeCount;
 }
