@@ -12,8 +12,12 @@ namespace GateTasks.Engine.Accumulation;
 /// </summary>
 internal sealed class FineGridCounter
 {
-    private readonly Histogram _batch;
-    private readonly ExactHistogram _cells;
+    private readonly Axis _axis;
+    // The weighted path's per-batch histogram and the exact cells, made when first needed: a check of float32 values
+    // with unit weights needs neither (its counts are exact as they are), which spares 20 fine grids' thousands of
+    // exact sums (about 18 MB) at start-up.
+    private Histogram? _batch;
+    private ExactHistogram? _cells;
     // Unit-weight counts of float batches, kept across batches (a count is exact, so adding it to the exact cells once
     // gives the bits of adding each batch's), and moved into _cells before anything reads them or a weighted batch comes.
     private readonly long[] _unitCounts;
@@ -23,11 +27,11 @@ internal sealed class FineGridCounter
 
     public FineGridCounter(IReadOnlyList<double> edges)
     {
-        var axis = Axis.FromEdges(edges);
-        _batch = new Histogram(axis);
-        _cells = new ExactHistogram(axis);
-        _unitCounts = new long[axis.Count + 2];
+        _axis = Axis.FromEdges(edges);
+        _unitCounts = new long[_axis.Count + 2];
     }
+
+    private ExactHistogram Cells => _cells ??= new ExactHistogram(_axis);
 
     /// <summary>
     /// Adds a batch. Values that are not finite are left out: NaN and ±∞ are counted apart by the feature's statistics
@@ -70,7 +74,7 @@ internal sealed class FineGridCounter
             AddFinite(v.ToArray(), ReadOnlySpan<double>.Empty);
             return;
         }
-        var axis = _cells.Axis;
+        var axis = _axis;
         var overflow = axis.Count + 1;
         double lo = axis.Edges[0], hi = axis.Edges[^1];
         double belowW = 0, belowW2 = 0, aboveW = 0, aboveW2 = 0;
@@ -128,7 +132,7 @@ internal sealed class FineGridCounter
         if (_unitEntries == 0) return;
         var sums = new double[_unitCounts.Length];
         for (var c = 0; c < sums.Length; c++) sums[c] = _unitCounts[c];
-        _cells.Absorb(Histogram.FromCells(_cells.Axis, sums, sums, _unitEntries, 0, 0, 0));
+        Cells.Absorb(Histogram.FromCells(_axis, sums, sums, _unitEntries, 0, 0, 0));
         Array.Clear(_unitCounts);
         _unitEntries = 0;
     }
@@ -143,9 +147,10 @@ internal sealed class FineGridCounter
     private void AddFinite(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
     {
         FlushUnitCounts();
-        _batch.Fill(values, weights);
-        _cells.Absorb(_batch);
-        var edges = _cells.Axis.Edges;
+        var batch = _batch ??= new Histogram(_axis);
+        batch.Fill(values, weights);
+        Cells.Absorb(batch);
+        var edges = _axis.Edges;
         double lo = edges[0], hi = edges[^1];
         double belowW = 0, belowW2 = 0, aboveW = 0, aboveW2 = 0;
         for (var i = 0; i < values.Length; i++)
@@ -174,7 +179,7 @@ internal sealed class FineGridCounter
     {
         FlushUnitCounts();
         other.FlushUnitCounts();
-        _cells.Add(other._cells);
+        if (other._cells is { } cells) Cells.Add(cells);
         for (var k = 0; k < _tails.Length; k++) _tails[k].Add(other._tails[k]);
     }
 
@@ -182,14 +187,14 @@ internal sealed class FineGridCounter
     public FineGridState State()
     {
         FlushUnitCounts();
-        return new(_cells.State(), _tails.Select(t => t.Terms).ToList());
+        return new(Cells.State(), _tails.Select(t => t.Terms).ToList());
     }
 
     /// <summary>Adds a state in the form <see cref="State"/> gives it; false when it does not fit this grid.</summary>
     public bool AddState(FineGridState state)
     {
         FlushUnitCounts();
-        if (state.Tails.Count != _tails.Length || !_cells.AddState(state.Histogram)) return false;
+        if (state.Tails.Count != _tails.Length || !Cells.AddState(state.Histogram)) return false;
         for (var k = 0; k < _tails.Length; k++) foreach (var v in state.Tails[k]) _tails[k].Add(v);
         return true;
     }
@@ -197,10 +202,17 @@ internal sealed class FineGridCounter
     /// <summary>The cells and tail moments, each exact sum rounded once.</summary>
     public FineGridCells Finish()
     {
+        var tails = (_tails[0].Value, _tails[1].Value, _tails[2].Value, _tails[3].Value);
+        if (_cells is null)
+        {
+            // Unit weights only: each cell's count is its exact Σw and Σw².
+            var sums = new double[_unitCounts.Length];
+            for (var c = 0; c < sums.Length; c++) sums[c] = _unitCounts[c];
+            return new FineGridCells(_axis.Edges.ToArray(), sums, (double[])sums.Clone(), tails.Item1, tails.Item2, tails.Item3, tails.Item4);
+        }
         FlushUnitCounts();
         var h = _cells.ToHistogram();
-        return new FineGridCells(h.Axis.Edges.ToArray(), h.SumW.ToArray(), h.SumW2.ToArray(),
-            _tails[0].Value, _tails[1].Value, _tails[2].Value, _tails[3].Value);
+        return new FineGridCells(h.Axis.Edges.ToArray(), h.SumW.ToArray(), h.SumW2.ToArray(), tails.Item1, tails.Item2, tails.Item3, tails.Item4);
     }
 }
 

@@ -34,10 +34,14 @@ internal sealed class VariableAxis : Axis
         var range = _edges[^1] - _edges[0];
         _bucketsPerUnit = double.IsFinite(range) && range > 0 ? buckets / range : 0;
         _firstBin = new int[buckets + 1];
-        for (var b = 0; b <= buckets; b++)
+        // The bin holding each bucket's lower boundary (Search(lower, 0, Count − 1)), in one sweep: the boundaries
+        // rise with b, so the bin only moves up (a search per bucket took milliseconds per fine grid at start-up).
+        var bin = 0;
+        for (var b = 0; b <= buckets && _bucketsPerUnit > 0; b++)
         {
             var lower = _edges[0] + b / _bucketsPerUnit;
-            _firstBin[b] = _bucketsPerUnit > 0 ? Search(lower, 0, Count - 1) : 0;
+            while (bin < Count - 1 && lower >= _edges[bin + 1]) bin++;
+            _firstBin[b] = bin;
         }
     }
 
