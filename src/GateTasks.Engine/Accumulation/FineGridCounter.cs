@@ -85,10 +85,14 @@ internal sealed class FineGridCounter
             var block = values.Slice(start, Math.Min(Block, values.Length - start));
             var blockCells = cells[..block.Length];
             axis.Cells(block, blockCells, overflow + 1);
+            var (under, over) = (counts[0], counts[overflow]);
+            foreach (var c in blockCells) counts[c]++;
+            // Values beyond the outermost edges are rare (those edges hold the whole reference): look for them only
+            // in a block that has some, in the values' order, so the tail sums are added as before.
+            if (counts[0] == under && counts[overflow] == over) continue;
             for (var i = 0; i < blockCells.Length; i++)
             {
                 var c = blockCells[i];
-                counts[c]++;
                 if (c == 0)
                 {
                     var d = lo - block[i];
