@@ -12,17 +12,26 @@ namespace GateTasks.Engine.Accumulation;
 /// </summary>
 internal sealed class FineGridCounter
 {
-    private readonly Histogram _batch;
-    private readonly ExactHistogram _cells;
+    private readonly Axis _axis;
+    // The weighted path's per-batch histogram and the exact cells, made when first needed: a check of float32 values
+    // with unit weights needs neither (its counts are exact as they are), which spares 20 fine grids' thousands of
+    // exact sums (about 18 MB) at start-up.
+    private Histogram? _batch;
+    private ExactHistogram? _cells;
+    // Unit-weight counts of float batches, kept across batches (a count is exact, so adding it to the exact cells once
+    // gives the bits of adding each batch's), and moved into _cells before anything reads them or a weighted batch comes.
+    private readonly long[] _unitCounts;
+    private long _unitEntries;
     // Below: Σw·d, Σw²·d²; above: Σw·d, Σw²·d² — summed per batch, then exactly.
     private readonly ExactSum[] _tails = Enumerable.Range(0, 4).Select(_ => new ExactSum()).ToArray();
 
     public FineGridCounter(IReadOnlyList<double> edges)
     {
-        var axis = Axis.FromEdges(edges);
-        _batch = new Histogram(axis);
-        _cells = new ExactHistogram(axis);
+        _axis = Axis.FromEdges(edges);
+        _unitCounts = new long[_axis.Count + 2];
     }
+
+    private ExactHistogram Cells => _cells ??= new ExactHistogram(_axis);
 
     /// <summary>
     /// Adds a batch. Values that are not finite are left out: NaN and ±∞ are counted apart by the feature's statistics
@@ -49,11 +58,103 @@ internal sealed class FineGridCounter
         AddFinite(values, weights);
     }
 
+    /// <summary>
+    /// Adds a batch of float32 values with unit weights: the same cells and tail sums as <see cref="Add(ReadOnlySpan{double}, ReadOnlySpan{double})"/>
+    /// with the values widened (exact), found among float edges (<see cref="Axis.Cells(ReadOnlySpan{float}, Span{int}, int)"/>)
+    /// and counted in integers; the tails are summed in the same order, from the cells that lie beyond the outermost edges.
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public void Add(ReadOnlySpan<float> values)
+    {
+        if (!AllFinite(values))
+        {
+            var v = new List<double>(values.Length);
+            foreach (var x in values)
+                if (float.IsFinite(x)) v.Add(x);
+            AddFinite(v.ToArray(), ReadOnlySpan<double>.Empty);
+            return;
+        }
+        var axis = _axis;
+        var overflow = axis.Count + 1;
+        double lo = axis.Edges[0], hi = axis.Edges[^1];
+        double belowW = 0, belowW2 = 0, aboveW = 0, aboveW2 = 0;
+        var counts = _unitCounts;
+        Span<int> cells = stackalloc int[Math.Min(values.Length, Block)];
+        for (var start = 0; start < values.Length; start += Block)
+        {
+            var block = values.Slice(start, Math.Min(Block, values.Length - start));
+            var blockCells = cells[..block.Length];
+            axis.Cells(block, blockCells, overflow + 1);
+            var (under, over) = (counts[0], counts[overflow]);
+            foreach (var c in blockCells) counts[c]++;
+            // Values beyond the outermost edges are rare (those edges hold the whole reference): look for them only
+            // in a block that has some, in the values' order, so the tail sums are added as before.
+            if (counts[0] == under && counts[overflow] == over) continue;
+            for (var i = 0; i < blockCells.Length; i++)
+            {
+                var c = blockCells[i];
+                if (c == 0)
+                {
+                    var d = lo - block[i];
+                    belowW += d;
+                    belowW2 += d * d;
+                }
+                else if (c == overflow)
+                {
+                    var d = block[i] - hi;
+                    aboveW += d;
+                    aboveW2 += d * d;
+                }
+            }
+        }
+        _unitEntries += values.Length;
+        AddTails(belowW, belowW2, aboveW, aboveW2);
+    }
+
+    /// <summary>Values whose cells are found in one call.</summary>
+    private const int Block = 512;
+
+    // Whether every value is finite: x − x is 0 for a finite x and NaN for NaN and ±∞.
+    private static bool AllFinite(ReadOnlySpan<float> values)
+    {
+        var i = 0;
+        var finite = System.Numerics.Vector<int>.AllBitsSet;
+        for (; i + System.Numerics.Vector<float>.Count <= values.Length; i += System.Numerics.Vector<float>.Count)
+        {
+            var v = new System.Numerics.Vector<float>(values[i..]);
+            finite &= System.Numerics.Vector.Equals(v - v, System.Numerics.Vector<float>.Zero);
+        }
+        if (finite != System.Numerics.Vector<int>.AllBitsSet) return false;
+        for (; i < values.Length; i++)
+            if (!float.IsFinite(values[i])) return false;
+        return true;
+    }
+
+    // Moves the unit-weight counts into the exact cells.
+    private void FlushUnitCounts()
+    {
+        if (_unitEntries == 0) return;
+        var sums = new double[_unitCounts.Length];
+        for (var c = 0; c < sums.Length; c++) sums[c] = _unitCounts[c];
+        Cells.Absorb(Histogram.FromCells(_axis, sums, sums, _unitEntries, 0, 0, 0));
+        Array.Clear(_unitCounts);
+        _unitEntries = 0;
+    }
+
+    private void AddTails(double belowW, double belowW2, double aboveW, double aboveW2)
+    {
+        double[] batch = [belowW, belowW2, aboveW, aboveW2];
+        for (var k = 0; k < batch.Length; k++)
+            if (batch[k] != 0) _tails[k].Add(batch[k]);
+    }
+
     private void AddFinite(ReadOnlySpan<double> values, ReadOnlySpan<double> weights)
     {
-        _batch.Fill(values, weights);
-        _cells.Absorb(_batch);
-        var edges = _cells.Axis.Edges;
+        FlushUnitCounts();
+        var batch = _batch ??= new Histogram(_axis);
+        batch.Fill(values, weights);
+        Cells.Absorb(batch);
+        var edges = _axis.Edges;
         double lo = edges[0], hi = edges[^1];
         double belowW = 0, belowW2 = 0, aboveW = 0, aboveW2 = 0;
         for (var i = 0; i < values.Length; i++)
@@ -74,25 +175,30 @@ internal sealed class FineGridCounter
                 aboveW2 += w * w * d * d;
             }
         }
-        double[] batch = [belowW, belowW2, aboveW, aboveW2];
-        for (var k = 0; k < batch.Length; k++)
-            if (batch[k] != 0) _tails[k].Add(batch[k]);
+        AddTails(belowW, belowW2, aboveW, aboveW2);
     }
 
     /// <summary>Adds another counter's sums (same grid; exact).</summary>
     public void Merge(FineGridCounter other)
     {
-        _cells.Add(other._cells);
+        FlushUnitCounts();
+        other.FlushUnitCounts();
+        if (other._cells is { } cells) Cells.Add(cells);
         for (var k = 0; k < _tails.Length; k++) _tails[k].Add(other._tails[k]);
     }
 
     /// <summary>The whole state as plain numbers.</summary>
-    public FineGridState State() => new(_cells.State(), _tails.Select(t => t.Terms).ToList());
+    public FineGridState State()
+    {
+        FlushUnitCounts();
+        return new(Cells.State(), _tails.Select(t => t.Terms).ToList());
+    }
 
     /// <summary>Adds a state in the form <see cref="State"/> gives it; false when it does not fit this grid.</summary>
     public bool AddState(FineGridState state)
     {
-        if (state.Tails.Count != _tails.Length || !_cells.AddState(state.Histogram)) return false;
+        FlushUnitCounts();
+        if (state.Tails.Count != _tails.Length || !Cells.AddState(state.Histogram)) return false;
         for (var k = 0; k < _tails.Length; k++) foreach (var v in state.Tails[k]) _tails[k].Add(v);
         return true;
     }
@@ -100,9 +206,17 @@ internal sealed class FineGridCounter
     /// <summary>The cells and tail moments, each exact sum rounded once.</summary>
     public FineGridCells Finish()
     {
+        var tails = (_tails[0].Value, _tails[1].Value, _tails[2].Value, _tails[3].Value);
+        if (_cells is null)
+        {
+            // Unit weights only: each cell's count is its exact Σw and Σw².
+            var sums = new double[_unitCounts.Length];
+            for (var c = 0; c < sums.Length; c++) sums[c] = _unitCounts[c];
+            return new FineGridCells(_axis.Edges.ToArray(), sums, (double[])sums.Clone(), tails.Item1, tails.Item2, tails.Item3, tails.Item4);
+        }
+        FlushUnitCounts();
         var h = _cells.ToHistogram();
-        return new FineGridCells(h.Axis.Edges.ToArray(), h.SumW.ToArray(), h.SumW2.ToArray(),
-            _tails[0].Value, _tails[1].Value, _tails[2].Value, _tails[3].Value);
+        return new FineGridCells(h.Axis.Edges.ToArray(), h.SumW.ToArray(), h.SumW2.ToArray(), tails.Item1, tails.Item2, tails.Item3, tails.Item4);
     }
 }
 

@@ -87,11 +87,12 @@ internal sealed class SampleAccumulation
         {
             // Float32 values with unit weights, for a feature with no counter that needs doubles: the same fill and
             // moments, without converting the values.
-            if (_spikes.Filters[i] is not null || _fine[i] is not null) return false;
+            if (_spikes.Filters[i] is not null) return false;
             _batch[i].Fill(values);
             _histograms[i].Absorb(_batch[i]);
             _stats[i].Add(values);
             _farTail[i]?.Add(values);
+            _fine[i]?.Add(values);
             return true;
         });
         Events += totals.Events;

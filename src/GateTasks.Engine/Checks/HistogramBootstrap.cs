@@ -2,6 +2,9 @@ using GateTasks.Engine.Statistics;
 
 namespace GateTasks.Engine.Checks;
 
+/// <summary>Three distances, D(a₀, b₀), D(a₁, b₁) and D(a₂, b₂), computed together.</summary>
+internal delegate (double First, double Second, double Third) ThreeDistances(double[] a0, double[] b0, double[] a1, double[] b1, double[] a2, double[] b2);
+
 /// <summary>Contents of one histogram's cells: Σw and Σw².</summary>
 internal readonly record struct CellContents(double[] SumW, double[] SumW2);
 
@@ -29,9 +32,11 @@ internal static class HistogramBootstrap
     /// in each replica the reference's redrawn cells a* and the surrogate's b* give D(a*, b) for the reference's part,
     /// D(a, b*) for the surrogate's and D(a*, b*) for the bias. Each of the three is a sample of its own law, as if
     /// drawn alone; sharing the draws only correlates the three estimates, and halves the draws.
+    /// <c>three</c>, when given, computes a replica's three distances D(a*, b), D(a, b*) and D(a*, b*) at once (its
+    /// arguments in that order of pairs), each bit for bit what <c>distance</c> gives, only faster.
     /// </summary>
     public static Noise StandardErrorsAndBias(CellContents reference, CellContents surrogate, Func<double[], double[], double> distance,
-        double estimate, int seed)
+        double estimate, int seed, ThreeDistances? three = null)
     {
         var rng = new SeededSampler(seed);
         var referenceSd = StandardDeviations(reference);
@@ -43,6 +48,14 @@ internal static class HistogramBootstrap
         {
             Draw(reference.SumW, referenceSd, a, rng);
             Draw(surrogate.SumW, surrogateSd, b, rng);
+            if (three is not null)
+            {
+                var (refRedrawn, surRedrawn, bothRedrawn) = three(a, surrogate.SumW, reference.SumW, b, a, b);
+                refOnly.Add(refRedrawn);
+                surOnly.Add(surRedrawn);
+                both.Add(bothRedrawn);
+                continue;
+            }
             refOnly.Add(distance(a, surrogate.SumW));
             surOnly.Add(distance(reference.SumW, b));
             both.Add(distance(a, b));

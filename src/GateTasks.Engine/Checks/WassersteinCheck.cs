@@ -38,18 +38,23 @@ internal static class WassersteinCheck
         // Packed as [tail moment below, cells (flows included), tail moment above], so the bootstrap redraws all of it.
         double Distance(double[] a, double[] b) =>
             Wasserstein.FineGrid(edges, a.AsSpan(1, a.Length - 2), a[0], a[^1], b.AsSpan(1, b.Length - 2), b[0], b[^1]) / sigma;
-        return Decide(c, Packed(reference), Packed(sample), Distance, sigma, $"fine grid of {edges.Length - 1} cells", spec, decision);
+        (double, double, double) Three(double[] a0, double[] b0, double[] a1, double[] b1, double[] a2, double[] b2)
+        {
+            var (x, y, z) = Wasserstein.FineGridThree(edges, a0, b0, a1, b1, a2, b2);
+            return (x / sigma, y / sigma, z / sigma);
+        }
+        return Decide(c, Packed(reference), Packed(sample), Distance, sigma, $"fine grid of {edges.Length - 1} cells", spec, decision, Three);
     }
 
     private static CellContents Packed(FineGridCells g) =>
         new([g.BelowMoment, .. g.SumW, g.AboveMoment], [g.BelowMoment2, .. g.SumW2, g.AboveMoment2]);
 
     private static Measurement Decide(FeatureComparison c, CellContents reference, CellContents surrogate, Func<double[], double[], double> distance,
-        double sigma, string grid, ToleranceCheck spec, DecisionSettings decision)
+        double sigma, string grid, ToleranceCheck spec, DecisionSettings decision, ThreeDistances? three = null)
     {
         var value = distance(reference.SumW, surrogate.SumW);
         var seed = HistogramBootstrap.Seed(c.Spec.Name, spec.Key);
-        var (se, bias) = HistogramBootstrap.StandardErrorsAndBias(reference, surrogate, distance, value, seed);
+        var (se, bias) = HistogramBootstrap.StandardErrorsAndBias(reference, surrogate, distance, value, seed, three);
         var boundary = HistogramBootstrap.BoundaryReplicas(reference, surrogate, distance, value, spec.Tolerance, seed);
         return DistanceDecision.Measure(value, bias, se, boundary, spec, decision, c.Surrogate.Entries,
             $"W1/σ_ref {InvariantNumber.Short(Math.Max(0, value - bias))}",

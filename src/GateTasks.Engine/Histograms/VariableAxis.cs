@@ -15,6 +15,7 @@ internal sealed class VariableAxis : Axis
     private readonly int[] _firstBin; // per bucket: the bin holding the bucket's lower boundary
     private readonly double _bucketsPerUnit;
     private readonly float[]? _float32Edges; // for counting float values in SIMD registers (EdgeCountSearch)
+    private readonly BlockEdgeCountSearch? _blockSearch; // the same for float values on a long axis
 
     /// <summary>Creates an axis from strictly increasing, finite edges (at least two).</summary>
     public VariableAxis(IReadOnlyList<double> edges)
@@ -28,14 +29,19 @@ internal sealed class VariableAxis : Axis
                 throw new ArgumentException($"Edges must increase strictly; edge {i} ({_edges[i]}) follows {_edges[i - 1]}.", nameof(edges));
         }
         _float32Edges = CountingEdges(_edges);
+        if (_float32Edges is null && BlockEdgeCountSearch.IsSupported) _blockSearch = new BlockEdgeCountSearch(_edges);
         var buckets = BucketsPerBin * Count;
         var range = _edges[^1] - _edges[0];
         _bucketsPerUnit = double.IsFinite(range) && range > 0 ? buckets / range : 0;
         _firstBin = new int[buckets + 1];
-        for (var b = 0; b <= buckets; b++)
+        // The bin holding each bucket's lower boundary (Search(lower, 0, Count − 1)), in one sweep: the boundaries
+        // rise with b, so the bin only moves up (a search per bucket took milliseconds per fine grid at start-up).
+        var bin = 0;
+        for (var b = 0; b <= buckets && _bucketsPerUnit > 0; b++)
         {
             var lower = _edges[0] + b / _bucketsPerUnit;
-            _firstBin[b] = _bucketsPerUnit > 0 ? Search(lower, 0, Count - 1) : 0;
+            while (bin < Count - 1 && lower >= _edges[bin + 1]) bin++;
+            _firstBin[b] = bin;
         }
     }
 
@@ -96,6 +102,11 @@ internal sealed class VariableAxis : Axis
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
     public override void Cells(ReadOnlySpan<float> values, Span<int> cells, int nanCell)
     {
+        if (_blockSearch is { } blocks)
+        {
+            blocks.Cells(values, cells, nanCell);
+            return;
+        }
         var i = _float32Edges is { } edges ? EdgeCountSearch.Cells(values, edges, cells, nanCell) : 0;
         for (; i < values.Length; i++)
         {

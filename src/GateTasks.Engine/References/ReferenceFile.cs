@@ -482,11 +482,13 @@ internal static class ReferenceFile
     private static FineGridCells? FineGridFromJson(string path, string feature, JsonNode? node)
     {
         if (node is not JsonObject g) return null;
-        // Thousands of numbers per feature: read from the array's text by one reader rather than a node per number.
+        // Thousands of numbers per feature: read from the array's UTF-8 text by one reader rather than a node per
+        // number (written straight as UTF-8, not through a string).
         static double[] Read(JsonNode? a)
         {
-            var text = Encoding.UTF8.GetBytes(a!.AsArray().ToJsonString());
-            var reader = new Utf8JsonReader(text);
+            var text = new System.Buffers.ArrayBufferWriter<byte>();
+            using (var writer = new Utf8JsonWriter(text)) a!.AsArray().WriteTo(writer);
+            var reader = new Utf8JsonReader(text.WrittenSpan);
             var values = new List<double>();
             reader.Read();
             while (reader.Read() && reader.TokenType != JsonTokenType.EndArray) values.Add(reader.GetDouble());

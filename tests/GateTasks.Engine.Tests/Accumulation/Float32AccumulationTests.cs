@@ -87,3 +87,57 @@ public class Float32AccumulationTests
         Assert.True(asDoubles.Counts.BelowW > 0 && asDoubles.Counts.AboveW > 0); // both tails are reached
     }
 }
+
+/// <summary>
+/// The fine grid of quantile and distance checks filled with float32 values against the same values widened to
+/// doubles: the program compared with itself (the cells were searched by the guide table before; the float path counts
+/// edges in two levels and keeps integer counts until read). Cells, tail moments and the exact state must agree to the bit.
+/// </summary>
+public class Float32FineGridTests
+{
+    [Theory]
+    [InlineData(65_536, false)]
+    [InlineData(1_003, true)] // NaN and infinities, left out by both paths
+    public void A_fine_grid_filled_with_floats_holds_the_cells_and_tails_of_the_same_values_as_doubles(int length, bool specials)
+    {
+        var rng = new Xoshiro256StarStar(length);
+        double Draw() => Math.Exp(3 + 0.6 * Math.Sqrt(-2 * Math.Log(1 - rng.NextDouble())) * Math.Cos(2 * Math.PI * rng.NextDouble()));
+        var sorted = Enumerable.Range(0, 50_000).Select(_ => Draw()).Order().ToArray();
+        // Edges inside the values' range, so that both tails hold values and their moments are summed.
+        var edges = Enumerable.Range(0, 4_097).Select(k => sorted[500 + k * 49_000 / 4_096] + k * 1e-9).ToArray();
+        var floats = Enumerable.Range(0, length).Select(_ => (float)Draw()).ToArray();
+        if (specials)
+        {
+            floats[1] = float.NaN;
+            floats[length - 1] = float.PositiveInfinity;
+            floats[length / 2] = float.NegativeInfinity;
+        }
+        var doubles = floats.Select(f => (double)f).ToArray();
+        var fromFloats = new FineGridCounter(edges);
+        var fromDoubles = new FineGridCounter(edges);
+        for (var batch = 0; batch < 3; batch++)
+        {
+            fromFloats.Add(floats);
+            fromDoubles.Add(doubles, ReadOnlySpan<double>.Empty);
+        }
+        var f = fromFloats.Finish();
+        var d = fromDoubles.Finish();
+        Assert.Equal(d.SumW, f.SumW);
+        Assert.Equal(d.SumW2, f.SumW2);
+        Assert.True(d.BelowMoment > 0 && d.AboveMoment > 0, "both tails hold values");
+        Assert.Equal((d.BelowMoment, d.BelowMoment2, d.AboveMoment, d.AboveMoment2), (f.BelowMoment, f.BelowMoment2, f.AboveMoment, f.AboveMoment2));
+
+        // Shards: floats in one, doubles and floats in another, merged through their states, give the one pass's bits.
+        var first = new FineGridCounter(edges);
+        first.Add(floats);
+        var second = new FineGridCounter(edges);
+        second.Add(doubles, ReadOnlySpan<double>.Empty);
+        second.Add(floats);
+        var merged = new FineGridCounter(edges);
+        Assert.True(merged.AddState(first.State()));
+        merged.Merge(second);
+        var m = merged.Finish();
+        Assert.Equal(d.SumW, m.SumW);
+        Assert.Equal((d.BelowMoment, d.BelowMoment2, d.AboveMoment, d.AboveMoment2), (m.BelowMoment, m.BelowMoment2, m.AboveMoment, m.AboveMoment2));
+    }
+}
