@@ -1,6 +1,3 @@
-using System.Runtime.Intrinsics;
-using System.Runtime.Intrinsics.X86;
-
 namespace GateTasks.Engine.Accumulation;
 
 /// <summary>
@@ -140,13 +137,12 @@ internal sealed class SlicedCellLookup
             for (var r = 0; r < values.Length; r++) cells[r] = Cell(values[r]);
             return;
         }
-        var r0 = _sparse && System.Runtime.Intrinsics.X86.Avx2.IsSupported ? GatheredCells(values, cells) : 0;
         double low = _low, high = _high, perSlot = _perSlot;
         ref var first = ref System.Runtime.InteropServices.MemoryMarshal.GetArrayDataReference(_first);
         ref var edges = ref System.Runtime.InteropServices.MemoryMarshal.GetArrayDataReference(_edges);
         ref var x0 = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(values);
         ref var c0 = ref System.Runtime.InteropServices.MemoryMarshal.GetReference(cells);
-        for (var r = r0; r < values.Length; r++)
+        for (var r = 0; r < values.Length; r++)
         {
             var x = System.Runtime.CompilerServices.Unsafe.Add(ref x0, r);
             int c;
@@ -167,46 +163,6 @@ internal sealed class SlicedCellLookup
             else c = Cell(x);
             System.Runtime.CompilerServices.Unsafe.Add(ref c0, r) = c;
         }
-    }
-
-    /// <summary>
-    /// <see cref="CellsOf"/>'s core path four values at a time, for a table whose slots hold at most two edges: the
-    /// slots' entries and then the two edges compared are gathered, and every comparison, product and truncation is the
-    /// one the scalar path makes, so the cells are the same. Values outside the core [edges[lo], edges[hi]) (and
-    /// non-finite ones) get slot 0 in the vector, which indexes valid entries, and are then looked up one by one.
-    /// Returns how many values it did (a multiple of four).
-    /// </summary>
-    private unsafe int GatheredCells(ReadOnlySpan<double> values, Span<int> cells)
-    {
-        var n = values.Length & ~3;
-        if (n == 0) return 0;
-        var low = Vector256.Create(_low);
-        var high = Vector256.Create(_high);
-        var perSlot = Vector256.Create(_perSlot);
-        var one = Vector256.Create(1.0);
-        fixed (int* first = _first)
-        fixed (double* edges = _edges)
-        fixed (double* x0 = values)
-        fixed (int* c0 = cells)
-        {
-            for (var r = 0; r < n; r += 4)
-            {
-                var x = Avx.LoadVector256(x0 + r);
-                var core = Avx.And(Avx.CompareGreaterThanOrEqual(x, low), Avx.CompareLessThan(x, high));
-                var t = Avx.And(Avx.Multiply(Avx.Subtract(x, low), perSlot), core); // 0 outside the core
-                var c = Avx2.GatherVector128(first, Avx.ConvertToVector128Int32WithTruncation(t), 4);
-                var e = Avx2.GatherVector256(edges, c, 8);
-                c = Sse2.Add(c, Avx.ConvertToVector128Int32WithTruncation(Avx.And(Avx.CompareGreaterThanOrEqual(x, e), one)));
-                e = Avx2.GatherVector256(edges, c, 8);
-                c = Sse2.Add(c, Avx.ConvertToVector128Int32WithTruncation(Avx.And(Avx.CompareGreaterThanOrEqual(x, e), one)));
-                Sse2.Store(c0 + r, c);
-                var inside = Avx.MoveMask(core);
-                if (inside != 0b1111)
-                    for (var i = 0; i < 4; i++)
-                        if ((inside & (1 << i)) == 0) c0[r + i] = Cell(x0[r + i]);
-            }
-        }
-        return n;
     }
 
     /// <summary>The number of edges ≤ x, knowing that edges below <paramref name="from"/> are ≤ x and edges from <paramref name="to"/> on are above it.</summary>
