@@ -18,6 +18,7 @@ public static class Program
                GateTasks.Benchmarks export-npy --sample FILE --out NPY
                GateTasks.Benchmarks fill --reference FILE --sample FILE --out JSON
                GateTasks.Benchmarks kernel-subsample --sample FILE [--features N] [--rows K]
+               GateTasks.Benchmarks sliced-fill --reference FILE --sample FILE [--repeat N]
         """;
 
     public static int Main(string[] args)
@@ -67,6 +68,9 @@ public static class Program
                     return 0;
                 case "kernel-subsample":
                     TimedKernelSubsample.Run(Option("sample"), (int)Number("features", 20), (int)Number("rows", 50_000));
+                    return 0;
+                case "sliced-fill":
+                    TimedSlicedFill.Run(Option("reference"), Option("sample"), (int)Number("repeat", 5));
                     return 0;
                 default:
                     return Fail($"unknown mode '{args[0]}'");
