@@ -42,7 +42,7 @@ internal static class NativeExecutable
                 || RuntimeInformation.ProcessArchitecture != Architecture.X64)
                 return null;
             var path = Path.Combine(portableDirectory, RelativePath);
-            if (!File.Exists(path) || !CpuHasInstructionSets() || !GlibcAtLeast(GlibcNeeded)) return null;
+            if (!File.Exists(path) || !CpuHasInstructionSets() || !GlibcAtLeast(GlibcNeeded) || !LibrariesLoad()) return null;
             return access(Encoding.UTF8.GetBytes(path + "\0"), ExecuteOk) == 0 ? Path.GetFullPath(path) : null;
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException or DllNotFoundException
@@ -84,7 +84,16 @@ internal static class NativeExecutable
         return text is not null && Version.Parse(text) >= needed;
     }
 
+    // The shared libraries it links besides glibc's own (ldd of the packed executable): zlib. Checked because a
+    // missing one would stop the executable after the process was already handed over. dlopen is in libc from
+    // glibc 2.34 on, which GlibcAtLeast has checked.
+    private static bool LibrariesLoad() => dlopen(Encoding.UTF8.GetBytes("libz.so.1\0"), LazyBinding) != IntPtr.Zero;
+
     private const int ExecuteOk = 1; // X_OK
+    private const int LazyBinding = 1; // RTLD_LAZY
+
+    [DllImport("libc", EntryPoint = "dlopen")]
+    private static extern IntPtr dlopen(byte[] file, int mode);
 
     [DllImport("libc", EntryPoint = "access", SetLastError = true)]
     private static extern int access(byte[] path, int mode);
