@@ -9,7 +9,8 @@ using GateTasks.Engine.Diagnostics;
 namespace GateTasks.MSBuild;
 
 /// <summary>
-/// One run of the engine (<c>gatetasks.dll</c>) in its own process, started with the dotnet host: it asks for the
+/// One run of the engine in its own process (the native executable, or <c>gatetasks.dll</c> with the dotnet host): it
+/// asks for the
 /// engine's record stream (<see cref="RunRecord"/>, a temporary file named in <see cref="RunRecord.EnvironmentVariable"/>)
 /// and keeps the console's lines only for a run that wrote no record (a host that could not start the engine at all).
 /// Cancellable from another thread.
@@ -50,13 +51,13 @@ internal sealed class EngineProcess
     }
 
     /// <summary>
-    /// Runs <c>host engine args</c> in <paramref name="workingDirectory"/>; throws what <see cref="Process.Start()"/>
-    /// throws when the host cannot start.
+    /// Runs <c>program args</c> in <paramref name="workingDirectory"/>; throws what <see cref="Process.Start()"/>
+    /// throws when the program cannot start.
     /// </summary>
-    public Result Run(string host, string engine, IReadOnlyList<string> args, string workingDirectory)
+    public Result Run(string program, IReadOnlyList<string> args, string workingDirectory)
     {
         var stream = Path.Combine(Path.GetTempPath(), "gatetasks-" + Guid.NewGuid().ToString("N") + ".jsonl");
-        var psi = new ProcessStartInfo(host, Quote(engine) + " " + string.Join(" ", args.Select(Quote)))
+        var psi = new ProcessStartInfo(program, string.Join(" ", args.Select(Quote)))
         {
             UseShellExecute = false,
             RedirectStandardOutput = true,
@@ -107,7 +108,7 @@ internal sealed class EngineProcess
         return records;
     }
 
-    // Windows-style quoting, which the dotnet host also parses on Unix.
+    // Windows-style quoting, which Process splits back into the same arguments on Unix too.
     private static string Quote(string arg) =>
         arg.Length > 0 && arg.IndexOfAny([' ', '\t', '"']) < 0 ? arg : "\"" + arg.Replace("\"", "\\\"") + "\"";
 }

@@ -72,13 +72,28 @@ public abstract class EngineTask : Task, ICancelableTask
         args.Add(Sample!);
     }
 
-    /// <summary>Runs the engine; null, with <paramref name="error"/> saying why, when the host could not start it.</summary>
+    /// <summary>
+    /// Runs the engine: the native executable beside <c>gatetasks.dll</c> where this machine can run it
+    /// (<see cref="GateTasks.Cli.NativeExecutable"/>), else <c>gatetasks.dll</c> with the dotnet host; null, with
+    /// <paramref name="error"/> saying why, when neither could start.
+    /// </summary>
     private protected EngineProcess.Result? RunEngine(IReadOnlyList<string> args, out string? error)
     {
         error = null;
+        if (GateTasks.Cli.NativeExecutable.UsableIn(Path.GetDirectoryName(Path.GetFullPath(Engine))!) is { } native)
+        {
+            try
+            {
+                return _engine.Run(native, args, EngineDirectory);
+            }
+            catch (Exception e) when (e is System.ComponentModel.Win32Exception or InvalidOperationException or IOException)
+            {
+                // It did not start at all: the portable engine runs as it would without it.
+            }
+        }
         try
         {
-            return _engine.Run(Host, Engine, args, EngineDirectory);
+            return _engine.Run(Host, [Engine, .. args], EngineDirectory);
         }
         catch (Exception e) when (e is System.ComponentModel.Win32Exception or InvalidOperationException or IOException)
         {

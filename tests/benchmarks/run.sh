@@ -65,7 +65,9 @@ python=/usr/bin/python3
 "$python" -c 'import numpy, scipy' 2>/dev/null || { say "needs $python with numpy and scipy (apt-get install python3-numpy python3-scipy)"; exit 3; }
 
 export DOTNET_CLI_TELEMETRY_OPTOUT=1 DOTNET_NOLOGO=1 MSBUILDDISABLENODEREUSE=1
-# The CLI as the packages ship it: published, with its ReadyToRun code (a build's output has none).
+# The CLI as the packages ship it: published, with its ReadyToRun code (a build's output has none) and the linux-x64
+# native executable, which `dotnet gatetasks.dll` hands over to where it can run, as the installed tool does
+# (GATETASKS_PORTABLE=1 times the portable tool instead).
 cli=${GATETASKS_BENCH_CLI:-$root/src/GateTasks.Cli/bin/Release/net8.0/publish/gatetasks.dll}
 harness=${GATETASKS_BENCH_HARNESS:-$root/tests/GateTasks.Benchmarks/bin/Release/net10.0/GateTasks.Benchmarks.dll}
 if [ "$build" = 1 ]; then

@@ -42,7 +42,12 @@ internal static class DiagnosticKindTokens
     /// <summary>The kind a <see cref="Token"/> names; null for any other text.</summary>
     public static DiagnosticKind? FromToken(string? token)
     {
+#if NET5_0_OR_GREATER
+        // The generic form: it needs no run-time code generation (the tool is compiled ahead of time).
+        foreach (var k in System.Enum.GetValues<DiagnosticKind>())
+#else
         foreach (DiagnosticKind k in System.Enum.GetValues(typeof(DiagnosticKind)))
+#endif
             if (string.Equals(k.Token(), token, System.StringComparison.Ordinal)) return k;
         return null;
     }

@@ -254,8 +254,9 @@ internal static class ReferenceFile
             var s = f.Summary;
             var h = f.Histogram;
             var q = new JsonArray();
-            foreach (var p in f.Quantiles) q.Add(new JsonArray(p.Probability, p.Value));
-            features.Add(new JsonObject
+            foreach (var p in f.Quantiles) q.Add((JsonNode)new JsonArray(p.Probability, p.Value));
+            // Added as a JsonNode: the generic Add<T> (which C# would pick) may wrap any value by reflection.
+            features.Add((JsonNode)new JsonObject
             {
                 ["name"] = f.Name,
                 ["column"] = f.Column,
@@ -290,7 +291,7 @@ internal static class ReferenceFile
         }
         var inputs = new JsonArray();
         foreach (var i in r.Inputs)
-            inputs.Add(new JsonObject { ["path"] = i.Path, ["bytes"] = i.Bytes, ["sha256"] = i.Sha256 });
+            inputs.Add((JsonNode)new JsonObject { ["path"] = i.Path, ["bytes"] = i.Bytes, ["sha256"] = i.Sha256 });
         return new JsonObject
         {
             ["format"] = r.FormatVersion,

@@ -71,7 +71,12 @@ internal static class RunOutcomes
     /// <summary>The outcome a <see cref="Token"/> names; null for any other text.</summary>
     public static RunOutcome? FromToken(string? token)
     {
+#if NET5_0_OR_GREATER
+        // The generic form: it needs no run-time code generation (the tool is compiled ahead of time).
+        foreach (var o in Enum.GetValues<RunOutcome>())
+#else
         foreach (RunOutcome o in Enum.GetValues(typeof(RunOutcome)))
+#endif
             if (string.Equals(o.Token(), token, StringComparison.Ordinal)) return o;
         return null;
     }

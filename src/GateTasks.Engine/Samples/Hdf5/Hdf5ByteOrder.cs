@@ -1,3 +1,4 @@
+using System.Diagnostics.CodeAnalysis;
 using System.Reflection;
 using PureHDF;
 
@@ -11,7 +12,16 @@ namespace GateTasks.Engine.Samples.Hdf5;
 /// </summary>
 internal static class Hdf5ByteOrder
 {
+    // The members read by name below, kept for a trimmed or ahead-of-time compiled tool (which would otherwise drop
+    // them, and every HDF5 number column would be refused as of unknown order). Number columns only: fixed and
+    // floating point are the bit fields asked about.
     /// <summary>Whether <paramref name="type"/> is big-endian; null when that cannot be told.</summary>
+    [DynamicDependency("_dataType", "PureHDF.VOL.Native.NativeDataType", "PureHDF")]
+    [DynamicDependency(DynamicallyAccessedMemberTypes.PublicProperties | DynamicallyAccessedMemberTypes.NonPublicProperties, "PureHDF.VOL.Native.DatatypeMessage", "PureHDF")]
+    [DynamicDependency(DynamicallyAccessedMemberTypes.PublicProperties | DynamicallyAccessedMemberTypes.NonPublicProperties, "PureHDF.VOL.Native.FixedPointBitFieldDescription", "PureHDF")]
+    [DynamicDependency(DynamicallyAccessedMemberTypes.PublicProperties | DynamicallyAccessedMemberTypes.NonPublicProperties, "PureHDF.VOL.Native.FloatingPointBitFieldDescription", "PureHDF")]
+    [DynamicDependency(DynamicallyAccessedMemberTypes.PublicFields, "PureHDF.VOL.Native.ByteOrder", "PureHDF")]
+    [UnconditionalSuppressMessage("Trimming", "IL2075", Justification = "The members read are kept by the DynamicDependency attributes above; tests/GateTasks.Cli.Tests reads big-endian HDF5 columns with the native executable (GATETASKS_TEST_EXECUTABLE).")]
     public static bool? IsBigEndian(IH5DataType type)
     {
         try
