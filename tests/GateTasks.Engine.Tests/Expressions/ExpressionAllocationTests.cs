@@ -17,14 +17,25 @@ public class ExpressionAllocationTests
         var output = new double[rows];
 
         compiled.Evaluate(columns, rows, output);
-        var before = GC.GetAllocatedBytesForCurrentThread();
-        compiled.Evaluate(columns, rows, output);
-        var allocated = GC.GetAllocatedBytesForCurrentThread() - before;
-
+        // The fewest bytes over a few calls: the runtime may allocate once on the calling thread while it
+        // recompiles a hot loop (on-stack replacement, tier-up), which this thread's counter also sees.
+        // Buffers made anew on each call would be 800 kB on every one of them.
+        var allocated = FewestBytesAllocated(() => compiled.Evaluate(columns, rows, output));
         Assert.True(allocated < 1024, $"second evaluation allocated {allocated} bytes");
         // A smaller batch reuses the larger buffers.
-        before = GC.GetAllocatedBytesForCurrentThread();
-        compiled.Evaluate(columns, rows / 3, output);
-        Assert.True(GC.GetAllocatedBytesForCurrentThread() - before < 1024);
+        allocated = FewestBytesAllocated(() => compiled.Evaluate(columns, rows / 3, output));
+        Assert.True(allocated < 1024, $"a smaller batch allocated {allocated} bytes");
+    }
+
+    private static long FewestBytesAllocated(Action run)
+    {
+        var fewest = long.MaxValue;
+        for (var repeat = 0; repeat < 5; repeat++)
+        {
+            var before = GC.GetAllocatedBytesForCurrentThread();
+            run();
+            fewest = Math.Min(fewest, GC.GetAllocatedBytesForCurrentThread() - before);
+        }
+        return fewest;
     }
 }
