@@ -15,19 +15,24 @@ internal static class NativeHandOver
         // The native executable is this same program compiled ahead of time: it never hands over.
         if (!RuntimeFeature.IsDynamicCodeSupported) return;
         if (NativeExecutable.UsableIn(AppContext.BaseDirectory) is not { } path) return;
-        var strings = new IntPtr[args.Length + 2];
+        // argv as execv takes it: pointers to NUL-terminated strings, then a null pointer; built by hand so the
+        // call needs no marshalling code (which the runtime would first have to generate and compile).
+        var count = args.Length + 1;
+        var argv = Marshal.AllocHGlobal(IntPtr.Size * (count + 1));
+        for (var i = 0; i <= count; i++) Marshal.WriteIntPtr(argv, i * IntPtr.Size, IntPtr.Zero);
         try
         {
-            strings[0] = Marshal.StringToCoTaskMemUTF8(path);
-            for (var i = 0; i < args.Length; i++) strings[i + 1] = Marshal.StringToCoTaskMemUTF8(args[i]);
-            execv(strings[0], strings); // returns only on failure
+            Marshal.WriteIntPtr(argv, 0, NativeExecutable.CString(path));
+            for (var i = 0; i < args.Length; i++) Marshal.WriteIntPtr(argv, (i + 1) * IntPtr.Size, NativeExecutable.CString(args[i]));
+            execv(Marshal.ReadIntPtr(argv), argv); // returns only on failure
         }
         finally
         {
-            foreach (var s in strings) Marshal.FreeCoTaskMem(s);
+            for (var i = 0; i < count; i++) Marshal.FreeHGlobal(Marshal.ReadIntPtr(argv, i * IntPtr.Size));
+            Marshal.FreeHGlobal(argv);
         }
     }
 
-    [DllImport("libc", EntryPoint = "execv", SetLastError = true)]
-    private static extern int execv(IntPtr path, IntPtr[] argv);
+    [DllImport("libc", EntryPoint = "execv")]
+    private static extern int execv(IntPtr path, IntPtr argv);
 }
