@@ -28,8 +28,9 @@ public sealed class ToolPackageTests : IDisposable
         File.Copy(Path.Combine(RepositoryRoot.Path, "docs", "precision-contract.schema.json"), Path.Combine(_dir, "docs", "precision-contract.schema.json"));
 
         var feed = Path.Combine(_dir, "feed");
+        // The pack compiles the native executable too (minutes, more on a busy machine): as long as the package feed allows.
         var pack = ProcessRunner.Run("dotnet", ["pack", Path.Combine(src, "GateTasks.Cli"), "-c", "Release", "-o", feed,
-            "-p:Version=0.0.1-e2e", "--nologo", "-nodeReuse:false"], _dir);
+            "-p:Version=0.0.1-e2e", "--nologo", "-nodeReuse:false"], _dir, timeoutSeconds: 900);
         Assert.True(pack.ExitCode == 0, pack.Stdout + pack.Stderr);
         Assert.True(File.Exists(Path.Combine(feed, "GateTasks.Cli.0.0.1-e2e.nupkg")));
 
