@@ -120,7 +120,11 @@ internal sealed class SampleStream
         pass._earlyFeature = pass.EarlyFeatures(visitFloat32 is not null);
         var readPass = pass._pass;
         if (visitFloat32 is not null && pass._earlyFeature.Any(f => f >= 0))
-            readPass = readPass with { OnDecoded = (column, values) => pass._earlyFeature[column] is var i and >= 0 && visitFloat32(i, values) };
+            readPass = readPass with
+            {
+                OnDecoded = (column, values) => pass._earlyFeature[column] is var i and >= 0 && visitFloat32(i, values),
+                UnreadOnceTaken = pass.UnreadOnceTaken(batchVisits?.Count ?? 0),
+            };
         foreach (var batch in sample.ReadBatches(pass.Columns, readPass))
         {
             var rows = batch.RowCount;
@@ -154,6 +158,16 @@ internal sealed class SampleStream
         for (var c = 0; c < early.Length; c++)
             if (readers[c] != 1) early[c] = -1;
         return early;
+    }
+
+    // Per column: whether its values, once taken as decoded by its one feature, are read by nothing else: no batch
+    // visitor (which may read any feature), no expression and no condition.
+    private bool[] UnreadOnceTaken(int batchVisits)
+    {
+        var read = new HashSet<string>(StringComparer.Ordinal);
+        foreach (var e in _inputs.Expressions.Concat(_inputs.Conditions).Append(_inputs.Selection))
+            if (e is not null) read.UnionWith(e.Columns);
+        return _earlyFeature.Select((f, c) => f >= 0 && batchVisits == 0 && !read.Contains(Columns[c])).ToArray();
     }
 
     // Buffers grow to the largest batch, then are reused. Only what is used: a derived buffer per expression, a selected
@@ -327,9 +341,7 @@ internal sealed class SampleStream
                 return;
             }
             var i = job - b;
-            // Taken as its column was decoded (DecodedFloat32Slice).
-            if (_deferredColumn[i] >= 0 && _earlyFeature[_deferredColumn[i]] == i && _batch!.TakenOnDecoding(_deferredColumn[i]))
-                return;
+            if (TakenOnDecoding(i)) return;
             // A float32 column read straight, with unit weights, is offered as stored: no conversion to doubles.
             if (visitFloat32 is not null && _deferredColumn[i] >= 0 && _inputs.Conditions[i] is null && _weightIndex < 0
                 && _batch!.Float32Column(_deferredColumn[i]) is { IsEmpty: false } stored && visitFloat32(i, stored))
@@ -341,10 +353,18 @@ internal sealed class SampleStream
             visit(i, values, featureWeights);
         }
         var jobs = b + _n;
-        if (jobs > 1 && _frame.Rows >= ParallelBatchRows && _pass.Parallelism > 1)
+        // Jobs with work left: with one or none, waking other threads would only cost time.
+        var pending = b;
+        for (var i = 0; i < _n && pending < 2; i++)
+            if (!TakenOnDecoding(i)) pending++;
+        if (pending > 1 && _frame.Rows >= ParallelBatchRows && _pass.Parallelism > 1)
             Parallel.For(0, jobs, new ParallelOptions { MaxDegreeOfParallelism = _pass.Parallelism }, One);
         else for (var job = 0; job < jobs; job++) One(job);
     }
+
+    // Whether the feature's values of this batch were taken as its column was decoded (DecodedFloat32Slice).
+    private bool TakenOnDecoding(int feature) =>
+        _deferredColumn[feature] >= 0 && _earlyFeature[_deferredColumn[feature]] == feature && _batch!.TakenOnDecoding(_deferredColumn[feature]);
 
     // A category's values of this batch, in row order, from the rows its condition kept: as stored floats, offered to
     // the float visitor, for a float32 column with unit weights (true when taken); else as doubles (and weights) into the
