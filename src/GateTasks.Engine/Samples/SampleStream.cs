@@ -66,6 +66,8 @@ internal sealed class SampleStream
     private long[] _fileRows = [];
     private FeatureView _frame;
 
+    // Whether a batch visitor reads the view: only they read the rows' places in their files.
+    private bool _viewRead;
     private long _events, _read;
     private double _largestWeight;
     // Per batch in doubles, then exactly: totals that do not depend on how batches are grouped.
@@ -118,6 +120,7 @@ internal sealed class SampleStream
     {
         var pass = new SampleStream(sample, inputs, weightColumn, settings ?? ReadPass.Default);
         pass._earlyFeature = pass.EarlyFeatures(visitFloat32 is not null);
+        pass._viewRead = batchVisits is { Count: > 0 };
         var readPass = pass._pass;
         if (visitFloat32 is not null && pass._earlyFeature.Any(f => f >= 0))
             readPass = readPass with
@@ -237,13 +240,14 @@ internal sealed class SampleStream
             }
             else _view[i] = batch.ColumnBuffer(_index[_inputs.FeatureColumns[i]!]);
         }
-        // The selection's mask (NaN counts as false); all ones without a selection.
+        // The selection's mask (NaN counts as false); without a selection it is not read (SelectOwn and Select read it
+        // only with one), so it is not filled either.
         if (_inputs.Selection is { } selection)
         {
             var selectionArgs = selection.Columns.Select(c => batch.ColumnBuffer(_index[c])).ToArray();
             selection.Evaluate(selectionArgs, rows, _mask.AsSpan(0, rows));
         }
-        else _mask.AsSpan(0, rows).Fill(1);
+
     }
 
     // A feature with a condition of its own (a category) keeps the rows that pass both; it is compacted on its own.
@@ -307,7 +311,7 @@ internal sealed class SampleStream
             }
             for (var i = 0; i < _n; i++) _view[i] = _selected[i];
         }
-        else
+        else if (_viewRead)
             for (var r = 0; r < rows; r++) _fileRows[r] = first + r;
         _frame.Rows = kept;
     }
