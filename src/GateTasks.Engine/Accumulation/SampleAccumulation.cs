@@ -106,12 +106,15 @@ internal sealed class SampleAccumulation
         var visits = new List<Action<FeatureView>>();
         if (_jointMoments is { } joint) visits.Add(joint.Add);
         if (_sliced is { } sliced) visits.Add(view => sliced.Add(view, _slicedFeatures!));
-        visits.Add(view =>
-        {
-            foreach (var w in view.Weights)
-                if (w < 0) NegativeWeightEvents++;
-            _pairSet.Add(view, parallelism);
-        });
+        // Without pairs or weights there is nothing to count: no visitor, so the features' values may be taken as decoded
+        // and their memory reused (SampleStream).
+        if (_pairs.Count > 0 || Contract.Sample.Weight is not null)
+            visits.Add(view =>
+            {
+                foreach (var w in view.Weights)
+                    if (w < 0) NegativeWeightEvents++;
+                _pairSet.Add(view, parallelism);
+            });
         return visits;
     }
 

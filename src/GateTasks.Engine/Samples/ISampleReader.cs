@@ -35,7 +35,10 @@ internal interface ISampleReader : IDisposable
     /// <summary>
     /// As <see cref="ReadBatches(IReadOnlyList{string}, int)"/>, offering each float32 column's slices to
     /// <paramref name="onDecoded"/> as soon as they are decoded; a reader that decodes no such columns ignores it.
+    /// <paramref name="unreadOnceTaken"/> (per requested column; null: none) marks the columns whose slices, once taken
+    /// on decoding, are never asked for again, neither as doubles nor as stored: the reader may then reuse their memory.
     /// </summary>
-    IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns, int parallelism, DecodedFloat32Slice? onDecoded) =>
+    IEnumerable<SampleBatch> ReadBatches(IReadOnlyList<string> columns, int parallelism, DecodedFloat32Slice? onDecoded,
+        IReadOnlyList<bool>? unreadOnceTaken = null) =>
         ReadBatches(columns, parallelism);
 }

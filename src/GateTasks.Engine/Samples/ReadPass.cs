@@ -11,6 +11,13 @@ internal sealed record ReadPass(string Phase, IProgress<ReadProgress>? Progress 
     /// <summary>Offered float32 columns as they are decoded (<see cref="DecodedFloat32Slice"/>); null: not offered.</summary>
     public DecodedFloat32Slice? OnDecoded { get; init; }
 
+    /// <summary>
+    /// Per requested column: true where a slice taken by <see cref="OnDecoded"/> is never read again, so the reader may
+    /// reuse the column's memory (<see cref="ISampleReader.ReadBatches(IReadOnlyList{string}, int, DecodedFloat32Slice?, IReadOnlyList{bool}?)"/>);
+    /// null: none.
+    /// </summary>
+    public IReadOnlyList<bool>? UnreadOnceTaken { get; init; }
+
     /// <summary>A silent pass on every core.</summary>
     public static readonly ReadPass Default = new("reading the sample");
 

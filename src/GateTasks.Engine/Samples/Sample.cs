@@ -138,7 +138,7 @@ internal sealed class Sample
             using var reopened = _readers[i] is null ? SampleReaderFactory.Open(file) : null;
             var reader = _readers[i] ?? reopened!;
             long inFile = 0;
-            foreach (var batch in reader.ReadBatches(columns, pass.Parallelism, pass.OnDecoded))
+            foreach (var batch in reader.ReadBatches(columns, pass.Parallelism, pass.OnDecoded, pass.UnreadOnceTaken))
             {
                 BatchFirstRowInFile = inFile;
                 inFile += batch.RowCount;

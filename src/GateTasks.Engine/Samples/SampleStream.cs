@@ -66,6 +66,8 @@ internal sealed class SampleStream
     private long[] _fileRows = [];
     private FeatureView _frame;
 
+    // Whether a batch visitor reads the view: only they read the rows' places in their files.
+    private bool _viewRead;
     private long _events, _read;
     private double _largestWeight;
     // Per batch in doubles, then exactly: totals that do not depend on how batches are grouped.
@@ -118,9 +120,14 @@ internal sealed class SampleStream
     {
         var pass = new SampleStream(sample, inputs, weightColumn, settings ?? ReadPass.Default);
         pass._earlyFeature = pass.EarlyFeatures(visitFloat32 is not null);
+        pass._viewRead = batchVisits is { Count: > 0 };
         var readPass = pass._pass;
         if (visitFloat32 is not null && pass._earlyFeature.Any(f => f >= 0))
-            readPass = readPass with { OnDecoded = (column, values) => pass._earlyFeature[column] is var i and >= 0 && visitFloat32(i, values) };
+            readPass = readPass with
+            {
+                OnDecoded = (column, values) => pass._earlyFeature[column] is var i and >= 0 && visitFloat32(i, values),
+                UnreadOnceTaken = pass.UnreadOnceTaken(batchVisits?.Count ?? 0),
+            };
         foreach (var batch in sample.ReadBatches(pass.Columns, readPass))
         {
             var rows = batch.RowCount;
@@ -154,6 +161,16 @@ internal sealed class SampleStream
         for (var c = 0; c < early.Length; c++)
             if (readers[c] != 1) early[c] = -1;
         return early;
+    }
+
+    // Per column: whether its values, once taken as decoded by its one feature, are read by nothing else: no batch
+    // visitor (which may read any feature), no expression and no condition.
+    private bool[] UnreadOnceTaken(int batchVisits)
+    {
+        var read = new HashSet<string>(StringComparer.Ordinal);
+        foreach (var e in _inputs.Expressions.Concat(_inputs.Conditions).Append(_inputs.Selection))
+            if (e is not null) read.UnionWith(e.Columns);
+        return _earlyFeature.Select((f, c) => f >= 0 && batchVisits == 0 && !read.Contains(Columns[c])).ToArray();
     }
 
     // Buffers grow to the largest batch, then are reused. Only what is used: a derived buffer per expression, a selected
@@ -223,13 +240,14 @@ internal sealed class SampleStream
             }
             else _view[i] = batch.ColumnBuffer(_index[_inputs.FeatureColumns[i]!]);
         }
-        // The selection's mask (NaN counts as false); all ones without a selection.
+        // The selection's mask (NaN counts as false); without a selection it is not read (SelectOwn and Select read it
+        // only with one), so it is not filled either.
         if (_inputs.Selection is { } selection)
         {
             var selectionArgs = selection.Columns.Select(c => batch.ColumnBuffer(_index[c])).ToArray();
             selection.Evaluate(selectionArgs, rows, _mask.AsSpan(0, rows));
         }
-        else _mask.AsSpan(0, rows).Fill(1);
+
     }
 
     // A feature with a condition of its own (a category) keeps the rows that pass both; it is compacted on its own.
@@ -293,7 +311,7 @@ internal sealed class SampleStream
             }
             for (var i = 0; i < _n; i++) _view[i] = _selected[i];
         }
-        else
+        else if (_viewRead)
             for (var r = 0; r < rows; r++) _fileRows[r] = first + r;
         _frame.Rows = kept;
     }
@@ -327,9 +345,7 @@ internal sealed class SampleStream
                 return;
             }
             var i = job - b;
-            // Taken as its column was decoded (DecodedFloat32Slice).
-            if (_deferredColumn[i] >= 0 && _earlyFeature[_deferredColumn[i]] == i && _batch!.TakenOnDecoding(_deferredColumn[i]))
-                return;
+            if (TakenOnDecoding(i)) return;
             // A float32 column read straight, with unit weights, is offered as stored: no conversion to doubles.
             if (visitFloat32 is not null && _deferredColumn[i] >= 0 && _inputs.Conditions[i] is null && _weightIndex < 0
                 && _batch!.Float32Column(_deferredColumn[i]) is { IsEmpty: false } stored && visitFloat32(i, stored))
@@ -341,10 +357,18 @@ internal sealed class SampleStream
             visit(i, values, featureWeights);
         }
         var jobs = b + _n;
-        if (jobs > 1 && _frame.Rows >= ParallelBatchRows && _pass.Parallelism > 1)
+        // Jobs with work left: with one or none, waking other threads would only cost time.
+        var pending = b;
+        for (var i = 0; i < _n && pending < 2; i++)
+            if (!TakenOnDecoding(i)) pending++;
+        if (pending > 1 && _frame.Rows >= ParallelBatchRows && _pass.Parallelism > 1)
             Parallel.For(0, jobs, new ParallelOptions { MaxDegreeOfParallelism = _pass.Parallelism }, One);
         else for (var job = 0; job < jobs; job++) One(job);
     }
+
+    // Whether the feature's values of this batch were taken as its column was decoded (DecodedFloat32Slice).
+    private bool TakenOnDecoding(int feature) =>
+        _deferredColumn[feature] >= 0 && _earlyFeature[_deferredColumn[feature]] == feature && _batch!.TakenOnDecoding(_deferredColumn[feature]);
 
     // A category's values of this batch, in row order, from the rows its condition kept: as stored floats, offered to
     // the float visitor, for a float32 column with unit weights (true when taken); else as doubles (and weights) into the

@@ -85,4 +85,36 @@ public sealed class DecodedFloat32OfferTests : IDisposable
         });
         Assert.Equal("offer failed", failure.Message);
     }
+
+    [Theory]
+    [InlineData(1)]
+    [InlineData(2)]
+    public void Columns_whose_buffers_are_passed_on_once_taken_still_offer_every_value_as_written(int threads)
+    {
+        // Four float32 columns, three of them marked as never read again once taken: a thread hands such a column's
+        // buffer to the next it decodes (a larger row group than the last outgrows it). The fourth, not marked, is
+        // read from the batches afterwards and must not have lent its buffer to the others.
+        var rows = RowGroups.Sum();
+        var random = new Random(20261204);
+        var columns = Enumerable.Range(0, 4).Select(_ => Enumerable.Range(0, rows).Select(_ => (float)(random.NextDouble() * 10 - 5)).ToArray()).ToArray();
+        var path = _folder.File("lent.parquet");
+        ParquetFixture.Write(path, columns.Select((v, c) => (ParquetFixtureColumn)new ParquetFixtureColumn<float>("f" + c, v, x => x)).ToArray(), RowGroups);
+        var offered = new ConcurrentDictionary<int, List<float[]>>();
+        var readAfterwards = new List<float>();
+        var takenButReadable = new List<float>();
+        using var reader = ParquetSampleReader.Open(path);
+        foreach (var batch in reader.ReadBatches(["f0", "f1", "f2", "f3"], threads, (column, values) =>
+                 {
+                     offered.GetOrAdd(column, _ => []).Add(values.ToArray());
+                     return column != 3;
+                 }, [true, true, false, true]))
+        {
+            Assert.True(batch.TakenOnDecoding(0) && batch.TakenOnDecoding(1) && batch.TakenOnDecoding(2) && !batch.TakenOnDecoding(3));
+            readAfterwards.AddRange(batch.Float32Column(3).ToArray());
+            takenButReadable.AddRange(batch.Float32Column(2).ToArray()); // not marked: still readable after it was taken
+        }
+        for (var c = 0; c < 3; c++) Assert.Equal(columns[c], offered[c].SelectMany(s => s).ToArray()); // every value once, in file order
+        Assert.Equal(columns[3], readAfterwards.ToArray());
+        Assert.Equal(columns[2], takenButReadable.ToArray());
+    }
 }

@@ -60,6 +60,18 @@ internal abstract class ParquetColumnDecoder
     /// </summary>
     public abstract ReadOnlySpan<float> Float32(int startRow, int count);
 
+    /// <summary>
+    /// Takes <paramref name="buffer"/> (one that <see cref="Release"/> gave) as the values buffer of the next read, when
+    /// this decoder holds none and it is of its stored type; whether it did.
+    /// </summary>
+    public abstract bool Adopt(Array? buffer);
+
+    /// <summary>
+    /// Gives up the values buffer, for another column's decoder to <see cref="Adopt"/>: the chunk last read can then no
+    /// longer be read from this decoder, until the next <see cref="Read"/>.
+    /// </summary>
+    public abstract Array Release();
+
     /// <summary>Whether row <paramref name="row"/> of the chunk last read is a null (for messages; not used per value).</summary>
     public abstract bool IsNull(int row);
 
@@ -74,6 +86,20 @@ internal abstract class ParquetColumnDecoder
         private bool _hasNulls;
 
         public override string Column => @field.Name;
+
+        public override bool Adopt(Array? buffer)
+        {
+            if (_values.Length != 0 || buffer is not T[] values) return false;
+            _values = values;
+            return true;
+        }
+
+        public override Array Release()
+        {
+            var values = _values;
+            _values = [];
+            return values;
+        }
 
         public override void Read(RowGroup rowGroup, int rows, SafeFileHandle file, PlainChunkReader plain, Func<ParquetRowGroupReader> library)
         {
