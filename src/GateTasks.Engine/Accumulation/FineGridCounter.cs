@@ -111,6 +111,98 @@ internal sealed class FineGridCounter
         AddTails(belowW, belowW2, aboveW, aboveW2);
     }
 
+    /// <summary>
+    /// Adds a batch of float32 values with unit weights to this grid and to the feature's histogram
+    /// <paramref name="coarse"/>, with one search for both (<see cref="UnionEdgeSearch"/>): the same cells, counts and
+    /// tail sums, in the same order, as <see cref="Add(ReadOnlySpan{float})"/> and <see cref="Histogram.Fill(ReadOnlySpan{float})"/>
+    /// one after the other. False, with nothing added, where a value is not finite (NaN and ±∞ go their own ways) or
+    /// the machine lacks the SIMD search: the caller then fills each on its own.
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveOptimization)]
+    public bool Add(ReadOnlySpan<float> values, Histogram coarse)
+    {
+        if (!UnionEdgeSearch.IsSupported || !AllFinite(values)) return false;
+        var shared = SharedWith(coarse.Axis);
+        var union = shared.Search;
+        var counts = shared.Counts;
+        var fineCells = union.SecondCells;
+        var overflow = _axis.Count + 1;
+        // Union cells below the fine grid's first edge are [0, below); those at or above its last, [above, end).
+        var (below, above) = (shared.Below, shared.Above);
+        double lo = _axis.Edges[0], hi = _axis.Edges[^1];
+        double belowW = 0, belowW2 = 0, aboveW = 0, aboveW2 = 0;
+        Span<int> cells = stackalloc int[Math.Min(values.Length, Block)];
+        for (var start = 0; start < values.Length; start += Block)
+        {
+            var block = values.Slice(start, Math.Min(Block, values.Length - start));
+            var blockCells = cells[..block.Length];
+            union.Cells(block, blockCells);
+            var outside = Outside(counts, below, above);
+            foreach (var c in blockCells) counts[c]++;
+            // As in the float fill: the tails are summed only in a block that reaches them, in the values' order.
+            if (Outside(counts, below, above) == outside) continue;
+            for (var i = 0; i < blockCells.Length; i++)
+            {
+                var c = fineCells[blockCells[i]];
+                if (c == 0)
+                {
+                    var d = lo - block[i];
+                    belowW += d;
+                    belowW2 += d * d;
+                }
+                else if (c == overflow)
+                {
+                    var d = block[i] - hi;
+                    aboveW += d;
+                    aboveW2 += d * d;
+                }
+            }
+        }
+        // Each union cell's count into the cells of both axes that hold it (exact integer sums).
+        var coarseCells = union.FirstCells;
+        var coarseCounts = shared.CoarseCounts;
+        var fineCounts = _unitCounts;
+        for (var u = 0; u < counts.Length; u++)
+        {
+            var k = counts[u];
+            if (k == 0) continue;
+            fineCounts[fineCells[u]] += k;
+            coarseCounts[coarseCells[u]] += k;
+            counts[u] = 0;
+        }
+        coarse.AddUnitCounts(coarseCounts, values.Length);
+        _unitEntries += values.Length;
+        AddTails(belowW, belowW2, aboveW, aboveW2);
+        return true;
+    }
+
+    // How many values so far fell in the union cells beyond the fine grid's outermost edges.
+    private static long Outside(long[] counts, int below, int above)
+    {
+        var n = 0L;
+        for (var u = 0; u < below; u++) n += counts[u];
+        for (var u = above; u < counts.Length; u++) n += counts[u];
+        return n;
+    }
+
+    // The union search with a histogram's axis, made for the first axis it meets (a feature keeps its axis); with
+    // per-union-cell counts of one batch and the histogram's cell counts, both zero between batches.
+    private SharedSearch SharedWith(Axis coarse)
+    {
+        if (_shared is { } s && ReferenceEquals(s.Coarse, coarse)) return s;
+        var union = new UnionEdgeSearch(coarse.Edges, _axis.Edges);
+        var fineCells = union.SecondCells;
+        var below = 0;
+        while (below < fineCells.Length && fineCells[below] == 0) below++;
+        var above = fineCells.Length;
+        while (above > 0 && fineCells[above - 1] == _axis.Count + 1) above--;
+        return _shared = new SharedSearch(coarse, union, new long[union.CellCount], new long[coarse.Count + 2], below, above);
+    }
+
+    private SharedSearch? _shared;
+
+    private sealed record SharedSearch(Axis Coarse, UnionEdgeSearch Search, long[] Counts, long[] CoarseCounts, int Below, int Above);
+
     /// <summary>Values whose cells are found in one call.</summary>
     private const int Block = 512;
 

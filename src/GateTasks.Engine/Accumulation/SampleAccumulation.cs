@@ -88,11 +88,15 @@ internal sealed class SampleAccumulation
             // Float32 values with unit weights, for a feature with no counter that needs doubles: the same fill and
             // moments, without converting the values.
             if (_spikes.Filters[i] is not null) return false;
-            _batch[i].Fill(values);
+            // A fine grid's search also finds the histogram's cells, where it can (FineGridCounter.Add).
+            if (_fine[i] is not { } fine || !fine.Add(values, _batch[i]))
+            {
+                _batch[i].Fill(values);
+                _fine[i]?.Add(values);
+            }
             _histograms[i].Absorb(_batch[i]);
             _stats[i].Add(values);
             _farTail[i]?.Add(values);
-            _fine[i]?.Add(values);
             return true;
         });
         Events += totals.Events;

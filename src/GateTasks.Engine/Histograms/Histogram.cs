@@ -210,6 +210,25 @@ internal sealed class Histogram
         AddCounts(values.Length);
     }
 
+    /// <summary>
+    /// Adds <paramref name="values"/> values of weight one, none of them NaN, given as a count per storage cell: the
+    /// sums <see cref="Fill(ReadOnlySpan{float})"/> gives them (a sum of ones is exact). Zeroes the counts.
+    /// </summary>
+    public void AddUnitCounts(Span<long> counts, int values)
+    {
+        if (counts.Length != _storage.CellCount) throw new ArgumentException("Cell count does not match the axis.", nameof(counts));
+        var sumW = _storage.SumW;
+        var sumW2 = _storage.SumW2;
+        for (var c = 0; c < counts.Length; c++)
+        {
+            if (counts[c] == 0) continue;
+            sumW[c] += counts[c];
+            sumW2[c] += counts[c];
+            counts[c] = 0;
+        }
+        Entries += values;
+    }
+
     // The unit-weight counts, zero between fills; the last slot counts NaN.
     private long[] Counts()
     {
