@@ -424,7 +424,7 @@ internal sealed class SampleStream
             && _batch!.Float32Column(_ownColumn[i]) is { IsEmpty: false } stored)
         {
             if (_ownFloats[i] is not { } floats || floats.Length < index.Length) _ownFloats[i] = floats = new float[_mask.Length];
-            for (var k = 0; k < index.Length; k++) floats[k] = stored[index[k]];
+            CategoryRows.Gather(stored, index, floats);
             if (visitFloat32(i, floats.AsSpan(0, index.Length))) return true;
         }
         var source = _frame.Feature(i); // converts a deferred column

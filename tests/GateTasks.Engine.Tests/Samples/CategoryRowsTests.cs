@@ -8,7 +8,7 @@ namespace GateTasks.Engine.Tests.Samples;
 /// numpy.flatnonzero(codes == v) and numpy.bincount of the categories' positions, with Debian's numpy 1.24 on Python
 /// 3.11, frozen into tests/fixtures/numpy/category_rows.json by tests/fixtures/numpy/make_category_rows_fixtures.py
 /// (min(floor(x * 4), 3) with NaN, -0.0 and codes in no category; twelve categories out of order, past the branch-free
-/// sort; categories that are not whole numbers with codes one ulp off each).
+/// sort, and six of them, two passes of four; categories that are not whole numbers with codes one ulp off each).
 /// </summary>
 public class CategoryRowsTests
 {
@@ -38,6 +38,24 @@ public class CategoryRowsTests
         Assert.Equal(counts, found);
         for (var k = 0; k < categories.Length; k++)
             Assert.True(rows[k].SequenceEqual(lists[k].Take(found[k])), $"{name}: category {categories[k]:R}: rows differ from numpy.flatnonzero");
+    }
+
+    [Theory]
+    [MemberData(nameof(Cases))]
+    public void Gathering_at_numpy_s_rows_gives_each_category_its_own_value(string name)
+    {
+        // The codes as float32 (every fixture code is a float, or NaN) gathered at numpy.flatnonzero(codes == v).
+        var (codes, categories, rows, _) = Case(name);
+        var floats = codes.Select(c => (float)c).ToArray();
+        for (var k = 0; k < categories.Length; k++)
+        {
+            var into = new float[rows[k].Length + 2];
+            CategoryRows.Gather(floats, rows[k], into);
+            Assert.All(into.Take(rows[k].Length), v => Assert.Equal((float)categories[k], v));
+            Assert.Equal(rows[k].Select(r => floats[r]), into.Take(rows[k].Length));
+        }
+        if (rows.FirstOrDefault(r => r.Length > 0) is { } some)
+            Assert.Throws<ArgumentException>(() => CategoryRows.Gather(floats.AsSpan(0, some[^1]), some, new float[some.Length]));
     }
 
     [Fact]
