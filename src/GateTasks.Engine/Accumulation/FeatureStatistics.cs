@@ -11,7 +11,24 @@ namespace GateTasks.Engine.Accumulation;
 /// </summary>
 internal sealed class FeatureStatistics
 {
-    private readonly WeightedMoments _moments = new();
+    private readonly WeightedMoments _moments;
+
+    public FeatureStatistics() : this(new WeightedMoments())
+    {
+    }
+
+    private FeatureStatistics(WeightedMoments moments) => _moments = moments;
+
+    /// <summary>An independent copy with the same state to the bit, for a feature that was given the same values.</summary>
+    public FeatureStatistics Copy()
+    {
+        var copy = new FeatureStatistics(_moments.Copy())
+        {
+            Min = Min, Max = Max, NanCount = NanCount, PositiveInfinityCount = PositiveInfinityCount, NegativeInfinityCount = NegativeInfinityCount,
+        };
+        (copy._shift, copy._s0, copy._s1, copy._s2, copy._s3, copy._s4) = (_shift, _s0, _s1, _s2, _s3, _s4);
+        return copy;
+    }
 
     // Power sums of (x − shift) for the kurtosis; the shift (the first value) keeps the cancellation moderate.
     private double _shift = double.NaN, _s0, _s1, _s2, _s3, _s4;

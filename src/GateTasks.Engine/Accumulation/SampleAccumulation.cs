@@ -17,6 +17,10 @@ internal sealed class SampleAccumulation
     private readonly Histogram[] _batch;
     private readonly ExactHistogram[] _histograms;
     private readonly FeatureStatistics[] _stats; // replaced when a state is set
+    // Per feature: an earlier feature given the same values and gathering the same things (the population fractions
+    // of category blocks over one 'by'), whose histogram and moments it copies after each read instead of filling its
+    // own; -1 for one that fills its own.
+    private readonly int[] _copyOf;
     private readonly FarTailCounter?[] _farTail;
     private readonly FineGridCounter?[] _fine;
     private readonly SpikeSeparation _spikes;
@@ -45,6 +49,9 @@ internal sealed class SampleAccumulation
             ? new FarTailCounter(t.Low, t.High) : null).ToArray();
         _fine = layouts.Select(l => l.FineEdges is { } e ? new FineGridCounter(e) : null).ToArray();
         _spikes = new SpikeSeparation(contract.Features);
+        _copyOf = contract.Features.Select((f, i) => Enumerable.Range(0, i).FirstOrDefault(j => GathersAlike(contract.Features, layouts, i, j), -1)).ToArray();
+        for (var i = 0; i < _copyOf.Length; i++)
+            if (_copyOf[i] >= 0 && _copyOf[_copyOf[i]] >= 0) _copyOf[i] = _copyOf[_copyOf[i]];
         var index = contract.Features.Select((f, i) => (f.Name, i)).ToDictionary(p => p.Name, p => p.i);
         // Covariance moments for every joint block (the global score reads them), kernel sums only for a
         // kernel-distance check, over the sample's subsample of at most kernel-rows rows.
@@ -77,6 +84,7 @@ internal sealed class SampleAccumulation
     {
         var totals = SampleStream.Run(sample, inputs, Contract.Sample.Weight, _spikes.Around((i, values, weights) =>
         {
+            if (_copyOf[i] >= 0) return;
             // Each batch fills a plain histogram, then is added exactly, so the cells do not depend on the batching.
             _batch[i].Fill(values, weights);
             _histograms[i].Absorb(_batch[i]);
@@ -88,6 +96,7 @@ internal sealed class SampleAccumulation
             // Float32 values with unit weights, for a feature with no counter that needs doubles: the same fill and
             // moments, without converting the values.
             if (_spikes.Filters[i] is not null) return false;
+            if (_copyOf[i] >= 0) return true;
             // A fine grid's search also finds the histogram's cells, where it can (FineGridCounter.Add).
             if (_fine[i] is not { } fine || !fine.Add(values, _batch[i]))
             {
@@ -99,9 +108,29 @@ internal sealed class SampleAccumulation
             _farTail[i]?.Add(values);
             return true;
         });
+        for (var i = 0; i < _copyOf.Length; i++)
+        {
+            if (_copyOf[i] < 0) continue;
+            _histograms[i] = _histograms[_copyOf[i]].CopyOn(_histograms[i].Axis);
+            _stats[i] = _stats[_copyOf[i]].Copy();
+        }
         Events += totals.Events;
         _sumW.Add(totals.ExactSumW);
         _sumW2.Add(totals.ExactSumW2);
+    }
+
+    // Whether feature i is given the same values as feature j (the same column or expression, under the same condition)
+    // and gathers only what j gathers, on the same binning: then its histogram and moments are j's, to the bit.
+    private bool GathersAlike(IReadOnlyList<FeatureSpec> features, IReadOnlyList<FeatureLayout> layouts, int i, int j)
+    {
+        var (a, b) = (features[i], features[j]);
+        return string.Equals(a.Expression, b.Expression, StringComparison.Ordinal)
+            && (a.Expression is not null || string.Equals(a.Column, b.Column, StringComparison.Ordinal))
+            && string.Equals(a.Condition?.Text, b.Condition?.Text, StringComparison.Ordinal)
+            && _spikes.Filters[i] is null && _spikes.Filters[j] is null
+            && _farTail[i] is null && _farTail[j] is null && _fine[i] is null && _fine[j] is null
+            && layouts[i].Reference.Axis.GetType() == layouts[j].Reference.Axis.GetType()
+            && layouts[i].Reference.Axis.SameBinning(layouts[j].Reference.Axis);
     }
 
     // Each visitor keeps to its own state, so the stream may run them beside each other and beside the features.

@@ -34,6 +34,7 @@ internal static class CategoryBlockReader
                 Name = $"{parent.Name}[{label}={text}]",
                 Location = r.At(valuesNode.Children[values.IndexOf(v)]),
                 Condition = new SelectionSpec($"({by}) == {text}", byAt),
+                Category = new CategoryCondition(by, v),
                 Checks = checks,
                 // A tolerance the category states for itself is taken as written; only inherited ones are scaled.
                 ShareScaling = scaling is null ? null

@@ -37,6 +37,9 @@ internal sealed record FeatureSpec(
     /// </summary>
     public ShareScaling? ShareScaling { get; init; }
 
+    /// <summary>For a category of a category block: its <see cref="Condition"/> in parts; null otherwise.</summary>
+    public CategoryCondition? Category { get; init; }
+
     /// <summary>
     /// Whether the reference keeps, and the sample gathers, the fine equal-probability grid of this feature: a
     /// continuous feature whose Wasserstein-1 distance is integrated on it or whose quantiles are read off it (coarse

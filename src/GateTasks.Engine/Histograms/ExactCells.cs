@@ -17,7 +17,12 @@ internal sealed class ExactCells
         _sumW2 = Enumerable.Range(0, count).Select(_ => new ExactSum()).ToArray();
     }
 
+    private ExactCells(ExactSum[] sumW, ExactSum[] sumW2) => (_sumW, _sumW2) = (sumW, sumW2);
+
     public int Count => _sumW.Length;
+
+    /// <summary>An independent copy, every cell's terms as they are.</summary>
+    public ExactCells Copy() => new(_sumW.Select(s => s.Copy()).ToArray(), _sumW2.Select(s => s.Copy()).ToArray());
 
     /// <summary>Adds a batch's cells exactly and clears them for the next batch.</summary>
     public void Absorb(WeightedStorage batch)

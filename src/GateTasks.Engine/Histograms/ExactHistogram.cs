@@ -10,13 +10,23 @@ namespace GateTasks.Engine.Histograms;
 internal sealed class ExactHistogram
 {
     private readonly ExactCells _cells;
-    private readonly ExactSum _nanW = new();
-    private readonly ExactSum _nanW2 = new();
+    private readonly ExactSum _nanW;
+    private readonly ExactSum _nanW2;
 
-    public ExactHistogram(Axis axis)
+    public ExactHistogram(Axis axis) : this(axis, new ExactCells(axis.Count + 2), new ExactSum(), new ExactSum())
     {
-        Axis = axis;
-        _cells = new ExactCells(axis.Count + 2);
+    }
+
+    private ExactHistogram(Axis axis, ExactCells cells, ExactSum nanW, ExactSum nanW2) => (Axis, _cells, _nanW, _nanW2) = (axis, cells, nanW, nanW2);
+
+    /// <summary>
+    /// An independent copy on <paramref name="axis"/> (the same binning): the same state to the bit, for a feature
+    /// that was given the same values.
+    /// </summary>
+    public ExactHistogram CopyOn(Axis axis)
+    {
+        if (axis.GetType() != Axis.GetType() || !Axis.SameBinning(axis)) throw new ArgumentException("Histograms differ in binning.", nameof(axis));
+        return new ExactHistogram(axis, _cells.Copy(), _nanW.Copy(), _nanW2.Copy()) { Entries = Entries, NanEntries = NanEntries };
     }
 
     public Axis Axis { get; }

@@ -11,8 +11,9 @@ namespace GateTasks.Engine.Samples;
 internal sealed class FeatureSources
 {
     private FeatureSources(IReadOnlyList<string?> columns, IReadOnlyList<CompiledExpression?> expressions, CompiledExpression? selection,
-        IReadOnlyList<CompiledExpression?> conditions)
+        IReadOnlyList<CompiledExpression?> conditions, IReadOnlyList<CompiledCategory?> categories)
     {
+        Categories = categories;
         FeatureColumns = columns;
         Expressions = expressions;
         Selection = selection;
@@ -21,6 +22,9 @@ internal sealed class FeatureSources
 
     /// <summary>Per feature: a condition of its own (a category of a category block), or null.</summary>
     public IReadOnlyList<CompiledExpression?> Conditions { get; }
+
+    /// <summary>Per feature: a category's condition in its parts (the same rows as its <see cref="Conditions"/> entry), or null.</summary>
+    public IReadOnlyList<CompiledCategory?> Categories { get; }
 
     /// <summary>Per feature: its column, or null for a derived feature.</summary>
     public IReadOnlyList<string?> FeatureColumns { get; }
@@ -46,9 +50,12 @@ internal sealed class FeatureSources
         var columns = new List<string?>();
         var expressions = new List<CompiledExpression?>();
         var conditions = new List<CompiledExpression?>();
+        var categories = new List<CompiledCategory?>();
         foreach (var f in contract.Features)
         {
             conditions.Add(f.Condition is { } condition ? ExpressionCompiler.Compile(condition.Text, available, condition.Location) : null);
+            categories.Add(f is { Condition: { } at, Category: { } category }
+                ? new CompiledCategory(ExpressionCompiler.Compile(category.By, available, at.Location), category.Value) : null);
             if (f.Expression is { } text)
             {
                 var compiled = ExpressionCompiler.Compile(text, available, f.ColumnLocation);
@@ -72,6 +79,6 @@ internal sealed class FeatureSources
                 throw new GateInputException(ErrorCodes.ContractExpression,
                     "The selection must be a condition (a comparison, 'and', 'or', 'not' or isnan), not a number.", s.Location);
         }
-        return new FeatureSources(columns, expressions, selection, conditions);
+        return new FeatureSources(columns, expressions, selection, conditions, categories);
     }
 }

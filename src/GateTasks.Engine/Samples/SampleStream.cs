@@ -56,6 +56,15 @@ internal sealed class SampleStream
     // Per feature: an earlier feature whose expression (condition) has the same text, whose values (mask) this batch it
     // takes rather than evaluating them again, or -1 (a category block repeats its expression for every feature).
     private readonly int[] _sameExpression, _sameCondition;
+    // Without a selection, the categories of a block (conditions by == value with the same by) are sorted out at once
+    // (CategoryRows), from one evaluation of by: per feature the first feature of its by (-1: no category); per such
+    // first feature the conditions' first features, their values, a feature whose expression is by itself (its
+    // values taken) or -1, and by's values when evaluated here.
+    private readonly int[] _byGroup;
+    private readonly int[]?[] _byConditions;
+    private readonly double[]?[] _byCategories;
+    private readonly int[] _byFeature;
+    private readonly double[]?[] _byValues;
     // Per feature: the batch column it reads straight (no expression, selection or condition), converted to doubles
     // only when first read as doubles; -1 for a feature whose values are ready before the visits.
     private readonly int[] _deferredColumn;
@@ -99,12 +108,38 @@ internal sealed class SampleStream
         _sameExpression = EarlierWithSameText(inputs.Expressions);
         _sameCondition = EarlierWithSameText(inputs.Conditions);
         _deferredColumn = new int[_n];
+        (_byGroup, _byConditions, _byCategories, _byFeature) = GroupCategories(inputs, _sameCondition);
+        _byValues = new double[]?[_n];
         _frame = new FeatureView(_view, _weights, weightColumn is not null, _fileRows) { Prepare = PrepareFeature };
     }
 
     private static int[] EarlierWithSameText(IReadOnlyList<Expressions.CompiledExpression?> expressions) =>
         expressions.Select((e, i) => e is null ? -1
             : Enumerable.Range(0, i).FirstOrDefault(j => expressions[j] is { } earlier && string.Equals(earlier.Text, e.Text, StringComparison.Ordinal), -1)).ToArray();
+
+    // The categories that share a by, each block's conditions once (the first feature of each condition text).
+    private static (int[] Group, int[]?[] Conditions, double[]?[] Categories, int[] ByFeature) GroupCategories(FeatureSources inputs, int[] sameCondition)
+    {
+        var n = inputs.Count;
+        var group = Enumerable.Repeat(-1, n).ToArray();
+        var conditions = new int[]?[n];
+        var categories = new double[]?[n];
+        var byFeature = Enumerable.Repeat(-1, n).ToArray();
+        if (inputs.Selection is not null) return (group, conditions, categories, byFeature);
+        for (var i = 0; i < n; i++)
+        {
+            if (inputs.Categories[i] is not { } category) continue;
+            var by = category.By.Text;
+            group[i] = Enumerable.Range(0, i + 1).First(j => inputs.Categories[j] is { } c && string.Equals(c.By.Text, by, StringComparison.Ordinal));
+            if (group[i] != i) continue;
+            var members = Enumerable.Range(i, n - i).Where(j => sameCondition[j] < 0 && inputs.Categories[j] is { } c && string.Equals(c.By.Text, by, StringComparison.Ordinal)).ToArray();
+            conditions[i] = members;
+            categories[i] = members.Select(j => inputs.Categories[j]!.Value).ToArray();
+            byFeature[i] = Enumerable.Range(0, n).FirstOrDefault(j => inputs.Conditions[j] is null && inputs.Expressions[j] is { } e
+                && string.Equals(e.Text, by, StringComparison.Ordinal), -1);
+        }
+        return (group, conditions, categories, byFeature);
+    }
 
     /// <summary>Every column the pass reads: the features', the expressions', the selection's and the weight.</summary>
     private List<string> Columns { get; }
@@ -262,6 +297,13 @@ internal sealed class SampleStream
             _ownValues[i] ??= new double[_mask.Length];
             if (_ownValues[i]!.Length < rows) { _ownValues[i] = new double[rows]; _ownWeights[i] = new double[rows]; }
             _ownWeights[i] ??= new double[_ownValues[i]!.Length];
+            if (_byGroup[i] >= 0)
+            {
+                // Sorted with the other categories of its by, at the first of them (earlier, or this one).
+                if (_byGroup[i] == i) SortCategories(i, batch);
+                if (_sameCondition[i] >= 0) _ownRows[i] = _ownRows[_sameCondition[i]];
+                continue;
+            }
             var own = _sameCondition[i] >= 0 ? _ownMask[_sameCondition[i]]! : _ownMask[i]!;
             if (_sameCondition[i] < 0)
             {
@@ -290,6 +332,31 @@ internal sealed class SampleStream
             }
             _ownRows[i] = k;
         }
+    }
+
+    // The rows of each condition of by's block, from by's values: a feature's (derived before this) or evaluated here.
+    private void SortCategories(int first, SampleBatch batch)
+    {
+        var rows = batch.RowCount;
+        ReadOnlySpan<double> by;
+        if (_byFeature[first] >= 0) by = _view[_byFeature[first]].AsSpan(0, rows);
+        else
+        {
+            var expression = _inputs.Categories[first]!.By;
+            if (_byValues[first] is not { } values || values.Length < rows) _byValues[first] = values = new double[_mask.Length];
+            expression.Evaluate(expression.Columns.Select(c => batch.ColumnBuffer(_index[c])).ToArray(), rows, values.AsSpan(0, rows));
+            by = values.AsSpan(0, rows);
+        }
+        var conditions = _byConditions[first]!;
+        var lists = new int[conditions.Length][];
+        for (var k = 0; k < conditions.Length; k++)
+        {
+            if (_ownIndex[conditions[k]] is not { } index || index.Length < rows) _ownIndex[conditions[k]] = index = new int[_mask.Length];
+            lists[k] = index;
+        }
+        Span<int> counts = stackalloc int[conditions.Length];
+        CategoryRows.Sort(by, _byCategories[first], lists, counts);
+        for (var k = 0; k < conditions.Length; k++) _ownRows[conditions[k]] = counts[k];
     }
 
     // Keeps the rows whose selection holds, compacted into the same view.
@@ -381,7 +448,7 @@ internal sealed class SampleStream
             && _batch!.Float32Column(_ownColumn[i]) is { IsEmpty: false } stored)
         {
             if (_ownFloats[i] is not { } floats || floats.Length < index.Length) _ownFloats[i] = floats = new float[_mask.Length];
-            for (var k = 0; k < index.Length; k++) floats[k] = stored[index[k]];
+            CategoryRows.Gather(stored, index, floats);
             if (visitFloat32(i, floats.AsSpan(0, index.Length))) return true;
         }
         var source = _frame.Feature(i); // converts a deferred column

@@ -34,6 +34,14 @@ internal sealed class ExactSum
         _terms.Add(x);
     }
 
+    /// <summary>An independent copy with the same terms (not added again: copied as they are).</summary>
+    public ExactSum Copy()
+    {
+        var copy = new ExactSum();
+        copy._terms.AddRange(_terms);
+        return copy;
+    }
+
     /// <summary>Adds every term of <paramref name="other"/>: exact, so merging in any order gives the same sum.</summary>
     public void Add(ExactSum other)
     {

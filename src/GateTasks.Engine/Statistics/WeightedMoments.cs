@@ -95,6 +95,9 @@ internal sealed class WeightedMoments
         Merge(batch);
     }
 
+    /// <summary>An independent copy, to the bit (every field is a number).</summary>
+    internal WeightedMoments Copy() => (WeightedMoments)MemberwiseClone();
+
     internal double[] State() => [Count, SumOfWeights, SumOfSquaredWeights, _pivot, _meanFromPivot, _sumSquaredDeviations];
 
     internal void Restore(ReadOnlySpan<double> s)

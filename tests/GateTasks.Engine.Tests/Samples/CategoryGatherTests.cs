@@ -76,17 +76,21 @@ public sealed class CategoryGatherTests : IDisposable
         """;
 
     [Theory]
-    [InlineData(false)]
-    [InlineData(true)]
-    public void Each_category_receives_the_values_a_selection_of_it_keeps(bool weighted)
+    [InlineData(false, "c", "", new[] { 0, 1, 2 })]
+    [InlineData(true, "c", "", new[] { 0, 1, 2 })]
+    // By an expression, with the fractions (a feature whose expression is the block's by: its values are taken), the
+    // categories out of order and one (5) no row has.
+    [InlineData(false, "min(c * 2, 3)", ", fraction-max: 0.01", new[] { 2, 0, 5, 3 })]
+    [InlineData(true, "min(c * 2, 3)", ", fraction-max: 0.01", new[] { 2, 0, 5, 3 })]
+    public void Each_category_receives_the_values_a_selection_of_it_keeps(bool weighted, string by, string fractions, int[] values)
     {
         var path = WriteSample();
-        var block = Stream(Contract(weighted, null, "    categories: { by: c, values: [0, 1, 2] }"), path);
-        for (var v = 0; v < 3; v++)
+        var block = Stream(Contract(weighted, null, $"    categories: {{ by: \"{by}\", values: [{string.Join(", ", values)}]{fractions} }}"), path);
+        for (var v = 0; v < values.Length; v++)
         {
-            var selected = Stream(Contract(weighted, string.Create(CultureInfo.InvariantCulture, $"c == {v}"), ""), path)[0];
-            // Features: x, then x[c=0], x[c=1], x[c=2].
-            var category = block[1 + v];
+            var selected = Stream(Contract(weighted, string.Create(CultureInfo.InvariantCulture, $"{by} == {values[v]}"), ""), path).GetValueOrDefault(0, []);
+            // Features: x, then one per category in the order listed (then the fractions).
+            var category = block.GetValueOrDefault(1 + v, []);
             Assert.Equal(selected.Count, category.Count);
             for (var b = 0; b < selected.Count; b++)
             {
