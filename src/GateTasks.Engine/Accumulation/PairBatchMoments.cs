@@ -29,7 +29,7 @@ internal sealed class PairBatchMoments
     public const int SliceRows = 2048;
 
     private const int Lanes = 4;
-    // Per column: Σx (first pass), then Σd², Σd³, Σd⁴ about the batch mean.
+    // Per column: Σ(x − shift) (first pass), then Σd², Σd³, Σd⁴ about the batch mean.
     private const int ColumnSlots = 4;
     // Per pair: Σ dx·dy, dx²·dy, dx·dy², dx³·dy, dx²·dy², dx·dy³ (M_11, M_21, M_12, M_31, M_22, M_13).
     private const int PairSlots = 6;
@@ -50,6 +50,10 @@ internal sealed class PairBatchMoments
         if (_partials.Length < slices * slots) _partials = new Vector256<double>[slices * slots];
         var partials = _partials;
         Array.Clear(partials, 0, slices * slots);
+        // First pass: each column's sum of deviations from its batch's first value, so the mean keeps the deviations'
+        // digits when the values sit far from zero.
+        var shifts = new double[columns.Count];
+        for (var c = 0; c < columns.Count; c++) shifts[c] = columns[c]()[0];
         Parallel.For(0, slices, options, s =>
         {
             var (from, count) = (s * SliceRows, Math.Min(SliceRows, rows - s * SliceRows));
@@ -59,12 +63,12 @@ internal sealed class PairBatchMoments
             {
                 ref var sum = ref partials[s * slots + c * ColumnSlots];
                 var column = columns[c]().Slice(from, count);
-                Sum(column[..whole], ref sum);
-                if (whole < count) Sum(Padded(column[whole..], 0, tail), ref sum);
+                Sum(column[..whole], shifts[c], ref sum);
+                if (whole < count) Sum(Padded(column[whole..], shifts[c], tail), shifts[c], ref sum);
             }
         });
         var means = new double[columns.Count];
-        for (var c = 0; c < columns.Count; c++) means[c] = Total(partials, slices, slots, c * ColumnSlots) / rows;
+        for (var c = 0; c < columns.Count; c++) means[c] = shifts[c] + Total(partials, slices, slots, c * ColumnSlots) / rows;
         Parallel.For(0, slices, options, s =>
         {
             var (from, count) = (s * SliceRows, Math.Min(SliceRows, rows - s * SliceRows));
@@ -122,11 +126,12 @@ internal sealed class PairBatchMoments
     // The kernels take whole registers of rows only (their loops call nothing, so the sums stay in registers) and add
     // their lane sums to `into`.
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private static void Sum(ReadOnlySpan<double> x, ref Vector256<double> into)
+    private static void Sum(ReadOnlySpan<double> x, double shift, ref Vector256<double> into)
     {
         ref var a = ref MemoryMarshal.GetReference(x);
+        var m = Vector256.Create(shift);
         var sum = into;
-        for (var i = 0; i < x.Length; i += Lanes) sum += Vector256.LoadUnsafe(ref a, (nuint)i);
+        for (var i = 0; i < x.Length; i += Lanes) sum += Vector256.LoadUnsafe(ref a, (nuint)i) - m;
         into = sum;
     }
 
