@@ -32,46 +32,43 @@ internal sealed class PairAccumulation
         _columns = columns.Values.ToArray();
     }
 
-    /// <summary>Rows from which a batch's columns, pairs and lanes are spread over threads.</summary>
+    /// <summary>Rows from which a batch's columns, pairs and slices are spread over threads.</summary>
     private const int ParallelRows = 8192;
+
+    private readonly PairBatchMoments _moments = new();
 
     /// <summary>The pairs, in declared order.</summary>
     public IReadOnlyList<PairCorrelation> Pairs { get; }
 
     /// <summary>
     /// Adds a batch to every pair, on up to <paramref name="parallelism"/> threads: the columns side by side, then the
-    /// pairs' cells side by side, then the lanes' groups side by side. Each step writes only its own column's, pair's or
-    /// group's state, so the numbers do not depend on the threads.
+    /// pairs' cells side by side, then the unit-weight pairs' co-moments slice by slice (<see cref="PairBatchMoments"/>).
+    /// Each step writes only its own column's, pair's or slice's state, so the numbers do not depend on the threads.
     /// </summary>
     public void Add(Samples.FeatureView view, int parallelism = 1)
     {
         // A small batch stays on the calling thread (as the stream keeps its visits of small batches on one).
         var options = new ParallelOptions { MaxDegreeOfParallelism = view.Rows < ParallelRows ? 1 : Math.Max(1, parallelism) };
         Parallel.ForEach(_columns, options, column => column.Prepare(view));
-        // Pairs of unit weight without NaN leave their values' and ranks' co-moments to the lanes, four at a time.
-        var laned = new bool[Pairs.Count];
-        Parallel.For(0, Pairs.Count, options, p => laned[p] = Pairs[p].AddPrepared(view, PairMomentLanes.Supported));
-        var lanes = new List<(WeightedCorrelation Target, PairColumn First, PairColumn Second, bool Ranks)>();
+        // Pairs of unit weight without NaN leave their values' and ranks' co-moments to the batch's vectorised sums.
+        var shared = new bool[Pairs.Count];
+        Parallel.For(0, Pairs.Count, options, p => shared[p] = Pairs[p].AddPrepared(view, true));
+        var columns = new List<PairBatchMoments.Column>();
+        var columnIndex = new Dictionary<(PairColumn, bool), int>();
+        int Of(PairColumn column, bool ranks)
+        {
+            if (columnIndex.TryGetValue((column, ranks), out var k)) return k;
+            columns.Add(ranks ? () => column.Ranks : () => view.Feature(column.Feature));
+            return columnIndex[(column, ranks)] = columns.Count - 1;
+        }
+        var pairs = new List<(int X, int Y, WeightedCorrelation Target)>();
         for (var p = 0; p < Pairs.Count; p++)
-            if (laned[p])
+            if (shared[p])
             {
-                lanes.Add((Pairs[p].PearsonMoments, Pairs[p].First, Pairs[p].Second, false));
-                lanes.Add((Pairs[p].SpearmanMoments, Pairs[p].First, Pairs[p].Second, true));
+                var (first, second) = (Pairs[p].First, Pairs[p].Second);
+                pairs.Add((Of(first, false), Of(second, false), Pairs[p].PearsonMoments));
+                pairs.Add((Of(first, true), Of(second, true), Pairs[p].SpearmanMoments));
             }
-        var width = PairMomentLanes.Width;
-        Parallel.For(0, (lanes.Count + width - 1) / width, options, group => AddLanes(view, lanes, group * width));
-    }
-
-    // One group of up to four pairs' co-moments from lanes[k], into their targets.
-    private static void AddLanes(Samples.FeatureView view, List<(WeightedCorrelation Target, PairColumn First, PairColumn Second, bool Ranks)> lanes, int k)
-    {
-        ReadOnlySpan<double> Of(PairColumn column, bool ranks) => ranks ? column.Ranks : view.Feature(column.Feature);
-        var width = PairMomentLanes.Width;
-        var n = Math.Min(width, lanes.Count - k);
-        // Lanes past the last pair repeat the group's first (not read).
-        var l = Enumerable.Range(k, width).Select(j => lanes[j < k + n ? j : k]).ToArray();
-        PairMomentLanes.Add(l.Take(n).Select(g => g.Target).ToArray(),
-            Of(l[0].First, l[0].Ranks), Of(l[0].Second, l[0].Ranks), Of(l[1].First, l[1].Ranks), Of(l[1].Second, l[1].Ranks),
-            Of(l[2].First, l[2].Ranks), Of(l[2].Second, l[2].Ranks), Of(l[3].First, l[3].Ranks), Of(l[3].Second, l[3].Ranks));
+        _moments.Add(columns, pairs, view.Rows, options);
     }
 }

@@ -65,12 +65,12 @@ internal sealed class PairCorrelation
     internal void AddPrepared(Samples.FeatureView view) => AddPrepared(view, false);
 
     /// <summary>
-    /// Adds a batch whose columns are prepared; with <paramref name="leaveLaneMoments"/>, a batch of unit weights
+    /// Adds a batch whose columns are prepared; with <paramref name="leaveUnitMoments"/>, a batch of unit weights
     /// without NaN in either column gets its cells only, and true is returned: its coefficients' moments are then the
-    /// caller's to add (<see cref="PairMomentLanes"/>, from the columns as they are, into <see cref="PearsonMoments"/>
+    /// caller's to add (<see cref="PairBatchMoments"/>, from the columns as they are, into <see cref="PearsonMoments"/>
     /// and <see cref="SpearmanMoments"/>).
     /// </summary>
-    internal bool AddPrepared(Samples.FeatureView view, bool leaveLaneMoments)
+    internal bool AddPrepared(Samples.FeatureView view, bool leaveUnitMoments)
     {
         ReadOnlySpan<double> x = view.Feature(_first.Feature), y = view.Feature(_second.Feature), u = _first.Ranks, v = _second.Ranks;
         ReadOnlySpan<int> cx = _first.Cells, cy = _second.Cells;
@@ -103,7 +103,7 @@ internal sealed class PairCorrelation
             else Joint.Fill(x, y, ws);
         }
         if (Joint is not null) Joint.MoveCellsInto(_cells!);
-        if (leaveLaneMoments && ws.IsEmpty && !_first.HasNaN && !_second.HasNaN) return true;
+        if (leaveUnitMoments && ws.IsEmpty && !_first.HasNaN && !_second.HasNaN) return true;
         _pearson.AddBatch(x, y, ws);
         _spearman.AddBatch(u, v, ws);
         return false;
