@@ -90,22 +90,7 @@ internal sealed class FineGridCounter
             // Values beyond the outermost edges are rare (those edges hold the whole reference): look for them only
             // in a block that has some, in the values' order, so the tail sums are added as before.
             if (counts[0] == under && counts[overflow] == over) continue;
-            for (var i = 0; i < blockCells.Length; i++)
-            {
-                var c = blockCells[i];
-                if (c == 0)
-                {
-                    var d = lo - block[i];
-                    belowW += d;
-                    belowW2 += d * d;
-                }
-                else if (c == overflow)
-                {
-                    var d = block[i] - hi;
-                    aboveW += d;
-                    aboveW2 += d * d;
-                }
-            }
+            AddTailTerms(block, blockCells, null, overflow, lo, hi, ref belowW, ref belowW2, ref aboveW, ref aboveW2);
         }
         _unitEntries += values.Length;
         AddTails(belowW, belowW2, aboveW, aboveW2);
@@ -141,22 +126,7 @@ internal sealed class FineGridCounter
             foreach (var c in blockCells) counts[c]++;
             // As in the float fill: the tails are summed only in a block that reaches them, in the values' order.
             if (Outside(counts, below, above) == outside) continue;
-            for (var i = 0; i < blockCells.Length; i++)
-            {
-                var c = fineCells[blockCells[i]];
-                if (c == 0)
-                {
-                    var d = lo - block[i];
-                    belowW += d;
-                    belowW2 += d * d;
-                }
-                else if (c == overflow)
-                {
-                    var d = block[i] - hi;
-                    aboveW += d;
-                    aboveW2 += d * d;
-                }
-            }
+            AddTailTerms(block, blockCells, fineCells, overflow, lo, hi, ref belowW, ref belowW2, ref aboveW, ref aboveW2);
         }
         // Each union cell's count into the cells of both axes that hold it (exact integer sums).
         var coarseCells = union.FirstCells;
@@ -202,6 +172,29 @@ internal sealed class FineGridCounter
     private SharedSearch? _shared;
 
     private sealed record SharedSearch(Axis Coarse, UnionEdgeSearch Search, long[] Counts, long[] CoarseCounts, int Below, int Above);
+
+    // The tails' distances beyond the outermost edges, in the values' order: of the values whose grid cell (through
+    // map, where the cells are another axis's) is the underflow (0) or the overflow.
+    private static void AddTailTerms(ReadOnlySpan<float> block, ReadOnlySpan<int> cells, int[]? map, int overflow, double lo, double hi,
+        ref double belowW, ref double belowW2, ref double aboveW, ref double aboveW2)
+    {
+        for (var i = 0; i < cells.Length; i++)
+        {
+            var c = map is null ? cells[i] : map[cells[i]];
+            if (c == 0)
+            {
+                var d = lo - block[i];
+                belowW += d;
+                belowW2 += d * d;
+            }
+            else if (c == overflow)
+            {
+                var d = block[i] - hi;
+                aboveW += d;
+                aboveW2 += d * d;
+            }
+        }
+    }
 
     /// <summary>Values whose cells are found in one call.</summary>
     private const int Block = 512;
