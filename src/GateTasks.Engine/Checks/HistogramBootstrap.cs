@@ -5,6 +5,10 @@ namespace GateTasks.Engine.Checks;
 /// <summary>Three distances, D(a₀, b₀), D(a₁, b₁) and D(a₂, b₂), computed together.</summary>
 internal delegate (double First, double Second, double Third) ThreeDistances(double[] a0, double[] b0, double[] a1, double[] b1, double[] a2, double[] b2);
 
+/// <summary>Four distances, D(a₀, b₀) … D(a₃, b₃), computed together.</summary>
+internal delegate (double First, double Second, double Third, double Fourth) FourDistances(double[] a0, double[] b0, double[] a1, double[] b1,
+    double[] a2, double[] b2, double[] a3, double[] b3);
+
 /// <summary>Contents of one histogram's cells: Σw and Σw².</summary>
 internal readonly record struct CellContents(double[] SumW, double[] SumW2);
 
@@ -102,10 +106,11 @@ internal static class HistogramBootstrap
     /// κ·Poisson(μ/κ), with κ = Σw²/Σw of that cell (mixed like the means on the sample's side): exact for unit weights,
     /// the compound-Poisson scaling of Kish (1965)'s effective count otherwise, so sparse cells keep their skew and
     /// never go negative. Cells with a mean or variance that is not positive are held at their mean. Null when the
-    /// observed distance is within the tolerance.
+    /// observed distance is within the tolerance. <c>four</c>, when given, computes four replicas' distances at once
+    /// (each bit for bit what <c>distance</c> gives, only faster); the draws are the same either way.
     /// </summary>
     public static double[]? BoundaryReplicas(CellContents reference, CellContents sample, Func<double[], double[], double> distance,
-        double estimate, double tolerance, int seed)
+        double estimate, double tolerance, int seed, FourDistances? four = null)
     {
         if (!(estimate > tolerance)) return null;
         double ta = 0, ta2 = 0, tb = 0, tb2 = 0;
@@ -144,19 +149,47 @@ internal static class HistogramBootstrap
         var rng = new SeededSampler(seed + 3);
         var referenceLaws = new ScaledPoissonCells(reference.SumW, reference.SumW2);
         var mixedLaws = new ScaledPoissonCells(mixed, mixedW2);
-        var a = new double[n];
-        var b = new double[n];
         var result = new double[Replicas];
+        // Replicas are drawn one after the other as always; with `four`, four of them are kept and measured together.
+        var lanes = four is null ? 1 : 4;
+        var a = new double[lanes][];
+        var b = new double[lanes][];
+        for (var l = 0; l < lanes; l++)
+        {
+            a[l] = new double[n];
+            b[l] = new double[n];
+        }
         for (var r = 0; r < Replicas; r++)
         {
-            for (var i = 0; i < n; i++)
+            var lane = r % lanes;
+            DrawPair(referenceLaws, mixedLaws, a[lane], b[lane], rng);
+            if (four is null)
             {
-                a[i] = referenceLaws.Draw(i, rng);
-                b[i] = mixedLaws.Draw(i, rng);
+                result[r] = distance(a[0], b[0]);
+                continue;
             }
-            result[r] = distance(a, b);
+            if (lane < 3 && r < Replicas - 1) continue;
+            // The last group may be short (Replicas not a multiple of four): its unused lanes repeat its first.
+            for (var l = lane + 1; l < 4; l++)
+                (a[l], b[l]) = (a[0], b[0]);
+            var (d0, d1, d2, d3) = four(a[0], b[0], a[1], b[1], a[2], b[2], a[3], b[3]);
+            var first = r - lane;
+            result[first] = d0;
+            if (lane >= 1) result[first + 1] = d1;
+            if (lane >= 2) result[first + 2] = d2;
+            if (lane >= 3) result[first + 3] = d3;
         }
         return result;
+    }
+
+    /// <summary>One replica's cells: each cell's reference draw, then its boundary-sample draw, cell after cell.</summary>
+    private static void DrawPair(ScaledPoissonCells referenceLaws, ScaledPoissonCells mixedLaws, double[] a, double[] b, SeededSampler rng)
+    {
+        for (var i = 0; i < a.Length; i++)
+        {
+            a[i] = referenceLaws.Draw(i, rng);
+            b[i] = mixedLaws.Draw(i, rng);
+        }
     }
 
     /// <summary>
@@ -181,6 +214,7 @@ internal static class HistogramBootstrap
             }
         }
 
+        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
         public double Draw(int i, SeededSampler rng) => _kappa[i] > 0 ? _kappa[i] * rng.Poisson(in _laws[i]) : _mean[i];
     }
 

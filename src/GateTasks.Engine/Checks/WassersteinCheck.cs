@@ -43,19 +43,24 @@ internal static class WassersteinCheck
             var (x, y, z) = Wasserstein.FineGridThree(edges, a0, b0, a1, b1, a2, b2);
             return (x / sigma, y / sigma, z / sigma);
         }
-        return Decide(c, Packed(reference), Packed(sample), Distance, sigma, $"fine grid of {edges.Length - 1} cells", spec, decision, Three);
+        (double, double, double, double) Four(double[] a0, double[] b0, double[] a1, double[] b1, double[] a2, double[] b2, double[] a3, double[] b3)
+        {
+            var (w, x, y, z) = Wasserstein.FineGridFour(edges, a0, b0, a1, b1, a2, b2, a3, b3);
+            return (w / sigma, x / sigma, y / sigma, z / sigma);
+        }
+        return Decide(c, Packed(reference), Packed(sample), Distance, sigma, $"fine grid of {edges.Length - 1} cells", spec, decision, Three, Four);
     }
 
     private static CellContents Packed(FineGridCells g) =>
         new([g.BelowMoment, .. g.SumW, g.AboveMoment], [g.BelowMoment2, .. g.SumW2, g.AboveMoment2]);
 
     private static Measurement Decide(FeatureComparison c, CellContents reference, CellContents surrogate, Func<double[], double[], double> distance,
-        double sigma, string grid, ToleranceCheck spec, DecisionSettings decision, ThreeDistances? three = null)
+        double sigma, string grid, ToleranceCheck spec, DecisionSettings decision, ThreeDistances? three = null, FourDistances? four = null)
     {
         var value = distance(reference.SumW, surrogate.SumW);
         var seed = HistogramBootstrap.Seed(c.Spec.Name, spec.Key);
         var (se, bias) = HistogramBootstrap.StandardErrorsAndBias(reference, surrogate, distance, value, seed, three);
-        var boundary = HistogramBootstrap.BoundaryReplicas(reference, surrogate, distance, value, spec.Tolerance, seed);
+        var boundary = HistogramBootstrap.BoundaryReplicas(reference, surrogate, distance, value, spec.Tolerance, seed, four);
         return DistanceDecision.Measure(value, bias, se, boundary, spec, decision, c.Surrogate.Entries,
             $"W1/σ_ref {InvariantNumber.Short(Math.Max(0, value - bias))}",
             [new("w1", InvariantNumber.Exact(value * sigma)), new("reference_std", InvariantNumber.Exact(sigma)), new("w1_grid", grid)]);

@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using MathNet.Numerics;
 
 namespace GateTasks.Engine.Statistics;
@@ -28,6 +29,8 @@ internal sealed class SeededSampler
         return z ^ (z >> 31);
     }
 
+    // Inlined (as are the other small steps of a draw): the bootstraps call these millions of times per check.
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private ulong Next()
     {
         var result = unchecked(ulong.RotateLeft(_s1 * 5, 7) * 9);
@@ -42,6 +45,7 @@ internal sealed class SeededSampler
     }
 
     /// <summary>A uniform number in [0, 1), of 53 random bits.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double Uniform() => (Next() >> 11) * (1.0 / (1UL << 53));
 
     /// <summary>
@@ -50,19 +54,31 @@ internal sealed class SeededSampler
     /// the uniform taken from separate bits of one draw, the tail beyond R by Marsaglia's (1964) method. Exact; about
     /// one draw a number.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double Normal()
+    {
+        // The rectangle's test, which most draws pass, inline; the wedge and the tail apart.
+        var bits = Next();
+        var u = 2 * ((bits >> 11) * (1.0 / (1UL << 53))) - 1;
+        var i = (int)(bits & (ZigguratLayers - 1));
+        return Math.Abs(u) < ZigguratRatio[i] ? u * ZigguratX[i] : NormalOutsideRectangle(u, i);
+    }
+
+    /// <summary>The rest of <see cref="Normal"/> for a draw outside its layer's rectangle, then further draws as needed.</summary>
+    [MethodImpl(MethodImplOptions.NoInlining)]
+    private double NormalOutsideRectangle(double u, int i)
     {
         while (true)
         {
-            var bits = Next();
-            var u = 2 * ((bits >> 11) * (1.0 / (1UL << 53))) - 1;
-            var i = (int)(bits & (ZigguratLayers - 1));
-            if (Math.Abs(u) < ZigguratRatio[i]) return u * ZigguratX[i];
             if (i == 0) return NormalTail(u < 0);
             var x = u * ZigguratX[i];
             var f0 = Math.Exp(-0.5 * (ZigguratX[i] * ZigguratX[i] - x * x));
             var f1 = Math.Exp(-0.5 * (ZigguratX[i + 1] * ZigguratX[i + 1] - x * x));
             if (f1 + Uniform() * (f0 - f1) < 1.0) return x;
+            var bits = Next();
+            u = 2 * ((bits >> 11) * (1.0 / (1UL << 53))) - 1;
+            i = (int)(bits & (ZigguratLayers - 1));
+            if (Math.Abs(u) < ZigguratRatio[i]) return u * ZigguratX[i];
         }
     }
 
@@ -101,9 +117,11 @@ internal sealed class SeededSampler
     }
 
     /// <summary>A Poisson number of mean <paramref name="law"/>'s, from its precomputed constants.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public long Poisson(in PoissonLaw law) => law.Mean < PoissonLaw.RejectionFrom ? PoissonByProduct(law) : PoissonByRejection(law);
 
     /// <summary>Knuth's product of uniforms (Devroye 1986, Non-Uniform Random Variate Generation, X.3.3): mean + 1 uniforms a draw.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private long PoissonByProduct(in PoissonLaw law)
     {
         long k = 0;
@@ -120,6 +138,7 @@ internal sealed class SeededSampler
     /// The transformed rejection with squeeze of Hörmann (1993, Insurance: Mathematics and Economics 12:39), "PTRS":
     /// exact for any mean ≥ 10, about 2.3 uniforms a draw, the log-factorial needed only outside the squeeze.
     /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private long PoissonByRejection(in PoissonLaw law)
     {
         while (true)
@@ -130,10 +149,14 @@ internal sealed class SeededSampler
             var k = (long)Math.Floor((2 * law.A / us + law.B) * u + law.Mean + 0.43);
             if (us >= 0.07 && v <= law.Vr) return k;
             if (k < 0 || (us < 0.013 && v > us)) continue;
-            if (Math.Log(v) + law.LogInverseAlpha - Math.Log(law.A / (us * us) + law.B) <= -law.Mean + k * law.LogMean - LogFactorial(k))
-                return k;
+            if (AcceptedOutsideSqueeze(law, v, us, k)) return k;
         }
     }
+
+    /// <summary>PTRS's final test, with the logarithms the squeeze avoids: apart, since most draws never reach it.</summary>
+    [MethodImpl(MethodImplOptions.NoInlining)]
+    private static bool AcceptedOutsideSqueeze(in PoissonLaw law, double v, double us, long k) =>
+        Math.Log(v) + law.LogInverseAlpha - Math.Log(law.A / (us * us) + law.B) <= -law.Mean + k * law.LogMean - LogFactorial(k);
 
     private const int TabledFactorials = 256;
     private static readonly double[] LogFactorials = Enumerable.Range(0, TabledFactorials).Select(k => SpecialFunctions.GammaLn(k + 1.0)).ToArray();

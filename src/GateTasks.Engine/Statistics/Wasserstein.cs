@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
 
 namespace GateTasks.Engine.Statistics;
@@ -41,6 +43,7 @@ internal static class Wasserstein
     }
 
     /// <summary>Mean of |d(t)| for d linear from d0 to d1 on [0, 1], splitting at the sign change.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     internal static double LinearAbsMean(double d0, double d1)
     {
         if (d0 * d1 >= 0)
@@ -92,49 +95,76 @@ internal static class Wasserstein
     /// <summary>
     /// Three <see cref="FineGrid"/> distances at once, D(a₀, b₀), D(a₁, b₁) and D(a₂, b₂), each pair packed as
     /// [tail moment below, cells (flows included), tail moment above]: what a bootstrap replica asks for (the reference
-    /// redrawn, the sample redrawn, both). The three run side by side in the lanes of one SIMD register, each lane
-    /// doing <see cref="FineGrid"/>'s operations in its order, and <see cref="LinearAbsMean"/>'s two forms are both
-    /// computed and one selected (no branch on where the CDFs cross): every result has <see cref="FineGrid"/>'s bits.
+    /// redrawn, the sample redrawn, both). <see cref="FineGridFour"/> with its last lane a copy of the third: every
+    /// result has <see cref="FineGrid"/>'s bits.
     /// </summary>
     internal static (double First, double Second, double Third) FineGridThree(ReadOnlySpan<double> edges,
         double[] a0, double[] b0, double[] a1, double[] b1, double[] a2, double[] b2)
     {
+        var (first, second, third, _) = FineGridFour(edges, a0, b0, a1, b1, a2, b2, a2, b2);
+        return (first, second, third);
+    }
+
+    /// <summary>
+    /// Four <see cref="FineGrid"/> distances at once, D(a₀, b₀) … D(a₃, b₃), each pair packed as [tail moment below,
+    /// cells (flows included), tail moment above]: a bootstrap's replicas taken four at a time. The four run side by side
+    /// in the lanes of one SIMD register, each lane doing <see cref="FineGrid"/>'s operations in its order, and
+    /// <see cref="LinearAbsMean"/>'s two forms are both computed and one selected (no branch on where the CDFs cross):
+    /// every result has <see cref="FineGrid"/>'s bits.
+    /// </summary>
+    internal static (double First, double Second, double Third, double Fourth) FineGridFour(ReadOnlySpan<double> edges,
+        double[] a0, double[] b0, double[] a1, double[] b1, double[] a2, double[] b2, double[] a3, double[] b3)
+    {
         static double One(ReadOnlySpan<double> edges, double[] a, double[] b) =>
             FineGrid(edges, a.AsSpan(1, a.Length - 2), a[0], a[^1], b.AsSpan(1, b.Length - 2), b[0], b[^1]);
+        (double, double, double, double) Alone(ReadOnlySpan<double> edges) =>
+            (One(edges, a0, b0), One(edges, a1, b1), One(edges, a2, b2), One(edges, a3, b3));
         var cells = edges.Length + 1;
         if (!Vector256.IsHardwareAccelerated || edges.Length < 2
-            || a0.Length != cells + 2 || a1.Length != cells + 2 || a2.Length != cells + 2
-            || b0.Length != cells + 2 || b1.Length != cells + 2 || b2.Length != cells + 2)
-            return (One(edges, a0, b0), One(edges, a1, b1), One(edges, a2, b2));
-        Vector256<double> A(int i) => Vector256.Create(a0[i], a1[i], a2[i], a2[i]);
-        Vector256<double> B(int i) => Vector256.Create(b0[i], b1[i], b2[i], b2[i]);
+            || a0.Length != cells + 2 || a1.Length != cells + 2 || a2.Length != cells + 2 || a3.Length != cells + 2
+            || b0.Length != cells + 2 || b1.Length != cells + 2 || b2.Length != cells + 2 || b3.Length != cells + 2)
+            return Alone(edges);
+        // Every index below lies in [0, cells + 1], checked by the lengths above, so the arrays are read unchecked.
+        ref var pa0 = ref MemoryMarshal.GetArrayDataReference(a0);
+        ref var pa1 = ref MemoryMarshal.GetArrayDataReference(a1);
+        ref var pa2 = ref MemoryMarshal.GetArrayDataReference(a2);
+        ref var pa3 = ref MemoryMarshal.GetArrayDataReference(a3);
+        ref var pb0 = ref MemoryMarshal.GetArrayDataReference(b0);
+        ref var pb1 = ref MemoryMarshal.GetArrayDataReference(b1);
+        ref var pb2 = ref MemoryMarshal.GetArrayDataReference(b2);
+        ref var pb3 = ref MemoryMarshal.GetArrayDataReference(b3);
+        ref var pe = ref MemoryMarshal.GetReference(edges);
         Vector256<double> ta = Vector256<double>.Zero, tb = Vector256<double>.Zero;
         for (var i = 1; i <= cells; i++)
         {
-            ta += A(i);
-            tb += B(i);
+            ta += Vector256.Create(Unsafe.Add(ref pa0, i), Unsafe.Add(ref pa1, i), Unsafe.Add(ref pa2, i), Unsafe.Add(ref pa3, i));
+            tb += Vector256.Create(Unsafe.Add(ref pb0, i), Unsafe.Add(ref pb1, i), Unsafe.Add(ref pb2, i), Unsafe.Add(ref pb3, i));
         }
-        for (var k = 0; k < 3; k++)
+        for (var k = 0; k < 4; k++)
             if (!(ta[k] > 0) || !(tb[k] > 0) || !double.IsFinite(ta[k]) || !double.IsFinite(tb[k]))
-                return (One(edges, a0, b0), One(edges, a1, b1), One(edges, a2, b2)); // FineGrid says what is wrong
+                return Alone(edges); // FineGrid says what is wrong
         var one = Vector256<double>.One;
         var two = Vector256.Create(2.0);
         Vector256<double> ia = one / ta, ib = one / tb;
-        var area = Vector256.Abs(A(0) * ia - B(0) * ib);
-        Vector256<double> ca = A(1), cb = B(1);
+        var area = Vector256.Abs(Vector256.Create(pa0, pa1, pa2, pa3) * ia - Vector256.Create(pb0, pb1, pb2, pb3) * ib);
+        var ca = Vector256.Create(Unsafe.Add(ref pa0, 1), Unsafe.Add(ref pa1, 1), Unsafe.Add(ref pa2, 1), Unsafe.Add(ref pa3, 1));
+        var cb = Vector256.Create(Unsafe.Add(ref pb0, 1), Unsafe.Add(ref pb1, 1), Unsafe.Add(ref pb2, 1), Unsafe.Add(ref pb3, 1));
         var d0 = ca * ia - cb * ib;
         for (var i = 1; i < edges.Length; i++)
         {
-            ca += A(i + 1);
-            cb += B(i + 1);
+            var j = i + 1;
+            ca += Vector256.Create(Unsafe.Add(ref pa0, j), Unsafe.Add(ref pa1, j), Unsafe.Add(ref pa2, j), Unsafe.Add(ref pa3, j));
+            cb += Vector256.Create(Unsafe.Add(ref pb0, j), Unsafe.Add(ref pb1, j), Unsafe.Add(ref pb2, j), Unsafe.Add(ref pb3, j));
             var d1 = ca * ia - cb * ib;
             var sum = Vector256.Abs(d0) + Vector256.Abs(d1);
             var sameSign = Vector256.GreaterThanOrEqual(d0 * d1, Vector256<double>.Zero);
             var mean = Vector256.ConditionalSelect(sameSign, sum / two, (d0 * d0 + d1 * d1) / (two * sum));
-            area += Vector256.Create(edges[i] - edges[i - 1]) * mean;
+            area += Vector256.Create(Unsafe.Add(ref pe, i) - Unsafe.Add(ref pe, i - 1)) * mean;
             d0 = d1;
         }
-        area += Vector256.Abs(A(cells + 1) * ia - B(cells + 1) * ib);
-        return (area[0], area[1], area[2]);
+        var last = cells + 1;
+        area += Vector256.Abs(Vector256.Create(Unsafe.Add(ref pa0, last), Unsafe.Add(ref pa1, last), Unsafe.Add(ref pa2, last), Unsafe.Add(ref pa3, last)) * ia
+            - Vector256.Create(Unsafe.Add(ref pb0, last), Unsafe.Add(ref pb1, last), Unsafe.Add(ref pb2, last), Unsafe.Add(ref pb3, last)) * ib);
+        return (area[0], area[1], area[2], area[3]);
     }
 }
