@@ -240,25 +240,33 @@ internal static class HistogramBootstrap
         return (mean, values.Count > 1 ? sumSq / (values.Count - 1) : 0);
     }
 
-    /// <summary>Each cell's √Σw², or 0 for a cell held at its content (Σw² not positive).</summary>
-    private static double[] StandardDeviations(CellContents cells)
+    /// <summary>
+    /// The cells that are redrawn — those with Σw² positive, in increasing order — and each one's √Σw²; every other
+    /// cell is held at its content. Listed once per bootstrap so the replicas' loops skip held cells without a branch
+    /// per cell (many cells of a fine grid are empty in a small sample).
+    /// </summary>
+    private readonly record struct RedrawnCells(int[] Index, double[] Sd);
+
+    private static RedrawnCells StandardDeviations(CellContents cells)
     {
-        var sd = new double[cells.SumW2.Length];
-        for (var i = 0; i < sd.Length; i++) sd[i] = cells.SumW2[i] > 0 ? Math.Sqrt(cells.SumW2[i]) : 0;
-        return sd;
+        var index = new List<int>(cells.SumW2.Length);
+        for (var i = 0; i < cells.SumW2.Length; i++)
+            if (cells.SumW2[i] > 0) index.Add(i);
+        var sd = new double[index.Count];
+        for (var k = 0; k < sd.Length; k++) sd[k] = Math.Sqrt(cells.SumW2[index[k]]);
+        return new RedrawnCells([.. index], sd);
     }
 
-    private static void Draw(double[] sumW, double[] sd, double[] into, SeededSampler rng)
+    /// <summary>One replica: the held cells copied, then each redrawn cell in increasing order, one normal number each.</summary>
+    private static void Draw(double[] sumW, RedrawnCells redrawn, double[] into, SeededSampler rng)
     {
-        for (var i = 0; i < into.Length; i++)
+        Array.Copy(sumW, into, into.Length);
+        var (index, sd) = (redrawn.Index, redrawn.Sd);
+        for (var k = 0; k < index.Length; k++)
         {
-            if (!(sd[i] > 0))
-            {
-                into[i] = sumW[i];
-                continue;
-            }
+            var i = index[k];
             // A cell of signed weights (possible on a fine grid) may stay negative; a non-negative one may not turn negative.
-            var drawn = sumW[i] + sd[i] * rng.Normal();
+            var drawn = sumW[i] + sd[k] * rng.Normal();
             into[i] = sumW[i] < 0 ? drawn : Math.Max(0, drawn);
         }
     }

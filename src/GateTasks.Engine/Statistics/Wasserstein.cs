@@ -145,6 +145,7 @@ internal static class Wasserstein
                 return Alone(edges); // FineGrid says what is wrong
         var one = Vector256<double>.One;
         var two = Vector256.Create(2.0);
+        var half = Vector256.Create(0.5);
         Vector256<double> ia = one / ta, ib = one / tb;
         var area = Vector256.Abs(Vector256.Create(pa0, pa1, pa2, pa3) * ia - Vector256.Create(pb0, pb1, pb2, pb3) * ib);
         var ca = Vector256.Create(Unsafe.Add(ref pa0, 1), Unsafe.Add(ref pa1, 1), Unsafe.Add(ref pa2, 1), Unsafe.Add(ref pa3, 1));
@@ -158,7 +159,8 @@ internal static class Wasserstein
             var d1 = ca * ia - cb * ib;
             var sum = Vector256.Abs(d0) + Vector256.Abs(d1);
             var sameSign = Vector256.GreaterThanOrEqual(d0 * d1, Vector256<double>.Zero);
-            var mean = Vector256.ConditionalSelect(sameSign, sum / two, (d0 * d0 + d1 * d1) / (two * sum));
+            // sum · ½ is sum / 2 to the bit (halving is exact), without a division.
+            var mean = Vector256.ConditionalSelect(sameSign, sum * half, (d0 * d0 + d1 * d1) / (two * sum));
             area += Vector256.Create(Unsafe.Add(ref pe, i) - Unsafe.Add(ref pe, i - 1)) * mean;
             d0 = d1;
         }
