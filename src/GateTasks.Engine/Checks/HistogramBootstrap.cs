@@ -45,8 +45,9 @@ internal static class HistogramBootstrap
         var rng = new SeededSampler(seed);
         var referenceSd = StandardDeviations(reference);
         var surrogateSd = StandardDeviations(surrogate);
-        var a = new double[reference.SumW.Length];
-        var b = new double[surrogate.SumW.Length];
+        var scratch = BootstrapScratch.Current;
+        var a = scratch.Doubles(BootstrapScratch.ReferenceDraws, reference.SumW.Length);
+        var b = scratch.Doubles(BootstrapScratch.SampleDraws, surrogate.SumW.Length);
         MomentSums refOnly = default, surOnly = default, both = default;
         for (var r = 0; r < Replicas; r++)
         {
@@ -123,7 +124,8 @@ internal static class HistogramBootstrap
         }
         if (!(ta > 0) || !(tb > 0)) return null;
         var n = reference.SumW.Length;
-        var mixed = new double[n];
+        var scratch = BootstrapScratch.Current;
+        var mixed = scratch.Doubles(BootstrapScratch.Mixed, n);
         void Mix(double lambda)
         {
             for (var i = 0; i < n; i++) mixed[i] = tb * ((1 - lambda) * reference.SumW[i] / ta + lambda * sample.SumW[i] / tb);
@@ -143,12 +145,12 @@ internal static class HistogramBootstrap
         // The boundary sample's Σw² per cell: the reference's shape at the sample's mean weight, and the sample's own.
         var sampleKappa = tb2 > 0 ? tb2 / tb : 1;
         var referenceKappa = ta2 > 0 ? ta2 / ta : 1;
-        var mixedW2 = new double[n];
+        var mixedW2 = scratch.Doubles(BootstrapScratch.MixedSquares, n);
         for (var i = 0; i < n; i++)
             mixedW2[i] = (1 - lambdaAtTolerance) * reference.SumW2[i] * (tb / ta) * (sampleKappa / referenceKappa) + lambdaAtTolerance * sample.SumW2[i];
         var rng = new SeededSampler(seed + 3);
-        var referenceLaws = new ScaledPoissonCells(reference.SumW, reference.SumW2);
-        var mixedLaws = new ScaledPoissonCells(mixed, mixedW2);
+        var referenceLaws = new ScaledPoissonCells(reference.SumW, reference.SumW2, scratch, 0);
+        var mixedLaws = new ScaledPoissonCells(mixed, mixedW2, scratch, 1);
         var result = new double[Replicas];
         // Replicas are drawn one after the other as always; with `four`, four of them are kept and measured together.
         var lanes = four is null ? 1 : 4;
@@ -156,8 +158,8 @@ internal static class HistogramBootstrap
         var b = new double[lanes][];
         for (var l = 0; l < lanes; l++)
         {
-            a[l] = new double[n];
-            b[l] = new double[n];
+            a[l] = scratch.Doubles(BootstrapScratch.FirstLane + 2 * l, n);
+            b[l] = scratch.Doubles(BootstrapScratch.FirstLane + 2 * l + 1, n);
         }
         for (var r = 0; r < Replicas; r++)
         {
@@ -201,13 +203,15 @@ internal static class HistogramBootstrap
         private readonly double[] _mean, _kappa;
         private readonly PoissonLaw[] _laws;
 
-        public ScaledPoissonCells(double[] mean, double[] sumW2)
+        /// <summary>The laws of cells with these means and Σw², in <paramref name="scratch"/>'s arrays of slot 0 or 1.</summary>
+        public ScaledPoissonCells(double[] mean, double[] sumW2, BootstrapScratch scratch, int slot)
         {
             _mean = mean;
-            _kappa = new double[mean.Length];
-            _laws = new PoissonLaw[mean.Length];
+            _kappa = scratch.Doubles(slot == 0 ? BootstrapScratch.ReferenceKappa : BootstrapScratch.MixedKappa, mean.Length);
+            _laws = scratch.Laws(slot, mean.Length);
             for (var i = 0; i < mean.Length; i++)
             {
+                _kappa[i] = 0; // held at its mean unless its law is set below; the array may hold an earlier check's values
                 if (!(mean[i] > 0 && sumW2[i] > 0)) continue;
                 _kappa[i] = sumW2[i] / mean[i];
                 _laws[i] = new PoissonLaw(mean[i] * mean[i] / sumW2[i]);
