@@ -51,8 +51,8 @@ internal static class HistogramBootstrap
         MomentSums refOnly = default, surOnly = default, both = default;
         for (var r = 0; r < Replicas; r++)
         {
-            Draw(reference.SumW, referenceSd, a, rng);
-            Draw(surrogate.SumW, surrogateSd, b, rng);
+            Draw(reference.SumW, referenceSd, a, ref rng);
+            Draw(surrogate.SumW, surrogateSd, b, ref rng);
             if (three is not null)
             {
                 var (refRedrawn, surRedrawn, bothRedrawn) = three(a, surrogate.SumW, reference.SumW, b, a, b);
@@ -164,7 +164,7 @@ internal static class HistogramBootstrap
         for (var r = 0; r < Replicas; r++)
         {
             var lane = r % lanes;
-            DrawPair(referenceLaws, mixedLaws, a[lane], b[lane], rng);
+            DrawPair(referenceLaws, mixedLaws, a[lane], b[lane], ref rng);
             if (four is null)
             {
                 result[r] = distance(a[0], b[0]);
@@ -185,13 +185,15 @@ internal static class HistogramBootstrap
     }
 
     /// <summary>One replica's cells: each cell's reference draw, then its boundary-sample draw, cell after cell.</summary>
-    private static void DrawPair(ScaledPoissonCells referenceLaws, ScaledPoissonCells mixedLaws, double[] a, double[] b, SeededSampler rng)
+    private static void DrawPair(ScaledPoissonCells referenceLaws, ScaledPoissonCells mixedLaws, double[] a, double[] b, ref SeededSampler rng)
     {
+        var local = rng; // drawn from a local copy (kept in registers), then written back
         for (var i = 0; i < a.Length; i++)
         {
-            a[i] = referenceLaws.Draw(i, rng);
-            b[i] = mixedLaws.Draw(i, rng);
+            a[i] = referenceLaws.Draw(i, ref local);
+            b[i] = mixedLaws.Draw(i, ref local);
         }
+        rng = local;
     }
 
     /// <summary>
@@ -219,7 +221,7 @@ internal static class HistogramBootstrap
         }
 
         [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
-        public double Draw(int i, SeededSampler rng) => _kappa[i] > 0 ? _kappa[i] * rng.Poisson(in _laws[i]) : _mean[i];
+        public double Draw(int i, ref SeededSampler rng) => _kappa[i] > 0 ? _kappa[i] * rng.Poisson(in _laws[i]) : _mean[i];
     }
 
     /// <summary>
@@ -262,16 +264,18 @@ internal static class HistogramBootstrap
     }
 
     /// <summary>One replica: the held cells copied, then each redrawn cell in increasing order, one normal number each.</summary>
-    private static void Draw(double[] sumW, RedrawnCells redrawn, double[] into, SeededSampler rng)
+    private static void Draw(double[] sumW, RedrawnCells redrawn, double[] into, ref SeededSampler rng)
     {
         Array.Copy(sumW, into, into.Length);
+        var local = rng; // drawn from a local copy (kept in registers), then written back
         var (index, sd) = (redrawn.Index, redrawn.Sd);
         for (var k = 0; k < index.Length; k++)
         {
             var i = index[k];
             // A cell of signed weights (possible on a fine grid) may stay negative; a non-negative one may not turn negative.
-            var drawn = sumW[i] + sd[k] * rng.Normal();
+            var drawn = sumW[i] + sd[k] * local.Normal();
             into[i] = sumW[i] < 0 ? drawn : Math.Max(0, drawn);
         }
+        rng = local;
     }
 }

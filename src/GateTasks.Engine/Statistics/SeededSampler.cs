@@ -6,9 +6,11 @@ namespace GateTasks.Engine.Statistics;
 /// <summary>
 /// A fast seeded source of uniform, standard normal and Poisson variates for the bootstraps, which draw millions of
 /// them per check: xoshiro256** (Blackman &amp; Vigna 2021, ACM TOMS 47:36) seeded through SplitMix64 (Steele, Lea &amp;
-/// Flood 2014), with no virtual call per number. Not thread-safe: one per bootstrap.
+/// Flood 2014), with no virtual call per number. Not thread-safe: one per bootstrap. A mutable struct, so that a loop
+/// drawing from a local copy keeps the generator's state in registers; pass it by reference and copy it only to write
+/// the copy back, since two copies repeat one stream.
 /// </summary>
-internal sealed class SeededSampler
+internal struct SeededSampler
 {
     private ulong _s0, _s1, _s2, _s3;
 
@@ -61,7 +63,12 @@ internal sealed class SeededSampler
         var bits = Next();
         var u = 2 * ((bits >> 11) * (1.0 / (1UL << 53))) - 1;
         var i = (int)(bits & (ZigguratLayers - 1));
-        return Math.Abs(u) < ZigguratRatio[i] ? u * ZigguratX[i] : NormalOutsideRectangle(u, i);
+        if (Math.Abs(u) < ZigguratRatio[i]) return u * ZigguratX[i];
+        // The rare rest through a copy, so that a caller's generator is never passed by address and stays in registers.
+        var rest = this;
+        var x = rest.NormalOutsideRectangle(u, i);
+        this = rest;
+        return x;
     }
 
     /// <summary>The rest of <see cref="Normal"/> for a draw outside its layer's rectangle, then further draws as needed.</summary>
