@@ -69,6 +69,9 @@ public static class Program
                 case "kernel-subsample":
                     TimedKernelSubsample.Run(Option("sample"), (int)Number("features", 20), (int)Number("rows", 50_000));
                     return 0;
+                case "pairs-cpu":
+                    Console.WriteLine($"{Kernels.PairAccumulationBenchmarks.CpuNanosecondsPerEvent((int)Number("repeat", 20)):F2} ns CPU per event");
+                    return 0;
                 case "sliced-fill":
                     TimedSlicedFill.Run(Option("reference"), Option("sample"), (int)Number("repeat", 5));
                     return 0;

@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
 using GateTasks.Engine.Histograms;
 
 namespace GateTasks.Engine.Accumulation;
@@ -13,6 +15,10 @@ internal sealed class PairColumn(int feature, MarginalCdf cdf)
     public const int NanCell = -1;
 
     private int[] _cells = [];
+    // Each storage cell's on the map grid's axis (PairGrid.MapCellOf) at the cell's index + 1, NanCell at 0 (so a NaN's
+    // cell maps to itself without a branch); null until a pair of the column fills that grid.
+    private int[]? _mapOf;
+    private int[] _mapCells = [];
     private double[] _ranks = [];
     private int _rows;
 
@@ -28,6 +34,16 @@ internal sealed class PairColumn(int feature, MarginalCdf cdf)
     /// <summary>The last batch's storage cells (<see cref="NanCell"/> for NaN).</summary>
     public ReadOnlySpan<int> Cells => _cells.AsSpan(0, _rows);
 
+    /// <summary>
+    /// The last batch's storage cells on <see cref="PairGrid.MapAxis"/> of <see cref="Axis"/> (<see cref="NanCell"/> for
+    /// NaN), found from <see cref="Cells"/> once for every pair of the column that fills the map grid; empty unless
+    /// <see cref="WantMapCells"/> was called.
+    /// </summary>
+    public ReadOnlySpan<int> MapCells => _mapOf is null ? ReadOnlySpan<int>.Empty : _mapCells.AsSpan(0, _rows);
+
+    /// <summary>The map grid's cell of each storage cell of <see cref="Axis"/>; from now on <see cref="Prepare"/> finds <see cref="MapCells"/>.</summary>
+    public void WantMapCells() => _mapOf ??= [NanCell, .. PairGrid.MapCellOf(Axis)];
+
     /// <summary>The last batch's ranks (NaN for NaN).</summary>
     public ReadOnlySpan<double> Ranks => _ranks.AsSpan(0, _rows);
 
@@ -41,5 +57,13 @@ internal sealed class PairColumn(int feature, MarginalCdf cdf)
         Axis.Cells(x, cells, NanCell);
         var nan = cdf.Ranks(x, cells, _ranks.AsSpan(0, x.Length), NanCell);
         HasNaN = nan;
+        if (_mapOf is { } mapOf)
+        {
+            if (_mapCells.Length < x.Length) _mapCells = new int[_cells.Length];
+            var mapped = _mapCells.AsSpan(0, x.Length);
+            ref var map = ref MemoryMarshal.GetArrayDataReference(mapOf);
+            // A cell is NanCell or a storage cell of the axis, so its index + 1 lies in the map.
+            for (var r = 0; r < cells.Length; r++) mapped[r] = Unsafe.Add(ref map, cells[r] + 1);
+        }
     }
 }

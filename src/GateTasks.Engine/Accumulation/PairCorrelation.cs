@@ -32,8 +32,26 @@ internal sealed class PairCorrelation
         {
             _firstToJoint = PairGrid.CellMap(first.Axis, joint.X);
             _secondToJoint = PairGrid.CellMap(second.Axis, joint.Y);
+            (_firstOnJoint, _secondOnJoint) = (OnJoint(first, _firstToJoint), OnJoint(second, _secondToJoint));
         }
     }
+
+    // Where a column's cells on the joint grid's axis come from without a map: its own cells when the grid keeps its
+    // axis, its map cells when the grid is its map axis (found once per column, however many pairs it is in).
+    private enum JointCells { ThroughMap, Own, Map }
+
+    private readonly JointCells _firstOnJoint, _secondOnJoint;
+
+    private static JointCells OnJoint(PairColumn column, int[]? toJoint)
+    {
+        if (toJoint is null) return JointCells.ThroughMap;
+        if (toJoint.AsSpan().SequenceEqual(Enumerable.Range(0, toJoint.Length).ToArray())) return JointCells.Own;
+        if (!toJoint.AsSpan().SequenceEqual(PairGrid.MapCellOf(column.Axis))) return JointCells.ThroughMap;
+        column.WantMapCells();
+        return JointCells.Map;
+    }
+
+    private static ReadOnlySpan<int> CellsOnJoint(PairColumn column, JointCells on) => on == JointCells.Own ? column.Cells : column.MapCells;
 
     /// <summary>
     /// The pair's 2-D histogram on its <see cref="PairGrid"/> (the features' axes for a χ² test, else the coarse map
@@ -99,7 +117,10 @@ internal sealed class PairCorrelation
         }
         if (Joint is not null)
         {
-            if (_firstToJoint is not null && _secondToJoint is not null) Joint.FillCells(cx, cy, _firstToJoint, _secondToJoint, ws);
+            // A batch without NaN and of unit weights counts the cells as the columns give them on the grid's axes.
+            if (ws.IsEmpty && !_first.HasNaN && !_second.HasNaN && _firstOnJoint != JointCells.ThroughMap && _secondOnJoint != JointCells.ThroughMap)
+                Joint.CountCells(CellsOnJoint(_first, _firstOnJoint), CellsOnJoint(_second, _secondOnJoint));
+            else if (_firstToJoint is not null && _secondToJoint is not null) Joint.FillCells(cx, cy, _firstToJoint, _secondToJoint, ws);
             else Joint.Fill(x, y, ws);
         }
         if (Joint is not null) Joint.MoveCellsInto(_cells!);
