@@ -28,7 +28,9 @@ internal sealed class BlockEdgeCountSearch
     private readonly float[] _runFirsts;   // edge 256·r, the first of run r
     private readonly float[] _blockFirsts; // edge 16·b, the first of block b, padded with NaN to whole runs
     private readonly float[] _edges;       // every edge, padded with NaN to whole blocks of the padded block table
-    private readonly EdgeGuide? _guide;    // the cells of most values, in two compares
+    private readonly float[]? _guideEdges; // the edges for the guide table, made on first use (null: none wanted)
+    private EdgeGuide? _guide;             // the cells of most values, in two table reads and one compare
+    private volatile bool _guideMade;
 
     /// <summary>Whether this machine has SIMD registers for the search (else callers keep their scalar search).</summary>
     public static bool IsSupported => Vector512.IsHardwareAccelerated || Vector256.IsHardwareAccelerated;
@@ -48,7 +50,9 @@ internal sealed class BlockEdgeCountSearch
         for (var b = 0; b < _blockFirsts.Length; b++) _blockFirsts[b] = _edges[b * Stride];
         _runFirsts = new float[runs];
         for (var r = 0; r < runs; r++) _runFirsts[r] = _edges[r * Run];
-        _guide = guided && EdgeGuide.IsSupported ? EdgeGuide.Create(rounded) : null;
+        // The table (a quarter of a megabyte for a fine grid) is made when values first come, not for axes that are
+        // only read (the reference's).
+        if (guided && EdgeGuide.IsSupported) _guideEdges = rounded;
     }
 
     /// <summary>
@@ -58,6 +62,12 @@ internal sealed class BlockEdgeCountSearch
     public void Cells(ReadOnlySpan<float> values, Span<int> cells, int nanCell)
     {
         if (cells.Length < values.Length) throw new ArgumentException("Fewer cells than values.", nameof(cells));
+        if (!_guideMade)
+        {
+            // Two threads may both make it: either table gives the same cells.
+            _guide = _guideEdges is null ? null : EdgeGuide.Create(_guideEdges);
+            _guideMade = true;
+        }
         if (_guide is not { } guide)
         {
             Levels(values, cells, nanCell);

@@ -58,14 +58,18 @@ internal sealed class EdgeGuide
         }
     }
 
-    private EdgeGuide(Mapping map, int[] first, ReadOnlySpan<float> edges)
+    private EdgeGuide(Mapping map, int buckets, ReadOnlySpan<float> edges)
     {
         _map = map;
-        _first = first;
-        _edge = new float[first.Length];
+        var inBucket = new int[buckets];
+        foreach (var e in edges) inBucket[map.Bucket(e)]++;
+        _first = new int[buckets];
+        for (int k = 0, before = 0; k < buckets; before += inBucket[k], k++)
+            _first[k] = inBucket[k] > Steps ? Crowded : before;
+        _edge = new float[buckets];
         _edge.AsSpan().Fill(float.NaN);
         foreach (var e in edges)
-            if (first[map.Bucket(e)] != Crowded) _edge[map.Bucket(e)] = e;
+            if (_first[map.Bucket(e)] != Crowded) _edge[map.Bucket(e)] = e;
     }
 
     /// <summary>
@@ -82,7 +86,7 @@ internal sealed class EdgeGuide
         while (last >= 0 && !float.IsFinite(edges[last])) last--;
         if (first >= last) return null;
         var buckets = (int)Math.Clamp(BitOperations.RoundUpToPowerOf2((uint)edges.Length * 4), 1u << 13, 1u << 15);
-        (Mapping Map, int[] First, int Crowded)? best = null;
+        (Mapping Map, int Crowded)? best = null;
         foreach (var trim in new[] { 0, 4, 16, 64 })
         {
             if (last - first - 2 * trim < 1) break;
@@ -90,26 +94,27 @@ internal sealed class EdgeGuide
             if (!(hi > lo)) continue;
             var scale = (float)(buckets / ((double)hi - lo));
             if (float.IsFinite(scale) && scale > 0)
-                Consider(new Mapping(false, lo, scale, buckets - 1, 0, 0, 0), edges);
+                Consider(new Mapping(false, lo, scale, buckets - 1, 0, 0, 0), edges, ref best);
             int keyLo = Mapping.Key(BitConverter.SingleToInt32Bits(lo)), keyHi = Mapping.Key(BitConverter.SingleToInt32Bits(hi));
             var shift = 0;
             while (((long)keyHi - keyLo) >> shift >= buckets) shift++;
-            Consider(new Mapping(true, 0, 0, 0, keyLo, keyHi, shift), edges);
+            Consider(new Mapping(true, 0, 0, 0, keyLo, keyHi, shift), edges, ref best);
         }
-        return best is { } b && b.Crowded <= edges.Length / 2 ? new EdgeGuide(b.Map, b.First, edges) : null;
+        return best is { } b && b.Crowded <= edges.Length / 2 ? new EdgeGuide(b.Map, buckets, edges) : null;
 
-        void Consider(Mapping map, ReadOnlySpan<float> edges)
+        // The edges in crowded buckets: buckets never decrease along the edges, so each bucket's edges are one run.
+        static void Consider(Mapping map, ReadOnlySpan<float> edges, ref (Mapping Map, int Crowded)? best)
         {
-            var inBucket = new int[buckets];
-            foreach (var e in edges) inBucket[map.Bucket(e)]++;
-            var table = new int[buckets];
             var crowded = 0;
-            for (int k = 0, before = 0; k < buckets; before += inBucket[k], k++)
+            for (var k = 0; k < edges.Length;)
             {
-                table[k] = inBucket[k] > Steps ? Crowded : before;
-                if (inBucket[k] > Steps) crowded += inBucket[k];
+                var bucket = map.Bucket(edges[k]);
+                var run = 1;
+                while (k + run < edges.Length && map.Bucket(edges[k + run]) == bucket) run++;
+                if (run > Steps) crowded += run;
+                k += run;
             }
-            if (best is null || crowded < best.Value.Crowded) best = (map, table, crowded);
+            if (best is null || crowded < best.Value.Crowded) best = (map, crowded);
         }
     }
 
