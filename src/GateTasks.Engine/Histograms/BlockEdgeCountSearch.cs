@@ -29,7 +29,7 @@ internal sealed class BlockEdgeCountSearch
     private readonly float[] _blockFirsts; // edge 16·b, the first of block b, padded with NaN to whole runs
     private readonly float[] _edges;       // every edge, padded with NaN to whole blocks of the padded block table
     private readonly float[]? _guideEdges; // the edges for the guide table, made on first use (null: none wanted)
-    private EdgeGuide? _guide;             // the cells of most values, in two table reads and one compare
+    private EdgeGuide? _guide;             // the cells of most values, in one table read and one compare
     private volatile bool _guideMade;
 
     /// <summary>Whether this machine has SIMD registers for the search (else callers keep their scalar search).</summary>
