@@ -62,17 +62,17 @@ internal sealed class EdgeGuide
     private EdgeGuide(Mapping map, int buckets, ReadOnlySpan<float> edges)
     {
         _map = map;
-        var inBucket = new int[buckets];
-        foreach (var e in edges) inBucket[map.Bucket(e)]++;
-        var first = new int[buckets];
-        for (int k = 0, before = 0; k < buckets; before += inBucket[k], k++)
-            first[k] = inBucket[k] > Steps ? Crowded : before;
-        var edge = new float[buckets];
-        edge.AsSpan().Fill(float.NaN);
-        foreach (var e in edges)
-            if (first[map.Bucket(e)] != Crowded) edge[map.Bucket(e)] = e;
+        // Buckets never decrease along the edges: each bucket's edges are the next run of them.
         _entries = new long[buckets];
-        for (var k = 0; k < buckets; k++) _entries[k] = (uint)first[k] | ((long)BitConverter.SingleToInt32Bits(edge[k]) << 32);
+        var nan = (long)BitConverter.SingleToInt32Bits(float.NaN) << 32;
+        for (int k = 0, j = 0; k < buckets; k++)
+        {
+            var start = j;
+            while (j < edges.Length && map.Bucket(edges[j]) == k) j++;
+            _entries[k] = j - start > Steps ? unchecked((uint)Crowded) | nan
+                : j - start == 1 ? (uint)start | ((long)BitConverter.SingleToInt32Bits(edges[start]) << 32)
+                : (uint)start | nan;
+        }
     }
 
     /// <summary>
