@@ -28,12 +28,18 @@ internal sealed class BlockEdgeCountSearch
     private readonly float[] _runFirsts;   // edge 256·r, the first of run r
     private readonly float[] _blockFirsts; // edge 16·b, the first of block b, padded with NaN to whole runs
     private readonly float[] _edges;       // every edge, padded with NaN to whole blocks of the padded block table
+    private readonly float[]? _guideEdges; // the edges for the guide table, made on first use (null: none wanted)
+    private EdgeGuide? _guide;             // the cells of most values, in one table read and one compare
+    private volatile bool _guideMade;
 
     /// <summary>Whether this machine has SIMD registers for the search (else callers keep their scalar search).</summary>
     public static bool IsSupported => Vector512.IsHardwareAccelerated || Vector256.IsHardwareAccelerated;
 
-    /// <summary>A search over increasing <paramref name="edges"/> (doubles; compared as float values compare).</summary>
-    public BlockEdgeCountSearch(ReadOnlySpan<double> edges)
+    /// <summary>
+    /// A search over increasing <paramref name="edges"/> (doubles; compared as float values compare); with
+    /// <paramref name="guided"/> false, the three levels alone (for tests and benchmarks).
+    /// </summary>
+    public BlockEdgeCountSearch(ReadOnlySpan<double> edges, bool guided = true)
     {
         var rounded = EdgeCountSearch.Float32Edges(edges);
         var runs = (rounded.Length + Run - 1) / Run;
@@ -44,6 +50,9 @@ internal sealed class BlockEdgeCountSearch
         for (var b = 0; b < _blockFirsts.Length; b++) _blockFirsts[b] = _edges[b * Stride];
         _runFirsts = new float[runs];
         for (var r = 0; r < runs; r++) _runFirsts[r] = _edges[r * Run];
+        // The table (a quarter of a megabyte for a fine grid) is made when values first come, not for axes that are
+        // only read (the reference's).
+        if (guided && EdgeGuide.IsSupported) _guideEdges = rounded;
     }
 
     /// <summary>
@@ -53,6 +62,36 @@ internal sealed class BlockEdgeCountSearch
     public void Cells(ReadOnlySpan<float> values, Span<int> cells, int nanCell)
     {
         if (cells.Length < values.Length) throw new ArgumentException("Fewer cells than values.", nameof(cells));
+        if (!_guideMade)
+        {
+            // Two threads may both make it: either table gives the same cells.
+            _guide = _guideEdges is null ? null : EdgeGuide.Create(_guideEdges);
+            _guideMade = true;
+        }
+        if (_guide is not { } guide)
+        {
+            Levels(values, cells, nanCell);
+            return;
+        }
+        // Most values take the guide table's two compares; those in crowded buckets are gathered and counted here.
+        Span<int> crowded = stackalloc int[EdgeGuide.Chunk];
+        Span<float> held = stackalloc float[EdgeGuide.Chunk];
+        Span<int> heldCells = stackalloc int[EdgeGuide.Chunk];
+        for (var start = 0; start < values.Length; start += EdgeGuide.Chunk)
+        {
+            var chunk = values.Slice(start, Math.Min(EdgeGuide.Chunk, values.Length - start));
+            var chunkCells = cells.Slice(start, chunk.Length);
+            var k = guide.Cells(chunk, chunkCells, nanCell, crowded);
+            if (k == 0) continue;
+            for (var j = 0; j < k; j++) held[j] = chunk[crowded[j]];
+            Levels(held[..k], heldCells, nanCell);
+            for (var j = 0; j < k; j++) chunkCells[crowded[j]] = heldCells[j];
+        }
+    }
+
+    // The three-level count of every value.
+    private void Levels(ReadOnlySpan<float> values, Span<int> cells, int nanCell)
+    {
         var done = RunCounts(values, cells);
         for (var i = done; i < values.Length; i++)
         {

@@ -13,8 +13,11 @@ internal sealed class UnionEdgeSearch
 {
     private readonly BlockEdgeCountSearch _search;
 
-    /// <summary>A search over the union of <paramref name="first"/>'s and <paramref name="second"/>'s edges (each increasing).</summary>
-    public UnionEdgeSearch(ReadOnlySpan<double> first, ReadOnlySpan<double> second)
+    /// <summary>
+    /// A search over the union of <paramref name="first"/>'s and <paramref name="second"/>'s edges (each increasing);
+    /// <paramref name="guided"/> as for <see cref="BlockEdgeCountSearch"/>.
+    /// </summary>
+    public UnionEdgeSearch(ReadOnlySpan<double> first, ReadOnlySpan<double> second, bool guided = true)
     {
         var a = EdgeCountSearch.Float32Edges(first);
         var b = EdgeCountSearch.Float32Edges(second);
@@ -32,7 +35,7 @@ internal sealed class UnionEdgeSearch
             inSecond.Add(n);
         }
         // Float edges are exact doubles, which the search rounds to themselves.
-        _search = new BlockEdgeCountSearch(union.Select(f => (double)f).ToArray());
+        _search = new BlockEdgeCountSearch(union.Select(f => (double)f).ToArray(), guided);
         CellCount = union.Count + 1;
         FirstCells = new int[CellCount];
         SecondCells = new int[CellCount];

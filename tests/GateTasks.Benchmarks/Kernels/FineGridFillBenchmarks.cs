@@ -10,7 +10,9 @@ namespace GateTasks.Benchmarks.Kernels;
 /// Filling the fine equal-probability grid that quantile and distance checks keep (4 096 cells and 4 dyadic tail
 /// levels, laid on 200 000 reference events as a reference build lays it) with one 65 536-row slice of each of the
 /// benchmark's 20 float32 features: widened to doubles (the path taken before float32 slices reached the grid), as
-/// float32 values, and, for scale, the coarse 40-bin equal-probability fill every feature pays anyway. Per value.
+/// float32 values, both grids at once through one search over the union of their edges (the path a check of float32
+/// features with unit weights takes), and, for scale, the coarse 40-bin equal-probability fill every feature pays
+/// anyway. Per value.
 /// </summary>
 public class FineGridFillBenchmarks
 {
@@ -55,6 +57,13 @@ public class FineGridFillBenchmarks
     public void FineFloat32()
     {
         for (var f = 0; f < _values.Length; f++) _counters[f].Add(_values[f]);
+    }
+
+    [Benchmark(OperationsPerInvoke = Rows * SyntheticFeatures.Count)]
+    public void FineAndCoarseFloat32()
+    {
+        for (var f = 0; f < _values.Length; f++)
+            if (!_counters[f].Add(_values[f], _coarse[f])) throw new InvalidOperationException("The union search is not supported here.");
     }
 
     [Benchmark(Baseline = true, OperationsPerInvoke = Rows * SyntheticFeatures.Count)]
