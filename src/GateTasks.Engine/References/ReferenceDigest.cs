@@ -24,7 +24,42 @@ internal sealed class ReferenceDigest : IDisposable
     private readonly byte[] _row = new byte[4 + 4 * 8];
 
     /// <summary>Starts with the header text, in which the digest's value is <see cref="Placeholder"/>.</summary>
-    public ReferenceDigest(string headerWithPlaceholder) => _hash.AppendData(Encoding.UTF8.GetBytes(headerWithPlaceholder));
+    public ReferenceDigest(string headerWithPlaceholder) => AppendText(headerWithPlaceholder);
+
+    private ReferenceDigest()
+    {
+    }
+
+    /// <summary>
+    /// Starts with a stored header whose digest entry (<see cref="Entry"/> of the recorded value) stands at
+    /// <paramref name="entryAt"/>, <paramref name="entryLength"/> characters long, taken as the placeholder's entry: the
+    /// same bytes as the header with the entry replaced, without copying a header of megabytes twice. The entry begins
+    /// and ends with an ASCII quote, so the three parts encode as the whole does.
+    /// </summary>
+    public static ReferenceDigest OfSealed(string header, int entryAt, int entryLength)
+    {
+        ArgumentOutOfRangeException.ThrowIfNegative(entryAt);
+        var digest = new ReferenceDigest();
+        digest.AppendText(header.AsSpan(0, entryAt));
+        digest.AppendText(Entry(Placeholder));
+        digest.AppendText(header.AsSpan(entryAt + entryLength));
+        return digest;
+    }
+
+    // UTF-8 in slices through one buffer, as Encoding.UTF8.GetBytes would give it whole: the encoder stops a slice
+    // before a surrogate pair it cannot finish and replaces a lone surrogate as GetBytes does.
+    private void AppendText(ReadOnlySpan<char> text)
+    {
+        var encoder = Encoding.UTF8.GetEncoder();
+        var buffer = new byte[Math.Min(1 << 16, Encoding.UTF8.GetMaxByteCount(Math.Max(text.Length, 2)))];
+        while (true)
+        {
+            encoder.Convert(text, buffer, flush: true, out var used, out var written, out var completed);
+            _hash.AppendData(buffer, 0, written);
+            text = text[used..];
+            if (completed) return;
+        }
+    }
 
     /// <summary>Adds one histogram row.</summary>
     public void Add(string feature, string part, int? bin, double lower, double upper, double sumW, double sumW2)

@@ -151,12 +151,14 @@ internal static class ReferenceFile
                     $"rebuild it with 'gatetasks reference build' (format {FormatVersion}), then, if the contract has an acceptance ledger, record the rebuilt reference with 'gatetasks accept'");
             if (fmt != FormatVersion.ToString(CultureInfo.InvariantCulture))
                 throw Unreadable(path, $"reference format version {fmt} is not supported; this GateTasks reads version {FormatVersion}");
-            var header = JsonNode.Parse(json)!.AsObject();
+            // A document of its own, so the fine grids' thousands of numbers are read from its elements in place.
+            using var document = JsonDocument.Parse(json);
+            var header = JsonObject.Create(document.RootElement)!;
             var recorded = header[ReferenceDigest.Key] is JsonValue rv && rv.TryGetValue<string>(out var text) ? text : null;
             var entry = recorded is null ? null : ReferenceDigest.Entry(recorded);
             if (recorded is null || recorded.Length != ReferenceDigest.Placeholder.Length || CountOf(json, entry!) != 1)
                 throw Damaged(path, "its header holds no readable checksum of its content");
-            using var digest = new ReferenceDigest(json.Replace(entry!, ReferenceDigest.Entry(ReferenceDigest.Placeholder), StringComparison.Ordinal));
+            using var digest = ReferenceDigest.OfSealed(json, json.IndexOf(entry!, StringComparison.Ordinal), entry!.Length);
 
             var rows = new Dictionary<string, List<CellRow>>();
             for (var g = 0; g < reader.RowGroupCount; g++)
@@ -189,7 +191,7 @@ internal static class ReferenceFile
             var actual = digest.Finish();
             if (!string.Equals(actual, recorded, StringComparison.Ordinal))
                 throw Damaged(path, $"the SHA-256 of its content is {actual[..12]}…, its header records {recorded[..Math.Min(12, recorded.Length)]}…");
-            return FromHeader(path, header, rows);
+            return FromHeader(path, header, document.RootElement, rows);
         }
     }
 
@@ -316,11 +318,13 @@ internal static class ReferenceFile
         };
     }
 
-    private static ReferenceHistograms FromHeader(string path, JsonObject h,
+    private static ReferenceHistograms FromHeader(string path, JsonObject h, JsonElement root,
         Dictionary<string, List<CellRow>> rows)
     {
         var features = new List<ReferenceFeature>();
-        foreach (var node in h["features"]!.AsArray())
+        // The same features as elements, in the same order, for their fine grids.
+        var featureElements = root.GetProperty("features").EnumerateArray().ToArray();
+        foreach (var (node, element) in h["features"]!.AsArray().Zip(featureElements))
         {
             var f = node!.AsObject();
             var name = (string)f["name"]!;
@@ -348,7 +352,7 @@ internal static class ReferenceFile
                     ? new FarTailCounts((double)ft["low"]!, (double)ft["high"]!, (double)ft["below_w"]!, (double)ft["below_w2"]!,
                         (double)ft["above_w"]!, (double)ft["above_w2"]!, (double)ft["total_w"]!, (double)ft["total_w2"]!)
                     : null,
-                FineGridFromJson(path, name, f["fine_grid"])));
+                FineGridFromJson(path, name, element.TryGetProperty("fine_grid", out var grid) ? grid : default)));
         }
         var inputs = h["inputs"]!.AsArray()
             .Select(i => new ReferenceInput((string)i!["path"]!, (long)i["bytes"]!, (string)i["sha256"]!)).ToList();
@@ -501,26 +505,24 @@ internal static class ReferenceFile
 
     private static JsonArray Numbers(double[] values) => new(values.Select(v => (JsonNode)JsonValue.Create(v)!).ToArray());
 
-    private static FineGridCells? FineGridFromJson(string path, string feature, JsonNode? node)
+    private static FineGridCells? FineGridFromJson(string path, string feature, JsonElement g)
     {
-        if (node is not JsonObject g) return null;
-        // Thousands of numbers per feature: read from the array's UTF-8 text by one reader rather than a node per
-        // number (written straight as UTF-8, not through a string).
-        static double[] Read(JsonNode? a)
+        if (g.ValueKind != JsonValueKind.Object) return null;
+        // Thousands of numbers per feature: read from the document's elements into an array of their count, not
+        // through a node per number, nor through text written again and a growing list.
+        static double[] Read(JsonElement a)
         {
-            var text = new System.Buffers.ArrayBufferWriter<byte>();
-            using (var writer = new Utf8JsonWriter(text)) a!.AsArray().WriteTo(writer);
-            var reader = new Utf8JsonReader(text.WrittenSpan);
-            var values = new List<double>();
-            reader.Read();
-            while (reader.Read() && reader.TokenType != JsonTokenType.EndArray) values.Add(reader.GetDouble());
-            return values.ToArray();
+            var values = new double[a.GetArrayLength()];
+            var i = 0;
+            foreach (var v in a.EnumerateArray()) values[i++] = v.GetDouble();
+            return values;
         }
-        var edges = Read(g["edges"]);
-        var sumW = Read(g["sum_w"]);
-        var sumW2 = g["sum_w2"] is null ? sumW.ToArray() : Read(g["sum_w2"]);
+        var edges = Read(g.GetProperty("edges"));
+        var sumW = Read(g.GetProperty("sum_w"));
+        var sumW2 = g.TryGetProperty("sum_w2", out var w2) && w2.ValueKind != JsonValueKind.Null ? Read(w2) : sumW.ToArray();
         if (edges.Length < 2 || sumW.Length != edges.Length + 1 || sumW2.Length != sumW.Length || edges.Zip(edges.Skip(1)).Any(p => !(p.Second > p.First)))
             throw Unreadable(path, $"feature '{feature}' has a fine grid of {edges.Length} edges and {sumW.Length} cells, which do not fit each other");
-        return new FineGridCells(edges, sumW, sumW2, (double)g["below_moment"]!, (double)g["below_moment2"]!, (double)g["above_moment"]!, (double)g["above_moment2"]!);
+        return new FineGridCells(edges, sumW, sumW2, g.GetProperty("below_moment").GetDouble(), g.GetProperty("below_moment2").GetDouble(),
+            g.GetProperty("above_moment").GetDouble(), g.GetProperty("above_moment2").GetDouble());
     }
 }
