@@ -13,11 +13,11 @@ namespace GateTasks.Engine.Tests.Statistics;
 /// </summary>
 public class WassersteinThreeTests
 {
-    [Theory]
-    [InlineData(4_105, 1)]
-    [InlineData(41, 2)]
-    [InlineData(2, 3)]
-    public void Three_distances_at_once_have_the_bits_of_each_alone(int edgeCount, int seed)
+    /// <summary>
+    /// Random fine-grid edges and 20 replicas of <paramref name="count"/> packed cell arrays (below moment, cells, above
+    /// moment), drawn in the order the two lane tests drew them before they shared this.
+    /// </summary>
+    private static (double[] Edges, double[][][] Replicas) Replicas(int edgeCount, int seed, int count)
     {
         var rng = new Xoshiro256StarStar(seed);
         var edges = new double[edgeCount];
@@ -27,9 +27,20 @@ public class WassersteinThreeTests
         double[] Packed(double[] shape, double noise) =>
             [rng.NextDouble(), .. shape.Select(s => Math.Max(0, s + noise * (rng.NextDouble() - 0.5))), rng.NextDouble()];
         var shape = Enumerable.Range(0, edgeCount + 1).Select(_ => 50 + 10 * rng.NextDouble()).ToArray();
-        for (var replica = 0; replica < 20; replica++)
+        var replicas = new double[20][][];
+        for (var r = 0; r < replicas.Length; r++) replicas[r] = Enumerable.Range(0, count).Select(_ => Packed(shape, 8)).ToArray();
+        return (edges, replicas);
+    }
+
+    [Theory]
+    [InlineData(4_105, 1)]
+    [InlineData(41, 2)]
+    [InlineData(2, 3)]
+    public void Three_distances_at_once_have_the_bits_of_each_alone(int edgeCount, int seed)
+    {
+        var (edges, replicas) = Replicas(edgeCount, seed, 6);
+        foreach (var p in replicas)
         {
-            var p = Enumerable.Range(0, 6).Select(_ => Packed(shape, 8)).ToArray();
             double One(double[] a, double[] b) => Wasserstein.FineGrid(edges, a.AsSpan(1, a.Length - 2), a[0], a[^1], b.AsSpan(1, b.Length - 2), b[0], b[^1]);
             var (x, y, z) = Wasserstein.FineGridThree(edges, p[0], p[1], p[2], p[3], p[4], p[5]);
             Assert.Equal(BitConverter.DoubleToInt64Bits(One(p[0], p[1])), BitConverter.DoubleToInt64Bits(x));
@@ -45,16 +56,9 @@ public class WassersteinThreeTests
     public void Four_distances_at_once_have_the_bits_of_each_alone(int edgeCount, int seed)
     {
         // The program compared with itself, as above, with four different pairs.
-        var rng = new Xoshiro256StarStar(seed);
-        var edges = new double[edgeCount];
-        edges[0] = -3;
-        for (var i = 1; i < edgeCount; i++) edges[i] = edges[i - 1] + Math.Exp(3 * rng.NextDouble() - 4);
-        double[] Packed(double[] shape, double noise) =>
-            [rng.NextDouble(), .. shape.Select(s => Math.Max(0, s + noise * (rng.NextDouble() - 0.5))), rng.NextDouble()];
-        var shape = Enumerable.Range(0, edgeCount + 1).Select(_ => 50 + 10 * rng.NextDouble()).ToArray();
-        for (var replica = 0; replica < 20; replica++)
+        var (edges, replicas) = Replicas(edgeCount, seed, 8);
+        foreach (var p in replicas)
         {
-            var p = Enumerable.Range(0, 8).Select(_ => Packed(shape, 8)).ToArray();
             double One(double[] a, double[] b) => Wasserstein.FineGrid(edges, a.AsSpan(1, a.Length - 2), a[0], a[^1], b.AsSpan(1, b.Length - 2), b[0], b[^1]);
             var (w, x, y, z) = Wasserstein.FineGridFour(edges, p[0], p[1], p[2], p[3], p[4], p[5], p[6], p[7]);
             Assert.Equal(BitConverter.DoubleToInt64Bits(One(p[0], p[1])), BitConverter.DoubleToInt64Bits(w));
